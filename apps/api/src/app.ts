@@ -1,0 +1,118 @@
+import { randomUUID } from "node:crypto";
+import { existsSync } from "node:fs";
+import { join } from "node:path";
+import cookieSession from "cookie-session";
+import express, { type NextFunction, type Request, type Response } from "express";
+import helmet from "helmet";
+import { pinoHttp } from "pino-http";
+import type { DataSource } from "typeorm";
+import type { AppConfig } from "./config.ts";
+import { apiNotFound, errorHandler } from "./http/errors.ts";
+import { requireCsrfToken } from "./http/csrf.ts";
+import { sessionOf } from "./http/context.ts";
+import { createRateLimits } from "./http/rate-limits.ts";
+import type { Mailer } from "./integrations/mail.ts";
+import type { Payments } from "./integrations/payments.ts";
+import type { PhotoStorage } from "./integrations/storage.ts";
+import type { Logger } from "./logger.ts";
+import { accountRoutes } from "./routes/account-routes.ts";
+import { healthRoutes } from "./routes/health-routes.ts";
+import { createAccountService, SESSION_DAYS } from "./services/account-service.ts";
+
+export interface AppDependencies {
+  config: AppConfig;
+  dataSource: DataSource;
+  mailer: Mailer;
+  storage: PhotoStorage;
+  payments: Payments;
+  logger: Logger;
+  now?: () => Date;
+}
+
+export function createApp(deps: AppDependencies) {
+  const { config, logger } = deps;
+  const production = config.environment === "production";
+  const app = express();
+  app.disable("x-powered-by");
+  app.set("trust proxy", production ? 1 : false);
+
+  app.use(
+    pinoHttp({
+      logger,
+      genReqId: (req, res) => {
+        const id = randomUUID();
+        res.setHeader("x-request-id", id);
+        return id;
+      },
+      customLogLevel: (_req, res, error) => (error || res.statusCode >= 500 ? "error" : res.statusCode >= 400 ? "warn" : "info"),
+      serializers: { req: (req) => ({ id: req.id, method: req.method, url: req.url }) },
+    }),
+  );
+
+  // Only our own origin, everywhere. Naive UI writes its styles into <style> tags at run time,
+  // hence 'unsafe-inline' for styles only; scripts must come from our own files.
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", "data:", "blob:"],
+          fontSrc: ["'self'", "data:"],
+          connectSrc: ["'self'"],
+          formAction: ["'self'"],
+          frameAncestors: ["'none'"],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          ...(production ? { upgradeInsecureRequests: [] } : {}),
+        },
+      },
+      strictTransportSecurity: production,
+    }),
+  );
+
+  app.use(
+    cookieSession({
+      name: "grainyard_session",
+      keys: [config.sessionSecret],
+      signed: true,
+      httpOnly: true,
+      sameSite: "lax",
+      secure: production,
+      maxAge: SESSION_DAYS * 86400_000,
+    }),
+  );
+  app.use(express.json({ limit: "100kb" }));
+
+  const accounts = createAccountService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
+
+  // Who is acting: read once per request from the session key in the cookie.
+  app.use(async (req: Request, _res: Response, next: NextFunction) => {
+    try {
+      const { actor } = await accounts.actorForSession(sessionOf(req).key);
+      req.actor = actor;
+      next();
+    } catch (error) {
+      next(error);
+    }
+  });
+
+  app.use("/api", healthRoutes(deps));
+  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)));
+  app.use("/api", apiNotFound);
+
+  // The built web app, with the single-page fallback for its own routes.
+  if (config.webDist && existsSync(join(config.webDist, "index.html"))) {
+    const webDist = config.webDist;
+    app.use(express.static(webDist, { index: false, maxAge: production ? "1h" : 0 }));
+    app.get("/{*path}", (_req, res) => {
+      res.setHeader("cache-control", "no-cache");
+      res.sendFile(join(webDist, "index.html"));
+    });
+  }
+
+  app.use(errorHandler);
+  return app;
+}

@@ -1,0 +1,24 @@
+import { describe, expect, it } from "vitest";
+import { ConfigError, loadConfig } from "./config.ts";
+
+const base = { SESSION_SECRET: "s".repeat(40) };
+
+describe("configuration", () => {
+  it("refuses bcrypt cost below 12 outside tests", () => {
+    expect(() => loadConfig({ ...base, NODE_ENV: "production", BCRYPT_COST: "10" })).toThrow(ConfigError);
+    expect(() => loadConfig({ ...base, NODE_ENV: "development", BCRYPT_COST: "4" })).toThrow(/BCRYPT_COST/);
+    expect(loadConfig({ ...base, NODE_ENV: "test", BCRYPT_COST: "4" }).bcryptCost).toBe(4);
+    expect(loadConfig({ ...base, NODE_ENV: "production" }).bcryptCost).toBe(12);
+  });
+
+  it("needs a session secret of at least 32 characters", () => {
+    expect(() => loadConfig({ SESSION_SECRET: "short" })).toThrow(/SESSION_SECRET/);
+  });
+
+  it("reads the stack endpoints from the environment", () => {
+    const config = loadConfig({ ...base, DATABASE_PORT: "5085", S3_ENDPOINT: "http://127.0.0.1:5083", PAYMENTS_PROTOCOL: "http", PAYMENTS_PORT: "5082" });
+    expect(config.database.port).toBe(5085);
+    expect(config.storage.endpoint).toBe("http://127.0.0.1:5083");
+    expect(config.payments).toMatchObject({ protocol: "http", port: 5082 });
+  });
+});

@@ -1,0 +1,100 @@
+import { z } from "zod";
+
+/**
+ * Everything the API needs from outside comes from environment variables, read and checked once
+ * here. The same names configure the local stack, the tests and the Docker image.
+ */
+const environmentSchema = z.object({
+  NODE_ENV: z.enum(["production", "development", "test"]).default("development"),
+  PORT: z.coerce.number().int().min(1).max(65535).default(5080),
+  HOST: z.string().default("127.0.0.1"),
+  PUBLIC_URL: z.url().default("http://127.0.0.1:5080"),
+  SESSION_SECRET: z.string().min(32, "SESSION_SECRET must be at least 32 characters."),
+  DATABASE_HOST: z.string().default("127.0.0.1"),
+  DATABASE_PORT: z.coerce.number().int().default(3306),
+  DATABASE_USER: z.string().default("grainyard"),
+  DATABASE_PASSWORD: z.string().default(""),
+  DATABASE_NAME: z.string().default("grainyard"),
+  S3_ENDPOINT: z.url().optional(),
+  S3_REGION: z.string().default("us-east-1"),
+  S3_BUCKET: z.string().default("grainyard-photos"),
+  S3_ACCESS_KEY_ID: z.string().default(""),
+  S3_SECRET_ACCESS_KEY: z.string().default(""),
+  S3_FORCE_PATH_STYLE: z.enum(["true", "false"]).default("true"),
+  SMTP_HOST: z.string().default("127.0.0.1"),
+  SMTP_PORT: z.coerce.number().int().default(25),
+  SMTP_SECURE: z.enum(["true", "false"]).default("false"),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  MAIL_FROM: z.string().default("Grainyard <hello@grainyard.test>"),
+  PAYMENTS_HOST: z.string().default("127.0.0.1"),
+  PAYMENTS_PORT: z.coerce.number().int().default(443),
+  PAYMENTS_PROTOCOL: z.enum(["http", "https"]).default("https"),
+  PAYMENTS_SECRET_KEY: z.string().default("sk_test_grainyard_local"),
+  BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),
+  WEB_DIST: z.string().optional(),
+  LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
+  SIGN_IN_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(5),
+  SIGN_IN_LIMIT_PER_IP: z.coerce.number().int().min(1).default(30),
+  RESET_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(3),
+  RESET_LIMIT_PER_IP: z.coerce.number().int().min(1).default(20),
+});
+
+export interface AppConfig {
+  environment: "production" | "development" | "test";
+  port: number;
+  host: string;
+  publicUrl: string;
+  sessionSecret: string;
+  database: { host: string; port: number; user: string; password: string; database: string };
+  storage: { endpoint?: string; region: string; bucket: string; accessKeyId: string; secretAccessKey: string; forcePathStyle: boolean };
+  mail: { host: string; port: number; secure: boolean; user?: string; password?: string; from: string };
+  payments: { host: string; port: number; protocol: "http" | "https"; secretKey: string };
+  bcryptCost: number;
+  webDist?: string;
+  logLevel: string;
+  limits: { signInPerAccount: number; signInPerIp: number; resetPerAccount: number; resetPerIp: number; windowMs: number };
+}
+
+export class ConfigError extends Error {}
+
+export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppConfig {
+  const parsed = environmentSchema.safeParse(environment);
+  if (!parsed.success) {
+    const first = parsed.error.issues[0]!;
+    throw new ConfigError(`configuration: ${first.path.join(".")}: ${first.message}`);
+  }
+  const env = parsed.data;
+  // Cost 12 or more outside tests: weaker hashing is only for fast test runs.
+  if (env.NODE_ENV !== "test" && env.BCRYPT_COST < 12) {
+    throw new ConfigError("configuration: BCRYPT_COST below 12 is allowed only when NODE_ENV=test.");
+  }
+  return {
+    environment: env.NODE_ENV,
+    port: env.PORT,
+    host: env.HOST,
+    publicUrl: env.PUBLIC_URL.replace(/\/$/, ""),
+    sessionSecret: env.SESSION_SECRET,
+    database: { host: env.DATABASE_HOST, port: env.DATABASE_PORT, user: env.DATABASE_USER, password: env.DATABASE_PASSWORD, database: env.DATABASE_NAME },
+    storage: {
+      endpoint: env.S3_ENDPOINT,
+      region: env.S3_REGION,
+      bucket: env.S3_BUCKET,
+      accessKeyId: env.S3_ACCESS_KEY_ID,
+      secretAccessKey: env.S3_SECRET_ACCESS_KEY,
+      forcePathStyle: env.S3_FORCE_PATH_STYLE === "true",
+    },
+    mail: { host: env.SMTP_HOST, port: env.SMTP_PORT, secure: env.SMTP_SECURE === "true", user: env.SMTP_USER, password: env.SMTP_PASSWORD, from: env.MAIL_FROM },
+    payments: { host: env.PAYMENTS_HOST, port: env.PAYMENTS_PORT, protocol: env.PAYMENTS_PROTOCOL, secretKey: env.PAYMENTS_SECRET_KEY },
+    bcryptCost: env.BCRYPT_COST,
+    webDist: env.WEB_DIST,
+    logLevel: env.LOG_LEVEL,
+    limits: {
+      signInPerAccount: env.SIGN_IN_LIMIT_PER_ACCOUNT,
+      signInPerIp: env.SIGN_IN_LIMIT_PER_IP,
+      resetPerAccount: env.RESET_LIMIT_PER_ACCOUNT,
+      resetPerIp: env.RESET_LIMIT_PER_IP,
+      windowMs: 15 * 60 * 1000,
+    },
+  };
+}

@@ -1,0 +1,36 @@
+import { Column, CreateDateColumn, Entity, PrimaryColumn, UpdateDateColumn } from "typeorm";
+import type { Role } from "@grainyard/contracts";
+
+/** A person who signs in: a buyer, a sawyer (with a yard) or an admin. */
+@Entity({ name: "account" })
+export class AccountEntity {
+  @PrimaryColumn({ type: "char", length: 36 })
+  id: string;
+
+  @Column({ type: "varchar", length: 254, unique: true })
+  email: string;
+
+  @Column({ name: "password_hash", type: "varchar", length: 100 })
+  passwordHash: string;
+
+  @Column({ type: "varchar", length: 16 })
+  role: Role;
+
+  @Column({ name: "display_name", type: "varchar", length: 80 })
+  displayName: string;
+
+  @Column({ name: "yard_name", type: "varchar", length: 80, nullable: true })
+  yardName: string | null;
+
+  @Column({ name: "pickup_town", type: "varchar", length: 80, nullable: true })
+  pickupTown: string | null;
+
+  @Column({ name: "email_verified_at", type: "datetime", precision: 3, nullable: true })
+  emailVerifiedAt: Date | null;
+
+  @CreateDateColumn({ name: "created_at", type: "datetime", precision: 3, default: () => "CURRENT_TIMESTAMP(3)" })
+  createdAt: Date;
+
+  @UpdateDateColumn({ name: "updated_at", type: "datetime", precision: 3, default: () => "CURRENT_TIMESTAMP(3)", onUpdate: "CURRENT_TIMESTAMP(3)" })
+  updatedAt: Date;
+}

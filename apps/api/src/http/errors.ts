@@ -1,0 +1,30 @@
+import type { ErrorRequestHandler, RequestHandler } from "express";
+import { AppError } from "../errors.ts";
+
+/** Unknown API routes answer JSON, never the web app's HTML. */
+export const apiNotFound: RequestHandler = (req, res) => {
+  res.status(404).json({ error: { code: "not_found", message: `There is no ${req.method} ${req.originalUrl.split("?")[0]} in the Grainyard API.` } });
+};
+
+/** Maps every error to `{ error: { code, message, fields? } }`; internals never leave the server. */
+export const errorHandler: ErrorRequestHandler = (error, req, res, _next) => {
+  if (error instanceof AppError) {
+    res.status(error.status).json({ error: { code: error.code, message: error.message, ...(error.fields ? { fields: error.fields } : {}) } });
+    return;
+  }
+  const bodyError = error as { type?: string; status?: number };
+  if (bodyError.type === "entity.parse.failed") {
+    res.status(400).json({ error: { code: "malformed_request", message: "The request body is not valid JSON." } });
+    return;
+  }
+  if (bodyError.type === "entity.too.large") {
+    res.status(413).json({ error: { code: "too_large", message: "The request body is too large." } });
+    return;
+  }
+  if (typeof bodyError.status === "number" && bodyError.status >= 400 && bodyError.status < 500) {
+    res.status(bodyError.status).json({ error: { code: "malformed_request", message: "The request could not be read." } });
+    return;
+  }
+  req.log?.error({ err: error }, "unhandled error");
+  res.status(500).json({ error: { code: "internal", message: "Something went wrong on our side. Please try again in a moment." } });
+};

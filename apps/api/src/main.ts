@@ -1,0 +1,53 @@
+import { loadConfig, ConfigError } from "./config.ts";
+import { createApp } from "./app.ts";
+import { createDataSource } from "./db/data-source.ts";
+import { createMailer } from "./integrations/mail.ts";
+import { createPayments } from "./integrations/payments.ts";
+import { createPhotoStorage } from "./integrations/storage.ts";
+import { createLogger } from "./logger.ts";
+
+let config;
+try {
+  config = loadConfig();
+} catch (error) {
+  if (error instanceof ConfigError) {
+    console.error(`grainyard-api: ${error.message}`);
+    process.exit(1);
+  }
+  throw error;
+}
+const logger = createLogger(config.logLevel);
+const dataSource = createDataSource(config.database);
+try {
+  await dataSource.initialize();
+} catch (error) {
+  console.error(`grainyard-api: cannot reach MariaDB at ${config.database.host}:${config.database.port}: ${(error as Error).message}`);
+  process.exit(1);
+}
+const mailer = createMailer(config.mail);
+const storage = createPhotoStorage(config.storage);
+const payments = createPayments(config.payments);
+const app = createApp({ config, dataSource, mailer, storage, payments, logger });
+
+const server = app.listen(config.port, config.host, () => {
+  logger.info({ url: `http://${config.host}:${config.port}` }, "grainyard api listening");
+});
+server.on("error", (error: NodeJS.ErrnoException) => {
+  console.error(`grainyard-api: cannot listen on ${config.host}:${config.port}: ${error.code ?? error.message}`);
+  process.exit(1);
+});
+
+let stopping = false;
+async function shutdown(signal: string) {
+  if (stopping) return;
+  stopping = true;
+  logger.info({ signal }, "shutting down");
+  server.close();
+  server.closeAllConnections();
+  mailer.close();
+  storage.close();
+  await dataSource.destroy().catch(() => undefined);
+  process.exit(0);
+}
+process.on("SIGTERM", () => void shutdown("SIGTERM"));
+process.on("SIGINT", () => void shutdown("SIGINT"));

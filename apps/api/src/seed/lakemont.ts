@@ -1,0 +1,76 @@
+import { randomUUID } from "node:crypto";
+import type { DataSource } from "typeorm";
+import type { Role } from "@grainyard/contracts";
+import { AccountEntity } from "../entities/index.ts";
+import { hashPassword } from "../services/passwords.ts";
+
+/**
+ * The Lakemont demo: an invented lake city, its urban sawyers and some buyers.
+ * Names, yards, towns and addresses are made up; the .test domain never delivers mail.
+ */
+export interface DemoAccount {
+  email: string;
+  password: string;
+  role: Role;
+  displayName: string;
+  yardName?: string;
+  pickupTown?: string;
+  note: string;
+}
+
+export const demoAccounts: DemoAccount[] = [
+  { email: "desk@grainyard.test", password: "lakemont-desk-2026", role: "admin", displayName: "Grainyard desk (Wren Halloway)", note: "admin" },
+  {
+    email: "yard@ridgeback-timber.test",
+    password: "ridgeback-bandmill-2026",
+    role: "sawyer",
+    displayName: "Oskar Lindqvist",
+    yardName: "Ridgeback Urban Timber",
+    pickupTown: "Lakemont",
+    note: "sawyer, two-person band-mill yard",
+  },
+  {
+    email: "hello@cobblelane-slabs.test",
+    password: "cobblelane-chainsaw-2026",
+    role: "sawyer",
+    displayName: "Dana Okafor",
+    yardName: "Cobble Lane Slabworks",
+    pickupTown: "East Lakemont",
+    note: "sawyer, chainsaw mill with the city's tree crews",
+  },
+  {
+    email: "kiln@northshore-coop.test",
+    password: "northshore-kiln-2026",
+    role: "sawyer",
+    displayName: "Priya Marchetti",
+    yardName: "Northshore Kiln Co-op",
+    pickupTown: "Northshore",
+    note: "sawyer, shared kiln co-op",
+  },
+  { email: "shop@fernhill-furniture.test", password: "fernhill-benches-2026", role: "buyer", displayName: "Fernhill Furniture Shop", note: "buyer, small furniture shop" },
+  { email: "ana.theo@lakemont-home.test", password: "first-dining-table-26", role: "buyer", displayName: "Ana and Theo Brandt", note: "buyer, first dining table" },
+  { email: "studio@calloway-interiors.test", password: "bookmatched-pair-2026", role: "buyer", displayName: "Ines Calloway", note: "buyer, interior designer" },
+];
+
+/** Adds the demo accounts that are missing; running it twice adds nothing twice. */
+export async function seedLakemont(dataSource: DataSource, bcryptCost: number): Promise<{ created: number }> {
+  let created = 0;
+  await dataSource.transaction(async (manager) => {
+    const repository = manager.getRepository(AccountEntity);
+    for (const demo of demoAccounts) {
+      if (await repository.exists({ where: { email: demo.email } })) continue;
+      await repository.insert({
+        id: randomUUID(),
+        email: demo.email,
+        passwordHash: await hashPassword(demo.password, bcryptCost),
+        role: demo.role,
+        displayName: demo.displayName,
+        yardName: demo.yardName ?? null,
+        pickupTown: demo.pickupTown ?? null,
+        emailVerifiedAt: new Date(),
+      });
+      created += 1;
+    }
+  });
+  return { created };
+}

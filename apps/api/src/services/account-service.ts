@@ -1,0 +1,239 @@
+import { randomUUID } from "node:crypto";
+import type {
+  Account,
+  PasswordResetInput,
+  PasswordResetRequestInput,
+  SignInInput,
+  SignUpInput,
+  UserSearchInput,
+  VerifyEmailInput,
+  YardProfileUpdateInput,
+} from "@grainyard/contracts";
+import { Brackets, IsNull, type DataSource, type EntityManager } from "typeorm";
+import type { AppConfig } from "../config.ts";
+import { AccountEntity, EmailTokenEntity, SessionRecordEntity } from "../entities/index.ts";
+import type { EmailTokenPurpose } from "../entities/email-token.ts";
+import { Conflict, Forbidden, Gone, Invalid, NotFound, Unauthorized } from "../errors.ts";
+import type { Mailer } from "../integrations/mail.ts";
+import { passwordResetMail, verificationMail } from "../mail-templates.ts";
+import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
+import { decoyPasswordCheck, hashPassword, isCommonPassword, passwordMatches } from "./passwords.ts";
+import { newToken, tokenHash } from "./tokens.ts";
+
+export const SESSION_DAYS = 14;
+const VERIFY_HOURS = 48;
+const RESET_HOURS = 1;
+
+export interface AccountServiceDependencies {
+  dataSource: DataSource;
+  mailer: Mailer;
+  config: Pick<AppConfig, "bcryptCost" | "publicUrl">;
+  log: { error(object: object, message: string): void; info(object: object, message: string): void };
+  now?: () => Date;
+}
+
+export function toAccount(entity: AccountEntity): Account {
+  return {
+    id: entity.id,
+    email: entity.email,
+    displayName: entity.displayName,
+    role: entity.role,
+    emailVerified: entity.emailVerifiedAt !== null,
+    yardName: entity.yardName,
+    pickupTown: entity.pickupTown,
+    createdAt: entity.createdAt.toISOString(),
+  };
+}
+
+const COMMON_PASSWORD_MESSAGE = "That password is on a list of common passwords. Choose one that is harder to guess.";
+
+export function createAccountService(deps: AccountServiceDependencies) {
+  const { dataSource, mailer, config, log } = deps;
+  const now = deps.now ?? (() => new Date());
+  const accounts = () => dataSource.getRepository(AccountEntity);
+
+  async function issueToken(manager: EntityManager, accountId: string, purpose: EmailTokenPurpose, hours: number): Promise<string> {
+    const token = newToken();
+    await manager.getRepository(EmailTokenEntity).insert({
+      accountId,
+      purpose,
+      tokenHash: tokenHash(token),
+      expiresAt: new Date(now().getTime() + hours * 3600_000),
+      usedAt: null,
+    });
+    return token;
+  }
+
+  /** Marks a token used exactly once; explains clearly when it is unknown, used or expired. */
+  async function consumeToken(manager: EntityManager, token: string, purpose: EmailTokenPurpose): Promise<EmailTokenEntity> {
+    const repository = manager.getRepository(EmailTokenEntity);
+    const hash = tokenHash(token);
+    const found = await repository.findOne({ where: { tokenHash: hash, purpose }, lock: { mode: "pessimistic_write" } });
+    const noun = purpose === "verify_email" ? "confirmation" : "reset";
+    if (!found) throw new Invalid(`That ${noun} link is not valid. Copy the whole link from the e-mail.`, { token: "Unknown link." }, "link_invalid");
+    if (found.usedAt) throw new Gone(`That ${noun} link has already been used.`, "link_used");
+    if (found.expiresAt.getTime() <= now().getTime()) throw new Gone(`That ${noun} link has expired. Ask for a new one.`, "link_expired");
+    const result = await repository.update({ id: found.id, usedAt: IsNull() }, { usedAt: now() });
+    if (result.affected !== 1) throw new Gone(`That ${noun} link has already been used.`, "link_used");
+    return found;
+  }
+
+  async function sendSafely(kind: string, send: () => Promise<void>) {
+    try {
+      await send();
+    } catch (error) {
+      log.error({ err: error, kind }, "could not send e-mail");
+    }
+  }
+
+  return {
+    /** Creates a buyer or sawyer account (never an admin) and mails a confirmation link. */
+    async signUp(actor: Actor, input: SignUpInput): Promise<Account> {
+      if (actor.kind === "account") throw new Conflict("You are already signed in. Sign out to create another account.", "already_signed_in");
+      if ((input.role as string) === "admin") throw new Forbidden("Admin accounts cannot be created here.");
+      if (isCommonPassword(input.password)) throw new Invalid(COMMON_PASSWORD_MESSAGE, { password: COMMON_PASSWORD_MESSAGE });
+      const passwordHash = await hashPassword(input.password, config.bcryptCost);
+      const { account, token } = await dataSource.transaction(async (manager) => {
+        const repository = manager.getRepository(AccountEntity);
+        if (await repository.exists({ where: { email: input.email } })) {
+          throw new Conflict("An account with this e-mail already exists. Sign in, or reset your password.", "email_taken");
+        }
+        const entity = repository.create({
+          id: randomUUID(),
+          email: input.email,
+          passwordHash,
+          role: input.role,
+          displayName: input.displayName,
+          yardName: input.role === "sawyer" ? input.yardName : null,
+          pickupTown: input.role === "sawyer" ? input.pickupTown : null,
+          emailVerifiedAt: null,
+        });
+        await repository.insert(entity);
+        const saved = await repository.findOneByOrFail({ id: entity.id });
+        return { account: saved, token: await issueToken(manager, saved.id, "verify_email", VERIFY_HOURS) };
+      });
+      await sendSafely("verify_email", () =>
+        mailer.send(verificationMail(account.email, account.displayName, `${config.publicUrl}/verify-email?token=${token}`)),
+      );
+      log.info({ accountId: account.id, role: account.role }, "account created");
+      return toAccount(account);
+    },
+
+    /** Checks the password and opens a session; returns the session key for the cookie. */
+    async signIn(input: SignInInput): Promise<{ account: Account; sessionKey: string }> {
+      const entity = await accounts().findOne({ where: { email: input.email } });
+      const matches = entity ? await passwordMatches(input.password, entity.passwordHash) : await decoyPasswordCheck(input.password, config.bcryptCost);
+      if (!entity || !matches) throw new Unauthorized("That e-mail and password do not match an account.", "wrong_credentials");
+      const sessionKey = newToken();
+      await dataSource.getRepository(SessionRecordEntity).insert({
+        keyHash: tokenHash(sessionKey),
+        accountId: entity.id,
+        expiresAt: new Date(now().getTime() + SESSION_DAYS * 86400_000),
+        revokedAt: null,
+      });
+      return { account: toAccount(entity), sessionKey };
+    },
+
+    /** Finds the account behind a session key, if the session is live. */
+    async actorForSession(sessionKey: string | undefined): Promise<{ actor: Actor; account: AccountEntity | null }> {
+      if (!sessionKey) return { actor: { kind: "anonymous" }, account: null };
+      const keyHash = tokenHash(sessionKey);
+      const record = await dataSource.getRepository(SessionRecordEntity).findOne({ where: { keyHash, revokedAt: IsNull() }, relations: { account: true } });
+      if (!record?.account || record.expiresAt.getTime() <= now().getTime()) return { actor: { kind: "anonymous" }, account: null };
+      const account = record.account;
+      return {
+        actor: { kind: "account", accountId: account.id, role: account.role, emailVerified: account.emailVerifiedAt !== null, sessionKeyHash: keyHash },
+        account,
+      };
+    },
+
+    /** Ends this session for good: the stored record is revoked, so the old cookie no longer works. */
+    async signOut(actor: Actor): Promise<void> {
+      if (actor.kind !== "account") return;
+      await dataSource.getRepository(SessionRecordEntity).update({ keyHash: actor.sessionKeyHash }, { revokedAt: now() });
+    },
+
+    async verifyEmail(input: VerifyEmailInput): Promise<{ verified: true }> {
+      await dataSource.transaction(async (manager) => {
+        const token = await consumeToken(manager, input.token, "verify_email");
+        await manager.getRepository(AccountEntity).update({ id: token.accountId, emailVerifiedAt: IsNull() }, { emailVerifiedAt: now() });
+      });
+      return { verified: true };
+    },
+
+    async resendVerification(actor: Actor): Promise<void> {
+      const signedIn = requireSignedIn(actor);
+      const account = await accounts().findOneByOrFail({ id: signedIn.accountId });
+      if (account.emailVerifiedAt) throw new Conflict("Your e-mail is already confirmed.", "already_verified");
+      const token = await dataSource.transaction((manager) => issueToken(manager, account.id, "verify_email", VERIFY_HOURS));
+      await sendSafely("verify_email", () =>
+        mailer.send(verificationMail(account.email, account.displayName, `${config.publicUrl}/verify-email?token=${token}`)),
+      );
+    },
+
+    /** Answers the same whether or not the address has an account; mails a link only when it does. */
+    async requestPasswordReset(input: PasswordResetRequestInput): Promise<void> {
+      const account = await accounts().findOne({ where: { email: input.email } });
+      if (!account) return;
+      const token = await dataSource.transaction((manager) => issueToken(manager, account.id, "reset_password", RESET_HOURS));
+      await sendSafely("reset_password", () =>
+        mailer.send(passwordResetMail(account.email, account.displayName, `${config.publicUrl}/reset-password?token=${token}`)),
+      );
+    },
+
+    /** Sets a new password from a mailed token, ends every open session and spends other reset links. */
+    async resetPassword(input: PasswordResetInput): Promise<void> {
+      if (isCommonPassword(input.password)) throw new Invalid(COMMON_PASSWORD_MESSAGE, { password: COMMON_PASSWORD_MESSAGE });
+      const passwordHash = await hashPassword(input.password, config.bcryptCost);
+      await dataSource.transaction(async (manager) => {
+        const token = await consumeToken(manager, input.token, "reset_password");
+        const at = now();
+        const account = await manager.getRepository(AccountEntity).findOneByOrFail({ id: token.accountId });
+        // The link reached the inbox, which also proves the address.
+        await manager.getRepository(AccountEntity).update({ id: account.id }, { passwordHash, emailVerifiedAt: account.emailVerifiedAt ?? at });
+        await manager.getRepository(SessionRecordEntity).update({ accountId: account.id, revokedAt: IsNull() }, { revokedAt: at });
+        await manager.getRepository(EmailTokenEntity).update({ accountId: account.id, purpose: "reset_password", usedAt: IsNull() }, { usedAt: at });
+      });
+    },
+
+    async currentAccount(actor: Actor): Promise<Account | null> {
+      if (actor.kind !== "account") return null;
+      const entity = await accounts().findOneBy({ id: actor.accountId });
+      return entity ? toAccount(entity) : null;
+    },
+
+    /** A sawyer's own yard profile. */
+    async ownYard(actor: Actor): Promise<Account> {
+      const sawyer = requireRole(actor, "sawyer");
+      return toAccount(await accounts().findOneByOrFail({ id: sawyer.accountId }));
+    },
+
+    /** Changes a yard's name or pickup town: its own sawyer, or an admin. */
+    async updateYard(actor: Actor, sawyerId: string, input: YardProfileUpdateInput): Promise<Account> {
+      const signedIn = requireRole(actor, "sawyer", "admin");
+      if (signedIn.role === "sawyer" && signedIn.accountId !== sawyerId) throw new Forbidden("You can only change your own yard.");
+      const yard = await accounts().findOneBy({ id: sawyerId, role: "sawyer" });
+      if (!yard) throw new NotFound("No yard with that id.");
+      await accounts().update({ id: yard.id }, { ...input });
+      return toAccount(await accounts().findOneByOrFail({ id: yard.id }));
+    },
+
+    /** Admin search over accounts by e-mail, name or yard. */
+    async searchAccounts(actor: Actor, input: UserSearchInput): Promise<Account[]> {
+      requireRole(actor, "admin");
+      const query = accounts().createQueryBuilder("account").orderBy("account.created_at", "DESC").limit(100);
+      if (input.role) query.andWhere("account.role = :role", { role: input.role });
+      if (input.query) {
+        const like = `%${input.query.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+        query.andWhere(
+          new Brackets((where) => {
+            where.where("account.email LIKE :like", { like }).orWhere("account.display_name LIKE :like", { like }).orWhere("account.yard_name LIKE :like", { like });
+          }),
+        );
+      }
+      return (await query.getMany()).map(toAccount);
+    },
+  };
+}
+
+export type AccountService = ReturnType<typeof createAccountService>;

@@ -1,0 +1,37 @@
+import { randomUUID } from "node:crypto";
+import type { DataSource } from "typeorm";
+import { emailSchema } from "@grainyard/contracts";
+import { AccountEntity } from "../entities/index.ts";
+import { hashPassword } from "./passwords.ts";
+
+/**
+ * Makes an admin. Called only from the operator's command line (never from an HTTP route), so
+ * the acting user here is the person at the server's shell.
+ */
+export async function createAdmin(
+  dataSource: DataSource,
+  input: { email: string; displayName?: string; password: string; bcryptCost: number },
+): Promise<{ email: string; created: boolean }> {
+  const parsed = emailSchema.safeParse(input.email);
+  if (!parsed.success) throw new Error(`"${input.email}" is not a valid e-mail address.`);
+  const email = parsed.data;
+  return dataSource.transaction(async (manager) => {
+    const repository = manager.getRepository(AccountEntity);
+    const existing = await repository.findOneBy({ email });
+    if (existing) {
+      await repository.update({ id: existing.id }, { role: "admin", yardName: null, pickupTown: null });
+      return { email, created: false };
+    }
+    await repository.insert({
+      id: randomUUID(),
+      email,
+      passwordHash: await hashPassword(input.password, input.bcryptCost),
+      role: "admin",
+      displayName: input.displayName ?? email.split("@")[0]!,
+      yardName: null,
+      pickupTown: null,
+      emailVerifiedAt: new Date(),
+    });
+    return { email, created: true };
+  });
+}

@@ -1,0 +1,135 @@
+import { randomBytes, randomUUID } from "node:crypto";
+import { CSRF_HEADER, type Role } from "@grainyard/contracts";
+import mysql from "mysql2/promise";
+import request from "supertest";
+import type { DataSource } from "typeorm";
+import { createApp } from "../app.ts";
+import { loadConfig, type AppConfig } from "../config.ts";
+import { createDataSource } from "../db/data-source.ts";
+import { AccountEntity } from "../entities/index.ts";
+import { createMailer } from "../integrations/mail.ts";
+import { createPayments } from "../integrations/payments.ts";
+import { createPhotoStorage } from "../integrations/storage.ts";
+import { createLogger } from "../logger.ts";
+import { hashPassword } from "../services/passwords.ts";
+
+/**
+ * API integration tests run against the real local test stack that `npm test` starts: a private
+ * MariaDB (each test file gets its own throwaway database, built by the migrations), the SMTP
+ * mail sink, the S3 fake and the payments fake.
+ */
+export function stackEnvironment(): NodeJS.ProcessEnv {
+  if (!process.env.GRAINYARD_TEST_STACK) {
+    throw new Error("API tests need the local test stack: run `npm test` from the repository root.");
+  }
+  return process.env;
+}
+
+export interface TestClock {
+  now: () => Date;
+  advance(milliseconds: number): void;
+}
+
+export function testClock(): TestClock {
+  let offset = 0;
+  return { now: () => new Date(Date.now() + offset), advance: (ms) => (offset += ms) };
+}
+
+export async function createTestContext(options: { environment?: Record<string, string>; clock?: TestClock } = {}) {
+  const environment = { ...stackEnvironment(), ...options.environment };
+  const database = `grainyard_t_${randomBytes(5).toString("hex")}`;
+  const config: AppConfig = loadConfig({ ...environment, DATABASE_NAME: database });
+  const server = await mysql.createConnection({ host: config.database.host, port: config.database.port, user: config.database.user, password: config.database.password });
+  await server.query(`CREATE DATABASE \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
+  await server.end();
+
+  const dataSource: DataSource = createDataSource(config.database);
+  await dataSource.initialize();
+  await dataSource.runMigrations({ transaction: "each" });
+  const logLines: string[] = [];
+  const logger = createLogger("info", { write: (line: string) => void logLines.push(line) });
+  const mailer = createMailer(config.mail);
+  const storage = createPhotoStorage(config.storage);
+  const payments = createPayments(config.payments);
+  const app = createApp({ config, dataSource, mailer, storage, payments, logger, now: options.clock?.now });
+
+  return {
+    app,
+    config,
+    dataSource,
+    logLines,
+    /** Creates an account straight in the database (already verified unless told otherwise). */
+    async createAccount(role: Role, overrides: Partial<AccountEntity> & { password?: string } = {}) {
+      const password = overrides.password ?? `test-${randomBytes(6).toString("hex")}-pass`;
+      const id = randomUUID();
+      const email = overrides.email ?? `${role}-${id.slice(0, 8)}@lakemont.test`;
+      await dataSource.getRepository(AccountEntity).insert({
+        id,
+        email,
+        passwordHash: await hashPassword(password, config.bcryptCost),
+        role,
+        displayName: overrides.displayName ?? `Test ${role}`,
+        yardName: role === "sawyer" ? (overrides.yardName ?? "Test Yard") : null,
+        pickupTown: role === "sawyer" ? (overrides.pickupTown ?? "Lakemont") : null,
+        emailVerifiedAt: overrides.emailVerifiedAt === undefined ? new Date() : overrides.emailVerifiedAt,
+      });
+      return { id, email, password };
+    },
+    /** A browser-like client: keeps cookies and sends the anti-forgery header on changes. */
+    async client() {
+      return browserClient(app);
+    },
+    async signedInClient(role: Role, overrides: Partial<AccountEntity> & { password?: string } = {}) {
+      const account = await this.createAccount(role, overrides);
+      const client = await browserClient(app);
+      const res = await client.post("/api/v1/session", { email: account.email, password: account.password });
+      if (res.status !== 200) throw new Error(`sign-in for the test failed: ${res.status} ${JSON.stringify(res.body)}`);
+      return Object.assign(client, { account });
+    },
+    async close() {
+      mailer.close();
+      storage.close();
+      await dataSource.query(`DROP DATABASE \`${database}\``);
+      await dataSource.destroy();
+    },
+  };
+}
+
+export type TestContext = Awaited<ReturnType<typeof createTestContext>>;
+
+export async function browserClient(app: Parameters<typeof request.agent>[0]) {
+  const agent = request.agent(app);
+  let csrfToken = (await agent.get("/api/v1/session").expect(200)).body.csrfToken as string;
+  const remember = (res: request.Response) => {
+    if (typeof res.body?.csrfToken === "string") csrfToken = res.body.csrfToken;
+    return res;
+  };
+  return {
+    agent,
+    get csrfToken() {
+      return csrfToken;
+    },
+    get: (path: string) => agent.get(path),
+    post: async (path: string, body?: object) => remember(await agent.post(path).set(CSRF_HEADER, csrfToken).send(body)),
+    patch: async (path: string, body?: object) => remember(await agent.patch(path).set(CSRF_HEADER, csrfToken).send(body)),
+    delete: async (path: string) => remember(await agent.delete(path).set(CSRF_HEADER, csrfToken)),
+  };
+}
+
+export type BrowserClient = Awaited<ReturnType<typeof browserClient>>;
+
+/** Messages the real SMTP sink received for an address, newest first. */
+export async function mailTo(address: string): Promise<{ subject: string; text: string }[]> {
+  const inbox = stackEnvironment().MAIL_INBOX_URL;
+  const response = await fetch(`${inbox}/api/messages?to=${encodeURIComponent(address.toLowerCase())}`);
+  return ((await response.json()) as { messages: { subject: string; text: string }[] }).messages;
+}
+
+/** The token of the newest link of this kind mailed to an address. */
+export async function mailedToken(address: string, path: "verify-email" | "reset-password"): Promise<string> {
+  for (const message of await mailTo(address)) {
+    const match = new RegExp(`/${path}\\?token=([A-Za-z0-9_-]+)`).exec(message.text);
+    if (match) return match[1]!;
+  }
+  throw new Error(`no ${path} link was mailed to ${address}`);
+}

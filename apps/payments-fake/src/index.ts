@@ -1,0 +1,1 @@
+export { createPaymentsFakeApp, type PaymentsFakeOptions } from "./app.ts";

@@ -1,0 +1,46 @@
+import { describe, expect, it } from "vitest";
+import { fieldMessages } from "./common.ts";
+import { signInSchema, signUpSchema, yardProfileUpdateSchema } from "./accounts.ts";
+
+describe("signUpSchema", () => {
+  it("accepts a buyer and normalises the e-mail", () => {
+    const parsed = signUpSchema.parse({ role: "buyer", email: "  Ana.Brandt@Lakemont.TEST ", password: "first-dining-table", displayName: " Ana " });
+    expect(parsed).toEqual({ role: "buyer", email: "ana.brandt@lakemont.test", password: "first-dining-table", displayName: "Ana" });
+  });
+
+  it("asks a sawyer for yard name and pickup town", () => {
+    const result = signUpSchema.safeParse({ role: "sawyer", email: "yard@lakemont.test", password: "long-enough-pass", displayName: "Sam" });
+    expect(result.success).toBe(false);
+    if (!result.success) expect(Object.keys(fieldMessages(result.error)).sort()).toEqual(["pickupTown", "yardName"]);
+  });
+
+  it("refuses the admin role and unknown roles", () => {
+    for (const role of ["admin", "wizard", undefined]) {
+      const result = signUpSchema.safeParse({ role, email: "x@lakemont.test", password: "long-enough-pass", displayName: "X" });
+      expect(result.success, String(role)).toBe(false);
+    }
+  });
+
+  it("needs a password of 10 to 200 characters and a valid address, each with its own message", () => {
+    const result = signUpSchema.safeParse({ role: "buyer", email: "not-an-address", password: "short", displayName: "X" });
+    expect(result.success).toBe(false);
+    if (!result.success) {
+      const fields = fieldMessages(result.error);
+      expect(fields.email).toMatch(/valid e-mail/);
+      expect(fields.password).toMatch(/at least 10/);
+    }
+    expect(signUpSchema.safeParse({ role: "buyer", email: "a@b.test", password: "x".repeat(201), displayName: "X" }).success).toBe(false);
+  });
+});
+
+describe("other account schemas", () => {
+  it("sign-in needs both fields", () => {
+    expect(signInSchema.safeParse({ email: "a@b.test" }).success).toBe(false);
+    expect(signInSchema.safeParse({ email: "a@b.test", password: "p" }).success).toBe(true);
+  });
+
+  it("a yard update must change something", () => {
+    expect(yardProfileUpdateSchema.safeParse({}).success).toBe(false);
+    expect(yardProfileUpdateSchema.parse({ pickupTown: " Northshore " })).toEqual({ pickupTown: "Northshore" });
+  });
+});

@@ -1,0 +1,118 @@
+import { z } from "zod";
+
+export const roles = ["buyer", "sawyer", "admin"] as const;
+export const roleSchema = z.enum(roles);
+export type Role = z.infer<typeof roleSchema>;
+
+/** Roles a person may choose when signing up. Admins come only from the seed or the CLI. */
+export const selfServiceRoles = ["buyer", "sawyer"] as const;
+
+export const PASSWORD_MIN_LENGTH = 10;
+export const PASSWORD_MAX_LENGTH = 200;
+
+export const emailSchema = z
+  .string({ error: "Enter your e-mail address." })
+  .trim()
+  .toLowerCase()
+  .max(254, "That e-mail address is too long.")
+  .pipe(z.email({ error: "Enter a valid e-mail address, like name@example.org." }));
+
+export const newPasswordSchema = z
+  .string({ error: "Choose a password." })
+  .min(PASSWORD_MIN_LENGTH, `Use at least ${PASSWORD_MIN_LENGTH} characters.`)
+  .max(PASSWORD_MAX_LENGTH, `Use at most ${PASSWORD_MAX_LENGTH} characters.`);
+
+const displayNameSchema = z
+  .string({ error: "Tell us your name." })
+  .trim()
+  .min(1, "Tell us your name.")
+  .max(80, "Keep your name under 80 characters.");
+
+export const yardNameSchema = z
+  .string({ error: "Give your yard a name." })
+  .trim()
+  .min(2, "Give your yard a name of at least 2 characters.")
+  .max(80, "Keep the yard name under 80 characters.");
+
+export const pickupTownSchema = z
+  .string({ error: "Say which town buyers collect from." })
+  .trim()
+  .min(2, "Say which town buyers collect from.")
+  .max(80, "Keep the town under 80 characters.");
+
+const buyerSignUpSchema = z.object({
+  role: z.literal("buyer"),
+  email: emailSchema,
+  password: newPasswordSchema,
+  displayName: displayNameSchema,
+});
+
+const sawyerSignUpSchema = z.object({
+  role: z.literal("sawyer"),
+  email: emailSchema,
+  password: newPasswordSchema,
+  displayName: displayNameSchema,
+  yardName: yardNameSchema,
+  pickupTown: pickupTownSchema,
+});
+
+/** Sign-up body: a buyer, or a sawyer who also names the yard and pickup town. */
+export const signUpSchema = z.discriminatedUnion("role", [buyerSignUpSchema, sawyerSignUpSchema], {
+  error: "Choose whether you buy slabs or sell them.",
+});
+export type SignUpInput = z.infer<typeof signUpSchema>;
+
+export const signInSchema = z.object({
+  email: emailSchema,
+  password: z.string({ error: "Enter your password." }).min(1, "Enter your password.").max(PASSWORD_MAX_LENGTH),
+});
+export type SignInInput = z.infer<typeof signInSchema>;
+
+const tokenSchema = z
+  .string({ error: "The link is missing its token." })
+  .trim()
+  .min(20, "That link is incomplete. Copy the whole link from the e-mail.")
+  .max(200, "That link is not one of ours.");
+
+export const verifyEmailSchema = z.object({ token: tokenSchema });
+export type VerifyEmailInput = z.infer<typeof verifyEmailSchema>;
+
+export const passwordResetRequestSchema = z.object({ email: emailSchema });
+export type PasswordResetRequestInput = z.infer<typeof passwordResetRequestSchema>;
+
+export const passwordResetSchema = z.object({ token: tokenSchema, password: newPasswordSchema });
+export type PasswordResetInput = z.infer<typeof passwordResetSchema>;
+
+export const yardProfileUpdateSchema = z
+  .object({ yardName: yardNameSchema, pickupTown: pickupTownSchema })
+  .partial()
+  .refine((value) => Object.keys(value).length > 0, "Change at least one field.");
+export type YardProfileUpdateInput = z.infer<typeof yardProfileUpdateSchema>;
+
+/** A signed-in person as the API shows them to themselves (and to admins). */
+export const accountSchema = z.object({
+  id: z.string(),
+  email: z.string(),
+  displayName: z.string(),
+  role: roleSchema,
+  emailVerified: z.boolean(),
+  yardName: z.string().nullable(),
+  pickupTown: z.string().nullable(),
+  createdAt: z.string(),
+});
+export type Account = z.infer<typeof accountSchema>;
+
+export const sessionSchema = z.object({
+  account: accountSchema.nullable(),
+  csrfToken: z.string(),
+});
+export type SessionState = z.infer<typeof sessionSchema>;
+
+export const userSearchSchema = z.object({
+  query: z.string().trim().max(100).optional(),
+  role: roleSchema.optional(),
+});
+export type UserSearchInput = z.infer<typeof userSearchSchema>;
+
+export const accountListSchema = z.object({ accounts: z.array(accountSchema) });
+export type AccountList = z.infer<typeof accountListSchema>;

@@ -1,0 +1,137 @@
+import { join } from "node:path";
+import { ensureChromium } from "./chromium.ts";
+import { say, warn } from "./log.ts";
+import { startProcess, tail, type ManagedProcess } from "./processes.ts";
+import { profileFor, repoRoot } from "./profile.ts";
+import { startStack, writeEnvironmentFile } from "./stack.ts";
+import { runTestSuites } from "./test-run.ts";
+import { apiEntry, prepareDatabase, tsx, waitForApi, type DemoAccount } from "./api-process.ts";
+import { buildWebIfStale, webDist } from "./web-build.ts";
+import { waitUntil } from "./ports.ts";
+
+function banner(lines: string[]) {
+  const width = Math.max(...lines.map((l) => l.length)) + 2;
+  process.stdout.write(`\n┌${"─".repeat(width)}┐\n${lines.map((l) => `│ ${l.padEnd(width - 1)}│`).join("\n")}\n└${"─".repeat(width)}┘\n\n`);
+}
+
+function demoAccountLines(accounts: DemoAccount[]): string[] {
+  return accounts.map((a) => `  ${a.role.padEnd(6)} ${a.email.padEnd(32)} ${a.password.padEnd(26)} ${a.name}`);
+}
+
+async function serve(mode: "start" | "dev"): Promise<void> {
+  const profile = profileFor("local");
+  const started = Date.now();
+  const extraPorts = mode === "dev" ? [{ port: profile.ports.vite, purpose: "Vite dev server" }] : [];
+  const stack = await startStack(profile, { fresh: false, extraPorts });
+  const children: ManagedProcess[] = [];
+  let shuttingDown = false;
+  const shutdown = async (code: number) => {
+    if (shuttingDown) return;
+    shuttingDown = true;
+    say("stopping…");
+    for (const child of children.reverse()) await child.stop();
+    await stack.stop();
+    say("stopped cleanly");
+    process.exit(code);
+  };
+  process.on("SIGINT", () => void shutdown(0));
+  process.on("SIGTERM", () => void shutdown(0));
+
+  try {
+    const viteUrl = `http://127.0.0.1:${profile.ports.vite}`;
+    const appUrl = `http://127.0.0.1:${profile.ports.app}`;
+    const publicUrl = mode === "dev" ? viteUrl : appUrl;
+    const environment = stack.apiEnvironment("grainyard", { NODE_ENV: "development", PUBLIC_URL: publicUrl, WEB_DIST: webDist, LOG_LEVEL: "info" });
+    writeEnvironmentFile(join(profile.dataDir, "api.env"), environment);
+    say("applying migrations and the Lakemont demo data…");
+    const demoAccounts = await prepareDatabase(stack, "grainyard", environment);
+
+    const logFile = join(profile.dataDir, "api.log");
+    if (mode === "start") {
+      await buildWebIfStale();
+      const api = startProcess(tsx, [apiEntry], { cwd: join(repoRoot, "apps/api"), env: { ...process.env, ...environment }, logFile });
+      children.push(api);
+      await waitForApi(appUrl, api, logFile);
+      void api.exited.then((code) => {
+        if (!shuttingDown) {
+          warn(`the API stopped unexpectedly (exit ${code}); last log line: ${tail(logFile, 1)}`);
+          void shutdown(1);
+        }
+      });
+    } else {
+      const api = startProcess(tsx, ["watch", "--clear-screen=false", apiEntry], { cwd: join(repoRoot, "apps/api"), env: { ...process.env, ...environment } });
+      children.push(api);
+      await waitForApi(appUrl, api);
+      const vite = startProcess("pnpm", ["--filter", "@grainyard/web", "exec", "vite", "--host", "127.0.0.1", "--port", String(profile.ports.vite), "--strictPort"], {
+        cwd: repoRoot,
+        env: { ...process.env, GRAINYARD_API_URL: appUrl },
+      });
+      children.push(vite);
+      await waitUntil(async () => (await fetch(viteUrl)).ok, 60_000, "the Vite dev server");
+    }
+
+    banner([
+      `Grainyard is running (${((Date.now() - started) / 1000).toFixed(1)} s)`,
+      "",
+      `  App:    ${publicUrl}`,
+      `  Inbox:  ${stack.inboxUrl}   (every e-mail the app sends)`,
+      ...(mode === "start" ? [`  Logs:   ${logFile}`] : [`  API:    ${appUrl}`]),
+      "",
+      "Demo accounts (Lakemont):",
+      ...demoAccountLines(demoAccounts),
+      "",
+      "Press Ctrl-C to stop.",
+    ]);
+  } catch (error) {
+    warn(error instanceof Error ? error.message : String(error));
+    await shutdown(1);
+  }
+}
+
+async function test(): Promise<void> {
+  const profile = profileFor("test");
+  ensureChromium();
+  const stack = await startStack(profile, { fresh: true });
+  let exitCode = 1;
+  const stop = async () => {
+    await stack.stop();
+  };
+  process.on("SIGINT", () => void stop().then(() => process.exit(130)));
+  process.on("SIGTERM", () => void stop().then(() => process.exit(143)));
+  try {
+    exitCode = await runTestSuites(stack);
+  } catch (error) {
+    warn(error instanceof Error ? error.message : String(error));
+    exitCode = 1;
+  } finally {
+    await stack.stop();
+  }
+  process.exit(exitCode);
+}
+
+/** The test profile's services alone, for running one suite by hand (see DEVELOPERS.md). */
+async function services(): Promise<void> {
+  const profile = profileFor("test");
+  const stack = await startStack(profile, { fresh: false });
+  const environment = stack.apiEnvironment("grainyard_unused", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "silent", GRAINYARD_TEST_STACK: "1" });
+  const file = join(profile.dataDir, "test.env");
+  writeEnvironmentFile(file, environment);
+  say(`test services are up; in another shell: set -a; . ${file}; set +a; pnpm --filter @grainyard/api test`);
+  const stop = () => void stack.stop().then(() => process.exit(0));
+  process.on("SIGINT", stop);
+  process.on("SIGTERM", stop);
+}
+
+const mode = process.argv[2];
+try {
+  if (mode === "start" || mode === "dev") await serve(mode);
+  else if (mode === "test") await test();
+  else if (mode === "services") await services();
+  else {
+    warn(`unknown mode "${mode}"; use start, dev or test`);
+    process.exit(2);
+  }
+} catch (error) {
+  process.stderr.write(`[grainyard] ✗ ${error instanceof Error ? error.message : String(error)}\n`);
+  process.exit(1);
+}

@@ -1,0 +1,144 @@
+import { randomBytes } from "node:crypto";
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import type { Server } from "node:http";
+import { join } from "node:path";
+import { createPaymentsFakeApp } from "@grainyard/payments-fake";
+import { say } from "./log.ts";
+import { startMailSink } from "./mail-sink.ts";
+import { startMariadb, type RunningMariadb } from "./mariadb.ts";
+import { startObjectStorage } from "./object-storage.ts";
+import { assertPortFree } from "./ports.ts";
+import type { Profile } from "./profile.ts";
+
+export interface Secrets {
+  sessionSecret: string;
+  databasePassword: string;
+  paymentsSecretKey: string;
+}
+
+/** Secrets generated once on first start and kept in the data folder (never committed). */
+export function secretsFor(dataDir: string): Secrets {
+  const file = join(dataDir, "secrets.json");
+  if (existsSync(file)) return JSON.parse(readFileSync(file, "utf8")) as Secrets;
+  const secrets: Secrets = {
+    sessionSecret: randomBytes(32).toString("hex"),
+    databasePassword: randomBytes(18).toString("base64url"),
+    paymentsSecretKey: `sk_test_${randomBytes(12).toString("hex")}`,
+  };
+  mkdirSync(dataDir, { recursive: true });
+  writeFileSync(file, JSON.stringify(secrets, null, 2), { mode: 0o600 });
+  return secrets;
+}
+
+export interface RunningStack {
+  profile: Profile;
+  mariadb: RunningMariadb;
+  inboxUrl: string;
+  /** Environment for the API (and its CLI commands) pointed at this stack. */
+  apiEnvironment(database: string, extra?: Record<string, string>): Record<string, string>;
+  stop(): Promise<void>;
+}
+
+/**
+ * Starts the services the API needs, all on 127.0.0.1: MariaDB (a child process), and, inside
+ * this process, the S3 fake, the mail sink and the payments fake. If any step fails, what already
+ * started is stopped before the error goes up.
+ */
+export async function startStack(profile: Profile, options: { fresh: boolean; extraPorts?: { port: number; purpose: string }[] }): Promise<RunningStack> {
+  if (options.fresh) rmSync(profile.dataDir, { recursive: true, force: true });
+  mkdirSync(profile.dataDir, { recursive: true });
+  const { ports } = profile;
+  const wanted = [
+    { port: ports.app, purpose: "Grainyard web and API" },
+    { port: ports.inbox, purpose: "mail inbox page" },
+    { port: ports.payments, purpose: "payments fake" },
+    { port: ports.s3, purpose: "S3 fake" },
+    { port: ports.smtp, purpose: "SMTP mail sink" },
+    { port: ports.mariadb, purpose: "MariaDB" },
+    ...(options.extraPorts ?? []),
+  ];
+  for (const { port, purpose } of wanted) await assertPortFree(port, purpose);
+
+  const secrets = secretsFor(profile.dataDir);
+  const stoppers: (() => Promise<void>)[] = [];
+  const stopAll = async () => {
+    for (const stop of stoppers.reverse()) await stop().catch(() => undefined);
+    stoppers.length = 0;
+  };
+  try {
+    say(`starting MariaDB on 127.0.0.1:${ports.mariadb}…`);
+    const mariadb = await startMariadb({ dir: join(profile.dataDir, "mariadb"), port: ports.mariadb, appPassword: secrets.databasePassword });
+    stoppers.push(() => mariadb.stop());
+
+    const appOrigins = [`http://127.0.0.1:${ports.app}`, `http://127.0.0.1:${ports.vite}`];
+    const storage = await startObjectStorage({ dir: join(profile.dataDir, "s3"), port: ports.s3, allowedOrigins: appOrigins });
+    stoppers.push(() => storage.stop());
+
+    const mail = await startMailSink({ dir: join(profile.dataDir, "mail"), smtpPort: ports.smtp, inboxPort: ports.inbox });
+    stoppers.push(() => mail.stop());
+
+    const paymentsApp = createPaymentsFakeApp({ stateFile: join(profile.dataDir, "payments-fake", "state.json"), secretKey: secrets.paymentsSecretKey });
+    const paymentsServer: Server = await new Promise((resolvePromise, reject) => {
+      const server = paymentsApp.listen(ports.payments, "127.0.0.1", () => resolvePromise(server));
+      server.once("error", reject);
+    });
+    stoppers.push(
+      () =>
+        new Promise<void>((r) => {
+          paymentsServer.closeAllConnections();
+          paymentsServer.close(() => r());
+        }),
+    );
+    say("S3 fake, mail sink and payments fake are up");
+
+    return {
+      profile,
+      mariadb,
+      inboxUrl: mail.inboxUrl,
+      apiEnvironment(database, extra = {}) {
+        return {
+          PORT: String(ports.app),
+          HOST: "127.0.0.1",
+          PUBLIC_URL: `http://127.0.0.1:${ports.app}`,
+          SESSION_SECRET: secrets.sessionSecret,
+          DATABASE_HOST: mariadb.endpoint.host,
+          DATABASE_PORT: String(mariadb.endpoint.port),
+          DATABASE_USER: mariadb.endpoint.user,
+          DATABASE_PASSWORD: mariadb.endpoint.password,
+          DATABASE_NAME: database,
+          S3_ENDPOINT: storage.endpoint,
+          S3_REGION: storage.region,
+          S3_BUCKET: storage.bucket,
+          S3_ACCESS_KEY_ID: storage.accessKeyId,
+          S3_SECRET_ACCESS_KEY: storage.secretAccessKey,
+          S3_FORCE_PATH_STYLE: "true",
+          SMTP_HOST: mail.smtp.host,
+          SMTP_PORT: String(mail.smtp.port),
+          MAIL_FROM: "Grainyard <hello@grainyard.test>",
+          MAIL_INBOX_URL: mail.inboxUrl,
+          PAYMENTS_HOST: "127.0.0.1",
+          PAYMENTS_PORT: String(ports.payments),
+          PAYMENTS_PROTOCOL: "http",
+          PAYMENTS_SECRET_KEY: secrets.paymentsSecretKey,
+          // The SDK is pinned to a release that supports Node 20; its notice about later releases is noise here.
+          AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: "true",
+          ...extra,
+        };
+      },
+      stop: stopAll,
+    };
+  } catch (error) {
+    await stopAll();
+    throw error;
+  }
+}
+
+export function writeEnvironmentFile(file: string, environment: Record<string, string>): void {
+  writeFileSync(
+    file,
+    `# Written by the local stack on each start; read by the api's CLI commands. Do not commit.\n${Object.entries(environment)
+      .map(([key, value]) => `${key}='${value.replace(/'/g, `'\\''`)}'`)
+      .join("\n")}\n`,
+    { mode: 0o600 },
+  );
+}

@@ -1,0 +1,30 @@
+import { existsSync, readdirSync, statSync } from "node:fs";
+import { join } from "node:path";
+import { say } from "./log.ts";
+import { runStep } from "./processes.ts";
+import { repoRoot } from "./profile.ts";
+
+const WEB_SOURCES = ["apps/web/src", "apps/web/public", "apps/web/index.html", "apps/web/vite.config.ts", "apps/web/package.json", "packages/contracts/src", "packages/slab-math/src"];
+
+function newestChange(path: string): number {
+  if (!existsSync(path)) return 0;
+  const stat = statSync(path);
+  if (!stat.isDirectory()) return stat.mtimeMs;
+  let newest = stat.mtimeMs;
+  for (const entry of readdirSync(path)) newest = Math.max(newest, newestChange(join(path, entry)));
+  return newest;
+}
+
+export const webDist = join(repoRoot, "apps/web/dist");
+
+/** Builds the web app with Vite unless the last build is newer than every source file. */
+export async function buildWebIfStale(force = false): Promise<void> {
+  const builtAt = existsSync(join(webDist, "index.html")) ? statSync(join(webDist, "index.html")).mtimeMs : 0;
+  const changedAt = Math.max(...WEB_SOURCES.map((p) => newestChange(join(repoRoot, p))));
+  if (!force && builtAt > changedAt) {
+    say("web app is already built and up to date");
+    return;
+  }
+  say("building the web app (vite build)…");
+  await runStep("building the web app", "pnpm", ["--filter", "@grainyard/web", "build"], { cwd: repoRoot, quiet: true });
+}
