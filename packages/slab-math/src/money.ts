@@ -1,0 +1,129 @@
+/**
+ * Money: integer minor units (cents, pence) only; fees in basis points (1 bps = 0.01 %).
+ * One rounding rule everywhere: half-up to the minor unit, applied once per amount.
+ */
+import { SlabMathError, requireNonNegativeInteger, requireNumberInRange } from './errors.ts';
+import { LIMITS } from './limits.ts';
+
+/** Basis points in 100 %. */
+export const BASIS_POINTS_PER_WHOLE = 10_000;
+
+/**
+ * Rounds a non-negative amount of minor units half-up to a whole minor unit.
+ * A relative tolerance of a few ulps absorbs binary floating-point error, so that a
+ * product such as 1.005 × 100 (= 100.49999…) rounds as the decimal value it stands for.
+ */
+export function roundHalfUp(amount: number): number {
+  return Math.floor(amount + 0.5 + Math.abs(amount) * 4 * Number.EPSILON);
+}
+
+/** Half-up of numerator / denominator for non-negative integers, exact (BigInt). */
+function divideRoundHalfUp(numerator: bigint, denominator: bigint): bigint {
+  return (numerator * 2n + denominator) / (denominator * 2n);
+}
+
+/** Fee settings of {@link feeBreakdown}. */
+export interface FeeSettings {
+  /** Platform fee, basis points of the subtotal (0–10 000). */
+  platformFeeBps: number;
+  /** Payment processing fee, basis points of the subtotal (0–10 000). */
+  processingFeeBps: number;
+  /** Fixed processing fee per payment, minor units. */
+  processingFixedMinor: number;
+}
+
+/** Result of {@link feeBreakdown}: three integers that sum to the subtotal exactly. */
+export interface FeeBreakdown {
+  platformFeeMinor: number;
+  processingFeeMinor: number;
+  sawyerNetMinor: number;
+}
+
+/**
+ * Splits a subtotal into platform fee, processing fee and the sawyer's net.
+ * platform = round_half_up(subtotal × platformBps / 10 000);
+ * processing = round_half_up(subtotal × processingBps / 10 000) + fixed;
+ * net = subtotal − platform − processing (the remainder, so the parts always sum exactly).
+ * Computed with exact integer arithmetic.
+ *
+ * @throws SlabMathError on non-integer or negative money, bps outside 0–10 000, or fees above the subtotal.
+ */
+export function feeBreakdown(subtotalMinor: number, settings: FeeSettings): FeeBreakdown {
+  const subtotal = requireNonNegativeInteger(subtotalMinor, 'subtotalMinor');
+  const platformBps = requireNonNegativeInteger(settings.platformFeeBps, 'platformFeeBps', BASIS_POINTS_PER_WHOLE);
+  const processingBps = requireNonNegativeInteger(settings.processingFeeBps, 'processingFeeBps', BASIS_POINTS_PER_WHOLE);
+  const fixed = requireNonNegativeInteger(settings.processingFixedMinor, 'processingFixedMinor');
+  const whole = BigInt(BASIS_POINTS_PER_WHOLE);
+  const platformFee = Number(divideRoundHalfUp(BigInt(subtotal) * BigInt(platformBps), whole));
+  const processingFee = Number(divideRoundHalfUp(BigInt(subtotal) * BigInt(processingBps), whole)) + fixed;
+  const net = subtotal - platformFee - processingFee;
+  if (net < 0) {
+    throw new SlabMathError(
+      'fees_exceed_subtotal',
+      'subtotalMinor',
+      `subtotalMinor ${subtotal} is smaller than its fees (${platformFee} platform + ${processingFee} processing)`,
+    );
+  }
+  return { platformFeeMinor: platformFee, processingFeeMinor: processingFee, sawyerNetMinor: net };
+}
+
+/** How a slab is priced. */
+export type PriceMode = 'per_board_foot' | 'per_cubic_metre' | 'fixed';
+
+/** Input of {@link slabPrice}. */
+export interface SlabPriceInput {
+  mode: PriceMode;
+  /** Rate in minor units: per board foot, per m³, or the fixed price. */
+  rateMinor: number;
+  /** Board feet (needed for per_board_foot). */
+  boardFeet?: number;
+  /** Volume in m³ (needed for per_cubic_metre). */
+  volumeM3?: number;
+}
+
+/** Result of {@link slabPrice}. */
+export interface SlabPrice {
+  /** Price, integer minor units. */
+  priceMinor: number;
+  mode: PriceMode;
+  /** Quantity the rate was applied to (board feet, m³, or 1 for fixed). */
+  quantity: number;
+}
+
+/**
+ * Price of a slab in integer minor units: rate × quantity, rounded half-up to the minor unit
+ * once (fixed prices are taken as they are).
+ *
+ * @throws SlabMathError on non-integer or negative rates, missing or invalid quantities.
+ */
+export function slabPrice(input: SlabPriceInput): SlabPrice {
+  const rate = requireNonNegativeInteger(input.rateMinor, 'rateMinor');
+  let quantity: number;
+  switch (input.mode) {
+    case 'fixed':
+      return { priceMinor: rate, mode: 'fixed', quantity: 1 };
+    case 'per_board_foot':
+      if (input.boardFeet === undefined) {
+        throw new SlabMathError('missing_input', 'boardFeet', 'boardFeet is needed to price per board foot');
+      }
+      quantity = requireNumberInRange(input.boardFeet, 'boardFeet', 0, LIMITS.maximumVolumeM3 / 0.002359737216, 'bf');
+      break;
+    case 'per_cubic_metre':
+      if (input.volumeM3 === undefined) {
+        throw new SlabMathError('missing_input', 'volumeM3', 'volumeM3 is needed to price per cubic metre');
+      }
+      quantity = requireNumberInRange(input.volumeM3, 'volumeM3', 0, LIMITS.maximumVolumeM3, 'm³');
+      break;
+    default:
+      throw new SlabMathError(
+        'invalid_format',
+        'mode',
+        `mode must be per_board_foot, per_cubic_metre or fixed, got ${String((input as { mode: unknown }).mode)}`,
+      );
+  }
+  const priceMinor = roundHalfUp(rate * quantity);
+  if (!Number.isSafeInteger(priceMinor)) {
+    throw new SlabMathError('out_of_range', 'rateMinor', 'rateMinor × quantity is too large to price');
+  }
+  return { priceMinor, mode: input.mode, quantity };
+}
