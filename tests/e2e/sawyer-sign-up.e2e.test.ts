@@ -77,7 +77,7 @@ describe("a sawyer joins from a phone", () => {
       expect(await page.locator("body").innerText()).toContain("Ridgeback Urban Timber");
       await screenshot(page, `yard-home-${label}`);
       await page.goto(`${appUrl}/no-such-page`);
-      await expect.poll(() => page.locator("body").innerText(), { timeout: 10_000 }).toMatch(/not found|no such|can.t find|cannot find/i);
+      await expect.poll(() => page.locator("body").innerText(), { timeout: 10_000 }).toMatch(/404|couldn.t find/i);
       await screenshot(page, `not-found-${label}`);
       expect(problems).toEqual([]);
       await context.close();

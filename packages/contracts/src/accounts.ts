@@ -116,3 +116,10 @@ export type UserSearchInput = z.infer<typeof userSearchSchema>;
 
 export const accountListSchema = z.object({ accounts: z.array(accountSchema) });
 export type AccountList = z.infer<typeof accountListSchema>;
+
+/** `{ account }`: the answer of sign-up, own yard and yard update. */
+export const accountEnvelopeSchema = z.object({ account: accountSchema });
+export type AccountEnvelope = z.infer<typeof accountEnvelopeSchema>;
+
+/** The answer of a used confirmation link. */
+export const emailVerifiedSchema = z.object({ verified: z.literal(true) });

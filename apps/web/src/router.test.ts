@@ -1,0 +1,75 @@
+import { afterEach, describe, expect, it, vi } from "vitest";
+import { createPinia } from "pinia";
+import { createMemoryHistory } from "vue-router";
+import { api } from "./api/client.ts";
+import { createGrainyardRouter, safeNextPath } from "./router.ts";
+import { useSessionStore } from "./stores/session.ts";
+
+afterEach(() => api.useFetch(undefined));
+
+function routerWithSession(account: unknown, fails = false) {
+  const fetchMock = vi.fn(async () => {
+    if (fails) throw new TypeError("Failed to fetch");
+    return new Response(JSON.stringify({ account, csrfToken: "t" }), { status: 200 });
+  });
+  api.useFetch(fetchMock as unknown as typeof fetch);
+  const pinia = createPinia();
+  return { router: createGrainyardRouter(pinia, createMemoryHistory()), session: useSessionStore(pinia) };
+}
+
+const buyer = {
+  id: "acc_3",
+  email: "juniper@example.org",
+  displayName: "Juniper Oake",
+  role: "buyer",
+  emailVerified: true,
+  yardName: null,
+  pickupTown: null,
+  createdAt: "2025-02-01T12:00:00.000Z",
+};
+
+describe("route guards", () => {
+  it("sends anonymous people to sign in, remembering where they were going", async () => {
+    const { router } = routerWithSession(null);
+    await router.push("/yard");
+    expect(router.currentRoute.value.path).toBe("/sign-in");
+    expect(router.currentRoute.value.query.next).toBe("/yard");
+  });
+
+  it("lets the wrong role reach the page (App shows 'not for your account')", async () => {
+    const { router, session } = routerWithSession(buyer);
+    await router.push("/admin");
+    expect(router.currentRoute.value.path).toBe("/admin");
+    expect(session.role).toBe("buyer");
+  });
+
+  it("sends a signed-in buyer away from sign-in to their own home", async () => {
+    const { router } = routerWithSession(buyer);
+    await router.push("/sign-in");
+    expect(router.currentRoute.value.path).toBe("/account");
+  });
+
+  it("does not bounce to sign-in when the session cannot be read (offline)", async () => {
+    const { router, session } = routerWithSession(null, true);
+    await router.push("/yard");
+    expect(router.currentRoute.value.path).toBe("/yard");
+    expect(session.status).toBe("error");
+    expect(session.loadError?.code).toBe("offline");
+  });
+
+  it("shows unknown paths as not found", async () => {
+    const { router } = routerWithSession(null);
+    await router.push("/slabs/does-not-exist");
+    expect(router.currentRoute.value.name).toBe("not-found");
+  });
+});
+
+describe("safeNextPath", () => {
+  it("keeps paths inside the app and drops everything else", () => {
+    expect(safeNextPath("/account?tab=orders")).toBe("/account?tab=orders");
+    expect(safeNextPath("//evil.example")).toBeNull();
+    expect(safeNextPath("/\\evil.example")).toBeNull();
+    expect(safeNextPath("https://evil.example")).toBeNull();
+    expect(safeNextPath(["/a"])).toBeNull();
+  });
+});

@@ -1,0 +1,131 @@
+import {
+  createRouter,
+  createWebHistory,
+  type RouteLocationNormalized,
+  type RouteRecordRaw,
+  type RouterHistory,
+} from "vue-router";
+import type { Pinia } from "pinia";
+import type { Role } from "@grainyard/contracts";
+import { useSessionStore } from "./stores/session.ts";
+
+declare module "vue-router" {
+  interface RouteMeta {
+    /** Page title, after "Grainyard · ". */
+    title?: string;
+    /** Roles allowed to see the page; anonymous people are sent to sign in first. */
+    roles?: Role[];
+    /** Pages for people who are not signed in (signed-in people go to their home). */
+    guestOnly?: boolean;
+  }
+}
+
+export const routes: RouteRecordRaw[] = [
+  { path: "/", name: "home", component: () => import("./views/HomeView.vue"), meta: { title: "Slabs from city trees" } },
+  { path: "/browse", name: "browse", component: () => import("./views/BrowseView.vue"), meta: { title: "Browse slabs" } },
+  {
+    path: "/sign-in",
+    name: "sign-in",
+    component: () => import("./views/SignInView.vue"),
+    meta: { title: "Sign in", guestOnly: true },
+  },
+  {
+    path: "/join",
+    name: "join",
+    component: () => import("./views/SignUpView.vue"),
+    meta: { title: "Join", guestOnly: true },
+  },
+  { path: "/sign-up", redirect: (to) => ({ path: "/join", query: to.query }) },
+  {
+    path: "/verify-email",
+    name: "verify-email",
+    component: () => import("./views/VerifyEmailView.vue"),
+    meta: { title: "Confirm your e-mail" },
+  },
+  {
+    path: "/forgot-password",
+    name: "forgot-password",
+    component: () => import("./views/ForgotPasswordView.vue"),
+    meta: { title: "Forgot your password" },
+  },
+  {
+    path: "/reset-password",
+    name: "reset-password",
+    component: () => import("./views/ResetPasswordView.vue"),
+    meta: { title: "Choose a new password" },
+  },
+  {
+    path: "/yard",
+    name: "yard",
+    component: () => import("./views/YardHomeView.vue"),
+    meta: { title: "My yard", roles: ["sawyer"] },
+  },
+  {
+    path: "/account",
+    name: "account",
+    component: () => import("./views/AccountView.vue"),
+    meta: { title: "My account", roles: ["buyer"] },
+  },
+  {
+    path: "/admin",
+    name: "admin",
+    component: () => import("./views/AdminHomeView.vue"),
+    meta: { title: "Admin desk", roles: ["admin"] },
+  },
+  {
+    path: "/:pathMatch(.*)*",
+    name: "not-found",
+    component: () => import("./views/NotFoundView.vue"),
+    meta: { title: "Page not found" },
+  },
+];
+
+/** Only paths inside this app are followed after sign-in (never another site). */
+export function safeNextPath(next: unknown): string | null {
+  if (typeof next !== "string") return null;
+  if (!next.startsWith("/") || next.startsWith("//") || next.startsWith("/\\")) return null;
+  return next;
+}
+
+/** Whether the signed-in role may see the page (pages without roles are for everyone). */
+export function roleAllowed(route: RouteLocationNormalized, role: Role | null): boolean {
+  const roles = route.meta.roles;
+  if (!roles || roles.length === 0) return true;
+  return role !== null && roles.includes(role);
+}
+
+export function createGrainyardRouter(pinia: Pinia, history: RouterHistory = createWebHistory()) {
+  const router = createRouter({
+    history,
+    routes,
+    scrollBehavior(to, _from, saved) {
+      if (saved) return saved;
+      if (to.hash) return { el: to.hash };
+      return { top: 0 };
+    },
+  });
+
+  router.beforeEach(async (to) => {
+    const session = useSessionStore(pinia);
+    await session.ensureLoaded();
+    // If the session could not be read (offline), let the page render: App shows the offline state.
+    if (session.status !== "ready") return true;
+
+    if (to.meta.roles && !session.account) {
+      return { path: "/sign-in", query: { next: to.fullPath } };
+    }
+    if (to.meta.guestOnly && session.account) {
+      return safeNextPath(to.query.next) ?? session.homePath;
+    }
+    // A wrong role is not redirected: App.vue shows a plain "not for your account" state.
+    return true;
+  });
+
+  router.afterEach((to) => {
+    if (typeof document !== "undefined") {
+      document.title = to.meta.title ? `${to.meta.title} · Grainyard` : "Grainyard";
+    }
+  });
+
+  return router;
+}

@@ -1,0 +1,90 @@
+import { defineStore } from "pinia";
+import { computed, ref } from "vue";
+import type { Account, Role, SessionState, SignInInput } from "@grainyard/contracts";
+import { api, toApiRequestError, type ApiRequestError } from "../api/client.ts";
+
+/** Where each role lands after signing in. */
+export const roleHome: Record<Role, string> = {
+  sawyer: "/yard",
+  buyer: "/account",
+  admin: "/admin",
+};
+
+type LoadStatus = "idle" | "loading" | "ready" | "error";
+
+export const useSessionStore = defineStore("session", () => {
+  const account = ref<Account | null>(null);
+  const csrfToken = ref<string | null>(null);
+  const status = ref<LoadStatus>("idle");
+  const loadError = ref<ApiRequestError | null>(null);
+  let pending: Promise<void> | null = null;
+
+  const isSignedIn = computed(() => account.value !== null);
+  const role = computed<Role | null>(() => account.value?.role ?? null);
+  const isBuyer = computed(() => role.value === "buyer");
+  const isSawyer = computed(() => role.value === "sawyer");
+  const isAdmin = computed(() => role.value === "admin");
+  const homePath = computed(() => (role.value ? roleHome[role.value] : "/"));
+
+  function apply(state: SessionState) {
+    account.value = state.account;
+    csrfToken.value = state.csrfToken;
+    status.value = "ready";
+    loadError.value = null;
+  }
+
+  /** Reads who is signed in and a fresh anti-forgery token. Concurrent calls share one request. */
+  function load(): Promise<void> {
+    if (pending) return pending;
+    status.value = "loading";
+    pending = api
+      .getSession()
+      .then(apply)
+      .catch((error: unknown) => {
+        loadError.value = toApiRequestError(error);
+        status.value = "error";
+      })
+      .finally(() => {
+        pending = null;
+      });
+    return pending;
+  }
+
+  /** Loads once; later calls return at once unless the first load failed. */
+  function ensureLoaded(): Promise<void> {
+    if (status.value === "ready") return Promise.resolve();
+    return load();
+  }
+
+  async function signIn(input: SignInInput): Promise<Account | null> {
+    apply(await api.signIn(input));
+    return account.value;
+  }
+
+  async function signOut(): Promise<void> {
+    apply(await api.signOut());
+  }
+
+  /** After the API returns a changed account (e.g. the yard profile), keep the store in step. */
+  function updateAccount(next: Account) {
+    if (account.value && account.value.id === next.id) account.value = next;
+  }
+
+  return {
+    account,
+    csrfToken,
+    status,
+    loadError,
+    isSignedIn,
+    role,
+    isBuyer,
+    isSawyer,
+    isAdmin,
+    homePath,
+    load,
+    ensureLoaded,
+    signIn,
+    signOut,
+    updateAccount,
+  };
+});

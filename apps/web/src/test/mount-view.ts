@@ -1,0 +1,56 @@
+import { mount, flushPromises } from "@vue/test-utils";
+import { createPinia, setActivePinia } from "pinia";
+import { vi } from "vitest";
+import type { Component } from "vue";
+import { createMemoryHistory } from "vue-router";
+import { api } from "../api/client.ts";
+import { createGrainyardRouter } from "../router.ts";
+import { useSessionStore } from "../stores/session.ts";
+
+export interface StubbedAnswer {
+  status: number;
+  body?: unknown;
+}
+
+/**
+ * Mounts one view inside a real router and Pinia, with the API client's fetch replaced by a
+ * queue of answers keyed by "METHOD path". Only for unit tests.
+ */
+export async function mountView(
+  view: Component,
+  options: { path: string; answers?: Record<string, StubbedAnswer[]>; session?: { account: unknown } },
+) {
+  const answers = options.answers ?? {};
+  const fetchMock = vi.fn(async (url: string | URL | Request, init?: RequestInit) => {
+    const key = `${init?.method ?? "GET"} ${String(url).split("?")[0]}`;
+    const queue = answers[key];
+    const next = queue?.shift();
+    if (!next) return new Response(JSON.stringify({ account: options.session?.account ?? null, csrfToken: "test-token" }), { status: 200 });
+    return new Response(next.body === undefined ? null : JSON.stringify(next.body), { status: next.status });
+  });
+  api.useFetch(fetchMock as unknown as typeof fetch);
+
+  const pinia = createPinia();
+  setActivePinia(pinia);
+  const session = useSessionStore(pinia);
+  api.useCsrfToken(() => session.csrfToken);
+  const router = createGrainyardRouter(pinia, createMemoryHistory());
+  await router.push(options.path);
+  await router.isReady();
+
+  const wrapper = mount(view, { global: { plugins: [pinia, router] }, attachTo: document.body });
+  await flushPromises();
+  return { wrapper, router, fetchMock, session };
+}
+
+/** The text shown under a field (its error or hint), found through the input's aria-describedby. */
+export function noteFor(wrapper: ReturnType<typeof mount>, id: string): string {
+  const input = wrapper.find(`#${id}`);
+  const noteId = input.attributes("aria-describedby");
+  if (!noteId) return "";
+  return wrapper.find(`#${noteId}`).text();
+}
+
+export async function typeInto(wrapper: ReturnType<typeof mount>, id: string, value: string) {
+  await wrapper.find(`#${id}`).setValue(value);
+}

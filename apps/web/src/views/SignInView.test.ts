@@ -1,0 +1,83 @@
+import { afterEach, describe, expect, it, vi } from "vitest";
+import { flushPromises } from "@vue/test-utils";
+import { apiPaths } from "@grainyard/contracts";
+import SignInView from "./SignInView.vue";
+import { mountView, noteFor, typeInto } from "../test/mount-view.ts";
+import { api } from "../api/client.ts";
+
+const sawyer = {
+  id: "acc_2",
+  email: "moss@ridgeback.example",
+  displayName: "Moss Ferrand",
+  role: "sawyer",
+  emailVerified: true,
+  yardName: "Ridgeback Urban Timber",
+  pickupTown: "Lakemont",
+  createdAt: "2025-01-10T09:00:00.000Z",
+};
+
+afterEach(() => {
+  api.useFetch(undefined);
+  document.body.innerHTML = "";
+});
+
+async function fillAndSubmit(wrapper: Awaited<ReturnType<typeof mountView>>["wrapper"]) {
+  await typeInto(wrapper, "email", "moss@ridgeback.example");
+  await typeInto(wrapper, "password", "a long enough phrase");
+  await wrapper.find("form").trigger("submit");
+  await flushPromises();
+}
+
+describe("SignInView", () => {
+  it("validates in the browser first", async () => {
+    const { wrapper } = await mountView(SignInView, { path: "/sign-in" });
+    await wrapper.find("form").trigger("submit");
+    await flushPromises();
+    expect(noteFor(wrapper, "email")).toBe("Enter a valid e-mail address, like name@example.org.");
+    expect(noteFor(wrapper, "password")).toBe("Enter your password.");
+  });
+
+  it("sends a sawyer to the yard and keeps the fresh CSRF token", async () => {
+    const { wrapper, router, session } = await mountView(SignInView, {
+      path: "/sign-in",
+      answers: { [`POST ${apiPaths.session}`]: [{ status: 200, body: { account: sawyer, csrfToken: "after-sign-in" } }] },
+    });
+    await fillAndSubmit(wrapper);
+    await vi.waitFor(() => expect(router.currentRoute.value.path).toBe("/yard"));
+    expect(session.csrfToken).toBe("after-sign-in");
+    expect(session.isSawyer).toBe(true);
+  });
+
+  it("follows ?next= inside the app, but never to another site", async () => {
+    const first = await mountView(SignInView, {
+      path: "/sign-in?next=/yard%3Ftab%3Dlogs",
+      answers: { [`POST ${apiPaths.session}`]: [{ status: 200, body: { account: sawyer, csrfToken: "t" } }] },
+    });
+    await fillAndSubmit(first.wrapper);
+    await vi.waitFor(() => expect(first.router.currentRoute.value.fullPath).toBe("/yard?tab=logs"));
+    first.wrapper.unmount();
+
+    const second = await mountView(SignInView, {
+      path: "/sign-in?next=//elsewhere.example/phish",
+      answers: { [`POST ${apiPaths.session}`]: [{ status: 200, body: { account: sawyer, csrfToken: "t" } }] },
+    });
+    await fillAndSubmit(second.wrapper);
+    await vi.waitFor(() => expect(second.router.currentRoute.value.fullPath).toBe("/yard"));
+  });
+
+  it("shows the API's message for wrong credentials and for too many tries", async () => {
+    const { wrapper } = await mountView(SignInView, {
+      path: "/sign-in",
+      answers: {
+        [`POST ${apiPaths.session}`]: [
+          { status: 401, body: { error: { code: "not_signed_in", message: "That e-mail and password don't match." } } },
+          { status: 429, body: { error: { code: "too_many_requests", message: "Too many tries. Wait a few minutes." } } },
+        ],
+      },
+    });
+    await fillAndSubmit(wrapper);
+    expect(wrapper.find('[role="alert"]').text()).toContain("That e-mail and password don't match.");
+    await fillAndSubmit(wrapper);
+    expect(wrapper.find('[role="alert"]').text()).toContain("Too many tries. Wait a few minutes.");
+  });
+});

@@ -1,0 +1,29 @@
+/// <reference types="vitest/config" />
+import { defineConfig } from "vite";
+import vue from "@vitejs/plugin-vue";
+
+const apiTarget = process.env.GRAINYARD_API_URL ?? "http://127.0.0.1:5080";
+
+export default defineConfig({
+  plugins: [vue()],
+  server: {
+    proxy: {
+      "/api": { target: apiTarget, changeOrigin: false },
+    },
+  },
+  preview: {
+    proxy: {
+      "/api": { target: apiTarget, changeOrigin: false },
+    },
+  },
+  build: {
+    outDir: "dist",
+    emptyOutDir: true,
+    sourcemap: false,
+  },
+  test: {
+    environment: "happy-dom",
+    include: ["src/**/*.test.ts"],
+    restoreMocks: true,
+  },
+});
