@@ -17,7 +17,14 @@ import type { PhotoStorage } from "./integrations/storage.ts";
 import type { Logger } from "./logger.ts";
 import { accountRoutes } from "./routes/account-routes.ts";
 import { healthRoutes } from "./routes/health-routes.ts";
+import { listingRoutes } from "./routes/listing-routes.ts";
+import { photoRoutes } from "./routes/photo-routes.ts";
+import { createPhotoService } from "./services/photo-service.ts";
+import { yardRoutes } from "./routes/yard-routes.ts";
 import { createAccountService, SESSION_DAYS } from "./services/account-service.ts";
+import { createInventoryCsv } from "./services/inventory-csv.ts";
+import { createListingService } from "./services/listing-service.ts";
+import { createYardService } from "./services/yard-service.ts";
 
 export interface AppDependencies {
   config: AppConfig;
@@ -87,6 +94,10 @@ export function createApp(deps: AppDependencies) {
   app.use(express.json({ limit: "100kb" }));
 
   const accounts = createAccountService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
+  const listings = createListingService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
+  const yard = createYardService({ dataSource: deps.dataSource, onSlabFiguresChanged: (manager, slabIds) => listings.refreshListingsOfSlabs(manager, slabIds) });
+  const inventoryCsv = createInventoryCsv({ dataSource: deps.dataSource, yard });
+  const photos = createPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
 
   // Who is acting: read once per request from the session key in the cookie.
   app.use(async (req: Request, _res: Response, next: NextFunction) => {
@@ -100,7 +111,7 @@ export function createApp(deps: AppDependencies) {
   });
 
   app.use("/api", healthRoutes(deps));
-  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)));
+  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv), listingRoutes(listings), photoRoutes(photos));
   app.use("/api", apiNotFound);
 
   // The built web app, with the single-page fallback for its own routes.

@@ -8,6 +8,8 @@ export class AppError extends Error {
     readonly code: string,
     message: string,
     readonly fields?: Record<string, string>,
+    /** More detail for the client, merged into the error object (e.g. CSV row errors). */
+    readonly details?: Record<string, unknown>,
   ) {
     super(message);
     this.name = new.target.name;
@@ -17,6 +19,11 @@ export class AppError extends Error {
 export class Invalid extends AppError {
   constructor(message: string, fields?: Record<string, string>, code = "invalid_input") {
     super(422, code, message, fields);
+  }
+}
+export class ServiceUnavailable extends AppError {
+  constructor(message: string, code = "unavailable") {
+    super(503, code, message);
   }
 }
 export class Unauthorized extends AppError {

@@ -31,3 +31,22 @@ export function passwordResetMail(to: string, displayName: string, link: string)
     ),
   };
 }
+
+export function listingApprovedMail(to: string, displayName: string, title: string, link: string): OutgoingMail {
+  return {
+    to,
+    subject: `Your listing is live: ${title}`,
+    ...layout([`Hello ${displayName},`, `Good news: "${title}" passed review and is now live on Grainyard. Buyers can find it from today.`], { label: "See the listing", url: link }),
+  };
+}
+
+export function listingSentBackMail(to: string, displayName: string, title: string, reason: string, link: string): OutgoingMail {
+  return {
+    to,
+    subject: `Changes needed before "${title}" goes live`,
+    ...layout(
+      [`Hello ${displayName},`, `Our reviewer looked at "${title}" and asks for a change before it goes live:`, `“${reason}”`, "Edit the listing and submit it again; it comes straight back to the review list."],
+      { label: "Edit the listing", url: link },
+    ),
+  };
+}

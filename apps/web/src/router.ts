@@ -61,6 +61,54 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "My yard", roles: ["sawyer"] },
   },
   {
+    path: "/yard/logs/new",
+    name: "log-new",
+    component: () => import("./views/LogFormView.vue"),
+    meta: { title: "Add a log", roles: ["sawyer"] },
+  },
+  {
+    path: "/yard/logs/:logId/edit",
+    name: "log-edit",
+    component: () => import("./views/LogFormView.vue"),
+    meta: { title: "Edit log", roles: ["sawyer"] },
+  },
+  {
+    path: "/yard/logs/:logId",
+    name: "log",
+    component: () => import("./views/LogDetailView.vue"),
+    meta: { title: "Log", roles: ["sawyer"] },
+  },
+  {
+    path: "/yard/slabs/new",
+    name: "slab-new",
+    component: () => import("./views/SlabFormView.vue"),
+    meta: { title: "Add a slab", roles: ["sawyer"] },
+  },
+  {
+    path: "/yard/slabs/:slabId/edit",
+    name: "slab-edit",
+    component: () => import("./views/SlabFormView.vue"),
+    meta: { title: "Edit slab", roles: ["sawyer"] },
+  },
+  {
+    path: "/yard/slabs/:slabId",
+    name: "slab",
+    component: () => import("./views/SlabDetailView.vue"),
+    meta: { title: "Slab", roles: ["sawyer"] },
+  },
+  {
+    path: "/yard/listings/new",
+    name: "listing-new",
+    component: () => import("./views/ListingFormView.vue"),
+    meta: { title: "New listing", roles: ["sawyer"] },
+  },
+  {
+    path: "/yard/listings/:listingId",
+    name: "listing",
+    component: () => import("./views/ListingFormView.vue"),
+    meta: { title: "Listing", roles: ["sawyer"] },
+  },
+  {
     path: "/account",
     name: "account",
     component: () => import("./views/AccountView.vue"),
@@ -71,6 +119,12 @@ export const routes: RouteRecordRaw[] = [
     name: "admin",
     component: () => import("./views/AdminHomeView.vue"),
     meta: { title: "Admin desk", roles: ["admin"] },
+  },
+  {
+    path: "/admin/review",
+    name: "admin-review",
+    component: () => import("./views/AdminReviewView.vue"),
+    meta: { title: "Listings to review", roles: ["admin"] },
   },
   {
     path: "/:pathMatch(.*)*",

@@ -44,3 +44,13 @@ describe("other account schemas", () => {
     expect(yardProfileUpdateSchema.parse({ pickupTown: " Northshore " })).toEqual({ pickupTown: "Northshore" });
   });
 });
+
+describe("update schemas leave out what was not sent", async () => {
+  const { logUpdateSchema, slabUpdateSchema } = await import("./yard.ts");
+  const { listingUpdateSchema } = await import("./listings.ts");
+  it("a partial update parses to just the fields given", () => {
+    expect(logUpdateSchema.parse({ siteNeighbourhood: "Old Mill" })).toEqual({ siteNeighbourhood: "Old Mill" });
+    expect(slabUpdateSchema.parse({ thicknessMm: 52 })).toEqual({ thicknessMm: 52 });
+    expect(listingUpdateSchema.parse({ title: "Walnut pair" })).toEqual({ title: "Walnut pair" });
+  });
+});

@@ -6,6 +6,8 @@ export const apiErrorSchema = z.object({
     code: z.string(),
     message: z.string(),
     fields: z.record(z.string(), z.string()).optional(),
+    /** Row-by-row problems of a CSV import (nothing was saved). */
+    rows: z.array(z.object({ row: z.number(), field: z.string(), message: z.string() })).optional(),
   }),
 });
 export type ApiError = z.infer<typeof apiErrorSchema>;

@@ -2,3 +2,5 @@ export * from "./common.ts";
 export * from "./accounts.ts";
 export * from "./health.ts";
 export * from "./paths.ts";
+export * from "./yard.ts";
+export * from "./listings.ts";

@@ -16,3 +16,26 @@ export const apiPaths = {
   yardById: (sawyerId: string) => `${API_PREFIX}/yards/${encodeURIComponent(sawyerId)}`,
   adminAccounts: `${API_PREFIX}/admin/accounts`,
 } as const;
+
+export const yardPaths = {
+  logs: `${API_PREFIX}/yard/logs`,
+  log: (logId: string) => `${API_PREFIX}/yard/logs/${encodeURIComponent(logId)}`,
+  logReadings: (logId: string) => `${API_PREFIX}/yard/logs/${encodeURIComponent(logId)}/readings`,
+  slabs: `${API_PREFIX}/yard/slabs`,
+  slab: (slabId: string) => `${API_PREFIX}/yard/slabs/${encodeURIComponent(slabId)}`,
+  slabReadings: (slabId: string) => `${API_PREFIX}/yard/slabs/${encodeURIComponent(slabId)}/readings`,
+  reading: (readingId: string) => `${API_PREFIX}/yard/readings/${encodeURIComponent(readingId)}`,
+  slabsCsv: `${API_PREFIX}/yard/slabs.csv`,
+  slabsImport: `${API_PREFIX}/yard/slabs/import`,
+  listings: `${API_PREFIX}/yard/listings`,
+  listing: (listingId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}`,
+  listingSubmit: (listingId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/submit`,
+  listingWithdraw: (listingId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/withdraw`,
+  listingPhotos: (listingId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/photos`,
+  listingPhotoOrder: (listingId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/photo-order`,
+  listingPhoto: (listingId: string, photoId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/photos/${encodeURIComponent(photoId)}`,
+  photoImage: (photoId: string, size: "small" | "large") => `${API_PREFIX}/photos/${encodeURIComponent(photoId)}/${size}.webp`,
+  reviewQueue: `${API_PREFIX}/admin/listings`,
+  reviewApprove: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/approve`,
+  reviewSendBack: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/send-back`,
+} as const;

@@ -4,12 +4,23 @@ import { say, StackError } from "./log.ts";
 
 export const CHROMIUM = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
 
-/** End-to-end tests drive Debian's Chromium; install it when it is missing (never a browser download). */
-export function ensureChromium(): string {
-  if (existsSync(CHROMIUM)) return CHROMIUM;
-  if (process.getuid?.() !== 0) throw new StackError(`Chromium is missing at ${CHROMIUM}: run \`apt-get install -y chromium\` once as root.`);
-  say("installing Debian's chromium for the end-to-end tests (about a minute, once)…");
-  const result = spawnSync("sh", ["-c", "export DEBIAN_FRONTEND=noninteractive; apt-get update -qq && apt-get install -y -qq chromium >/dev/null"], { stdio: ["ignore", "inherit", "inherit"] });
-  if (result.status !== 0 || !existsSync(CHROMIUM)) throw new StackError(`apt-get could not install chromium (exit ${result.status}).`);
-  return CHROMIUM;
+/**
+ * Debian packages the test suites use: Chromium for the end-to-end tests (never a browser
+ * download), and libheif's example tools, whose heif-enc makes a real HEIC phone photo for the
+ * photo tests. Installed in one apt-get run when any is missing.
+ */
+const TEST_TOOLS = [
+  { binary: CHROMIUM, debianPackage: "chromium" },
+  { binary: "/usr/bin/heif-enc", debianPackage: "libheif-examples" },
+];
+
+export function ensureTestTools(): void {
+  const missing = TEST_TOOLS.filter((tool) => !existsSync(tool.binary));
+  if (missing.length === 0) return;
+  const packages = missing.map((tool) => tool.debianPackage);
+  if (process.getuid?.() !== 0) throw new StackError(`missing for the tests: ${packages.join(", ")} — run \`apt-get install -y ${packages.join(" ")}\` once as root.`);
+  say(`installing Debian's ${packages.join(" and ")} for the tests (about a minute, once)…`);
+  const result = spawnSync("sh", ["-c", `export DEBIAN_FRONTEND=noninteractive; apt-get update -qq && apt-get install -y -qq ${packages.join(" ")} >/dev/null`], { stdio: ["ignore", "inherit", "inherit"] });
+  const stillMissing = missing.filter((tool) => !existsSync(tool.binary));
+  if (result.status !== 0 || stillMissing.length) throw new StackError(`apt-get could not install ${stillMissing.map((t) => t.debianPackage).join(", ") || packages.join(", ")} (exit ${result.status}).`);
 }

@@ -1,5 +1,5 @@
 import { join } from "node:path";
-import { ensureChromium } from "./chromium.ts";
+import { ensureTestTools } from "./chromium.ts";
 import { say, warn } from "./log.ts";
 import { startProcess, tail, type ManagedProcess } from "./processes.ts";
 import { profileFor, repoRoot } from "./profile.ts";
@@ -90,7 +90,7 @@ async function serve(mode: "start" | "dev"): Promise<void> {
 
 async function test(): Promise<void> {
   const profile = profileFor("test");
-  ensureChromium();
+  ensureTestTools();
   const stack = await startStack(profile, { fresh: true });
   let exitCode = 1;
   const stop = async () => {

@@ -19,6 +19,8 @@ export function createDataSource(database: AppConfig["database"]): DataSource {
     migrations,
     migrationsTableName: "schema_migration",
     synchronize: false,
+    // DATE columns as plain YYYY-MM-DD text: a calendar day, never shifted by a time zone.
+    dateStrings: ["DATE"],
     logging: false,
     extra: { connectionLimit: 10 },
   });

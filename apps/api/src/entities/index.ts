@@ -1,6 +1,12 @@
 import { AccountEntity } from "./account.ts";
 import { EmailTokenEntity } from "./email-token.ts";
+import { ListingPhotoEntity } from "./listing-photo.ts";
+import { ListingSlabEntity } from "./listing-slab.ts";
+import { ListingEntity } from "./listing.ts";
+import { MoistureReadingEntity } from "./moisture-reading.ts";
 import { SessionRecordEntity } from "./session-record.ts";
+import { SlabEntity } from "./slab.ts";
+import { YardLogEntity } from "./yard-log.ts";
 
-export { AccountEntity, EmailTokenEntity, SessionRecordEntity };
-export const entities = [AccountEntity, SessionRecordEntity, EmailTokenEntity];
+export { AccountEntity, EmailTokenEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SessionRecordEntity, SlabEntity, YardLogEntity };
+export const entities = [AccountEntity, SessionRecordEntity, EmailTokenEntity, YardLogEntity, SlabEntity, MoistureReadingEntity, ListingEntity, ListingSlabEntity, ListingPhotoEntity];

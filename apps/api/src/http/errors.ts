@@ -9,7 +9,7 @@ export const apiNotFound: RequestHandler = (req, res) => {
 /** Maps every error to `{ error: { code, message, fields? } }`; internals never leave the server. */
 export const errorHandler: ErrorRequestHandler = (error, req, res, _next) => {
   if (error instanceof AppError) {
-    res.status(error.status).json({ error: { code: error.code, message: error.message, ...(error.fields ? { fields: error.fields } : {}) } });
+    res.status(error.status).json({ error: { ...error.details, code: error.code, message: error.message, ...(error.fields ? { fields: error.fields } : {}) } });
     return;
   }
   const bodyError = error as { type?: string; status?: number };
@@ -18,7 +18,8 @@ export const errorHandler: ErrorRequestHandler = (error, req, res, _next) => {
     return;
   }
   if (bodyError.type === "entity.too.large") {
-    res.status(413).json({ error: { code: "too_large", message: "The request body is too large." } });
+    const photo = req.path.endsWith("/photos");
+    res.status(413).json({ error: { code: photo ? "too_large_file" : "too_large", message: photo ? "That photo is larger than 25 MB. Take it at a lower resolution or pick another." : "The request body is too large." } });
     return;
   }
   if (typeof bodyError.status === "number" && bodyError.status >= 400 && bodyError.status < 500) {

@@ -1,4 +1,5 @@
 import { Accounts1764662400000 } from "./1764662400000-accounts.ts";
+import { YardAndListings1764673200000 } from "./1764673200000-yard-and-listings.ts";
 
 /** Every migration, oldest first. Add new ones at the end (see DEVELOPERS.md). */
-export const migrations = [Accounts1764662400000];
+export const migrations = [Accounts1764662400000, YardAndListings1764673200000];

@@ -1,3 +1,4 @@
+import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestContext, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
@@ -6,10 +7,18 @@ import { createTestContext, type BrowserClient, type TestContext } from "../test
  * other sawyer (acting on someone else's), admin. Grow this table with every new route.
  */
 type ActorName = "anonymous" | "buyer" | "sawyer" | "otherSawyer" | "admin";
+/** Things owned by "sawyer": a log, a slab cut from it, a draft listing of that slab with one photo. */
+interface Ids {
+  sawyerId: string;
+  logId: string;
+  slabId: string;
+  listingId: string;
+  photoUrl: string;
+}
 
 interface RouteCase {
   name: string;
-  call: (client: BrowserClient, ids: { sawyerId: string }) => Promise<{ status: number }>;
+  call: (client: BrowserClient, ids: Ids) => Promise<{ status: number }>;
   expected: Record<ActorName, number>;
 }
 
@@ -45,11 +54,81 @@ const routes: RouteCase[] = [
     call: (c) => c.post("/api/v1/accounts", { role: "buyer", email: `m-${Math.random().toString(36).slice(2)}@lakemont.test`, password: "matrix-password-ok", displayName: "Matrix" }),
     expected: { anonymous: 201, buyer: 409, sawyer: 409, otherSawyer: 409, admin: 409 },
   },
+  {
+    name: "GET /api/v1/yard/logs",
+    call: (c) => c.get("/api/v1/yard/logs"),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/yard/logs/:logId",
+    call: (c, ids) => c.get(`/api/v1/yard/logs/${ids.logId}`),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "PATCH /api/v1/yard/logs/:logId",
+    call: (c, ids) => c.patch(`/api/v1/yard/logs/${ids.logId}`, { notes: "Checked by the matrix" }),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/yard/logs/:logId/readings",
+    call: (c, ids) => c.post(`/api/v1/yard/logs/${ids.logId}/readings`, { readOn: "2025-06-01", moistureContentPct: 18, method: "pin_meter" }),
+    expected: { anonymous: 401, buyer: 403, sawyer: 201, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/yard/slabs/:slabId",
+    call: (c, ids) => c.get(`/api/v1/yard/slabs/${ids.slabId}`),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "PATCH /api/v1/yard/slabs/:slabId",
+    call: (c, ids) => c.patch(`/api/v1/yard/slabs/${ids.slabId}`, { notes: "Checked by the matrix" }),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/yard/slabs/:slabId/readings",
+    call: (c, ids) => c.post(`/api/v1/yard/slabs/${ids.slabId}/readings`, { readOn: "2025-07-01", moistureContentPct: 15, method: "pin_meter" }),
+    expected: { anonymous: 401, buyer: 403, sawyer: 201, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/yard/slabs.csv",
+    call: (c) => c.get("/api/v1/yard/slabs.csv"),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/yard/listings/:listingId",
+    call: (c, ids) => c.get(`/api/v1/yard/listings/${ids.listingId}`),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 200 },
+  },
+  {
+    name: "PATCH /api/v1/yard/listings/:listingId",
+    call: (c, ids) => c.patch(`/api/v1/yard/listings/${ids.listingId}`, { description: "Checked by the matrix" }),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/photos/:photoId/small.webp (listing not live)",
+    call: (c, ids) => c.get(ids.photoUrl),
+    expected: { anonymous: 404, buyer: 404, sawyer: 200, otherSawyer: 404, admin: 200 },
+  },
+  {
+    name: "GET /api/v1/admin/listings",
+    call: (c) => c.get("/api/v1/admin/listings"),
+    expected: { anonymous: 401, buyer: 403, sawyer: 403, otherSawyer: 403, admin: 200 },
+  },
+  {
+    name: "POST /api/v1/admin/listings/:listingId/approve (a draft)",
+    call: (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/approve`),
+    expected: { anonymous: 401, buyer: 403, sawyer: 403, otherSawyer: 403, admin: 409 },
+  },
+  {
+    name: "POST /api/v1/yard/listings/:listingId/withdraw (last: it ends the draft)",
+    call: (c, ids) => c.post(`/api/v1/yard/listings/${ids.listingId}/withdraw`),
+    expected: { anonymous: 401, buyer: 403, otherSawyer: 403, admin: 403, sawyer: 200 },
+  },
 ];
 
 let ctx: TestContext;
 const clients = {} as Record<ActorName, BrowserClient>;
-let sawyerId = "";
+const ids: Ids = { sawyerId: "", logId: "", slabId: "", listingId: "", photoUrl: "" };
 
 beforeAll(async () => {
   ctx = await createTestContext();
@@ -57,9 +136,17 @@ beforeAll(async () => {
   clients.buyer = await ctx.signedInClient("buyer");
   const sawyer = await ctx.signedInClient("sawyer");
   clients.sawyer = sawyer;
-  sawyerId = sawyer.account.id;
+  ids.sawyerId = sawyer.account.id;
   clients.otherSawyer = await ctx.signedInClient("sawyer");
   clients.admin = await ctx.signedInClient("admin");
+  ids.logId = (await sawyer.post("/api/v1/yard/logs", { speciesSlug: "northern-red-oak", siteTown: "Lakemont", siteKind: "street", fellingReason: "pests" })).body.log.id;
+  ids.slabId = (
+    await sawyer.post("/api/v1/yard/slabs", { logId: ids.logId, sequenceInLog: 1, speciesSlug: "northern-red-oak", lengthMm: 2000, thicknessMm: 50, widthStationsMm: [500, 480], liveEdge: "one", surfacing: "rough_sawn", dryingMethod: "air" })
+  ).body.slab.id;
+  ids.listingId = (await sawyer.post("/api/v1/yard/listings", { title: "Matrix oak", slabIds: [ids.slabId], priceMode: "fixed", rateMinor: 20_000 })).body.listing.id;
+  const photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a5a32" } }).jpeg().toBuffer();
+  const uploaded = await sawyer.agent.post(`/api/v1/yard/listings/${ids.listingId}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+  ids.photoUrl = uploaded.body.photo.smallUrl;
 });
 afterAll(async () => ctx?.close());
 
@@ -67,23 +154,23 @@ describe("role and ownership matrix", () => {
   for (const route of routes) {
     for (const actor of Object.keys(route.expected) as ActorName[]) {
       it(`${route.name} as ${actor} → ${route.expected[actor]}`, async () => {
-        const res = await route.call(clients[actor], { sawyerId });
+        const res = await route.call(clients[actor], ids);
         expect(res.status).toBe(route.expected[actor]);
       });
     }
   }
 
   it("a sawyer's change to their own yard is saved; another sawyer's attempt changes nothing", async () => {
-    const own = await clients.sawyer.patch(`/api/v1/yards/${sawyerId}`, { yardName: "Renamed Yard" });
+    const own = await clients.sawyer.patch(`/api/v1/yards/${ids.sawyerId}`, { yardName: "Renamed Yard" });
     expect(own.body.account.yardName).toBe("Renamed Yard");
-    await clients.otherSawyer.patch(`/api/v1/yards/${sawyerId}`, { yardName: "Hijacked" });
+    await clients.otherSawyer.patch(`/api/v1/yards/${ids.sawyerId}`, { yardName: "Hijacked" });
     expect((await clients.sawyer.get("/api/v1/yard")).body.account.yardName).toBe("Renamed Yard");
   });
 
   it("admin search finds accounts by yard name and filters by role", async () => {
     const res = await clients.admin.get("/api/v1/admin/accounts?query=Renamed&role=sawyer");
     expect(res.status).toBe(200);
-    expect(res.body.accounts.map((a: { id: string }) => a.id)).toEqual([sawyerId]);
+    expect(res.body.accounts.map((a: { id: string }) => a.id)).toEqual([ids.sawyerId]);
     const bad = await clients.admin.get("/api/v1/admin/accounts?role=wizard");
     expect(bad.status).toBe(422);
   });

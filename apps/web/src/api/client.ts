@@ -11,7 +11,34 @@ import {
   emailVerifiedSchema,
   apiErrorSchema,
   apiPaths,
+  yardPaths,
   sessionSchema,
+  logSchema,
+  logListSchema,
+  logDetailSchema,
+  slabSchema,
+  slabListSchema,
+  slabDetailSchema,
+  moistureReadingSchema,
+  listingListSchema,
+  listingEnvelopeSchema,
+  listingPhotoSchema,
+  csvImportResultSchema,
+  csvRowErrorSchema,
+  type CsvRowError,
+  type DryingProjectionView,
+  type Listing,
+  type ListingInput,
+  type ListingPhoto,
+  type ListingUpdate,
+  type Log,
+  type LogInput,
+  type LogUpdate,
+  type MoistureReading,
+  type MoistureReadingInput,
+  type Slab,
+  type SlabInput,
+  type SlabUpdate,
   type Account,
   type AccountList,
   type PasswordResetInput,
@@ -39,13 +66,16 @@ export class ApiRequestError extends Error {
   readonly status: number;
   readonly code: string;
   readonly fields: Record<string, string>;
+  /** The whole `error` object of the answer, for codes that carry more (e.g. CSV row errors). */
+  readonly detail: unknown;
 
-  constructor(status: number, code: string, message: string, fields: Record<string, string> = {}) {
+  constructor(status: number, code: string, message: string, fields: Record<string, string> = {}, detail: unknown = undefined) {
     super(message);
     this.name = "ApiRequestError";
     this.status = status;
     this.code = code;
     this.fields = fields;
+    this.detail = detail;
   }
 
   /** True when no answer came back at all (no network, or the server is down). */
@@ -76,6 +106,8 @@ export interface ResponseParser<T> {
 
 interface RequestOptions<T> {
   body?: unknown;
+  /** A body sent as it is (CSV text), with its own content type. */
+  rawBody?: { contentType: string; data: string | Blob };
   query?: Record<string, string | undefined>;
   /** Schema the success body must match; omit for answers without a body (202, 204). */
   schema?: ResponseParser<T>;
@@ -88,6 +120,66 @@ export interface ApiClientOptions {
 }
 
 const accountEnvelope: ResponseParser<{ account: Account }> = accountEnvelopeSchema;
+
+/** `{ <key>: <schema> }` without a zod import of our own: checks the one key with the contract's schema. */
+export function envelope<K extends string, T>(key: K, schema: ResponseParser<T>): ResponseParser<Record<K, T>> {
+  return {
+    safeParse(input: unknown) {
+      if (typeof input !== "object" || input === null || !(key in input)) return { success: false };
+      const inner = schema.safeParse((input as Record<string, unknown>)[key]);
+      if (!inner.success) return { success: false };
+      return { success: true, data: { [key]: inner.data } as Record<K, T> };
+    },
+  };
+}
+
+const logEnvelope = envelope("log", logSchema as ResponseParser<Log>);
+const slabEnvelope = envelope("slab", slabSchema as ResponseParser<Slab>);
+const readingEnvelope = envelope("reading", moistureReadingSchema as ResponseParser<MoistureReading>);
+const photoEnvelope = envelope("photo", listingPhotoSchema as ResponseParser<ListingPhoto>);
+const countEnvelope: ResponseParser<{ count: number }> = {
+  safeParse(input) {
+    const count = (input as { count?: unknown } | null)?.count;
+    return typeof count === "number" ? { success: true, data: { count } } : { success: false };
+  },
+};
+const logList: ResponseParser<{ logs: Log[] }> = logListSchema;
+const logDetail: ResponseParser<{ log: Log; slabs: Slab[] }> = logDetailSchema;
+const slabList: ResponseParser<{ slabs: Slab[] }> = slabListSchema;
+const slabDetail: ResponseParser<{ slab: Slab; readings: MoistureReading[]; projection: DryingProjectionView }> = slabDetailSchema;
+const listingList: ResponseParser<{ listings: Listing[] }> = listingListSchema;
+const listingEnvelope: ResponseParser<{ listing: Listing }> = listingEnvelopeSchema;
+const csvImportResult: ResponseParser<{ created: number }> = csvImportResultSchema;
+const csvRowError: ResponseParser<CsvRowError> = csvRowErrorSchema;
+
+/** The CSV import said no: every row message, and nothing was saved. */
+export class CsvImportError extends ApiRequestError {
+  readonly rows: CsvRowError[];
+  constructor(source: ApiRequestError, rows: CsvRowError[]) {
+    super(source.status, source.code, source.message, source.fields, source.detail);
+    this.name = "CsvImportError";
+    this.rows = rows;
+  }
+}
+
+/** Reads `rows` from a csv_rows_invalid answer (rows that do not match the contract are left out). */
+export function csvRowsFrom(error: ApiRequestError): CsvRowError[] {
+  const rows = (error.detail as { rows?: unknown } | undefined)?.rows;
+  if (!Array.isArray(rows)) return [];
+  return rows.flatMap((row) => {
+    const parsed = csvRowError.safeParse(row);
+    return parsed.success ? [parsed.data] : [];
+  });
+}
+
+/** Progress of one upload, 0–1. */
+export type UploadProgress = (fraction: number) => void;
+
+export interface PhotoUploadOptions {
+  altText?: string;
+  onProgress?: UploadProgress;
+  signal?: AbortSignal;
+}
 const verifiedSchema: ResponseParser<{ verified: true }> = emailVerifiedSchema;
 
 async function readJson(response: Response): Promise<unknown> {
@@ -103,10 +195,63 @@ async function readJson(response: Response): Promise<unknown> {
 export function createApiClient(options: ApiClientOptions = {}) {
   let fetchImpl = options.fetch;
   let csrfToken = options.csrfToken ?? (() => null);
+  let xhrFactory: () => XMLHttpRequest = () => new XMLHttpRequest();
+
+  /**
+   * Sends the raw bytes of one photo with XMLHttpRequest (fetch cannot report upload progress).
+   * Answers 201 `{ photo }`; an error answer becomes an ApiRequestError like every other call.
+   */
+  function uploadPhoto(listingId: string, file: Blob, opts: PhotoUploadOptions = {}): Promise<{ photo: ListingPhoto }> {
+    return new Promise((resolve, reject) => {
+      const xhr = xhrFactory();
+      const alt = opts.altText?.trim();
+      const url = yardPaths.listingPhotos(listingId) + (alt ? `?${new URLSearchParams({ altText: alt }).toString()}` : "");
+      xhr.open("POST", url);
+      xhr.withCredentials = true;
+      xhr.setRequestHeader("accept", "application/json");
+      xhr.setRequestHeader("content-type", file.type || "application/octet-stream");
+      const token = csrfToken();
+      if (token) xhr.setRequestHeader(CSRF_HEADER, token);
+      xhr.upload.onprogress = (event) => {
+        if (event.lengthComputable && event.total > 0) opts.onProgress?.(event.loaded / event.total);
+      };
+      xhr.onerror = () => reject(new ApiRequestError(0, clientErrorCodes.offline, OFFLINE_MESSAGE));
+      xhr.ontimeout = xhr.onerror;
+      xhr.onabort = () => reject(new DOMException("The upload was stopped.", "AbortError"));
+      xhr.onload = () => {
+        let payload: unknown;
+        try {
+          payload = xhr.responseText ? (JSON.parse(xhr.responseText) as unknown) : undefined;
+        } catch {
+          payload = undefined;
+        }
+        if (xhr.status >= 200 && xhr.status < 300) {
+          const parsed = photoEnvelope.safeParse(payload);
+          if (parsed.success) {
+            opts.onProgress?.(1);
+            resolve(parsed.data);
+          } else reject(new ApiRequestError(xhr.status, clientErrorCodes.unexpectedResponse, UNEXPECTED_MESSAGE));
+          return;
+        }
+        const parsed = apiErrorSchema.safeParse(payload);
+        if (parsed.success) {
+          const { code, message, fields } = parsed.data.error;
+          reject(new ApiRequestError(xhr.status, code, message, fields ?? {}, (payload as { error?: unknown }).error));
+        } else if (xhr.status >= 500 || xhr.status === 0) {
+          reject(new ApiRequestError(xhr.status, clientErrorCodes.unavailable, UNAVAILABLE_MESSAGE));
+        } else {
+          reject(new ApiRequestError(xhr.status, clientErrorCodes.unexpectedResponse, UNEXPECTED_MESSAGE));
+        }
+      };
+      opts.signal?.addEventListener("abort", () => xhr.abort(), { once: true });
+      xhr.send(file);
+    });
+  }
 
   async function request<T>(method: Method, path: string, opts: RequestOptions<T> = {}): Promise<T> {
     const headers: Record<string, string> = { accept: "application/json" };
     if (opts.body !== undefined) headers["content-type"] = "application/json";
+    if (opts.rawBody) headers["content-type"] = opts.rawBody.contentType;
     if (MUTATING_METHODS.has(method)) {
       const token = csrfToken();
       if (token) headers[CSRF_HEADER] = token;
@@ -129,7 +274,7 @@ export function createApiClient(options: ApiClientOptions = {}) {
         method,
         headers,
         credentials: "same-origin",
-        body: opts.body === undefined ? undefined : JSON.stringify(opts.body),
+        body: opts.rawBody ? opts.rawBody.data : opts.body === undefined ? undefined : JSON.stringify(opts.body),
         signal: opts.signal,
       });
     } catch (error) {
@@ -143,7 +288,8 @@ export function createApiClient(options: ApiClientOptions = {}) {
       const parsed = apiErrorSchema.safeParse(payload);
       if (parsed.success) {
         const { code, message, fields } = parsed.data.error;
-        throw new ApiRequestError(response.status, code, message, fields ?? {});
+        const detail = (payload as { error?: unknown }).error;
+        throw new ApiRequestError(response.status, code, message, fields ?? {}, detail);
       }
       // No JSON error body: a proxy or gateway answered instead of the API.
       if (response.status >= 500) {
@@ -170,6 +316,10 @@ export function createApiClient(options: ApiClientOptions = {}) {
     /** For tests: swap the fetch implementation. */
     useFetch(impl: typeof fetch | undefined) {
       fetchImpl = impl;
+    },
+    /** For tests: swap how upload requests are made. */
+    useXhr(factory: (() => XMLHttpRequest) | undefined) {
+      xhrFactory = factory ?? (() => new XMLHttpRequest());
     },
 
     getSession: (): Promise<SessionState> => request("GET", apiPaths.session, { schema: sessionSchema }),
@@ -198,6 +348,67 @@ export function createApiClient(options: ApiClientOptions = {}) {
         schema: accountListSchema,
         signal,
       }),
+
+    // The sawyer's yard: logs, slabs, moisture readings.
+    listLogs: (signal?: AbortSignal) => request("GET", yardPaths.logs, { schema: logList, signal }),
+    createLog: (input: LogInput) => request("POST", yardPaths.logs, { body: input, schema: logEnvelope }),
+    getLog: (logId: string, signal?: AbortSignal) => request("GET", yardPaths.log(logId), { schema: logDetail, signal }),
+    updateLog: (logId: string, input: LogUpdate) => request("PATCH", yardPaths.log(logId), { body: input, schema: logEnvelope }),
+    deleteLog: (logId: string): Promise<void> => request("DELETE", yardPaths.log(logId)),
+    recordLogReadings: (logId: string, input: MoistureReadingInput) =>
+      request("POST", yardPaths.logReadings(logId), { body: input, schema: countEnvelope }),
+
+    listSlabs: (signal?: AbortSignal) => request("GET", yardPaths.slabs, { schema: slabList, signal }),
+    createSlab: (input: SlabInput) => request("POST", yardPaths.slabs, { body: input, schema: slabEnvelope }),
+    getSlab: (slabId: string, signal?: AbortSignal) => request("GET", yardPaths.slab(slabId), { schema: slabDetail, signal }),
+    updateSlab: (slabId: string, input: SlabUpdate) =>
+      request("PATCH", yardPaths.slab(slabId), { body: input, schema: slabEnvelope }),
+    deleteSlab: (slabId: string): Promise<void> => request("DELETE", yardPaths.slab(slabId)),
+    addReading: (slabId: string, input: MoistureReadingInput) =>
+      request("POST", yardPaths.slabReadings(slabId), { body: input, schema: readingEnvelope }),
+    deleteReading: (readingId: string): Promise<void> => request("DELETE", yardPaths.reading(readingId)),
+
+    /** Sends a CSV file's text; a 422 with row messages becomes a CsvImportError (nothing was saved). */
+    importSlabsCsv: async (text: string): Promise<{ created: number }> => {
+      try {
+        return await request("POST", yardPaths.slabsImport, {
+          rawBody: { contentType: "text/csv", data: text },
+          schema: csvImportResult,
+        });
+      } catch (error) {
+        if (error instanceof ApiRequestError && error.code === "csv_rows_invalid") {
+          throw new CsvImportError(error, csvRowsFrom(error));
+        }
+        throw error;
+      }
+    },
+
+    // Listings.
+    listListings: (signal?: AbortSignal) => request("GET", yardPaths.listings, { schema: listingList, signal }),
+    createListing: (input: ListingInput) => request("POST", yardPaths.listings, { body: input, schema: listingEnvelope }),
+    getListing: (listingId: string, signal?: AbortSignal) =>
+      request("GET", yardPaths.listing(listingId), { schema: listingEnvelope, signal }),
+    updateListing: (listingId: string, input: ListingUpdate) =>
+      request("PATCH", yardPaths.listing(listingId), { body: input, schema: listingEnvelope }),
+    submitListing: (listingId: string) =>
+      request("POST", yardPaths.listingSubmit(listingId), { body: {}, schema: listingEnvelope }),
+    withdrawListing: (listingId: string) =>
+      request("POST", yardPaths.listingWithdraw(listingId), { body: {}, schema: listingEnvelope }),
+    uploadListingPhoto: uploadPhoto,
+    /** The answer's body is not needed: the photo keeps the text the sawyer typed. */
+    updatePhotoAltText: (listingId: string, photoId: string, altText: string): Promise<void> =>
+      request("PATCH", yardPaths.listingPhoto(listingId, photoId), { body: { altText } }),
+    setPhotoOrder: (listingId: string, photoIds: string[]): Promise<void> =>
+      request("PUT", yardPaths.listingPhotoOrder(listingId), { body: { photoIds } }),
+    deletePhoto: (listingId: string, photoId: string): Promise<void> =>
+      request("DELETE", yardPaths.listingPhoto(listingId, photoId)),
+
+    // Admin review.
+    reviewQueue: (signal?: AbortSignal) => request("GET", yardPaths.reviewQueue, { schema: listingList, signal }),
+    approveListing: (listingId: string) =>
+      request("POST", yardPaths.reviewApprove(listingId), { body: {}, schema: listingEnvelope }),
+    sendBackListing: (listingId: string, reason: string) =>
+      request("POST", yardPaths.reviewSendBack(listingId), { body: { reason }, schema: listingEnvelope }),
   };
 }
 

@@ -1,0 +1,261 @@
+import { randomUUID } from "node:crypto";
+import type { Listing, ListingInput, ListingPhoto, ListingStatus, ListingUpdate, SendBackInput } from "@grainyard/contracts";
+import { listingInputSchema, yardPaths } from "@grainyard/contracts";
+import { NIOSH_LOAD_CONSTANT_KG } from "@grainyard/slab-math";
+import { In, type DataSource, type EntityManager } from "typeorm";
+import type { AppConfig } from "../config.ts";
+import { AccountEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, SlabEntity } from "../entities/index.ts";
+import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
+import type { Mailer } from "../integrations/mail.ts";
+import { listingApprovedMail, listingSentBackMail } from "../mail-templates.ts";
+import { requireRole, type Actor } from "./actor.ts";
+import { computeListingFigures } from "./figures.ts";
+import { DEFAULT_FEE_SETTINGS } from "./marketplace-settings.ts";
+import { HOLDING_STATUSES, toSlab } from "./yard-service.ts";
+
+
+/** States in which the sawyer may still change the listing. */
+const EDITABLE: ListingStatus[] = ["draft", "sent_back"];
+/** States from which the sawyer may withdraw the listing. */
+const WITHDRAWABLE: ListingStatus[] = ["draft", "in_review", "sent_back", "live"];
+
+export function photoView(photo: ListingPhotoEntity): ListingPhoto {
+  return {
+    id: photo.id,
+    position: photo.position,
+    altText: photo.altText,
+    width: photo.width,
+    height: photo.height,
+    smallUrl: yardPaths.photoImage(photo.id, "small"),
+    largeUrl: yardPaths.photoImage(photo.id, "large"),
+  };
+}
+
+export interface ListingServiceDependencies {
+  dataSource: DataSource;
+  mailer: Mailer;
+  config: Pick<AppConfig, "publicUrl">;
+  log: { error(object: object, message: string): void };
+  now?: () => Date;
+}
+
+export function createListingService(deps: ListingServiceDependencies) {
+  const { dataSource } = deps;
+  const now = deps.now ?? (() => new Date());
+
+  async function slabsOf(manager: EntityManager, listingId: string): Promise<SlabEntity[]> {
+    const links = await manager.getRepository(ListingSlabEntity).find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
+    return links.map((l) => l.slab!).filter(Boolean);
+  }
+
+  async function view(manager: EntityManager, listing: ListingEntity): Promise<Listing> {
+    const [slabs, photos, sawyer] = await Promise.all([
+      slabsOf(manager, listing.id),
+      manager.getRepository(ListingPhotoEntity).find({ where: { listingId: listing.id }, order: { position: "ASC" } }),
+      manager.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId }),
+    ]);
+    return {
+      id: listing.id,
+      sawyerId: listing.sawyerId,
+      yardName: sawyer?.yardName ?? null,
+      title: listing.title,
+      description: listing.description,
+      setKind: listing.setKind,
+      priceMode: listing.priceMode,
+      rateMinor: listing.rateMinor,
+      currency: listing.currency,
+      pickup: listing.pickup,
+      freight: listing.freight,
+      status: listing.status,
+      reviewNote: listing.reviewNote,
+      figures: {
+        boardFeet: listing.boardFeet,
+        volumeM3: listing.volumeM3,
+        weightKg: listing.weightKg,
+        weightLowKg: listing.weightLowKg,
+        weightHighKg: listing.weightHighKg,
+        // Judged per slab: each one is lifted on its own.
+        heavyLift: slabs.some((s) => s.weightHighKg > NIOSH_LOAD_CONSTANT_KG),
+        priceMinor: listing.priceMinor,
+        platformFeeMinor: listing.platformFeeMinor,
+        processingFeeMinor: listing.processingFeeMinor,
+        sawyerNetMinor: listing.sawyerNetMinor,
+      },
+      slabs: slabs.map((s) => toSlab(s, listing.id)),
+      photos: photos.map(photoView),
+      submittedAt: listing.submittedAt?.toISOString() ?? null,
+      publishedAt: listing.publishedAt?.toISOString() ?? null,
+      updatedAt: listing.updatedAt.toISOString(),
+      createdAt: listing.createdAt.toISOString(),
+    };
+  }
+
+  /** Checks the chosen slabs: the sawyer's own, free, and for a set all from one log. */
+  async function checkSlabs(manager: EntityManager, sawyerId: string, slabIds: string[], setKind: string, exceptListingId?: string): Promise<SlabEntity[]> {
+    const slabs = await manager.getRepository(SlabEntity).find({ where: { id: In(slabIds) }, lock: { mode: "pessimistic_write" } });
+    if (slabs.length !== slabIds.length) throw new Invalid("Some of those slabs are not in your yard.", { slabIds: "Unknown slab." });
+    if (slabs.some((s) => s.sawyerId !== sawyerId)) throw new Forbidden("You can only list slabs from your own yard.");
+    const links = await manager.getRepository(ListingSlabEntity).find({ where: { slabId: In(slabIds) }, relations: { listing: true } });
+    const taken = links.find((l) => l.listingId !== exceptListingId && l.listing && (HOLDING_STATUSES as readonly string[]).includes(l.listing.status));
+    if (taken) throw new Conflict("One of those slabs is already in another listing.", "slab_already_listed");
+    if (setKind !== "single") {
+      const logIds = new Set(slabs.map((s) => s.logId));
+      if (logIds.size !== 1 || logIds.has(null)) throw new Invalid("A set is made of slabs cut from the same log.", { slabIds: "Choose slabs from one log." });
+      if (slabs.some((s) => s.sequenceInLog == null)) throw new Invalid("Give every slab of a set its number in the log.", { slabIds: "Numbers in the log are missing." });
+      const numbers = slabs.map((s) => s.sequenceInLog!).sort((a, b) => a - b);
+      const consecutive = numbers.every((n, i) => i === 0 || n === numbers[i - 1]! + 1);
+      if (!consecutive) throw new Invalid("Sequential and bookmatched slabs are neighbours in the log.", { slabIds: "Choose neighbouring slabs." });
+    }
+    // Keep the order the sawyer chose.
+    return slabIds.map((id) => slabs.find((s) => s.id === id)!);
+  }
+
+  function figuresFor(listing: Pick<ListingEntity, "priceMode" | "rateMinor">, slabs: SlabEntity[]) {
+    return computeListingFigures({ priceMode: listing.priceMode, rateMinor: listing.rateMinor, slabs, fees: DEFAULT_FEE_SETTINGS });
+  }
+
+  async function ownListing(manager: EntityManager, sawyerId: string, listingId: string, lock = false): Promise<ListingEntity> {
+    const listing = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, ...(lock ? { lock: { mode: "pessimistic_write" as const } } : {}) });
+    if (!listing) throw new NotFound("No listing with that id.");
+    if (listing.sawyerId !== sawyerId) throw new Forbidden("That listing belongs to another yard.");
+    return listing;
+  }
+
+  async function mailSawyer(listing: ListingEntity, build: (to: string, name: string, link: string) => Parameters<Mailer["send"]>[0]) {
+    const sawyer = await dataSource.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId });
+    if (!sawyer) return;
+    try {
+      await deps.mailer.send(build(sawyer.email, sawyer.displayName, `${deps.config.publicUrl}/yard/listings/${listing.id}`));
+    } catch (error) {
+      deps.log.error({ err: error, listingId: listing.id }, "could not send listing e-mail");
+    }
+  }
+
+  return {
+    async listOwn(actor: Actor): Promise<Listing[]> {
+      const sawyer = requireRole(actor, "sawyer");
+      const listings = await dataSource.getRepository(ListingEntity).find({ where: { sawyerId: sawyer.accountId }, order: { createdAt: "DESC" } });
+      return Promise.all(listings.map((l) => view(dataSource.manager, l)));
+    },
+
+    async create(actor: Actor, input: ListingInput): Promise<Listing> {
+      const sawyer = requireRole(actor, "sawyer");
+      const parsed = listingInputSchema.parse(input);
+      return dataSource.transaction(async (manager) => {
+        const slabs = await checkSlabs(manager, sawyer.accountId, parsed.slabIds, parsed.setKind);
+        const id = randomUUID();
+        const { slabIds, ...fields } = parsed;
+        await manager.getRepository(ListingEntity).insert({
+          id,
+          sawyerId: sawyer.accountId,
+          ...fields,
+          status: "draft",
+          reviewNote: null,
+          submittedAt: null,
+          publishedAt: null,
+          ...figuresFor(parsed, slabs),
+        });
+        await manager.getRepository(ListingSlabEntity).insert(slabIds.map((slabId, position) => ({ listingId: id, slabId, position })));
+        return view(manager, await manager.getRepository(ListingEntity).findOneByOrFail({ id }));
+      });
+    },
+
+    async getOwn(actor: Actor, listingId: string): Promise<Listing> {
+      const signedIn = requireRole(actor, "sawyer", "admin");
+      const listing = await dataSource.getRepository(ListingEntity).findOneBy({ id: listingId });
+      if (!listing) throw new NotFound("No listing with that id.");
+      if (signedIn.role === "sawyer" && listing.sawyerId !== signedIn.accountId) throw new Forbidden("That listing belongs to another yard.");
+      return view(dataSource.manager, listing);
+    },
+
+    async update(actor: Actor, listingId: string, input: ListingUpdate): Promise<Listing> {
+      const sawyer = requireRole(actor, "sawyer");
+      return dataSource.transaction(async (manager) => {
+        const listing = await ownListing(manager, sawyer.accountId, listingId, true);
+        if (!EDITABLE.includes(listing.status)) {
+          throw new Conflict(`A listing that is "${listing.status.replace("_", " ")}" cannot be changed. Withdraw it first.`, "listing_not_editable");
+        }
+        const currentSlabs = await slabsOf(manager, listingId);
+        const merged = listingInputSchema.safeParse({ ...listing, slabIds: currentSlabs.map((s) => s.id), ...input });
+        if (!merged.success) throw new Invalid("Some fields need another look.", Object.fromEntries(merged.error.issues.map((i) => [i.path.join("."), i.message])));
+        const { slabIds, ...fields } = merged.data;
+        const slabs = await checkSlabs(manager, sawyer.accountId, slabIds, fields.setKind, listingId);
+        await manager.getRepository(ListingEntity).update({ id: listingId }, { ...fields, ...figuresFor(fields, slabs) });
+        await manager.getRepository(ListingSlabEntity).delete({ listingId });
+        await manager.getRepository(ListingSlabEntity).insert(slabIds.map((slabId, position) => ({ listingId, slabId, position })));
+        return view(manager, await manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId }));
+      });
+    },
+
+    /** Draft or sent back → in review. Only a sawyer with a confirmed e-mail, with at least one photo. */
+    async submit(actor: Actor, listingId: string): Promise<Listing> {
+      const sawyer = requireRole(actor, "sawyer");
+      if (!sawyer.emailVerified) throw new Forbidden("Confirm your e-mail address before you submit listings.", "email_unverified");
+      return dataSource.transaction(async (manager) => {
+        const listing = await ownListing(manager, sawyer.accountId, listingId, true);
+        if (!EDITABLE.includes(listing.status)) throw new Conflict("Only a draft or a listing that was sent back can be submitted.", "listing_not_submittable");
+        const photos = await manager.getRepository(ListingPhotoEntity).countBy({ listingId });
+        if (photos === 0) throw new Invalid("Add at least one photo before you submit.", { photos: "Add at least one photo." }, "photos_missing");
+        await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "in_review", submittedAt: now() });
+        return view(manager, await manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId }));
+      });
+    },
+
+    async withdraw(actor: Actor, listingId: string): Promise<Listing> {
+      const sawyer = requireRole(actor, "sawyer");
+      return dataSource.transaction(async (manager) => {
+        const listing = await ownListing(manager, sawyer.accountId, listingId, true);
+        if (!WITHDRAWABLE.includes(listing.status)) throw new Conflict("This listing can no longer be withdrawn.", "listing_not_withdrawable");
+        await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "withdrawn" });
+        return view(manager, await manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId }));
+      });
+    },
+
+    /** Admin: listings waiting for review, oldest first. */
+    async reviewQueue(actor: Actor): Promise<Listing[]> {
+      requireRole(actor, "admin");
+      const listings = await dataSource.getRepository(ListingEntity).find({ where: { status: "in_review" }, order: { submittedAt: "ASC" } });
+      return Promise.all(listings.map((l) => view(dataSource.manager, l)));
+    },
+
+    async approve(actor: Actor, listingId: string): Promise<Listing> {
+      requireRole(actor, "admin");
+      const listing = await dataSource.transaction(async (manager) => {
+        const found = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, lock: { mode: "pessimistic_write" } });
+        if (!found) throw new NotFound("No listing with that id.");
+        if (found.status !== "in_review") throw new Conflict("Only a listing waiting for review can be approved.", "listing_not_in_review");
+        await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "live", publishedAt: now(), reviewNote: null });
+        return manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
+      });
+      await mailSawyer(listing, (to, name, link) => listingApprovedMail(to, name, listing.title, link));
+      return view(dataSource.manager, listing);
+    },
+
+    async sendBack(actor: Actor, listingId: string, input: SendBackInput): Promise<Listing> {
+      requireRole(actor, "admin");
+      const listing = await dataSource.transaction(async (manager) => {
+        const found = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, lock: { mode: "pessimistic_write" } });
+        if (!found) throw new NotFound("No listing with that id.");
+        if (found.status !== "in_review") throw new Conflict("Only a listing waiting for review can be sent back.", "listing_not_in_review");
+        await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "sent_back", reviewNote: input.reason });
+        return manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
+      });
+      await mailSawyer(listing, (to, name, link) => listingSentBackMail(to, name, listing.title, input.reason, link));
+      return view(dataSource.manager, listing);
+    },
+
+    /** Keeps listing figures in step when a slab's figures change (called inside the slab's transaction). */
+    async refreshListingsOfSlabs(manager: EntityManager, slabIds: string[]): Promise<void> {
+      const links = await manager.getRepository(ListingSlabEntity).find({ where: { slabId: In(slabIds) } });
+      for (const listingId of new Set(links.map((l) => l.listingId))) {
+        const listing = await manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
+        if (listing.status === "withdrawn" || listing.status === "sold") continue;
+        await manager.getRepository(ListingEntity).update({ id: listingId }, figuresFor(listing, await slabsOf(manager, listingId)));
+      }
+    },
+
+    ownListing,
+  };
+}
+
+export type ListingService = ReturnType<typeof createListingService>;

@@ -1,0 +1,131 @@
+import { randomUUID } from "node:crypto";
+import { MAX_PHOTOS_PER_LISTING, type ListingPhoto } from "@grainyard/contracts";
+import type { DataSource } from "typeorm";
+import { ListingEntity, ListingPhotoEntity } from "../entities/index.ts";
+import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
+import type { PhotoStorage } from "../integrations/storage.ts";
+import { deleteObjects, displayKey, getObjectBytes, inspectPhoto, originalKey, putObject, renderDisplaySizes, type DisplaySizeName } from "../photos/index.ts";
+import { requireRole, type Actor } from "./actor.ts";
+import { photoView } from "./listing-service.ts";
+
+/** Listing states whose photos anyone may see. */
+const PUBLIC_STATUSES = ["live", "reserved", "sold"];
+/** Listing states in which the sawyer may add, remove or reorder photos. */
+const PHOTO_EDITABLE = ["draft", "sent_back"];
+
+/**
+ * Listing photos: the original is kept private in storage; the served sizes are WebP made by
+ * sharp with orientation applied and every piece of metadata (GPS included) removed. Storage is
+ * written first and the row last, so a storage outage leaves no row behind, and a failed row
+ * removes what was stored.
+ */
+export function createPhotoService(deps: { dataSource: DataSource; storage: PhotoStorage }) {
+  const { dataSource, storage } = deps;
+
+  async function editableListing(actor: Actor, listingId: string) {
+    const sawyer = requireRole(actor, "sawyer");
+    const listing = await dataSource.getRepository(ListingEntity).findOneBy({ id: listingId });
+    if (!listing) throw new NotFound("No listing with that id.");
+    if (listing.sawyerId !== sawyer.accountId) throw new Forbidden("That listing belongs to another yard.");
+    if (!PHOTO_EDITABLE.includes(listing.status)) throw new Conflict("Photos can change only while the listing is a draft or was sent back.", "listing_not_editable");
+    return listing;
+  }
+
+  async function ownPhoto(actor: Actor, listingId: string, photoId: string) {
+    await editableListing(actor, listingId);
+    const photo = await dataSource.getRepository(ListingPhotoEntity).findOneBy({ id: photoId, listingId });
+    if (!photo) throw new NotFound("No photo with that id on this listing.");
+    return photo;
+  }
+
+  const keysOf = (listingId: string, photoId: string) => [originalKey(listingId, photoId), displayKey(listingId, photoId, "small"), displayKey(listingId, photoId, "large")];
+
+  return {
+    async upload(actor: Actor, listingId: string, bytes: Buffer, altText: string): Promise<ListingPhoto> {
+      const listing = await editableListing(actor, listingId);
+      if (altText.length > 300) throw new Invalid("Keep the description under 300 characters.", { altText: "At most 300 characters." });
+      const already = await dataSource.getRepository(ListingPhotoEntity).countBy({ listingId });
+      if (already >= MAX_PHOTOS_PER_LISTING) throw new Conflict(`A listing holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
+
+      const inspection = await inspectPhoto(bytes);
+      const { sizes } = await renderDisplaySizes(bytes);
+      const photoId = randomUUID();
+      const stored: string[] = [];
+      try {
+        const original = originalKey(listing.id, photoId);
+        await putObject(storage.client, storage.bucket, original, bytes, `image/${inspection.format}`, { private: true });
+        stored.push(original);
+        for (const size of sizes) {
+          const key = displayKey(listing.id, photoId, size.name);
+          await putObject(storage.client, storage.bucket, key, size.bytes, size.contentType, { private: false });
+          stored.push(key);
+        }
+        const large = sizes.find((s) => s.name === "large") ?? sizes[0]!;
+        const photo = await dataSource.transaction(async (manager) => {
+          // Lock the listing row so two uploads at once cannot pass the limit or share a position.
+          await manager.getRepository(ListingEntity).findOne({ where: { id: listing.id }, lock: { mode: "pessimistic_write" } });
+          const photos = await manager.getRepository(ListingPhotoEntity).find({ where: { listingId: listing.id } });
+          if (photos.length >= MAX_PHOTOS_PER_LISTING) throw new Conflict(`A listing holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
+          const entity = manager.getRepository(ListingPhotoEntity).create({
+            id: photoId,
+            listingId: listing.id,
+            position: photos.reduce((max, p) => Math.max(max, p.position), -1) + 1,
+            altText: altText.trim(),
+            width: large.width,
+            height: large.height,
+            originalFormat: inspection.format,
+          });
+          await manager.getRepository(ListingPhotoEntity).insert(entity);
+          return entity;
+        });
+        return photoView(photo);
+      } catch (error) {
+        if (stored.length) await deleteObjects(storage.client, storage.bucket, stored).catch(() => undefined);
+        throw error;
+      }
+    },
+
+    async setAltText(actor: Actor, listingId: string, photoId: string, altText: string): Promise<ListingPhoto> {
+      const photo = await ownPhoto(actor, listingId, photoId);
+      await dataSource.getRepository(ListingPhotoEntity).update({ id: photo.id }, { altText });
+      return photoView({ ...photo, altText });
+    },
+
+    async reorder(actor: Actor, listingId: string, photoIds: string[]): Promise<ListingPhoto[]> {
+      await editableListing(actor, listingId);
+      return dataSource.transaction(async (manager) => {
+        const photos = await manager.getRepository(ListingPhotoEntity).find({ where: { listingId } });
+        const known = new Set(photos.map((p) => p.id));
+        if (photoIds.length !== photos.length || photoIds.some((id) => !known.has(id)) || new Set(photoIds).size !== photoIds.length) {
+          throw new Invalid("Send every photo of the listing once, in the new order.", { photoIds: "Every photo once." });
+        }
+        for (const [position, id] of photoIds.entries()) await manager.getRepository(ListingPhotoEntity).update({ id }, { position });
+        const ordered = await manager.getRepository(ListingPhotoEntity).find({ where: { listingId }, order: { position: "ASC" } });
+        return ordered.map(photoView);
+      });
+    },
+
+    async remove(actor: Actor, listingId: string, photoId: string): Promise<void> {
+      const photo = await ownPhoto(actor, listingId, photoId);
+      await dataSource.getRepository(ListingPhotoEntity).delete({ id: photo.id });
+      // The row is gone first, so nothing points at the objects any more; a failed delete only leaves unreachable bytes.
+      await deleteObjects(storage.client, storage.bucket, keysOf(listingId, photoId)).catch(() => undefined);
+    },
+
+    /** A served size: public once the listing is live; before that only its sawyer and admins. */
+    async image(actor: Actor, photoId: string, size: DisplaySizeName): Promise<Buffer> {
+      const photo = await dataSource.getRepository(ListingPhotoEntity).findOne({ where: { id: photoId }, relations: { listing: true } });
+      if (!photo?.listing) throw new NotFound("No such photo.");
+      if (!PUBLIC_STATUSES.includes(photo.listing.status)) {
+        const isOwner = actor.kind === "account" && actor.accountId === photo.listing.sawyerId;
+        const isAdmin = actor.kind === "account" && actor.role === "admin";
+        if (!isOwner && !isAdmin) throw new NotFound("No such photo.");
+      }
+      const bytes = await getObjectBytes(storage.client, storage.bucket, displayKey(photo.listingId, photo.id, size));
+      if (!bytes) throw new NotFound("That photo is missing from storage.");
+      return bytes;
+    },
+  };
+}
+
+export type PhotoService = ReturnType<typeof createPhotoService>;
