@@ -21,7 +21,9 @@ import { listingRoutes } from "./routes/listing-routes.ts";
 import { photoRoutes } from "./routes/photo-routes.ts";
 import { createPhotoService } from "./services/photo-service.ts";
 import { yardRoutes } from "./routes/yard-routes.ts";
+import { catalogueRoutes } from "./routes/catalogue-routes.ts";
 import { createAccountService, SESSION_DAYS } from "./services/account-service.ts";
+import { createCatalogueService } from "./services/catalogue-service.ts";
 import { createInventoryCsv } from "./services/inventory-csv.ts";
 import { createListingService } from "./services/listing-service.ts";
 import { createYardService } from "./services/yard-service.ts";
@@ -93,8 +95,23 @@ export function createApp(deps: AppDependencies) {
   );
   app.use(express.json({ limit: "100kb" }));
 
-  const accounts = createAccountService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
-  const listings = createListingService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
+  const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret });
+  const listings = createListingService({
+    dataSource: deps.dataSource,
+    mailer: deps.mailer,
+    config,
+    log: logger,
+    now: deps.now,
+    onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
+  });
+  const accounts = createAccountService({
+    dataSource: deps.dataSource,
+    mailer: deps.mailer,
+    config,
+    log: logger,
+    now: deps.now,
+    onYardChanged: (manager, sawyerId) => listings.refreshAllOfSawyer(manager, sawyerId),
+  });
   const yard = createYardService({ dataSource: deps.dataSource, onSlabFiguresChanged: (manager, slabIds) => listings.refreshListingsOfSlabs(manager, slabIds) });
   const inventoryCsv = createInventoryCsv({ dataSource: deps.dataSource, yard });
   const photos = createPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
@@ -111,7 +128,7 @@ export function createApp(deps: AppDependencies) {
   });
 
   app.use("/api", healthRoutes(deps));
-  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv), listingRoutes(listings), photoRoutes(photos));
+  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv), listingRoutes(listings), photoRoutes(photos), catalogueRoutes(catalogue));
   app.use("/api", apiNotFound);
 
   // The built web app, with the single-page fallback for its own routes.

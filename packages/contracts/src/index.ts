@@ -4,3 +4,4 @@ export * from "./health.ts";
 export * from "./paths.ts";
 export * from "./yard.ts";
 export * from "./listings.ts";
+export * from "./catalogue.ts";

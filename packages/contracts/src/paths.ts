@@ -39,3 +39,9 @@ export const yardPaths = {
   reviewApprove: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/approve`,
   reviewSendBack: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/send-back`,
 } as const;
+
+export const cataloguePaths = {
+  search: `${API_PREFIX}/catalogue`,
+  detail: (listingId: string) => `${API_PREFIX}/catalogue/${encodeURIComponent(listingId)}`,
+  places: `${API_PREFIX}/places`,
+} as const;

@@ -44,6 +44,26 @@ export function ensureMariadbInstalled(): string {
   return installed;
 }
 
+/**
+ * Shuts down a Grainyard MariaDB left running by an earlier run of this profile that was killed
+ * before it could stop it (its pid file is still in our data folder and the process is alive).
+ */
+export async function stopLeftoverMariadb(dir: string): Promise<void> {
+  const pidFile = join(dir, "mariadb.pid");
+  const configFile = join(dir, "my.cnf");
+  if (!existsSync(pidFile) || !existsSync(configFile)) return;
+  const pid = Number(readFileSync(pidFile, "utf8").trim());
+  if (!pid || !isAlive(pid)) return;
+  say(`a MariaDB from an earlier run is still up (pid ${pid}); shutting it down first…`);
+  spawnSync("mariadb-admin", [`--defaults-file=${configFile}`, "--user=root", "shutdown"], { encoding: "utf8", timeout: 15_000 });
+  try {
+    await waitUntil(async () => !isAlive(pid), 20_000, "the earlier MariaDB shutdown");
+  } catch {
+    process.kill(pid, "SIGTERM");
+    await waitUntil(async () => !isAlive(pid), 20_000, "the earlier MariaDB shutdown");
+  }
+}
+
 export interface RunningMariadb {
   endpoint: Omit<DatabaseEndpoint, "database">;
   socket: string;
@@ -96,16 +116,6 @@ export async function startMariadb(options: { dir: string; port: number; appPass
 
   const admin = (args: string[]) =>
     spawnSync("mariadb-admin", [`--defaults-file=${configFile}`, "--user=root", ...args], { encoding: "utf8", timeout: 15_000 });
-
-  // A Grainyard instance left over from a run that was killed: shut it down before starting again.
-  if (existsSync(pidFile)) {
-    const pid = Number(readFileSync(pidFile, "utf8").trim());
-    if (pid && isAlive(pid)) {
-      say(`a MariaDB from an earlier run is still up (pid ${pid}); shutting it down first…`);
-      admin(["shutdown"]);
-      await waitUntil(async () => !isAlive(pid), 30_000, "the earlier MariaDB shutdown");
-    }
-  }
 
   if (!existsSync(join(dataDir, "mysql"))) {
     say("initialising a private MariaDB data folder…");

@@ -5,7 +5,7 @@ import { join } from "node:path";
 import { createPaymentsFakeApp } from "@grainyard/payments-fake";
 import { say } from "./log.ts";
 import { startMailSink } from "./mail-sink.ts";
-import { startMariadb, type RunningMariadb } from "./mariadb.ts";
+import { startMariadb, stopLeftoverMariadb, type RunningMariadb } from "./mariadb.ts";
 import { startObjectStorage } from "./object-storage.ts";
 import { assertPortFree } from "./ports.ts";
 import type { Profile } from "./profile.ts";
@@ -45,6 +45,7 @@ export interface RunningStack {
  * started is stopped before the error goes up.
  */
 export async function startStack(profile: Profile, options: { fresh: boolean; extraPorts?: { port: number; purpose: string }[] }): Promise<RunningStack> {
+  await stopLeftoverMariadb(join(profile.dataDir, "mariadb"));
   if (options.fresh) rmSync(profile.dataDir, { recursive: true, force: true });
   mkdirSync(profile.dataDir, { recursive: true });
   const { ports } = profile;

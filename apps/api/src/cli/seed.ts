@@ -1,8 +1,10 @@
+import { seedLakemontYards } from "../seed/lakemont-yard.ts";
 import { seedLakemont } from "../seed/lakemont.ts";
 import { runCli } from "./run-cli.ts";
 
 // `pnpm --filter @grainyard/api seed`: adds the Lakemont demo accounts that are missing.
 await runCli("seed", async (dataSource, config) => {
   const { created } = await seedLakemont(dataSource, config.bcryptCost);
-  console.log(created ? `seed: added ${created} demo accounts` : "seed: the demo data is already there");
+  const { logs } = await seedLakemontYards(dataSource);
+  console.log(created || logs ? `seed: added ${created} demo accounts and ${logs} demo logs` : "seed: the demo data is already there");
 });

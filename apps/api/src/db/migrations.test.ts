@@ -3,7 +3,8 @@ import mysql from "mysql2/promise";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { DataSource } from "typeorm";
 import { loadConfig } from "../config.ts";
-import { AccountEntity } from "../entities/index.ts";
+import { AccountEntity, SlabEntity } from "../entities/index.ts";
+import { demoLogs, seedLakemontYards } from "../seed/lakemont-yard.ts";
 import { demoAccounts, seedLakemont } from "../seed/lakemont.ts";
 import { createAdmin } from "../services/admin-accounts.ts";
 import { passwordMatches } from "../services/passwords.ts";
@@ -33,7 +34,7 @@ describe("migrations", () => {
     await dataSource.runMigrations({ transaction: "each" });
     const pending = await dataSource.driver.createSchemaBuilder().log();
     expect(pending.upQueries.map((q) => q.query)).toEqual([]);
-    expect(await tables()).toEqual(["account", "email_token", "listing", "listing_photo", "listing_slab", "moisture_reading", "schema_migration", "session_record", "slab", "yard_log"]);
+    expect(await tables()).toEqual(["account", "catalogue_entry", "email_token", "listing", "listing_photo", "listing_slab", "moisture_reading", "schema_migration", "session_record", "slab", "yard_log"]);
   });
 
   it("revert cleanly with down, and apply again", async () => {
@@ -58,6 +59,17 @@ describe("Lakemont seed", () => {
     const sawyer = await repository.findOneByOrFail({ email: "yard@ridgeback-timber.test" });
     expect(sawyer.yardName).toBe("Ridgeback Urban Timber");
     expect(await passwordMatches("ridgeback-bandmill-2026", sawyer.passwordHash)).toBe(true);
+  });
+
+  it("adds the demo yards' logs, slabs and readings once, with figures from slab-math", async () => {
+    expect((await seedLakemontYards(dataSource)).logs).toBe(demoLogs.length);
+    expect((await seedLakemontYards(dataSource)).logs).toBe(0);
+    const slabs = await dataSource.getRepository(SlabEntity).find();
+    expect(slabs).toHaveLength(demoLogs.reduce((n, l) => n + l.slabs.length, 0));
+    for (const slab of slabs) {
+      expect(slab.boardFeet).toBeGreaterThan(0);
+      expect(slab.weightKg).toBeGreaterThan(0);
+    }
   });
 });
 

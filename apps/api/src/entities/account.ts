@@ -25,6 +25,13 @@ export class AccountEntity {
   @Column({ name: "pickup_town", type: "varchar", length: 80, nullable: true })
   pickupTown: string | null;
 
+  /** Where the pickup town lies (from the places dataset, looked up on save); null when not found. */
+  @Column({ name: "pickup_latitude", type: "double", nullable: true })
+  pickupLatitude: number | null;
+
+  @Column({ name: "pickup_longitude", type: "double", nullable: true })
+  pickupLongitude: number | null;
+
   @Column({ name: "email_verified_at", type: "datetime", precision: 3, nullable: true })
   emailVerifiedAt: Date | null;
 

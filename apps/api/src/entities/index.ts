@@ -1,4 +1,5 @@
 import { AccountEntity } from "./account.ts";
+import { CatalogueEntryEntity } from "./catalogue-entry.ts";
 import { EmailTokenEntity } from "./email-token.ts";
 import { ListingPhotoEntity } from "./listing-photo.ts";
 import { ListingSlabEntity } from "./listing-slab.ts";
@@ -8,5 +9,5 @@ import { SessionRecordEntity } from "./session-record.ts";
 import { SlabEntity } from "./slab.ts";
 import { YardLogEntity } from "./yard-log.ts";
 
-export { AccountEntity, EmailTokenEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SessionRecordEntity, SlabEntity, YardLogEntity };
-export const entities = [AccountEntity, SessionRecordEntity, EmailTokenEntity, YardLogEntity, SlabEntity, MoistureReadingEntity, ListingEntity, ListingSlabEntity, ListingPhotoEntity];
+export { AccountEntity, CatalogueEntryEntity, EmailTokenEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SessionRecordEntity, SlabEntity, YardLogEntity };
+export const entities = [AccountEntity, SessionRecordEntity, EmailTokenEntity, YardLogEntity, SlabEntity, MoistureReadingEntity, ListingEntity, ListingSlabEntity, ListingPhotoEntity, CatalogueEntryEntity];

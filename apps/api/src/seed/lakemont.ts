@@ -2,6 +2,7 @@ import { randomUUID } from "node:crypto";
 import type { DataSource } from "typeorm";
 import type { Role } from "@grainyard/contracts";
 import { AccountEntity } from "../entities/index.ts";
+import { pickupPosition } from "../services/account-service.ts";
 import { hashPassword } from "../services/passwords.ts";
 
 /**
@@ -67,6 +68,7 @@ export async function seedLakemont(dataSource: DataSource, bcryptCost: number): 
         displayName: demo.displayName,
         yardName: demo.yardName ?? null,
         pickupTown: demo.pickupTown ?? null,
+        ...pickupPosition(demo.pickupTown ?? null),
         emailVerifiedAt: new Date(),
       });
       created += 1;

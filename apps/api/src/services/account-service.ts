@@ -18,6 +18,7 @@ import type { Mailer } from "../integrations/mail.ts";
 import { passwordResetMail, verificationMail } from "../mail-templates.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
 import { decoyPasswordCheck, hashPassword, isCommonPassword, passwordMatches } from "./passwords.ts";
+import { findPlace } from "./places.ts";
 import { newToken, tokenHash } from "./tokens.ts";
 
 export const SESSION_DAYS = 14;
@@ -30,6 +31,14 @@ export interface AccountServiceDependencies {
   config: Pick<AppConfig, "bcryptCost" | "publicUrl">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
+  /** Called inside the transaction after a yard's name or town changed. */
+  onYardChanged?: (manager: EntityManager, sawyerId: string) => Promise<void>;
+}
+
+/** Where a pickup town lies, from the places dataset; nulls when the town is not found. */
+export function pickupPosition(town: string | null): { pickupLatitude: number | null; pickupLongitude: number | null } {
+  const place = town ? findPlace(town) : null;
+  return { pickupLatitude: place?.latitude ?? null, pickupLongitude: place?.longitude ?? null };
 }
 
 export function toAccount(entity: AccountEntity): Account {
@@ -106,6 +115,7 @@ export function createAccountService(deps: AccountServiceDependencies) {
           displayName: input.displayName,
           yardName: input.role === "sawyer" ? input.yardName : null,
           pickupTown: input.role === "sawyer" ? input.pickupTown : null,
+          ...pickupPosition(input.role === "sawyer" ? input.pickupTown : null),
           emailVerifiedAt: null,
         });
         await repository.insert(entity);
@@ -214,7 +224,10 @@ export function createAccountService(deps: AccountServiceDependencies) {
       if (signedIn.role === "sawyer" && signedIn.accountId !== sawyerId) throw new Forbidden("You can only change your own yard.");
       const yard = await accounts().findOneBy({ id: sawyerId, role: "sawyer" });
       if (!yard) throw new NotFound("No yard with that id.");
-      await accounts().update({ id: yard.id }, { ...input });
+      await dataSource.transaction(async (manager) => {
+        await manager.getRepository(AccountEntity).update({ id: yard.id }, { ...input, ...(input.pickupTown !== undefined ? pickupPosition(input.pickupTown) : {}) });
+        await deps.onYardChanged?.(manager, yard.id);
+      });
       return toAccount(await accounts().findOneByOrFail({ id: yard.id }));
     },
 

@@ -37,11 +37,14 @@ export interface ListingServiceDependencies {
   config: Pick<AppConfig, "publicUrl">;
   log: { error(object: object, message: string): void };
   now?: () => Date;
+  /** Called inside the transaction whenever a listing's status or figures change (keeps the catalogue in step). */
+  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
 }
 
 export function createListingService(deps: ListingServiceDependencies) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
+  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
 
   async function slabsOf(manager: EntityManager, listingId: string): Promise<SlabEntity[]> {
     const links = await manager.getRepository(ListingSlabEntity).find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
@@ -207,6 +210,7 @@ export function createListingService(deps: ListingServiceDependencies) {
         const listing = await ownListing(manager, sawyer.accountId, listingId, true);
         if (!WITHDRAWABLE.includes(listing.status)) throw new Conflict("This listing can no longer be withdrawn.", "listing_not_withdrawable");
         await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "withdrawn" });
+        await changed(manager, listingId);
         return view(manager, await manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId }));
       });
     },
@@ -225,6 +229,7 @@ export function createListingService(deps: ListingServiceDependencies) {
         if (!found) throw new NotFound("No listing with that id.");
         if (found.status !== "in_review") throw new Conflict("Only a listing waiting for review can be approved.", "listing_not_in_review");
         await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "live", publishedAt: now(), reviewNote: null });
+        await changed(manager, listingId);
         return manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
       });
       await mailSawyer(listing, (to, name, link) => listingApprovedMail(to, name, listing.title, link));
@@ -251,10 +256,16 @@ export function createListingService(deps: ListingServiceDependencies) {
         const listing = await manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
         if (listing.status === "withdrawn" || listing.status === "sold") continue;
         await manager.getRepository(ListingEntity).update({ id: listingId }, figuresFor(listing, await slabsOf(manager, listingId)));
+        await changed(manager, listingId);
       }
     },
 
     ownListing,
+    /** Every listing of a sawyer (after the yard's name or town changed). */
+    async refreshAllOfSawyer(manager: EntityManager, sawyerId: string): Promise<void> {
+      const listings = await manager.getRepository(ListingEntity).find({ where: { sawyerId, status: "live" }, select: { id: true } });
+      for (const listing of listings) await changed(manager, listing.id);
+    },
   };
 }
 

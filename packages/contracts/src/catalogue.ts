@@ -1,0 +1,139 @@
+import { z } from "zod";
+import { liveEdges, slabFeatures } from "./yard.ts";
+import { currencies, listingFiguresSchema, listingPhotoSchema, setKinds } from "./listings.ts";
+import { moistureReadingSchema, slabSchema, logSchema } from "./yard.ts";
+
+/*
+ * The buyers' catalogue: live listings, filtered and sorted, paged with an opaque cursor.
+ * Query values travel as text in the URL (the web keeps every filter there); measurements in
+ * millimetres, prices in minor units.
+ */
+export const catalogueSorts = ["newest", "price_low", "price_high", "price_per_board_foot", "largest", "nearest"] as const;
+export const catalogueSortLabels = {
+  newest: "Newest first",
+  price_low: "Price, low to high",
+  price_high: "Price, high to low",
+  price_per_board_foot: "Price per board foot",
+  largest: "Largest first",
+  nearest: "Nearest first",
+} as const;
+
+const list = <T extends readonly [string, ...string[]]>(values: T, label: string) =>
+  z
+    .string()
+    .transform((text) => text.split(",").map((part) => part.trim()).filter(Boolean))
+    .pipe(z.array(z.enum(values, { error: `Unknown ${label}.` })).max(values.length));
+const millimetres = (label: string) => z.coerce.number({ error: `The ${label} must be a number of millimetres.` }).int(`Give the ${label} in whole millimetres.`).min(0, `The ${label} cannot be negative.`).max(12_000, `The ${label} is beyond any slab.`);
+const money = (label: string) => z.coerce.number({ error: `The ${label} must be a number.` }).int(`Give the ${label} in cents.`).min(0, `The ${label} cannot be negative.`).max(100_000_000);
+const flag = z.enum(["1", "true", "0", "false"]).transform((v) => v === "1" || v === "true");
+
+export const catalogueQuerySchema = z
+  .object({
+    species: z.string().transform((text) => text.split(",").map((part) => part.trim()).filter(Boolean)).pipe(z.array(z.string().regex(/^[a-z][a-z0-9-]{1,60}$/, "Unknown species.")).max(40)).optional(),
+    lengthMin: millimetres("shortest length").optional(),
+    lengthMax: millimetres("longest length").optional(),
+    widthMin: millimetres("narrowest width").optional(),
+    widthMax: millimetres("widest width").optional(),
+    widthBasis: z.enum(["average", "minimum"]).default("average"),
+    thicknessMin: millimetres("thinnest thickness").optional(),
+    thicknessMax: millimetres("thickest thickness").optional(),
+    moistureMax: z.coerce.number({ error: "Moisture content must be a number." }).min(0, "Moisture content cannot be negative.").max(100).optional(),
+    ready: flag.optional(),
+    priceMin: money("lowest price").optional(),
+    priceMax: money("highest price").optional(),
+    liveEdge: list(liveEdges, "edge choice").optional(),
+    features: list(slabFeatures, "feature").optional(),
+    sets: list(["single", "sequential", "bookmatched"] as const, "set kind").optional(),
+    near: z.string().trim().max(120).optional(),
+    radiusKm: z.coerce.number({ error: "The distance must be a number of kilometres." }).min(1, "Search at least 1 km around.").max(5000).optional(),
+    freight: flag.optional(),
+    sort: z.enum(catalogueSorts, { error: "Unknown sort order." }).default("newest"),
+    cursor: z.string().max(400).optional(),
+    limit: z.coerce.number().int().min(1).max(60).default(24),
+  })
+  .superRefine((query, context) => {
+    const pairs: [keyof typeof query, keyof typeof query, string][] = [
+      ["lengthMin", "lengthMax", "length"],
+      ["widthMin", "widthMax", "width"],
+      ["thicknessMin", "thicknessMax", "thickness"],
+      ["priceMin", "priceMax", "price"],
+    ];
+    for (const [low, high, label] of pairs) {
+      const a = query[low] as number | undefined;
+      const b = query[high] as number | undefined;
+      if (a !== undefined && b !== undefined && a > b) context.addIssue({ code: "custom", path: [low], message: `The lowest ${label} is above the highest.` });
+    }
+    if (query.sort === "nearest" && !query.near) context.addIssue({ code: "custom", path: ["sort"], message: "Choose a town to sort by distance." });
+    if (query.radiusKm !== undefined && !query.near) context.addIssue({ code: "custom", path: ["radiusKm"], message: "Choose a town to search around." });
+  });
+export type CatalogueQuery = z.input<typeof catalogueQuerySchema>;
+export type CatalogueQueryParsed = z.output<typeof catalogueQuerySchema>;
+
+export const catalogueCardSchema = z.object({
+  listingId: z.string(),
+  title: z.string(),
+  speciesSlug: z.string(),
+  setKind: z.enum(setKinds),
+  slabCount: z.number(),
+  lengthMm: z.number(),
+  averageWidthMm: z.number(),
+  minWidthMm: z.number(),
+  thicknessMm: z.number(),
+  boardFeet: z.number(),
+  volumeM3: z.number(),
+  weightKg: z.number(),
+  weightHighKg: z.number(),
+  moisturePct: z.number().nullable(),
+  ready: z.boolean(),
+  priceMinor: z.number(),
+  pricePerBoardFootMinor: z.number(),
+  currency: z.enum(currencies),
+  liveEdge: z.enum(liveEdges),
+  features: z.array(z.enum(slabFeatures)),
+  freight: z.boolean(),
+  pickup: z.boolean(),
+  town: z.string().nullable(),
+  yardName: z.string().nullable(),
+  distanceKm: z.number().nullable(),
+  photoUrl: z.string().nullable(),
+  photoAlt: z.string().nullable(),
+  publishedAt: z.string(),
+});
+export type CatalogueCard = z.infer<typeof catalogueCardSchema>;
+
+export const catalogueResultSchema = z.object({
+  results: z.array(catalogueCardSchema),
+  total: z.number(),
+  nextCursor: z.string().nullable(),
+  near: z.object({ name: z.string(), region: z.string(), latitude: z.number(), longitude: z.number() }).nullable(),
+});
+export type CatalogueResult = z.infer<typeof catalogueResultSchema>;
+
+export const placeSchema = z.object({ id: z.string(), name: z.string(), region: z.string(), country: z.string(), latitude: z.number(), longitude: z.number() });
+export type Place = z.infer<typeof placeSchema>;
+export const placeListSchema = z.object({ places: z.array(placeSchema) });
+
+/** Everything a buyer sees on a slab page. */
+export const catalogueDetailSchema = z.object({
+  listing: z.object({
+    id: z.string(),
+    title: z.string(),
+    description: z.string(),
+    setKind: z.enum(setKinds),
+    priceMode: z.string(),
+    rateMinor: z.number(),
+    currency: z.enum(currencies),
+    pickup: z.boolean(),
+    freight: z.boolean(),
+    status: z.string(),
+    /** What a buyer needs; the fee split is the sawyer's business. */
+    figures: listingFiguresSchema.pick({ boardFeet: true, volumeM3: true, weightKg: true, weightLowKg: true, weightHighKg: true, heavyLift: true, priceMinor: true }),
+    photos: z.array(listingPhotoSchema),
+    publishedAt: z.string().nullable(),
+  }),
+  slabs: z.array(slabSchema.extend({ readings: z.array(moistureReadingSchema) })),
+  log: logSchema.nullable(),
+  otherSlabsFromLog: z.array(z.object({ id: z.string(), sequenceInLog: z.number().nullable(), listingId: z.string().nullable(), status: z.string() })),
+  yard: z.object({ name: z.string().nullable(), town: z.string().nullable(), latitude: z.number().nullable(), longitude: z.number().nullable() }),
+});
+export type CatalogueDetail = z.infer<typeof catalogueDetailSchema>;
