@@ -47,6 +47,12 @@ export const catalogueQuerySchema = z
     near: z.string().trim().max(120).optional(),
     radiusKm: z.coerce.number({ error: "The distance must be a number of kilometres." }).min(1, "Search at least 1 km around.").max(5000).optional(),
     freight: flag.optional(),
+    // "Fits my table": the finished top wanted (mm), or a number of diners.
+    fitLength: z.coerce.number({ error: "Give the top's length in millimetres." }).int().min(200, "A top is at least 200 mm long.").max(12_000).optional(),
+    fitWidth: z.coerce.number({ error: "Give the top's width in millimetres." }).int().min(100, "A top is at least 100 mm wide.").max(3_000).optional(),
+    fitThickness: z.coerce.number({ error: "Give the top's thickness in millimetres." }).int().min(10, "A top is at least 10 mm thick.").max(300).optional(),
+    fitEdge: z.enum(["keep_live_edge", "trim_straight"]).default("keep_live_edge"),
+    seats: z.coerce.number({ error: "Give the number of diners." }).int("Give a whole number of diners.").min(2, "A table seats at least 2.").max(20, "Twenty diners is the most we plan for.").optional(),
     sort: z.enum(catalogueSorts, { error: "Unknown sort order." }).default("newest"),
     cursor: z.string().max(400).optional(),
     limit: z.coerce.number().int().min(1).max(60).default(24),
@@ -65,6 +71,7 @@ export const catalogueQuerySchema = z
     }
     if (query.sort === "nearest" && !query.near) context.addIssue({ code: "custom", path: ["sort"], message: "Choose a town to sort by distance." });
     if (query.radiusKm !== undefined && !query.near) context.addIssue({ code: "custom", path: ["radiusKm"], message: "Choose a town to search around." });
+    if (query.seats !== undefined && query.fitLength !== undefined) context.addIssue({ code: "custom", path: ["seats"], message: "Give either the number of diners or the top's length, not both." });
   });
 export type CatalogueQuery = z.input<typeof catalogueQuerySchema>;
 export type CatalogueQueryParsed = z.output<typeof catalogueQuerySchema>;
@@ -95,6 +102,8 @@ export const catalogueCardSchema = z.object({
   town: z.string().nullable(),
   yardName: z.string().nullable(),
   distanceKm: z.number().nullable(),
+  /** With a fit search: the margin left over the wanted top, mm. */
+  fit: z.object({ spareLengthMm: z.number(), spareWidthMm: z.number(), spareThicknessMm: z.number() }).nullable(),
   photoUrl: z.string().nullable(),
   photoAlt: z.string().nullable(),
   publishedAt: z.string(),
@@ -106,6 +115,8 @@ export const catalogueResultSchema = z.object({
   total: z.number(),
   nextCursor: z.string().nullable(),
   near: z.object({ name: z.string(), region: z.string(), latitude: z.number(), longitude: z.number() }).nullable(),
+  /** The top that was searched for (after turning diners into a size). */
+  fitTop: z.object({ lengthMm: z.number(), widthMm: z.number(), thicknessMm: z.number(), seats: z.number().nullable() }).nullable(),
 });
 export type CatalogueResult = z.infer<typeof catalogueResultSchema>;
 

@@ -12,6 +12,7 @@ import { Column, Entity, Index, PrimaryColumn } from "typeorm";
 @Index("idx_catalogue_price_per_bf", ["pricePerBoardFootMinor", "listingId"])
 @Index("idx_catalogue_size", ["boardFeet", "listingId"])
 @Index("idx_catalogue_position", ["latitude", "longitude"])
+@Index("idx_catalogue_fit", ["usableLengthMm", "usableWidthMm", "usableThicknessMm"])
 export class CatalogueEntryEntity {
   @PrimaryColumn({ name: "listing_id", type: "char", length: 36 })
   listingId: string;
@@ -46,6 +47,19 @@ export class CatalogueEntryEntity {
   /** Narrowest point of any slab in the set, mm. */
   @Column({ name: "min_width_mm", type: "int" })
   minWidthMm: number;
+
+  /**
+   * What the listing yields as a finished top with slab-math's default allowances (ends trimmed,
+   * faces flattened; a set glued side by side): the "fits my table" search compares these.
+   */
+  @Column({ name: "usable_length_mm", type: "int" })
+  usableLengthMm: number;
+
+  @Column({ name: "usable_width_mm", type: "int" })
+  usableWidthMm: number;
+
+  @Column({ name: "usable_thickness_mm", type: "int" })
+  usableThicknessMm: number;
 
   /** Wettest last reading in the set, %; null when a slab has no reading. */
   @Column({ name: "moisture_pct", type: "double", nullable: true })

@@ -1,3 +1,4 @@
+import { gluedTableFit, tableFit, topLengthForSeats } from "@grainyard/slab-math";
 import { getDistance } from "geolib";
 import sharp from "sharp";
 import request from "supertest";
@@ -50,7 +51,7 @@ beforeAll(async () => {
   const lakemont = await sawyerIn("Lakemont"); // invented demo town
   const northshore = await sawyerIn("Northshore"); // invented demo town, about 14 km north
   const toronto = await sawyerIn("Toronto"); // far away (GeoNames)
-  await liveListing(lakemont, "walnut dining", [slab("black-walnut", 2600, 57, [950, 900, 880], { features: ["crotch", "figure"] })], { rateMinor: 240_000, freight: true }, [30, 18, 9]);
+  await liveListing(lakemont, "walnut dining", [slab("black-walnut", 2600, 57, [1000, 960, 940], { features: ["crotch", "figure"] })], { rateMinor: 240_000, freight: true }, [30, 18, 9]);
   await liveListing(lakemont, "maple bench", [slab("silver-maple", 1500, 76, [420, 380, 300], { liveEdge: "one", features: ["spalting"] })], { rateMinor: 45_000 }, [25, 20, 16]);
   await liveListing(northshore, "oak pair", [slab("white-oak", 2400, 51, [520, 500]), slab("white-oak", 2400, 51, [515, 505])], { setKind: "bookmatched", rateMinor: 180_000, freight: true }, [12, 10, 8]);
   await liveListing(toronto, "elm shelf", [slab("american-elm", 1200, 38, [300, 290], { liveEdge: "none" })], { priceMode: "per_board_foot", rateMinor: 900 });
@@ -178,6 +179,44 @@ describe("catalogue search", () => {
     expect(titles(await search("species=white-ash&ready=1"))).toEqual(["ash board"]);
     await sawyer.post(`/api/v1/yard/listings/${id}/withdraw`);
     expect((await search("species=white-ash")).body.total).toBe(0);
+  });
+});
+
+describe("fits my table", () => {
+  it("finds what seats eight (2 × 4 diners at 600 mm each: a 2400 × 900 × 38 mm top, common practice) with the spare margin", async () => {
+    expect(topLengthForSeats(8)).toBe(2400);
+    const res = await search("seats=8");
+    expect(res.status).toBe(200);
+    expect(titles(res)).toEqual(["walnut dining"]);
+    expect(res.body.fitTop).toEqual({ lengthMm: 2400, widthMm: 900, thicknessMm: 38, seats: 8 });
+    // 2600 mm less 2 × 50 mm end trim = 2500 usable; 57 mm less 6 mm flattening = 51 mm.
+    expect(res.body.results[0].fit).toMatchObject({ spareLengthMm: 100, spareThicknessMm: 13 });
+    expect(res.body.results[0].fit.spareWidthMm).toBeGreaterThan(0);
+  });
+
+  it("agrees with slab-math's fit check for every listing and several tops (glued widths for sets)", async () => {
+    const all = (await search("limit=60")).body.results as { listingId: string; title: string }[];
+    const tops = [
+      { lengthMm: 2000, widthMm: 900, thicknessMm: 40 },
+      { lengthMm: 1100, widthMm: 280, thicknessMm: 30 },
+      { lengthMm: 2300, widthMm: 1000, thicknessMm: 45 },
+      { lengthMm: 1400, widthMm: 300, thicknessMm: 60 },
+    ];
+    for (const top of tops) {
+      const found = new Set(titles(await search(`fitLength=${top.lengthMm}&fitWidth=${top.widthMm}&fitThickness=${top.thicknessMm}&limit=60`)));
+      for (const card of all) {
+        const detail = (await request(ctx.app).get(`/api/v1/catalogue/${card.listingId}`)).body;
+        const slabs = detail.slabs.map((s: { lengthMm: number; thicknessMm: number; widthStationsMm: number[] }) => ({ lengthMm: s.lengthMm, thicknessMm: s.thicknessMm, widthStationsMm: s.widthStationsMm }));
+        const expected = slabs.length === 1 ? tableFit(slabs[0], top) : gluedTableFit(slabs, top);
+        expect(found.has(card.title), `${card.title} for ${JSON.stringify(top)}`).toBe(expected.fits);
+      }
+    }
+  });
+
+  it("refuses a fit search with both diners and a length, or impossible sizes", async () => {
+    expect((await search("seats=8&fitLength=2000")).status).toBe(422);
+    expect((await search("seats=1")).status).toBe(422);
+    expect((await search("fitWidth=-3")).status).toBe(422);
   });
 });
 

@@ -59,7 +59,12 @@ export async function seedLakemont(dataSource: DataSource, bcryptCost: number): 
   await dataSource.transaction(async (manager) => {
     const repository = manager.getRepository(AccountEntity);
     for (const demo of demoAccounts) {
-      if (await repository.exists({ where: { email: demo.email } })) continue;
+      const existing = await repository.findOneBy({ email: demo.email });
+      if (existing) {
+        // Accounts seeded before pickup towns were placed on the map get their position now.
+        if (existing.pickupTown && existing.pickupLatitude === null) await repository.update({ id: existing.id }, pickupPosition(existing.pickupTown));
+        continue;
+      }
       await repository.insert({
         id: randomUUID(),
         email: demo.email,

@@ -1,12 +1,13 @@
 import { createHmac, timingSafeEqual } from "node:crypto";
 import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult } from "@grainyard/contracts";
 import { slabFeatures, yardPaths } from "@grainyard/contracts";
-import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug } from "@grainyard/slab-math";
+import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug, gluedTableFit, tableFit, topLengthForSeats } from "@grainyard/slab-math";
 import { Brackets, In, type DataSource, type EntityManager, type SelectQueryBuilder } from "typeorm";
 import { AccountEntity, CatalogueEntryEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
 import { Invalid, NotFound } from "../errors.ts";
 import type { Actor } from "./actor.ts";
 import { photoView } from "./listing-service.ts";
+import { withFigureErrors } from "./figures.ts";
 import { findPlace } from "./places.ts";
 import { toLog, toSlab } from "./yard-service.ts";
 
@@ -23,6 +24,36 @@ function featuresOf(bits: number) {
 /** Haversine distance in SQL (km) from a fixed point to the entry's position. */
 function distanceSql(alias: string) {
   return `(${EARTH_RADIUS_KM} * 2 * ASIN(SQRT(POWER(SIN(RADIANS(${alias}.latitude - :nearLatitude) / 2), 2) + COS(RADIANS(:nearLatitude)) * COS(RADIANS(${alias}.latitude)) * POWER(SIN(RADIANS(${alias}.longitude - :nearLongitude) / 2), 2))))`;
+}
+
+/** A dining top's usual width and thickness when a buyer gives only the number of diners (common practice: about 900 mm wide, 38 mm thick). */
+export const DEFAULT_DINING_WIDTH_MM = 900;
+export const DEFAULT_TOP_THICKNESS_MM = 38;
+
+/**
+ * What a listing yields as a finished top, from slab-math's fit check with its default allowances:
+ * the fit against a 1 mm top leaves spare = usable − 1 in each direction.
+ */
+export function usableTop(slabs: { lengthMm: number; thicknessMm: number; widthStationsMm: number[] }[]) {
+  const smallest = { lengthMm: 1, widthMm: 1, thicknessMm: 1 };
+  const fit = slabs.length === 1 ? tableFit(slabs[0]!, smallest) : gluedTableFit(slabs, smallest);
+  return {
+    usableLengthMm: Math.max(0, Math.floor(fit.spareLengthMm + 1)),
+    usableWidthMm: Math.max(0, Math.floor(fit.spareWidthMm + 1)),
+    usableThicknessMm: Math.max(0, Math.floor(fit.spareThicknessMm + 1)),
+  };
+}
+
+/** The top a fit search asks for, or null when the query has no fit part. */
+export function wantedTop(input: CatalogueQueryParsed): { lengthMm: number; widthMm: number; thicknessMm: number; seats: number | null } | null {
+  if (input.seats === undefined && input.fitLength === undefined && input.fitWidth === undefined && input.fitThickness === undefined) return null;
+  const lengthMm = input.seats !== undefined ? topLengthForSeats(input.seats) : (input.fitLength ?? 200);
+  return {
+    lengthMm,
+    widthMm: input.fitWidth ?? (input.seats !== undefined ? DEFAULT_DINING_WIDTH_MM : 100),
+    thicknessMm: input.fitThickness ?? DEFAULT_TOP_THICKNESS_MM,
+    seats: input.seats ?? null,
+  };
 }
 
 interface SortSpec {
@@ -67,7 +98,13 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
     }
   }
 
-  function applyFilters(query: SelectQueryBuilder<CatalogueEntryEntity>, input: CatalogueQueryParsed, near: { latitude: number; longitude: number } | null) {
+  function applyFilters(query: SelectQueryBuilder<CatalogueEntryEntity>, input: CatalogueQueryParsed, near: { latitude: number; longitude: number } | null, top: ReturnType<typeof wantedTop>) {
+    if (top) {
+      query
+        .andWhere("entry.usable_length_mm >= :topLength", { topLength: top.lengthMm })
+        .andWhere("entry.usable_width_mm >= :topWidth", { topWidth: top.widthMm })
+        .andWhere("entry.usable_thickness_mm >= :topThickness", { topThickness: top.thicknessMm });
+    }
     if (input.species?.length) query.andWhere("entry.species_slug IN (:...species)", { species: input.species });
     if (input.lengthMin !== undefined) query.andWhere("entry.length_mm >= :lengthMin", { lengthMin: input.lengthMin });
     if (input.lengthMax !== undefined) query.andWhere("entry.length_mm <= :lengthMax", { lengthMax: input.lengthMax });
@@ -98,7 +135,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
     }
   }
 
-  function toCard(entry: CatalogueEntryEntity, distance: number | null): CatalogueCard {
+  function toCard(entry: CatalogueEntryEntity, distance: number | null, top: ReturnType<typeof wantedTop>): CatalogueCard {
     return {
       listingId: entry.listingId,
       title: entry.title,
@@ -125,6 +162,9 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       town: entry.town,
       yardName: entry.yardName,
       distanceKm: distance === null ? null : Math.round(distance * 10) / 10,
+      fit: top
+        ? { spareLengthMm: entry.usableLengthMm - top.lengthMm, spareWidthMm: entry.usableWidthMm - top.widthMm, spareThicknessMm: entry.usableThicknessMm - top.thicknessMm }
+        : null,
       photoUrl: entry.photoId ? yardPaths.photoImage(entry.photoId, "small") : null,
       photoAlt: entry.photoAlt,
       publishedAt: entry.publishedAt.toISOString(),
@@ -164,6 +204,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         thicknessMm: Math.min(...slabs.map((s) => s.thicknessMm)),
         averageWidthMm: Math.round(Math.min(...slabs.map((s) => s.averageWidthMm))),
         minWidthMm: Math.min(...slabs.map((s) => s.minWidthMm)),
+        ...usableTop(slabs),
         moisturePct: allRead ? Math.max(...(moistures as number[])) : null,
         ready: allRead && (moistures as number[]).every((m) => m >= KILN_DRIED_TARGET_BAND.minimumPct && m <= KILN_DRIED_TARGET_BAND.maximumPct),
         priceMinor: listing.priceMinor,
@@ -197,11 +238,12 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       const near = input.near ? findPlace(input.near) : null;
       if (input.near && !near) throw new Invalid(`We could not find the town "${input.near}".`, { near: "Choose a town from the list." }, "unknown_place");
       const sort = SORTS[input.sort];
+      const top = withFigureErrors(() => wantedTop(input));
       const repository = dataSource.getRepository(CatalogueEntryEntity);
 
       const base = repository.createQueryBuilder("entry");
       if (near) base.setParameters({ nearLatitude: near.latitude, nearLongitude: near.longitude });
-      applyFilters(base, input, near);
+      applyFilters(base, input, near, top);
       const total = await base.clone().getCount();
 
       const page = base.clone();
@@ -225,10 +267,11 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       const pageRows = rows.slice(0, input.limit);
       const last = pageRows.at(-1);
       return {
-        results: pageRows.map((r) => toCard(r.entity, r.distance !== null && Number.isFinite(r.distance) ? r.distance : null)),
+        results: pageRows.map((r) => toCard(r.entity, r.distance !== null && Number.isFinite(r.distance) ? r.distance : null, top)),
         total,
         nextCursor: hasMore && last ? encodeCursor(input.sort, sort.value(last.entity, last.distance), last.entity.listingId) : null,
         near: near ? { name: near.name, region: near.region, latitude: near.latitude, longitude: near.longitude } : null,
+        fitTop: top,
       };
     },
 
