@@ -95,7 +95,7 @@ export function createApp(deps: AppDependencies) {
   );
   app.use(express.json({ limit: "100kb" }));
 
-  const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret });
+  const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret, cache: config.catalogueCache });
   const listings = createListingService({
     dataSource: deps.dataSource,
     mailer: deps.mailer,

@@ -38,6 +38,7 @@ const environmentSchema = z.object({
   SIGN_IN_LIMIT_PER_IP: z.coerce.number().int().min(1).default(30),
   RESET_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(3),
   RESET_LIMIT_PER_IP: z.coerce.number().int().min(1).default(20),
+  CATALOGUE_CACHE: z.enum(["on", "off"]).default("on"),
 });
 
 export interface AppConfig {
@@ -53,6 +54,8 @@ export interface AppConfig {
   bcryptCost: number;
   webDist?: string;
   logLevel: string;
+  /** Short-lived cache of repeated catalogue searches (see catalogue-service.ts). */
+  catalogueCache: boolean;
   limits: { signInPerAccount: number; signInPerIp: number; resetPerAccount: number; resetPerIp: number; windowMs: number };
 }
 
@@ -89,6 +92,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
     bcryptCost: env.BCRYPT_COST,
     webDist: env.WEB_DIST,
     logLevel: env.LOG_LEVEL,
+    catalogueCache: env.CATALOGUE_CACHE === "on",
     limits: {
       signInPerAccount: env.SIGN_IN_LIMIT_PER_ACCOUNT,
       signInPerIp: env.SIGN_IN_LIMIT_PER_IP,

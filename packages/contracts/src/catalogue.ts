@@ -113,6 +113,8 @@ export type CatalogueCard = z.infer<typeof catalogueCardSchema>;
 export const catalogueResultSchema = z.object({
   results: z.array(catalogueCardSchema),
   total: z.number(),
+  /** The count stopped at its cap: there are at least `total` matches. */
+  totalIsAtLeast: z.boolean(),
   nextCursor: z.string().nullable(),
   near: z.object({ name: z.string(), region: z.string(), latitude: z.number(), longitude: z.number() }).nullable(),
   /** The top that was searched for (after turning diners into a size). */

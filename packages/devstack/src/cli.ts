@@ -6,6 +6,7 @@ import { profileFor, repoRoot } from "./profile.ts";
 import { startStack, writeEnvironmentFile } from "./stack.ts";
 import { runTestSuites } from "./test-run.ts";
 import { apiEntry, prepareDatabase, tsx, waitForApi, type DemoAccount } from "./api-process.ts";
+import { runStep } from "./processes.ts";
 import { buildWebIfStale, webDist } from "./web-build.ts";
 import { waitUntil } from "./ports.ts";
 
@@ -122,11 +123,40 @@ async function services(): Promise<void> {
   process.on("SIGTERM", stop);
 }
 
+/**
+ * `npm run bench`: slab-math and photo benchmarks, then the catalogue search benchmark against a
+ * national-scale catalogue (seeded once into its own database on the test profile's MariaDB).
+ */
+async function bench(): Promise<void> {
+  const profile = profileFor("test");
+  const stack = await startStack(profile, { fresh: false });
+  let code = 0;
+  try {
+    const environment = stack.apiEnvironment("grainyard_bench", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "silent" });
+    const env = { ...process.env, ...environment };
+    const api = join(repoRoot, "apps/api");
+    await runStep("slab-math benchmark", "pnpm", ["--filter", "@grainyard/slab-math", "bench"], { cwd: repoRoot });
+    await runStep("photo benchmark", tsx, ["bench/photo-pipeline.ts"], { cwd: api, env });
+    stack.mariadb.createDatabase("grainyard_bench");
+    await runStep("migrating the benchmark database", tsx, ["src/cli/migrate.ts"], { cwd: api, env });
+    say("seeding the national-scale catalogue (once; about 25 s)…");
+    await runStep("seeding the national-scale catalogue", tsx, ["src/cli/seed-national.ts"], { cwd: api, env });
+    await runStep("catalogue search benchmark", tsx, ["../../tests/bench/catalogue-search.ts"], { cwd: api, env });
+  } catch (error) {
+    warn(error instanceof Error ? error.message : String(error));
+    code = 1;
+  } finally {
+    await stack.stop();
+  }
+  process.exit(code);
+}
+
 const mode = process.argv[2];
 try {
   if (mode === "start" || mode === "dev") await serve(mode);
   else if (mode === "test") await test();
   else if (mode === "services") await services();
+  else if (mode === "bench") await bench();
   else {
     warn(`unknown mode "${mode}"; use start, dev or test`);
     process.exit(2);

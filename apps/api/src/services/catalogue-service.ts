@@ -2,6 +2,7 @@ import { createHmac, timingSafeEqual } from "node:crypto";
 import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult } from "@grainyard/contracts";
 import { slabFeatures, yardPaths } from "@grainyard/contracts";
 import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug, gluedTableFit, tableFit, topLengthForSeats } from "@grainyard/slab-math";
+import { LRUCache } from "lru-cache";
 import { Brackets, In, type DataSource, type EntityManager, type SelectQueryBuilder } from "typeorm";
 import { AccountEntity, CatalogueEntryEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
 import { Invalid, NotFound } from "../errors.ts";
@@ -72,8 +73,26 @@ const SORTS: Record<CatalogueQueryParsed["sort"], SortSpec> = {
   nearest: { column: "distance_km", direction: "ASC", value: (_e, d) => d ?? 0, decode: Number },
 };
 
-export function createCatalogueService(deps: { dataSource: DataSource; cursorSecret: string }) {
+/** Counts above this read "1000+": counting stops there, so a broad search costs no full scan. */
+export const COUNT_CAP = 1000;
+
+/**
+ * Short-lived answers for repeated searches (a popular filter set is asked again and again):
+ * counts for 30 s, pages for 5 s. Any change to the catalogue in this instance clears both;
+ * other instances may show a count up to 30 s old.
+ */
+const COUNT_TTL_MS = 30_000;
+const PAGE_TTL_MS = 5_000;
+
+export function createCatalogueService(deps: { dataSource: DataSource; cursorSecret: string; cache?: boolean }) {
   const { dataSource } = deps;
+  const caching = deps.cache ?? true;
+  const counts = new LRUCache<string, { total: number; capped: boolean }>({ max: 2000, ttl: COUNT_TTL_MS });
+  const pages = new LRUCache<string, CatalogueResult>({ max: 500, ttl: PAGE_TTL_MS });
+  const forgetCached = () => {
+    counts.clear();
+    pages.clear();
+  };
 
   const sign = (payload: string) => createHmac("sha256", deps.cursorSecret).update(payload).digest("base64url").slice(0, 22);
 
@@ -174,6 +193,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
   return {
     /** Rebuilds (or removes) a listing's catalogue row; call inside the transaction that changed it. */
     async refreshEntry(manager: EntityManager, listingId: string): Promise<void> {
+      forgetCached();
       const repository = manager.getRepository(CatalogueEntryEntity);
       const listing = await manager.getRepository(ListingEntity).findOneBy({ id: listingId });
       if (!listing || listing.status !== "live" || !listing.publishedAt) {
@@ -230,7 +250,8 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       });
     },
 
-    async search(input: CatalogueQueryParsed): Promise<CatalogueResult> {
+    /** The count and page queries of a search (the benchmark runs the page query's SQL directly). */
+    prepareSearch(input: CatalogueQueryParsed) {
       if (input.species?.some((slug) => !findSpeciesBySlug(slug))) {
         const unknown = input.species.filter((slug) => !findSpeciesBySlug(slug));
         throw new Invalid(`Unknown species: ${unknown.join(", ")}.`, { species: "Choose species from the list." });
@@ -239,12 +260,9 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       if (input.near && !near) throw new Invalid(`We could not find the town "${input.near}".`, { near: "Choose a town from the list." }, "unknown_place");
       const sort = SORTS[input.sort];
       const top = withFigureErrors(() => wantedTop(input));
-      const repository = dataSource.getRepository(CatalogueEntryEntity);
-
-      const base = repository.createQueryBuilder("entry");
+      const base = dataSource.getRepository(CatalogueEntryEntity).createQueryBuilder("entry");
       if (near) base.setParameters({ nearLatitude: near.latitude, nearLongitude: near.longitude });
       applyFilters(base, input, near, top);
-      const total = await base.clone().getCount();
 
       const page = base.clone();
       if (near) page.addSelect(distanceSql("entry"), "distance_km");
@@ -261,18 +279,47 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         );
       }
       page.orderBy(sort.column, sort.direction).addOrderBy("entry.listing_id", sort.direction).limit(input.limit + 1);
-      const { entities, raw } = await page.getRawAndEntities();
+      /** Counts at most COUNT_CAP + 1 matches: enough to say "1000+". */
+      const countQuery = (): [string, unknown[]] => {
+        const [sql, parameters] = base.clone().select("1").limit(COUNT_CAP + 1).getQueryAndParameters();
+        return [`SELECT COUNT(*) AS total FROM (${sql}) AS capped`, parameters];
+      };
+      return { countQuery, page, near, top, sort };
+    },
+
+    async search(input: CatalogueQueryParsed): Promise<CatalogueResult> {
+      const pageKey = JSON.stringify(input);
+      const cachedPage = caching ? pages.get(pageKey) : undefined;
+      if (cachedPage) return cachedPage;
+      const { countQuery, page, near, top, sort } = this.prepareSearch(input);
+      const { cursor: _cursor, sort: _sort, limit: _limit, ...filters } = input;
+      const countKey = JSON.stringify(filters);
+      const countTotal = async () => {
+        const cached = caching ? counts.get(countKey) : undefined;
+        if (cached) return cached;
+        const [sql, parameters] = countQuery();
+        const [row] = (await dataSource.query(sql, parameters)) as { total: string | number }[];
+        const found = Number(row?.total ?? 0);
+        const value = { total: Math.min(found, COUNT_CAP), capped: found > COUNT_CAP };
+        if (caching) counts.set(countKey, value);
+        return value;
+      };
+      const [counted, { entities, raw }] = await Promise.all([countTotal(), page.getRawAndEntities()]);
+      const total = counted.total;
       const rows = entities.map((entity, i) => ({ entity, distance: near ? Number((raw[i] as { distance_km: number | string | null }).distance_km ?? NaN) : null }));
       const hasMore = rows.length > input.limit;
       const pageRows = rows.slice(0, input.limit);
       const last = pageRows.at(-1);
-      return {
+      const result: CatalogueResult = {
         results: pageRows.map((r) => toCard(r.entity, r.distance !== null && Number.isFinite(r.distance) ? r.distance : null, top)),
         total,
+        totalIsAtLeast: counted.capped,
         nextCursor: hasMore && last ? encodeCursor(input.sort, sort.value(last.entity, last.distance), last.entity.listingId) : null,
         near: near ? { name: near.name, region: near.region, latitude: near.latitude, longitude: near.longitude } : null,
         fitTop: top,
       };
+      if (caching) pages.set(pageKey, result);
+      return result;
     },
 
     /** A slab page: live listings for everyone; a listing's own sawyer and admins see it at any stage. */

@@ -1,0 +1,130 @@
+/*
+ * Catalogue search benchmark, in one run on one machine (see `npm run bench`):
+ *   1. a bare Express endpoint returning a JSON page of the same size as the search's answer,
+ *   2. the catalogue search API (the real app, real MariaDB with the national-scale seed),
+ *   3. the raw SQL of that search's page query through mysql2.
+ * Prints requests/s and p50/p95/p99 latency for each, and the ratios. Figures only: no assertion.
+ * Goals (issue): search p95 ≤ 25 ms; API throughput ≥ 50 % of the bare endpoint at 50 connections;
+ * API time ≤ 1.5 × raw SQL time.
+ */
+import type { AddressInfo } from "node:net";
+import autocannon from "autocannon";
+import express from "express";
+import mysql from "mysql2/promise";
+import { catalogueQuerySchema } from "../../packages/contracts/src/index.ts";
+import { createApp } from "../../apps/api/src/app.ts";
+import { loadConfig } from "../../apps/api/src/config.ts";
+import { createDataSource } from "../../apps/api/src/db/data-source.ts";
+import { createMailer } from "../../apps/api/src/integrations/mail.ts";
+import { createPayments } from "../../apps/api/src/integrations/payments.ts";
+import { createPhotoStorage } from "../../apps/api/src/integrations/storage.ts";
+import { createLogger } from "../../apps/api/src/logger.ts";
+import { createCatalogueService } from "../../apps/api/src/services/catalogue-service.ts";
+
+const CONNECTIONS = 50;
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
+/** A typical buyer's filter set: two species, a length and width range, dry, newest first. */
+const TYPICAL = "species=black-walnut,white-oak&lengthMin=1800&widthMin=500&moistureMax=10&sort=newest&limit=24";
+
+const config = loadConfig({ ...process.env, LOG_LEVEL: "silent" });
+const dataSource = createDataSource(config.database);
+await dataSource.initialize();
+const [{ count }] = (await dataSource.query("SELECT COUNT(*) AS count FROM catalogue_entry")) as { count: string }[];
+
+async function serveApi(catalogueCache: boolean) {
+  const app = createApp({ config: { ...config, catalogueCache }, dataSource, mailer: createMailer(config.mail), storage: createPhotoStorage(config.storage), payments: createPayments(config.payments), logger: createLogger("silent") });
+  const server = app.listen(0, "127.0.0.1");
+  await new Promise((r) => server.once("listening", r));
+  return { server, url: `http://127.0.0.1:${(server.address() as AddressInfo).port}/api/v1/catalogue?${TYPICAL}` };
+}
+// The API with its short answer cache (as deployed) and without it (every request reaches MariaDB).
+const { server: apiServer, url: apiUrl } = await serveApi(true);
+const { server: uncachedServer, url: uncachedUrl } = await serveApi(false);
+const sample = await (await fetch(apiUrl)).text();
+
+const bare = express();
+bare.get("/page", (_req, res) => {
+  res.type("application/json").send(sample);
+});
+const bareServer = bare.listen(0, "127.0.0.1");
+await new Promise((r) => bareServer.once("listening", r));
+const bareUrl = `http://127.0.0.1:${(bareServer.address() as AddressInfo).port}/page`;
+
+// The SQL the API runs for the page (TypeORM's query with its parameters), run straight through mysql2.
+const catalogue = createCatalogueService({ dataSource, cursorSecret: config.sessionSecret, cache: false });
+const input = catalogueQuerySchema.parse(Object.fromEntries(new URLSearchParams(TYPICAL)));
+const [pageSql, pageParameters] = catalogue.prepareSearch(input).page.getQueryAndParameters();
+const [countSql, countParameters] = catalogue.prepareSearch(input).countQuery();
+const explain = (await dataSource.query(`EXPLAIN ${pageSql}`, pageParameters)) as Record<string, unknown>[];
+
+interface Figures {
+  name: string;
+  requestsPerSecond: number;
+  p50: number;
+  p95: number;
+  p99: number;
+}
+
+function percentiles(name: string, latencies: number[], seconds: number): Figures {
+  latencies.sort((a, b) => a - b);
+  const at = (p: number) => latencies[Math.min(latencies.length - 1, Math.floor((p / 100) * latencies.length))] ?? NaN;
+  return { name, requestsPerSecond: latencies.length / seconds, p50: at(50), p95: at(95), p99: at(99) };
+}
+
+/** autocannon drives the HTTP endpoints; every response time is kept, so p95 is exact. */
+async function cannon(name: string, url: string): Promise<Figures> {
+  const latencies: number[] = [];
+  let failures = 0;
+  const instance = autocannon({ url, connections: CONNECTIONS, duration: SECONDS, pipelining: 1 });
+  instance.on("response", (_client: unknown, statusCode: number, _bytes: number, responseTime: number) => {
+    if (statusCode !== 200) failures += 1;
+    latencies.push(responseTime);
+  });
+  const result = await instance;
+  if (failures > 0 || result.errors > 0) throw new Error(`${name}: ${failures} failed answers and ${result.errors} errors`);
+  return percentiles(name, latencies, SECONDS);
+}
+
+/** The page and count queries as the API issues them, 50 at a time, straight through mysql2. */
+async function rawSql(): Promise<Figures> {
+  const pool = mysql.createPool({ host: config.database.host, port: config.database.port, user: config.database.user, password: config.database.password, database: config.database.database, connectionLimit: CONNECTIONS });
+  const latencies: number[] = [];
+  const deadline = Date.now() + SECONDS * 1000;
+  await Promise.all(
+    Array.from({ length: CONNECTIONS }, async () => {
+      while (Date.now() < deadline) {
+        const started = performance.now();
+        await Promise.all([pool.query(pageSql, pageParameters), pool.query(countSql, countParameters)]);
+        latencies.push(performance.now() - started);
+      }
+    }),
+  );
+  await pool.end();
+  return percentiles("raw SQL (mysql2)", latencies, SECONDS);
+}
+
+console.log(`\nCatalogue search benchmark — ${count} live listings, ${CONNECTIONS} connections, ${SECONDS} s each`);
+console.log(`typical query: ${TYPICAL}`);
+console.log(`answer size: ${sample.length} bytes, ${(JSON.parse(sample) as { total: number }).total} matches`);
+console.log("\nEXPLAIN of the page query:");
+console.table(explain.map((row) => ({ table: row.table, type: row.type, key: row.key, rows: row.rows, Extra: row.Extra })));
+
+const results = [
+  await cannon("bare Express, same JSON", bareUrl),
+  await cannon("catalogue search API", apiUrl),
+  await cannon("search API, cache off", uncachedUrl),
+  await rawSql(),
+];
+console.log("");
+console.table(results.map((r) => ({ endpoint: r.name, "requests/s": Math.round(r.requestsPerSecond), "p50 ms": r.p50.toFixed(1), "p95 ms": r.p95.toFixed(1), "p99 ms": r.p99.toFixed(1) })));
+const [bareFigures, apiFigures, uncachedFigures, sqlFigures] = results as [Figures, Figures, Figures, Figures];
+console.log(`API throughput / bare endpoint: ${((apiFigures.requestsPerSecond / bareFigures.requestsPerSecond) * 100).toFixed(0)} %  (goal ≥ 50 %)`);
+console.log(`API p95: ${apiFigures.p95.toFixed(1)} ms  (goal ≤ 25 ms)`);
+console.log(`uncached API p50 / raw SQL p50: ${(uncachedFigures.p50 / sqlFigures.p50).toFixed(2)} ×, p95: ${(uncachedFigures.p95 / sqlFigures.p95).toFixed(2)} ×  (goal ≤ 1.5 ×)`);
+console.log(`uncached API: ${Math.round(uncachedFigures.requestsPerSecond)} requests/s, p95 ${uncachedFigures.p95.toFixed(1)} ms`);
+
+apiServer.close();
+uncachedServer.close();
+bareServer.close();
+await dataSource.destroy();
+process.exit(0);
