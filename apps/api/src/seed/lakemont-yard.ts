@@ -3,6 +3,7 @@ import type { DataSource, EntityManager } from "typeorm";
 import { AccountEntity, ListingEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
 import { computeListingFigures, computeSlabFigures } from "../services/figures.ts";
 import { DEFAULT_FEE_SETTINGS } from "../services/marketplace-settings.ts";
+import { slabPicture } from "./slab-picture.ts";
 
 /**
  * Invented Lakemont yard stock: logs from street trees, parks and a hospital expansion, the slabs
@@ -35,7 +36,7 @@ interface DemoLog {
   diameterMm: number;
   notes: string;
   slabs: DemoSlab[];
-  listing?: { title: string; description: string; setKind: "single" | "sequential" | "bookmatched"; slabs: number[]; priceMode: "per_board_foot" | "fixed"; rateMinor: number };
+  listings: { title: string; description: string; setKind: "single" | "sequential" | "bookmatched"; slabs: number[]; priceMode: "per_board_foot" | "fixed"; rateMinor: number; live: boolean }[];
 }
 
 const kilnDried = (readings: [string, number][]): Pick<DemoSlab, "dryingMethod" | "kilnCompletedOn" | "readings"> => ({
@@ -73,7 +74,10 @@ export const demoLogs: DemoLog[] = [
         ["2025-01-20", 8.5],
       ]),
     })),
-    listing: { title: "Spalted silver maple, sequential pair", description: "Two neighbouring slabs from an Alder Row street maple, flattened and kiln-finished.", setKind: "sequential", slabs: [1, 2], priceMode: "per_board_foot", rateMinor: 1100 },
+    listings: [
+      { title: "Spalted silver maple, sequential pair", description: "Two neighbouring slabs from an Alder Row street maple, flattened and kiln-finished.", setKind: "sequential", slabs: [1, 2], priceMode: "per_board_foot", rateMinor: 1100, live: true },
+      { title: "Silver maple bench slab with checks", description: "The outside slab of the Alder Row maple; end checks stabilised.", setKind: "single", slabs: [3], priceMode: "fixed", rateMinor: 32000, live: false },
+    ],
   },
   {
     yardEmail: "hello@cobblelane-slabs.test",
@@ -86,25 +90,48 @@ export const demoLogs: DemoLog[] = [
     milledOn: "2024-02-20",
     lengthMm: 2700,
     diameterMm: 910,
-    notes: "Removed for the Fountain Park path renovation; milled on site with the chainsaw mill.",
-    slabs: [1, 2].map((sequence) => ({
-      sequence,
-      lengthMm: 2500,
-      thicknessMm: 76,
-      widthStationsMm: [840, 800, 785, 820],
-      liveEdge: "both",
-      surfacing: "rough_sawn",
-      features: [],
-      defects: ["cracks"],
-      dryingMethod: "air",
-      kilnCompletedOn: null,
-      readings: [
-        ["2024-03-01", 74],
-        ["2024-09-01", 41],
-        ["2025-03-01", 27],
-        ["2025-09-01", 19],
-      ],
-    })),
+    notes: "Removed for the Fountain Park path renovation; milled on site with the chainsaw mill. The widest slab went through the co-op kiln.",
+    slabs: [
+      ...[1, 2].map(
+        (sequence): DemoSlab => ({
+          sequence,
+          lengthMm: 2500,
+          thicknessMm: 76,
+          widthStationsMm: [840, 800, 785, 820],
+          liveEdge: "both",
+          surfacing: "rough_sawn",
+          features: [],
+          defects: ["cracks"],
+          dryingMethod: "air",
+          kilnCompletedOn: null,
+          readings: [
+            ["2024-03-01", 74],
+            ["2024-09-01", 41],
+            ["2025-03-01", 27],
+            ["2025-09-01", 19],
+          ],
+        }),
+      ),
+      {
+        sequence: 3,
+        lengthMm: 2950,
+        thicknessMm: 64,
+        widthStationsMm: [1040, 985, 960, 975, 1010],
+        liveEdge: "both",
+        surfacing: "flattened",
+        features: ["figure"],
+        defects: ["butterfly_keys"],
+        ...kilnDried([
+          ["2024-03-01", 71],
+          ["2024-10-01", 33],
+          ["2025-04-01", 17],
+          ["2025-08-20", 8],
+        ]),
+      },
+    ],
+    listings: [
+      { title: "Wide red oak dining slab, seats eight", description: "Centre cut of the Fountain Park oak, flattened both faces; two walnut butterfly keys hold a small check.", setKind: "single", slabs: [3], priceMode: "per_board_foot", rateMinor: 1450, live: true },
+    ],
   },
   {
     yardEmail: "kiln@northshore-coop.test",
@@ -134,10 +161,15 @@ export const demoLogs: DemoLog[] = [
         ["2024-02-15", 7.5],
       ]),
     })),
+    listings: [
+      { title: "Bookmatched black walnut pair with crotch figure", description: "Two neighbouring slabs from the hospital-wing walnut, opened like a book. One small void filled with clear epoxy.", setKind: "bookmatched", slabs: [1, 2], priceMode: "fixed", rateMinor: 260000, live: true },
+    ],
   },
 ];
 
-async function addLog(manager: EntityManager, sawyer: AccountEntity, demo: DemoLog) {
+type AddPhoto = (manager: EntityManager, listingId: string, position: number, bytes: Buffer, altText: string) => Promise<void>;
+
+async function addLog(manager: EntityManager, sawyer: AccountEntity, demo: DemoLog, photos?: AddPhoto, onLive?: (manager: EntityManager, listingId: string) => Promise<void>) {
   const logId = randomUUID();
   await manager.getRepository(YardLogEntity).insert({
     id: logId,
@@ -188,44 +220,56 @@ async function addLog(manager: EntityManager, sawyer: AccountEntity, demo: DemoL
     slabIds.set(slab.sequence, id);
     figuresBySequence.set(slab.sequence, figures);
   }
-  if (demo.listing) {
+  for (const demoListing of demo.listings) {
     const listingId = randomUUID();
     const figures = computeListingFigures({
-      priceMode: demo.listing.priceMode,
-      rateMinor: demo.listing.rateMinor,
-      slabs: demo.listing.slabs.map((n) => figuresBySequence.get(n)!),
+      priceMode: demoListing.priceMode,
+      rateMinor: demoListing.rateMinor,
+      slabs: demoListing.slabs.map((n) => figuresBySequence.get(n)!),
       fees: DEFAULT_FEE_SETTINGS,
     });
+    const at = new Date();
     await manager.getRepository(ListingEntity).insert({
       id: listingId,
       sawyerId: sawyer.id,
-      title: demo.listing.title,
-      description: demo.listing.description,
-      setKind: demo.listing.setKind,
-      priceMode: demo.listing.priceMode,
-      rateMinor: demo.listing.rateMinor,
+      title: demoListing.title,
+      description: demoListing.description,
+      setKind: demoListing.setKind,
+      priceMode: demoListing.priceMode,
+      rateMinor: demoListing.rateMinor,
       currency: "USD",
       pickup: true,
       freight: true,
-      status: "draft",
+      status: demoListing.live ? "live" : "draft",
       reviewNote: null,
-      submittedAt: null,
-      publishedAt: null,
+      submittedAt: demoListing.live ? at : null,
+      publishedAt: demoListing.live ? at : null,
       ...figures,
     });
-    await manager.getRepository(ListingSlabEntity).insert(demo.listing.slabs.map((n, position) => ({ listingId, slabId: slabIds.get(n)!, position })));
+    await manager.getRepository(ListingSlabEntity).insert(demoListing.slabs.map((n, position) => ({ listingId, slabId: slabIds.get(n)!, position })));
+    if (photos) {
+      for (const [position, n] of demoListing.slabs.entries()) {
+        const slab = demo.slabs.find((s) => s.sequence === n)!;
+        await photos(manager, listingId, position, await slabPicture(demo.speciesSlug, slab.lengthMm, slab.widthStationsMm, n), `Slab ${n} of the ${demo.siteNeighbourhood} log, top face`);
+      }
+    }
+    if (demoListing.live) await onLive?.(manager, listingId);
   }
 }
 
-/** Adds the demo yard stock to each demo sawyer who has no logs yet; a second run adds nothing. */
-export async function seedLakemontYards(dataSource: DataSource): Promise<{ logs: number }> {
+/**
+ * Adds the demo yard stock to each demo sawyer who does not have it yet; a second run adds
+ * nothing. With `photos`, listings get drawn photos through the real photo pipeline, and live
+ * ones enter the catalogue through `onLive`.
+ */
+export async function seedLakemontYards(dataSource: DataSource, options: { photos?: AddPhoto; onLive?: (manager: EntityManager, listingId: string) => Promise<void> } = {}): Promise<{ logs: number }> {
   let logs = 0;
   await dataSource.transaction(async (manager) => {
     for (const demo of demoLogs) {
       const sawyer = await manager.getRepository(AccountEntity).findOneBy({ email: demo.yardEmail });
       if (!sawyer) continue;
       if (await manager.getRepository(YardLogEntity).exists({ where: { sawyerId: sawyer.id, siteNeighbourhood: demo.siteNeighbourhood } })) continue;
-      await addLog(manager, sawyer, demo);
+      await addLog(manager, sawyer, demo, options.photos, options.onLive);
       logs += 1;
     }
   });

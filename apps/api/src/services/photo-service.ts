@@ -1,6 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { MAX_PHOTOS_PER_LISTING, type ListingPhoto } from "@grainyard/contracts";
-import type { DataSource } from "typeorm";
+import type { DataSource, EntityManager } from "typeorm";
 import { ListingEntity, ListingPhotoEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import type { PhotoStorage } from "../integrations/storage.ts";
@@ -129,3 +129,17 @@ export function createPhotoService(deps: { dataSource: DataSource; storage: Phot
 }
 
 export type PhotoService = ReturnType<typeof createPhotoService>;
+
+/**
+ * Stores a photo for a listing without the request checks (the seed's drawn demo photos): the
+ * same pipeline — inspected, resized to WebP without metadata, original kept private.
+ */
+export async function storeSeedPhoto(manager: EntityManager, storage: PhotoStorage, listingId: string, position: number, bytes: Buffer, altText: string): Promise<void> {
+  const inspection = await inspectPhoto(bytes);
+  const { sizes } = await renderDisplaySizes(bytes);
+  const photoId = randomUUID();
+  await putObject(storage.client, storage.bucket, originalKey(listingId, photoId), bytes, `image/${inspection.format}`, { private: true });
+  for (const size of sizes) await putObject(storage.client, storage.bucket, displayKey(listingId, photoId, size.name), size.bytes, size.contentType, { private: false });
+  const large = sizes.find((s) => s.name === "large") ?? sizes[0]!;
+  await manager.getRepository(ListingPhotoEntity).insert({ id: photoId, listingId, position, altText, width: large.width, height: large.height, originalFormat: inspection.format });
+}
