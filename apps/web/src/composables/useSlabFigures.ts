@@ -29,13 +29,13 @@ export function slabMathMessage(error: SlabMathError): { field: string; message:
   const station = /^widthStationsMm\[(\d+)\]$/.exec(error.field);
   if (station) {
     const index = Number(station[1]);
-    return { field: `widthStationsMm.${index}`, message: `Width ${index + 1} is not a width we can use (0–3000 mm). Check the number.` };
+    return { field: `widthStationsMm.${index}`, message: `Width ${index + 1} is wider than any slab we take (3 m, about 118″). Check the number and the units.` };
   }
   switch (error.field) {
     case "lengthMm":
-      return { field: "lengthMm", message: "That length is beyond what we can work with (up to 12 m). Check the number." };
+      return { field: "lengthMm", message: "That is longer than any slab we take (12 m, about 39 ft). Check the number and the units." };
     case "thicknessMm":
-      return { field: "thicknessMm", message: "That thickness is beyond what we can work with (up to 600 mm). Check the number." };
+      return { field: "thicknessMm", message: "That is thicker than any slab we take (600 mm, about 23 5/8″). Check the number and the units." };
     case "widthStationsMm":
       return { field: "widthStationsMm", message: "Give at least one width above zero, at two or more points." };
     case "volumeM3":

@@ -165,12 +165,16 @@ function isOffline(error: unknown): boolean {
  * Sends what is pending, in order. Never throws: the result says how far it got.
  * Photos the server refuses keep their message (`rejected`) and do not stop the others.
  */
-export async function syncListingDraft(draft: ListingDraft, hooks: SyncHooks): Promise<SyncResult> {
+export async function syncListingDraft(
+  draft: ListingDraft,
+  hooks: SyncHooks,
+  options: { photosOnly?: boolean } = {},
+): Promise<SyncResult> {
   const online = hooks.isOnline ?? (() => (typeof navigator === "undefined" ? true : navigator.onLine !== false));
   if (!online()) return { status: "offline" };
   let listing: Listing | null = null;
   try {
-    if (draft.fieldsPending || !draft.serverId) {
+    if (!draft.serverId || (draft.fieldsPending && !options.photosOnly)) {
       const input = hooks.toInput(draft.fields);
       if (!input) return { status: "incomplete" };
       listing = draft.serverId
@@ -228,7 +232,7 @@ export async function syncListingDraft(draft: ListingDraft, hooks: SyncHooks): P
       await hooks.api.setPhotoOrder(listingId, order);
     }
     draft.orderPending = false;
-    draft.saveQueued = false;
+    if (!options.photosOnly) draft.saveQueued = false;
     await hooks.onChange(draft);
     return { status: "synced", listing };
   } catch (error) {

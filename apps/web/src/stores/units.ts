@@ -1,5 +1,5 @@
 import { defineStore } from "pinia";
-import { ref, watch } from "vue";
+import { ref } from "vue";
 
 export type UnitSystem = "metric" | "imperial";
 
@@ -24,16 +24,14 @@ function readStored(): UnitSystem | null {
 export const useUnitsStore = defineStore("units", () => {
   const system = ref<UnitSystem>(readStored() ?? guessSystem());
 
-  watch(system, (next) => {
+  /** Switches units and remembers the choice (even when it equals the guess). */
+  function choose(next: UnitSystem) {
+    system.value = next;
     try {
       globalThis.localStorage?.setItem(UNITS_STORAGE_KEY, next);
     } catch {
       // Private mode or storage full: the choice lasts for this visit only.
     }
-  });
-
-  function choose(next: UnitSystem) {
-    system.value = next;
   }
 
   return { system, choose };
