@@ -291,6 +291,21 @@ describe("password reset", () => {
 });
 
 describe("errors and logs", () => {
+  it("answers 500 with a plain message and no internals when something breaks underneath", async () => {
+    const broken = await createTestContext();
+    const client = await broken.signedInClient("sawyer");
+    await broken.dataSource.query("RENAME TABLE `session_record` TO `session_record_gone`");
+    try {
+      const res = await client.get("/api/v1/yard");
+      expect(res.status).toBe(500);
+      expect(res.body).toEqual({ error: { code: "internal", message: expect.stringMatching(/went wrong on our side/) } });
+      expect(JSON.stringify(res.body)).not.toMatch(/session_record|SELECT|at .*\.ts/);
+    } finally {
+      await broken.dataSource.query("RENAME TABLE `session_record_gone` TO `session_record`");
+      await broken.close();
+    }
+  });
+
   it("answers unknown API routes with JSON 404", async () => {
     const res = await request(ctx.app).get("/api/v1/no-such-thing");
     expect(res.status).toBe(404);
