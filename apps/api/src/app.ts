@@ -19,7 +19,7 @@ import { accountRoutes } from "./routes/account-routes.ts";
 import { healthRoutes } from "./routes/health-routes.ts";
 import { listingRoutes } from "./routes/listing-routes.ts";
 import { photoRoutes } from "./routes/photo-routes.ts";
-import { createPhotoService } from "./services/photo-service.ts";
+import { createLogPhotoService, createPhotoService } from "./services/photo-service.ts";
 import { yardRoutes } from "./routes/yard-routes.ts";
 import { catalogueRoutes } from "./routes/catalogue-routes.ts";
 import { createAccountService, SESSION_DAYS } from "./services/account-service.ts";
@@ -115,6 +115,7 @@ export function createApp(deps: AppDependencies) {
   const yard = createYardService({ dataSource: deps.dataSource, onSlabFiguresChanged: (manager, slabIds) => listings.refreshListingsOfSlabs(manager, slabIds) });
   const inventoryCsv = createInventoryCsv({ dataSource: deps.dataSource, yard });
   const photos = createPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
+  const logPhotos = createLogPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
 
   // Who is acting: read once per request from the session key in the cookie.
   app.use(async (req: Request, _res: Response, next: NextFunction) => {
@@ -128,7 +129,7 @@ export function createApp(deps: AppDependencies) {
   });
 
   app.use("/api", healthRoutes(deps));
-  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv), listingRoutes(listings), photoRoutes(photos), catalogueRoutes(catalogue));
+  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), catalogueRoutes(catalogue));
   app.use("/api", apiNotFound);
 
   // The built web app, with the single-page fallback for its own routes.

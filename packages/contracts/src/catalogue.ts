@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { liveEdges, slabFeatures } from "./yard.ts";
 import { currencies, listingFiguresSchema, listingPhotoSchema, setKinds } from "./listings.ts";
-import { moistureReadingSchema, slabSchema, logSchema } from "./yard.ts";
+import { moistureReadingSchema, photoSchema, slabSchema, logSchema } from "./yard.ts";
 
 /*
  * The buyers' catalogue: live listings, filtered and sorted, paged with an opaque cursor.
@@ -146,6 +146,8 @@ export const catalogueDetailSchema = z.object({
   }),
   slabs: z.array(slabSchema.extend({ readings: z.array(moistureReadingSchema) })),
   log: logSchema.nullable(),
+  /** Photos of the log (the tree as felled, the cut ends). */
+  logPhotos: z.array(photoSchema),
   otherSlabsFromLog: z.array(z.object({ id: z.string(), sequenceInLog: z.number().nullable(), listingId: z.string().nullable(), status: z.string() })),
   yard: z.object({ name: z.string().nullable(), town: z.string().nullable(), latitude: z.number().nullable(), longitude: z.number().nullable() }),
 });

@@ -214,7 +214,17 @@ export const dryingProjectionSchema = z.object({
 export type DryingProjectionView = z.infer<typeof dryingProjectionSchema>;
 
 export const logListSchema = z.object({ logs: z.array(logSchema) });
-export const logDetailSchema = z.object({ log: logSchema, slabs: z.array(slabSchema) });
+/** A photo of a log or a listing, as served (WebP sizes on our own origin). */
+export const photoSchema = z.object({
+  id: z.string(),
+  position: z.number(),
+  altText: z.string(),
+  width: z.number(),
+  height: z.number(),
+  smallUrl: z.string(),
+  largeUrl: z.string(),
+});
+export const logDetailSchema = z.object({ log: logSchema, slabs: z.array(slabSchema), photos: z.array(photoSchema) });
 export const slabListSchema = z.object({ slabs: z.array(slabSchema) });
 export const slabDetailSchema = z.object({ slab: slabSchema, readings: z.array(moistureReadingSchema), projection: dryingProjectionSchema });
 export const csvImportResultSchema = z.object({ created: z.number() });

@@ -2,6 +2,7 @@ import { AccountEntity } from "./account.ts";
 import { CatalogueEntryEntity } from "./catalogue-entry.ts";
 import { EmailTokenEntity } from "./email-token.ts";
 import { ListingPhotoEntity } from "./listing-photo.ts";
+import { LogPhotoEntity } from "./log-photo.ts";
 import { ListingSlabEntity } from "./listing-slab.ts";
 import { ListingEntity } from "./listing.ts";
 import { MoistureReadingEntity } from "./moisture-reading.ts";
@@ -9,5 +10,5 @@ import { SessionRecordEntity } from "./session-record.ts";
 import { SlabEntity } from "./slab.ts";
 import { YardLogEntity } from "./yard-log.ts";
 
-export { AccountEntity, CatalogueEntryEntity, EmailTokenEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SessionRecordEntity, SlabEntity, YardLogEntity };
-export const entities = [AccountEntity, SessionRecordEntity, EmailTokenEntity, YardLogEntity, SlabEntity, MoistureReadingEntity, ListingEntity, ListingSlabEntity, ListingPhotoEntity, CatalogueEntryEntity];
+export { AccountEntity, CatalogueEntryEntity, LogPhotoEntity, EmailTokenEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SessionRecordEntity, SlabEntity, YardLogEntity };
+export const entities = [AccountEntity, SessionRecordEntity, EmailTokenEntity, YardLogEntity, SlabEntity, MoistureReadingEntity, ListingEntity, ListingSlabEntity, ListingPhotoEntity, CatalogueEntryEntity, LogPhotoEntity];

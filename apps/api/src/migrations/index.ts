@@ -1,6 +1,7 @@
 import { Accounts1764662400000 } from "./1764662400000-accounts.ts";
 import { YardAndListings1764673200000 } from "./1764673200000-yard-and-listings.ts";
 import { Catalogue1764684000000 } from "./1764684000000-catalogue.ts";
+import { LogPhotos1764694800000 } from "./1764694800000-log-photos.ts";
 
 /** Every migration, oldest first. Add new ones at the end (see DEVELOPERS.md). */
-export const migrations = [Accounts1764662400000, YardAndListings1764673200000, Catalogue1764684000000];
+export const migrations = [Accounts1764662400000, YardAndListings1764673200000, Catalogue1764684000000, LogPhotos1764694800000];

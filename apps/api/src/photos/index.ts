@@ -12,4 +12,4 @@ export {
   type PhotoInspection,
   type PhotoRejectionCode,
 } from "./photo-processing.ts";
-export { StorageUnavailable, deleteObjects, displayKey, getObjectBytes, originalKey, putObject, type PutObjectOptions } from "./photo-storage.ts";
+export { StorageUnavailable, deleteObjects, displayKey, logPhotoKey, getObjectBytes, originalKey, putObject, type PutObjectOptions } from "./photo-storage.ts";

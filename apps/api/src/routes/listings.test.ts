@@ -258,3 +258,42 @@ describe("review flow", () => {
     expect(res.body.error.code).toBe("email_unverified");
   });
 });
+
+describe("log photos", () => {
+  it("stores a log's photos without metadata, shows them with the slab page once a slab from the log is live", async () => {
+    const log = (await sawyer.post("/api/v1/yard/logs", { speciesSlug: "black-walnut", siteTown: "Lakemont", siteKind: "private_yard", fellingReason: "hazard" })).body.log;
+    const upload = (client: BrowserClient, bytes: Buffer) =>
+      client.agent.post(`/api/v1/yard/logs/${log.id}/photos?altText=${encodeURIComponent("The log on the trailer")}`).set("x-csrf-token", client.csrfToken).set("content-type", "image/jpeg").send(bytes);
+    const res = await upload(sawyer, await phonePhoto());
+    expect(res.status).toBe(201);
+    expect(res.body.photo.altText).toBe("The log on the trailer");
+    expect((await upload(otherSawyer, await phonePhoto())).status).toBe(403);
+    expect((await upload(sawyer, Buffer.from("not a picture"))).body.error.code).toBe("not_an_image");
+    const detail = await sawyer.get(`/api/v1/yard/logs/${log.id}`);
+    expect(detail.body.photos.map((p: { id: string }) => p.id)).toEqual([res.body.photo.id]);
+
+    const own = await sawyer.agent.get(res.body.photo.largeUrl).buffer(true).parse((r, done) => {
+      const chunks: Buffer[] = [];
+      r.on("data", (c: Buffer) => chunks.push(c));
+      r.on("end", () => done(null, Buffer.concat(chunks)));
+    });
+    expect(own.status).toBe(200);
+    expect((await sharp(own.body as Buffer).metadata()).exif).toBeUndefined();
+    // Nothing from this log is live yet: hidden from others.
+    expect((await request(ctx.app).get(res.body.photo.smallUrl)).status).toBe(404);
+
+    const slab = await newSlab(sawyer, { logId: log.id, sequenceInLog: 1 });
+    const listing = (await sawyer.post("/api/v1/yard/listings", { title: "Walnut from the yard tree", slabIds: [slab.id], priceMode: "fixed", rateMinor: 30_000 })).body.listing;
+    await upload(sawyer, await phonePhoto()); // a second log photo
+    await sawyer.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(await phonePhoto());
+    await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
+    await admin.post(`/api/v1/admin/listings/${listing.id}/approve`);
+    expect((await request(ctx.app).get(res.body.photo.smallUrl)).status).toBe(200);
+    const page = await request(ctx.app).get(`/api/v1/catalogue/${listing.id}`);
+    expect(page.body.logPhotos).toHaveLength(2);
+
+    expect((await otherSawyer.delete(`/api/v1/yard/logs/${log.id}/photos/${res.body.photo.id}`)).status).toBe(403);
+    expect((await sawyer.delete(`/api/v1/yard/logs/${log.id}/photos/${res.body.photo.id}`)).status).toBe(204);
+    expect((await request(ctx.app).get(res.body.photo.smallUrl)).status).toBe(404);
+  });
+});

@@ -2,10 +2,11 @@ import express, { Router } from "express";
 import { logInputSchema, logUpdateSchema, moistureReadingInputSchema, slabInputSchema, slabUpdateSchema } from "@grainyard/contracts";
 import { parse } from "../http/context.ts";
 import type { InventoryCsv } from "../services/inventory-csv.ts";
+import type { LogPhotoService } from "../services/photo-service.ts";
 import type { YardService } from "../services/yard-service.ts";
 
 /** The sawyer's own yard: logs, slabs, moisture readings, CSV in and out. */
-export function yardRoutes(yard: YardService, csv: InventoryCsv) {
+export function yardRoutes(yard: YardService, csv: InventoryCsv, logPhotos: LogPhotoService) {
   const router = Router();
   const id = (value: string | string[] | undefined) => String(value);
 
@@ -16,7 +17,8 @@ export function yardRoutes(yard: YardService, csv: InventoryCsv) {
     res.status(201).json({ log: await yard.createLog(req.actor, parse(logInputSchema, req.body)) });
   });
   router.get("/yard/logs/:logId", async (req, res) => {
-    res.json(await yard.getLog(req.actor, id(req.params.logId)));
+    const detail = await yard.getLog(req.actor, id(req.params.logId));
+    res.json({ ...detail, photos: await logPhotos.list(detail.log.id) });
   });
   router.patch("/yard/logs/:logId", async (req, res) => {
     res.json({ log: await yard.updateLog(req.actor, id(req.params.logId), parse(logUpdateSchema, req.body)) });

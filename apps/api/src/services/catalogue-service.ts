@@ -4,10 +4,11 @@ import { slabFeatures, yardPaths } from "@grainyard/contracts";
 import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug, gluedTableFit, tableFit, topLengthForSeats } from "@grainyard/slab-math";
 import { LRUCache } from "lru-cache";
 import { Brackets, In, type DataSource, type EntityManager, type SelectQueryBuilder } from "typeorm";
-import { AccountEntity, CatalogueEntryEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
+import { AccountEntity, CatalogueEntryEntity, LogPhotoEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
 import { Invalid, NotFound } from "../errors.ts";
 import type { Actor } from "./actor.ts";
 import { photoView } from "./listing-service.ts";
+import { logPhotoView } from "./photo-service.ts";
 import { withFigureErrors } from "./figures.ts";
 import { findPlace } from "./places.ts";
 import { toLog, toSlab } from "./yard-service.ts";
@@ -365,6 +366,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         },
         slabs: slabs.map((s) => ({ ...toSlab(s, listing.id), readings: readings.filter((r) => r.slabId === s.id).map((r) => ({ id: r.id, slabId: r.slabId, readOn: r.readOn, moistureContentPct: r.moistureContentPct, method: r.method })) })),
         log: log ? toLog(log, siblings.length) : null,
+        logPhotos: log ? (await dataSource.getRepository(LogPhotoEntity).find({ where: { logId: log.id }, order: { position: "ASC" } })).map(logPhotoView) : [],
         otherSlabsFromLog: siblings
           .filter((s) => !inListing.has(s.id))
           .map((s) => {

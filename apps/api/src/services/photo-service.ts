@@ -1,10 +1,10 @@
 import { randomUUID } from "node:crypto";
-import { MAX_PHOTOS_PER_LISTING, type ListingPhoto } from "@grainyard/contracts";
+import { MAX_PHOTOS_PER_LISTING, yardPaths, type ListingPhoto } from "@grainyard/contracts";
 import type { DataSource, EntityManager } from "typeorm";
-import { ListingEntity, ListingPhotoEntity } from "../entities/index.ts";
+import { ListingEntity, ListingPhotoEntity, ListingSlabEntity, LogPhotoEntity, YardLogEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import type { PhotoStorage } from "../integrations/storage.ts";
-import { deleteObjects, displayKey, getObjectBytes, inspectPhoto, originalKey, putObject, renderDisplaySizes, type DisplaySizeName } from "../photos/index.ts";
+import { deleteObjects, displayKey, getObjectBytes, inspectPhoto, logPhotoKey, originalKey, putObject, renderDisplaySizes, type DisplaySizeName } from "../photos/index.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { photoView } from "./listing-service.ts";
 
@@ -143,3 +143,114 @@ export async function storeSeedPhoto(manager: EntityManager, storage: PhotoStora
   const large = sizes.find((s) => s.name === "large") ?? sizes[0]!;
   await manager.getRepository(ListingPhotoEntity).insert({ id: photoId, listingId, position, altText, width: large.width, height: large.height, originalFormat: inspection.format });
 }
+
+/** Listing states that make a log's photos public (its story is shown on the slab page). */
+const LOG_PUBLIC_STATUSES = ["live", "reserved", "sold"];
+
+export function logPhotoView(photo: LogPhotoEntity): ListingPhoto {
+  return {
+    id: photo.id,
+    position: photo.position,
+    altText: photo.altText,
+    width: photo.width,
+    height: photo.height,
+    smallUrl: yardPaths.logPhotoImage(photo.id, "small"),
+    largeUrl: yardPaths.logPhotoImage(photo.id, "large"),
+  };
+}
+
+/** Photos of logs: the sawyer's own, through the same pipeline as listing photos. */
+export function createLogPhotoService(deps: { dataSource: DataSource; storage: PhotoStorage }) {
+  const { dataSource, storage } = deps;
+  const keysOf = (logId: string, photoId: string) => [logPhotoKey(logId, photoId, "original"), logPhotoKey(logId, photoId, "small"), logPhotoKey(logId, photoId, "large")];
+
+  async function ownLog(actor: Actor, logId: string) {
+    const sawyer = requireRole(actor, "sawyer");
+    const log = await dataSource.getRepository(YardLogEntity).findOneBy({ id: logId });
+    if (!log) throw new NotFound("No log with that id in your yard.");
+    if (log.sawyerId !== sawyer.accountId) throw new Forbidden("That log belongs to another yard.");
+    return log;
+  }
+
+  return {
+    async list(logId: string): Promise<ListingPhoto[]> {
+      const photos = await dataSource.getRepository(LogPhotoEntity).find({ where: { logId }, order: { position: "ASC" } });
+      return photos.map(logPhotoView);
+    },
+
+    async upload(actor: Actor, logId: string, bytes: Buffer, altText: string): Promise<ListingPhoto> {
+      const log = await ownLog(actor, logId);
+      if (altText.length > 300) throw new Invalid("Keep the description under 300 characters.", { altText: "At most 300 characters." });
+      if ((await dataSource.getRepository(LogPhotoEntity).countBy({ logId })) >= MAX_PHOTOS_PER_LISTING) {
+        throw new Conflict(`A log holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
+      }
+      const inspection = await inspectPhoto(bytes);
+      const { sizes } = await renderDisplaySizes(bytes);
+      const photoId = randomUUID();
+      const stored: string[] = [];
+      try {
+        const original = logPhotoKey(log.id, photoId, "original");
+        await putObject(storage.client, storage.bucket, original, bytes, `image/${inspection.format}`, { private: true });
+        stored.push(original);
+        for (const size of sizes) {
+          const key = logPhotoKey(log.id, photoId, size.name);
+          await putObject(storage.client, storage.bucket, key, size.bytes, size.contentType, { private: false });
+          stored.push(key);
+        }
+        const large = sizes.find((s) => s.name === "large") ?? sizes[0]!;
+        const photo = await dataSource.transaction(async (manager) => {
+          await manager.getRepository(YardLogEntity).findOne({ where: { id: log.id }, lock: { mode: "pessimistic_write" } });
+          const photos = await manager.getRepository(LogPhotoEntity).find({ where: { logId: log.id } });
+          if (photos.length >= MAX_PHOTOS_PER_LISTING) throw new Conflict(`A log holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
+          const entity = manager.getRepository(LogPhotoEntity).create({
+            id: photoId,
+            logId: log.id,
+            position: photos.reduce((max, p) => Math.max(max, p.position), -1) + 1,
+            altText: altText.trim(),
+            width: large.width,
+            height: large.height,
+            originalFormat: inspection.format,
+          });
+          await manager.getRepository(LogPhotoEntity).insert(entity);
+          return entity;
+        });
+        return logPhotoView(photo);
+      } catch (error) {
+        if (stored.length) await deleteObjects(storage.client, storage.bucket, stored).catch(() => undefined);
+        throw error;
+      }
+    },
+
+    async remove(actor: Actor, logId: string, photoId: string): Promise<void> {
+      await ownLog(actor, logId);
+      const photo = await dataSource.getRepository(LogPhotoEntity).findOneBy({ id: photoId, logId });
+      if (!photo) throw new NotFound("No photo with that id on this log.");
+      await dataSource.getRepository(LogPhotoEntity).delete({ id: photo.id });
+      await deleteObjects(storage.client, storage.bucket, keysOf(logId, photoId)).catch(() => undefined);
+    },
+
+    /** A served size: public once a slab from the log is in a live listing; before that its sawyer and admins. */
+    async image(actor: Actor, photoId: string, size: DisplaySizeName): Promise<Buffer> {
+      const photo = await dataSource.getRepository(LogPhotoEntity).findOne({ where: { id: photoId }, relations: { log: true } });
+      if (!photo?.log) throw new NotFound("No such photo.");
+      const isOwner = actor.kind === "account" && actor.accountId === photo.log.sawyerId;
+      const isAdmin = actor.kind === "account" && actor.role === "admin";
+      if (!isOwner && !isAdmin) {
+        const shown = await dataSource
+          .getRepository(ListingSlabEntity)
+          .createQueryBuilder("link")
+          .innerJoin("link.slab", "slab")
+          .innerJoin("link.listing", "listing")
+          .where("slab.log_id = :logId", { logId: photo.logId })
+          .andWhere("listing.status IN (:...statuses)", { statuses: LOG_PUBLIC_STATUSES })
+          .getCount();
+        if (shown === 0) throw new NotFound("No such photo.");
+      }
+      const bytes = await getObjectBytes(storage.client, storage.bucket, logPhotoKey(photo.logId, photo.id, size));
+      if (!bytes) throw new NotFound("That photo is missing from storage.");
+      return bytes;
+    },
+  };
+}
+
+export type LogPhotoService = ReturnType<typeof createLogPhotoService>;
