@@ -1,1 +1,2 @@
-export { createPaymentsFakeApp, type PaymentsFakeOptions } from "./app.ts";
+export { createPaymentsFakeApp, TEST_CARDS, type PaymentsFakeApp, type PaymentsFakeOptions } from "./app.ts";
+export { signatureHeader } from "./webhooks.ts";

@@ -14,17 +14,20 @@ export interface Secrets {
   sessionSecret: string;
   databasePassword: string;
   paymentsSecretKey: string;
+  paymentsWebhookSecret: string;
 }
 
 /** Secrets generated once on first start and kept in the data folder (never committed). */
 export function secretsFor(dataDir: string): Secrets {
   const file = join(dataDir, "secrets.json");
-  if (existsSync(file)) return JSON.parse(readFileSync(file, "utf8")) as Secrets;
+  const stored = existsSync(file) ? (JSON.parse(readFileSync(file, "utf8")) as Partial<Secrets>) : {};
   const secrets: Secrets = {
-    sessionSecret: randomBytes(32).toString("hex"),
-    databasePassword: randomBytes(18).toString("base64url"),
-    paymentsSecretKey: `sk_test_${randomBytes(12).toString("hex")}`,
+    sessionSecret: stored.sessionSecret ?? randomBytes(32).toString("hex"),
+    databasePassword: stored.databasePassword ?? randomBytes(18).toString("base64url"),
+    paymentsSecretKey: stored.paymentsSecretKey ?? `sk_test_${randomBytes(12).toString("hex")}`,
+    paymentsWebhookSecret: stored.paymentsWebhookSecret ?? `whsec_${randomBytes(18).toString("hex")}`,
   };
+  if (Object.keys(stored).length === Object.keys(secrets).length) return secrets;
   mkdirSync(dataDir, { recursive: true });
   writeFileSync(file, JSON.stringify(secrets, null, 2), { mode: 0o600 });
   return secrets;
@@ -78,7 +81,13 @@ export async function startStack(profile: Profile, options: { fresh: boolean; ex
     const mail = await startMailSink({ dir: join(profile.dataDir, "mail"), smtpPort: ports.smtp, inboxPort: ports.inbox });
     stoppers.push(() => mail.stop());
 
-    const paymentsApp = createPaymentsFakeApp({ stateFile: join(profile.dataDir, "payments-fake", "state.json"), secretKey: secrets.paymentsSecretKey });
+    const paymentsApp = createPaymentsFakeApp({
+      stateFile: join(profile.dataDir, "payments-fake", "state.json"),
+      secretKey: secrets.paymentsSecretKey,
+      publicUrl: `http://127.0.0.1:${ports.payments}`,
+      // Signed events go to the API's webhook route, retried with back-off while it is down.
+      webhook: { url: `http://127.0.0.1:${ports.app}/api/v1/payments/webhook`, secret: secrets.paymentsWebhookSecret },
+    });
     const paymentsServer: Server = await new Promise((resolvePromise, reject) => {
       const server = paymentsApp.listen(ports.payments, "127.0.0.1", () => resolvePromise(server));
       server.once("error", reject);
@@ -86,6 +95,7 @@ export async function startStack(profile: Profile, options: { fresh: boolean; ex
     stoppers.push(
       () =>
         new Promise<void>((r) => {
+          paymentsApp.webhooks.stop();
           paymentsServer.closeAllConnections();
           paymentsServer.close(() => r());
         }),
@@ -121,6 +131,7 @@ export async function startStack(profile: Profile, options: { fresh: boolean; ex
           PAYMENTS_PORT: String(ports.payments),
           PAYMENTS_PROTOCOL: "http",
           PAYMENTS_SECRET_KEY: secrets.paymentsSecretKey,
+          PAYMENTS_WEBHOOK_SECRET: secrets.paymentsWebhookSecret,
           // The SDK is pinned to a release that supports Node 20; its notice about later releases is noise here.
           AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: "true",
           ...extra,

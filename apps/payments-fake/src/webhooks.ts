@@ -1,0 +1,120 @@
+import { createHmac } from "node:crypto";
+import type { ProviderObject, Store } from "./store.ts";
+import { newId, nowSeconds } from "./store.ts";
+
+/**
+ * Signs a payload the way the provider does: header `t=<unix seconds>,v1=<hex HMAC-SHA256 of
+ * "<t>.<payload>" with the endpoint's signing secret>`. The official SDK's constructEvent checks it.
+ */
+export function signatureHeader(payload: string, secret: string, timestamp = nowSeconds()): string {
+  const signature = createHmac("sha256", secret).update(`${timestamp}.${payload}`).digest("hex");
+  return `t=${timestamp},v1=${signature}`;
+}
+
+export interface DeliveryOptions {
+  /** Where events are posted (the API's webhook route); none → events are only stored. */
+  url?: string;
+  secret: string;
+  /** First retry after this many ms, doubling each time (the provider backs off the same way). */
+  retryBaseMs: number;
+  maxAttempts: number;
+  /** For tests: deliver each event this many times … */
+  copies: number;
+  /** … and in a shuffled order within a batch. */
+  shuffle: boolean;
+}
+
+interface Pending {
+  eventId: string;
+  attempt: number;
+}
+
+/**
+ * Creates events and posts them, signed, to the webhook URL; a failed delivery (network error or
+ * a non-2xx answer) is retried with exponential back-off, as the provider does.
+ */
+export class WebhookSender {
+  private timers = new Set<NodeJS.Timeout>();
+  private batch: Pending[] = [];
+  private flushScheduled = false;
+  readonly attempts: { eventId: string; status: number | "network_error" }[] = [];
+
+  constructor(
+    private readonly store: Store,
+    readonly options: DeliveryOptions,
+  ) {}
+
+  emit(type: string, object: ProviderObject, previous?: Record<string, unknown>): ProviderObject {
+    const event = this.store.put({
+      id: newId("evt"),
+      object: "event",
+      api_version: "2025-01-01",
+      created: nowSeconds(),
+      livemode: false,
+      type,
+      data: { object: structuredClone(object), ...(previous ? { previous_attributes: previous } : {}) },
+      pending_webhooks: 1,
+      request: { id: null, idempotency_key: null },
+    });
+    this.store.state.events.push(event.id);
+    this.store.save();
+    for (let copy = 0; copy < Math.max(1, this.options.copies); copy++) this.batch.push({ eventId: event.id, attempt: 1 });
+    if (!this.flushScheduled) {
+      this.flushScheduled = true;
+      // Events of one request go out together, so a test can ask for them shuffled.
+      queueMicrotask(() => this.flush());
+    }
+    return event;
+  }
+
+  private flush(): void {
+    this.flushScheduled = false;
+    const batch = this.batch;
+    this.batch = [];
+    if (this.options.shuffle) batch.sort(() => Math.random() - 0.5);
+    for (const pending of batch) void this.deliver(pending);
+  }
+
+  private async deliver(pending: Pending): Promise<void> {
+    const url = this.options.url;
+    if (!url) return;
+    const event = this.store.get(pending.eventId);
+    if (!event) return;
+    const payload = JSON.stringify(event, null, 2);
+    let status: number | "network_error" = "network_error";
+    try {
+      const response = await fetch(url, {
+        method: "POST",
+        headers: { "content-type": "application/json; charset=utf-8", "stripe-signature": signatureHeader(payload, this.options.secret), "user-agent": "GrainyardPaymentsFake/1.0" },
+        body: payload,
+        signal: AbortSignal.timeout(10_000),
+      });
+      status = response.status;
+      await response.arrayBuffer().catch(() => undefined);
+    } catch {
+      status = "network_error";
+    }
+    this.attempts.push({ eventId: pending.eventId, status });
+    const delivered = typeof status === "number" && status >= 200 && status < 300;
+    if (!delivered && pending.attempt < this.options.maxAttempts) {
+      const delay = this.options.retryBaseMs * 2 ** (pending.attempt - 1);
+      const timer = setTimeout(() => {
+        this.timers.delete(timer);
+        void this.deliver({ eventId: pending.eventId, attempt: pending.attempt + 1 });
+      }, delay);
+      timer.unref();
+      this.timers.add(timer);
+    }
+  }
+
+  /** Resends every stored event (a test helper, like the provider's "resend" button). */
+  resendAll(): void {
+    for (const id of this.store.state.events) this.batch.push({ eventId: id, attempt: 1 });
+    this.flush();
+  }
+
+  stop(): void {
+    for (const timer of this.timers) clearTimeout(timer);
+    this.timers.clear();
+  }
+}
