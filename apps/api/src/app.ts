@@ -22,6 +22,8 @@ import { photoRoutes } from "./routes/photo-routes.ts";
 import { createLogPhotoService, createPhotoService } from "./services/photo-service.ts";
 import { yardRoutes } from "./routes/yard-routes.ts";
 import { catalogueRoutes } from "./routes/catalogue-routes.ts";
+import { orderRoutes, paymentWebhookRoute } from "./routes/order-routes.ts";
+import { createCheckoutService } from "./services/checkout-service.ts";
 import { createAccountService, SESSION_DAYS } from "./services/account-service.ts";
 import { createCatalogueService } from "./services/catalogue-service.ts";
 import { createInventoryCsv } from "./services/inventory-csv.ts";
@@ -93,9 +95,20 @@ export function createApp(deps: AppDependencies) {
       maxAge: SESSION_DAYS * 86400_000,
     }),
   );
+  const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret, cache: config.catalogueCache });
+  // The payment provider's webhook needs its raw body for the signature: before the JSON parser.
+  const checkout = createCheckoutService({
+    dataSource: deps.dataSource,
+    payments: deps.payments,
+    mailer: deps.mailer,
+    config,
+    log: logger,
+    now: deps.now,
+    onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
+  });
+  app.use("/api/v1", paymentWebhookRoute(checkout, deps.payments, config.payments.webhookSecret));
   app.use(express.json({ limit: "100kb" }));
 
-  const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret, cache: config.catalogueCache });
   const listings = createListingService({
     dataSource: deps.dataSource,
     mailer: deps.mailer,
@@ -129,7 +142,7 @@ export function createApp(deps: AppDependencies) {
   });
 
   app.use("/api", healthRoutes(deps));
-  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), catalogueRoutes(catalogue));
+  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), catalogueRoutes(catalogue), orderRoutes(checkout));
   app.use("/api", apiNotFound);
 
   // The built web app, with the single-page fallback for its own routes.
@@ -143,5 +156,5 @@ export function createApp(deps: AppDependencies) {
   }
 
   app.use(errorHandler);
-  return app;
+  return Object.assign(app, { checkout });
 }

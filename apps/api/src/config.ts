@@ -31,6 +31,9 @@ const environmentSchema = z.object({
   PAYMENTS_PORT: z.coerce.number().int().default(443),
   PAYMENTS_PROTOCOL: z.enum(["http", "https"]).default("https"),
   PAYMENTS_SECRET_KEY: z.string().default("sk_test_grainyard_local"),
+  PAYMENTS_WEBHOOK_SECRET: z.string().default("whsec_grainyard_local"),
+  RESERVATION_MINUTES: z.coerce.number().int().min(1).max(240).default(15),
+  TAX_RATE_BPS: z.coerce.number().int().min(0).max(5000).default(0),
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),
   WEB_DIST: z.string().optional(),
   LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
@@ -50,7 +53,8 @@ export interface AppConfig {
   database: { host: string; port: number; user: string; password: string; database: string };
   storage: { endpoint?: string; region: string; bucket: string; accessKeyId: string; secretAccessKey: string; forcePathStyle: boolean };
   mail: { host: string; port: number; secure: boolean; user?: string; password?: string; from: string };
-  payments: { host: string; port: number; protocol: "http" | "https"; secretKey: string };
+  payments: { host: string; port: number; protocol: "http" | "https"; secretKey: string; webhookSecret: string };
+  checkout: { reservationMinutes: number; taxRateBps: number };
   bcryptCost: number;
   webDist?: string;
   logLevel: string;
@@ -88,7 +92,8 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
       forcePathStyle: env.S3_FORCE_PATH_STYLE === "true",
     },
     mail: { host: env.SMTP_HOST, port: env.SMTP_PORT, secure: env.SMTP_SECURE === "true", user: env.SMTP_USER, password: env.SMTP_PASSWORD, from: env.MAIL_FROM },
-    payments: { host: env.PAYMENTS_HOST, port: env.PAYMENTS_PORT, protocol: env.PAYMENTS_PROTOCOL, secretKey: env.PAYMENTS_SECRET_KEY },
+    payments: { host: env.PAYMENTS_HOST, port: env.PAYMENTS_PORT, protocol: env.PAYMENTS_PROTOCOL, secretKey: env.PAYMENTS_SECRET_KEY, webhookSecret: env.PAYMENTS_WEBHOOK_SECRET },
+    checkout: { reservationMinutes: env.RESERVATION_MINUTES, taxRateBps: env.TAX_RATE_BPS },
     bcryptCost: env.BCRYPT_COST,
     webDist: env.WEB_DIST,
     logLevel: env.LOG_LEVEL,

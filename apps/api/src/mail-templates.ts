@@ -50,3 +50,65 @@ export function listingSentBackMail(to: string, displayName: string, title: stri
     ),
   };
 }
+
+const moneyText = (minor: number, currency: string) => new Intl.NumberFormat("en", { style: "currency", currency }).format(minor / 100);
+
+interface OrderForMail {
+  id: string;
+  title: string;
+  currency: string;
+  priceMinor: number;
+  taxMinor: number;
+  totalMinor: number;
+  sawyerNetMinor: number;
+  platformFeeMinor: number;
+  processingFeeMinor: number;
+  handover: "pickup" | "freight";
+  deliveryAddress: string | null;
+  slabSnapshot: Record<string, unknown>[];
+}
+
+function slabLines(order: OrderForMail): string[] {
+  return order.slabSnapshot.map((slab, index) => {
+    const figures = slab.figures as { boardFeet: number; weightHighKg: number } | undefined;
+    return `Slab ${index + 1}: ${String(slab.lengthMm)} × ${Math.round(Number((slab.figures as { averageWidthMm?: number } | undefined)?.averageWidthMm ?? 0))} × ${String(slab.thicknessMm)} mm, ${figures ? figures.boardFeet.toFixed(1) : "?"} board feet, up to ${figures ? Math.round(figures.weightHighKg) : "?"} kg`;
+  });
+}
+
+export function orderPaidBuyerMail(buyer: { email: string; displayName: string }, sawyer: { yardName: string | null; pickupTown: string | null }, order: OrderForMail, link: string): OutgoingMail {
+  const handover =
+    order.handover === "pickup"
+      ? `Pickup at ${sawyer.yardName ?? "the yard"}, ${sawyer.pickupTown ?? ""}. The sawyer will propose pickup times.`
+      : `Freight to: ${order.deliveryAddress ?? ""}. The sawyer will send the carrier and tracking reference.`;
+  return {
+    to: buyer.email,
+    subject: `Your order: ${order.title}`,
+    ...layout(
+      [
+        `Hello ${buyer.displayName},`,
+        `Thank you: your payment for "${order.title}" from ${sawyer.yardName ?? "the yard"} is confirmed.`,
+        ...slabLines(order),
+        `Price ${moneyText(order.priceMinor, order.currency)} · tax ${moneyText(order.taxMinor, order.currency)} · total paid ${moneyText(order.totalMinor, order.currency)}.`,
+        handover,
+        "Slabs are heavy: lift with two people or a machine, secure the load, and keep to local load and vehicle limits.",
+      ],
+      { label: "See your order and receipt", url: link },
+    ),
+  };
+}
+
+export function orderPaidSawyerMail(sawyer: { email: string; displayName: string }, buyer: { displayName: string }, order: OrderForMail, link: string): OutgoingMail {
+  return {
+    to: sawyer.email,
+    subject: `Sold: ${order.title}`,
+    ...layout(
+      [
+        `Hello ${sawyer.displayName},`,
+        `${buyer.displayName} bought "${order.title}" and the payment is confirmed.`,
+        `Price ${moneyText(order.priceMinor, order.currency)} − platform fee ${moneyText(order.platformFeeMinor, order.currency)} − card processing ${moneyText(order.processingFeeMinor, order.currency)} = your net ${moneyText(order.sawyerNetMinor, order.currency)}.`,
+        order.handover === "pickup" ? "The buyer collects from your yard: propose pickup times from the order page." : `Freight to: ${order.deliveryAddress ?? ""}. Add the carrier and tracking reference on the order page.`,
+      ],
+      { label: "Open the order", url: link },
+    ),
+  };
+}

@@ -37,6 +37,12 @@ server.on("error", (error: NodeJS.ErrnoException) => {
   process.exit(1);
 });
 
+// Reservations whose time ran out go back on sale; safe with several instances (conditional updates).
+const sweep = setInterval(() => {
+  app.checkout.sweepExpiredReservations().catch((error: unknown) => logger.error({ err: error }, "reservation sweep failed"));
+}, 30_000);
+sweep.unref();
+
 let stopping = false;
 async function shutdown(signal: string) {
   if (stopping) return;

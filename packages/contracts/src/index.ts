@@ -5,3 +5,4 @@ export * from "./paths.ts";
 export * from "./yard.ts";
 export * from "./listings.ts";
 export * from "./catalogue.ts";
+export * from "./orders.ts";

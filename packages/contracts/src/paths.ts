@@ -48,3 +48,10 @@ export const cataloguePaths = {
   detail: (listingId: string) => `${API_PREFIX}/catalogue/${encodeURIComponent(listingId)}`,
   places: `${API_PREFIX}/places`,
 } as const;
+
+export const orderPaths = {
+  checkout: (listingId: string) => `${API_PREFIX}/listings/${encodeURIComponent(listingId)}/checkout`,
+  orders: `${API_PREFIX}/orders`,
+  order: (orderId: string) => `${API_PREFIX}/orders/${encodeURIComponent(orderId)}`,
+  webhook: `${API_PREFIX}/payments/webhook`,
+} as const;

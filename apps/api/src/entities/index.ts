@@ -11,4 +11,11 @@ import { SlabEntity } from "./slab.ts";
 import { YardLogEntity } from "./yard-log.ts";
 
 export { AccountEntity, CatalogueEntryEntity, LogPhotoEntity, EmailTokenEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SessionRecordEntity, SlabEntity, YardLogEntity };
-export const entities = [AccountEntity, SessionRecordEntity, EmailTokenEntity, YardLogEntity, SlabEntity, MoistureReadingEntity, ListingEntity, ListingSlabEntity, ListingPhotoEntity, CatalogueEntryEntity, LogPhotoEntity];
+export const entities: Function[] = [AccountEntity, SessionRecordEntity, EmailTokenEntity, YardLogEntity, SlabEntity, MoistureReadingEntity, ListingEntity, ListingSlabEntity, ListingPhotoEntity, CatalogueEntryEntity, LogPhotoEntity];
+
+// Orders, the ledger and handled provider events.
+import { LedgerEntryEntity } from "./ledger-entry.ts";
+import { OrderEntity } from "./order.ts";
+import { PaymentEventEntity } from "./payment-event.ts";
+export { LedgerEntryEntity, OrderEntity, PaymentEventEntity };
+entities.push(OrderEntity, LedgerEntryEntity, PaymentEventEntity);

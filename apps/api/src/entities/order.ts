@@ -1,0 +1,88 @@
+import { Column, CreateDateColumn, Entity, Index, PrimaryColumn, UpdateDateColumn } from "typeorm";
+
+const money = { to: (v: number) => v, from: (v: string | number) => Number(v) };
+
+export const orderStatuses = ["awaiting_payment", "paid", "ready_for_pickup", "shipped", "handed_over", "completed", "cancelled", "payment_failed", "expired", "refunded"] as const;
+export type OrderStatus = (typeof orderStatuses)[number];
+
+/**
+ * A buyer's order for one listing. Everything the buyer agreed to — the slabs' figures, the price,
+ * the fees, tax and the handover choice — is a snapshot taken when the order was made.
+ */
+@Entity({ name: "buyer_order" })
+@Index("idx_buyer_order_buyer", ["buyerId", "createdAt"])
+@Index("idx_buyer_order_sawyer", ["sawyerId", "createdAt"])
+@Index("idx_buyer_order_listing", ["listingId"])
+@Index("idx_buyer_order_status", ["status", "reservedUntil"])
+export class OrderEntity {
+  @PrimaryColumn({ type: "char", length: 36 })
+  id: string;
+
+  @Column({ name: "buyer_id", type: "char", length: 36 })
+  buyerId: string;
+
+  @Column({ name: "sawyer_id", type: "char", length: 36 })
+  sawyerId: string;
+
+  @Column({ name: "listing_id", type: "char", length: 36 })
+  listingId: string;
+
+  @Column({ type: "varchar", length: 20 })
+  status: OrderStatus;
+
+  @Column({ type: "varchar", length: 120 })
+  title: string;
+
+  /** The slabs and their figures as they were when the order was made. */
+  @Column({ name: "slab_snapshot", type: "simple-json" })
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  slabSnapshot: any[];
+
+  @Column({ type: "char", length: 3 })
+  currency: string;
+
+  @Column({ name: "price_minor", type: "bigint", transformer: money })
+  priceMinor: number;
+
+  @Column({ name: "platform_fee_minor", type: "bigint", transformer: money })
+  platformFeeMinor: number;
+
+  @Column({ name: "processing_fee_minor", type: "bigint", transformer: money })
+  processingFeeMinor: number;
+
+  @Column({ name: "sawyer_net_minor", type: "bigint", transformer: money })
+  sawyerNetMinor: number;
+
+  @Column({ name: "tax_minor", type: "bigint", transformer: money })
+  taxMinor: number;
+
+  @Column({ name: "total_minor", type: "bigint", transformer: money })
+  totalMinor: number;
+
+  @Column({ type: "varchar", length: 8 })
+  handover: "pickup" | "freight";
+
+  @Column({ name: "delivery_address", type: "text", nullable: true })
+  deliveryAddress: string | null;
+
+  @Column({ name: "checkout_session_id", type: "varchar", length: 80, nullable: true })
+  checkoutSessionId: string | null;
+
+  @Column({ name: "checkout_url", type: "varchar", length: 400, nullable: true })
+  checkoutUrl: string | null;
+
+  @Column({ name: "payment_intent_id", type: "varchar", length: 80, nullable: true })
+  paymentIntentId: string | null;
+
+  @Column({ name: "reserved_until", type: "datetime", precision: 3 })
+  reservedUntil: Date;
+
+  @Column({ name: "paid_at", type: "datetime", precision: 3, nullable: true })
+  paidAt: Date | null;
+
+  @CreateDateColumn({ name: "created_at", type: "datetime", precision: 3, default: () => "CURRENT_TIMESTAMP(3)" })
+  createdAt: Date;
+
+  @UpdateDateColumn({ name: "updated_at", type: "datetime", precision: 3, default: () => "CURRENT_TIMESTAMP(3)", onUpdate: "CURRENT_TIMESTAMP(3)" })
+  updatedAt: Date;
+}

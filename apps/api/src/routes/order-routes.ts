@@ -1,0 +1,44 @@
+import express, { Router, type Request, type Response } from "express";
+import type Stripe from "stripe";
+import { checkoutInputSchema } from "@grainyard/contracts";
+import { parse } from "../http/context.ts";
+import type { Payments } from "../integrations/payments.ts";
+import type { CheckoutService } from "../services/checkout-service.ts";
+
+/** Buying: checkout, the buyer's and sawyer's orders. */
+export function orderRoutes(checkout: CheckoutService) {
+  const router = Router();
+  router.post("/listings/:listingId/checkout", async (req, res) => {
+    res.status(201).json(await checkout.checkout(req.actor, String(req.params.listingId), parse(checkoutInputSchema, req.body)));
+  });
+  router.get("/orders", async (req, res) => {
+    res.json({ orders: await checkout.listOwn(req.actor) });
+  });
+  router.get("/orders/:orderId", async (req, res) => {
+    res.json({ order: await checkout.get(req.actor, String(req.params.orderId)) });
+  });
+  return router;
+}
+
+/**
+ * The provider's webhook: the raw body (mounted before the JSON parser), the signature checked
+ * with the official SDK, then handled once per event id. Outside the anti-forgery check: it is
+ * not a browser, and the signature is its proof.
+ */
+export function paymentWebhookRoute(checkout: CheckoutService, payments: Payments, webhookSecret: string) {
+  const router = Router();
+  router.post("/payments/webhook", express.raw({ type: () => true, limit: "1mb" }), async (req: Request, res: Response) => {
+    const signature = req.get("stripe-signature");
+    let event: Stripe.Event;
+    try {
+      if (!signature || !Buffer.isBuffer(req.body)) throw new Error("missing signature");
+      event = payments.sdk.webhooks.constructEvent(req.body, signature, webhookSecret);
+    } catch {
+      res.status(400).json({ error: { code: "bad_signature", message: "The webhook signature did not verify." } });
+      return;
+    }
+    const outcome = await checkout.handleEvent(event);
+    res.json({ received: true, outcome });
+  });
+  return router;
+}
