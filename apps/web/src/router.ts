@@ -24,6 +24,12 @@ export const routes: RouteRecordRaw[] = [
   { path: "/", name: "home", component: () => import("./views/HomeView.vue"), meta: { title: "Slabs from city trees" } },
   { path: "/browse", name: "browse", component: () => import("./views/BrowseView.vue"), meta: { title: "Browse slabs" } },
   {
+    path: "/slabs/:listingId",
+    name: "slab-page",
+    component: () => import("./views/SlabPageView.vue"),
+    meta: { title: "Slab for sale" },
+  },
+  {
     path: "/sign-in",
     name: "sign-in",
     component: () => import("./views/SignInView.vue"),

@@ -12,6 +12,10 @@ import {
   apiErrorSchema,
   apiPaths,
   yardPaths,
+  cataloguePaths,
+  catalogueResultSchema,
+  catalogueDetailSchema,
+  placeListSchema,
   sessionSchema,
   logSchema,
   logListSchema,
@@ -25,7 +29,10 @@ import {
   listingPhotoSchema,
   csvImportResultSchema,
   csvRowErrorSchema,
+  type CatalogueDetail,
+  type CatalogueResult,
   type CsvRowError,
+  type Place,
   type DryingProjectionView,
   type Listing,
   type ListingInput,
@@ -144,12 +151,15 @@ const countEnvelope: ResponseParser<{ count: number }> = {
   },
 };
 const logList: ResponseParser<{ logs: Log[] }> = logListSchema;
-const logDetail: ResponseParser<{ log: Log; slabs: Slab[] }> = logDetailSchema;
+const logDetail: ResponseParser<{ log: Log; slabs: Slab[]; photos: ListingPhoto[] }> = logDetailSchema;
 const slabList: ResponseParser<{ slabs: Slab[] }> = slabListSchema;
 const slabDetail: ResponseParser<{ slab: Slab; readings: MoistureReading[]; projection: DryingProjectionView }> = slabDetailSchema;
 const listingList: ResponseParser<{ listings: Listing[] }> = listingListSchema;
 const listingEnvelope: ResponseParser<{ listing: Listing }> = listingEnvelopeSchema;
 const csvImportResult: ResponseParser<{ created: number }> = csvImportResultSchema;
+const catalogueResult: ResponseParser<CatalogueResult> = catalogueResultSchema;
+const catalogueDetail: ResponseParser<CatalogueDetail> = catalogueDetailSchema;
+const placeList: ResponseParser<{ places: Place[] }> = placeListSchema;
 const csvRowError: ResponseParser<CsvRowError> = csvRowErrorSchema;
 
 /** The CSV import said no: every row message, and nothing was saved. */
@@ -202,10 +212,14 @@ export function createApiClient(options: ApiClientOptions = {}) {
    * Answers 201 `{ photo }`; an error answer becomes an ApiRequestError like every other call.
    */
   function uploadPhoto(listingId: string, file: Blob, opts: PhotoUploadOptions = {}): Promise<{ photo: ListingPhoto }> {
+    return uploadPhotoTo(yardPaths.listingPhotos(listingId), file, opts);
+  }
+
+  function uploadPhotoTo(path: string, file: Blob, opts: PhotoUploadOptions = {}): Promise<{ photo: ListingPhoto }> {
     return new Promise((resolve, reject) => {
       const xhr = xhrFactory();
       const alt = opts.altText?.trim();
-      const url = yardPaths.listingPhotos(listingId) + (alt ? `?${new URLSearchParams({ altText: alt }).toString()}` : "");
+      const url = path + (alt ? `?${new URLSearchParams({ altText: alt }).toString()}` : "");
       xhr.open("POST", url);
       xhr.withCredentials = true;
       xhr.setRequestHeader("accept", "application/json");
@@ -395,6 +409,9 @@ export function createApiClient(options: ApiClientOptions = {}) {
     withdrawListing: (listingId: string) =>
       request("POST", yardPaths.listingWithdraw(listingId), { body: {}, schema: listingEnvelope }),
     uploadListingPhoto: uploadPhoto,
+    /** A photo of a log (the tree as felled, the cut ends): same upload, its own address. */
+    uploadLogPhoto: (logId: string, file: Blob, opts: PhotoUploadOptions = {}) => uploadPhotoTo(yardPaths.logPhotos(logId), file, opts),
+    deleteLogPhoto: (logId: string, photoId: string): Promise<void> => request("DELETE", yardPaths.logPhoto(logId, photoId)),
     /** The answer's body is not needed: the photo keeps the text the sawyer typed. */
     updatePhotoAltText: (listingId: string, photoId: string, altText: string): Promise<void> =>
       request("PATCH", yardPaths.listingPhoto(listingId, photoId), { body: { altText } }),
@@ -402,6 +419,14 @@ export function createApiClient(options: ApiClientOptions = {}) {
       request("PUT", yardPaths.listingPhotoOrder(listingId), { body: { photoIds } }),
     deletePhoto: (listingId: string, photoId: string): Promise<void> =>
       request("DELETE", yardPaths.listingPhoto(listingId, photoId)),
+
+    // The public catalogue. The query is the URL's own text (mm, minor units), passed as it is.
+    searchCatalogue: (query: Record<string, string | undefined>, signal?: AbortSignal): Promise<CatalogueResult> =>
+      request("GET", cataloguePaths.search, { query, schema: catalogueResult, signal }),
+    getCatalogueListing: (listingId: string, signal?: AbortSignal): Promise<CatalogueDetail> =>
+      request("GET", cataloguePaths.detail(listingId), { schema: catalogueDetail, signal }),
+    findPlaces: (query: string, signal?: AbortSignal): Promise<{ places: Place[] }> =>
+      request("GET", cataloguePaths.places, { query: { query: query.trim() }, schema: placeList, signal }),
 
     // Admin review.
     reviewQueue: (signal?: AbortSignal) => request("GET", yardPaths.reviewQueue, { schema: listingList, signal }),
