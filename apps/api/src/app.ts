@@ -29,6 +29,12 @@ import { createCatalogueService } from "./services/catalogue-service.ts";
 import { createInventoryCsv } from "./services/inventory-csv.ts";
 import { createListingService } from "./services/listing-service.ts";
 import { createYardService } from "./services/yard-service.ts";
+import { favouriteRoutes } from "./routes/favourite-routes.ts";
+import { messageRoutes } from "./routes/message-routes.ts";
+import { savedSearchRoutes } from "./routes/saved-search-routes.ts";
+import { createFavouriteService } from "./services/favourite-service.ts";
+import { createMessageService } from "./services/message-service.ts";
+import { createSavedSearchService } from "./services/saved-search-service.ts";
 
 export interface AppDependencies {
   config: AppConfig;
@@ -116,6 +122,7 @@ export function createApp(deps: AppDependencies) {
     log: logger,
     now: deps.now,
     onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
+    onListingLive: (listingId) => savedSearches.onListingLive(listingId),
   });
   const accounts = createAccountService({
     dataSource: deps.dataSource,
@@ -129,6 +136,9 @@ export function createApp(deps: AppDependencies) {
   const inventoryCsv = createInventoryCsv({ dataSource: deps.dataSource, yard });
   const photos = createPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
   const logPhotos = createLogPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
+  const savedSearches = createSavedSearchService({ dataSource: deps.dataSource, mailer: deps.mailer, catalogue, config, log: logger, now: deps.now });
+  const favourites = createFavouriteService({ dataSource: deps.dataSource, now: deps.now });
+  const messages = createMessageService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
 
   // Who is acting: read once per request from the session key in the cookie.
   app.use(async (req: Request, _res: Response, next: NextFunction) => {
@@ -143,6 +153,7 @@ export function createApp(deps: AppDependencies) {
 
   app.use("/api", healthRoutes(deps));
   app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), catalogueRoutes(catalogue), orderRoutes(checkout));
+  app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));
   app.use("/api", apiNotFound);
 
   // The built web app, with the single-page fallback for its own routes.
@@ -156,5 +167,6 @@ export function createApp(deps: AppDependencies) {
   }
 
   app.use(errorHandler);
-  return Object.assign(app, { checkout });
+  // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule.
+  return Object.assign(app, { checkout, savedSearches });
 }

@@ -112,3 +112,50 @@ export function orderPaidSawyerMail(sawyer: { email: string; displayName: string
     ),
   };
 }
+
+// ---- Buyer tools: saved-search alerts and message notices ----
+
+function escapeHtmlText(s: string): string {
+  return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
+}
+function priceText(minor: number, currency: string): string {
+  return new Intl.NumberFormat("en", { style: "currency", currency }).format(minor / 100);
+}
+
+export interface AlertMailItem {
+  title: string;
+  priceMinor: number;
+  currency: string;
+  town: string | null;
+  url: string;
+}
+
+/** New listings matching a saved search (one e-mail a day at most), with an unsubscribe link that needs no sign-in. */
+export function savedSearchAlertMail(to: string, displayName: string, searchName: string, items: AlertMailItem[], searchUrl: string, unsubscribeUrl: string): OutgoingMail {
+  const count = items.length === 1 ? "A new slab matches" : `${items.length} new slabs match`;
+  const intro = `${count} your saved search "${searchName}":`;
+  const line = (item: AlertMailItem) => `${item.title} — ${priceText(item.priceMinor, item.currency)}${item.town ? `, ${item.town}` : ""}`;
+  const footer = "— Grainyard, slabs from city trees";
+  const text = [
+    `Hello ${displayName},`,
+    intro,
+    ...items.map((item) => `${line(item)}\n${item.url}`),
+    `See everything that matches: ${searchUrl}`,
+    `We send at most one of these a day. Stop alerts for "${searchName}": ${unsubscribeUrl}`,
+    "",
+    footer,
+  ].join("\n\n");
+  const html = `<div style="font-family:Georgia,serif;color:#2b241c;max-width:560px"><p>${escapeHtmlText(`Hello ${displayName},`)}</p><p>${escapeHtmlText(intro)}</p><ul>${items
+    .map((item) => `<li><a href="${escapeHtmlText(item.url)}">${escapeHtmlText(line(item))}</a></li>`)
+    .join("")}</ul><p><a href="${escapeHtmlText(searchUrl)}" style="background:#6b3f1d;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">See everything that matches</a></p><p style="font-size:13px;color:#6d6256">We send at most one of these a day. <a href="${escapeHtmlText(unsubscribeUrl)}">Stop alerts for “${escapeHtmlText(searchName)}”</a>.</p><p style="font-size:13px;color:#6d6256">${footer}</p></div>`;
+  return { to, subject: items.length === 1 ? `New slab for "${searchName}": ${items[0]!.title}` : `${items.length} new slabs for "${searchName}"`, text, html };
+}
+
+/** A new message about a listing, for the other party: who wrote, a short excerpt, and the thread's link. */
+export function messageNoticeMail(to: string, displayName: string, fromName: string, listingTitle: string, excerpt: string, link: string): OutgoingMail {
+  return {
+    to,
+    subject: `New message about "${listingTitle}" from ${fromName}`,
+    ...layout([`Hello ${displayName},`, `${fromName} wrote about "${listingTitle}":`, `“${excerpt}”`, "Answer on Grainyard so the conversation stays with the listing."], { label: "Read and answer", url: link }),
+  };
+}

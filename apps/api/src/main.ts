@@ -43,6 +43,12 @@ const sweep = setInterval(() => {
 }, 30_000);
 sweep.unref();
 
+// Saved-search alerts held back by the once-a-day rule go out when their day is up.
+const alerts = setInterval(() => {
+  app.savedSearches.processPendingAlerts().catch((error: unknown) => logger.error({ err: error }, "saved-search alerts failed"));
+}, 10 * 60_000);
+alerts.unref();
+
 let stopping = false;
 async function shutdown(signal: string) {
   if (stopping) return;

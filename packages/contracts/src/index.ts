@@ -6,3 +6,4 @@ export * from "./yard.ts";
 export * from "./listings.ts";
 export * from "./catalogue.ts";
 export * from "./orders.ts";
+export * from "./buyer-tools.ts";

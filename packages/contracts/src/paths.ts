@@ -55,3 +55,16 @@ export const orderPaths = {
   order: (orderId: string) => `${API_PREFIX}/orders/${encodeURIComponent(orderId)}`,
   webhook: `${API_PREFIX}/payments/webhook`,
 } as const;
+
+export const buyerPaths = {
+  savedSearches: `${API_PREFIX}/saved-searches`,
+  savedSearch: (savedSearchId: string) => `${API_PREFIX}/saved-searches/${encodeURIComponent(savedSearchId)}`,
+  /** Linked from alert e-mails; works without signing in and answers a small HTML page. */
+  savedSearchUnsubscribe: `${API_PREFIX}/saved-searches/unsubscribe`,
+  favourites: `${API_PREFIX}/favourites`,
+  favourite: (listingId: string) => `${API_PREFIX}/favourites/${encodeURIComponent(listingId)}`,
+  listingMessages: (listingId: string) => `${API_PREFIX}/listings/${encodeURIComponent(listingId)}/messages`,
+  threads: `${API_PREFIX}/threads`,
+  thread: (threadId: string) => `${API_PREFIX}/threads/${encodeURIComponent(threadId)}`,
+  threadMessages: (threadId: string) => `${API_PREFIX}/threads/${encodeURIComponent(threadId)}/messages`,
+} as const;

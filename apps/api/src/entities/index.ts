@@ -19,3 +19,12 @@ import { OrderEntity } from "./order.ts";
 import { PaymentEventEntity } from "./payment-event.ts";
 export { LedgerEntryEntity, OrderEntity, PaymentEventEntity };
 entities.push(OrderEntity, LedgerEntryEntity, PaymentEventEntity);
+
+// Buyer tools: saved searches with alerts, favourites, messages about a listing.
+import { FavouriteEntity } from "./favourite.ts";
+import { MessageThreadEntity } from "./message-thread.ts";
+import { MessageEntity } from "./message.ts";
+import { SavedSearchMatchEntity } from "./saved-search-match.ts";
+import { SavedSearchEntity } from "./saved-search.ts";
+export { FavouriteEntity, MessageEntity, MessageThreadEntity, SavedSearchEntity, SavedSearchMatchEntity };
+entities.push(SavedSearchEntity, SavedSearchMatchEntity, FavouriteEntity, MessageThreadEntity, MessageEntity);

@@ -9,3 +9,7 @@ export const migrations: Function[] = [Accounts1764662400000, YardAndListings176
 // Orders and the ledger.
 import { Orders1764716400000 } from "./1764716400000-orders.ts";
 migrations.push(Orders1764716400000);
+
+// Buyer tools: saved searches with alerts, favourites, messages.
+import { BuyerTools1764705600000 } from "./1764705600000-buyer-tools.ts";
+migrations.push(BuyerTools1764705600000);

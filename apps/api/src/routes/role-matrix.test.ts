@@ -1,6 +1,7 @@
 import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestContext, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { unsubscribeToken } from "../services/saved-search-service.ts";
 
 /**
  * Who may do what, route by route: anonymous, buyer, sawyer (acting on their own yard),
@@ -124,11 +125,74 @@ const routes: RouteCase[] = [
     call: (c, ids) => c.post(`/api/v1/yard/listings/${ids.listingId}/withdraw`),
     expected: { anonymous: 401, buyer: 403, otherSawyer: 403, admin: 403, sawyer: 200 },
   },
+  // Buyer tools (buyer-tools.test.ts has the behaviour); they use buyerToolIds, set up at the end of beforeAll.
+  {
+    name: "GET /api/v1/saved-searches",
+    call: (c) => c.get("/api/v1/saved-searches"),
+    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/saved-searches",
+    call: (c) => c.post("/api/v1/saved-searches", { name: "Matrix walnut", query: "species=black-walnut" }),
+    expected: { anonymous: 401, buyer: 201, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "PATCH /api/v1/saved-searches/:savedSearchId (the buyer's)",
+    call: (c) => c.patch(`/api/v1/saved-searches/${buyerToolIds.savedSearchId}`, { name: "Renamed by the matrix" }),
+    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "DELETE /api/v1/saved-searches/:savedSearchId (the buyer's spare one)",
+    call: (c) => c.delete(`/api/v1/saved-searches/${buyerToolIds.spareSavedSearchId}`),
+    expected: { anonymous: 401, buyer: 204, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/saved-searches/unsubscribe?token= (no sign-in needed)",
+    call: (c) => c.get(`/api/v1/saved-searches/unsubscribe?token=${encodeURIComponent(buyerToolIds.unsubscribeToken)}`),
+    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+  },
+  {
+    name: "PUT /api/v1/favourites/:listingId (live)",
+    call: (c) => c.agent.put(`/api/v1/favourites/${buyerToolIds.liveListingId}`).set("x-csrf-token", c.csrfToken),
+    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/favourites",
+    call: (c) => c.get("/api/v1/favourites"),
+    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "DELETE /api/v1/favourites/:listingId",
+    call: (c) => c.delete(`/api/v1/favourites/${buyerToolIds.liveListingId}`),
+    expected: { anonymous: 401, buyer: 204, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/listings/:listingId/messages (sawyer's live listing)",
+    call: (c) => c.post(`/api/v1/listings/${buyerToolIds.liveListingId}/messages`, { body: "Asked by the matrix" }),
+    expected: { anonymous: 401, buyer: 201, sawyer: 403, otherSawyer: 201, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/threads",
+    call: (c) => c.get("/api/v1/threads"),
+    expected: { anonymous: 401, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+  },
+  {
+    name: "GET /api/v1/threads/:threadId (buyer with sawyer)",
+    call: (c) => c.get(`/api/v1/threads/${buyerToolIds.threadId}`),
+    expected: { anonymous: 401, buyer: 200, sawyer: 200, otherSawyer: 403, admin: 200 },
+  },
+  {
+    name: "POST /api/v1/threads/:threadId/messages (buyer with sawyer)",
+    call: (c) => c.post(`/api/v1/threads/${buyerToolIds.threadId}/messages`, { body: "Answered in the matrix" }),
+    expected: { anonymous: 401, buyer: 201, sawyer: 201, otherSawyer: 403, admin: 403 },
+  },
 ];
 
 let ctx: TestContext;
 const clients = {} as Record<ActorName, BrowserClient>;
 const ids: Ids = { sawyerId: "", logId: "", slabId: "", listingId: "", photoUrl: "" };
+/** Buyer tools: a live listing of "sawyer", a thread "buyer" started on it, two saved searches of "buyer". */
+const buyerToolIds = { liveListingId: "", threadId: "", savedSearchId: "", spareSavedSearchId: "", unsubscribeToken: "" };
 
 beforeAll(async () => {
   ctx = await createTestContext();
@@ -147,6 +211,18 @@ beforeAll(async () => {
   const photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a5a32" } }).jpeg().toBuffer();
   const uploaded = await sawyer.agent.post(`/api/v1/yard/listings/${ids.listingId}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
   ids.photoUrl = uploaded.body.photo.smallUrl;
+  // Buyer tools: a second slab listed, submitted and approved, so it is live.
+  const liveSlab = (
+    await sawyer.post("/api/v1/yard/slabs", { logId: ids.logId, sequenceInLog: 2, speciesSlug: "northern-red-oak", lengthMm: 2000, thicknessMm: 50, widthStationsMm: [500, 480], liveEdge: "one", surfacing: "rough_sawn", dryingMethod: "air" })
+  ).body.slab.id;
+  buyerToolIds.liveListingId = (await sawyer.post("/api/v1/yard/listings", { title: "Matrix live oak", slabIds: [liveSlab], priceMode: "fixed", rateMinor: 20_000 })).body.listing.id;
+  await sawyer.agent.post(`/api/v1/yard/listings/${buyerToolIds.liveListingId}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+  await sawyer.post(`/api/v1/yard/listings/${buyerToolIds.liveListingId}/submit`);
+  if ((await clients.admin.post(`/api/v1/admin/listings/${buyerToolIds.liveListingId}/approve`)).status !== 200) throw new Error("matrix: the live listing was not approved");
+  buyerToolIds.threadId = (await clients.buyer.post(`/api/v1/listings/${buyerToolIds.liveListingId}/messages`, { body: "Matrix question" })).body.thread.id;
+  buyerToolIds.savedSearchId = (await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix oak", query: "species=northern-red-oak" })).body.savedSearch.id;
+  buyerToolIds.spareSavedSearchId = (await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix spare", query: "species=white-oak" })).body.savedSearch.id;
+  buyerToolIds.unsubscribeToken = unsubscribeToken(ctx.config.sessionSecret, buyerToolIds.savedSearchId);
 });
 afterAll(async () => ctx?.close());
 

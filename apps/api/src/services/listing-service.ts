@@ -39,6 +39,8 @@ export interface ListingServiceDependencies {
   now?: () => Date;
   /** Called inside the transaction whenever a listing's status or figures change (keeps the catalogue in step). */
   onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Called after the approval committed, once a listing is live (saved-search alerts); must not throw. */
+  onListingLive?: (listingId: string) => Promise<void>;
 }
 
 export function createListingService(deps: ListingServiceDependencies) {
@@ -233,6 +235,7 @@ export function createListingService(deps: ListingServiceDependencies) {
         return manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
       });
       await mailSawyer(listing, (to, name, link) => listingApprovedMail(to, name, listing.title, link));
+      await deps.onListingLive?.(listing.id);
       return view(dataSource.manager, listing);
     },
 
