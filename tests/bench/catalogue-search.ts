@@ -56,6 +56,7 @@ const input = catalogueQuerySchema.parse(Object.fromEntries(new URLSearchParams(
 const [pageSql, pageParameters] = catalogue.prepareSearch(input).page.getQueryAndParameters();
 const [countSql, countParameters] = catalogue.prepareSearch(input).countQuery();
 const explain = (await dataSource.query(`EXPLAIN ${pageSql}`, pageParameters)) as Record<string, unknown>[];
+const explainCount = (await dataSource.query(`EXPLAIN ${countSql}`, countParameters)) as Record<string, unknown>[];
 
 interface Figures {
   name: string;
@@ -107,7 +108,10 @@ console.log(`\nCatalogue search benchmark — ${count} live listings, ${CONNECTI
 console.log(`typical query: ${TYPICAL}`);
 console.log(`answer size: ${sample.length} bytes, ${(JSON.parse(sample) as { total: number }).total} matches`);
 console.log("\nEXPLAIN of the page query:");
-console.table(explain.map((row) => ({ table: row.table, type: row.type, key: row.key, rows: row.rows, Extra: row.Extra })));
+const explainRow = (row: Record<string, unknown>) => ({ table: row.table, type: row.type, key: row.key, rows: row.rows, Extra: row.Extra });
+console.table(explain.map(explainRow));
+console.log("EXPLAIN of the capped count query:");
+console.table(explainCount.map(explainRow));
 
 const results = [
   await cannon("bare Express, same JSON", bareUrl),

@@ -13,6 +13,14 @@ import { Column, Entity, Index, PrimaryColumn } from "typeorm";
 @Index("idx_catalogue_size", ["boardFeet", "listingId"])
 @Index("idx_catalogue_position", ["latitude", "longitude"])
 @Index("idx_catalogue_fit", ["usableLengthMm", "usableWidthMm", "usableThicknessMm"])
+/**
+ * Every filtered column, species first: the capped result count reads this index alone (no row
+ * lookups), so counting up to 1 001 matches touches only small index entries.
+ */
+@Index("idx_catalogue_filters", [
+  "speciesSlug", "lengthMm", "averageWidthMm", "minWidthMm", "thicknessMm", "moisturePct", "ready", "priceMinor", "liveEdge",
+  "featureBits", "setKind", "freight", "latitude", "longitude", "usableLengthMm", "usableWidthMm", "usableThicknessMm",
+])
 export class CatalogueEntryEntity {
   @PrimaryColumn({ name: "listing_id", type: "char", length: 36 })
   listingId: string;

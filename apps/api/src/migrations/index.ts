@@ -13,3 +13,7 @@ migrations.push(Orders1764716400000);
 // Buyer tools: saved searches with alerts, favourites, messages.
 import { BuyerTools1764705600000 } from "./1764705600000-buyer-tools.ts";
 migrations.push(BuyerTools1764705600000);
+
+// A covering index for the catalogue's capped result count.
+import { CatalogueFilterIndex1764720000000 } from "./1764720000000-catalogue-filter-index.ts";
+migrations.push(CatalogueFilterIndex1764720000000);

@@ -11,7 +11,10 @@ const placeQuerySchema = z.object({ query: z.string().trim().min(1, "Type the st
 export function catalogueRoutes(catalogue: CatalogueService) {
   const router = Router();
   router.get("/catalogue", async (req, res) => {
-    res.json(await catalogue.search(parse(catalogueQuerySchema, req.query)));
+    const { json, etag } = await catalogue.searchAnswer(parse(catalogueQuerySchema, req.query));
+    res.setHeader("etag", etag);
+    if (req.fresh) res.status(304).end();
+    else res.type("application/json").send(json);
   });
   router.get("/catalogue/:listingId", async (req, res) => {
     res.json(await catalogue.detail(req.actor, String(req.params.listingId)));

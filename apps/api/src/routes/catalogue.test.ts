@@ -180,6 +180,21 @@ describe("catalogue search", () => {
     await sawyer.post(`/api/v1/yard/listings/${id}/withdraw`);
     expect((await search("species=white-ash")).body.total).toBe(0);
   });
+
+  it("answers a repeated search with an entity tag: unchanged → 304 without a body, changed → the new page", async () => {
+    const sawyer = await sawyerIn("Cedar Hollow");
+    await liveListing(sawyer, "cherry offcut", [slab("black-cherry", 1500, 38, [300, 290])], { rateMinor: 7_000 });
+    const first = await search("species=black-cherry");
+    const tag = first.headers.etag as string;
+    expect(tag).toMatch(/^W\/"/);
+    const again = await request(ctx.app).get("/api/v1/catalogue?species=black-cherry").set("if-none-match", tag);
+    expect(again.status).toBe(304);
+    expect(again.text).toBe("");
+    await liveListing(sawyer, "second cherry", [slab("black-cherry", 1600, 38, [310, 300])], { rateMinor: 7_000 });
+    const changed = await request(ctx.app).get("/api/v1/catalogue?species=black-cherry").set("if-none-match", tag);
+    expect(changed.status).toBe(200);
+    expect(changed.body.total).toBe(first.body.total + 1);
+  });
 });
 
 describe("fits my table", () => {

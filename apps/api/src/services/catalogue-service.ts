@@ -1,4 +1,4 @@
-import { createHmac, timingSafeEqual } from "node:crypto";
+import { createHash, createHmac, timingSafeEqual } from "node:crypto";
 import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult } from "@grainyard/contracts";
 import { slabFeatures, yardPaths } from "@grainyard/contracts";
 import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug, gluedTableFit, tableFit, topLengthForSeats } from "@grainyard/slab-math";
@@ -85,11 +85,19 @@ export const COUNT_CAP = 1000;
 const COUNT_TTL_MS = 30_000;
 const PAGE_TTL_MS = 5_000;
 
+/** A search answer ready to send. */
+export interface CatalogueAnswer {
+  json: string;
+  etag: string;
+}
+
 export function createCatalogueService(deps: { dataSource: DataSource; cursorSecret: string; cache?: boolean }) {
   const { dataSource } = deps;
   const caching = deps.cache ?? true;
   const counts = new LRUCache<string, { total: number; capped: boolean }>({ max: 2000, ttl: COUNT_TTL_MS });
-  const pages = new LRUCache<string, CatalogueResult>({ max: 500, ttl: PAGE_TTL_MS });
+  // Pages are kept as the JSON text that goes out with its entity tag, so a repeated search costs
+  // neither serialising nor hashing.
+  const pages = new LRUCache<string, CatalogueAnswer>({ max: 500, ttl: PAGE_TTL_MS });
   const forgetCached = () => {
     counts.clear();
     pages.clear();
@@ -289,9 +297,14 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
     },
 
     async search(input: CatalogueQueryParsed): Promise<CatalogueResult> {
+      return JSON.parse((await this.searchAnswer(input)).json) as CatalogueResult;
+    },
+
+    /** The search's answer as JSON text, exactly as the API sends it, and its entity tag (repeated searches come from the cache). */
+    async searchAnswer(input: CatalogueQueryParsed): Promise<CatalogueAnswer> {
       const pageKey = JSON.stringify(input);
       const cachedPage = caching ? pages.get(pageKey) : undefined;
-      if (cachedPage) return cachedPage;
+      if (cachedPage !== undefined) return cachedPage;
       const { countQuery, page, near, top, sort } = this.prepareSearch(input);
       const { cursor: _cursor, sort: _sort, limit: _limit, ...filters } = input;
       const countKey = JSON.stringify(filters);
@@ -319,8 +332,10 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         near: near ? { name: near.name, region: near.region, latitude: near.latitude, longitude: near.longitude } : null,
         fitTop: top,
       };
-      if (caching) pages.set(pageKey, result);
-      return result;
+      const json = JSON.stringify(result);
+      const answer = { json, etag: `W/"${createHash("sha1").update(json).digest("base64url")}"` };
+      if (caching) pages.set(pageKey, answer);
+      return answer;
     },
 
     /** A slab page: live listings for everyone; a listing's own sawyer and admins see it at any stage. */
