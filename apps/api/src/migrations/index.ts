@@ -13,3 +13,7 @@ migrations.push(Orders1764716400000);
 // Buyer tools: saved searches with alerts, favourites, messages.
 import { BuyerTools1764705600000 } from "./1764705600000-buyer-tools.ts";
 migrations.push(BuyerTools1764705600000);
+
+// The steps after payment: pickup windows, shipment, hand-over, completion, cancellation and refund.
+import { OrderSteps1764727200000 } from "./1764727200000-order-steps.ts";
+migrations.push(OrderSteps1764727200000);
