@@ -147,6 +147,18 @@ describe("buying a slab", () => {
     await expect.poll(() => phonePage.locator(`[data-test="order-${orderId}"]`).isVisible(), { timeout: 15_000 }).toBe(true);
     await screenshot(phonePage, "orders-buyer-390");
 
+    // The sawyer marks it handed over (after a confirmation); the buyer confirms receipt.
+    await sawyerPage.reload();
+    await sawyerPage.locator('[data-test="mark-handed-over"]').click();
+    await sawyerPage.locator('[data-test="confirm"]').click();
+    await expect.poll(() => sawyerPage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Handed over");
+    await phonePage.goto(`${appUrl}/orders/${orderId}`);
+    await phonePage.locator('[data-test="confirm-receipt"]').click();
+    await phonePage.locator('[data-test="confirm"]').click();
+    await expect.poll(() => phonePage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Completed");
+    await screenshot(phonePage, "order-completed-390");
+    await mailArrives(RIDGEBACK.email, new RegExp(`^Completed: ${MAPLE_PAIR}`));
+
     expect([...problems, ...sawyerProblems, ...phoneProblems]).toEqual([]);
     await Promise.all([context.close(), sawyerContext.close(), phoneContext.close()]);
   });
@@ -204,5 +216,37 @@ describe("buying a slab", () => {
     // The provider's own page answers a decline with 402 (its way of saying so), not a fault of ours.
     expect([...problems.filter((p) => !/status of 402/.test(p)), ...otherProblems]).toEqual([]);
     await Promise.all([context.close(), waiting.close()]);
+  });
+
+  it("a buyer cancels a paid order from the order page after a confirmation: refunded, and the slab is on sale again", async () => {
+    const listingId = await listingIdOf(RED_OAK);
+    const context = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-US" });
+    const page = await context.newPage();
+    const problems = watchForPageErrors(page);
+    await signIn(page, CALLOWAY);
+    await page.goto(`${appUrl}/slabs/${listingId}`);
+    await expect.poll(() => page.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
+    await page.locator('[data-test="handover-pickup"]').check({ force: true });
+    await page.locator('[data-test="buy"]').click();
+    await payOnHostedPage(page, "4242424242424242");
+    await expect.poll(() => page.locator('[data-test="order-status"]').innerText(), { timeout: 20_000 }).toBe("Paid");
+
+    await page.locator('[data-test="cancel-order"]').click();
+    await expect.poll(() => page.locator('[data-test="confirm-dialog"]').isVisible()).toBe(true);
+    // No reason: the dialog says what is missing and nothing changes.
+    await page.locator('[data-test="confirm"]').click();
+    await expect.poll(() => page.locator('[data-test="confirm-dialog"]').innerText()).toMatch(/Say why/);
+    await page.locator('[data-test="cancel-reason"]').fill("We found a matching pair elsewhere for the client.");
+    await screenshot(page, "order-cancel-dialog-390");
+    await page.locator('[data-test="confirm"]').click();
+    await expect.poll(() => page.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toMatch(/Refunded|Cancelled/);
+    await expect.poll(() => page.locator('[data-test="order-cancelled"]').innerText(), { timeout: 15_000 }).toMatch(/refunded to the card/);
+    await screenshot(page, "order-refunded-390");
+    await mailArrives(CALLOWAY.email, /^Cancelled and refunded/);
+    const status = (await (await fetch(`${appUrl}/api/v1/catalogue/${listingId}`)).json()) as { listing: { status: string } };
+    expect(status.listing.status).toBe("live");
+    // 422 for the empty reason is the API's field message, shown in the dialog.
+    expect(problems.filter((p) => !/status of 422/.test(p))).toEqual([]);
+    await context.close();
   });
 });
