@@ -29,6 +29,18 @@ const phoneContext = (locale = "en-US") => browser.newContext({ viewport: phone,
 const desktopContext = (locale = "en-US") => browser.newContext({ viewport: desktop, locale });
 const visible = (page: Page, selector: string, timeout = 15_000) => expect.poll(() => page.locator(selector).first().isVisible(), { timeout }).toBe(true);
 
+/**
+ * A full-page screenshot taken from the top (a sticky top bar is drawn where the page was
+ * scrolled to otherwise), after checking the page does not scroll sideways.
+ */
+async function shot(page: Page, name: string) {
+  const sideways = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+  expect(sideways, `${name} scrolls sideways by ${sideways}px`).toBeLessThanOrEqual(0);
+  await page.evaluate(() => window.scrollTo(0, 0));
+  await page.waitForTimeout(150);
+  await screenshot(page, name);
+}
+
 async function signIn(page: Page, who: { email: string; password: string }, landing: string) {
   await page.goto(`${appUrl}/sign-in`);
   await page.getByLabel("E-mail").fill(who.email);
@@ -82,7 +94,7 @@ describe("a homeowner's dining table", () => {
     await visible(page, '[data-test="catalogue-card"]');
     await page.locator('[data-test="save-search-open"]').click();
     await visible(page, '[data-test="save-search-sign-in"]');
-    await screenshot(page, "browse-save-sign-in-1280");
+    await shot(page, "browse-save-sign-in-1280");
     await page.locator('[data-test="save-search-sign-in-link"]').click();
     await page.waitForURL(/\/sign-in\?next=/);
     await page.getByLabel("E-mail").fill(HOMEOWNER.email);
@@ -119,7 +131,7 @@ describe("a homeowner's dining table", () => {
     const heart = page.locator('[data-test="slab-page"] [data-test="favourite-toggle"]').first();
     await heart.click();
     await expect.poll(() => heart.getAttribute("aria-pressed")).toBe("true");
-    await screenshot(page, "slab-page-buyer-1280");
+    await shot(page, "slab-page-buyer-1280");
 
     // Back to the search, and save it with e-mail alerts.
     await page.goto(`${appUrl}/browse?seats=8`);
@@ -127,21 +139,21 @@ describe("a homeowner's dining table", () => {
     await expect.poll(() => page.locator('[data-test="save-search-name"]').inputValue()).toBe("Table for 8");
     await page.locator('[data-test="save-search-name"]').fill(SEARCH_NAME);
     expect(await page.locator('[data-test="save-search-alerts"]').isChecked()).toBe(true);
-    await screenshot(page, "browse-save-form-1280");
+    await shot(page, "browse-save-form-1280");
     await page.locator('[data-test="save-search-submit"]').click();
     await expect.poll(() => page.locator('[data-test="save-search-done"]').innerText(), { timeout: 10_000 }).toContain(`Saved as “${SEARCH_NAME}”`);
-    await screenshot(page, "browse-saved-1280");
+    await shot(page, "browse-saved-1280");
 
     await page.goto(`${appUrl}/saved-searches`);
     const saved = page.locator('[data-test="saved-search"]', { hasText: SEARCH_NAME });
     await expect.poll(() => saved.isVisible(), { timeout: 10_000 }).toBe(true);
     expect(await saved.locator(".saved__word").allInnerTexts()).toEqual(["Table for 8"]);
     expect(await saved.locator('[data-test="saved-search-last-alert"]').innerText()).toBe("None yet");
-    await screenshot(page, "saved-searches-1280");
+    await shot(page, "saved-searches-1280");
 
     await page.goto(`${appUrl}/favourites`);
     await visible(page, `[data-test="favourites"] [data-listing-id="${seededOak}"]`);
-    await screenshot(page, "favourites-1280");
+    await shot(page, "favourites-1280");
 
     // A sawyer lists a new slab wide and long enough for eight…
     const sawyerContext = await desktopContext();
@@ -193,7 +205,7 @@ describe("a homeowner's dining table", () => {
     const answer = await strangerPage.goto(unsubscribe!);
     expect(answer?.status()).toBe(200);
     expect(await strangerPage.locator("h1").innerText()).toBe(`Alerts for “${SEARCH_NAME}” are off`);
-    await screenshot(strangerPage, "unsubscribe-390");
+    await shot(strangerPage, "unsubscribe-390");
     await stranger.close();
 
     // The saved search stays, with its alerts off.
@@ -208,36 +220,47 @@ describe("a homeowner's dining table", () => {
     const context = await phoneContext("en-GB");
     const page = await context.newPage();
     const problems = watchForPageErrors(page);
+    // Before signing in: the prompts to sign in.
+    await page.goto(`${appUrl}/browse?seats=8`);
+    await visible(page, '[data-test="catalogue-card"]');
+    await page.locator('[data-test="save-search-open"]').click();
+    await visible(page, '[data-test="save-search-sign-in"]');
+    await shot(page, "browse-save-sign-in-390");
+    await page.goto(`${appUrl}/slabs/${newListingId}`);
+    await visible(page, '[data-test="ask-sign-in"]');
+    await shot(page, "slab-page-anonymous-390");
+
     await signIn(page, HOMEOWNER, "/account");
-    await screenshot(page, "account-buyer-390");
+    await shot(page, "account-buyer-390");
     await page.locator('[data-test="menu-toggle"]').click();
     await visible(page, 'a[href="/saved-searches"]');
-    await screenshot(page, "menu-buyer-390");
+    await shot(page, "menu-buyer-390");
     await page.locator('[data-test="menu-toggle"]').click();
 
     await page.goto(`${appUrl}/browse?seats=8&species=white-oak,northern-red-oak`);
     await visible(page, '[data-test="catalogue-card"]');
     await page.locator('[data-test="save-search-open"]').click();
     await visible(page, '[data-test="save-search-form"]');
-    await screenshot(page, "browse-save-form-390");
+    await shot(page, "browse-save-form-390");
 
     await page.goto(`${appUrl}/saved-searches`);
     await visible(page, '[data-test="saved-search"]');
-    await screenshot(page, "saved-searches-390");
+    await shot(page, "saved-searches-390");
     // Deleting asks first; "Keep it" keeps it.
     await page.locator('[data-test="saved-search"] [data-test="delete"]').first().click();
     await visible(page, '[data-test="confirm-dialog"]');
-    await screenshot(page, "saved-search-delete-390");
+    await page.waitForTimeout(400); // the dialog fades in
+    await shot(page, "saved-search-delete-390");
     await page.getByRole("button", { name: "Keep it" }).click();
     await expect.poll(() => page.locator('[data-test="saved-search"]').count()).toBe(1);
 
     await page.goto(`${appUrl}/favourites`);
     await visible(page, '[data-test="favourites"] [data-test="catalogue-card"]');
-    await screenshot(page, "favourites-390");
+    await shot(page, "favourites-390");
 
     await page.goto(`${appUrl}/slabs/${newListingId}`);
     await visible(page, '[data-test="ask-sawyer"]');
-    await screenshot(page, "slab-page-buyer-390");
+    await shot(page, "slab-page-buyer-390");
     expect(problems).toEqual([]);
     await context.close();
   });
@@ -247,14 +270,14 @@ describe("a homeowner's dining table", () => {
       const context = name === "390" ? await phoneContext("en-GB") : await desktopContext("en-GB");
       const page = await context.newPage();
       await signIn(page, SHOP, "/account");
-      for (const [path, selector, shot] of [
+      for (const [path, selector, screen] of [
         ["/saved-searches", '[data-test="saved-searches-empty"]', "saved-searches-empty"],
         ["/favourites", '[data-test="favourites-empty"]', "favourites-empty"],
         ["/messages", '[data-test="messages-empty"]', "messages-empty"],
       ] as const) {
         await page.goto(`${appUrl}${path}`);
         await visible(page, selector);
-        await screenshot(page, `${shot}-${name}`);
+        await shot(page, `${screen}-${name}`);
       }
       await context.close();
     }
@@ -273,7 +296,7 @@ describe("asking the sawyer", () => {
     await buyer.locator('[data-test="ask-body"]').fill("Hello! Is it flat enough to use as a dining top as it is, and could we pick it up on a Saturday?");
     await buyer.locator('[data-test="ask-send"]').click();
     await expect.poll(() => buyer.locator('[data-test="ask-sent"]').innerText(), { timeout: 10_000 }).toContain("Sent to Ridgeback Urban Timber");
-    await screenshot(buyer, "slab-page-asked-1280");
+    await shot(buyer, "slab-page-asked-1280");
 
     // The sawyer's notice links the conversation.
     const notice = await newestMailTo(SAWYER.email);
@@ -289,27 +312,27 @@ describe("asking the sawyer", () => {
     await signIn(sawyer, SAWYER, "/yard");
     await expect.poll(() => sawyer.locator('[data-test="menu-unread"]').innerText(), { timeout: 10_000 }).toMatch(/^1/);
     await sawyer.locator('[data-test="menu-toggle"]').click();
-    await screenshot(sawyer, "menu-sawyer-390");
+    await shot(sawyer, "menu-sawyer-390");
     await sawyer.locator('[data-test="nav-messages"]').click();
     await sawyer.waitForURL(`${appUrl}/messages`);
     const thread = sawyer.locator('[data-test="thread"]', { hasText: NEW_LISTING_TITLE });
     await expect.poll(() => thread.isVisible(), { timeout: 10_000 }).toBe(true);
     expect(await thread.locator('[data-test="thread-unread"]').innerText()).toMatch(/^1/);
-    await screenshot(sawyer, "messages-sawyer-390");
+    await shot(sawyer, "messages-sawyer-390");
     await sawyer.goto(threadLink!);
     await visible(sawyer, '[data-test="message"]');
     expect(await sawyer.locator('[data-test="thread-with"]').innerText()).toBe("Ana and Theo Brandt");
     // Opened: nothing unread any more.
     await expect.poll(() => sawyer.locator('[data-test="menu-unread"]').count(), { timeout: 10_000 }).toBe(0);
     await sawyer.locator('[data-test="reply-box"]').fill("Yes, it's flattened on both faces and has been through the kiln. Saturday from 9 works; it's heavy, so bring two helpers or a trolley.");
-    await screenshot(sawyer, "thread-sawyer-typing-390");
+    await shot(sawyer, "thread-sawyer-typing-390");
     await sawyer.locator('[data-test="send"]').click();
     await expect.poll(() => sawyer.locator('[data-test="message"]').count(), { timeout: 10_000 }).toBe(2);
     expect(await sawyer.locator('[data-test="reply-box"]').inputValue()).toBe("");
     // The send box stays on screen at phone size.
     const box = await sawyer.locator('[data-test="send-form"]').boundingBox();
     expect(box && box.y + box.height).toBeLessThanOrEqual(phone.height + 1);
-    await screenshot(sawyer, "thread-sawyer-390");
+    await shot(sawyer, "thread-sawyer-390");
 
     // The buyer's notice, and the answer arrives on the buyer's open thread by polling.
     const reply = await newestMailTo(HOMEOWNER.email);
@@ -317,10 +340,10 @@ describe("asking the sawyer", () => {
     expect(reply.text).toContain("Saturday from 9 works");
     await buyer.goto(`${appUrl}/messages`);
     await expect.poll(() => buyer.locator('[data-test="unread-badge"]').innerText(), { timeout: 40_000 }).toMatch(/^1/);
-    await screenshot(buyer, "messages-buyer-1280");
+    await shot(buyer, "messages-buyer-1280");
     await buyer.locator('[data-test="thread"]', { hasText: NEW_LISTING_TITLE }).click();
     await expect.poll(() => buyer.locator('[data-test="message"]').count(), { timeout: 10_000 }).toBe(2);
-    await screenshot(buyer, "thread-buyer-1280");
+    await shot(buyer, "thread-buyer-1280");
     // Polling: a second answer shows up without a reload.
     await sawyer.locator('[data-test="reply-box"]').fill("I'll put it on the trestles by the gate for you.");
     await sawyer.locator('[data-test="send"]').click();
@@ -337,10 +360,10 @@ describe("asking the sawyer", () => {
     await signIn(buyerOnPhone, HOMEOWNER, "/account");
     await buyerOnPhone.goto(buyer.url());
     await expect.poll(() => buyerOnPhone.locator('[data-test="message"]').count(), { timeout: 10_000 }).toBe(3);
-    await screenshot(buyerOnPhone, "thread-buyer-390");
+    await shot(buyerOnPhone, "thread-buyer-390");
     await buyerOnPhone.goto(`${appUrl}/messages`);
     await visible(buyerOnPhone, '[data-test="thread"]');
-    await screenshot(buyerOnPhone, "messages-buyer-390");
+    await shot(buyerOnPhone, "messages-buyer-390");
     await buyerPhone.close();
 
     expect(buyerProblems).toEqual([]);
