@@ -354,7 +354,18 @@ describe("asking the sawyer", () => {
     await visible(sawyer, '[data-test="slab-weight"]');
     expect(await sawyer.locator('[data-test="ask-sawyer"]').count()).toBe(0);
 
-    // The thread at desktop size for the sawyer, and at phone size for the buyer.
+    // The inbox and thread at desktop size for the sawyer, and at phone size for the buyer.
+    const sawyerDesk = await desktopContext("en-GB");
+    const sawyerAtDesk = await sawyerDesk.newPage();
+    await signIn(sawyerAtDesk, SAWYER, "/yard");
+    await sawyerAtDesk.goto(`${appUrl}/messages`);
+    await visible(sawyerAtDesk, '[data-test="thread"]');
+    await shot(sawyerAtDesk, "messages-sawyer-1280");
+    await sawyerAtDesk.locator('[data-test="thread"]', { hasText: NEW_LISTING_TITLE }).click();
+    await expect.poll(() => sawyerAtDesk.locator('[data-test="message"]').count(), { timeout: 10_000 }).toBe(3);
+    await shot(sawyerAtDesk, "thread-sawyer-1280");
+    await sawyerDesk.close();
+
     const buyerPhone = await phoneContext();
     const buyerOnPhone = await buyerPhone.newPage();
     await signIn(buyerOnPhone, HOMEOWNER, "/account");
