@@ -29,6 +29,9 @@ describe("saved searches in the web app", () => {
     ]);
     expect(savedSearchWords("thicknessMin=50", unitFormatter("imperial"))[0]).toMatch(/^Thickness from 1 15\/16″$/);
     expect(savedSearchWords("", metric)).toEqual([]);
+    // A town is stored by its id: its name when known, plain words when not.
+    expect(savedSearchWords("near=demo%3Alakemont&radiusKm=40", metric, "Lakemont")).toEqual(["Within 40 km of Lakemont"]);
+    expect(savedSearchWords("near=demo%3Alakemont", metric)).toEqual(["Near the chosen town"]);
   });
 
   it("opens a stored search in the catalogue", () => {

@@ -25,9 +25,18 @@ export function filtersFromSavedQuery(text: string): CatalogueFilters {
   return filtersFromQuery(query);
 }
 
-/** The filters of a saved search in words, one per filter; empty when it asks for every slab. */
-export function savedSearchWords(text: string, format: UnitFormatter): string[] {
-  return activeFilters(filtersFromSavedQuery(text), format).map((filter) => filter.label);
+/**
+ * The filters of a saved search in words, one per filter; empty when it asks for every slab.
+ * The query holds a town's id: `placeName` is its name, when known.
+ */
+export function savedSearchWords(text: string, format: UnitFormatter, placeName: string | null = null): string[] {
+  const filters = filtersFromSavedQuery(text);
+  return activeFilters(filters, format, filters.near ? (placeName ?? "the chosen town") : null).map((filter) => filter.label);
+}
+
+/** The town id a saved search measures from, if any. */
+export function savedSearchTown(text: string): string | null {
+  return filtersFromSavedQuery(text).near;
 }
 
 /** The catalogue address that runs a saved search. */

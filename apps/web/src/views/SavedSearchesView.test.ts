@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { buyerPaths } from "@grainyard/contracts";
+import { buyerPaths, cataloguePaths } from "@grainyard/contracts";
 import { api } from "../api/client.ts";
 import { mountView } from "../test/mount-view.ts";
 import { buyerAccount, savedSearch } from "../test/fixtures.ts";
@@ -41,6 +41,23 @@ describe("Saved searches page", () => {
     expect(items[1]!.find('[data-test="saved-search-pending"]').text()).toBe("Alerts are off");
     expect(items[1]!.find('[data-test="saved-search-last-alert"]').text()).toBe("None yet");
     expect(items[1]!.findAll(".saved__word").map((w) => w.text())).toEqual(["Every slab"]);
+  });
+
+  it("names the town of a search near one (the catalogue's answer gives its name)", async () => {
+    const { wrapper, fetchMock } = await mountView(SavedSearchesView, {
+      path: "/saved-searches",
+      session: { account: buyerAccount },
+      answers: {
+        [LIST]: [{ status: 200, body: { savedSearches: [savedSearch({ query: "near=demo%3Anorthshore&radiusKm=30" })] } }],
+        [`GET ${cataloguePaths.search}`]: [
+          { status: 200, body: { results: [], total: 0, totalIsAtLeast: false, nextCursor: null, near: { name: "Northshore", region: "Lakemont region (demo)", latitude: 44.7, longitude: -85.4 }, fitTop: null } },
+        ],
+      },
+    });
+    await flushPromises();
+    expect(wrapper.findAll(".saved__word").map((w) => w.text())).toEqual(["Within 30 km of Northshore"]);
+    const asked = fetchMock.mock.calls.map(([url]) => String(url)).find((url) => url.startsWith(cataloguePaths.search))!;
+    expect(new URLSearchParams(asked.split("?")[1]).get("near")).toBe("demo:northshore");
   });
 
   it("says what to do when there are none", async () => {
