@@ -139,6 +139,31 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "My account", roles: ["buyer"] },
   },
   {
+    path: "/saved-searches",
+    name: "saved-searches",
+    component: () => import("./views/SavedSearchesView.vue"),
+    meta: { title: "Saved searches", roles: ["buyer"] },
+  },
+  {
+    path: "/favourites",
+    name: "favourites",
+    component: () => import("./views/FavouritesView.vue"),
+    meta: { title: "Favourites", roles: ["buyer"] },
+  },
+  {
+    path: "/messages",
+    name: "messages",
+    component: () => import("./views/MessagesView.vue"),
+    meta: { title: "Messages", roles: ["buyer", "sawyer"] },
+  },
+  {
+    // The address in message notice e-mails.
+    path: "/messages/:threadId",
+    name: "thread",
+    component: () => import("./views/ThreadView.vue"),
+    meta: { title: "Conversation", roles: ["buyer", "sawyer", "admin"] },
+  },
+  {
     path: "/admin",
     name: "admin",
     component: () => import("./views/AdminHomeView.vue"),

@@ -14,7 +14,7 @@ function htmlPage(res: Response, status: number, heading: string, text: string) 
     .setHeader("cache-control", "no-store")
     .send(
       `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><meta name="robots" content="noindex"><title>${escapeHtml(heading)} · Grainyard</title></head>` +
-        `<body style="font-family:Georgia,serif;color:#2b241c;max-width:560px;margin:48px auto;padding:0 16px"><h1 style="font-size:24px">${escapeHtml(heading)}</h1><p>${escapeHtml(text)}</p><p><a href="/" style="color:#6b3f1d">Back to Grainyard</a></p></body></html>`,
+        `<body style="margin:0;background:#f6f1e8;font-family:Georgia,serif;color:#2a211b;line-height:1.5"><main style="max-width:560px;margin:0 auto;padding:48px 20px"><p style="font-weight:bold;font-size:20px;margin:0 0 24px">Grainyard</p><h1 style="font-size:26px;line-height:1.25">${escapeHtml(heading)}</h1><p>${escapeHtml(text)}</p><p><a href="/saved-searches" style="color:#3d5a31;font-weight:bold">Your saved searches</a> · <a href="/" style="color:#9c4d1d">Back to Grainyard</a></p></main></body></html>`,
     );
 }
 

@@ -16,6 +16,14 @@ import {
   catalogueResultSchema,
   catalogueDetailSchema,
   placeListSchema,
+  buyerPaths,
+  savedSearchEnvelopeSchema,
+  savedSearchListSchema,
+  favouriteEnvelopeSchema,
+  favouriteListSchema,
+  threadListSchema,
+  threadDetailSchema,
+  messagePostedSchema,
   sessionSchema,
   logSchema,
   logListSchema,
@@ -40,6 +48,14 @@ import {
   type PickupWindowsInput,
   type ShipmentInput,
   type CatalogueDetail,
+  type Favourite,
+  type FavouriteList,
+  type MessagePosted,
+  type SavedSearch,
+  type SavedSearchInput,
+  type SavedSearchUpdate,
+  type ThreadDetail,
+  type ThreadSummary,
   type CatalogueResult,
   type CsvRowError,
   type Place,
@@ -175,6 +191,13 @@ const orderEnvelope: ResponseParser<{ order: Order }> = orderEnvelopeSchema;
 const orderList: ResponseParser<{ orders: Order[] }> = orderListSchema;
 const checkoutResult: ResponseParser<{ order: Order; checkoutUrl: string }> = checkoutResultSchema;
 const checkoutQuote: ResponseParser<{ quote: CheckoutQuote }> = checkoutQuoteSchema;
+const savedSearchEnvelope: ResponseParser<{ savedSearch: SavedSearch }> = savedSearchEnvelopeSchema;
+const savedSearchList: ResponseParser<{ savedSearches: SavedSearch[] }> = savedSearchListSchema;
+const favouriteEnvelope: ResponseParser<{ favourite: Favourite }> = favouriteEnvelopeSchema;
+const favouriteList: ResponseParser<FavouriteList> = favouriteListSchema;
+const threadList: ResponseParser<{ threads: ThreadSummary[] }> = threadListSchema;
+const threadDetail: ResponseParser<ThreadDetail> = threadDetailSchema;
+const messagePosted: ResponseParser<MessagePosted> = messagePostedSchema;
 
 /** The CSV import said no: every row message, and nothing was saved. */
 export class CsvImportError extends ApiRequestError {
@@ -453,6 +476,21 @@ export function createApiClient(options: ApiClientOptions = {}) {
     markHandedOver: (orderId: string) => request("POST", orderPaths.handedOver(orderId), { body: {}, schema: orderEnvelope }),
     confirmReceipt: (orderId: string) => request("POST", orderPaths.completion(orderId), { body: {}, schema: orderEnvelope }),
     cancelOrder: (orderId: string, reason: string) => request("POST", orderPaths.cancellation(orderId), { body: { reason }, schema: orderEnvelope }),
+    // Buyer tools: saved searches (with e-mail alerts), favourites, messages about a listing.
+    listSavedSearches: (signal?: AbortSignal) => request("GET", buyerPaths.savedSearches, { schema: savedSearchList, signal }),
+    saveSearch: (input: SavedSearchInput) => request("POST", buyerPaths.savedSearches, { body: input, schema: savedSearchEnvelope }),
+    updateSavedSearch: (savedSearchId: string, input: SavedSearchUpdate) =>
+      request("PATCH", buyerPaths.savedSearch(savedSearchId), { body: input, schema: savedSearchEnvelope }),
+    deleteSavedSearch: (savedSearchId: string): Promise<void> => request("DELETE", buyerPaths.savedSearch(savedSearchId)),
+    listFavourites: (signal?: AbortSignal) => request("GET", buyerPaths.favourites, { schema: favouriteList, signal }),
+    addFavourite: (listingId: string) => request("PUT", buyerPaths.favourite(listingId), { schema: favouriteEnvelope }),
+    removeFavourite: (listingId: string): Promise<void> => request("DELETE", buyerPaths.favourite(listingId)),
+    askAboutListing: (listingId: string, body: string) =>
+      request("POST", buyerPaths.listingMessages(listingId), { body: { body }, schema: messagePosted }),
+    listThreads: (signal?: AbortSignal) => request("GET", buyerPaths.threads, { schema: threadList, signal }),
+    getThread: (threadId: string, signal?: AbortSignal) => request("GET", buyerPaths.thread(threadId), { schema: threadDetail, signal }),
+    replyInThread: (threadId: string, body: string) =>
+      request("POST", buyerPaths.threadMessages(threadId), { body: { body }, schema: messagePosted }),
 
     // Admin review.
     reviewQueue: (signal?: AbortSignal) => request("GET", yardPaths.reviewQueue, { schema: listingList, signal }),
