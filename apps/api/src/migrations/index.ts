@@ -13,3 +13,7 @@ migrations.push(Orders1764716400000);
 // Buyer tools: saved searches with alerts, favourites, messages.
 import { BuyerTools1764705600000 } from "./1764705600000-buyer-tools.ts";
 migrations.push(BuyerTools1764705600000);
+
+// Operator desk: review snapshots, audit log, reports, settings, suspension.
+import { OperatorDesk1764738000000 } from "./1764738000000-operator-desk.ts";
+migrations.push(OperatorDesk1764738000000);
