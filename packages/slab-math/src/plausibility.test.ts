@@ -84,6 +84,10 @@ describe('plausibilityWarnings', () => {
     expect(warnings[0]!.message).toMatch(/^Slab 2: /);
   });
 
+  it('a single slab\'s message starts with a capital letter', () => {
+    expect(plausibilityWarnings([slab({ lastMoisturePct: 2 })])[0]!.message).toMatch(/^Moisture reading of 2 %/);
+  });
+
   it('an unknown species is reported rather than thrown', () => {
     expect(codes([slab({ speciesSlug: 'dragon-wood', statedWeightKg: 10 })])).toEqual(['unknown_species']);
   });

@@ -77,7 +77,7 @@ export function plausibilityWarnings(slabs: readonly PlausibilitySlab[], options
   const warnings: PlausibilityWarning[] = [];
   const assumed = options.moistureAssumedPct ?? 12;
   slabs.forEach((slab, slabIndex) => {
-    const add = (code: PlausibilityCode, message: string) => warnings.push({ code, slabIndex, message });
+    const add = (code: PlausibilityCode, message: string) => warnings.push({ code, slabIndex, message: message.charAt(0).toUpperCase() + message.slice(1) });
     const label = slabs.length > 1 ? `Slab ${slabIndex + 1}: ` : '';
     const kilnDried = slab.dryingMethod !== 'air';
     const mc = slab.lastMoisturePct;

@@ -56,7 +56,7 @@ export function createDashboardService(deps: { dataSource: DataSource; now?: () 
       return {
         awaitingReview: { count: Number(waiting?.n ?? 0), oldestSubmittedAt: waiting?.oldest ? new Date(waiting.oldest).toISOString() : null },
         liveBySpecies: bySpecies.map((r) => ({ speciesSlug: r.speciesSlug, count: Number(r.n) })),
-        reviewTimes: weeks.map((week) => ({ week, reviews: hoursByWeek.get(week)?.length ?? 0, medianHours: Math.round(median(hoursByWeek.get(week) ?? []) * 10) / 10 })),
+        reviewTimes: weeks.map((week) => ({ week, reviews: hoursByWeek.get(week)?.length ?? 0, medianHours: Math.round(median(hoursByWeek.get(week) ?? []) * 100) / 100 })),
         ordersByState: orders.map((r) => ({ status: r.status, count: Number(r.n) })),
         salesByWeek: money.map((r) => ({ week: r.week, currency: r.currency, salesMinor: Number(r.sales), platformRevenueMinor: Number(r.platform) })),
         openReports,
