@@ -74,3 +74,12 @@ describe("safeNextPath", () => {
     expect(safeNextPath(["/a"])).toBeNull();
   });
 });
+
+describe("operator desk pages", () => {
+  it("every /admin page is for admins only", async () => {
+    const { routes } = await import("./router.ts");
+    const adminPages = routes.filter((r) => r.path.startsWith("/admin"));
+    expect(adminPages.map((r) => r.path).sort()).toEqual(["/admin", "/admin/audit", "/admin/reports", "/admin/review", "/admin/settings", "/admin/users"]);
+    for (const page of adminPages) expect(page.meta?.roles).toEqual(["admin"]);
+  });
+});
