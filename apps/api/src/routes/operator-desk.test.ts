@@ -1,7 +1,8 @@
 import sharp from "sharp";
 import { IsNull } from "typeorm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { AccountEntity, AuditEntryEntity, CatalogueEntryEntity, ListingEntity, OrderEntity, SessionRecordEntity } from "../entities/index.ts";
+import { AccountEntity, AuditEntryEntity, CatalogueEntryEntity, LedgerEntryEntity, ListingEntity, OrderEntity, SessionRecordEntity } from "../entities/index.ts";
+import { median, weekStart } from "../services/dashboard-service.ts";
 import { createTestContext, mailTo, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -310,6 +311,31 @@ describe("dashboard", () => {
     expect(d.reviewTimes).toHaveLength(12);
     expect(d.reviewTimes.at(-1).reviews).toBeGreaterThanOrEqual(4);
     expect(d.ordersByState).toContainEqual({ status: "expired", count: 1 });
+    // Money per week straight from the ledger: a payment (sums to zero) and a refund of the platform fee this week.
+    const now = new Date();
+    await ctx.dataSource.getRepository(LedgerEntryEntity).insert([
+      { orderId: null, account: "provider_clearing", amountMinor: 108_000, currency: "CAD", kind: "payment", providerEventId: null, createdAt: now },
+      { orderId: null, account: "platform_fees", amountMinor: -10_000, currency: "CAD", kind: "payment", providerEventId: null, createdAt: now },
+      { orderId: null, account: "tax_payable", amountMinor: -8_000, currency: "CAD", kind: "payment", providerEventId: null, createdAt: now },
+      { orderId: null, account: "sawyer:x", amountMinor: -90_000, currency: "CAD", kind: "payment", providerEventId: null, createdAt: now },
+      { orderId: null, account: "platform_fees", amountMinor: 2_500, currency: "CAD", kind: "refund", providerEventId: null, createdAt: now },
+      { orderId: null, account: "provider_clearing", amountMinor: -2_500, currency: "CAD", kind: "refund", providerEventId: null, createdAt: now },
+    ]);
+    const money = (await admin.get("/api/v1/admin/dashboard")).body.dashboard.salesByWeek.filter((r: { currency: string }) => r.currency === "CAD");
+    expect(money).toEqual([{ week: weekStart(now), currency: "CAD", salesMinor: 108_000, platformRevenueMinor: 7_500 }]);
     expect(d.suspendedUsers).toBe(await ctx.dataSource.getRepository(AccountEntity).createQueryBuilder("a").where("a.suspended_at IS NOT NULL").getCount());
+  });
+});
+
+describe("dashboard helpers", () => {
+  it("weeks start on Monday (ISO 8601), in UTC", () => {
+    expect(weekStart(new Date("2026-12-02T10:00:00Z"))).toBe("2026-11-30"); // a Wednesday
+    expect(weekStart(new Date("2026-11-30T00:00:00Z"))).toBe("2026-11-30"); // the Monday itself
+    expect(weekStart(new Date("2026-12-06T23:59:59Z"))).toBe("2026-11-30"); // the Sunday after
+  });
+  it("median of an odd and an even count", () => {
+    expect(median([5, 1, 3])).toBe(3);
+    expect(median([4, 1, 3, 2])).toBe(2.5);
+    expect(median([])).toBe(0);
   });
 });
