@@ -243,6 +243,18 @@ describe("reports and suspension", () => {
   });
 });
 
+describe("other admin actions", () => {
+  it("an admin changing a sawyer's yard is audited with before and after; the sawyer's own change is not", async () => {
+    const yard = (await ctx.signedInClient("sawyer", { yardName: "Old Mill Yard" })) as Signed;
+    expect((await yard.patch(`/api/v1/yards/${yard.account.id}`, { yardName: "Own Rename Yard" })).status).toBe(200);
+    expect(await auditOf(yard.account.id)).toHaveLength(0);
+    expect((await admin.patch(`/api/v1/yards/${yard.account.id}`, { yardName: "Desk Rename Yard" })).status).toBe(200);
+    const entries = await auditOf(yard.account.id);
+    expect(entries).toHaveLength(1);
+    expect(entries[0]).toMatchObject({ action: "yard.update", actorId: admin.account.id, before: { yardName: "Own Rename Yard" }, after: { yardName: "Desk Rename Yard" } });
+  });
+});
+
 describe("marketplace settings", () => {
   it("defaults from the old constants and env; changes are validated, audited and used by listings and checkout", async () => {
     const initial = await admin.get("/api/v1/admin/settings");

@@ -14,6 +14,7 @@ import type { AppConfig } from "../config.ts";
 import { AccountEntity, EmailTokenEntity, SessionRecordEntity } from "../entities/index.ts";
 import type { EmailTokenPurpose } from "../entities/email-token.ts";
 import { Conflict, Forbidden, Gone, Invalid, NotFound, Unauthorized } from "../errors.ts";
+import { recordAudit } from "./audit-log.ts";
 import type { Mailer } from "../integrations/mail.ts";
 import { passwordResetMail, verificationMail } from "../mail-templates.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
@@ -228,6 +229,11 @@ export function createAccountService(deps: AccountServiceDependencies) {
       await dataSource.transaction(async (manager) => {
         await manager.getRepository(AccountEntity).update({ id: yard.id }, { ...input, ...(input.pickupTown !== undefined ? pickupPosition(input.pickupTown) : {}) });
         await deps.onYardChanged?.(manager, yard.id);
+        // An admin changing someone's yard is an admin action: audited in the same transaction.
+        if (signedIn.role === "admin") {
+          const before = Object.fromEntries(Object.keys(input).map((key) => [key, yard[key as keyof typeof yard] ?? null]));
+          await recordAudit(manager, signedIn, { action: "yard.update", targetKind: "account", targetId: yard.id, before, after: input }, now());
+        }
       });
       return toAccount(await accounts().findOneByOrFail({ id: yard.id }));
     },
