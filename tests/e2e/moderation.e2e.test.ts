@@ -61,6 +61,11 @@ async function submitListing(page: Page, title: string, moisturePct: number): Pr
   return id;
 }
 
+/** Nothing on the page is wider than the window (no sideways scrolling on a phone). */
+async function fitsTheScreen(page: Page, width: number) {
+  expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(width);
+}
+
 const visible = (page: Page, selector: string) => expect.poll(() => page.locator(selector).first().isVisible(), { timeout: 15_000 }).toBe(true);
 let listingId = "";
 
@@ -151,33 +156,41 @@ describe("moderation desk", () => {
       const problems = watchForPageErrors(page);
       await signIn(page, ADMIN, "/admin");
       await visible(page, '[data-test="awaiting-review"]');
-      await expect.poll(() => page.locator("canvas").count(), { timeout: 15_000 }).toBeGreaterThanOrEqual(3);
+      // Live by species and this week's review times have data (no orders or sales in this run: those panels say so).
+      await expect.poll(() => page.locator("canvas").count(), { timeout: 15_000 }).toBeGreaterThanOrEqual(2);
+      await expect.poll(() => page.getByText("No orders yet.").isVisible()).toBe(true);
       await page.waitForTimeout(600); // chart animations settle
+      await fitsTheScreen(page, viewport.width);
       await screenshot(page, `admin-dashboard-${size}`);
 
       await page.goto(`${appUrl}/admin/review`);
       await visible(page, '[data-test="review-item"]');
       await expect.poll(() => page.locator('[data-test="warnings"]').first().innerText()).toMatch(/above 15 %/);
+      await fitsTheScreen(page, viewport.width);
       await screenshot(page, `admin-review-${size}`);
 
       await page.goto(`${appUrl}/admin/reports`);
       await visible(page, '[data-test="report-item"]');
+      await fitsTheScreen(page, viewport.width);
       await screenshot(page, `admin-reports-${size}`);
 
       await page.goto(`${appUrl}/admin/users`);
       await visible(page, '[data-test="user-row"]');
+      await fitsTheScreen(page, viewport.width);
       await screenshot(page, `admin-users-${size}`);
 
       await page.goto(`${appUrl}/admin/settings`);
       await visible(page, '[data-test="setting-platformFeeBps"]');
       if (size === "1280") {
-        await page.locator('[data-test="setting-holdDays"]').fill("10");
+        const hold = page.locator('[data-test="setting-holdDays"]');
+        await hold.fill((await hold.inputValue()) === "10" ? "11" : "10");
         await page.locator('[data-test="save-settings"]').click();
         await page.locator('[data-test="reason-text"]').fill("Longer hold for the holidays.");
         await screenshot(page, "admin-settings-confirm-1280");
         await page.locator('[data-test="reason-confirm"]').click();
         await expect.poll(() => page.getByText("Saved.").isVisible(), { timeout: 15_000 }).toBe(true);
       }
+      await fitsTheScreen(page, viewport.width);
       await screenshot(page, `admin-settings-${size}`);
 
       await page.goto(`${appUrl}/admin/audit`);
@@ -188,6 +201,7 @@ describe("moderation desk", () => {
         expect(csv.status()).toBe(200);
         expect(await csv.text()).toMatch(/listing\.approve/);
       }
+      await fitsTheScreen(page, viewport.width);
       await screenshot(page, `admin-audit-${size}`);
       expect(problems).toEqual([]);
       await context.close();

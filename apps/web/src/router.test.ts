@@ -34,7 +34,8 @@ describe("route guards", () => {
     await router.push("/yard");
     expect(router.currentRoute.value.path).toBe("/sign-in");
     expect(router.currentRoute.value.query.next).toBe("/yard");
-  });
+    // The first navigation compiles the lazy views on the fly: slow on a busy machine.
+  }, 20_000);
 
   it("lets the wrong role reach the page (App shows 'not for your account')", async () => {
     const { router, session } = routerWithSession(buyer);
