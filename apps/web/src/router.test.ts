@@ -34,7 +34,8 @@ describe("route guards", () => {
     await router.push("/yard");
     expect(router.currentRoute.value.path).toBe("/sign-in");
     expect(router.currentRoute.value.query.next).toBe("/yard");
-  });
+    // The first navigation compiles the lazy views on the fly: slow on a busy machine.
+  }, 20_000);
 
   it("lets the wrong role reach the page (App shows 'not for your account')", async () => {
     const { router, session } = routerWithSession(buyer);
@@ -72,5 +73,14 @@ describe("safeNextPath", () => {
     expect(safeNextPath("/\\evil.example")).toBeNull();
     expect(safeNextPath("https://evil.example")).toBeNull();
     expect(safeNextPath(["/a"])).toBeNull();
+  });
+});
+
+describe("operator desk pages", () => {
+  it("every /admin page is for admins only", async () => {
+    const { routes } = await import("./router.ts");
+    const adminPages = routes.filter((r) => r.path.startsWith("/admin"));
+    expect(adminPages.map((r) => r.path).sort()).toEqual(["/admin", "/admin/audit", "/admin/reports", "/admin/review", "/admin/settings", "/admin/users"]);
+    for (const page of adminPages) expect(page.meta?.roles).toEqual(["admin"]);
   });
 });

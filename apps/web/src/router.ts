@@ -167,13 +167,37 @@ export const routes: RouteRecordRaw[] = [
     path: "/admin",
     name: "admin",
     component: () => import("./views/AdminHomeView.vue"),
-    meta: { title: "Admin desk", roles: ["admin"] },
+    meta: { title: "Admin dashboard", roles: ["admin"] },
   },
   {
     path: "/admin/review",
     name: "admin-review",
     component: () => import("./views/AdminReviewView.vue"),
     meta: { title: "Listings to review", roles: ["admin"] },
+  },
+  {
+    path: "/admin/reports",
+    name: "admin-reports",
+    component: () => import("./views/AdminReportsView.vue"),
+    meta: { title: "Reports", roles: ["admin"] },
+  },
+  {
+    path: "/admin/users",
+    name: "admin-users",
+    component: () => import("./views/AdminUsersView.vue"),
+    meta: { title: "Users", roles: ["admin"] },
+  },
+  {
+    path: "/admin/audit",
+    name: "admin-audit",
+    component: () => import("./views/AdminAuditView.vue"),
+    meta: { title: "Audit log", roles: ["admin"] },
+  },
+  {
+    path: "/admin/settings",
+    name: "admin-settings",
+    component: () => import("./views/AdminSettingsView.vue"),
+    meta: { title: "Marketplace settings", roles: ["admin"] },
   },
   {
     path: "/:pathMatch(.*)*",

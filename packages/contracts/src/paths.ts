@@ -75,3 +75,6 @@ export const buyerPaths = {
   thread: (threadId: string) => `${API_PREFIX}/threads/${encodeURIComponent(threadId)}`,
   threadMessages: (threadId: string) => `${API_PREFIX}/threads/${encodeURIComponent(threadId)}/messages`,
 } as const;
+
+/** Filing a report (anyone signed in). The admin desk's own paths live in admin.ts, beside its schemas. */
+export const reportPaths = { reports: `${API_PREFIX}/reports` } as const;

@@ -3,7 +3,7 @@ import mysql from "mysql2/promise";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { DataSource } from "typeorm";
 import { loadConfig } from "../config.ts";
-import { AccountEntity, SlabEntity } from "../entities/index.ts";
+import { AccountEntity, AuditEntryEntity, SlabEntity } from "../entities/index.ts";
 import { demoLogs, seedLakemontYards } from "../seed/lakemont-yard.ts";
 import { demoAccounts, seedLakemont } from "../seed/lakemont.ts";
 import { createAdmin } from "../services/admin-accounts.ts";
@@ -34,7 +34,7 @@ describe("migrations", () => {
     await dataSource.runMigrations({ transaction: "each" });
     const pending = await dataSource.driver.createSchemaBuilder().log();
     expect(pending.upQueries.map((q) => q.query)).toEqual([]);
-    expect(await tables()).toEqual(["account", "buyer_order", "catalogue_entry", "email_token", "favourite", "ledger_entry", "listing", "listing_photo", "listing_slab", "log_photo", "message", "message_thread", "moisture_reading", "payment_event", "saved_search", "saved_search_match", "schema_migration", "session_record", "slab", "yard_log"]);
+    expect(await tables()).toEqual(["account", "audit_entry", "buyer_order", "catalogue_entry", "content_report", "email_token", "favourite", "ledger_entry", "listing", "listing_photo", "listing_review", "listing_slab", "log_photo", "marketplace_setting", "message", "message_thread", "moisture_reading", "payment_event", "saved_search", "saved_search_match", "schema_migration", "session_record", "slab", "yard_log"]);
   });
 
   it("revert cleanly with down, and apply again", async () => {
@@ -85,5 +85,12 @@ describe("admin:create", () => {
     expect(row.role).toBe("admin");
     expect(row.emailVerifiedAt).not.toBeNull();
     await expect(createAdmin(dataSource, { email: "not-an-address", password: "x", bcryptCost: 4 })).rejects.toThrow(/not a valid e-mail/);
+    // Both are in the audit log as command-line actions.
+    const audit = await dataSource.getRepository(AuditEntryEntity).find({ order: { id: "ASC" } });
+    expect(audit.map((e) => [e.action, e.actorLabel, e.targetId])).toEqual([
+      ["account.promote", "command line", (await repository.findOneByOrFail({ email: "shop@fernhill-furniture.test" })).id],
+      ["account.create_admin", "command line", row.id],
+    ]);
+    expect(audit[0]!.before).toEqual({ role: "buyer" });
   });
 });

@@ -14,6 +14,7 @@ import type { AppConfig } from "../config.ts";
 import { AccountEntity, EmailTokenEntity, SessionRecordEntity } from "../entities/index.ts";
 import type { EmailTokenPurpose } from "../entities/email-token.ts";
 import { Conflict, Forbidden, Gone, Invalid, NotFound, Unauthorized } from "../errors.ts";
+import { recordAudit } from "./audit-log.ts";
 import type { Mailer } from "../integrations/mail.ts";
 import { passwordResetMail, verificationMail } from "../mail-templates.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
@@ -134,6 +135,7 @@ export function createAccountService(deps: AccountServiceDependencies) {
       const entity = await accounts().findOne({ where: { email: input.email } });
       const matches = entity ? await passwordMatches(input.password, entity.passwordHash) : await decoyPasswordCheck(input.password, config.bcryptCost);
       if (!entity || !matches) throw new Unauthorized("That e-mail and password do not match an account.", "wrong_credentials");
+      if (entity.suspendedAt) throw new Forbidden("This account is suspended, so it cannot sign in. Reply to the e-mail we sent you to talk to us about it.", "account_suspended");
       const sessionKey = newToken();
       await dataSource.getRepository(SessionRecordEntity).insert({
         keyHash: tokenHash(sessionKey),
@@ -149,7 +151,7 @@ export function createAccountService(deps: AccountServiceDependencies) {
       if (!sessionKey) return { actor: { kind: "anonymous" }, account: null };
       const keyHash = tokenHash(sessionKey);
       const record = await dataSource.getRepository(SessionRecordEntity).findOne({ where: { keyHash, revokedAt: IsNull() }, relations: { account: true } });
-      if (!record?.account || record.expiresAt.getTime() <= now().getTime()) return { actor: { kind: "anonymous" }, account: null };
+      if (!record?.account || record.expiresAt.getTime() <= now().getTime() || record.account.suspendedAt) return { actor: { kind: "anonymous" }, account: null };
       const account = record.account;
       return {
         actor: { kind: "account", accountId: account.id, role: account.role, emailVerified: account.emailVerifiedAt !== null, sessionKeyHash: keyHash },
@@ -227,6 +229,11 @@ export function createAccountService(deps: AccountServiceDependencies) {
       await dataSource.transaction(async (manager) => {
         await manager.getRepository(AccountEntity).update({ id: yard.id }, { ...input, ...(input.pickupTown !== undefined ? pickupPosition(input.pickupTown) : {}) });
         await deps.onYardChanged?.(manager, yard.id);
+        // An admin changing someone's yard is an admin action: audited in the same transaction.
+        if (signedIn.role === "admin") {
+          const before = Object.fromEntries(Object.keys(input).map((key) => [key, yard[key as keyof typeof yard] ?? null]));
+          await recordAudit(manager, signedIn, { action: "yard.update", targetKind: "account", targetId: yard.id, before, after: input }, now());
+        }
       });
       return toAccount(await accounts().findOneByOrFail({ id: yard.id }));
     },

@@ -2,6 +2,7 @@ import { randomUUID } from "node:crypto";
 import type { DataSource } from "typeorm";
 import { emailSchema } from "@grainyard/contracts";
 import { AccountEntity } from "../entities/index.ts";
+import { recordAudit } from "./audit-log.ts";
 import { hashPassword } from "./passwords.ts";
 
 /**
@@ -20,10 +21,13 @@ export async function createAdmin(
     const existing = await repository.findOneBy({ email });
     if (existing) {
       await repository.update({ id: existing.id }, { role: "admin", yardName: null, pickupTown: null });
+      await recordAudit(manager, "cli", { action: "account.promote", targetKind: "account", targetId: existing.id, before: { role: existing.role }, after: { role: "admin" } }, new Date());
       return { email, created: false };
     }
+    const id = randomUUID();
+    await recordAudit(manager, "cli", { action: "account.create_admin", targetKind: "account", targetId: id, before: null, after: { role: "admin", email } }, new Date());
     await repository.insert({
-      id: randomUUID(),
+      id,
       email,
       passwordHash: await hashPassword(input.password, input.bcryptCost),
       role: "admin",

@@ -80,4 +80,20 @@ describe("SignInView", () => {
     await fillAndSubmit(wrapper);
     expect(wrapper.find('[role="alert"]').text()).toContain("Too many tries. Wait a few minutes.");
   });
+
+  it("tells a suspended person plainly why they cannot sign in", async () => {
+    const { wrapper, router } = await mountView(SignInView, {
+      path: "/sign-in",
+      answers: {
+        [`POST ${apiPaths.session}`]: [
+          { status: 403, body: { error: { code: "account_suspended", message: "This account is suspended, so it cannot sign in." } } },
+        ],
+      },
+    });
+    await fillAndSubmit(wrapper);
+    const alert = wrapper.find('[role="alert"]').text();
+    expect(alert).toContain("This account is suspended");
+    expect(alert).toContain("so it cannot sign in.");
+    expect(router.currentRoute.value.fullPath).toBe("/sign-in");
+  });
 });
