@@ -118,7 +118,7 @@ export const routes: RouteRecordRaw[] = [
     path: "/orders",
     name: "orders",
     component: () => import("./views/OrdersView.vue"),
-    meta: { title: "Orders", roles: ["buyer", "sawyer"] },
+    meta: { title: "Orders", roles: ["buyer", "sawyer", "admin"] },
   },
   {
     path: "/orders/:orderId",

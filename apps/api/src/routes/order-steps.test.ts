@@ -96,6 +96,10 @@ describe("order steps after payment", () => {
   it("pickup: the sawyer proposes windows, the buyer picks one, hand-over, the buyer confirms; each step stamped and mailed to both", async () => {
     const { buyer, orderId } = await paidOrder("pickup");
     const path = `/api/v1/orders/${orderId}`;
+    // The buyer and the admin see it in their lists; another buyer does not.
+    expect((await buyer.get("/api/v1/orders")).body.orders.map((o: { id: string }) => o.id)).toEqual([orderId]);
+    expect((await admin.get("/api/v1/orders")).body.orders.map((o: { id: string }) => o.id)).toContain(orderId);
+    expect((await (await ctx.signedInClient("buyer")).get("/api/v1/orders")).body.orders).toEqual([]);
 
     // Only the sawyer proposes; bad windows are a 422 with field messages, and change nothing.
     expect((await buyer.post(`${path}/pickup-windows`, windowsInput())).status).toBe(403);
