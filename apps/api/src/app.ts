@@ -21,7 +21,7 @@ import { listingRoutes } from "./routes/listing-routes.ts";
 import { photoRoutes } from "./routes/photo-routes.ts";
 import { createLogPhotoService, createPhotoService } from "./services/photo-service.ts";
 import { yardRoutes } from "./routes/yard-routes.ts";
-import { catalogueRoutes } from "./routes/catalogue-routes.ts";
+import { catalogueRoutes, catalogueSearch, catalogueSearchPath } from "./routes/catalogue-routes.ts";
 import { orderRoutes, paymentWebhookRoute } from "./routes/order-routes.ts";
 import { createCheckoutService } from "./services/checkout-service.ts";
 import { createOrderService } from "./services/order-service.ts";
@@ -97,6 +97,11 @@ export function createApp(deps: AppDependencies) {
     }),
   );
 
+  // The catalogue search is the busiest route and the same for everyone: it answers before the
+  // session, the anti-forgery check and the acting-user lookup (it never needs them).
+  const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret, cache: config.catalogueCache });
+  app.get(catalogueSearchPath, catalogueSearch(catalogue));
+
   app.use(
     cookieSession({
       name: "grainyard_session",
@@ -108,7 +113,6 @@ export function createApp(deps: AppDependencies) {
       maxAge: SESSION_DAYS * 86400_000,
     }),
   );
-  const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret, cache: config.catalogueCache });
   // Admin-editable settings (fees, reservation minutes, tax, hold days) from the database, with the env values as defaults.
   const settings = createSettingsService({ dataSource: deps.dataSource, config, now: deps.now });
   void settings.ensureFresh().catch((error) => logger.error({ err: error }, "could not read marketplace settings"));
@@ -184,7 +188,7 @@ export function createApp(deps: AppDependencies) {
   });
 
   app.use("/api", healthRoutes(deps));
-  // The busiest routes first (read-only, no anti-forgery check needed): fewer routers to walk past.
+  // Read-only routes first (no anti-forgery check needed): fewer routers to walk past.
   app.use("/api/v1", catalogueRoutes(catalogue));
   app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), orderRoutes(checkout, orders));
   app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));

@@ -1,5 +1,5 @@
-import { Router } from "express";
-import { catalogueQuerySchema } from "@grainyard/contracts";
+import { Router, type Request, type Response } from "express";
+import { API_PREFIX, catalogueQuerySchema } from "@grainyard/contracts";
 import { z } from "zod";
 import { parse } from "../http/context.ts";
 import type { CatalogueService } from "../services/catalogue-service.ts";
@@ -7,15 +7,21 @@ import { searchPlaces } from "../services/places.ts";
 
 const placeQuerySchema = z.object({ query: z.string().trim().min(1, "Type the start of a town name.").max(80) });
 
-/** The public catalogue: search, slab pages, and towns to search around. */
-export function catalogueRoutes(catalogue: CatalogueService) {
-  const router = Router();
-  router.get("/catalogue", async (req, res) => {
+export const catalogueSearchPath = `${API_PREFIX}/catalogue`;
+
+/** The catalogue search: the same answer for everyone, so it needs no session (mounted before it in app.ts). */
+export function catalogueSearch(catalogue: CatalogueService) {
+  return async (req: Request, res: Response) => {
     const { json, etag } = await catalogue.searchAnswer(parse(catalogueQuerySchema, req.query));
     res.setHeader("etag", etag);
     if (req.fresh) res.status(304).end();
     else res.type("application/json").send(json);
-  });
+  };
+}
+
+/** The rest of the public catalogue: slab pages, and towns to search around. */
+export function catalogueRoutes(catalogue: CatalogueService) {
+  const router = Router();
   router.get("/catalogue/:listingId", async (req, res) => {
     res.json(await catalogue.detail(req.actor, String(req.params.listingId)));
   });

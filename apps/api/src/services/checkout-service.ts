@@ -5,6 +5,7 @@ import { In, LessThan, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, LedgerEntryEntity, ListingEntity, ListingSlabEntity, OrderEntity, PaymentEventEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound, ServiceUnavailable } from "../errors.ts";
+import { retryOnLockConflict } from "../db/lock-conflicts.ts";
 import type { Mailer } from "../integrations/mail.ts";
 import type { Payments } from "../integrations/payments.ts";
 import { orderPaidBuyerMail, orderPaidSawyerMail } from "../mail-templates.ts";
@@ -229,7 +230,7 @@ export function createCheckoutService(deps: {
       const due = await dataSource.getRepository(OrderEntity).find({ where: { status: OPEN_PAYMENT, reservedUntil: LessThan(now()) }, take: 200 });
       let released = 0;
       for (const order of due) {
-        const done = await dataSource.transaction((manager) => release(manager, order, "expired"));
+        const done = await retryOnLockConflict(() => dataSource.transaction((manager) => release(manager, order, "expired")));
         if (done) {
           released += 1;
           if (order.checkoutSessionId) await payments.sdk.checkout.sessions.expire(order.checkoutSessionId).catch(() => undefined);

@@ -1,4 +1,5 @@
 import { orderStatusLabels, type CancellationInput, type ChooseWindowInput, type Order, type PickupWindowsInput, type ShipmentInput } from "@grainyard/contracts";
+import { retryOnLockConflict } from "../db/lock-conflicts.ts";
 import { In, LessThan, Not, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
@@ -334,8 +335,8 @@ export function createOrderService(deps: {
       const due = await orders().find({ where: { status: "handed_over", handedOverAt: LessThan(cutoff) }, take: 200 });
       let completed = 0;
       for (const order of due) {
-        const updated = await orders().update({ id: order.id, status: "handed_over" }, { status: "completed", completedAt: now(), completedBy: "automatic" });
-        if (updated.affected !== 1) continue;
+        const updated = await retryOnLockConflict(() => orders().update({ id: order.id, status: "handed_over" }, { status: "completed", completedAt: now(), completedBy: "automatic" }));
+        if (updated?.affected !== 1) continue;
         completed += 1;
         await mailBoth(await orders().findOneByOrFail({ id: order.id }), "completed");
       }
