@@ -24,6 +24,7 @@ import { yardRoutes } from "./routes/yard-routes.ts";
 import { catalogueRoutes } from "./routes/catalogue-routes.ts";
 import { orderRoutes, paymentWebhookRoute } from "./routes/order-routes.ts";
 import { createCheckoutService } from "./services/checkout-service.ts";
+import { createOrderService } from "./services/order-service.ts";
 import { createAccountService, SESSION_DAYS } from "./services/account-service.ts";
 import { createCatalogueService } from "./services/catalogue-service.ts";
 import { createInventoryCsv } from "./services/inventory-csv.ts";
@@ -112,6 +113,15 @@ export function createApp(deps: AppDependencies) {
     now: deps.now,
     onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
   });
+  const orders = createOrderService({
+    dataSource: deps.dataSource,
+    payments: deps.payments,
+    mailer: deps.mailer,
+    config,
+    log: logger,
+    now: deps.now,
+    onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
+  });
   app.use("/api/v1", paymentWebhookRoute(checkout, deps.payments, config.payments.webhookSecret));
   app.use(express.json({ limit: "100kb" }));
 
@@ -154,7 +164,7 @@ export function createApp(deps: AppDependencies) {
   app.use("/api", healthRoutes(deps));
   // The busiest routes first (read-only, no anti-forgery check needed): fewer routers to walk past.
   app.use("/api/v1", catalogueRoutes(catalogue));
-  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), orderRoutes(checkout));
+  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), orderRoutes(checkout, orders));
   app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));
   app.use("/api", apiNotFound);
 
@@ -170,5 +180,5 @@ export function createApp(deps: AppDependencies) {
 
   app.use(errorHandler);
   // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule.
-  return Object.assign(app, { checkout, savedSearches });
+  return Object.assign(app, { checkout, orders, savedSearches });
 }

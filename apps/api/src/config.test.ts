@@ -21,4 +21,10 @@ describe("configuration", () => {
     expect(config.storage.endpoint).toBe("http://127.0.0.1:5083");
     expect(config.payments).toMatchObject({ protocol: "http", port: 5082 });
   });
+
+  it("reads the days after hand-over before an order completes by itself (14 unless told)", () => {
+    expect(loadConfig(base).checkout.autoCompleteDays).toBe(14);
+    expect(loadConfig({ ...base, AUTO_COMPLETE_DAYS: "7" }).checkout.autoCompleteDays).toBe(7);
+    expect(() => loadConfig({ ...base, AUTO_COMPLETE_DAYS: "0" })).toThrow(/AUTO_COMPLETE_DAYS/);
+  });
 });

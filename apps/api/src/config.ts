@@ -34,6 +34,8 @@ const environmentSchema = z.object({
   PAYMENTS_WEBHOOK_SECRET: z.string().default("whsec_grainyard_local"),
   RESERVATION_MINUTES: z.coerce.number().int().min(1).max(240).default(15),
   TAX_RATE_BPS: z.coerce.number().int().min(0).max(5000).default(0),
+  /** Days after hand-over when an order the buyer has not confirmed completes by itself. */
+  AUTO_COMPLETE_DAYS: z.coerce.number().int().min(1).max(90).default(14),
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),
   WEB_DIST: z.string().optional(),
   LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
@@ -54,7 +56,7 @@ export interface AppConfig {
   storage: { endpoint?: string; region: string; bucket: string; accessKeyId: string; secretAccessKey: string; forcePathStyle: boolean };
   mail: { host: string; port: number; secure: boolean; user?: string; password?: string; from: string };
   payments: { host: string; port: number; protocol: "http" | "https"; secretKey: string; webhookSecret: string };
-  checkout: { reservationMinutes: number; taxRateBps: number };
+  checkout: { reservationMinutes: number; taxRateBps: number; autoCompleteDays: number };
   bcryptCost: number;
   webDist?: string;
   logLevel: string;
@@ -93,7 +95,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
     },
     mail: { host: env.SMTP_HOST, port: env.SMTP_PORT, secure: env.SMTP_SECURE === "true", user: env.SMTP_USER, password: env.SMTP_PASSWORD, from: env.MAIL_FROM },
     payments: { host: env.PAYMENTS_HOST, port: env.PAYMENTS_PORT, protocol: env.PAYMENTS_PROTOCOL, secretKey: env.PAYMENTS_SECRET_KEY, webhookSecret: env.PAYMENTS_WEBHOOK_SECRET },
-    checkout: { reservationMinutes: env.RESERVATION_MINUTES, taxRateBps: env.TAX_RATE_BPS },
+    checkout: { reservationMinutes: env.RESERVATION_MINUTES, taxRateBps: env.TAX_RATE_BPS, autoCompleteDays: env.AUTO_COMPLETE_DAYS },
     bcryptCost: env.BCRYPT_COST,
     webDist: env.WEB_DIST,
     logLevel: env.LOG_LEVEL,

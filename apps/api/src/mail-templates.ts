@@ -87,12 +87,13 @@ export function orderPaidBuyerMail(buyer: { email: string; displayName: string }
       [
         `Hello ${buyer.displayName},`,
         `Thank you: your payment for "${order.title}" from ${sawyer.yardName ?? "the yard"} is confirmed.`,
+        `Receipt for order ${order.id.slice(0, 8).toUpperCase()}:`,
         ...slabLines(order),
         `Price ${moneyText(order.priceMinor, order.currency)} · tax ${moneyText(order.taxMinor, order.currency)} · total paid ${moneyText(order.totalMinor, order.currency)}.`,
         handover,
         "Slabs are heavy: lift with two people or a machine, secure the load, and keep to local load and vehicle limits.",
       ],
-      { label: "See your order and receipt", url: link },
+      { label: "See your order and receipt", url: `${link}/receipt` },
     ),
   };
 }
@@ -111,6 +112,112 @@ export function orderPaidSawyerMail(sawyer: { email: string; displayName: string
       { label: "Open the order", url: link },
     ),
   };
+}
+
+// ---- The steps of an order after payment ----
+
+export type OrderStep = "pickup_windows_proposed" | "pickup_window_chosen" | "shipped" | "handed_over" | "completed" | "cancelled";
+
+interface OrderStepFacts extends OrderForMail {
+  pickupWindows: { startsAt: string; endsAt: string }[] | null;
+  pickupAddress: string | null;
+  pickupStartsAt: Date | null;
+  pickupEndsAt: Date | null;
+  carrier: string | null;
+  trackingReference: string | null;
+  handedOverAt: Date | null;
+  completedBy: "buyer" | "automatic" | null;
+  cancelledBy: "buyer" | "sawyer" | null;
+  cancelReason: string | null;
+  status: string;
+}
+
+/** A pickup window in plain words, in the yard's (UTC unless told) time: "Sat 6 Dec 2026, 09:00–11:00 UTC". */
+export function windowText(startsAt: string | Date, endsAt: string | Date): string {
+  const start = new Date(startsAt);
+  const end = new Date(endsAt);
+  const day = new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone: "UTC" }).format(start);
+  const time = (d: Date) => new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone: "UTC" }).format(d);
+  return `${day}, ${time(start)}–${time(end)} UTC`;
+}
+
+const LIFT_CAUTION = "Slabs are heavy: lift with two people or a machine, secure the load, and keep to local load and vehicle limits.";
+
+/** One e-mail per step of an order, to the buyer or the sawyer, in the same plain words as the order page. */
+export function orderStepMail(
+  to: { email: string; displayName: string },
+  role: "buyer" | "sawyer",
+  step: OrderStep,
+  order: OrderStepFacts,
+  parties: { buyerName: string; yardName: string | null; pickupTown: string | null },
+  link: string,
+  autoCompleteDays: number,
+): OutgoingMail {
+  const yard = parties.yardName ?? "the yard";
+  const title = `"${order.title}"`;
+  const hello = `Hello ${to.displayName},`;
+  const chosen = order.pickupStartsAt && order.pickupEndsAt ? windowText(order.pickupStartsAt, order.pickupEndsAt) : "";
+  let subject: string;
+  let lines: string[];
+  switch (step) {
+    case "pickup_windows_proposed": {
+      const windows = (order.pickupWindows ?? []).map((w, i) => `${i + 1}. ${windowText(w.startsAt, w.endsAt)}`);
+      subject = role === "buyer" ? `Choose a pickup time: ${order.title}` : `Pickup times sent: ${order.title}`;
+      lines =
+        role === "buyer"
+          ? [hello, `${yard} is ready for you to collect ${title}. Choose one of these times on the order page:`, ...windows, `Where: ${order.pickupAddress ?? ""}`, LIFT_CAUTION]
+          : [hello, `You proposed these pickup times to ${parties.buyerName} for ${title}:`, ...windows, `Where: ${order.pickupAddress ?? ""}`, "We will tell you when the buyer chooses one."];
+      break;
+    }
+    case "pickup_window_chosen":
+      subject = role === "buyer" ? `Pickup booked: ${order.title}` : `The buyer chose a pickup time: ${order.title}`;
+      lines =
+        role === "buyer"
+          ? [hello, `You will collect ${title} from ${yard}: ${chosen}.`, `Where: ${order.pickupAddress ?? ""}`, "Bring enough hands or a lifting aid, straps and a vehicle long enough for the slab.", LIFT_CAUTION]
+          : [hello, `${parties.buyerName} will collect ${title}: ${chosen}.`, `Where: ${order.pickupAddress ?? ""}`, "Mark the order as handed over once it has left the yard."];
+      break;
+    case "shipped":
+      subject = role === "buyer" ? `On its way: ${order.title}` : `Marked as shipped: ${order.title}`;
+      lines =
+        role === "buyer"
+          ? [hello, `${yard} sent ${title} by freight to: ${order.deliveryAddress ?? ""}.`, `Carrier: ${order.carrier ?? ""}. Tracking reference: ${order.trackingReference ?? ""}.`, "Have help ready for the delivery. " + LIFT_CAUTION]
+          : [hello, `You sent ${title} to ${parties.buyerName}.`, `Carrier: ${order.carrier ?? ""}. Tracking reference: ${order.trackingReference ?? ""}.`, "Mark the order as handed over once the carrier has delivered it."]
+      break;
+    case "handed_over":
+      subject = role === "buyer" ? `Handed over: ${order.title}` : `Handed over: ${order.title}`;
+      lines =
+        role === "buyer"
+          ? [hello, `${yard} marked ${title} as handed over to you.`, `Please confirm on the order page that you have it and it is as described. If we hear nothing, the order completes by itself ${autoCompleteDays} days after hand-over.`]
+          : [hello, `You marked ${title} as handed over to ${parties.buyerName}.`, `The order completes when the buyer confirms, or by itself ${autoCompleteDays} days after hand-over.`];
+      break;
+    case "completed":
+      subject = `Completed: ${order.title}`;
+      lines = [
+        hello,
+        order.completedBy === "automatic"
+          ? `${title} is complete: ${autoCompleteDays} days have passed since hand-over.`
+          : role === "buyer"
+            ? `Thank you for confirming that you have ${title}. The order is complete.`
+            : `${parties.buyerName} confirmed receiving ${title}. The order is complete.`,
+        role === "buyer"
+          ? "Enjoy the build. Wood dust is a recognised carcinogen: work with dust extraction and a fitted respirator, and read the safety data sheet of any finish."
+          : `Your net for this sale: ${moneyText(order.sawyerNetMinor, order.currency)}.`,
+      ];
+      break;
+    case "cancelled": {
+      const who = order.cancelledBy === role ? "You" : order.cancelledBy === "sawyer" ? yard : parties.buyerName;
+      const refund = order.status === "refunded" ? `The full payment of ${moneyText(order.totalMinor, order.currency)} has been refunded to the card.` : `The full payment of ${moneyText(order.totalMinor, order.currency)} is being refunded to the card.`;
+      subject = `Cancelled and refunded: ${order.title}`;
+      lines = [
+        hello,
+        `${who} cancelled the order for ${title}.`,
+        `Reason given: “${order.cancelReason ?? ""}”`,
+        role === "buyer" ? `${refund} Banks usually show it within 5–10 business days.` : `${refund} The slab is back on sale in the catalogue.`,
+      ];
+      break;
+    }
+  }
+  return { to: to.email, subject, ...layout(lines, { label: "Open the order", url: link }) };
 }
 
 // ---- Buyer tools: saved-search alerts and message notices ----

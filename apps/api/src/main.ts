@@ -43,6 +43,14 @@ const sweep = setInterval(() => {
 }, 30_000);
 sweep.unref();
 
+// Orders handed over AUTO_COMPLETE_DAYS ago complete by themselves, and refunds the provider could
+// not take at cancellation are tried again; both conditional updates, safe with several instances.
+const orderSweep = setInterval(() => {
+  app.orders.completeDueOrders().catch((error: unknown) => logger.error({ err: error }, "order completion sweep failed"));
+  app.orders.retryPendingRefunds().catch((error: unknown) => logger.error({ err: error }, "refund retry sweep failed"));
+}, 5 * 60_000);
+orderSweep.unref();
+
 // Saved-search alerts held back by the once-a-day rule go out when their day is up.
 const alerts = setInterval(() => {
   app.savedSearches.processPendingAlerts().catch((error: unknown) => logger.error({ err: error }, "saved-search alerts failed"));

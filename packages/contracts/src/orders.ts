@@ -24,6 +24,46 @@ export const orderStatusLabels = {
   refunded: "Refunded",
 } as const;
 
+/** A pickup window, ISO instants. */
+export const pickupWindowSchema = z.object({ startsAt: z.string(), endsAt: z.string() });
+export type PickupWindow = z.infer<typeof pickupWindowSchema>;
+
+const instant = (what: string) => z.iso.datetime({ offset: true, error: `Give the ${what} as a date and time.` });
+
+/** The sawyer proposes 1–5 windows and says where to come. */
+export const pickupWindowsInputSchema = z.object({
+  windows: z
+    .array(
+      z.object({ startsAt: instant("start"), endsAt: instant("end") }).refine((w) => Date.parse(w.endsAt) > Date.parse(w.startsAt), { path: ["endsAt"], message: "A window must end after it starts." }),
+      { error: "Propose at least one pickup window." },
+    )
+    .min(1, "Propose at least one pickup window.")
+    .max(5, "Propose at most five pickup windows."),
+  pickupAddress: z.string({ error: "Say where the buyer should come." }).trim().min(3, "Say where the buyer should come.").max(300, "Keep the address under 300 characters."),
+});
+export type PickupWindowsInput = z.infer<typeof pickupWindowsInputSchema>;
+
+/** The buyer picks one of the proposed windows by its start. */
+export const chooseWindowInputSchema = z.object({ startsAt: instant("window") });
+export type ChooseWindowInput = z.infer<typeof chooseWindowInputSchema>;
+
+export const shipmentInputSchema = z.object({
+  carrier: z.string({ error: "Name the carrier." }).trim().min(2, "Name the carrier.").max(80, "Keep the carrier under 80 characters."),
+  trackingReference: z.string({ error: "Give the tracking reference." }).trim().min(3, "Give the tracking reference.").max(120, "Keep the reference under 120 characters."),
+});
+export type ShipmentInput = z.infer<typeof shipmentInputSchema>;
+
+export const cancellationInputSchema = z.object({
+  reason: z.string({ error: "Say why the order is cancelled." }).trim().min(3, "Say why the order is cancelled.").max(500, "Keep the reason under 500 characters."),
+});
+export type CancellationInput = z.infer<typeof cancellationInputSchema>;
+
+/** What buying a listing would cost, from the same code as checkout (tax at the configured rate). */
+export const checkoutQuoteSchema = z.object({
+  quote: z.object({ currency: z.string(), priceMinor: z.number(), taxMinor: z.number(), taxRateBps: z.number(), totalMinor: z.number(), reservationMinutes: z.number() }),
+});
+export type CheckoutQuote = z.infer<typeof checkoutQuoteSchema>["quote"];
+
 export const orderSchema = z.object({
   id: z.string(),
   status: z.enum(Object.keys(orderStatusLabels) as [keyof typeof orderStatusLabels, ...(keyof typeof orderStatusLabels)[]]),
@@ -40,6 +80,31 @@ export const orderSchema = z.object({
   slabs: z.array(z.record(z.string(), z.unknown())),
   sawyerShare: z.object({ platformFeeMinor: z.number(), processingFeeMinor: z.number(), sawyerNetMinor: z.number() }).nullable(),
   createdAt: z.string(),
+  /** Whether the one looking is the buyer or the sawyer of this order (admins: neither). */
+  viewerIs: z.enum(["buyer", "sawyer", "other"]),
+  parties: z.object({ buyerName: z.string(), yardName: z.string().nullable(), pickupTown: z.string().nullable() }),
+  pickupWindows: z.array(pickupWindowSchema),
+  pickupAddress: z.string().nullable(),
+  chosenPickupWindow: pickupWindowSchema.nullable(),
+  carrier: z.string().nullable(),
+  trackingReference: z.string().nullable(),
+  steps: z.object({
+    paidAt: z.string().nullable(),
+    readyForPickupAt: z.string().nullable(),
+    pickupChosenAt: z.string().nullable(),
+    shippedAt: z.string().nullable(),
+    handedOverAt: z.string().nullable(),
+    completedAt: z.string().nullable(),
+    cancelledAt: z.string().nullable(),
+    refundedAt: z.string().nullable(),
+  }),
+  completedBy: z.enum(["buyer", "automatic"]).nullable(),
+  cancelledBy: z.enum(["buyer", "sawyer"]).nullable(),
+  cancelReason: z.string().nullable(),
+  /** When the order completes by itself if the buyer does not confirm (handed over + the configured days). */
+  autoCompleteAt: z.string().nullable(),
+  /** What the one looking may do now. */
+  actions: z.array(z.enum(["propose_pickup_windows", "choose_pickup_window", "mark_shipped", "mark_handed_over", "confirm_receipt", "cancel"])),
 });
 export type Order = z.infer<typeof orderSchema>;
 export const checkoutResultSchema = z.object({ order: orderSchema, checkoutUrl: z.string() });

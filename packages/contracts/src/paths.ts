@@ -54,6 +54,13 @@ export const orderPaths = {
   orders: `${API_PREFIX}/orders`,
   order: (orderId: string) => `${API_PREFIX}/orders/${encodeURIComponent(orderId)}`,
   webhook: `${API_PREFIX}/payments/webhook`,
+  quote: (listingId: string) => `${API_PREFIX}/listings/${encodeURIComponent(listingId)}/checkout-quote`,
+  pickupWindows: (orderId: string) => `${API_PREFIX}/orders/${encodeURIComponent(orderId)}/pickup-windows`,
+  pickupChoice: (orderId: string) => `${API_PREFIX}/orders/${encodeURIComponent(orderId)}/pickup-choice`,
+  shipment: (orderId: string) => `${API_PREFIX}/orders/${encodeURIComponent(orderId)}/shipment`,
+  handedOver: (orderId: string) => `${API_PREFIX}/orders/${encodeURIComponent(orderId)}/handed-over`,
+  completion: (orderId: string) => `${API_PREFIX}/orders/${encodeURIComponent(orderId)}/completion`,
+  cancellation: (orderId: string) => `${API_PREFIX}/orders/${encodeURIComponent(orderId)}/cancellation`,
 } as const;
 
 export const buyerPaths = {

@@ -14,6 +14,7 @@ export type OrderStatus = (typeof orderStatuses)[number];
 @Index("idx_buyer_order_sawyer", ["sawyerId", "createdAt"])
 @Index("idx_buyer_order_listing", ["listingId"])
 @Index("idx_buyer_order_status", ["status", "reservedUntil"])
+@Index("idx_buyer_order_handed_over", ["status", "handedOverAt"])
 export class OrderEntity {
   @PrimaryColumn({ type: "char", length: 36 })
   id: string;
@@ -79,6 +80,63 @@ export class OrderEntity {
 
   @Column({ name: "paid_at", type: "datetime", precision: 3, nullable: true })
   paidAt: Date | null;
+
+  // ---- The steps after payment (each stamped when it happens) ----
+
+  /** The sawyer's proposed pickup windows (1–5), ISO instants. */
+  @Column({ name: "pickup_windows", type: "simple-json", nullable: true })
+  pickupWindows: { startsAt: string; endsAt: string }[] | null;
+
+  /** Where to come for pickup (yard address, gate, directions), given with the windows. */
+  @Column({ name: "pickup_address", type: "varchar", length: 300, nullable: true })
+  pickupAddress: string | null;
+
+  @Column({ name: "pickup_starts_at", type: "datetime", precision: 3, nullable: true })
+  pickupStartsAt: Date | null;
+
+  @Column({ name: "pickup_ends_at", type: "datetime", precision: 3, nullable: true })
+  pickupEndsAt: Date | null;
+
+  @Column({ name: "ready_for_pickup_at", type: "datetime", precision: 3, nullable: true })
+  readyForPickupAt: Date | null;
+
+  @Column({ name: "pickup_chosen_at", type: "datetime", precision: 3, nullable: true })
+  pickupChosenAt: Date | null;
+
+  @Column({ type: "varchar", length: 80, nullable: true })
+  carrier: string | null;
+
+  @Column({ name: "tracking_reference", type: "varchar", length: 120, nullable: true })
+  trackingReference: string | null;
+
+  @Column({ name: "shipped_at", type: "datetime", precision: 3, nullable: true })
+  shippedAt: Date | null;
+
+  /** When the slab left the sawyer's hands (payouts count from here). */
+  @Column({ name: "handed_over_at", type: "datetime", precision: 3, nullable: true })
+  handedOverAt: Date | null;
+
+  @Column({ name: "completed_at", type: "datetime", precision: 3, nullable: true })
+  completedAt: Date | null;
+
+  /** "buyer" (confirmed receipt) or "automatic" (the days after hand-over ran out). */
+  @Column({ name: "completed_by", type: "varchar", length: 10, nullable: true })
+  completedBy: "buyer" | "automatic" | null;
+
+  @Column({ name: "cancelled_at", type: "datetime", precision: 3, nullable: true })
+  cancelledAt: Date | null;
+
+  @Column({ name: "cancelled_by", type: "varchar", length: 10, nullable: true })
+  cancelledBy: "buyer" | "sawyer" | null;
+
+  @Column({ name: "cancel_reason", type: "varchar", length: 500, nullable: true })
+  cancelReason: string | null;
+
+  @Column({ name: "refund_id", type: "varchar", length: 80, nullable: true })
+  refundId: string | null;
+
+  @Column({ name: "refunded_at", type: "datetime", precision: 3, nullable: true })
+  refundedAt: Date | null;
 
   @CreateDateColumn({ name: "created_at", type: "datetime", precision: 3, default: () => "CURRENT_TIMESTAMP(3)" })
   createdAt: Date;

@@ -17,3 +17,7 @@ migrations.push(BuyerTools1764705600000);
 // A covering index for the catalogue's capped result count.
 import { CatalogueFilterIndex1764720000000 } from "./1764720000000-catalogue-filter-index.ts";
 migrations.push(CatalogueFilterIndex1764720000000);
+
+// The steps after payment: pickup windows, shipment, hand-over, completion, cancellation and refund.
+import { OrderSteps1764727200000 } from "./1764727200000-order-steps.ts";
+migrations.push(OrderSteps1764727200000);

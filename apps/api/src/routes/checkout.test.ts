@@ -5,7 +5,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import sharp from "sharp";
 import request from "supertest";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { createPaymentsFakeApp, signatureHeader, type PaymentsFakeApp } from "@grainyard/payments-fake";
 import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
@@ -70,6 +70,7 @@ beforeAll(async () => {
   admin = await ctx.signedInClient("admin");
   photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a4f32" } }).jpeg().toBuffer();
 }, 60_000);
+afterEach(async () => ledgerSumsToZero());
 afterAll(async () => {
   fake.webhooks.stop();
   await new Promise((r) => apiServer.close(r));

@@ -1,21 +1,44 @@
 import express, { Router, type Request, type Response } from "express";
 import type Stripe from "stripe";
-import { checkoutInputSchema } from "@grainyard/contracts";
+import { cancellationInputSchema, checkoutInputSchema, chooseWindowInputSchema, pickupWindowsInputSchema, shipmentInputSchema } from "@grainyard/contracts";
 import { parse } from "../http/context.ts";
 import type { Payments } from "../integrations/payments.ts";
 import type { CheckoutService } from "../services/checkout-service.ts";
+import type { OrderService } from "../services/order-service.ts";
 
-/** Buying: checkout, the buyer's and sawyer's orders. */
-export function orderRoutes(checkout: CheckoutService) {
+/** Buying: the quote, checkout, the buyer's and sawyer's orders and every step after payment. */
+export function orderRoutes(checkout: CheckoutService, orders: OrderService) {
   const router = Router();
+  const id = (req: Request) => String(req.params.orderId);
+  router.get("/listings/:listingId/checkout-quote", async (req, res) => {
+    res.json({ quote: await checkout.quote(String(req.params.listingId)) });
+  });
   router.post("/listings/:listingId/checkout", async (req, res) => {
     res.status(201).json(await checkout.checkout(req.actor, String(req.params.listingId), parse(checkoutInputSchema, req.body)));
   });
   router.get("/orders", async (req, res) => {
-    res.json({ orders: await checkout.listOwn(req.actor) });
+    res.json({ orders: await orders.listOwn(req.actor) });
   });
   router.get("/orders/:orderId", async (req, res) => {
-    res.json({ order: await checkout.get(req.actor, String(req.params.orderId)) });
+    res.json({ order: await orders.get(req.actor, id(req)) });
+  });
+  router.post("/orders/:orderId/pickup-windows", async (req, res) => {
+    res.json({ order: await orders.proposePickupWindows(req.actor, id(req), parse(pickupWindowsInputSchema, req.body)) });
+  });
+  router.post("/orders/:orderId/pickup-choice", async (req, res) => {
+    res.json({ order: await orders.choosePickupWindow(req.actor, id(req), parse(chooseWindowInputSchema, req.body)) });
+  });
+  router.post("/orders/:orderId/shipment", async (req, res) => {
+    res.json({ order: await orders.markShipped(req.actor, id(req), parse(shipmentInputSchema, req.body)) });
+  });
+  router.post("/orders/:orderId/handed-over", async (req, res) => {
+    res.json({ order: await orders.markHandedOver(req.actor, id(req)) });
+  });
+  router.post("/orders/:orderId/completion", async (req, res) => {
+    res.json({ order: await orders.confirmReceipt(req.actor, id(req)) });
+  });
+  router.post("/orders/:orderId/cancellation", async (req, res) => {
+    res.json({ order: await orders.cancel(req.actor, id(req), parse(cancellationInputSchema, req.body)) });
   });
   return router;
 }

@@ -1,4 +1,6 @@
+import { randomUUID } from "node:crypto";
 import sharp from "sharp";
+import { OrderEntity } from "../entities/index.ts";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestContext, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 import { unsubscribeToken } from "../services/saved-search-service.ts";
@@ -186,9 +188,64 @@ const routes: RouteCase[] = [
     call: (c) => c.post(`/api/v1/threads/${buyerToolIds.threadId}/messages`, { body: "Answered in the matrix" }),
     expected: { anonymous: 401, buyer: 201, sawyer: 201, otherSawyer: 403, admin: 403 },
   },
+  // Orders (order-steps.test.ts and checkout.test.ts have the behaviour): "buyer" bought two of
+  // "sawyer"'s listings (orderIds, made straight in the database as paid pickup orders). The steps
+  // run in order: windows → choice → hand-over → completion; the second order is cancelled.
+  {
+    name: "GET /api/v1/listings/:listingId/checkout-quote (live)",
+    call: (c) => c.get(`/api/v1/listings/${buyerToolIds.liveListingId}/checkout-quote`),
+    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+  },
+  {
+    name: "POST /api/v1/listings/:listingId/checkout (a draft: not for sale)",
+    call: (c, ids) => c.post(`/api/v1/listings/${ids.listingId}/checkout`, { handover: "pickup" }),
+    expected: { anonymous: 401, buyer: 409, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/orders",
+    call: (c) => c.get("/api/v1/orders"),
+    expected: { anonymous: 401, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+  },
+  {
+    name: "GET /api/v1/orders/:orderId",
+    call: (c) => c.get(`/api/v1/orders/${orderIds.pickup}`),
+    expected: { anonymous: 401, buyer: 200, sawyer: 200, otherSawyer: 403, admin: 200 },
+  },
+  {
+    name: "POST /api/v1/orders/:orderId/pickup-windows",
+    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/pickup-windows`, { windows: [{ startsAt: orderIds.windowStart, endsAt: orderIds.windowEnd }], pickupAddress: "Matrix yard gate" }),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/orders/:orderId/pickup-choice",
+    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/pickup-choice`, { startsAt: orderIds.windowStart }),
+    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/orders/:orderId/shipment (a pickup order: 409 for its sawyer)",
+    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/shipment`, { carrier: "Matrix Freight", trackingReference: "MTX-1" }),
+    expected: { anonymous: 401, buyer: 403, sawyer: 409, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/orders/:orderId/handed-over",
+    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/handed-over`),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/orders/:orderId/completion",
+    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/completion`),
+    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+  },
+  {
+    // The buyer cancels first (200); the sawyer then finds it cancelled already (409).
+    name: "POST /api/v1/orders/:orderId/cancellation",
+    call: (c) => c.post(`/api/v1/orders/${orderIds.toCancel}/cancellation`, { reason: "Matrix cancels" }),
+    expected: { anonymous: 401, buyer: 200, sawyer: 409, otherSawyer: 403, admin: 403 },
+  },
 ];
 
 let ctx: TestContext;
+const orderIds = { pickup: "", toCancel: "", windowStart: "", windowEnd: "" };
 const clients = {} as Record<ActorName, BrowserClient>;
 const ids: Ids = { sawyerId: "", logId: "", slabId: "", listingId: "", photoUrl: "" };
 /** Buyer tools: a live listing of "sawyer", a thread "buyer" started on it, two saved searches of "buyer". */
@@ -223,6 +280,36 @@ beforeAll(async () => {
   buyerToolIds.savedSearchId = (await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix oak", query: "species=northern-red-oak" })).body.savedSearch.id;
   buyerToolIds.spareSavedSearchId = (await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix spare", query: "species=white-oak" })).body.savedSearch.id;
   buyerToolIds.unsubscribeToken = unsubscribeToken(ctx.config.sessionSecret, buyerToolIds.savedSearchId);
+  // Two paid pickup orders of "buyer" for "sawyer"'s draft listing (the money side is checkout.test.ts's).
+  const buyerId = ((await clients.buyer.get("/api/v1/session")).body.account as { id: string }).id;
+  for (const key of ["pickup", "toCancel"] as const) {
+    orderIds[key] = randomUUID();
+    await ctx.dataSource.getRepository(OrderEntity).insert({
+      id: orderIds[key],
+      buyerId,
+      sawyerId: ids.sawyerId,
+      listingId: ids.listingId,
+      status: "paid",
+      title: "Matrix oak",
+      slabSnapshot: [],
+      currency: "USD",
+      priceMinor: 20_000,
+      platformFeeMinor: 2_000,
+      processingFeeMinor: 610,
+      sawyerNetMinor: 17_390,
+      taxMinor: 0,
+      totalMinor: 20_000,
+      handover: "pickup",
+      deliveryAddress: null,
+      checkoutSessionId: null,
+      checkoutUrl: null,
+      paymentIntentId: null,
+      reservedUntil: new Date(),
+      paidAt: new Date(),
+    });
+  }
+  orderIds.windowStart = new Date(Date.now() + 2 * 86_400_000).toISOString();
+  orderIds.windowEnd = new Date(Date.now() + 2 * 86_400_000 + 7_200_000).toISOString();
 });
 afterAll(async () => ctx?.close());
 

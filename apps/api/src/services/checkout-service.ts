@@ -8,8 +8,11 @@ import { Conflict, Forbidden, Invalid, NotFound, ServiceUnavailable } from "../e
 import type { Mailer } from "../integrations/mail.ts";
 import type { Payments } from "../integrations/payments.ts";
 import { orderPaidBuyerMail, orderPaidSawyerMail } from "../mail-templates.ts";
-import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
+import { requireRole, type Actor } from "./actor.ts";
 import { toSlab } from "./yard-service.ts";
+import { saleEntries } from "./ledger.ts";
+import { orderView, partiesOf, recordRefund } from "./order-service.ts";
+import type { CheckoutQuote, Order } from "@grainyard/contracts";
 
 /** Orders waiting for the provider; a paid order moves on through hand-over. */
 const OPEN_PAYMENT = "awaiting_payment" as const;
@@ -19,23 +22,14 @@ export interface CheckoutInput {
   deliveryAddress?: string | null;
 }
 
-export interface OrderView {
-  id: string;
-  status: OrderEntity["status"];
-  listingId: string;
-  title: string;
-  currency: string;
-  priceMinor: number;
-  taxMinor: number;
-  totalMinor: number;
-  handover: "pickup" | "freight";
-  deliveryAddress: string | null;
-  reservedUntil: string;
-  paidAt: string | null;
-  slabs: Record<string, unknown>[];
-  /** Fees and the sawyer's net are shown to the sawyer and admins only. */
-  sawyerShare: { platformFeeMinor: number; processingFeeMinor: number; sawyerNetMinor: number } | null;
-  createdAt: string;
+/**
+ * Price, tax and total of a listing: tax at the configured rate on the price, rounded half-up once
+ * (slab-math's money rule); the platform and processing fees were split by slab-math when the
+ * listing was priced and are taken from the sawyer's share, not added for the buyer.
+ */
+export function quoteFor(listing: Pick<ListingEntity, "priceMinor" | "currency">, checkout: Pick<AppConfig["checkout"], "taxRateBps">) {
+  const taxMinor = roundHalfUp((listing.priceMinor * checkout.taxRateBps) / 10_000);
+  return { currency: listing.currency, priceMinor: listing.priceMinor, taxMinor, taxRateBps: checkout.taxRateBps, totalMinor: listing.priceMinor + taxMinor };
 }
 
 export function createCheckoutService(deps: {
@@ -51,25 +45,9 @@ export function createCheckoutService(deps: {
   const now = deps.now ?? (() => new Date());
   const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
 
-  function view(order: OrderEntity, actor: Actor): OrderView {
-    const seesShare = actor.kind === "account" && (actor.role === "admin" || actor.accountId === order.sawyerId);
-    return {
-      id: order.id,
-      status: order.status,
-      listingId: order.listingId,
-      title: order.title,
-      currency: order.currency,
-      priceMinor: order.priceMinor,
-      taxMinor: order.taxMinor,
-      totalMinor: order.totalMinor,
-      handover: order.handover,
-      deliveryAddress: order.deliveryAddress,
-      reservedUntil: order.reservedUntil.toISOString(),
-      paidAt: order.paidAt?.toISOString() ?? null,
-      slabs: order.slabSnapshot,
-      sawyerShare: seesShare ? { platformFeeMinor: order.platformFeeMinor, processingFeeMinor: order.processingFeeMinor, sawyerNetMinor: order.sawyerNetMinor } : null,
-      createdAt: order.createdAt.toISOString(),
-    };
+  async function view(order: OrderEntity, actor: Actor): Promise<Order> {
+    const parties = await partiesOf(dataSource, [order]);
+    return orderView(order, actor, parties.get(order.id), config.checkout.autoCompleteDays);
   }
 
   /** Puts a reserved listing back on sale (only if this order still holds it). */
@@ -79,18 +57,6 @@ export function createCheckoutService(deps: {
     await manager.getRepository(ListingEntity).update({ id: order.listingId, status: "reserved" }, { status: "live" });
     await changed(manager, order.listingId);
     return true;
-  }
-
-  /** The money of a paid order in the ledger: entries that sum to zero. */
-  function paymentEntries(order: OrderEntity, eventId: string): Partial<LedgerEntryEntity>[] {
-    const entries = [
-      { account: "provider_clearing", amountMinor: order.totalMinor },
-      { account: "platform_fees", amountMinor: -order.platformFeeMinor },
-      { account: "processing_fees", amountMinor: -order.processingFeeMinor },
-      { account: "tax_payable", amountMinor: -order.taxMinor },
-      { account: `sawyer:${order.sawyerId}`, amountMinor: -order.sawyerNetMinor },
-    ].filter((e) => e.amountMinor !== 0);
-    return entries.map((e) => ({ ...e, orderId: order.id, currency: order.currency, kind: "payment", providerEventId: eventId }));
   }
 
   async function mailPaid(order: OrderEntity) {
@@ -110,12 +76,19 @@ export function createCheckoutService(deps: {
   }
 
   return {
+    /** What buying this listing costs now: the same figures checkout will snapshot. */
+    async quote(listingId: string): Promise<CheckoutQuote> {
+      const listing = await dataSource.getRepository(ListingEntity).findOneBy({ id: listingId });
+      if (!listing || !["live", "reserved", "sold"].includes(listing.status)) throw new NotFound("That slab is not for sale here.");
+      return { ...quoteFor(listing, config.checkout), reservationMinutes: config.checkout.reservationMinutes };
+    },
+
     /**
      * "Buy": reserves the listing for this buyer (one winner: a conditional update), snapshots the
      * figures and price into an order, and opens the provider's hosted checkout. If the provider
      * cannot be reached, the reservation is released and no order is left half-made.
      */
-    async checkout(actor: Actor, listingId: string, input: CheckoutInput): Promise<{ order: OrderView; checkoutUrl: string }> {
+    async checkout(actor: Actor, listingId: string, input: CheckoutInput): Promise<{ order: Order; checkoutUrl: string }> {
       const buyer = requireRole(actor, "buyer");
       if (input.handover === "freight" && !input.deliveryAddress?.trim()) throw new Invalid("Give the delivery address for freight.", { deliveryAddress: "Where should the freight go?" });
       const order = await dataSource.transaction(async (manager) => {
@@ -131,8 +104,7 @@ export function createCheckoutService(deps: {
           throw new Conflict(current?.status === "reserved" ? "Someone else has just reserved this slab. It comes back if they do not pay in time." : "This slab is no longer for sale.", "listing_not_available");
         }
         const links = await manager.getRepository(ListingSlabEntity).find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
-        // Tax at the configured rate, half-up once (slab-math's money rule).
-        const taxMinor = roundHalfUp((listing.priceMinor * config.checkout.taxRateBps) / 10_000);
+        const { taxMinor } = quoteFor(listing, config.checkout);
         const entity = manager.getRepository(OrderEntity).create({
           id: randomUUID(),
           buyerId: buyer.accountId,
@@ -187,22 +159,7 @@ export function createCheckoutService(deps: {
       }
       await dataSource.getRepository(OrderEntity).update({ id: order.id }, { checkoutSessionId: session.id, checkoutUrl: session.url });
       const saved = await dataSource.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
-      return { order: view(saved, actor), checkoutUrl: session.url! };
-    },
-
-    async get(actor: Actor, orderId: string): Promise<OrderView> {
-      const signedIn = requireSignedIn(actor);
-      const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: orderId });
-      if (!order) throw new NotFound("No order with that id.");
-      if (signedIn.role !== "admin" && signedIn.accountId !== order.buyerId && signedIn.accountId !== order.sawyerId) throw new Forbidden("That order is not yours.");
-      return view(order, actor);
-    },
-
-    async listOwn(actor: Actor): Promise<OrderView[]> {
-      const signedIn = requireSignedIn(actor);
-      const where = signedIn.role === "sawyer" ? { sawyerId: signedIn.accountId } : { buyerId: signedIn.accountId };
-      const orders = await dataSource.getRepository(OrderEntity).find({ where, order: { createdAt: "DESC" }, take: 100 });
-      return orders.map((o) => view(o, actor));
+      return { order: await view(saved, actor), checkoutUrl: session.url! };
     },
 
     /**
@@ -239,11 +196,14 @@ export function createCheckoutService(deps: {
             }
             await manager.getRepository(OrderEntity).update({ id: order.id }, { status: "paid", paidAt: now(), paymentIntentId: object.payment_intent ?? null });
             await manager.getRepository(ListingEntity).update({ id: order.listingId }, { status: "sold" });
-            await manager.getRepository(LedgerEntryEntity).insert(paymentEntries(order, event.id));
+            await manager.getRepository(LedgerEntryEntity).insert(saleEntries(order, "payment", event.id));
             await changed(manager, order.listingId);
             paidOrder = await manager.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
             return "handled" as const;
           }
+          case "charge.refunded":
+            // Our own refund of a cancelled order (the API may have recorded it already: then nothing changes).
+            return (await recordRefund(manager, order.id, null, event.id, now())) ? ("handled" as const) : ("ignored" as const);
           case "checkout.session.expired":
             return (await release(manager, order, "expired")) ? ("handled" as const) : ("ignored" as const);
           case "payment_intent.payment_failed":

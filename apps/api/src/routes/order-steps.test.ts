@@ -1,0 +1,340 @@
+import { createServer, type Server } from "node:http";
+import type { AddressInfo } from "node:net";
+import { mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import sharp from "sharp";
+import request from "supertest";
+import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
+import { createPaymentsFakeApp, type PaymentsFakeApp } from "@grainyard/payments-fake";
+import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
+import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+
+/*
+ * The steps after payment — pickup windows or freight, hand-over, completion (by the buyer or by
+ * the sweep), cancellation with a full refund — against a payments fake of this test's own
+ * (through the official SDK), real MariaDB and the real SMTP sink.
+ */
+const WEBHOOK_SECRET = "whsec_order_steps_test";
+const dir = mkdtempSync(join(tmpdir(), "order-steps-"));
+let fake: PaymentsFakeApp;
+let fakeServer: Server;
+let fakePort = 0;
+let apiServer: Server;
+let ctx: TestContext;
+const clock = testClock();
+let sawyer: BrowserClient & { account: { id: string; email: string } };
+let admin: BrowserClient;
+let photo: Buffer;
+const app = () => ctx.app as unknown as { orders: { completeDueOrders(): Promise<number>; retryPendingRefunds(): Promise<number> } };
+
+async function liveListing(priceMinor: number) {
+  const slab = (await sawyer.post("/api/v1/yard/slabs", { speciesSlug: "white-oak", lengthMm: 2400, thicknessMm: 50, widthStationsMm: [700, 680], liveEdge: "both", surfacing: "flattened", dryingMethod: "kiln" })).body.slab;
+  const listing = (await sawyer.post("/api/v1/yard/listings", { title: `Oak top ${Math.random().toString(36).slice(2, 6)}`, slabIds: [slab.id], priceMode: "fixed", rateMinor: priceMinor, freight: true })).body.listing;
+  await sawyer.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+  await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
+  await admin.post(`/api/v1/admin/listings/${listing.id}/approve`);
+  return listing.id as string;
+}
+
+const orderOf = async (id: string) => ctx.dataSource.getRepository(OrderEntity).findOneByOrFail({ id });
+const listingStatus = async (id: string) => (await ctx.dataSource.getRepository(ListingEntity).findOneByOrFail({ id })).status;
+async function until(check: () => Promise<boolean>, ms = 8000) {
+  const deadline = Date.now() + ms;
+  while (!(await check())) {
+    if (Date.now() > deadline) throw new Error("timed out");
+    await new Promise((r) => setTimeout(r, 25));
+  }
+}
+async function ledgerSumsToZero() {
+  const rows = (await ctx.dataSource.query("SELECT currency, SUM(amount_minor) AS total FROM ledger_entry GROUP BY currency")) as { total: string }[];
+  for (const row of rows) expect(Number(row.total)).toBe(0);
+}
+const mailed = (address: string, subject: RegExp) => until(async () => (await mailTo(address)).some((m) => subject.test(m.subject)));
+
+/** A buyer buys a fresh listing with the test card; resolves once the webhook made the order paid. */
+async function paidOrder(handover: "pickup" | "freight", priceMinor = 90_000) {
+  const listingId = await liveListing(priceMinor);
+  const buyer = await ctx.signedInClient("buyer");
+  const res = await buyer.post(`/api/v1/listings/${listingId}/checkout`, handover === "freight" ? { handover, deliveryAddress: "7 Heron Walk, Lakemont" } : { handover });
+  expect(res.status).toBe(201);
+  const paid = await fetch(res.body.checkoutUrl, { method: "POST", headers: { "content-type": "application/x-www-form-urlencoded" }, body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }), redirect: "manual" });
+  expect(paid.status).toBe(303);
+  await until(async () => (await orderOf(res.body.order.id)).status === "paid");
+  return { buyer, listingId, orderId: res.body.order.id as string };
+}
+
+const hours = (n: number) => new Date(clock.now().getTime() + n * 3_600_000).toISOString();
+const windowsInput = () => ({ windows: [{ startsAt: hours(48), endsAt: hours(50) }, { startsAt: hours(24), endsAt: hours(26) }], pickupAddress: "Gate 2, 48 Sawmill Road, Lakemont" });
+
+beforeAll(async () => {
+  fake = createPaymentsFakeApp({ stateFile: join(dir, "state.json"), secretKey: "sk_test_steps", webhook: { secret: WEBHOOK_SECRET, retryBaseMs: 25, maxAttempts: 6 } });
+  fakeServer = fake.listen(0, "127.0.0.1");
+  await new Promise((r) => fakeServer.once("listening", r));
+  fakePort = (fakeServer.address() as AddressInfo).port;
+  ctx = await createTestContext({
+    clock,
+    environment: { PAYMENTS_HOST: "127.0.0.1", PAYMENTS_PORT: String(fakePort), PAYMENTS_PROTOCOL: "http", PAYMENTS_SECRET_KEY: "sk_test_steps", PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, TAX_RATE_BPS: "500", AUTO_COMPLETE_DAYS: "14", SIGN_IN_LIMIT_PER_IP: "1000" },
+  });
+  apiServer = createServer(ctx.app).listen(0, "127.0.0.1");
+  await new Promise((r) => apiServer.once("listening", r));
+  fake.webhooks.options.url = `http://127.0.0.1:${(apiServer.address() as AddressInfo).port}/api/v1/payments/webhook`;
+  sawyer = await ctx.signedInClient("sawyer", { yardName: "Heron Bay Slabs", pickupTown: "Lakemont" });
+  admin = await ctx.signedInClient("admin");
+  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#9a6a3a" } }).jpeg().toBuffer();
+}, 60_000);
+afterEach(async () => ledgerSumsToZero());
+afterAll(async () => {
+  fake.webhooks.stop();
+  await new Promise((r) => apiServer.close(r));
+  await new Promise((r) => fakeServer.close(r));
+  await ctx?.close();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+describe("order steps after payment", () => {
+  it("pickup: the sawyer proposes windows, the buyer picks one, hand-over, the buyer confirms; each step stamped and mailed to both", async () => {
+    const { buyer, orderId } = await paidOrder("pickup");
+    const path = `/api/v1/orders/${orderId}`;
+
+    // Only the sawyer proposes; bad windows are a 422 with field messages, and change nothing.
+    expect((await buyer.post(`${path}/pickup-windows`, windowsInput())).status).toBe(403);
+    const none = await sawyer.post(`${path}/pickup-windows`, { windows: [], pickupAddress: "Gate 2" });
+    expect(none.status).toBe(422);
+    expect(none.body.error.fields.windows).toMatch(/at least one/);
+    const six = await sawyer.post(`${path}/pickup-windows`, { windows: Array.from({ length: 6 }, (_, i) => ({ startsAt: hours(24 + i * 3), endsAt: hours(25 + i * 3) })), pickupAddress: "Gate 2" });
+    expect(six.status).toBe(422);
+    const backwards = await sawyer.post(`${path}/pickup-windows`, { windows: [{ startsAt: hours(30), endsAt: hours(29) }], pickupAddress: "Gate 2" });
+    expect(backwards.body.error.fields["windows.0.endsAt"]).toMatch(/end after/);
+    const past = await sawyer.post(`${path}/pickup-windows`, { windows: [{ startsAt: hours(-3), endsAt: hours(-1) }], pickupAddress: "Gate 2" });
+    expect(past.body.error.fields["windows.0.startsAt"]).toMatch(/future/);
+    expect((await orderOf(orderId)).status).toBe("paid");
+
+    const input = windowsInput();
+    const proposed = await sawyer.post(`${path}/pickup-windows`, input);
+    expect(proposed.status).toBe(200);
+    expect(proposed.body.order).toMatchObject({ status: "ready_for_pickup", pickupAddress: "Gate 2, 48 Sawmill Road, Lakemont", chosenPickupWindow: null, actions: ["propose_pickup_windows", "mark_handed_over", "cancel"] });
+    // Sorted by start.
+    expect(proposed.body.order.pickupWindows.map((w: { startsAt: string }) => w.startsAt)).toEqual([input.windows[1]!.startsAt, input.windows[0]!.startsAt]);
+    expect(proposed.body.order.steps.readyForPickupAt).not.toBeNull();
+    await mailed(buyer.account.email, /^Choose a pickup time/);
+    await mailed(sawyer.account.email, /^Pickup times sent/);
+
+    // The buyer picks one of the proposed windows (and only those).
+    expect((await sawyer.post(`${path}/pickup-choice`, { startsAt: proposed.body.order.pickupWindows[0].startsAt })).status).toBe(403);
+    const stranger = await buyer.post(`${path}/pickup-choice`, { startsAt: hours(100) });
+    expect(stranger.status).toBe(422);
+    const chosen = await buyer.post(`${path}/pickup-choice`, { startsAt: proposed.body.order.pickupWindows[1].startsAt });
+    expect(chosen.status).toBe(200);
+    expect(chosen.body.order.chosenPickupWindow).toEqual(proposed.body.order.pickupWindows[1]);
+    await mailed(buyer.account.email, /^Pickup booked/);
+    await mailed(sawyer.account.email, /^The buyer chose a pickup time/);
+    const booked = (await mailTo(buyer.account.email)).find((m) => /^Pickup booked/.test(m.subject))!;
+    expect(booked.text).toContain("Gate 2, 48 Sawmill Road, Lakemont");
+    expect(booked.text).toMatch(/two people or a machine/);
+
+    // The buyer cannot confirm before hand-over: 409 with a plain message.
+    const early = await buyer.post(`${path}/completion`);
+    expect(early.status).toBe(409);
+    expect(early.body.error.message).toBe("This order is ready for pickup, so it cannot be confirmed as received now.");
+
+    expect((await buyer.post(`${path}/handed-over`)).status).toBe(403);
+    const handed = await sawyer.post(`${path}/handed-over`);
+    expect(handed.status).toBe(200);
+    expect(handed.body.order.status).toBe("handed_over");
+    const handedOverAt = (await orderOf(orderId)).handedOverAt!;
+    expect(handedOverAt).toBeInstanceOf(Date);
+    // Completes by itself 14 days after hand-over unless the buyer confirms first.
+    expect(Date.parse(handed.body.order.autoCompleteAt) - handedOverAt.getTime()).toBe(14 * 86_400_000);
+    expect((await sawyer.post(`${path}/handed-over`)).status).toBe(409);
+    await mailed(buyer.account.email, /^Handed over/);
+    await mailed(sawyer.account.email, /^Handed over/);
+
+    expect((await sawyer.post(`${path}/completion`)).status).toBe(403);
+    const done = await buyer.post(`${path}/completion`);
+    expect(done.status).toBe(200);
+    expect(done.body.order).toMatchObject({ status: "completed", completedBy: "buyer", actions: [] });
+    const stamped = await orderOf(orderId);
+    expect(stamped.completedAt!.getTime()).toBeGreaterThanOrEqual(handedOverAt.getTime());
+    expect(stamped.paidAt).not.toBeNull();
+    expect(stamped.readyForPickupAt).not.toBeNull();
+    expect(stamped.pickupChosenAt).not.toBeNull();
+    await mailed(buyer.account.email, /^Completed/);
+    const sawyerDone = (await mailTo(sawyer.account.email)).find((m) => /^Completed/.test(m.subject))!;
+    expect(sawyerDone.text).toContain("Your net for this sale");
+    expect((await buyer.post(`${path}/completion`)).status).toBe(409);
+    // A completed order can no longer be cancelled.
+    expect((await buyer.post(`${path}/cancellation`, { reason: "Changed my mind" })).status).toBe(409);
+  });
+
+  it("freight: shipped with carrier and tracking, handed over, then completed by the sweep after AUTO_COMPLETE_DAYS (once, even with two sweeps at once)", async () => {
+    const { buyer, orderId } = await paidOrder("freight");
+    const path = `/api/v1/orders/${orderId}`;
+    // Pickup windows are for pickup orders; hand-over needs the shipment first.
+    expect((await sawyer.post(`${path}/pickup-windows`, windowsInput())).status).toBe(409);
+    const tooSoon = await sawyer.post(`${path}/handed-over`);
+    expect(tooSoon.status).toBe(409);
+    expect(tooSoon.body.error.message).toBe("This order is paid, so it cannot be marked as handed over now.");
+    const blank = await sawyer.post(`${path}/shipment`, { carrier: "", trackingReference: "" });
+    expect(blank.status).toBe(422);
+    expect(Object.keys(blank.body.error.fields).sort()).toEqual(["carrier", "trackingReference"]);
+
+    const shipped = await sawyer.post(`${path}/shipment`, { carrier: "Lakeshore Freight Lines", trackingReference: "LFL-2026-11873" });
+    expect(shipped.status).toBe(200);
+    expect(shipped.body.order).toMatchObject({ status: "shipped", carrier: "Lakeshore Freight Lines", trackingReference: "LFL-2026-11873" });
+    expect((await sawyer.post(`${path}/shipment`, { carrier: "Again", trackingReference: "AGAIN-1" })).status).toBe(409);
+    // On its way: no longer cancellable from the app.
+    expect((await buyer.post(`${path}/cancellation`, { reason: "Too slow" })).status).toBe(409);
+    await mailed(buyer.account.email, /^On its way/);
+    const onItsWay = (await mailTo(buyer.account.email)).find((m) => /^On its way/.test(m.subject))!;
+    expect(onItsWay.text).toContain("LFL-2026-11873");
+    await mailed(sawyer.account.email, /^Marked as shipped/);
+
+    expect((await sawyer.post(`${path}/handed-over`)).status).toBe(200);
+    // 13 days later: not yet.
+    clock.advance(13 * 86_400_000);
+    try {
+      await app().orders.completeDueOrders();
+      expect((await orderOf(orderId)).status).toBe("handed_over");
+      clock.advance(1 * 86_400_000 + 60_000);
+      // Two instances sweeping at the same moment: the conditional update lets one of them win.
+      const [a, b] = await Promise.all([app().orders.completeDueOrders(), app().orders.completeDueOrders()]);
+      expect((await orderOf(orderId)).status).toBe("completed");
+      expect((await orderOf(orderId)).completedBy).toBe("automatic");
+      expect(a + b).toBeGreaterThanOrEqual(1);
+      expect(await app().orders.completeDueOrders()).toBe(0);
+    } finally {
+      clock.advance(-(14 * 86_400_000 + 60_000));
+    }
+    await mailed(buyer.account.email, /^Completed/);
+    const completedMails = (await mailTo(buyer.account.email)).filter((m) => /^Completed/.test(m.subject));
+    expect(completedMails).toHaveLength(1);
+    expect(completedMails[0]!.text).toMatch(/14 days have passed since hand-over/);
+  });
+
+  it("lets exactly one of 12 simultaneous hand-over clicks through; the rest hear 409", async () => {
+    const { orderId } = await paidOrder("freight");
+    await sawyer.post(`/api/v1/orders/${orderId}/shipment`, { carrier: "Lakeshore Freight Lines", trackingReference: "LFL-RACE-1" });
+    const answers = await Promise.all(Array.from({ length: 12 }, () => sawyer.post(`/api/v1/orders/${orderId}/handed-over`)));
+    expect(answers.filter((a) => a.status === 200)).toHaveLength(1);
+    expect(answers.filter((a) => a.status === 409)).toHaveLength(11);
+  });
+
+  it("only the buyer and the sawyer of the order act on it; others get 403, anonymous 401", async () => {
+    const { orderId } = await paidOrder("pickup");
+    const otherBuyer = await ctx.signedInClient("buyer");
+    const otherSawyer = await ctx.signedInClient("sawyer");
+    for (const client of [otherBuyer, otherSawyer, admin]) {
+      expect((await client.post(`/api/v1/orders/${orderId}/pickup-windows`, windowsInput())).status).toBe(403);
+      expect((await client.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "Not mine to cancel" })).status).toBe(403);
+    }
+    expect((await request(ctx.app).get(`/api/v1/orders/${orderId}`)).status).toBe(401);
+    expect((await orderOf(orderId)).status).toBe("paid");
+  });
+});
+
+describe("cancelling before hand-over", () => {
+  it("the buyer cancels: a full refund through the provider, the slab back on sale, the sale reversed in the ledger — and the refund webhook changes nothing more", async () => {
+    const { buyer, orderId, listingId } = await paidOrder("pickup", 150_000);
+    await sawyer.post(`/api/v1/orders/${orderId}/pickup-windows`, windowsInput());
+    expect(await listingStatus(listingId)).toBe("sold");
+    const noReason = await buyer.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "" });
+    expect(noReason.status).toBe(422);
+    expect(noReason.body.error.fields.reason).toMatch(/why/);
+
+    fake.webhooks.options.copies = 3;
+    fake.webhooks.options.shuffle = true;
+    let res;
+    try {
+      res = await buyer.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "Our dining room plans changed." });
+      await new Promise((r) => setTimeout(r, 400)); // let the copies of charge.refunded land
+    } finally {
+      fake.webhooks.options.copies = 1;
+      fake.webhooks.options.shuffle = false;
+    }
+    expect(res.status).toBe(200);
+    expect(res.body.order).toMatchObject({ status: "refunded", cancelledBy: "buyer", cancelReason: "Our dining room plans changed.", actions: [] });
+    const order = await orderOf(orderId);
+    expect(order.refundId).toMatch(/^re_/);
+    expect(order.cancelledAt).not.toBeNull();
+    expect(order.refundedAt).not.toBeNull();
+
+    // The provider refunded exactly the total paid (price 1 500.00 + 5 % tax 75.00), once.
+    const intent = fake.store.get(order.paymentIntentId!)!;
+    expect(intent.amount_refunded).toBe(157_500);
+    expect(fake.store.all("refund").filter((r) => r.payment_intent === order.paymentIntentId)).toHaveLength(1);
+
+    // Back on sale, in the catalogue too.
+    expect(await listingStatus(listingId)).toBe("live");
+    expect((await request(ctx.app).get(`/api/v1/catalogue/${listingId}`)).body.listing.status).toBe("live");
+
+    // One sale and one reversal: every account of this order nets to zero, the sawyer is owed nothing.
+    const entries = await ctx.dataSource.getRepository(LedgerEntryEntity).findBy({ orderId });
+    expect(entries.filter((e) => e.kind === "payment")).toHaveLength(entries.filter((e) => e.kind === "refund").length);
+    expect(entries.filter((e) => e.kind === "refund" && e.account === "provider_clearing").map((e) => e.amountMinor)).toEqual([-157_500]);
+    const byAccount = new Map<string, number>();
+    for (const e of entries) byAccount.set(e.account, (byAccount.get(e.account) ?? 0) + e.amountMinor);
+    for (const total of byAccount.values()) expect(total).toBe(0);
+
+    // A resend of every webhook (the provider's retry) changes nothing.
+    fake.webhooks.resendAll();
+    await new Promise((r) => setTimeout(r, 300));
+    expect(await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId })).toBe(entries.length);
+    expect((await buyer.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "Again" })).status).toBe(409);
+
+    await mailed(buyer.account.email, /^Cancelled and refunded/);
+    await mailed(sawyer.account.email, /^Cancelled and refunded/);
+    const sawyerMail = (await mailTo(sawyer.account.email)).find((m) => /^Cancelled and refunded/.test(m.subject) && m.text.includes("Our dining room plans changed."))!;
+    expect(sawyerMail.text).toMatch(/back on sale/);
+
+    // Someone else can buy it now.
+    const another = await ctx.signedInClient("buyer");
+    expect((await another.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" })).status).toBe(201);
+  });
+
+  it("the sawyer cancels while the provider is unreachable: cancelled and back on sale at once; refunded later by the retry sweep, or by the provider's charge.refunded webhook", async () => {
+    const first = await paidOrder("freight", 40_000);
+    const second = await paidOrder("pickup", 60_000);
+    await new Promise<void>((resolve) => {
+      fakeServer.close(() => resolve());
+      fakeServer.closeAllConnections();
+    });
+    try {
+      for (const { orderId, listingId } of [first, second]) {
+        const res = await sawyer.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "Found a crack right through while wrapping it." });
+        expect(res.status).toBe(200);
+        expect(res.body.order.status).toBe("cancelled");
+        expect(await listingStatus(listingId)).toBe("live");
+      }
+      expect(await app().orders.retryPendingRefunds()).toBe(0);
+      expect(await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId: first.orderId, kind: "refund" })).toBe(0);
+    } finally {
+      fakeServer = fake.listen(fakePort, "127.0.0.1");
+      await new Promise((r) => fakeServer.once("listening", r));
+    }
+
+    // The second order is refunded at the provider first (same idempotency key the API uses):
+    // its charge.refunded webhook alone records the refund and reverses the sale.
+    const secondIntent = (await orderOf(second.orderId)).paymentIntentId!;
+    const atProvider = await fetch(`http://127.0.0.1:${fakePort}/v1/refunds`, {
+      method: "POST",
+      headers: { authorization: "Bearer sk_test_steps", "content-type": "application/x-www-form-urlencoded", "idempotency-key": `refund-${second.orderId}` },
+      body: new URLSearchParams({ payment_intent: secondIntent, "metadata[order_id]": second.orderId }),
+    });
+    expect(atProvider.status).toBe(200);
+    await until(async () => (await orderOf(second.orderId)).status === "refunded");
+    expect(await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId: second.orderId, kind: "refund" })).toBeGreaterThan(0);
+
+    // The sweep refunds the first; the second's replayed key makes no second refund.
+    expect(await app().orders.retryPendingRefunds()).toBe(1);
+    await until(async () => (await orderOf(first.orderId)).status === "refunded");
+    expect(fake.store.get((await orderOf(first.orderId)).paymentIntentId!)!.amount_refunded).toBe(42_000);
+    expect(fake.store.get(secondIntent)!.amount_refunded).toBe(63_000);
+    expect(fake.store.all("refund").filter((r) => r.payment_intent === secondIntent)).toHaveLength(1);
+    expect(await app().orders.retryPendingRefunds()).toBe(0);
+    for (const { orderId } of [first, second]) {
+      const payment = await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId, kind: "payment" });
+      expect(await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId, kind: "refund" })).toBe(payment);
+    }
+  });
+});

@@ -1,0 +1,355 @@
+import { orderStatusLabels, type CancellationInput, type ChooseWindowInput, type Order, type PickupWindowsInput, type ShipmentInput } from "@grainyard/contracts";
+import { In, LessThan, Not, type DataSource, type EntityManager } from "typeorm";
+import type { AppConfig } from "../config.ts";
+import { AccountEntity, LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
+import type { OrderStatus } from "../entities/order.ts";
+import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
+import type { Mailer, OutgoingMail } from "../integrations/mail.ts";
+import type { Payments } from "../integrations/payments.ts";
+import { orderStepMail, type OrderStep } from "../mail-templates.ts";
+import { requireSignedIn, type Actor } from "./actor.ts";
+import { reversalEntries } from "./ledger.ts";
+
+/**
+ * An order after payment: the sawyer readies it (pickup windows, or freight with a tracking
+ * reference), hands it over, and the buyer confirms receipt (or it completes by itself some days
+ * after hand-over). Before hand-over either side may cancel: the buyer gets a full refund through
+ * the provider and the slab goes back on sale. Every step is a conditional update on the current
+ * status, so two clicks, two tabs or two API instances can never move an order twice.
+ */
+
+const DAY_MS = 86_400_000;
+/** Statuses an order may be cancelled from: paid, not yet on its way or handed over. */
+const CANCELLABLE: OrderStatus[] = ["paid", "ready_for_pickup"];
+/** Orders a sawyer sees in their list: a sale happened (not just a reservation that lapsed). */
+const SAWYER_VISIBLE: OrderStatus[] = ["paid", "ready_for_pickup", "shipped", "handed_over", "completed", "cancelled", "refunded"];
+
+export interface Parties {
+  buyerName: string;
+  buyerEmail: string;
+  yardName: string | null;
+  pickupTown: string | null;
+  sawyerName: string;
+  sawyerEmail: string;
+}
+
+const iso = (date: Date | null) => date?.toISOString() ?? null;
+
+function actionsFor(order: OrderEntity, viewerIs: Order["viewerIs"]): Order["actions"] {
+  const actions: Order["actions"] = [];
+  if (viewerIs === "sawyer") {
+    if (order.handover === "pickup" && (order.status === "paid" || order.status === "ready_for_pickup")) actions.push("propose_pickup_windows");
+    if (order.handover === "freight" && order.status === "paid") actions.push("mark_shipped");
+    if (order.status === "ready_for_pickup" || order.status === "shipped") actions.push("mark_handed_over");
+  }
+  if (viewerIs === "buyer") {
+    if (order.status === "ready_for_pickup" && (order.pickupWindows?.length ?? 0) > 0) actions.push("choose_pickup_window");
+    if (order.status === "handed_over") actions.push("confirm_receipt");
+  }
+  if ((viewerIs === "buyer" || viewerIs === "sawyer") && CANCELLABLE.includes(order.status)) actions.push("cancel");
+  return actions;
+}
+
+/** The order as this actor sees it: fees and the sawyer's net only for the sawyer and admins. */
+export function orderView(order: OrderEntity, actor: Actor, parties: Parties | undefined, autoCompleteDays: number): Order {
+  const viewerIs: Order["viewerIs"] = actor.kind !== "account" ? "other" : actor.accountId === order.buyerId ? "buyer" : actor.accountId === order.sawyerId ? "sawyer" : "other";
+  const seesShare = actor.kind === "account" && (actor.role === "admin" || actor.accountId === order.sawyerId);
+  return {
+    id: order.id,
+    status: order.status,
+    listingId: order.listingId,
+    title: order.title,
+    currency: order.currency,
+    priceMinor: order.priceMinor,
+    taxMinor: order.taxMinor,
+    totalMinor: order.totalMinor,
+    handover: order.handover,
+    deliveryAddress: order.deliveryAddress,
+    reservedUntil: order.reservedUntil.toISOString(),
+    paidAt: iso(order.paidAt),
+    slabs: order.slabSnapshot,
+    sawyerShare: seesShare ? { platformFeeMinor: order.platformFeeMinor, processingFeeMinor: order.processingFeeMinor, sawyerNetMinor: order.sawyerNetMinor } : null,
+    createdAt: order.createdAt.toISOString(),
+    viewerIs,
+    parties: { buyerName: parties?.buyerName ?? "The buyer", yardName: parties?.yardName ?? null, pickupTown: parties?.pickupTown ?? null },
+    pickupWindows: order.pickupWindows ?? [],
+    pickupAddress: order.pickupAddress,
+    chosenPickupWindow: order.pickupStartsAt && order.pickupEndsAt ? { startsAt: order.pickupStartsAt.toISOString(), endsAt: order.pickupEndsAt.toISOString() } : null,
+    carrier: order.carrier,
+    trackingReference: order.trackingReference,
+    steps: {
+      paidAt: iso(order.paidAt),
+      readyForPickupAt: iso(order.readyForPickupAt),
+      pickupChosenAt: iso(order.pickupChosenAt),
+      shippedAt: iso(order.shippedAt),
+      handedOverAt: iso(order.handedOverAt),
+      completedAt: iso(order.completedAt),
+      cancelledAt: iso(order.cancelledAt),
+      refundedAt: iso(order.refundedAt),
+    },
+    completedBy: order.completedBy,
+    cancelledBy: order.cancelledBy,
+    cancelReason: order.cancelReason,
+    autoCompleteAt: order.status === "handed_over" && order.handedOverAt ? new Date(order.handedOverAt.getTime() + autoCompleteDays * DAY_MS).toISOString() : null,
+    actions: actionsFor(order, viewerIs),
+  };
+}
+
+/** Buyer and sawyer of each order, read in one query. */
+export async function partiesOf(manager: EntityManager | DataSource, orders: OrderEntity[]): Promise<Map<string, Parties>> {
+  const ids = [...new Set(orders.flatMap((o) => [o.buyerId, o.sawyerId]))];
+  const accounts = ids.length ? await manager.getRepository(AccountEntity).findBy({ id: In(ids) }) : [];
+  const byId = new Map(accounts.map((a) => [a.id, a]));
+  return new Map(
+    orders.map((o) => {
+      const buyer = byId.get(o.buyerId);
+      const sawyer = byId.get(o.sawyerId);
+      return [
+        o.id,
+        {
+          buyerName: buyer?.displayName ?? "The buyer",
+          buyerEmail: buyer?.email ?? "",
+          yardName: sawyer?.yardName ?? null,
+          pickupTown: sawyer?.pickupTown ?? null,
+          sawyerName: sawyer?.displayName ?? "The sawyer",
+          sawyerEmail: sawyer?.email ?? "",
+        },
+      ];
+    }),
+  );
+}
+
+/**
+ * A cancelled order's refund went through (the provider answered, or its `charge.refunded`
+ * webhook came first): cancelled → refunded once, with the sale reversed in the ledger. Whichever
+ * of the two arrives second changes nothing.
+ */
+export async function recordRefund(manager: EntityManager, orderId: string, refundId: string | null, sourceId: string, at: Date): Promise<boolean> {
+  const updated = await manager.getRepository(OrderEntity).update({ id: orderId, status: "cancelled" }, { status: "refunded", refundedAt: at, ...(refundId ? { refundId } : {}) });
+  if (updated.affected !== 1) return false;
+  const order = await manager.getRepository(OrderEntity).findOneByOrFail({ id: orderId });
+  // An order cancelled before its sale reached the ledger has nothing to reverse.
+  const sold = await manager.getRepository(LedgerEntryEntity).countBy({ orderId, kind: "payment" });
+  if (sold > 0) await manager.getRepository(LedgerEntryEntity).insert(reversalEntries(order, sourceId));
+  return true;
+}
+
+export function createOrderService(deps: {
+  dataSource: DataSource;
+  payments: Payments;
+  mailer: Mailer;
+  config: Pick<AppConfig, "publicUrl" | "checkout">;
+  log: { error(object: object, message: string): void; info(object: object, message: string): void };
+  now?: () => Date;
+  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+}) {
+  const { dataSource, payments, config } = deps;
+  const now = deps.now ?? (() => new Date());
+  const orders = () => dataSource.getRepository(OrderEntity);
+
+  async function present(order: OrderEntity, actor: Actor): Promise<Order> {
+    const parties = await partiesOf(dataSource, [order]);
+    return orderView(order, actor, parties.get(order.id), config.checkout.autoCompleteDays);
+  }
+
+  /** The order, if this actor is its sawyer or buyer (as the step needs). */
+  async function orderFor(actor: Actor, orderId: string, who: "sawyer" | "buyer" | "either"): Promise<OrderEntity> {
+    const signedIn = requireSignedIn(actor);
+    const order = await orders().findOneBy({ id: orderId });
+    if (!order) throw new NotFound("No order with that id.");
+    const isSawyer = signedIn.accountId === order.sawyerId;
+    const isBuyer = signedIn.accountId === order.buyerId;
+    if (who === "sawyer" && !isSawyer) throw new Forbidden(isBuyer ? "Only the sawyer can do this step." : "That order is not yours.");
+    if (who === "buyer" && !isBuyer) throw new Forbidden(isSawyer ? "Only the buyer can do this step." : "That order is not yours.");
+    if (who === "either" && !isSawyer && !isBuyer) throw new Forbidden("That order is not yours.");
+    return order;
+  }
+
+  function wrongState(status: OrderStatus, doing: string): Conflict {
+    return new Conflict(`This order is ${orderStatusLabels[status].toLowerCase()}, so it cannot ${doing} now.`, "order_state");
+  }
+
+  /** One step: a conditional update from the allowed statuses; anything else is a 409 naming the current state. */
+  async function step(order: OrderEntity, from: OrderStatus[], changes: Partial<OrderEntity>, doing: string, manager: EntityManager = dataSource.manager): Promise<OrderEntity> {
+    if (!from.includes(order.status)) throw wrongState(order.status, doing);
+    const updated = await manager.getRepository(OrderEntity).update({ id: order.id, status: In(from) }, changes);
+    if (updated.affected !== 1) {
+      const current = await manager.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
+      throw wrongState(current.status, doing);
+    }
+    return manager.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
+  }
+
+  /** E-mails to the buyer and the sawyer about a step; a mail failure never undoes the step. */
+  async function mailBoth(order: OrderEntity, stepName: OrderStep) {
+    const parties = (await partiesOf(dataSource, [order])).get(order.id)!;
+    const link = `${config.publicUrl}/orders/${order.id}`;
+    const mails: OutgoingMail[] = [
+      orderStepMail({ email: parties.buyerEmail, displayName: parties.buyerName }, "buyer", stepName, order, parties, link, config.checkout.autoCompleteDays),
+      orderStepMail({ email: parties.sawyerEmail, displayName: parties.sawyerName }, "sawyer", stepName, order, parties, link, config.checkout.autoCompleteDays),
+    ];
+    for (const mail of mails) {
+      if (!mail.to) continue;
+      try {
+        await deps.mailer.send(mail);
+      } catch (error) {
+        deps.log.error({ err: error, orderId: order.id, step: stepName }, "could not send order e-mail");
+      }
+    }
+  }
+
+  /** Asks the provider for the full refund (idempotent on the order), then records it. False if the provider could not be reached. */
+  async function refund(order: OrderEntity): Promise<boolean> {
+    if (!order.paymentIntentId) {
+      deps.log.error({ orderId: order.id }, "cancelled order has no payment to refund");
+      return false;
+    }
+    try {
+      const made = await payments.sdk.refunds.create(
+        { payment_intent: order.paymentIntentId, reason: "requested_by_customer", metadata: { order_id: order.id, cancelled_by: order.cancelledBy ?? "" } },
+        { idempotencyKey: `refund-${order.id}` },
+      );
+      await dataSource.transaction((manager) => recordRefund(manager, order.id, made.id, made.id, now()));
+      return true;
+    } catch (error) {
+      deps.log.error({ err: error, orderId: order.id }, "refund not made yet; the sweep tries again");
+      return false;
+    }
+  }
+
+  return {
+    get: async (actor: Actor, orderId: string): Promise<Order> => {
+      const signedIn = requireSignedIn(actor);
+      const order = await orders().findOneBy({ id: orderId });
+      if (!order) throw new NotFound("No order with that id.");
+      if (signedIn.role !== "admin" && signedIn.accountId !== order.buyerId && signedIn.accountId !== order.sawyerId) throw new Forbidden("That order is not yours.");
+      return present(order, actor);
+    },
+
+    /** A buyer's orders, or the sales of a sawyer's yard (newest first). */
+    async listOwn(actor: Actor): Promise<Order[]> {
+      const signedIn = requireSignedIn(actor);
+      const where = signedIn.role === "sawyer" ? { sawyerId: signedIn.accountId, status: In(SAWYER_VISIBLE) } : { buyerId: signedIn.accountId };
+      const list = await orders().find({ where, order: { createdAt: "DESC" }, take: 100 });
+      const parties = await partiesOf(dataSource, list);
+      return list.map((o) => orderView(o, actor, parties.get(o.id), config.checkout.autoCompleteDays));
+    },
+
+    /** Pickup orders: the sawyer proposes 1–5 windows (again, if none suits) and where to come. */
+    async proposePickupWindows(actor: Actor, orderId: string, input: PickupWindowsInput): Promise<Order> {
+      const order = await orderFor(actor, orderId, "sawyer");
+      if (order.handover !== "pickup") throw new Conflict("This order goes by freight: add the carrier and tracking reference instead.", "order_state");
+      const at = now();
+      const windows = input.windows
+        .map((w) => ({ startsAt: new Date(w.startsAt), endsAt: new Date(w.endsAt) }))
+        .sort((a, b) => a.startsAt.getTime() - b.startsAt.getTime());
+      const fields: Record<string, string> = {};
+      windows.forEach((w, index) => {
+        if (w.startsAt.getTime() <= at.getTime()) fields[`windows.${index}.startsAt`] = "Choose a time in the future.";
+        if (w.endsAt.getTime() - w.startsAt.getTime() > 12 * 3_600_000) fields[`windows.${index}.endsAt`] = "Keep a window to 12 hours or less.";
+        if (w.startsAt.getTime() - at.getTime() > 60 * DAY_MS) fields[`windows.${index}.startsAt`] = "Propose times within the next 60 days.";
+        if (index > 0 && w.startsAt.getTime() === windows[index - 1]!.startsAt.getTime()) fields[`windows.${index}.startsAt`] = "Two windows start at the same time.";
+      });
+      if (Object.keys(fields).length) throw new Invalid("Some pickup windows need a change.", fields);
+      const updated = await step(
+        order,
+        ["paid", "ready_for_pickup"],
+        {
+          status: "ready_for_pickup",
+          pickupWindows: windows.map((w) => ({ startsAt: w.startsAt.toISOString(), endsAt: w.endsAt.toISOString() })),
+          pickupAddress: input.pickupAddress,
+          readyForPickupAt: order.readyForPickupAt ?? at,
+          pickupStartsAt: null,
+          pickupEndsAt: null,
+          pickupChosenAt: null,
+        },
+        "get pickup windows",
+      );
+      await mailBoth(updated, "pickup_windows_proposed");
+      return present(updated, actor);
+    },
+
+    /** The buyer picks one of the proposed windows. */
+    async choosePickupWindow(actor: Actor, orderId: string, input: ChooseWindowInput): Promise<Order> {
+      const order = await orderFor(actor, orderId, "buyer");
+      if (order.status !== "ready_for_pickup") throw wrongState(order.status, "have a pickup window chosen");
+      const wanted = Date.parse(input.startsAt);
+      const window = (order.pickupWindows ?? []).find((w) => Date.parse(w.startsAt) === wanted);
+      if (!window) throw new Invalid("Choose one of the windows the sawyer proposed.", { startsAt: "That is not one of the proposed windows." });
+      const updated = await step(order, ["ready_for_pickup"], { pickupStartsAt: new Date(window.startsAt), pickupEndsAt: new Date(window.endsAt), pickupChosenAt: now() }, "have a pickup window chosen");
+      await mailBoth(updated, "pickup_window_chosen");
+      return present(updated, actor);
+    },
+
+    /** Freight orders: the sawyer sends it and gives the carrier and tracking reference. */
+    async markShipped(actor: Actor, orderId: string, input: ShipmentInput): Promise<Order> {
+      const order = await orderFor(actor, orderId, "sawyer");
+      if (order.handover !== "freight") throw new Conflict("This order is collected at the yard: propose pickup windows instead.", "order_state");
+      const updated = await step(order, ["paid"], { status: "shipped", carrier: input.carrier, trackingReference: input.trackingReference, shippedAt: now() }, "be marked as shipped");
+      await mailBoth(updated, "shipped");
+      return present(updated, actor);
+    },
+
+    /** The slab left the sawyer's hands: collected at the yard, or delivered by the carrier. */
+    async markHandedOver(actor: Actor, orderId: string): Promise<Order> {
+      const order = await orderFor(actor, orderId, "sawyer");
+      const updated = await step(order, ["ready_for_pickup", "shipped"], { status: "handed_over", handedOverAt: now() }, "be marked as handed over");
+      await mailBoth(updated, "handed_over");
+      return present(updated, actor);
+    },
+
+    /** The buyer has the slab and says so. */
+    async confirmReceipt(actor: Actor, orderId: string): Promise<Order> {
+      const order = await orderFor(actor, orderId, "buyer");
+      const updated = await step(order, ["handed_over"], { status: "completed", completedAt: now(), completedBy: "buyer" }, "be confirmed as received");
+      await mailBoth(updated, "completed");
+      return present(updated, actor);
+    },
+
+    /**
+     * Either side calls it off before hand-over: the order is cancelled and the slab goes back on
+     * sale in one transaction; then the provider refunds the whole payment (idempotent on the
+     * order, so a retry never refunds twice) and the ledger reverses the sale.
+     */
+    async cancel(actor: Actor, orderId: string, input: CancellationInput): Promise<Order> {
+      const order = await orderFor(actor, orderId, "either");
+      const by = requireSignedIn(actor).accountId === order.sawyerId ? "sawyer" : "buyer";
+      const cancelled = await dataSource.transaction(async (manager) => {
+        const updated = await step(order, CANCELLABLE, { status: "cancelled", cancelledAt: now(), cancelledBy: by, cancelReason: input.reason }, "be cancelled", manager);
+        await manager.getRepository(ListingEntity).update({ id: order.listingId, status: "sold" }, { status: "live" });
+        await deps.onListingChanged?.(manager, order.listingId);
+        return updated;
+      });
+      await refund(cancelled);
+      await mailBoth(cancelled, "cancelled");
+      return present(await orders().findOneByOrFail({ id: orderId }), actor);
+    },
+
+    /**
+     * Orders handed over more than AUTO_COMPLETE_DAYS ago complete by themselves. Safe on several
+     * API instances at once: each completion is a conditional update, so only one instance wins.
+     */
+    async completeDueOrders(): Promise<number> {
+      const cutoff = new Date(now().getTime() - config.checkout.autoCompleteDays * DAY_MS);
+      const due = await orders().find({ where: { status: "handed_over", handedOverAt: LessThan(cutoff) }, take: 200 });
+      let completed = 0;
+      for (const order of due) {
+        const updated = await orders().update({ id: order.id, status: "handed_over" }, { status: "completed", completedAt: now(), completedBy: "automatic" });
+        if (updated.affected !== 1) continue;
+        completed += 1;
+        await mailBoth(await orders().findOneByOrFail({ id: order.id }), "completed");
+      }
+      return completed;
+    },
+
+    /** Cancelled orders whose refund did not go through (provider unreachable) are tried again. */
+    async retryPendingRefunds(): Promise<number> {
+      const pending = await orders().find({ where: { status: "cancelled", paymentIntentId: Not("") }, take: 50 });
+      let done = 0;
+      for (const order of pending) if (order.paymentIntentId && (await refund(order))) done += 1;
+      return done;
+    },
+  };
+}
+
+export type OrderService = ReturnType<typeof createOrderService>;
