@@ -36,6 +36,12 @@ import { savedSearchRoutes } from "./routes/saved-search-routes.ts";
 import { createFavouriteService } from "./services/favourite-service.ts";
 import { createMessageService } from "./services/message-service.ts";
 import { createSavedSearchService } from "./services/saved-search-service.ts";
+import { adminRoutes } from "./routes/admin-routes.ts";
+import { createAccountModeration } from "./services/account-moderation.ts";
+import { createAuditService } from "./services/audit-log.ts";
+import { createDashboardService } from "./services/dashboard-service.ts";
+import { createReportService } from "./services/report-service.ts";
+import { createSettingsService } from "./services/settings-service.ts";
 
 export interface AppDependencies {
   config: AppConfig;
@@ -103,12 +109,21 @@ export function createApp(deps: AppDependencies) {
     }),
   );
   const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret, cache: config.catalogueCache });
+  // Admin-editable settings (fees, reservation minutes, tax, hold days) from the database, with the env values as defaults.
+  const settings = createSettingsService({ dataSource: deps.dataSource, config, now: deps.now });
+  void settings.ensureFresh().catch((error) => logger.error({ err: error }, "could not read marketplace settings"));
   // The payment provider's webhook needs its raw body for the signature: before the JSON parser.
   const checkout = createCheckoutService({
     dataSource: deps.dataSource,
     payments: deps.payments,
     mailer: deps.mailer,
-    config,
+    // Reservation minutes and tax come from the settings table, read fresh per request.
+    config: {
+      publicUrl: config.publicUrl,
+      get checkout() {
+        return settings.checkoutConfig();
+      },
+    },
     log: logger,
     now: deps.now,
     onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
@@ -133,6 +148,7 @@ export function createApp(deps: AppDependencies) {
     now: deps.now,
     onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
     onListingLive: (listingId) => savedSearches.onListingLive(listingId),
+    settings,
   });
   const accounts = createAccountService({
     dataSource: deps.dataSource,
@@ -149,10 +165,16 @@ export function createApp(deps: AppDependencies) {
   const savedSearches = createSavedSearchService({ dataSource: deps.dataSource, mailer: deps.mailer, catalogue, config, log: logger, now: deps.now });
   const favourites = createFavouriteService({ dataSource: deps.dataSource, now: deps.now });
   const messages = createMessageService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
+  const refreshCatalogue = (manager: Parameters<typeof catalogue.refreshEntry>[0], listingId: string) => catalogue.refreshEntry(manager, listingId);
+  const audit = createAuditService({ dataSource: deps.dataSource });
+  const moderation = createAccountModeration({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now, onListingChanged: refreshCatalogue });
+  const reports = createReportService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, moderation, now: deps.now, onListingChanged: refreshCatalogue });
+  const dashboard = createDashboardService({ dataSource: deps.dataSource, now: deps.now, openReports: () => reports.openCount(), suspendedUsers: () => moderation.suspendedCount() });
 
   // Who is acting: read once per request from the session key in the cookie.
   app.use(async (req: Request, _res: Response, next: NextFunction) => {
     try {
+      await settings.ensureFresh();
       const { actor } = await accounts.actorForSession(sessionOf(req).key);
       req.actor = actor;
       next();
@@ -166,6 +188,7 @@ export function createApp(deps: AppDependencies) {
   app.use("/api/v1", catalogueRoutes(catalogue));
   app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), orderRoutes(checkout, orders));
   app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));
+  app.use("/api/v1", requireCsrfToken, adminRoutes({ listings, audit, reports, moderation, settings, dashboard }));
   app.use("/api", apiNotFound);
 
   // The built web app, with the single-page fallback for its own routes.
@@ -180,5 +203,5 @@ export function createApp(deps: AppDependencies) {
 
   app.use(errorHandler);
   // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule.
-  return Object.assign(app, { checkout, orders, savedSearches });
+  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings });
 }

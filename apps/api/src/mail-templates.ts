@@ -1,7 +1,7 @@
 import type { OutgoingMail } from "./integrations/mail.ts";
 
 /** The words of every e-mail Grainyard sends, in one place. Plain text first; the HTML mirrors it. */
-function layout(paragraphs: string[], action?: { label: string; url: string }): { text: string; html: string } {
+export function layout(paragraphs: string[], action?: { label: string; url: string }): { text: string; html: string } {
   const escape = (s: string) => s.replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c]!);
   const text = [...paragraphs, ...(action ? [`${action.label}: ${action.url}`] : []), "", "— Grainyard, slabs from city trees"].join("\n\n");
   const html = `<div style="font-family:Georgia,serif;color:#2b241c;max-width:560px">${paragraphs.map((p) => `<p>${escape(p)}</p>`).join("")}${

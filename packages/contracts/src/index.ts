@@ -7,3 +7,4 @@ export * from "./listings.ts";
 export * from "./catalogue.ts";
 export * from "./orders.ts";
 export * from "./buyer-tools.ts";
+export * from "./admin.ts";

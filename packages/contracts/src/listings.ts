@@ -5,8 +5,10 @@ import { slabSchema } from "./yard.ts";
  * A listing puts one slab, or a set of sequential / bookmatched slabs from one log, up for sale.
  * Status names are Grainyard's own: draft → in_review → live, or sent_back (with the reviewer's
  * reason) → edited → in_review again; live → reserved → sold (checkout); withdrawn by the sawyer.
+ * The admin may reject a submission (final), take a live listing down after a report, and while
+ * a sawyer is suspended their live listings are "suspended" (hidden) until the account is restored.
  */
-export const listingStatuses = ["draft", "in_review", "sent_back", "live", "reserved", "sold", "withdrawn"] as const;
+export const listingStatuses = ["draft", "in_review", "sent_back", "live", "reserved", "sold", "withdrawn", "rejected", "taken_down", "suspended"] as const;
 export type ListingStatus = (typeof listingStatuses)[number];
 
 export const listingStatusLabels: Record<ListingStatus, string> = {
@@ -17,6 +19,9 @@ export const listingStatusLabels: Record<ListingStatus, string> = {
   reserved: "Reserved",
   sold: "Sold",
   withdrawn: "Withdrawn",
+  rejected: "Rejected",
+  taken_down: "Taken down",
+  suspended: "Hidden (account suspended)",
 };
 
 export const priceModes = ["per_board_foot", "per_cubic_metre", "fixed"] as const;

@@ -75,3 +75,20 @@ export const buyerPaths = {
   thread: (threadId: string) => `${API_PREFIX}/threads/${encodeURIComponent(threadId)}`,
   threadMessages: (threadId: string) => `${API_PREFIX}/threads/${encodeURIComponent(threadId)}/messages`,
 } as const;
+
+/** The operator desk (admin only, except filing a report). */
+export const adminPaths = {
+  reviewDesk: `${API_PREFIX}/admin/review-desk`,
+  reviewReject: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/reject`,
+  audit: `${API_PREFIX}/admin/audit`,
+  auditCsv: `${API_PREFIX}/admin/audit.csv`,
+  reports: `${API_PREFIX}/reports`,
+  adminReports: `${API_PREFIX}/admin/reports`,
+  adminReportResolve: (reportId: string) => `${API_PREFIX}/admin/reports/${encodeURIComponent(reportId)}/resolve`,
+  users: `${API_PREFIX}/admin/users`,
+  user: (accountId: string) => `${API_PREFIX}/admin/users/${encodeURIComponent(accountId)}`,
+  userSuspend: (accountId: string) => `${API_PREFIX}/admin/users/${encodeURIComponent(accountId)}/suspend`,
+  userRestore: (accountId: string) => `${API_PREFIX}/admin/users/${encodeURIComponent(accountId)}/restore`,
+  settings: `${API_PREFIX}/admin/settings`,
+  dashboard: `${API_PREFIX}/admin/dashboard`,
+} as const;

@@ -117,3 +117,13 @@ export {
   type ShippingEstimateInput,
   type ShippingReason,
 } from './shipping.ts';
+export {
+  LOWEST_PLAUSIBLE_MOISTURE_PCT,
+  KILN_DRIED_HIGHEST_PLAUSIBLE_PCT,
+  WIDTH_STEP_RATIO_LIMIT,
+  FIGURE_TOLERANCE_FRACTION,
+  plausibilityWarnings,
+  type PlausibilityCode,
+  type PlausibilitySlab,
+  type PlausibilityWarning,
+} from './plausibility.ts';

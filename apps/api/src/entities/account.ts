@@ -35,6 +35,13 @@ export class AccountEntity {
   @Column({ name: "email_verified_at", type: "datetime", precision: 3, nullable: true })
   emailVerifiedAt: Date | null;
 
+  /** Set while an admin has suspended the account: no sign-in, sessions dead, listings hidden. */
+  @Column({ name: "suspended_at", type: "datetime", precision: 3, nullable: true })
+  suspendedAt: Date | null;
+
+  @Column({ name: "suspension_reason", type: "text", nullable: true })
+  suspensionReason: string | null;
+
   @CreateDateColumn({ name: "created_at", type: "datetime", precision: 3, default: () => "CURRENT_TIMESTAMP(3)" })
   createdAt: Date;
 

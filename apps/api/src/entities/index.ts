@@ -28,3 +28,11 @@ import { SavedSearchMatchEntity } from "./saved-search-match.ts";
 import { SavedSearchEntity } from "./saved-search.ts";
 export { FavouriteEntity, MessageEntity, MessageThreadEntity, SavedSearchEntity, SavedSearchMatchEntity };
 entities.push(SavedSearchEntity, SavedSearchMatchEntity, FavouriteEntity, MessageThreadEntity, MessageEntity);
+
+// Operator desk: review decisions, the audit log, reports, settings.
+import { AuditEntryEntity } from "./audit-entry.ts";
+import { ContentReportEntity } from "./content-report.ts";
+import { ListingReviewEntity } from "./listing-review.ts";
+import { MarketplaceSettingEntity } from "./marketplace-setting.ts";
+export { AuditEntryEntity, ContentReportEntity, ListingReviewEntity, MarketplaceSettingEntity };
+entities.push(ListingReviewEntity, AuditEntryEntity, ContentReportEntity, MarketplaceSettingEntity);

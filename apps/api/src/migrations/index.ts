@@ -21,3 +21,7 @@ migrations.push(CatalogueFilterIndex1764720000000);
 // The steps after payment: pickup windows, shipment, hand-over, completion, cancellation and refund.
 import { OrderSteps1764727200000 } from "./1764727200000-order-steps.ts";
 migrations.push(OrderSteps1764727200000);
+
+// Operator desk: review snapshots, audit log, reports, settings, suspension.
+import { OperatorDesk1764738000000 } from "./1764738000000-operator-desk.ts";
+migrations.push(OperatorDesk1764738000000);

@@ -17,12 +17,19 @@ interface Ids {
   slabId: string;
   listingId: string;
   photoUrl: string;
+  /** A buyer nobody signs in as: the admin suspends and restores it. */
+  spareBuyerId: string;
 }
 
 interface RouteCase {
   name: string;
   call: (client: BrowserClient, ids: Ids) => Promise<{ status: number }>;
   expected: Record<ActorName, number>;
+}
+
+/** An admin route: anonymous 401, every other non-admin 403, the admin gets `adminStatus`. */
+function adminOnly(name: string, call: RouteCase["call"], adminStatus = 200): RouteCase[] {
+  return [{ name, call, expected: { anonymous: 401, buyer: 403, sawyer: 403, otherSawyer: 403, admin: adminStatus } }];
 }
 
 const routes: RouteCase[] = [
@@ -122,6 +129,21 @@ const routes: RouteCase[] = [
     call: (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/approve`),
     expected: { anonymous: 401, buyer: 403, sawyer: 403, otherSawyer: 403, admin: 409 },
   },
+  // Operator desk (operator-desk.test.ts has the behaviour).
+  ...adminOnly("GET /api/v1/admin/review-desk", (c) => c.get("/api/v1/admin/review-desk")),
+  ...adminOnly("GET /api/v1/admin/listings/:listingId/reviews", (c, ids) => c.get(`/api/v1/admin/listings/${ids.listingId}/reviews`)),
+  ...adminOnly("POST /api/v1/admin/listings/:listingId/reject (a draft)", (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/reject`, { reason: "Matrix says no." }), 409),
+  ...adminOnly("GET /api/v1/admin/audit", (c) => c.get("/api/v1/admin/audit")),
+  ...adminOnly("GET /api/v1/admin/audit.csv", (c) => c.get("/api/v1/admin/audit.csv")),
+  ...adminOnly("GET /api/v1/admin/reports", (c) => c.get("/api/v1/admin/reports")),
+  ...adminOnly("POST /api/v1/admin/reports/:reportId/resolve (unknown report)", (c) => c.post("/api/v1/admin/reports/00000000-0000-4000-8000-000000000000/resolve", { resolution: "dismiss", note: "Matrix resolves." }), 404),
+  ...adminOnly("GET /api/v1/admin/users", (c) => c.get("/api/v1/admin/users")),
+  ...adminOnly("GET /api/v1/admin/users/:accountId", (c, ids) => c.get(`/api/v1/admin/users/${ids.sawyerId}`)),
+  ...adminOnly("POST /api/v1/admin/users/:accountId/suspend (a spare buyer)", (c, ids) => c.post(`/api/v1/admin/users/${ids.spareBuyerId}/suspend`, { reason: "Matrix suspends." })),
+  ...adminOnly("POST /api/v1/admin/users/:accountId/restore (the spare buyer)", (c, ids) => c.post(`/api/v1/admin/users/${ids.spareBuyerId}/restore`, { reason: "Matrix restores." })),
+  ...adminOnly("GET /api/v1/admin/settings", (c) => c.get("/api/v1/admin/settings")),
+  ...adminOnly("PATCH /api/v1/admin/settings", (c) => c.patch("/api/v1/admin/settings", { holdDays: 7, reason: "Matrix keeps seven days." })),
+  ...adminOnly("GET /api/v1/admin/dashboard", (c) => c.get("/api/v1/admin/dashboard")),
   {
     name: "POST /api/v1/yard/listings/:listingId/withdraw (last: it ends the draft)",
     call: (c, ids) => c.post(`/api/v1/yard/listings/${ids.listingId}/withdraw`),
@@ -172,6 +194,11 @@ const routes: RouteCase[] = [
     name: "POST /api/v1/listings/:listingId/messages (sawyer's live listing)",
     call: (c) => c.post(`/api/v1/listings/${buyerToolIds.liveListingId}/messages`, { body: "Asked by the matrix" }),
     expected: { anonymous: 401, buyer: 201, sawyer: 403, otherSawyer: 201, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/reports (sawyer's live listing)",
+    call: (c) => c.post("/api/v1/reports", { targetKind: "listing", targetId: buyerToolIds.liveListingId, reason: "Reported by the matrix." }),
+    expected: { anonymous: 401, buyer: 201, sawyer: 422, otherSawyer: 201, admin: 201 },
   },
   {
     name: "GET /api/v1/threads",
@@ -247,7 +274,7 @@ const routes: RouteCase[] = [
 let ctx: TestContext;
 const orderIds = { pickup: "", toCancel: "", windowStart: "", windowEnd: "" };
 const clients = {} as Record<ActorName, BrowserClient>;
-const ids: Ids = { sawyerId: "", logId: "", slabId: "", listingId: "", photoUrl: "" };
+const ids: Ids = { sawyerId: "", logId: "", slabId: "", listingId: "", photoUrl: "", spareBuyerId: "" };
 /** Buyer tools: a live listing of "sawyer", a thread "buyer" started on it, two saved searches of "buyer". */
 const buyerToolIds = { liveListingId: "", threadId: "", savedSearchId: "", spareSavedSearchId: "", unsubscribeToken: "" };
 
@@ -260,6 +287,7 @@ beforeAll(async () => {
   ids.sawyerId = sawyer.account.id;
   clients.otherSawyer = await ctx.signedInClient("sawyer");
   clients.admin = await ctx.signedInClient("admin");
+  ids.spareBuyerId = (await ctx.createAccount("buyer")).id;
   ids.logId = (await sawyer.post("/api/v1/yard/logs", { speciesSlug: "northern-red-oak", siteTown: "Lakemont", siteKind: "street", fellingReason: "pests" })).body.log.id;
   ids.slabId = (
     await sawyer.post("/api/v1/yard/slabs", { logId: ids.logId, sequenceInLog: 1, speciesSlug: "northern-red-oak", lengthMm: 2000, thicknessMm: 50, widthStationsMm: [500, 480], liveEdge: "one", surfacing: "rough_sawn", dryingMethod: "air" })

@@ -134,6 +134,7 @@ export function createAccountService(deps: AccountServiceDependencies) {
       const entity = await accounts().findOne({ where: { email: input.email } });
       const matches = entity ? await passwordMatches(input.password, entity.passwordHash) : await decoyPasswordCheck(input.password, config.bcryptCost);
       if (!entity || !matches) throw new Unauthorized("That e-mail and password do not match an account.", "wrong_credentials");
+      if (entity.suspendedAt) throw new Forbidden("This account is suspended, so it cannot sign in. Reply to the e-mail we sent you to talk to us about it.", "account_suspended");
       const sessionKey = newToken();
       await dataSource.getRepository(SessionRecordEntity).insert({
         keyHash: tokenHash(sessionKey),
@@ -149,7 +150,7 @@ export function createAccountService(deps: AccountServiceDependencies) {
       if (!sessionKey) return { actor: { kind: "anonymous" }, account: null };
       const keyHash = tokenHash(sessionKey);
       const record = await dataSource.getRepository(SessionRecordEntity).findOne({ where: { keyHash, revokedAt: IsNull() }, relations: { account: true } });
-      if (!record?.account || record.expiresAt.getTime() <= now().getTime()) return { actor: { kind: "anonymous" }, account: null };
+      if (!record?.account || record.expiresAt.getTime() <= now().getTime() || record.account.suspendedAt) return { actor: { kind: "anonymous" }, account: null };
       const account = record.account;
       return {
         actor: { kind: "account", accountId: account.id, role: account.role, emailVerified: account.emailVerifiedAt !== null, sessionKeyHash: keyHash },

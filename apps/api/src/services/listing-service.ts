@@ -1,15 +1,19 @@
 import { randomUUID } from "node:crypto";
-import type { Listing, ListingInput, ListingPhoto, ListingStatus, ListingUpdate, SendBackInput } from "@grainyard/contracts";
+import type { Listing, ListingInput, ListingPhoto, ListingStatus, ListingUpdate, PastReview, RejectInput, ReviewDeskItem, SendBackInput } from "@grainyard/contracts";
 import { listingInputSchema, yardPaths } from "@grainyard/contracts";
-import { NIOSH_LOAD_CONSTANT_KG } from "@grainyard/slab-math";
+import { NIOSH_LOAD_CONSTANT_KG, plausibilityWarnings, type FeeSettings } from "@grainyard/slab-math";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
-import { AccountEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, SlabEntity } from "../entities/index.ts";
+import { AccountEntity, ListingEntity, ListingPhotoEntity, ListingReviewEntity, ListingSlabEntity, SlabEntity } from "../entities/index.ts";
+import type { ReviewDecision } from "../entities/listing-review.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import type { Mailer } from "../integrations/mail.ts";
 import { listingApprovedMail, listingSentBackMail } from "../mail-templates.ts";
+import { listingRejectedMail } from "../mail-templates-operator.ts";
+import { recordAudit } from "./audit-log.ts";
+import { changesBetween, snapshotOf, type ReviewSnapshot } from "./review-snapshot.ts";
 import { requireRole, type Actor } from "./actor.ts";
-import { computeListingFigures } from "./figures.ts";
+import { DEFAULT_WEIGHT_MOISTURE_PCT, computeListingFigures } from "./figures.ts";
 import { DEFAULT_FEE_SETTINGS } from "./marketplace-settings.ts";
 import { HOLDING_STATUSES, toSlab } from "./yard-service.ts";
 
@@ -41,6 +45,8 @@ export interface ListingServiceDependencies {
   onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
   /** Called after the approval committed, once a listing is live (saved-search alerts); must not throw. */
   onListingLive?: (listingId: string) => Promise<void>;
+  /** The marketplace's fee settings (admin-editable, from the database); the defaults when absent. */
+  settings?: { fees(): FeeSettings };
 }
 
 export function createListingService(deps: ListingServiceDependencies) {
@@ -116,7 +122,7 @@ export function createListingService(deps: ListingServiceDependencies) {
   }
 
   function figuresFor(listing: Pick<ListingEntity, "priceMode" | "rateMinor">, slabs: SlabEntity[]) {
-    return computeListingFigures({ priceMode: listing.priceMode, rateMinor: listing.rateMinor, slabs, fees: DEFAULT_FEE_SETTINGS });
+    return computeListingFigures({ priceMode: listing.priceMode, rateMinor: listing.rateMinor, slabs, fees: deps.settings?.fees() ?? DEFAULT_FEE_SETTINGS });
   }
 
   async function ownListing(manager: EntityManager, sawyerId: string, listingId: string, lock = false): Promise<ListingEntity> {
@@ -134,6 +140,48 @@ export function createListingService(deps: ListingServiceDependencies) {
     } catch (error) {
       deps.log.error({ err: error, listingId: listing.id }, "could not send listing e-mail");
     }
+  }
+
+  async function pastReview(row: ListingReviewEntity): Promise<PastReview> {
+    const reviewer = await dataSource.getRepository(AccountEntity).findOne({ where: { id: row.reviewerId }, select: { id: true, displayName: true } });
+    return { decision: row.decision, reason: row.reason, reviewedAt: row.reviewedAt.toISOString(), reviewerLabel: reviewer?.displayName ?? "an admin" };
+  }
+
+  const DECISION_STATUS: Record<ReviewDecision, ListingStatus> = { approved: "live", sent_back: "sent_back", rejected: "rejected" };
+
+  /**
+   * One review decision, in one transaction: the listing's new state, a snapshot of what was
+   * reviewed (for the next submission's diff) and the audit entry.
+   */
+  async function decide(actor: Actor, listingId: string, decision: ReviewDecision, reason: string | null): Promise<ListingEntity> {
+    const admin = requireRole(actor, "admin");
+    return dataSource.transaction(async (manager) => {
+      const found = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, lock: { mode: "pessimistic_write" } });
+      if (!found) throw new NotFound("No listing with that id.");
+      const verb = { approved: "approved", sent_back: "sent back", rejected: "rejected" }[decision];
+      if (found.status !== "in_review") throw new Conflict(`Only a listing waiting for review can be ${verb}.`, "listing_not_in_review");
+      if (decision === "approved") {
+        const sawyer = await manager.getRepository(AccountEntity).findOne({ where: { id: found.sawyerId }, select: { id: true, suspendedAt: true } });
+        if (sawyer?.suspendedAt) throw new Conflict("The sawyer's account is suspended: restore it before approving, or reject the listing.", "sawyer_suspended");
+      }
+      const at = now();
+      const status = DECISION_STATUS[decision];
+      const before = await view(manager, found);
+      await manager.getRepository(ListingEntity).update({ id: listingId }, decision === "approved" ? { status, publishedAt: at, reviewNote: null } : { status, reviewNote: reason });
+      await manager.getRepository(ListingReviewEntity).insert({
+        id: randomUUID(),
+        listingId,
+        reviewerId: admin.accountId,
+        decision,
+        reason,
+        snapshot: snapshotOf(before),
+        submittedAt: found.submittedAt ?? at,
+        reviewedAt: at,
+      });
+      await recordAudit(manager, admin, { action: `listing.${decision === "approved" ? "approve" : decision === "sent_back" ? "send_back" : "reject"}`, targetKind: "listing", targetId: listingId, before: { status: found.status }, after: { status }, reason }, at);
+      await changed(manager, listingId);
+      return manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
+    });
   }
 
   return {
@@ -224,31 +272,65 @@ export function createListingService(deps: ListingServiceDependencies) {
       return Promise.all(listings.map((l) => view(dataSource.manager, l)));
     },
 
-    async approve(actor: Actor, listingId: string): Promise<Listing> {
+    /** Admin: the review desk — each waiting listing with plausibility warnings and what changed since its last review. */
+    async reviewDesk(actor: Actor): Promise<ReviewDeskItem[]> {
       requireRole(actor, "admin");
-      const listing = await dataSource.transaction(async (manager) => {
-        const found = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, lock: { mode: "pessimistic_write" } });
-        if (!found) throw new NotFound("No listing with that id.");
-        if (found.status !== "in_review") throw new Conflict("Only a listing waiting for review can be approved.", "listing_not_in_review");
-        await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "live", publishedAt: now(), reviewNote: null });
-        await changed(manager, listingId);
-        return manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
-      });
+      const listings = await dataSource.getRepository(ListingEntity).find({ where: { status: "in_review" }, order: { submittedAt: "ASC", id: "ASC" } });
+      return Promise.all(
+        listings.map(async (entity) => {
+          const listing = await view(dataSource.manager, entity);
+          const [sawyer, last] = await Promise.all([
+            dataSource.getRepository(AccountEntity).findOneByOrFail({ id: entity.sawyerId }),
+            dataSource.getRepository(ListingReviewEntity).findOne({ where: { listingId: entity.id }, order: { reviewedAt: "DESC" } }),
+          ]);
+          const warnings = plausibilityWarnings(
+            listing.slabs.map((s) => ({
+              speciesSlug: s.speciesSlug,
+              lengthMm: s.lengthMm,
+              thicknessMm: s.thicknessMm,
+              widthStationsMm: s.widthStationsMm,
+              dryingMethod: s.dryingMethod,
+              lastMoisturePct: s.lastMoisturePct,
+              statedBoardFeet: s.figures.boardFeet,
+              statedWeightKg: s.figures.weightKg,
+            })),
+            { moistureAssumedPct: DEFAULT_WEIGHT_MOISTURE_PCT },
+          );
+          return {
+            listing,
+            sawyer: { id: sawyer.id, displayName: sawyer.displayName, email: sawyer.email, suspended: sawyer.suspendedAt !== null },
+            warnings,
+            lastReview: last ? await pastReview(last) : null,
+            changes: last ? changesBetween(last.snapshot as ReviewSnapshot, snapshotOf(listing)) : [],
+          };
+        }),
+      );
+    },
+
+    /** Admin: every decision on one listing, newest first. */
+    async reviewHistory(actor: Actor, listingId: string): Promise<PastReview[]> {
+      requireRole(actor, "admin");
+      const rows = await dataSource.getRepository(ListingReviewEntity).find({ where: { listingId }, order: { reviewedAt: "DESC" } });
+      return Promise.all(rows.map(pastReview));
+    },
+
+    async approve(actor: Actor, listingId: string): Promise<Listing> {
+      const listing = await decide(actor, listingId, "approved", null);
       await mailSawyer(listing, (to, name, link) => listingApprovedMail(to, name, listing.title, link));
       await deps.onListingLive?.(listing.id);
       return view(dataSource.manager, listing);
     },
 
     async sendBack(actor: Actor, listingId: string, input: SendBackInput): Promise<Listing> {
-      requireRole(actor, "admin");
-      const listing = await dataSource.transaction(async (manager) => {
-        const found = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, lock: { mode: "pessimistic_write" } });
-        if (!found) throw new NotFound("No listing with that id.");
-        if (found.status !== "in_review") throw new Conflict("Only a listing waiting for review can be sent back.", "listing_not_in_review");
-        await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "sent_back", reviewNote: input.reason });
-        return manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
-      });
+      const listing = await decide(actor, listingId, "sent_back", input.reason);
       await mailSawyer(listing, (to, name, link) => listingSentBackMail(to, name, listing.title, input.reason, link));
+      return view(dataSource.manager, listing);
+    },
+
+    /** Final: the listing will not be sold here; its slabs go back to the yard. */
+    async reject(actor: Actor, listingId: string, input: RejectInput): Promise<Listing> {
+      const listing = await decide(actor, listingId, "rejected", input.reason);
+      await mailSawyer(listing, (to, name, link) => listingRejectedMail(to, name, listing.title, input.reason, link));
       return view(dataSource.manager, listing);
     },
 
