@@ -37,6 +37,8 @@ import { createFavouriteService } from "./services/favourite-service.ts";
 import { createMessageService } from "./services/message-service.ts";
 import { createSavedSearchService } from "./services/saved-search-service.ts";
 import { adminRoutes } from "./routes/admin-routes.ts";
+import { payoutRoutes } from "./routes/payout-routes.ts";
+import { createPayoutService } from "./services/payout-service.ts";
 import { createAccountModeration } from "./services/account-moderation.ts";
 import { createAuditService } from "./services/audit-log.ts";
 import { createDashboardService } from "./services/dashboard-service.ts";
@@ -127,7 +129,9 @@ export function createApp(deps: AppDependencies) {
     log: logger,
     now: deps.now,
     onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
+    onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
   });
+  const payouts = createPayoutService({ dataSource: deps.dataSource, payments: deps.payments, mailer: deps.mailer, config, holdDays: () => settings.current().holdDays, log: logger, now: deps.now });
   const orders = createOrderService({
     dataSource: deps.dataSource,
     payments: deps.payments,
@@ -188,7 +192,7 @@ export function createApp(deps: AppDependencies) {
   app.use("/api/v1", catalogueRoutes(catalogue));
   app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), orderRoutes(checkout, orders));
   app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));
-  app.use("/api/v1", requireCsrfToken, adminRoutes({ listings, audit, reports, moderation, settings, dashboard }));
+  app.use("/api/v1", requireCsrfToken, adminRoutes({ listings, audit, reports, moderation, settings, dashboard }), payoutRoutes(payouts));
   app.use("/api", apiNotFound);
 
   // The built web app, with the single-page fallback for its own routes.
