@@ -64,6 +64,10 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
   app.use(express.urlencoded({ extended: true, limit: "1mb" }));
   const base = (req: Request) => options.publicUrl ?? `${req.protocol}://${req.get("host")}`;
 
+  // Browsers ask every page's origin for an icon; the hosted pages have none.
+  app.get("/favicon.ico", (_req, res) => {
+    res.status(204).end();
+  });
   app.get("/health", (_req, res) => {
     res.json({ status: "ok", mode: "test", since: store.state.createdAt });
   });

@@ -115,6 +115,24 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "Listing", roles: ["sawyer"] },
   },
   {
+    path: "/orders",
+    name: "orders",
+    component: () => import("./views/OrdersView.vue"),
+    meta: { title: "Orders", roles: ["buyer", "sawyer"] },
+  },
+  {
+    path: "/orders/:orderId",
+    name: "order",
+    component: () => import("./views/OrderView.vue"),
+    meta: { title: "Order", roles: ["buyer", "sawyer", "admin"] },
+  },
+  {
+    path: "/orders/:orderId/receipt",
+    name: "order-receipt",
+    component: () => import("./views/ReceiptView.vue"),
+    meta: { title: "Receipt", roles: ["buyer", "sawyer", "admin"] },
+  },
+  {
     path: "/account",
     name: "account",
     component: () => import("./views/AccountView.vue"),

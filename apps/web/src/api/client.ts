@@ -29,6 +29,16 @@ import {
   listingPhotoSchema,
   csvImportResultSchema,
   csvRowErrorSchema,
+  orderPaths,
+  orderEnvelopeSchema,
+  orderListSchema,
+  checkoutResultSchema,
+  checkoutQuoteSchema,
+  type CheckoutInput,
+  type CheckoutQuote,
+  type Order,
+  type PickupWindowsInput,
+  type ShipmentInput,
   type CatalogueDetail,
   type CatalogueResult,
   type CsvRowError,
@@ -161,6 +171,10 @@ const catalogueResult: ResponseParser<CatalogueResult> = catalogueResultSchema;
 const catalogueDetail: ResponseParser<CatalogueDetail> = catalogueDetailSchema;
 const placeList: ResponseParser<{ places: Place[] }> = placeListSchema;
 const csvRowError: ResponseParser<CsvRowError> = csvRowErrorSchema;
+const orderEnvelope: ResponseParser<{ order: Order }> = orderEnvelopeSchema;
+const orderList: ResponseParser<{ orders: Order[] }> = orderListSchema;
+const checkoutResult: ResponseParser<{ order: Order; checkoutUrl: string }> = checkoutResultSchema;
+const checkoutQuote: ResponseParser<{ quote: CheckoutQuote }> = checkoutQuoteSchema;
 
 /** The CSV import said no: every row message, and nothing was saved. */
 export class CsvImportError extends ApiRequestError {
@@ -427,6 +441,18 @@ export function createApiClient(options: ApiClientOptions = {}) {
       request("GET", cataloguePaths.detail(listingId), { schema: catalogueDetail, signal }),
     findPlaces: (query: string, signal?: AbortSignal): Promise<{ places: Place[] }> =>
       request("GET", cataloguePaths.places, { query: { query: query.trim() }, schema: placeList, signal }),
+
+    // Buying and the steps of an order.
+    getCheckoutQuote: (listingId: string, signal?: AbortSignal) => request("GET", orderPaths.quote(listingId), { schema: checkoutQuote, signal }),
+    checkout: (listingId: string, input: CheckoutInput) => request("POST", orderPaths.checkout(listingId), { body: input, schema: checkoutResult }),
+    listOrders: (signal?: AbortSignal) => request("GET", orderPaths.orders, { schema: orderList, signal }),
+    getOrder: (orderId: string, signal?: AbortSignal) => request("GET", orderPaths.order(orderId), { schema: orderEnvelope, signal }),
+    proposePickupWindows: (orderId: string, input: PickupWindowsInput) => request("POST", orderPaths.pickupWindows(orderId), { body: input, schema: orderEnvelope }),
+    choosePickupWindow: (orderId: string, startsAt: string) => request("POST", orderPaths.pickupChoice(orderId), { body: { startsAt }, schema: orderEnvelope }),
+    markShipped: (orderId: string, input: ShipmentInput) => request("POST", orderPaths.shipment(orderId), { body: input, schema: orderEnvelope }),
+    markHandedOver: (orderId: string) => request("POST", orderPaths.handedOver(orderId), { body: {}, schema: orderEnvelope }),
+    confirmReceipt: (orderId: string) => request("POST", orderPaths.completion(orderId), { body: {}, schema: orderEnvelope }),
+    cancelOrder: (orderId: string, reason: string) => request("POST", orderPaths.cancellation(orderId), { body: { reason }, schema: orderEnvelope }),
 
     // Admin review.
     reviewQueue: (signal?: AbortSignal) => request("GET", yardPaths.reviewQueue, { schema: listingList, signal }),

@@ -1,0 +1,64 @@
+import { orderStatusLabels, type Order } from "@grainyard/contracts";
+import { speciesName } from "./yard.ts";
+
+export { orderStatusLabels };
+
+/** "3F2A9C1B": the short order number people read out on the phone. */
+export function orderNumber(order: Pick<Order, "id">): string {
+  return order.id.slice(0, 8).toUpperCase();
+}
+
+const dateTime = new Intl.DateTimeFormat("en", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
+const time = new Intl.DateTimeFormat("en", { hour: "2-digit", minute: "2-digit" });
+const day = new Intl.DateTimeFormat("en", { dateStyle: "medium" });
+
+/** A pickup window in the viewer's own time: "Sat, 6 Dec, 09:00 – 11:00". */
+export function windowLabel(window: { startsAt: string; endsAt: string }): string {
+  return `${dateTime.format(new Date(window.startsAt))} – ${time.format(new Date(window.endsAt))}`;
+}
+
+export function stampLabel(iso: string | null): string {
+  return iso ? `${day.format(new Date(iso))}, ${time.format(new Date(iso))}` : "";
+}
+
+/** The slab as it was when ordered (the order's own snapshot). */
+export interface SnapshotSlab {
+  id: string;
+  speciesSlug: string;
+  sequenceInLog: number | null;
+  lengthMm: number;
+  thicknessMm: number;
+  averageWidthMm: number;
+  boardFeet: number;
+  weightHighKg: number;
+  handling: "one_person" | "two_people" | "mechanical_aid";
+  species: string;
+}
+
+export function snapshotSlabs(order: Pick<Order, "slabs">): SnapshotSlab[] {
+  return order.slabs.map((raw, index) => {
+    const figures = (raw.figures ?? {}) as Record<string, unknown>;
+    const speciesSlug = String(raw.speciesSlug ?? "");
+    return {
+      id: String(raw.id ?? index),
+      speciesSlug,
+      sequenceInLog: typeof raw.sequenceInLog === "number" ? raw.sequenceInLog : null,
+      lengthMm: Number(raw.lengthMm ?? 0),
+      thicknessMm: Number(raw.thicknessMm ?? 0),
+      averageWidthMm: Number(figures.averageWidthMm ?? 0),
+      boardFeet: Number(figures.boardFeet ?? 0),
+      weightHighKg: Number(figures.weightHighKg ?? 0),
+      handling: (figures.handling as SnapshotSlab["handling"]) ?? "two_people",
+      species: speciesSlug ? speciesName(speciesSlug) : "Slab",
+    };
+  });
+}
+
+/** The heaviest handling any one slab needs (each slab is lifted on its own). */
+export function worstHandling(slabs: SnapshotSlab[]): SnapshotSlab["handling"] {
+  const rank = ["one_person", "two_people", "mechanical_aid"] as const;
+  return slabs.reduce<SnapshotSlab["handling"]>((worst, s) => (rank.indexOf(s.handling) > rank.indexOf(worst) ? s.handling : worst), "one_person");
+}
+
+/** Statuses where the order stopped short of the steps (shown as a note, not a step). */
+export const endedStatuses = ["cancelled", "refunded", "payment_failed", "expired"] as const;

@@ -1,0 +1,252 @@
+import type { Browser, BrowserContext, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { mkdirSync } from "node:fs";
+import { join } from "node:path";
+import { appUrl, desktop, inboxUrl, launchChromium, phone, screenshot, watchForPageErrors } from "./browser.ts";
+
+/** A picture of one part of a long page (the buy panel), beside the full-page ones. */
+async function partShot(page: Page, selector: string, name: string) {
+  const dir = process.env.SCREENSHOT_DIR ?? join(import.meta.dirname, "../../test-results/screenshots");
+  mkdirSync(dir, { recursive: true });
+  await page.locator(selector).screenshot({ path: join(dir, `${name}.png`) });
+}
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launchChromium();
+});
+afterAll(async () => browser?.close());
+
+/** Demo people from the Lakemont seed. */
+const FERNHILL = { email: "shop@fernhill-furniture.test", password: "fernhill-benches-2026" };
+const BRANDTS = { email: "ana.theo@lakemont-home.test", password: "first-dining-table-26" };
+const CALLOWAY = { email: "studio@calloway-interiors.test", password: "bookmatched-pair-2026" };
+const RIDGEBACK = { email: "yard@ridgeback-timber.test", password: "ridgeback-bandmill-2026" };
+/** Two different seeded live listings, so the two tests do not depend on each other. */
+const MAPLE_PAIR = "Spalted silver maple, sequential pair"; // Ridgeback Urban Timber
+const RED_OAK = "Wide red oak dining slab, seats eight";
+
+async function listingIdOf(title: string): Promise<string> {
+  const response = await fetch(`${appUrl}/api/v1/catalogue?limit=50`);
+  const body = (await response.json()) as { items?: { id?: string; listingId?: string; title: string }[]; results?: { id?: string; listingId?: string; title: string }[] };
+  const items = body.items ?? body.results ?? [];
+  const item = items.find((i) => i.title === title);
+  if (!item) throw new Error(`the seeded listing "${title}" is not in the catalogue`);
+  return (item.listingId ?? item.id)!;
+}
+
+async function signIn(page: Page, who: { email: string; password: string }) {
+  await page.goto(`${appUrl}/sign-in`);
+  await page.getByLabel("E-mail").fill(who.email);
+  await page.getByLabel("Password").fill(who.password);
+  await page.locator('[data-test="submit"]').click();
+  await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"), { timeout: 15_000 });
+}
+
+async function mailsTo(address: string): Promise<{ subject: string; text: string }[]> {
+  const response = await fetch(`${inboxUrl}/api/messages?to=${encodeURIComponent(address)}`);
+  return ((await response.json()) as { messages: { subject: string; text: string }[] }).messages;
+}
+const mailArrives = (address: string, subject: RegExp) =>
+  expect.poll(async () => (await mailsTo(address)).some((m) => subject.test(m.subject)), { timeout: 15_000 }).toBe(true);
+
+async function payOnHostedPage(page: Page, card: string) {
+  await page.waitForURL(/\/pay\/cs_/, { timeout: 15_000 });
+  await page.locator("#card").fill(card);
+  await page.locator("#expiry").fill("12 / 34");
+  await page.locator("#cvc").fill("123");
+  await page.locator('[data-test="pay"]').click();
+}
+
+describe("buying a slab", () => {
+  it("a buyer buys with the test card on the hosted page, waits for the confirmation and reaches a paid order; both e-mails arrive; the sawyer proposes pickup times and the buyer books one", async () => {
+    const listingId = await listingIdOf(MAPLE_PAIR);
+    const context: BrowserContext = await browser.newContext({ viewport: desktop, locale: "en-US" });
+    const page = await context.newPage();
+    const problems = watchForPageErrors(page);
+    await signIn(page, FERNHILL);
+
+    await page.goto(`${appUrl}/slabs/${listingId}`);
+    const panel = page.locator('[data-test="buy-panel"]');
+    await expect.poll(() => panel.isVisible(), { timeout: 15_000 }).toBe(true);
+    await expect.poll(() => page.locator('[data-test="pay-now"]').innerText()).toMatch(/\$\d/);
+    // Freight shows the slab-math estimate beside the price; pickup is what this buyer wants.
+    await page.locator('[data-test="handover-freight"]').check({ force: true });
+    await expect.poll(() => page.locator('[data-test="freight-estimate"]').innerText()).toMatch(/about \$|quoted/);
+    await page.locator('[data-test="handover-pickup"]').check({ force: true });
+    await panel.scrollIntoViewIfNeeded();
+    await screenshot(page, "slab-buy-1280");
+    await partShot(page, '[data-test="buy-panel"]', "buy-panel-1280");
+    const payNow = await page.locator('[data-test="pay-now"]').innerText();
+
+    await page.locator('[data-test="buy"]').click();
+    await payOnHostedPage(page, "4242 4242 4242 4242");
+    await page.waitForURL(/\/orders\/[0-9a-f-]{36}\?paid=1/, { timeout: 15_000 });
+    const orderId = new URL(page.url()).pathname.split("/").at(-1)!;
+    // Until the webhook lands the page says so; then it shows the paid order.
+    await expect.poll(() => page.locator('[data-test="order-status"]').innerText(), { timeout: 20_000 }).toBe("Paid");
+    await expect.poll(() => page.locator('[data-test="order-sum"]').innerText()).toContain(payNow);
+    await screenshot(page, "order-paid-1280");
+
+    await mailArrives(FERNHILL.email, new RegExp(`^Your order: ${MAPLE_PAIR}`));
+    await mailArrives(RIDGEBACK.email, new RegExp(`^Sold: ${MAPLE_PAIR}`));
+    const receiptMail = (await mailsTo(FERNHILL.email)).find((m) => m.subject.startsWith("Your order"))!;
+    expect(receiptMail.text).toContain(payNow);
+    const saleMail = (await mailsTo(RIDGEBACK.email)).find((m) => m.subject.startsWith(`Sold: ${MAPLE_PAIR}`))!;
+    expect(saleMail.text).toMatch(/your net \$[\d,.]+/);
+
+    await page.locator('[data-test="receipt-link"]').click();
+    await page.waitForURL(`${appUrl}/orders/${orderId}/receipt`);
+    await expect.poll(() => page.locator('[data-test="receipt-sum"]').innerText(), { timeout: 15_000 }).toContain(payNow);
+    await expect.poll(() => page.getByText("Heavy lift.").isVisible()).toBe(true);
+    await screenshot(page, "receipt-1280");
+    await page.emulateMedia({ media: "print" });
+    await screenshot(page, "receipt-print-1280");
+    expect(await page.locator(".topbar").isVisible()).toBe(false);
+    await page.emulateMedia({ media: "screen" });
+
+    // The sawyer, on a phone: the order in their list, pickup times proposed.
+    const sawyerContext = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-US" });
+    const sawyerPage = await sawyerContext.newPage();
+    const sawyerProblems = watchForPageErrors(sawyerPage);
+    await signIn(sawyerPage, RIDGEBACK);
+    await sawyerPage.goto(`${appUrl}/orders`);
+    await expect.poll(() => sawyerPage.locator(`[data-test="order-${orderId}"]`).innerText(), { timeout: 15_000 }).toMatch(/Propose pickup times/);
+    await screenshot(sawyerPage, "orders-sawyer-390");
+    await sawyerPage.locator(`[data-test="order-${orderId}"]`).click();
+    await expect.poll(() => sawyerPage.locator('[data-test="pickup-windows-form"]').isVisible(), { timeout: 15_000 }).toBe(true);
+    await expect.poll(() => sawyerPage.locator('[data-test="sawyer-net"]').innerText()).toMatch(/\$/);
+    await sawyerPage.locator('[data-test="pickup-address-input"]').fill("Ridgeback yard, gate B, 212 Tannery Road, Lakemont");
+    await screenshot(sawyerPage, "order-sawyer-windows-390");
+    await sawyerPage.locator('[data-test="send-windows"]').click();
+    await expect.poll(() => sawyerPage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Ready for pickup");
+    await mailArrives(FERNHILL.email, /^Choose a pickup time/);
+
+    // The buyer books the second window.
+    await page.goto(`${appUrl}/orders/${orderId}`);
+    await expect.poll(() => page.locator('[data-test="window-1"]').isVisible(), { timeout: 15_000 }).toBe(true);
+    await page.locator('[data-test="window-1"]').check();
+    await page.locator('[data-test="choose-window"]').click();
+    await expect.poll(() => page.locator('[data-test="pickup-when"]').innerText(), { timeout: 15_000 }).not.toMatch(/Waiting|proposes/);
+    expect(await page.locator('[data-test="pickup-address"]').innerText()).toContain("212 Tannery Road");
+    await screenshot(page, "order-booked-1280");
+    await mailArrives(RIDGEBACK.email, /^The buyer chose a pickup time/);
+
+    // The same order and receipt on a phone.
+    const phoneContext = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-US" });
+    const phonePage = await phoneContext.newPage();
+    const phoneProblems = watchForPageErrors(phonePage);
+    await signIn(phonePage, FERNHILL);
+    await phonePage.goto(`${appUrl}/orders/${orderId}`);
+    await expect.poll(() => phonePage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Ready for pickup");
+    await screenshot(phonePage, "order-390");
+    await phonePage.goto(`${appUrl}/orders/${orderId}/receipt`);
+    await expect.poll(() => phonePage.locator('[data-test="receipt-sum"]').isVisible(), { timeout: 15_000 }).toBe(true);
+    await screenshot(phonePage, "receipt-390");
+    await phonePage.goto(`${appUrl}/orders`);
+    await expect.poll(() => phonePage.locator(`[data-test="order-${orderId}"]`).isVisible(), { timeout: 15_000 }).toBe(true);
+    await screenshot(phonePage, "orders-buyer-390");
+
+    // The sawyer marks it handed over (after a confirmation); the buyer confirms receipt.
+    await sawyerPage.reload();
+    await sawyerPage.locator('[data-test="mark-handed-over"]').click();
+    await sawyerPage.locator('[data-test="confirm"]').click();
+    await expect.poll(() => sawyerPage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Handed over");
+    await phonePage.goto(`${appUrl}/orders/${orderId}`);
+    await phonePage.locator('[data-test="confirm-receipt"]').click();
+    await phonePage.locator('[data-test="confirm"]').click();
+    await expect.poll(() => phonePage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Completed");
+    await screenshot(phonePage, "order-completed-390");
+    await mailArrives(RIDGEBACK.email, new RegExp(`^Completed: ${MAPLE_PAIR}`));
+
+    expect([...problems, ...sawyerProblems, ...phoneProblems]).toEqual([]);
+    await Promise.all([context.close(), sawyerContext.close(), phoneContext.close()]);
+  });
+
+  it("while one buyer pays, another hears the slab was just reserved; a declined card puts it back on sale", async () => {
+    const listingId = await listingIdOf(RED_OAK);
+    const waiting = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-US" });
+    const other = await waiting.newPage();
+    const otherProblems = watchForPageErrors(other);
+    await signIn(other, CALLOWAY);
+    await other.goto(`${appUrl}/slabs/${listingId}`);
+    await expect.poll(() => other.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
+
+    const context = await browser.newContext({ viewport: desktop, locale: "en-US" });
+    const page = await context.newPage();
+    const problems = watchForPageErrors(page);
+    await signIn(page, BRANDTS);
+    await page.goto(`${appUrl}/slabs/${listingId}`);
+    await expect.poll(() => page.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
+    await page.locator('[data-test="handover-freight"]').check({ force: true });
+    await page.locator('[data-test="delivery-address"]').fill("Ana and Theo Brandt\n31 Orchard Terrace\nLakemont");
+    await partShot(page, '[data-test="buy-panel"]', "buy-panel-freight-1280");
+    await page.locator('[data-test="buy"]').click();
+    await page.waitForURL(/\/pay\/cs_/, { timeout: 15_000 });
+
+    // The other buyer's page still offers it; their click meets the reservation (409).
+    await other.locator('[data-test="buy"]').click();
+    await expect.poll(() => other.locator('[data-test="reserved-by-other"]').innerText(), { timeout: 15_000 }).toMatch(/just reserved/);
+    await screenshot(other, "slab-just-reserved-390");
+    await partShot(other, '[data-test="buy-panel"]', "buy-panel-reserved-390");
+
+    await payOnHostedPage(page, "4000 0000 0000 0002");
+    await expect.poll(() => page.getByText("Your card was declined.").isVisible(), { timeout: 15_000 }).toBe(true);
+
+    // The decline releases the slab: the waiting buyer can buy it after a reload.
+    await expect
+      .poll(
+        async () => {
+          await other.reload();
+          await other.locator('[data-test="buy-panel"]').waitFor({ timeout: 10_000 });
+          return other.locator('[data-test="buy"]').isVisible();
+        },
+        { timeout: 20_000, intervals: [500, 1000] },
+      )
+      .toBe(true);
+    const status = (await (await fetch(`${appUrl}/api/v1/catalogue/${listingId}`)).json()) as { listing: { status: string } };
+    expect(status.listing.status).toBe("live");
+
+    // The declined buyer's order says what happened.
+    await page.goto(`${appUrl}/orders`);
+    await page.locator('[data-test^="order-"]').first().click();
+    await expect.poll(() => page.locator('[data-test="payment-ended"]').innerText(), { timeout: 15_000 }).toMatch(/did not go through/);
+    await screenshot(page, "order-declined-1280");
+
+    // The provider's own page answers a decline with 402 (its way of saying so), not a fault of ours.
+    expect([...problems.filter((p) => !/status of 402/.test(p)), ...otherProblems]).toEqual([]);
+    await Promise.all([context.close(), waiting.close()]);
+  });
+
+  it("a buyer cancels a paid order from the order page after a confirmation: refunded, and the slab is on sale again", async () => {
+    const listingId = await listingIdOf(RED_OAK);
+    const context = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-US" });
+    const page = await context.newPage();
+    const problems = watchForPageErrors(page);
+    await signIn(page, CALLOWAY);
+    await page.goto(`${appUrl}/slabs/${listingId}`);
+    await expect.poll(() => page.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
+    await page.locator('[data-test="handover-pickup"]').check({ force: true });
+    await page.locator('[data-test="buy"]').click();
+    await payOnHostedPage(page, "4242424242424242");
+    await expect.poll(() => page.locator('[data-test="order-status"]').innerText(), { timeout: 20_000 }).toBe("Paid");
+
+    await page.locator('[data-test="cancel-order"]').click();
+    await expect.poll(() => page.locator('[data-test="confirm-dialog"]').isVisible()).toBe(true);
+    // No reason: the dialog says what is missing and nothing changes.
+    await page.locator('[data-test="confirm"]').click();
+    await expect.poll(() => page.locator('[data-test="confirm-dialog"]').innerText()).toMatch(/Say why/);
+    await page.locator('[data-test="cancel-reason"]').fill("We found a matching pair elsewhere for the client.");
+    await screenshot(page, "order-cancel-dialog-390");
+    await page.locator('[data-test="confirm"]').click();
+    await expect.poll(() => page.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toMatch(/Refunded|Cancelled/);
+    await expect.poll(() => page.locator('[data-test="order-cancelled"]').innerText(), { timeout: 15_000 }).toMatch(/refunded to the card/);
+    await screenshot(page, "order-refunded-390");
+    await mailArrives(CALLOWAY.email, /^Cancelled and refunded/);
+    const status = (await (await fetch(`${appUrl}/api/v1/catalogue/${listingId}`)).json()) as { listing: { status: string } };
+    expect(status.listing.status).toBe("live");
+    // 422 for the empty reason is the API's field message, shown in the dialog.
+    expect(problems.filter((p) => !/status of 422/.test(p))).toEqual([]);
+    await context.close();
+  });
+});
