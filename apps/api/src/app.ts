@@ -44,6 +44,7 @@ import { createAuditService } from "./services/audit-log.ts";
 import { createDashboardService } from "./services/dashboard-service.ts";
 import { createReportService } from "./services/report-service.ts";
 import { createSettingsService } from "./services/settings-service.ts";
+import { movableClock, testClockRoutes } from "./routes/test-clock-routes.ts";
 
 export interface AppDependencies {
   config: AppConfig;
@@ -55,7 +56,10 @@ export interface AppDependencies {
   now?: () => Date;
 }
 
-export function createApp(deps: AppDependencies) {
+export function createApp(appDeps: AppDependencies) {
+  // The end-to-end suite's movable clock (NODE_ENV=test with GRAINYARD_TEST_CLOCK=1 only): every service reads it.
+  const testClock = appDeps.config.testClock && appDeps.config.environment === "test" ? movableClock(appDeps.now) : null;
+  const deps: AppDependencies = testClock ? { ...appDeps, now: testClock.now } : appDeps;
   const { config, logger } = deps;
   const production = config.environment === "production";
   const app = express();
@@ -193,6 +197,7 @@ export function createApp(deps: AppDependencies) {
   app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), orderRoutes(checkout, orders));
   app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));
   app.use("/api/v1", requireCsrfToken, adminRoutes({ listings, audit, reports, moderation, settings, dashboard }), payoutRoutes(payouts));
+  if (testClock) app.use("/api/_test", testClockRoutes(testClock));
   app.use("/api", apiNotFound);
 
   // The built web app, with the single-page fallback for its own routes.
