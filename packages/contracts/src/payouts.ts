@@ -121,3 +121,20 @@ export const disputeRefundSchema = z.object({
   reason: z.string({ error: "Give the reason both parties will read." }).trim().min(5, "Give the reason both parties will read.").max(1000, "Keep the reason under 1000 characters."),
 });
 export type DisputeRefund = z.infer<typeof disputeRefundSchema>;
+
+/** What an admin's dispute refund answers: refunded so far and what is left to refund. */
+export const disputeRefundResultSchema = z.object({ refundedMinor: z.number().int(), refundableMinor: z.number().int() });
+export type DisputeRefundResult = z.infer<typeof disputeRefundResultSchema>;
+
+/** Where an order stands for a dispute refund: what was refunded (and why), what is left, whether it can be refunded now. */
+export const disputeRefundStateSchema = z.object({
+  orderId: z.string(),
+  currency: z.string(),
+  totalMinor: z.number().int(),
+  refundedMinor: z.number().int(),
+  refundableMinor: z.number().int(),
+  /** False for orders that are not paid (awaiting payment, cancelled, refunded in full). */
+  canRefund: z.boolean(),
+  refunds: z.array(z.object({ amountMinor: z.number().int(), reason: z.string(), createdAt: z.string() })),
+});
+export type DisputeRefundState = z.infer<typeof disputeRefundStateSchema>;

@@ -40,6 +40,9 @@ export function payoutRoutes(payouts: PayoutService) {
   router.get("/admin/payouts/:payoutId", async (req, res) => {
     res.json({ payout: await payouts.one(req.actor, id(req.params.payoutId), "desk") });
   });
+  router.get("/admin/orders/:orderId/refund", async (req, res) => {
+    res.json(await payouts.refundState(req.actor, id(req.params.orderId)));
+  });
   router.post("/admin/orders/:orderId/refund", async (req, res) => {
     res.json(await payouts.disputeRefund(req.actor, id(req.params.orderId), parse(disputeRefundSchema, req.body)));
   });

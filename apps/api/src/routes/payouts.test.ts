@@ -291,6 +291,10 @@ describe("dispute refunds", () => {
     const [due] = await dueFor(admin, sawyer.account.id);
     expect((await admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey })).body.payout.status).toBe("sent");
 
+    // What the admin's refund form starts from: nothing refunded yet, the whole total left.
+    expect((await admin.get(`/api/v1/admin/orders/${first}/refund`)).body).toEqual({ orderId: first, currency: "USD", totalMinor: 100_000, refundedMinor: 0, refundableMinor: 100_000, canRefund: true, refunds: [] });
+    expect((await buyer.get(`/api/v1/admin/orders/${first}/refund`)).status).toBe(403);
+
     // Bad input first: nothing changes.
     expect((await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 0, reason: "Crack not shown" })).status).toBe(422);
     expect((await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 2_000, reason: "" })).status).toBe(422);
@@ -303,6 +307,7 @@ describe("dispute refunds", () => {
     const refund = await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 20_000, reason: "A check at one end was not shown in the photos." });
     expect(refund.status).toBe(200);
     expect(refund.body).toEqual({ refundedMinor: 20_000, refundableMinor: 80_000 });
+    expect((await admin.get(`/api/v1/admin/orders/${first}/refund`)).body).toMatchObject({ refundedMinor: 20_000, refundableMinor: 80_000, canRefund: true, refunds: [{ amountMinor: 20_000, reason: "A check at one end was not shown in the photos." }] });
     const sawyerShare = Math.round(netOf(100_000) * 0.2); // net 87 070 × 0.2 = 17 414 exactly (no remainder to place)
     expect(sawyerShare).toBe(17_414);
     const refunds = fake.store.all("refund").filter((r) => r.amount === 20_000);
@@ -329,6 +334,7 @@ describe("dispute refunds", () => {
     expect((await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 80_000, reason: "The buyer returned the slab." })).body).toEqual({ refundedMinor: 100_000, refundableMinor: 0 });
     expect((await orderOf(first)).status).toBe("refunded");
     expect((await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 1, reason: "Once more" })).status).toBe(409);
+    expect((await admin.get(`/api/v1/admin/orders/${first}/refund`)).body).toMatchObject({ refundedMinor: 100_000, refundableMinor: 0, canRefund: false });
   });
 
   it("a refund before hand-over (the sale still pending) lowers what will be paid", async () => {

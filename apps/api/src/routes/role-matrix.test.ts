@@ -175,6 +175,7 @@ const routes: RouteCase[] = [
   ...adminOnly("POST /api/v1/admin/payouts/batch", (c) => c.post("/api/v1/admin/payouts/batch", { payouts: [{ sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }] })),
   ...adminOnly("GET /api/v1/admin/payouts", (c) => c.get("/api/v1/admin/payouts")),
   ...adminOnly("GET /api/v1/admin/payouts/:payoutId (unknown)", (c) => c.get(`/api/v1/admin/payouts/${randomUUID()}`), 404),
+  ...adminOnly("GET /api/v1/admin/orders/:orderId/refund (unknown order)", (c) => c.get(`/api/v1/admin/orders/${randomUUID()}/refund`), 404),
   ...adminOnly("POST /api/v1/admin/orders/:orderId/refund (unknown order)", (c) => c.post(`/api/v1/admin/orders/${randomUUID()}/refund`, { amountMinor: 100, reason: "Matrix refunds." }), 404),
   {
     name: "POST /api/v1/yard/listings/:listingId/withdraw (last: it ends the draft)",

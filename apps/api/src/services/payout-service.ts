@@ -1,5 +1,5 @@
 import { createHash, randomUUID } from "node:crypto";
-import type { DisputeRefund, Payout, PayoutApproval, PayoutBatch, PayoutBatchResult, PayoutDue, PayoutLine, PayoutsDue, SawyerBalance, SawyerPayouts, PayoutAccountState } from "@grainyard/contracts";
+import type { DisputeRefund, DisputeRefundState, Payout, PayoutApproval, PayoutBatch, PayoutBatchResult, PayoutDue, PayoutLine, PayoutsDue, SawyerBalance, SawyerPayouts, PayoutAccountState } from "@grainyard/contracts";
 import { disputeRefundSchema, payoutApprovalSchema, payoutBatchSchema } from "@grainyard/contracts";
 import { refundShares } from "@grainyard/slab-math";
 import { stringify } from "csv-stringify/sync";
@@ -19,6 +19,8 @@ const DAY_MS = 24 * 3600_000;
 const HANDED_OVER = ["handed_over", "completed"];
 /** Orders whose money is settled one way or the other (refunds after an earlier payout are taken back at once). */
 const SETTLED = ["refunded", "cancelled"];
+/** Orders an admin may refund for a dispute: paid and not settled yet. */
+const REFUNDABLE = ["paid", "ready_for_pickup", "shipped", "handed_over", "completed"];
 
 /** What Grainyard still owes a sawyer for one order: the ledger's sawyer entries for it (sale, refunds, payouts), and whether it can be paid now. */
 interface OrderOwed {
@@ -386,6 +388,25 @@ export function createPayoutService(deps: {
       return (await present(dataSource.manager, [payout]))[0]!;
     },
 
+    /** An order's dispute refunds so far and what is left to refund (the admin's refund form starts from it). */
+    async refundState(actor: Actor, orderId: string): Promise<DisputeRefundState> {
+      requireRole(actor, "admin");
+      const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: orderId });
+      if (!order) throw new NotFound("No order with that id.");
+      const refunds = await dataSource.getRepository(OrderRefundEntity).find({ where: { orderId }, order: { createdAt: "ASC" } });
+      const refundedMinor = refunds.reduce((sum, r) => sum + r.amountMinor, 0);
+      const refundableMinor = Math.max(0, order.totalMinor - refundedMinor);
+      return {
+        orderId,
+        currency: order.currency,
+        totalMinor: order.totalMinor,
+        refundedMinor,
+        refundableMinor,
+        canRefund: REFUNDABLE.includes(order.status) && !!order.paymentIntentId && refundableMinor > 0,
+        refunds: refunds.map((r) => ({ amountMinor: r.amountMinor, reason: r.reason, createdAt: r.createdAt.toISOString() })),
+      };
+    },
+
     /**
      * An admin's refund on a disputed order: all or part of what the buyer paid, through the
      * provider (idempotent per request), split in the ledger across tax, platform fee, processing
@@ -397,7 +418,7 @@ export function createPayoutService(deps: {
       const { amountMinor, reason } = disputeRefundSchema.parse(input);
       const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: orderId });
       if (!order) throw new NotFound("No order with that id.");
-      if (!["paid", "ready_for_pickup", "shipped", "handed_over", "completed"].includes(order.status) || !order.paymentIntentId) {
+      if (!REFUNDABLE.includes(order.status) || !order.paymentIntentId) {
         throw new Conflict("Only a paid order can be refunded for a dispute (cancelled and refunded orders are settled already).", "order_not_refundable");
       }
       const refundId = randomUUID();
