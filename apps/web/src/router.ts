@@ -115,6 +115,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "Listing", roles: ["sawyer"] },
   },
   {
+    path: "/yard/payouts",
+    name: "payouts",
+    component: () => import("./views/PayoutsView.vue"),
+    meta: { title: "Payouts", roles: ["sawyer"] },
+  },
+  {
     path: "/orders",
     name: "orders",
     component: () => import("./views/OrdersView.vue"),
@@ -149,6 +155,12 @@ export const routes: RouteRecordRaw[] = [
     name: "admin-review",
     component: () => import("./views/AdminReviewView.vue"),
     meta: { title: "Listings to review", roles: ["admin"] },
+  },
+  {
+    path: "/admin/payouts",
+    name: "admin-payouts",
+    component: () => import("./views/AdminPayoutsView.vue"),
+    meta: { title: "Payouts desk", roles: ["admin"] },
   },
   {
     path: "/:pathMatch(.*)*",
