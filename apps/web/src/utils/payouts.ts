@@ -45,7 +45,7 @@ export function accountCard(state: PayoutAccountState): AccountCard {
       };
     case "ready":
       return {
-        title: "Ready to receive money",
+        title: "All set",
         text: "Your payout account is set up. When a payout is approved, the money is sent to it.",
         action: null,
         tone: "ready",
