@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import type { PayoutBatchResult, PayoutDue } from "@grainyard/contracts";
 import { ApiRequestError } from "../api/client.ts";
-import { accountCard, balanceIsEmpty, balanceSegments, batchRows, canApprove, checkRefund, holdExplanation, isStaleDue, recipientLabel, refundPrefill, totalsLabel } from "./payouts.ts";
+import { accountCard, balanceIsEmpty, balanceSegments, batchRows, canApprove, checkRefund, deskBlockedReason, holdExplanation, isStaleDue, recipientLabel, refundPrefill, totalsLabel } from "./payouts.ts";
 
 const due = (over: Partial<PayoutDue> = {}): PayoutDue => ({
   sawyerId: "6f1c1d7e-0000-4000-8000-000000000001",
@@ -58,6 +58,12 @@ describe("the payouts desk", () => {
     expect(canApprove(due())).toBe(true);
     expect(canApprove(due({ accountState: "unfinished" }))).toBe(false);
     expect(canApprove(due({ accountState: "none" }))).toBe(false);
+  });
+
+  it("says in the admin's words why a payout cannot be sent yet", () => {
+    expect(deskBlockedReason(due())).toBeNull();
+    expect(deskBlockedReason(due({ accountState: "none" }))).toMatch(/has not set up a payout account/);
+    expect(deskBlockedReason(due({ accountState: "unfinished" }))).toMatch(/not finished it/);
   });
 
   it("names the recipient by yard and person, and adds totals per currency", () => {

@@ -92,6 +92,13 @@ export function canApprove(due: PayoutDue): boolean {
   return due.accountState === "ready" && due.amountMinor > 0;
 }
 
+/** Why the desk cannot send a payout yet, in the admin's words (the API's blockedReason speaks to the sawyer). */
+export function deskBlockedReason(due: Pick<PayoutDue, "accountState">): string | null {
+  if (due.accountState === "none") return "This sawyer has not set up a payout account yet, so nothing can be sent. Their payouts page asks them to.";
+  if (due.accountState === "unfinished") return "This sawyer started the payout account set-up but has not finished it, so nothing can be sent yet.";
+  return null;
+}
+
 /** The recipient as the confirmation says it: "Northshore Kiln Co-op (Mara Lindqvist)". */
 export function recipientLabel(due: Pick<PayoutDue, "sawyerName" | "yardName">): string {
   return due.yardName ? `${due.yardName} (${due.sawyerName})` : due.sawyerName;
