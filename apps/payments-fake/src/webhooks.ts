@@ -123,9 +123,9 @@ function postOnce(url: string, headers: Record<string, string>, body: string, ti
     const target = new URL(url);
     const send = target.protocol === "https:" ? httpsRequest : httpRequest;
     const request = send(target, { method: "POST", headers: { ...headers, "content-length": Buffer.byteLength(body) }, timeout: timeoutMs }, (response) => {
+      // The status is known with the headers (as with fetch); the body is read and dropped.
       response.resume();
-      response.on("end", () => resolvePromise(response.statusCode ?? 0));
-      response.on("error", reject);
+      resolvePromise(response.statusCode ?? 0);
     });
     request.on("timeout", () => request.destroy(new Error("timed out")));
     request.on("error", reject);
