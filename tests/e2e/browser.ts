@@ -1,4 +1,5 @@
 import { mkdirSync } from "node:fs";
+import { request as httpRequest } from "node:http";
 import { join } from "node:path";
 import { chromium, type Browser, type Page } from "playwright-core";
 
@@ -20,13 +21,25 @@ export const desktop = { width: 1280, height: 800 };
 export function launchChromium(): Promise<Browser> {
   return chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
-    args: ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
+    args: [
+      "--headless",
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-quic",
+      "--no-first-run",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+      // Chromium refuses a few ports outright (10080 among them, ERR_UNSAFE_PORT); a test port base may land on one.
+      `--explicitly-allowed-ports=${[appUrl, inboxUrl].map((url) => new URL(url).port).filter(Boolean).join(",")}`,
+    ],
   });
 }
 
-export async function screenshot(page: Page, name: string): Promise<void> {
+/** A PNG in the screenshot folder: the whole page, or only what is on screen (`fullPage: false`, for dialogs). */
+export async function screenshot(page: Page, name: string, options: { fullPage?: boolean } = {}): Promise<void> {
   mkdirSync(screenshotDir, { recursive: true });
-  await page.screenshot({ path: join(screenshotDir, `${name}.png`), fullPage: true });
+  await page.screenshot({ path: join(screenshotDir, `${name}.png`), fullPage: options.fullPage ?? true });
 }
 
 /** The newest message the mail sink received for an address, waiting a little for delivery. */
@@ -49,4 +62,34 @@ export function watchForPageErrors(page: Page): string[] {
     if (message.type() === "error" && !/status of 40[13]|status of 409|status of 422/.test(message.text())) problems.push(`console: ${message.text()}`);
   });
   return problems;
+}
+
+/**
+ * A JSON request to the app from the test itself, through node:http: Node's fetch refuses the
+ * Fetch standard's "bad ports" (10080 among them), and a test port base may land on one.
+ */
+export function appJson<T = unknown>(path: string, options: { method?: "GET" | "POST"; body?: unknown } = {}): Promise<{ status: number; body: T }> {
+  const payload = options.body === undefined ? undefined : JSON.stringify(options.body);
+  return new Promise((resolvePromise, reject) => {
+    const request = httpRequest(
+      new URL(path, appUrl),
+      { method: options.method ?? "GET", headers: { accept: "application/json", ...(payload ? { "content-type": "application/json", "content-length": Buffer.byteLength(payload) } : {}) }, timeout: 15_000 },
+      (response) => {
+        const chunks: Buffer[] = [];
+        response.on("data", (chunk: Buffer) => chunks.push(chunk));
+        response.on("end", () => {
+          const text = Buffer.concat(chunks).toString("utf8");
+          try {
+            resolvePromise({ status: response.statusCode ?? 0, body: (text ? JSON.parse(text) : undefined) as T });
+          } catch (error) {
+            reject(error);
+          }
+        });
+        response.on("error", reject);
+      },
+    );
+    request.on("timeout", () => request.destroy(new Error("timed out")));
+    request.on("error", reject);
+    request.end(payload);
+  });
 }

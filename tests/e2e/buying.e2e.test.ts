@@ -2,7 +2,7 @@ import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
-import { appUrl, desktop, inboxUrl, launchChromium, phone, screenshot, watchForPageErrors } from "./browser.ts";
+import { appJson, appUrl, desktop, inboxUrl, launchChromium, phone, screenshot, watchForPageErrors } from "./browser.ts";
 
 /** A picture of one part of a long page (the buy panel), beside the full-page ones. */
 async function partShot(page: Page, selector: string, name: string) {
@@ -27,8 +27,7 @@ const MAPLE_PAIR = "Spalted silver maple, sequential pair"; // Ridgeback Urban T
 const RED_OAK = "Wide red oak dining slab, seats eight";
 
 async function listingIdOf(title: string): Promise<string> {
-  const response = await fetch(`${appUrl}/api/v1/catalogue?limit=50`);
-  const body = (await response.json()) as { items?: { id?: string; listingId?: string; title: string }[]; results?: { id?: string; listingId?: string; title: string }[] };
+  const { body } = await appJson<{ items?: { id?: string; listingId?: string; title: string }[]; results?: { id?: string; listingId?: string; title: string }[] }>("/api/v1/catalogue?limit=50");
   const items = body.items ?? body.results ?? [];
   const item = items.find((i) => i.title === title);
   if (!item) throw new Error(`the seeded listing "${title}" is not in the catalogue`);
@@ -201,10 +200,10 @@ describe("buying a slab", () => {
           await other.locator('[data-test="buy-panel"]').waitFor({ timeout: 10_000 });
           return other.locator('[data-test="buy"]').isVisible();
         },
-        { timeout: 20_000, intervals: [500, 1000] },
+        { timeout: 20_000, interval: 500 },
       )
       .toBe(true);
-    const status = (await (await fetch(`${appUrl}/api/v1/catalogue/${listingId}`)).json()) as { listing: { status: string } };
+    const status = (await appJson<{ listing: { status: string } }>(`/api/v1/catalogue/${listingId}`)).body;
     expect(status.listing.status).toBe("live");
 
     // The declined buyer's order says what happened.
@@ -243,7 +242,7 @@ describe("buying a slab", () => {
     await expect.poll(() => page.locator('[data-test="order-cancelled"]').innerText(), { timeout: 15_000 }).toMatch(/refunded to the card/);
     await screenshot(page, "order-refunded-390");
     await mailArrives(CALLOWAY.email, /^Cancelled and refunded/);
-    const status = (await (await fetch(`${appUrl}/api/v1/catalogue/${listingId}`)).json()) as { listing: { status: string } };
+    const status = (await appJson<{ listing: { status: string } }>(`/api/v1/catalogue/${listingId}`)).body;
     expect(status.listing.status).toBe("live");
     // 422 for the empty reason is the API's field message, shown in the dialog.
     expect(problems.filter((p) => !/status of 422/.test(p))).toEqual([]);

@@ -37,11 +37,14 @@ import { createFavouriteService } from "./services/favourite-service.ts";
 import { createMessageService } from "./services/message-service.ts";
 import { createSavedSearchService } from "./services/saved-search-service.ts";
 import { adminRoutes } from "./routes/admin-routes.ts";
+import { payoutRoutes } from "./routes/payout-routes.ts";
+import { createPayoutService } from "./services/payout-service.ts";
 import { createAccountModeration } from "./services/account-moderation.ts";
 import { createAuditService } from "./services/audit-log.ts";
 import { createDashboardService } from "./services/dashboard-service.ts";
 import { createReportService } from "./services/report-service.ts";
 import { createSettingsService } from "./services/settings-service.ts";
+import { movableClock, testClockRoutes } from "./routes/test-clock-routes.ts";
 
 export interface AppDependencies {
   config: AppConfig;
@@ -53,7 +56,10 @@ export interface AppDependencies {
   now?: () => Date;
 }
 
-export function createApp(deps: AppDependencies) {
+export function createApp(appDeps: AppDependencies) {
+  // The end-to-end suite's movable clock (NODE_ENV=test with GRAINYARD_TEST_CLOCK=1 only): every service reads it.
+  const testClock = appDeps.config.testClock && appDeps.config.environment === "test" ? movableClock(appDeps.now) : null;
+  const deps: AppDependencies = testClock ? { ...appDeps, now: testClock.now } : appDeps;
   const { config, logger } = deps;
   const production = config.environment === "production";
   const app = express();
@@ -131,7 +137,9 @@ export function createApp(deps: AppDependencies) {
     log: logger,
     now: deps.now,
     onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
+    onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
   });
+  const payouts = createPayoutService({ dataSource: deps.dataSource, payments: deps.payments, mailer: deps.mailer, config, holdDays: () => settings.current().holdDays, log: logger, now: deps.now });
   const orders = createOrderService({
     dataSource: deps.dataSource,
     payments: deps.payments,
@@ -192,7 +200,8 @@ export function createApp(deps: AppDependencies) {
   app.use("/api/v1", catalogueRoutes(catalogue));
   app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), orderRoutes(checkout, orders));
   app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));
-  app.use("/api/v1", requireCsrfToken, adminRoutes({ listings, audit, reports, moderation, settings, dashboard }));
+  app.use("/api/v1", requireCsrfToken, adminRoutes({ listings, audit, reports, moderation, settings, dashboard }), payoutRoutes(payouts));
+  if (testClock) app.use("/api/_test", testClockRoutes(testClock));
   app.use("/api", apiNotFound);
 
   // The built web app, with the single-page fallback for its own routes.

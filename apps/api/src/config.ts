@@ -44,6 +44,8 @@ const environmentSchema = z.object({
   RESET_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(3),
   RESET_LIMIT_PER_IP: z.coerce.number().int().min(1).default(20),
   CATALOGUE_CACHE: z.enum(["on", "off"]).default("on"),
+  /** "1" gives the end-to-end API a clock the test can move forward (only with NODE_ENV=test). */
+  GRAINYARD_TEST_CLOCK: z.enum(["0", "1"]).default("0"),
 });
 
 export interface AppConfig {
@@ -62,6 +64,8 @@ export interface AppConfig {
   logLevel: string;
   /** Short-lived cache of repeated catalogue searches (see catalogue-service.ts). */
   catalogueCache: boolean;
+  /** A movable clock with POST /api/_test/clock: only ever true when NODE_ENV=test. */
+  testClock: boolean;
   limits: { signInPerAccount: number; signInPerIp: number; resetPerAccount: number; resetPerIp: number; windowMs: number };
 }
 
@@ -77,6 +81,9 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
   // Cost 12 or more outside tests: weaker hashing is only for fast test runs.
   if (env.NODE_ENV !== "test" && env.BCRYPT_COST < 12) {
     throw new ConfigError("configuration: BCRYPT_COST below 12 is allowed only when NODE_ENV=test.");
+  }
+  if (env.GRAINYARD_TEST_CLOCK === "1" && env.NODE_ENV !== "test") {
+    throw new ConfigError("configuration: GRAINYARD_TEST_CLOCK is allowed only when NODE_ENV=test.");
   }
   return {
     environment: env.NODE_ENV,
@@ -100,6 +107,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
     webDist: env.WEB_DIST,
     logLevel: env.LOG_LEVEL,
     catalogueCache: env.CATALOGUE_CACHE === "on",
+    testClock: env.NODE_ENV === "test" && env.GRAINYARD_TEST_CLOCK === "1",
     limits: {
       signInPerAccount: env.SIGN_IN_LIMIT_PER_ACCOUNT,
       signInPerIp: env.SIGN_IN_LIMIT_PER_IP,

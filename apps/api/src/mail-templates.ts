@@ -266,3 +266,43 @@ export function messageNoticeMail(to: string, displayName: string, fromName: str
     ...layout([`Hello ${displayName},`, `${fromName} wrote about "${listingTitle}":`, `“${excerpt}”`, "Answer on Grainyard so the conversation stays with the listing."], { label: "Read and answer", url: link }),
   };
 }
+
+const payoutMoney = (minor: number, currency: string) => new Intl.NumberFormat("en", { style: "currency", currency }).format(minor / 100);
+
+/** A payout went out to the sawyer's payout account. */
+export function payoutSentMail(sawyer: { email: string; displayName: string }, payout: { amountMinor: number; currency: string }, orderCount: number, link: string): OutgoingMail {
+  return {
+    to: sawyer.email,
+    subject: `Grainyard sent you ${payoutMoney(payout.amountMinor, payout.currency)}`,
+    ...layout(
+      [
+        `Hello ${sawyer.displayName},`,
+        `We sent ${payoutMoney(payout.amountMinor, payout.currency)} to your payout account, for ${orderCount === 1 ? "one order" : `${orderCount} orders`}.`,
+        "Your payouts page has the statement of the orders it covers; it can take a few working days to reach your bank.",
+      ],
+      { label: "See the statement", url: link },
+    ),
+  };
+}
+
+/** An admin refunded all or part of a disputed order; both parties read the reason. */
+export function disputeRefundMail(person: { email: string; displayName: string }, side: "buyer" | "sawyer", order: { title: string; currency: string; totalMinor: number }, amountMinor: number, reason: string, link: string): OutgoingMail {
+  const amount = payoutMoney(amountMinor, order.currency);
+  const whole = amountMinor === order.totalMinor;
+  return {
+    to: person.email,
+    subject: `${whole ? "Full" : "Partial"} refund on "${order.title}": ${amount}`,
+    ...layout(
+      [
+        `Hello ${person.displayName},`,
+        side === "buyer"
+          ? `We refunded ${amount} of your order for "${order.title}" to your card. It usually shows within 5–10 working days.`
+          : `We refunded ${amount} to the buyer of "${order.title}". Your share of it comes off the money Grainyard owes you for this order.`,
+        "The reason our team gave:",
+        `“${reason}”`,
+        "Reply to this e-mail if you want to add anything.",
+      ],
+      { label: "See the order", url: link },
+    ),
+  };
+}

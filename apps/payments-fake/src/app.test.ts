@@ -227,6 +227,8 @@ describe("webhook delivery", () => {
     const session = await newSession();
     await sdk.checkout.sessions.expire(session.id);
     await waitFor(() => events("checkout.session.expired").some((e) => (e.data.object as Stripe.Checkout.Session).id === session.id));
+    // The receiver stores the event before it answers: wait for the fake to record that answer too.
+    await waitFor(() => fake.webhooks.attempts.slice(before).some((a) => a.status === 200));
     const attempts = fake.webhooks.attempts.slice(before);
     expect(attempts.map((a) => a.status)).toEqual([500, 500, 200]);
   });

@@ -115,6 +115,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "Listing", roles: ["sawyer"] },
   },
   {
+    path: "/yard/payouts",
+    name: "payouts",
+    component: () => import("./views/PayoutsView.vue"),
+    meta: { title: "Payouts", roles: ["sawyer"] },
+  },
+  {
     path: "/orders",
     name: "orders",
     component: () => import("./views/OrdersView.vue"),
@@ -198,6 +204,12 @@ export const routes: RouteRecordRaw[] = [
     name: "admin-settings",
     component: () => import("./views/AdminSettingsView.vue"),
     meta: { title: "Marketplace settings", roles: ["admin"] },
+  },
+  {
+    path: "/admin/payouts",
+    name: "admin-payouts",
+    component: () => import("./views/AdminPayoutsView.vue"),
+    meta: { title: "Payouts desk", roles: ["admin"] },
   },
   {
     path: "/:pathMatch(.*)*",

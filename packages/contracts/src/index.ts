@@ -8,3 +8,4 @@ export * from "./catalogue.ts";
 export * from "./orders.ts";
 export * from "./buyer-tools.ts";
 export * from "./admin.ts";
+export * from "./payouts.ts";

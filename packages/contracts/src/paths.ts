@@ -78,3 +78,17 @@ export const buyerPaths = {
 
 /** Filing a report (anyone signed in). The admin desk's own paths live in admin.ts, beside its schemas. */
 export const reportPaths = { reports: `${API_PREFIX}/reports` } as const;
+
+/** Paying sawyers: their side under /yard, the admin's under /admin. */
+export const payoutPaths = {
+  mine: `${API_PREFIX}/yard/payouts`,
+  onboarding: `${API_PREFIX}/yard/payouts/account`,
+  refreshAccount: `${API_PREFIX}/yard/payouts/account/refresh`,
+  statement: `${API_PREFIX}/yard/payouts/statement.csv`,
+  due: `${API_PREFIX}/admin/payouts/due`,
+  approve: `${API_PREFIX}/admin/payouts`,
+  batch: `${API_PREFIX}/admin/payouts/batch`,
+  list: `${API_PREFIX}/admin/payouts`,
+  one: (payoutId: string) => `${API_PREFIX}/admin/payouts/${encodeURIComponent(payoutId)}`,
+  disputeRefund: (orderId: string) => `${API_PREFIX}/admin/orders/${encodeURIComponent(orderId)}/refund`,
+} as const;

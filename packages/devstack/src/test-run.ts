@@ -54,7 +54,8 @@ export async function runTestSuites(stack: RunningStack): Promise<number> {
   results.push(await runVitest("api", "@grainyard/api", testEnvironment));
 
   // End-to-end: the built web app served by the API, driven in Debian's Chromium.
-  const e2eEnvironment = stack.apiEnvironment("grainyard_e2e", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "info", WEB_DIST: join(repoRoot, "apps/web/dist") });
+  // GRAINYARD_TEST_CLOCK: the e2e suite may move the API's clock forward (hold periods); only ever with NODE_ENV=test.
+  const e2eEnvironment = stack.apiEnvironment("grainyard_e2e", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "info", WEB_DIST: join(repoRoot, "apps/web/dist"), GRAINYARD_TEST_CLOCK: "1" });
   let api: ManagedProcess | undefined;
   const apiLog = join(stack.profile.dataDir, "api-e2e.log");
   try {

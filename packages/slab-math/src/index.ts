@@ -45,6 +45,7 @@ export {
   roundHalfUp,
   feeBreakdown,
   slabPrice,
+  refundShares,
   type FeeSettings,
   type FeeBreakdown,
   type PriceMode,

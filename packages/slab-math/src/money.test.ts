@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { SlabMathError } from './errors.ts';
-import { feeBreakdown, roundHalfUp, slabPrice } from './money.ts';
+import { feeBreakdown, refundShares, roundHalfUp, slabPrice } from './money.ts';
 
 // Money rules are Grainyard's own specification (integer minor units, basis points, half-up once);
 // the expected values below are worked by hand.
@@ -152,5 +152,41 @@ describe('slabPrice', () => {
         expect(more).toBeGreaterThanOrEqual(base);
       }),
     );
+  });
+});
+
+describe('refundShares (largest remainder / Hamilton apportionment)', () => {
+  it('worked example: sizes 50, 30, 20 sharing 7 units → 4, 2, 1 (quotas 3.5, 2.1, 1.4; the one unit left goes to the 0.5 remainder)', () => {
+    // Source: worked example of the largest remainder (Hamilton) method, infinitelexicon.com "largestremainder".
+    expect(refundShares({ a: 50, b: 30, c: 20 }, 7)).toEqual({ a: 4, b: 2, c: 1 });
+  });
+  it('worked example: 500, 300, 110, 20 sharing 4 → 2, 1, 1, 0 (quotas 2.15, 1.29, 0.47, 0.09)', () => {
+    // Source: Hare-quota worked example of the largest remainders method (archipel-des-libertes.fr, "largest remainders method").
+    expect(refundShares({ a: 500, b: 300, c: 110, d: 20 }, 4)).toEqual({ a: 2, b: 1, c: 1, d: 0 });
+  });
+  it('a refund of everything gives every part back in full; nothing gives nothing', () => {
+    const order = { tax: 864, platformFee: 12_000, processing: 3_510, sawyerNet: 104_490 };
+    expect(refundShares(order, 120_864)).toEqual(order);
+    expect(refundShares(order, 0)).toEqual({ tax: 0, platformFee: 0, processing: 0, sawyerNet: 0 });
+  });
+  it('always adds up to the refund exactly, each share within one unit of its exact share (property)', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 0, max: 10_000_000 }), { minLength: 1, maxLength: 6 }), fc.double({ min: 0, max: 1, noNaN: true }), (sizes, fraction) => {
+        const parts = Object.fromEntries(sizes.map((size, i) => [`p${i}`, size]));
+        const total = sizes.reduce((a, b) => a + b, 0);
+        const refund = Math.floor(total * fraction);
+        const shares = refundShares(parts, refund);
+        expect(Object.values(shares).reduce((a, b) => a + b, 0)).toBe(refund);
+        for (const [key, size] of Object.entries(parts)) {
+          const exact = total === 0 ? 0 : (refund * size) / total;
+          expect(Math.abs(shares[key]! - exact)).toBeLessThan(1);
+        }
+      }),
+    );
+  });
+  it('refuses a refund above what was paid, negative or fractional money', () => {
+    expect(() => refundShares({ a: 10, b: 5 }, 16)).toThrow(SlabMathError);
+    expect(() => refundShares({ a: 10 }, -1)).toThrow(SlabMathError);
+    expect(() => refundShares({ a: 10.5 }, 1)).toThrow(SlabMathError);
   });
 });

@@ -127,3 +127,39 @@ export function slabPrice(input: SlabPriceInput): SlabPrice {
   }
   return { priceMinor, mode: input.mode, quantity };
 }
+
+/**
+ * A partial refund split across the parts of what the buyer paid, in proportion to each part,
+ * so the ledger can take back a share of each and still sum to zero. Whole minor units by the
+ * largest remainder method (Hamilton's apportionment): every part first gets the floor of its
+ * exact share, then the units left over go one each to the parts with the largest remainders
+ * (ties to the earlier part). The shares always add up to the refund exactly, and a refund of
+ * everything gives back every part in full.
+ */
+export function refundShares<K extends string>(parts: Record<K, number>, refundMinor: number): Record<K, number> {
+  const keys = Object.keys(parts) as K[];
+  for (const key of keys) {
+    if (!Number.isSafeInteger(parts[key]) || parts[key] < 0) throw new SlabMathError('not_integer', key, `${key} must be a whole, non-negative number of minor units`);
+  }
+  const total = keys.reduce((sum, key) => sum + parts[key], 0);
+  if (!Number.isSafeInteger(refundMinor) || refundMinor < 0) throw new SlabMathError('not_integer', 'refundMinor', 'The refund must be a whole, non-negative number of minor units');
+  if (refundMinor > total) throw new SlabMathError('out_of_range', 'refundMinor', 'The refund cannot be more than was paid');
+  const shares = {} as Record<K, number>;
+  if (total === 0) {
+    for (const key of keys) shares[key] = 0;
+    return shares;
+  }
+  const big = BigInt(refundMinor);
+  const bigTotal = BigInt(total);
+  const remainders: { key: K; remainder: bigint; index: number }[] = [];
+  let given = 0;
+  keys.forEach((key, index) => {
+    const exact = big * BigInt(parts[key]);
+    shares[key] = Number(exact / bigTotal);
+    given += shares[key];
+    remainders.push({ key, remainder: exact % bigTotal, index });
+  });
+  remainders.sort((a, b) => (a.remainder === b.remainder ? a.index - b.index : a.remainder > b.remainder ? -1 : 1));
+  for (let i = 0; i < refundMinor - given; i++) shares[remainders[i]!.key] += 1;
+  return shares;
+}

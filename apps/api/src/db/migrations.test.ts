@@ -34,7 +34,7 @@ describe("migrations", () => {
     await dataSource.runMigrations({ transaction: "each" });
     const pending = await dataSource.driver.createSchemaBuilder().log();
     expect(pending.upQueries.map((q) => q.query)).toEqual([]);
-    expect(await tables()).toEqual(["account", "audit_entry", "buyer_order", "catalogue_entry", "content_report", "email_token", "favourite", "ledger_entry", "listing", "listing_photo", "listing_review", "listing_slab", "log_photo", "marketplace_setting", "message", "message_thread", "moisture_reading", "payment_event", "saved_search", "saved_search_match", "schema_migration", "session_record", "slab", "yard_log"]);
+    expect(await tables()).toEqual(["account", "audit_entry", "buyer_order", "catalogue_entry", "content_report", "email_token", "favourite", "ledger_entry", "listing", "listing_photo", "listing_review", "listing_slab", "log_photo", "marketplace_setting", "message", "message_thread", "moisture_reading", "order_refund", "payment_event", "payout", "payout_account", "payout_line", "saved_search", "saved_search_match", "schema_migration", "session_record", "slab", "yard_log"]);
   });
 
   it("revert cleanly with down, and apply again", async () => {

@@ -36,3 +36,11 @@ import { ListingReviewEntity } from "./listing-review.ts";
 import { MarketplaceSettingEntity } from "./marketplace-setting.ts";
 export { AuditEntryEntity, ContentReportEntity, ListingReviewEntity, MarketplaceSettingEntity };
 entities.push(ListingReviewEntity, AuditEntryEntity, ContentReportEntity, MarketplaceSettingEntity);
+
+// Paying sawyers: payout accounts, payouts with their lines, and admins' dispute refunds.
+import { OrderRefundEntity } from "./order-refund.ts";
+import { PayoutAccountEntity } from "./payout-account.ts";
+import { PayoutLineEntity } from "./payout-line.ts";
+import { PayoutEntity } from "./payout.ts";
+export { OrderRefundEntity, PayoutAccountEntity, PayoutEntity, PayoutLineEntity };
+entities.push(PayoutAccountEntity, PayoutEntity, PayoutLineEntity, OrderRefundEntity);

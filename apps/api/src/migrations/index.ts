@@ -25,3 +25,7 @@ migrations.push(OrderSteps1764727200000);
 // Operator desk: review snapshots, audit log, reports, settings, suspension.
 import { OperatorDesk1764738000000 } from "./1764738000000-operator-desk.ts";
 migrations.push(OperatorDesk1764738000000);
+
+// Paying sawyers: payout accounts, payouts and their lines, dispute refunds.
+import { Payouts1764748800000 } from "./1764748800000-payouts.ts";
+migrations.push(Payouts1764748800000);

@@ -144,6 +144,39 @@ const routes: RouteCase[] = [
   ...adminOnly("GET /api/v1/admin/settings", (c) => c.get("/api/v1/admin/settings")),
   ...adminOnly("PATCH /api/v1/admin/settings", (c) => c.patch("/api/v1/admin/settings", { holdDays: 7, reason: "Matrix keeps seven days." })),
   ...adminOnly("GET /api/v1/admin/dashboard", (c) => c.get("/api/v1/admin/dashboard")),
+  // Payouts and dispute refunds (payouts.test.ts has the behaviour).
+  {
+    name: "GET /api/v1/yard/payouts",
+    call: (c) => c.get("/api/v1/yard/payouts"),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/yard/payouts/account",
+    call: (c) => c.post("/api/v1/yard/payouts/account"),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  },
+  {
+    name: "POST /api/v1/yard/payouts/account/refresh",
+    call: (c) => c.post("/api/v1/yard/payouts/account/refresh"),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/yard/payouts/statement.csv",
+    call: (c) => c.get("/api/v1/yard/payouts/statement.csv"),
+    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  },
+  {
+    name: "GET /api/v1/yard/payouts/:payoutId (unknown)",
+    call: (c) => c.get(`/api/v1/yard/payouts/${randomUUID()}`),
+    expected: { anonymous: 401, buyer: 403, sawyer: 404, otherSawyer: 404, admin: 403 },
+  },
+  ...adminOnly("GET /api/v1/admin/payouts/due", (c) => c.get("/api/v1/admin/payouts/due")),
+  ...adminOnly("POST /api/v1/admin/payouts (a sawyer with no payout account)", (c) => c.post("/api/v1/admin/payouts", { sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }), 409),
+  ...adminOnly("POST /api/v1/admin/payouts/batch", (c) => c.post("/api/v1/admin/payouts/batch", { payouts: [{ sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }] })),
+  ...adminOnly("GET /api/v1/admin/payouts", (c) => c.get("/api/v1/admin/payouts")),
+  ...adminOnly("GET /api/v1/admin/payouts/:payoutId (unknown)", (c) => c.get(`/api/v1/admin/payouts/${randomUUID()}`), 404),
+  ...adminOnly("GET /api/v1/admin/orders/:orderId/refund (unknown order)", (c) => c.get(`/api/v1/admin/orders/${randomUUID()}/refund`), 404),
+  ...adminOnly("POST /api/v1/admin/orders/:orderId/refund (unknown order)", (c) => c.post(`/api/v1/admin/orders/${randomUUID()}/refund`, { amountMinor: 100, reason: "Matrix refunds." }), 404),
   {
     name: "POST /api/v1/yard/listings/:listingId/withdraw (last: it ends the draft)",
     call: (c, ids) => c.post(`/api/v1/yard/listings/${ids.listingId}/withdraw`),

@@ -41,6 +41,8 @@ export function createCheckoutService(deps: {
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
   onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** A connected (payout) account changed at the provider; true when it is one of ours. */
+  onAccountUpdated?: (account: Stripe.Account, manager: EntityManager) => Promise<boolean>;
 }) {
   const { dataSource, payments, config } = deps;
   const now = deps.now ?? (() => new Date());
@@ -179,6 +181,8 @@ export function createCheckoutService(deps: {
           .orIgnore()
           .execute();
         if ((inserted.raw as { affectedRows?: number }).affectedRows === 0) return "duplicate" as const;
+        // A sawyer's payout account changed at the provider (set-up finished, say).
+        if (event.type === "account.updated") return (await deps.onAccountUpdated?.(event.data.object as Stripe.Account, manager)) ? ("handled" as const) : ("ignored" as const);
         const object = event.data.object as { id: string; metadata?: Record<string, string>; payment_intent?: string | null };
         const orderId = object.metadata?.order_id;
         if (!orderId) return "ignored" as const;
