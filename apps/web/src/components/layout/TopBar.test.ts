@@ -26,7 +26,7 @@ describe("top bar", () => {
   it("gives a sawyer Messages beside the yard, with no badge when all is read", async () => {
     const { wrapper } = await mountView(TopBar, { path: "/yard", session: { account: sawyerAccount }, answers: { [`GET ${buyerPaths.threads}`]: [{ status: 200, body: { threads: [threadSummary({ myRole: "sawyer" })] } }] } });
     await flushPromises();
-    expect(wrapper.findAll(".topbar__list a").map((a) => a.text().trim())).toEqual(["My yard", "Orders", "Messages"]);
+    expect(wrapper.findAll(".topbar__list a").map((a) => a.text().trim())).toEqual(["My yard", "Orders", "Messages", "Payouts"]);
     expect(wrapper.find('[data-test="unread-badge"]').exists()).toBe(false);
     wrapper.unmount();
   });
