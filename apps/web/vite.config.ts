@@ -1,11 +1,12 @@
 /// <reference types="vitest/config" />
 import { defineConfig } from "vite";
 import vue from "@vitejs/plugin-vue";
+import { catalogueRouteSize } from "./route-size.ts";
 
 const apiTarget = process.env.GRAINYARD_API_URL ?? "http://127.0.0.1:5080";
 
 export default defineConfig({
-  plugins: [vue()],
+  plugins: [vue(), catalogueRouteSize()],
   server: {
     proxy: {
       "/api": { target: apiTarget, changeOrigin: false },
@@ -23,7 +24,7 @@ export default defineConfig({
   },
   test: {
     environment: "happy-dom",
-    include: ["src/**/*.test.ts"],
+    include: ["src/**/*.test.ts", "route-size.test.ts"],
     restoreMocks: true,
   },
 });
