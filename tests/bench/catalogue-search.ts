@@ -1,5 +1,6 @@
 /*
- * Catalogue search benchmark, in one run on one machine (see `npm run bench`):
+ * Catalogue search benchmark, in one run on one machine (see `npm run bench`); the HTTP load comes
+ * from a separate process (load-generator.mjs), as real clients would:
  *   1. a bare Express endpoint returning a JSON page of the same size as the search's answer,
  *   2. the catalogue search API (the real app, real MariaDB with the national-scale seed),
  *   3. the raw SQL of that search's page query through mysql2.
@@ -8,7 +9,8 @@
  * API time ≤ 1.5 × raw SQL time.
  */
 import type { AddressInfo } from "node:net";
-import autocannon from "autocannon";
+import { spawn } from "node:child_process";
+import { join } from "node:path";
 import express from "express";
 import mysql from "mysql2/promise";
 import { catalogueQuerySchema } from "../../packages/contracts/src/index.ts";
@@ -72,17 +74,18 @@ function percentiles(name: string, latencies: number[], seconds: number): Figure
   return { name, requestsPerSecond: latencies.length / seconds, p50: at(50), p95: at(95), p99: at(99) };
 }
 
-/** autocannon drives the HTTP endpoints; every response time is kept, so p95 is exact. */
+/**
+ * autocannon drives the HTTP endpoints from a separate process (load-generator.mjs), as real
+ * clients would be; every response time is kept, so p95 is exact.
+ */
 async function cannon(name: string, url: string): Promise<Figures> {
-  const latencies: number[] = [];
-  let failures = 0;
-  const instance = autocannon({ url, connections: CONNECTIONS, duration: SECONDS, pipelining: 1 });
-  instance.on("response", (_client: unknown, statusCode: number, _bytes: number, responseTime: number) => {
-    if (statusCode !== 200) failures += 1;
-    latencies.push(responseTime);
-  });
-  const result = await instance;
-  if (failures > 0 || result.errors > 0) throw new Error(`${name}: ${failures} failed answers and ${result.errors} errors`);
+  const child = spawn(process.execPath, [join(import.meta.dirname, "load-generator.mjs"), url, String(CONNECTIONS), String(SECONDS)], { stdio: ["ignore", "pipe", "inherit"] });
+  let output = "";
+  child.stdout.on("data", (chunk: Buffer) => (output += chunk.toString()));
+  const code = await new Promise<number | null>((resolve) => child.on("close", resolve));
+  if (code !== 0) throw new Error(`${name}: the load generator stopped with code ${code}`);
+  const { latencies, failures, errors } = JSON.parse(output) as { latencies: number[]; failures: number; errors: number };
+  if (failures > 0 || errors > 0) throw new Error(`${name}: ${failures} failed answers and ${errors} errors`);
   return percentiles(name, latencies, SECONDS);
 }
 
