@@ -1,13 +1,11 @@
-import { createServer, type Server } from "node:http";
+import type { Server } from "node:http";
 import type { AddressInfo } from "node:net";
-import { mkdtempSync, rmSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join } from "node:path";
 import sharp from "sharp";
 import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import { createPaymentsFakeApp, signatureHeader, type PaymentsFakeApp } from "@grainyard/payments-fake";
+import { signatureHeader, type PaymentsFakeApp } from "@grainyard/payments-fake";
 import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
+import { expectLedgerBalanced, listenForWebhooks, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -15,7 +13,8 @@ import { createTestContext, mailTo, testClock, type BrowserClient, type TestCont
  * driven through the official SDK by the API, with real MariaDB and SMTP.
  */
 const WEBHOOK_SECRET = "whsec_checkout_test";
-const dir = mkdtempSync(join(tmpdir(), "checkout-"));
+let payments: TestPaymentsFake;
+let webhookUrl = "";
 let fake: PaymentsFakeApp;
 let fakeServer: Server;
 let apiServer: Server;
@@ -41,42 +40,27 @@ async function pay(checkoutUrl: string, card: string) {
 
 const listingStatus = async (id: string) => (await ctx.dataSource.getRepository(ListingEntity).findOneByOrFail({ id })).status;
 const orderOf = async (id: string) => ctx.dataSource.getRepository(OrderEntity).findOneByOrFail({ id });
-async function until(check: () => Promise<boolean>, ms = 5000) {
-  const deadline = Date.now() + ms;
-  while (!(await check())) {
-    if (Date.now() > deadline) throw new Error("timed out");
-    await new Promise((r) => setTimeout(r, 25));
-  }
-}
-async function ledgerSumsToZero() {
-  const rows = (await ctx.dataSource.query("SELECT currency, SUM(amount_minor) AS total FROM ledger_entry GROUP BY currency")) as { total: string }[];
-  for (const row of rows) expect(Number(row.total)).toBe(0);
-}
+const ledgerSumsToZero = () => expectLedgerBalanced(ctx.dataSource);
 
 beforeAll(async () => {
-  fake = createPaymentsFakeApp({ stateFile: join(dir, "state.json"), secretKey: "sk_test_checkout", webhook: { secret: WEBHOOK_SECRET, retryBaseMs: 25, maxAttempts: 6 } });
-  fakeServer = fake.listen(0, "127.0.0.1");
-  await new Promise((r) => fakeServer.once("listening", r));
-  const fakePort = (fakeServer.address() as AddressInfo).port;
-  fakeBase = `http://127.0.0.1:${fakePort}`;
+  payments = await startPaymentsFake({ secretKey: "sk_test_checkout", webhookSecret: WEBHOOK_SECRET });
+  ({ fake, server: fakeServer } = payments);
+  fakeBase = payments.base;
   ctx = await createTestContext({
     clock,
-    environment: { PAYMENTS_HOST: "127.0.0.1", PAYMENTS_PORT: String(fakePort), PAYMENTS_PROTOCOL: "http", PAYMENTS_SECRET_KEY: "sk_test_checkout", PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, TAX_RATE_BPS: "800", SIGN_IN_LIMIT_PER_IP: "1000" },
+    environment: { ...payments.environment, TAX_RATE_BPS: "800", SIGN_IN_LIMIT_PER_IP: "1000" },
   });
-  apiServer = createServer(ctx.app).listen(0, "127.0.0.1");
-  await new Promise((r) => apiServer.once("listening", r));
-  fake.webhooks.options.url = `http://127.0.0.1:${(apiServer.address() as AddressInfo).port}/api/v1/payments/webhook`;
+  ({ server: apiServer, webhookUrl } = await listenForWebhooks(ctx.app));
+  fake.webhooks.options.url = webhookUrl;
   sawyer = await ctx.signedInClient("sawyer");
   admin = await ctx.signedInClient("admin");
   photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a4f32" } }).jpeg().toBuffer();
 }, 60_000);
 afterEach(async () => ledgerSumsToZero());
 afterAll(async () => {
-  fake.webhooks.stop();
   await new Promise((r) => apiServer.close(r));
-  await new Promise((r) => fakeServer.close(r));
+  await payments.close();
   await ctx?.close();
-  rmSync(dir, { recursive: true, force: true });
 });
 
 describe("buying a slab", () => {

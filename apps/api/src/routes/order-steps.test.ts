@@ -1,13 +1,10 @@
-import { createServer, type Server } from "node:http";
-import type { AddressInfo } from "node:net";
-import { mkdtempSync, rmSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join } from "node:path";
+import type { Server } from "node:http";
 import sharp from "sharp";
 import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import { createPaymentsFakeApp, type PaymentsFakeApp } from "@grainyard/payments-fake";
+import type { PaymentsFakeApp } from "@grainyard/payments-fake";
 import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
+import { expectLedgerBalanced, listenForWebhooks, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -16,7 +13,9 @@ import { createTestContext, mailTo, testClock, type BrowserClient, type TestCont
  * (through the official SDK), real MariaDB and the real SMTP sink.
  */
 const WEBHOOK_SECRET = "whsec_order_steps_test";
-const dir = mkdtempSync(join(tmpdir(), "order-steps-"));
+let payments: TestPaymentsFake;
+let fakeBase = "";
+let webhookUrl = "";
 let fake: PaymentsFakeApp;
 let fakeServer: Server;
 let fakePort = 0;
@@ -39,17 +38,7 @@ async function liveListing(priceMinor: number) {
 
 const orderOf = async (id: string) => ctx.dataSource.getRepository(OrderEntity).findOneByOrFail({ id });
 const listingStatus = async (id: string) => (await ctx.dataSource.getRepository(ListingEntity).findOneByOrFail({ id })).status;
-async function until(check: () => Promise<boolean>, ms = 8000) {
-  const deadline = Date.now() + ms;
-  while (!(await check())) {
-    if (Date.now() > deadline) throw new Error("timed out");
-    await new Promise((r) => setTimeout(r, 25));
-  }
-}
-async function ledgerSumsToZero() {
-  const rows = (await ctx.dataSource.query("SELECT currency, SUM(amount_minor) AS total FROM ledger_entry GROUP BY currency")) as { total: string }[];
-  for (const row of rows) expect(Number(row.total)).toBe(0);
-}
+const ledgerSumsToZero = () => expectLedgerBalanced(ctx.dataSource);
 const mailed = (address: string, subject: RegExp) => until(async () => (await mailTo(address)).some((m) => subject.test(m.subject)));
 
 /** A buyer buys a fresh listing with the test card; resolves once the webhook made the order paid. */
@@ -68,28 +57,25 @@ const hours = (n: number) => new Date(clock.now().getTime() + n * 3_600_000).toI
 const windowsInput = () => ({ windows: [{ startsAt: hours(48), endsAt: hours(50) }, { startsAt: hours(24), endsAt: hours(26) }], pickupAddress: "Gate 2, 48 Sawmill Road, Lakemont" });
 
 beforeAll(async () => {
-  fake = createPaymentsFakeApp({ stateFile: join(dir, "state.json"), secretKey: "sk_test_steps", webhook: { secret: WEBHOOK_SECRET, retryBaseMs: 25, maxAttempts: 6 } });
-  fakeServer = fake.listen(0, "127.0.0.1");
-  await new Promise((r) => fakeServer.once("listening", r));
-  fakePort = (fakeServer.address() as AddressInfo).port;
+  payments = await startPaymentsFake({ secretKey: "sk_test_steps", webhookSecret: WEBHOOK_SECRET });
+  ({ fake, server: fakeServer } = payments);
+  fakeBase = payments.base;
+  fakePort = payments.port;
   ctx = await createTestContext({
     clock,
-    environment: { PAYMENTS_HOST: "127.0.0.1", PAYMENTS_PORT: String(fakePort), PAYMENTS_PROTOCOL: "http", PAYMENTS_SECRET_KEY: "sk_test_steps", PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, TAX_RATE_BPS: "500", AUTO_COMPLETE_DAYS: "14", SIGN_IN_LIMIT_PER_IP: "1000" },
+    environment: { ...payments.environment, TAX_RATE_BPS: "500", AUTO_COMPLETE_DAYS: "14", SIGN_IN_LIMIT_PER_IP: "1000" },
   });
-  apiServer = createServer(ctx.app).listen(0, "127.0.0.1");
-  await new Promise((r) => apiServer.once("listening", r));
-  fake.webhooks.options.url = `http://127.0.0.1:${(apiServer.address() as AddressInfo).port}/api/v1/payments/webhook`;
+  ({ server: apiServer, webhookUrl } = await listenForWebhooks(ctx.app));
+  fake.webhooks.options.url = webhookUrl;
   sawyer = await ctx.signedInClient("sawyer", { yardName: "Heron Bay Slabs", pickupTown: "Lakemont" });
   admin = await ctx.signedInClient("admin");
   photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#9a6a3a" } }).jpeg().toBuffer();
 }, 60_000);
 afterEach(async () => ledgerSumsToZero());
 afterAll(async () => {
-  fake.webhooks.stop();
   await new Promise((r) => apiServer.close(r));
-  await new Promise((r) => fakeServer.close(r));
+  await payments.close();
   await ctx?.close();
-  rmSync(dir, { recursive: true, force: true });
 });
 
 describe("order steps after payment", () => {
@@ -314,6 +300,7 @@ describe("cancelling before hand-over", () => {
       expect(await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId: first.orderId, kind: "refund" })).toBe(0);
     } finally {
       fakeServer = fake.listen(fakePort, "127.0.0.1");
+      payments.server = fakeServer;
       await new Promise((r) => fakeServer.once("listening", r));
     }
 

@@ -1,14 +1,12 @@
-import { createServer, type Server } from "node:http";
+import type { Server } from "node:http";
 import type { AddressInfo } from "node:net";
-import { mkdtempSync, rmSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join } from "node:path";
 import sharp from "sharp";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import { createPaymentsFakeApp, type PaymentsFakeApp } from "@grainyard/payments-fake";
+import type { PaymentsFakeApp } from "@grainyard/payments-fake";
 import { feeBreakdown } from "@grainyard/slab-math";
 import { OrderEntity, PayoutAccountEntity } from "../entities/index.ts";
 import { createPayments } from "../integrations/payments.ts";
+import { expectLedgerBalanced, listenForWebhooks, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
 import { browserClient, createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -19,7 +17,8 @@ import { browserClient, createTestContext, mailTo, testClock, type BrowserClient
  */
 const WEBHOOK_SECRET = "whsec_payouts_test";
 const DAY = 24 * 3_600_000;
-const dir = mkdtempSync(join(tmpdir(), "payouts-"));
+let payments: TestPaymentsFake;
+let webhookUrl = "";
 let fake: PaymentsFakeApp;
 let fakeServer: Server;
 let fakeBase = "";
@@ -36,17 +35,7 @@ async function signInAgain(client: Client): Promise<Client> {
   return Object.assign(fresh, { account: client.account });
 }
 
-async function until(check: () => Promise<boolean>, ms = 8000) {
-  const deadline = Date.now() + ms;
-  while (!(await check())) {
-    if (Date.now() > deadline) throw new Error("timed out");
-    await new Promise((r) => setTimeout(r, 25));
-  }
-}
-async function ledgerSumsToZero() {
-  const rows = (await ctx.dataSource.query("SELECT currency, SUM(amount_minor) AS total FROM ledger_entry GROUP BY currency")) as { total: string }[];
-  for (const row of rows) expect(Number(row.total)).toBe(0);
-}
+const ledgerSumsToZero = () => expectLedgerBalanced(ctx.dataSource);
 const orderOf = (id: string) => ctx.dataSource.getRepository(OrderEntity).findOneByOrFail({ id });
 
 /** A sawyer, an admin and a buyer of their own (sessions start at the test clock's time). */
@@ -110,26 +99,22 @@ const transfersTo = (accountId: string) => fake.store.all("transfer").filter((t)
 const providerAccountOf = async (sawyerId: string) => (await ctx.dataSource.getRepository(PayoutAccountEntity).findOneByOrFail({ sawyerId })).providerAccountId;
 
 beforeAll(async () => {
-  fake = createPaymentsFakeApp({ stateFile: join(dir, "state.json"), secretKey: "sk_test_payouts", webhook: { secret: WEBHOOK_SECRET, retryBaseMs: 25, maxAttempts: 6 } });
-  fakeServer = fake.listen(0, "127.0.0.1");
-  await new Promise((r) => fakeServer.once("listening", r));
-  fakeBase = `http://127.0.0.1:${(fakeServer.address() as AddressInfo).port}`;
+  payments = await startPaymentsFake({ secretKey: "sk_test_payouts", webhookSecret: WEBHOOK_SECRET });
+  ({ fake, server: fakeServer } = payments);
+  fakeBase = payments.base;
   ctx = await createTestContext({
     clock,
-    environment: { PAYMENTS_HOST: "127.0.0.1", PAYMENTS_PORT: fakeBase.split(":")[2]!, PAYMENTS_PROTOCOL: "http", PAYMENTS_SECRET_KEY: "sk_test_payouts", PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, TAX_RATE_BPS: "0", SIGN_IN_LIMIT_PER_IP: "1000" },
+    environment: { ...payments.environment, TAX_RATE_BPS: "0", SIGN_IN_LIMIT_PER_IP: "1000" },
   });
-  apiServer = createServer(ctx.app).listen(0, "127.0.0.1");
-  await new Promise((r) => apiServer.once("listening", r));
-  fake.webhooks.options.url = `http://127.0.0.1:${(apiServer.address() as AddressInfo).port}/api/v1/payments/webhook`;
+  ({ server: apiServer, webhookUrl } = await listenForWebhooks(ctx.app));
+  fake.webhooks.options.url = webhookUrl;
   photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#5a3a22" } }).jpeg().toBuffer();
 }, 60_000);
 afterEach(async () => ledgerSumsToZero());
 afterAll(async () => {
-  fake.webhooks.stop();
   await new Promise((r) => apiServer.close(r));
-  await new Promise((r) => fakeServer.close(r));
+  await payments.close();
   await ctx?.close();
-  rmSync(dir, { recursive: true, force: true });
 });
 
 describe("payouts to sawyers", () => {
@@ -220,6 +205,7 @@ describe("payouts to sawyers", () => {
     fakeServer.closeAllConnections();
     const down = await admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey });
     fakeServer = fake.listen(port, "127.0.0.1");
+    payments.server = fakeServer;
     await new Promise((r) => fakeServer.once("listening", r));
     expect(down.status).toBe(503);
     expect(down.body.error.message).toMatch(/not answering/);

@@ -1,11 +1,8 @@
 import { createServer, type Server } from "node:http";
 import type { AddressInfo } from "node:net";
-import { mkdtempSync, rmSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join } from "node:path";
 import sharp from "sharp";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import { createPaymentsFakeApp, type PaymentsFakeApp } from "@grainyard/payments-fake";
+import type { PaymentsFakeApp } from "@grainyard/payments-fake";
 import { createApp } from "../app.ts";
 import { createDataSource } from "../db/data-source.ts";
 import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
@@ -13,6 +10,7 @@ import { createMailer } from "../integrations/mail.ts";
 import { createPayments } from "../integrations/payments.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
+import { expectLedgerBalanced, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
 import { createTestContext, mailTo, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -22,9 +20,8 @@ import { createTestContext, mailTo, type BrowserClient, type TestContext } from 
  * retried delivery and completes the order exactly once.
  */
 const WEBHOOK_SECRET = "whsec_restart_test";
-const dir = mkdtempSync(join(tmpdir(), "restart-"));
+let payments: TestPaymentsFake;
 let fake: PaymentsFakeApp;
-let fakeServer: Server;
 let ctx: TestContext;
 let sawyer: BrowserClient & { account: { id: string; email: string } };
 let admin: BrowserClient;
@@ -39,17 +36,7 @@ async function freePort(): Promise<number> {
   await new Promise((r) => probe.close(r));
   return port;
 }
-async function until(check: () => Promise<boolean>, ms = 10_000) {
-  const deadline = Date.now() + ms;
-  while (!(await check())) {
-    if (Date.now() > deadline) throw new Error("timed out");
-    await new Promise((r) => setTimeout(r, 25));
-  }
-}
-async function ledgerSumsToZero() {
-  const rows = (await ctx.dataSource.query("SELECT currency, SUM(amount_minor) AS total FROM ledger_entry GROUP BY currency")) as { total: string }[];
-  for (const row of rows) expect(Number(row.total)).toBe(0);
-}
+const ledgerSumsToZero = () => expectLedgerBalanced(ctx.dataSource);
 
 /** Another API process on the same database (as after a restart), listening where the webhooks go. */
 async function startSecondInstance(port: number) {
@@ -73,13 +60,9 @@ async function startSecondInstance(port: number) {
 }
 
 beforeAll(async () => {
-  fake = createPaymentsFakeApp({ stateFile: join(dir, "state.json"), secretKey: "sk_test_restart", webhook: { secret: WEBHOOK_SECRET, retryBaseMs: 150, maxAttempts: 8 } });
-  fakeServer = fake.listen(0, "127.0.0.1");
-  await new Promise((r) => fakeServer.once("listening", r));
-  const fakePort = (fakeServer.address() as AddressInfo).port;
-  ctx = await createTestContext({
-    environment: { PAYMENTS_HOST: "127.0.0.1", PAYMENTS_PORT: String(fakePort), PAYMENTS_PROTOCOL: "http", PAYMENTS_SECRET_KEY: "sk_test_restart", PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, SIGN_IN_LIMIT_PER_IP: "1000" },
-  });
+  payments = await startPaymentsFake({ secretKey: "sk_test_restart", webhookSecret: WEBHOOK_SECRET, retryBaseMs: 150, maxAttempts: 8 });
+  fake = payments.fake;
+  ctx = await createTestContext({ environment: { ...payments.environment, SIGN_IN_LIMIT_PER_IP: "1000" } });
   webhookPort = await freePort();
   fake.webhooks.options.url = `http://127.0.0.1:${webhookPort}/api/v1/payments/webhook`;
   sawyer = await ctx.signedInClient("sawyer");
@@ -90,9 +73,8 @@ afterEach(async () => ledgerSumsToZero());
 afterAll(async () => {
   fake.webhooks.stop();
   for (const cleanup of cleanups) await cleanup().catch(() => undefined);
-  await new Promise((r) => fakeServer.close(r));
+  await payments.close();
   await ctx?.close();
-  rmSync(dir, { recursive: true, force: true });
 });
 
 describe("the API restarting between payment and webhook", () => {

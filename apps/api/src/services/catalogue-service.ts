@@ -23,6 +23,41 @@ function featuresOf(bits: number) {
   return slabFeatures.filter((f) => (bits & FEATURE_BITS[f]) !== 0);
 }
 
+/** A catalogue card from a catalogue row, with no search context (no distance, no fit). */
+export function plainCatalogueCard(entry: CatalogueEntryEntity): CatalogueCard {
+  return {
+    listingId: entry.listingId,
+    title: entry.title,
+    speciesSlug: entry.speciesSlug,
+    setKind: entry.setKind,
+    slabCount: entry.slabCount,
+    lengthMm: entry.lengthMm,
+    averageWidthMm: entry.averageWidthMm,
+    minWidthMm: entry.minWidthMm,
+    thicknessMm: entry.thicknessMm,
+    boardFeet: entry.boardFeet,
+    volumeM3: entry.volumeM3,
+    weightKg: entry.weightKg,
+    weightHighKg: entry.weightHighKg,
+    moisturePct: entry.moisturePct,
+    ready: entry.ready,
+    priceMinor: entry.priceMinor,
+    pricePerBoardFootMinor: entry.pricePerBoardFootMinor,
+    currency: entry.currency,
+    liveEdge: entry.liveEdge,
+    features: featuresOf(entry.featureBits),
+    freight: entry.freight,
+    pickup: entry.pickup,
+    town: entry.town,
+    yardName: entry.yardName,
+    distanceKm: null,
+    fit: null,
+    photoUrl: entry.photoId ? yardPaths.photoImage(entry.photoId, "small") : null,
+    photoAlt: entry.photoAlt,
+    publishedAt: entry.publishedAt.toISOString(),
+  };
+}
+
 /** Haversine distance in SQL (km) from a fixed point to the entry's position. */
 function distanceSql(alias: string) {
   return `(${EARTH_RADIUS_KM} * 2 * ASIN(SQRT(POWER(SIN(RADIANS(${alias}.latitude - :nearLatitude) / 2), 2) + COS(RADIANS(:nearLatitude)) * COS(RADIANS(${alias}.latitude)) * POWER(SIN(RADIANS(${alias}.longitude - :nearLongitude) / 2), 2))))`;
@@ -163,39 +198,14 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
     }
   }
 
+  /** A search result's card: the plain card, with the distance from the chosen town and the fit's spare margin. */
   function toCard(entry: CatalogueEntryEntity, distance: number | null, top: ReturnType<typeof wantedTop>): CatalogueCard {
     return {
-      listingId: entry.listingId,
-      title: entry.title,
-      speciesSlug: entry.speciesSlug,
-      setKind: entry.setKind,
-      slabCount: entry.slabCount,
-      lengthMm: entry.lengthMm,
-      averageWidthMm: entry.averageWidthMm,
-      minWidthMm: entry.minWidthMm,
-      thicknessMm: entry.thicknessMm,
-      boardFeet: entry.boardFeet,
-      volumeM3: entry.volumeM3,
-      weightKg: entry.weightKg,
-      weightHighKg: entry.weightHighKg,
-      moisturePct: entry.moisturePct,
-      ready: entry.ready,
-      priceMinor: entry.priceMinor,
-      pricePerBoardFootMinor: entry.pricePerBoardFootMinor,
-      currency: entry.currency,
-      liveEdge: entry.liveEdge,
-      features: featuresOf(entry.featureBits),
-      freight: entry.freight,
-      pickup: entry.pickup,
-      town: entry.town,
-      yardName: entry.yardName,
+      ...plainCatalogueCard(entry),
       distanceKm: distance === null ? null : Math.round(distance * 10) / 10,
       fit: top
         ? { spareLengthMm: entry.usableLengthMm - top.lengthMm, spareWidthMm: entry.usableWidthMm - top.widthMm, spareThicknessMm: entry.usableThicknessMm - top.thicknessMm }
         : null,
-      photoUrl: entry.photoId ? yardPaths.photoImage(entry.photoId, "small") : null,
-      photoAlt: entry.photoAlt,
-      publishedAt: entry.publishedAt.toISOString(),
     };
   }
 
