@@ -2,6 +2,7 @@ import { mkdirSync } from "node:fs";
 import { request as httpRequest } from "node:http";
 import { join } from "node:path";
 import { chromium, type Browser, type Page } from "playwright-core";
+import { expect } from "vitest";
 
 /** The real stack the test runner started: the app on one port, the mail sink's inbox on another. */
 export const appUrl = required("APP_URL");
@@ -93,3 +94,30 @@ export function appJson<T = unknown>(path: string, options: { method?: "GET" | "
     request.end(payload);
   });
 }
+
+/** The id of a seeded listing, found by its title in the catalogue. */
+export async function listingIdOf(title: string): Promise<string> {
+  const { body } = await appJson<{ items?: { id?: string; listingId?: string; title: string }[]; results?: { id?: string; listingId?: string; title: string }[] }>("/api/v1/catalogue?limit=50");
+  const item = (body.items ?? body.results ?? []).find((i) => i.title === title);
+  if (!item) throw new Error(`the seeded listing "${title}" is not in the catalogue`);
+  return (item.listingId ?? item.id)!;
+}
+
+/** Signs in through the form and waits to leave the sign-in page. */
+export async function signIn(page: Page, who: { email: string; password: string }) {
+  await page.goto(`${appUrl}/sign-in`);
+  await page.getByLabel("E-mail").fill(who.email);
+  await page.getByLabel("Password").fill(who.password);
+  await page.locator('[data-test="submit"]').click();
+  await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"), { timeout: 15_000 });
+}
+
+/** Everything the mail sink holds for an address, newest first. */
+export async function mailsTo(address: string): Promise<{ subject: string; text: string }[]> {
+  const response = await fetch(`${inboxUrl}/api/messages?to=${encodeURIComponent(address)}`);
+  return ((await response.json()) as { messages: { subject: string; text: string }[] }).messages;
+}
+
+/** Waits for an e-mail to an address whose subject matches. */
+export const mailArrives = (address: string, subject: RegExp) =>
+  expect.poll(async () => (await mailsTo(address)).some((m) => subject.test(m.subject)), { timeout: 15_000 }).toBe(true);

@@ -2,7 +2,7 @@ import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
-import { appJson, appUrl, desktop, inboxUrl, launchChromium, phone, screenshot, watchForPageErrors } from "./browser.ts";
+import { appJson, appUrl, desktop, launchChromium, phone, screenshot, watchForPageErrors, listingIdOf, signIn, mailsTo, mailArrives } from "./browser.ts";
 
 /** A picture of one part of a long page (the buy panel), beside the full-page ones. */
 async function partShot(page: Page, selector: string, name: string) {
@@ -25,29 +25,6 @@ const RIDGEBACK = { email: "yard@ridgeback-timber.test", password: "ridgeback-ba
 /** Two different seeded live listings, so the two tests do not depend on each other. */
 const MAPLE_PAIR = "Spalted silver maple, sequential pair"; // Ridgeback Urban Timber
 const RED_OAK = "Wide red oak dining slab, seats eight";
-
-async function listingIdOf(title: string): Promise<string> {
-  const { body } = await appJson<{ items?: { id?: string; listingId?: string; title: string }[]; results?: { id?: string; listingId?: string; title: string }[] }>("/api/v1/catalogue?limit=50");
-  const items = body.items ?? body.results ?? [];
-  const item = items.find((i) => i.title === title);
-  if (!item) throw new Error(`the seeded listing "${title}" is not in the catalogue`);
-  return (item.listingId ?? item.id)!;
-}
-
-async function signIn(page: Page, who: { email: string; password: string }) {
-  await page.goto(`${appUrl}/sign-in`);
-  await page.getByLabel("E-mail").fill(who.email);
-  await page.getByLabel("Password").fill(who.password);
-  await page.locator('[data-test="submit"]').click();
-  await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"), { timeout: 15_000 });
-}
-
-async function mailsTo(address: string): Promise<{ subject: string; text: string }[]> {
-  const response = await fetch(`${inboxUrl}/api/messages?to=${encodeURIComponent(address)}`);
-  return ((await response.json()) as { messages: { subject: string; text: string }[] }).messages;
-}
-const mailArrives = (address: string, subject: RegExp) =>
-  expect.poll(async () => (await mailsTo(address)).some((m) => subject.test(m.subject)), { timeout: 15_000 }).toBe(true);
 
 async function payOnHostedPage(page: Page, card: string) {
   await page.waitForURL(/\/pay\/cs_/, { timeout: 15_000 });

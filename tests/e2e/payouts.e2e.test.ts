@@ -1,6 +1,6 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appJson, appUrl, desktop, inboxUrl, launchChromium, phone, screenshot, watchForPageErrors } from "./browser.ts";
+import { appJson, appUrl, desktop, launchChromium, phone, screenshot, watchForPageErrors, listingIdOf, signIn, mailArrives } from "./browser.ts";
 
 /*
  * Paying a sawyer, end to end in Chromium: Northshore Kiln Co-op sets up payouts on the payments
@@ -23,28 +23,6 @@ afterAll(async () => {
   await appJson("/api/_test/clock", { method: "POST", body: { reset: true } }).catch(() => undefined);
   await browser?.close();
 });
-
-async function listingIdOf(title: string): Promise<string> {
-  const { body } = await appJson<{ items?: { id?: string; listingId?: string; title: string }[]; results?: { id?: string; listingId?: string; title: string }[] }>("/api/v1/catalogue?limit=50");
-  const item = (body.items ?? body.results ?? []).find((i) => i.title === title);
-  if (!item) throw new Error(`the seeded listing "${title}" is not in the catalogue`);
-  return (item.listingId ?? item.id)!;
-}
-
-async function signIn(page: Page, who: { email: string; password: string }) {
-  await page.goto(`${appUrl}/sign-in`);
-  await page.getByLabel("E-mail").fill(who.email);
-  await page.getByLabel("Password").fill(who.password);
-  await page.locator('[data-test="submit"]').click();
-  await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"), { timeout: 15_000 });
-}
-
-async function mailsTo(address: string): Promise<{ subject: string; text: string }[]> {
-  const response = await fetch(`${inboxUrl}/api/messages?to=${encodeURIComponent(address)}`);
-  return ((await response.json()) as { messages: { subject: string; text: string }[] }).messages;
-}
-const mailArrives = (address: string, subject: RegExp) =>
-  expect.poll(async () => (await mailsTo(address)).some((m) => subject.test(m.subject)), { timeout: 15_000 }).toBe(true);
 
 /**
  * The same screen at the phone and the desktop size (the page is left at `finish`). Whole pages

@@ -6,6 +6,7 @@ import { api } from "../api/client.ts";
 import { mountView, type StubbedAnswer } from "../test/mount-view.ts";
 import BrowseView from "./BrowseView.vue";
 import { UNITS_STORAGE_KEY } from "../stores/units.ts";
+import { oakCard } from "../test/fixtures.ts";
 
 // Metric for these tests (happy-dom says en-US, which would guess imperial).
 beforeEach(() => localStorage.setItem(UNITS_STORAGE_KEY, "metric"));
@@ -18,37 +19,7 @@ afterEach(() => {
 
 const SEARCH = `GET ${cataloguePaths.search}`;
 
-const oak: CatalogueCard = {
-  listingId: "lst_oak",
-  title: "Wide red oak dining slab, seats eight",
-  speciesSlug: "northern-red-oak",
-  setKind: "single",
-  slabCount: 1,
-  lengthMm: 2950,
-  averageWidthMm: 986,
-  minWidthMm: 960,
-  thicknessMm: 64,
-  boardFeet: 78.9,
-  volumeM3: 0.186,
-  weightKg: 125.2,
-  weightHighKg: 137.7,
-  moisturePct: 8,
-  ready: true,
-  priceMinor: 114418,
-  pricePerBoardFootMinor: 1450,
-  currency: "USD",
-  liveEdge: "both",
-  features: ["figure"],
-  freight: true,
-  pickup: true,
-  town: "East Lakemont",
-  yardName: "Cobble Lane Slabworks",
-  distanceKm: null,
-  fit: null,
-  photoUrl: "/api/v1/photos/p1/small.webp",
-  photoAlt: "Slab 3 of the Fountain Park log, top face",
-  publishedAt: "2026-12-02T07:53:11.220Z",
-};
+const oak: CatalogueCard = { ...oakCard, photoUrl: "/api/v1/photos/p1/small.webp", photoAlt: "Slab 3 of the Fountain Park log, top face" };
 
 function page(results: CatalogueCard[], extra: Partial<CatalogueResult> = {}): StubbedAnswer {
   return { status: 200, body: { results, total: results.length, totalIsAtLeast: false, nextCursor: null, near: null, fitTop: null, ...extra } };
