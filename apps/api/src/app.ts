@@ -1,12 +1,11 @@
-import { randomUUID } from "node:crypto";
 import { existsSync } from "node:fs";
 import { join } from "node:path";
 import cookieSession from "cookie-session";
 import express, { type NextFunction, type Request, type Response } from "express";
 import helmet from "helmet";
-import { pinoHttp } from "pino-http";
 import type { DataSource } from "typeorm";
 import type { AppConfig } from "./config.ts";
+import { accessLog } from "./http/access-log.ts";
 import { apiNotFound, errorHandler } from "./http/errors.ts";
 import { requireCsrfToken } from "./http/csrf.ts";
 import { sessionOf } from "./http/context.ts";
@@ -66,18 +65,7 @@ export function createApp(appDeps: AppDependencies) {
   app.disable("x-powered-by");
   app.set("trust proxy", production ? 1 : false);
 
-  app.use(
-    pinoHttp({
-      logger,
-      genReqId: (req, res) => {
-        const id = randomUUID();
-        res.setHeader("x-request-id", id);
-        return id;
-      },
-      customLogLevel: (_req, res, error) => (error || res.statusCode >= 500 ? "error" : res.statusCode >= 400 ? "warn" : "info"),
-      serializers: { req: (req) => ({ id: req.id, method: req.method, url: req.url }) },
-    }),
-  );
+  app.use(accessLog(logger));
 
   // Only our own origin, everywhere. Naive UI writes its styles into <style> tags at run time,
   // hence 'unsafe-inline' for styles only; scripts must come from our own files.
@@ -214,7 +202,7 @@ export function createApp(appDeps: AppDependencies) {
     });
   }
 
-  app.use(errorHandler);
+  app.use(errorHandler(logger));
   // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule.
   return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings });
 }

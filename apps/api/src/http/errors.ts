@@ -1,13 +1,14 @@
 import type { ErrorRequestHandler, RequestHandler } from "express";
 import { AppError } from "../errors.ts";
+import type { Logger } from "../logger.ts";
 
 /** Unknown API routes answer JSON, never the web app's HTML. */
 export const apiNotFound: RequestHandler = (req, res) => {
   res.status(404).json({ error: { code: "not_found", message: `There is no ${req.method} ${req.originalUrl.split("?")[0]} in the Grainyard API.` } });
 };
 
-/** Maps every error to `{ error: { code, message, fields? } }`; internals never leave the server. */
-export const errorHandler: ErrorRequestHandler = (error, req, res, _next) => {
+/** Maps every error to `{ error: { code, message, fields? } }`; internals never leave the server (they go to the log). */
+export const errorHandler = (logger: Logger): ErrorRequestHandler => (error, req, res, _next) => {
   if (error instanceof AppError) {
     res.status(error.status).json({ error: { ...error.details, code: error.code, message: error.message, ...(error.fields ? { fields: error.fields } : {}) } });
     return;
@@ -26,6 +27,6 @@ export const errorHandler: ErrorRequestHandler = (error, req, res, _next) => {
     res.status(bodyError.status).json({ error: { code: "malformed_request", message: "The request could not be read." } });
     return;
   }
-  req.log?.error({ err: error }, "unhandled error");
+  logger.error({ err: error, req: { id: req.id, method: req.method, url: req.originalUrl } }, "unhandled error");
   res.status(500).json({ error: { code: "internal", message: "Something went wrong on our side. Please try again in a moment." } });
 };
