@@ -1,26 +1,32 @@
 import { Column, Entity, Index, PrimaryColumn } from "typeorm";
 
+/** Every column a search can filter on (property names). */
+const FILTERED = [
+  "speciesSlug", "lengthMm", "averageWidthMm", "minWidthMm", "thicknessMm", "moisturePct", "ready", "priceMinor", "liveEdge",
+  "featureBits", "setKind", "freight", "latitude", "longitude", "usableLengthMm", "usableWidthMm", "usableThicknessMm",
+];
+/** A covering index for one sort order: the sort key, the id (the keyset tie-break), then every filtered column. */
+const sortIndex = (sortKey: string) => [sortKey, "listingId", ...FILTERED.filter((column) => column !== sortKey)];
+
 /**
- * One row per live listing, flattened for the buyers' search: every filter is a plain column, and
- * each sort order has an index ending in the listing id (the keyset tie-break). Kept in step by
- * the catalogue service whenever a listing goes live, leaves, or its slabs' figures change.
+ * One row per live listing, flattened for the buyers' search: every filter is a plain column.
+ * Each sort order has a covering index (sort key, id, every filtered column), so a page's ids are
+ * found by walking one index without reading rows (see catalogue-sql.ts). Kept in step by the
+ * catalogue service whenever a listing goes live, leaves, or its slabs' figures change.
  */
 @Entity({ name: "catalogue_entry" })
-@Index("idx_catalogue_newest", ["publishedAt", "listingId"])
+@Index("idx_catalogue_newest", sortIndex("publishedAt"))
 @Index("idx_catalogue_species_newest", ["speciesSlug", "publishedAt", "listingId"])
-@Index("idx_catalogue_price", ["priceMinor", "listingId"])
-@Index("idx_catalogue_price_per_bf", ["pricePerBoardFootMinor", "listingId"])
-@Index("idx_catalogue_size", ["boardFeet", "listingId"])
+@Index("idx_catalogue_price", sortIndex("priceMinor"))
+@Index("idx_catalogue_price_per_bf", sortIndex("pricePerBoardFootMinor"))
+@Index("idx_catalogue_size", sortIndex("boardFeet"))
 @Index("idx_catalogue_position", ["latitude", "longitude"])
 @Index("idx_catalogue_fit", ["usableLengthMm", "usableWidthMm", "usableThicknessMm"])
 /**
  * Every filtered column, species first: the capped result count reads this index alone (no row
  * lookups), so counting up to 1 001 matches touches only small index entries.
  */
-@Index("idx_catalogue_filters", [
-  "speciesSlug", "lengthMm", "averageWidthMm", "minWidthMm", "thicknessMm", "moisturePct", "ready", "priceMinor", "liveEdge",
-  "featureBits", "setKind", "freight", "latitude", "longitude", "usableLengthMm", "usableWidthMm", "usableThicknessMm",
-])
+@Index("idx_catalogue_filters", FILTERED)
 export class CatalogueEntryEntity {
   @PrimaryColumn({ name: "listing_id", type: "char", length: 36 })
   listingId: string;

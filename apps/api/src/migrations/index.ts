@@ -29,3 +29,7 @@ migrations.push(OperatorDesk1764738000000);
 // Paying sawyers: payout accounts, payouts and their lines, dispute refunds.
 import { Payouts1764748800000 } from "./1764748800000-payouts.ts";
 migrations.push(Payouts1764748800000);
+
+// Covering sort indexes for the catalogue search's page (ids from one index, then only the rows shown).
+import { CatalogueSortIndexes1764759600000 } from "./1764759600000-catalogue-sort-indexes.ts";
+migrations.push(CatalogueSortIndexes1764759600000);

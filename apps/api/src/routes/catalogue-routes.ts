@@ -9,13 +9,18 @@ const placeQuerySchema = z.object({ query: z.string().trim().min(1, "Type the st
 
 export const catalogueSearchPath = `${API_PREFIX}/catalogue`;
 
-/** The catalogue search: the same answer for everyone, so it needs no session (mounted before it in app.ts). */
+/**
+ * The catalogue search: the same answer for everyone, so it needs no session (mounted before it in
+ * app.ts). A query string asked in the last few seconds is answered from the service's cache
+ * before it is parsed again.
+ */
 export function catalogueSearch(catalogue: CatalogueService) {
   return async (req: Request, res: Response) => {
-    const { json, etag } = await catalogue.searchAnswer(parse(catalogueQuerySchema, req.query));
+    const queryString = req.url.slice(req.url.indexOf("?") + 1 || req.url.length);
+    const { body, etag } = catalogue.cachedAnswer(queryString) ?? (await catalogue.searchAnswer(parse(catalogueQuerySchema, req.query), queryString));
     res.setHeader("etag", etag);
     if (req.fresh) res.status(304).end();
-    else res.type("application/json").send(json);
+    else res.type("application/json").send(body);
   };
 }
 

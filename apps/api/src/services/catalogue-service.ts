@@ -1,9 +1,9 @@
 import { createHash, createHmac, timingSafeEqual } from "node:crypto";
 import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult } from "@grainyard/contracts";
-import { slabFeatures, yardPaths } from "@grainyard/contracts";
+import { yardPaths } from "@grainyard/contracts";
 import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug, gluedTableFit, tableFit, topLengthForSeats } from "@grainyard/slab-math";
 import { LRUCache } from "lru-cache";
-import { Brackets, In, type DataSource, type EntityManager, type SelectQueryBuilder } from "typeorm";
+import { In, type DataSource, type EntityManager } from "typeorm";
 import { AccountEntity, CatalogueEntryEntity, LogPhotoEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
 import { Invalid, NotFound } from "../errors.ts";
 import type { Actor } from "./actor.ts";
@@ -12,19 +12,12 @@ import { logPhotoView } from "./photo-service.ts";
 import { withFigureErrors } from "./figures.ts";
 import { findPlace } from "./places.ts";
 import { toLog, toSlab } from "./yard-service.ts";
+import { cappedCountSql, catalogueRowFromSql, featureBits, featuresOf, filterSql, matchesListingSql, pageSql, type CatalogueRow } from "./catalogue-sql.ts";
 
-const EARTH_RADIUS_KM = 6371.0088; // IUGG mean radius, as geolib uses
-const FEATURE_BITS: Record<(typeof slabFeatures)[number], number> = { crotch: 1, burl: 2, spalting: 4, figure: 8 };
-
-export function featureBits(features: readonly string[]): number {
-  return features.reduce((bits, f) => bits | (FEATURE_BITS[f as keyof typeof FEATURE_BITS] ?? 0), 0);
-}
-function featuresOf(bits: number) {
-  return slabFeatures.filter((f) => (bits & FEATURE_BITS[f]) !== 0);
-}
+export { featureBits } from "./catalogue-sql.ts";
 
 /** A catalogue card from a catalogue row, with no search context (no distance, no fit). */
-export function plainCatalogueCard(entry: CatalogueEntryEntity): CatalogueCard {
+export function plainCatalogueCard(entry: CatalogueRow): CatalogueCard {
   return {
     listingId: entry.listingId,
     title: entry.title,
@@ -58,11 +51,6 @@ export function plainCatalogueCard(entry: CatalogueEntryEntity): CatalogueCard {
   };
 }
 
-/** Haversine distance in SQL (km) from a fixed point to the entry's position. */
-function distanceSql(alias: string) {
-  return `(${EARTH_RADIUS_KM} * 2 * ASIN(SQRT(POWER(SIN(RADIANS(${alias}.latitude - :nearLatitude) / 2), 2) + COS(RADIANS(:nearLatitude)) * COS(RADIANS(${alias}.latitude)) * POWER(SIN(RADIANS(${alias}.longitude - :nearLongitude) / 2), 2))))`;
-}
-
 /** A dining top's usual width and thickness when a buyer gives only the number of diners (common practice: about 900 mm wide, 38 mm thick). */
 export const DEFAULT_DINING_WIDTH_MM = 900;
 export const DEFAULT_TOP_THICKNESS_MM = 38;
@@ -93,20 +81,20 @@ export function wantedTop(input: CatalogueQueryParsed): { lengthMm: number; widt
   };
 }
 
+/** Each sort's direction, and how its page token carries the last row's sort value. */
 interface SortSpec {
-  column: string; // SQL expression
   direction: "ASC" | "DESC";
-  value: (entry: CatalogueEntryEntity, distance: number | null) => string | number;
+  value: (entry: CatalogueRow, distance: number | null) => string | number;
   decode: (value: string | number) => unknown;
 }
 
 const SORTS: Record<CatalogueQueryParsed["sort"], SortSpec> = {
-  newest: { column: "entry.published_at", direction: "DESC", value: (e) => e.publishedAt.toISOString(), decode: (v) => new Date(String(v)) },
-  price_low: { column: "entry.price_minor", direction: "ASC", value: (e) => e.priceMinor, decode: Number },
-  price_high: { column: "entry.price_minor", direction: "DESC", value: (e) => e.priceMinor, decode: Number },
-  price_per_board_foot: { column: "entry.price_per_board_foot_minor", direction: "ASC", value: (e) => e.pricePerBoardFootMinor, decode: Number },
-  largest: { column: "entry.board_feet", direction: "DESC", value: (e) => e.boardFeet, decode: Number },
-  nearest: { column: "distance_km", direction: "ASC", value: (_e, d) => d ?? 0, decode: Number },
+  newest: { direction: "DESC", value: (e) => e.publishedAt.toISOString(), decode: (v) => new Date(String(v)) },
+  price_low: { direction: "ASC", value: (e) => e.priceMinor, decode: Number },
+  price_high: { direction: "DESC", value: (e) => e.priceMinor, decode: Number },
+  price_per_board_foot: { direction: "ASC", value: (e) => e.pricePerBoardFootMinor, decode: Number },
+  largest: { direction: "DESC", value: (e) => e.boardFeet, decode: Number },
+  nearest: { direction: "ASC", value: (_e, d) => d ?? 0, decode: Number },
 };
 
 /** Counts above this read "1000+": counting stops there, so a broad search costs no full scan. */
@@ -120,9 +108,9 @@ export const COUNT_CAP = 1000;
 const COUNT_TTL_MS = 30_000;
 const PAGE_TTL_MS = 5_000;
 
-/** A search answer ready to send. */
+/** A search answer ready to send: the JSON as bytes, and its entity tag. */
 export interface CatalogueAnswer {
-  json: string;
+  body: Buffer;
   etag: string;
 }
 
@@ -130,8 +118,9 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
   const { dataSource } = deps;
   const caching = deps.cache ?? true;
   const counts = new LRUCache<string, { total: number; capped: boolean }>({ max: 2000, ttl: COUNT_TTL_MS });
-  // Pages are kept as the JSON text that goes out with its entity tag, so a repeated search costs
-  // neither serialising nor hashing.
+  // Pages are kept as the bytes that go out with their entity tag, so a repeated search costs
+  // neither serialising, encoding nor hashing. They are found by the query string exactly as the
+  // browser sent it (so a repeat skips validation too: the same text always parses the same way).
   const pages = new LRUCache<string, CatalogueAnswer>({ max: 500, ttl: PAGE_TTL_MS });
   const forgetCached = () => {
     counts.clear();
@@ -161,45 +150,8 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
     }
   }
 
-  function applyFilters(query: SelectQueryBuilder<CatalogueEntryEntity>, input: CatalogueQueryParsed, near: { latitude: number; longitude: number } | null, top: ReturnType<typeof wantedTop>) {
-    if (top) {
-      query
-        .andWhere("entry.usable_length_mm >= :topLength", { topLength: top.lengthMm })
-        .andWhere("entry.usable_width_mm >= :topWidth", { topWidth: top.widthMm })
-        .andWhere("entry.usable_thickness_mm >= :topThickness", { topThickness: top.thicknessMm });
-    }
-    if (input.species?.length) query.andWhere("entry.species_slug IN (:...species)", { species: input.species });
-    if (input.lengthMin !== undefined) query.andWhere("entry.length_mm >= :lengthMin", { lengthMin: input.lengthMin });
-    if (input.lengthMax !== undefined) query.andWhere("entry.length_mm <= :lengthMax", { lengthMax: input.lengthMax });
-    const widthColumn = input.widthBasis === "minimum" ? "entry.min_width_mm" : "entry.average_width_mm";
-    if (input.widthMin !== undefined) query.andWhere(`${widthColumn} >= :widthMin`, { widthMin: input.widthMin });
-    if (input.widthMax !== undefined) query.andWhere(`${widthColumn} <= :widthMax`, { widthMax: input.widthMax });
-    if (input.thicknessMin !== undefined) query.andWhere("entry.thickness_mm >= :thicknessMin", { thicknessMin: input.thicknessMin });
-    if (input.thicknessMax !== undefined) query.andWhere("entry.thickness_mm <= :thicknessMax", { thicknessMax: input.thicknessMax });
-    if (input.moistureMax !== undefined) query.andWhere("entry.moisture_pct <= :moistureMax", { moistureMax: input.moistureMax });
-    if (input.ready) query.andWhere("entry.ready = 1");
-    if (input.priceMin !== undefined) query.andWhere("entry.price_minor >= :priceMin", { priceMin: input.priceMin });
-    if (input.priceMax !== undefined) query.andWhere("entry.price_minor <= :priceMax", { priceMax: input.priceMax });
-    if (input.liveEdge?.length) query.andWhere("entry.live_edge IN (:...liveEdge)", { liveEdge: input.liveEdge });
-    if (input.features?.length) {
-      const bits = featureBits(input.features);
-      query.andWhere("(entry.feature_bits & :bits) = :bits", { bits });
-    }
-    if (input.sets?.length) query.andWhere("entry.set_kind IN (:...sets)", { sets: input.sets });
-    if (input.freight) query.andWhere("entry.freight = 1");
-    if (near && input.radiusKm !== undefined) {
-      // A bounding box the position index can use, then the exact great-circle distance.
-      const latitudeDelta = input.radiusKm / 111.2;
-      const longitudeDelta = input.radiusKm / (111.2 * Math.max(0.01, Math.cos((near.latitude * Math.PI) / 180)));
-      query
-        .andWhere("entry.latitude BETWEEN :south AND :north", { south: near.latitude - latitudeDelta, north: near.latitude + latitudeDelta })
-        .andWhere("entry.longitude BETWEEN :west AND :east", { west: near.longitude - longitudeDelta, east: near.longitude + longitudeDelta })
-        .andWhere(`${distanceSql("entry")} <= :radiusKm`, { radiusKm: input.radiusKm });
-    }
-  }
-
   /** A search result's card: the plain card, with the distance from the chosen town and the fit's spare margin. */
-  function toCard(entry: CatalogueEntryEntity, distance: number | null, top: ReturnType<typeof wantedTop>): CatalogueCard {
+  function toCard(entry: CatalogueRow, distance: number | null, top: ReturnType<typeof wantedTop>): CatalogueCard {
     return {
       ...plainCatalogueCard(entry),
       distanceKm: distance === null ? null : Math.round(distance * 10) / 10,
@@ -269,7 +221,11 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       });
     },
 
-    /** The count and page queries of a search (the benchmark runs the page query's SQL directly). */
+    /**
+     * The SQL of a search: the page (one row more than asked, to know whether another follows) and
+     * the capped count, with their parameters (the benchmark runs these strings straight through mysql2).
+     * Refuses unknown species and towns and forged page tokens.
+     */
     prepareSearch(input: CatalogueQueryParsed) {
       if (input.species?.some((slug) => !findSpeciesBySlug(slug))) {
         const unknown = input.species.filter((slug) => !findSpeciesBySlug(slug));
@@ -279,58 +235,51 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       if (input.near && !near) throw new Invalid(`We could not find the town "${input.near}".`, { near: "Choose a town from the list." }, "unknown_place");
       const sort = SORTS[input.sort];
       const top = withFigureErrors(() => wantedTop(input));
-      const base = dataSource.getRepository(CatalogueEntryEntity).createQueryBuilder("entry");
-      if (near) base.setParameters({ nearLatitude: near.latitude, nearLongitude: near.longitude });
-      applyFilters(base, input, near, top);
+      const filters = filterSql(input, near, top);
+      const after = input.cursor ? decodeCursor(input.sort, input.cursor) : null;
+      const page = pageSql(filters, near, { sort: input.sort, direction: sort.direction, after: after && { value: sort.decode(after.value), id: after.id }, rows: input.limit + 1 });
+      const count = cappedCountSql(filters, COUNT_CAP);
+      return { pageSql: page.sql, pageParameters: page.parameters, countSql: count.sql, countParameters: count.parameters, filters, near, top, sort };
+    },
 
-      const page = base.clone();
-      if (near) page.addSelect(distanceSql("entry"), "distance_km");
-      if (input.sort === "nearest") page.andWhere("entry.latitude IS NOT NULL");
-      if (input.cursor) {
-        const { value, id } = decodeCursor(input.sort, input.cursor);
-        const column = input.sort === "nearest" ? distanceSql("entry") : sort.column;
-        const comparison = sort.direction === "ASC" ? ">" : "<";
-        page.andWhere(
-          new Brackets((where) => {
-            where.where(`${column} ${comparison} :cursorValue`).orWhere(`(${column} = :cursorValue AND entry.listing_id ${comparison} :cursorId)`);
-          }),
-          { cursorValue: sort.decode(value), cursorId: id },
-        );
-      }
-      page.orderBy(sort.column, sort.direction).addOrderBy("entry.listing_id", sort.direction).limit(input.limit + 1);
-      /** Counts at most COUNT_CAP + 1 matches: enough to say "1000+". */
-      const countQuery = (): [string, unknown[]] => {
-        const [sql, parameters] = base.clone().select("1").limit(COUNT_CAP + 1).getQueryAndParameters();
-        return [`SELECT COUNT(*) AS total FROM (${sql}) AS capped`, parameters];
-      };
-      return { countQuery, page, near, top, sort };
+    /** Whether a live listing matches a search's filters (sort and page aside). */
+    async matchesListing(input: CatalogueQueryParsed, listingId: string): Promise<boolean> {
+      const { sql, parameters } = matchesListingSql(this.prepareSearch(input).filters, listingId);
+      return ((await dataSource.query(sql, parameters)) as unknown[]).length > 0;
     },
 
     async search(input: CatalogueQueryParsed): Promise<CatalogueResult> {
-      return JSON.parse((await this.searchAnswer(input)).json) as CatalogueResult;
+      return JSON.parse((await this.searchAnswer(input)).body.toString("utf8")) as CatalogueResult;
     },
 
-    /** The search's answer as JSON text, exactly as the API sends it, and its entity tag (repeated searches come from the cache). */
-    async searchAnswer(input: CatalogueQueryParsed): Promise<CatalogueAnswer> {
-      const pageKey = JSON.stringify(input);
+    /** The answer kept for this exact query string, if a search with it ran in the last few seconds. */
+    cachedAnswer(queryString: string): CatalogueAnswer | undefined {
+      return caching ? pages.get(`?${queryString}`) : undefined;
+    },
+
+    /**
+     * The search's answer as the API sends it, and its entity tag (repeated searches come from the
+     * cache). Give the query string it was parsed from so a repeat can be found by `cachedAnswer`.
+     */
+    async searchAnswer(input: CatalogueQueryParsed, queryString?: string): Promise<CatalogueAnswer> {
+      const pageKey = queryString === undefined ? JSON.stringify(input) : `?${queryString}`;
       const cachedPage = caching ? pages.get(pageKey) : undefined;
       if (cachedPage !== undefined) return cachedPage;
-      const { countQuery, page, near, top, sort } = this.prepareSearch(input);
+      const { pageSql: sql, pageParameters, countSql, countParameters, near, top, sort } = this.prepareSearch(input);
       const { cursor: _cursor, sort: _sort, limit: _limit, ...filters } = input;
       const countKey = JSON.stringify(filters);
       const countTotal = async () => {
         const cached = caching ? counts.get(countKey) : undefined;
         if (cached) return cached;
-        const [sql, parameters] = countQuery();
-        const [row] = (await dataSource.query(sql, parameters)) as { total: string | number }[];
+        const [row] = (await dataSource.query(countSql, countParameters)) as { total: string | number }[];
         const found = Number(row?.total ?? 0);
         const value = { total: Math.min(found, COUNT_CAP), capped: found > COUNT_CAP };
         if (caching) counts.set(countKey, value);
         return value;
       };
-      const [counted, { entities, raw }] = await Promise.all([countTotal(), page.getRawAndEntities()]);
+      const [counted, raw] = await Promise.all([countTotal(), dataSource.query(sql, pageParameters) as Promise<Record<string, unknown>[]>]);
       const total = counted.total;
-      const rows = entities.map((entity, i) => ({ entity, distance: near ? Number((raw[i] as { distance_km: number | string | null }).distance_km ?? NaN) : null }));
+      const rows = raw.map((row) => ({ entity: catalogueRowFromSql(row), distance: near ? Number(row.distance_km ?? NaN) : null }));
       const hasMore = rows.length > input.limit;
       const pageRows = rows.slice(0, input.limit);
       const last = pageRows.at(-1);
@@ -342,8 +291,8 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         near: near ? { name: near.name, region: near.region, latitude: near.latitude, longitude: near.longitude } : null,
         fitTop: top,
       };
-      const json = JSON.stringify(result);
-      const answer = { json, etag: `W/"${createHash("sha1").update(json).digest("base64url")}"` };
+      const body = Buffer.from(JSON.stringify(result), "utf8");
+      const answer = { body, etag: `W/"${createHash("sha1").update(body).digest("base64url")}"` };
       if (caching) pages.set(pageKey, answer);
       return answer;
     },

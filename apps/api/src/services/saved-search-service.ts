@@ -57,7 +57,7 @@ export function savedSearchIdOfToken(secret: string, token: string): string | nu
 export interface SavedSearchServiceDependencies {
   dataSource: DataSource;
   mailer: Mailer;
-  catalogue: Pick<CatalogueService, "prepareSearch">;
+  catalogue: Pick<CatalogueService, "prepareSearch" | "matchesListing">;
   config: Pick<AppConfig, "publicUrl" | "sessionSecret">;
   log: { error(object: object, message: string): void };
   now?: () => Date;
@@ -128,8 +128,7 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
     let parsed: CatalogueQueryParsed;
     try {
       parsed = parseSavedQuery(search.query).parsed;
-      const { page } = deps.catalogue.prepareSearch(parsed);
-      return (await page.andWhere("entry.listing_id = :matchListingId", { matchListingId: listingId }).getCount()) > 0;
+      return await deps.catalogue.matchesListing(parsed, listingId);
     } catch (error) {
       // A stored query the catalogue no longer accepts (say, a town dropped from the places list) matches nothing.
       if (error instanceof AppError) return false;

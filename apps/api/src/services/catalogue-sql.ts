@@ -1,0 +1,216 @@
+import { slabFeatures, type CatalogueQueryParsed } from "@grainyard/contracts";
+import type { CatalogueEntryEntity } from "../entities/index.ts";
+
+/*
+ * The catalogue search as plain SQL with positional parameters. It is the busiest query of the
+ * marketplace, so it is written out rather than assembled by the query builder on every request
+ * (building and hydrating through TypeORM cost about as much CPU as MariaDB's own work), and the
+ * benchmark runs exactly these strings straight through mysql2.
+ *
+ * The page is a "deferred join": the inner query walks one of the covering sort indexes
+ * (`idx_catalogue_newest` and friends hold the sort key, the id and every filtered column) to
+ * pick the page's ids without reading a single row, then the outer query fetches only those rows.
+ */
+
+/** The columns a catalogue card is built from (everything the search returns per listing). */
+export type CatalogueRow = Pick<
+  CatalogueEntryEntity,
+  | "listingId" | "title" | "speciesSlug" | "setKind" | "slabCount" | "lengthMm" | "thicknessMm" | "averageWidthMm" | "minWidthMm"
+  | "usableLengthMm" | "usableWidthMm" | "usableThicknessMm" | "moisturePct" | "ready" | "priceMinor" | "pricePerBoardFootMinor"
+  | "currency" | "boardFeet" | "volumeM3" | "weightKg" | "weightHighKg" | "liveEdge" | "featureBits" | "freight" | "pickup"
+  | "town" | "yardName" | "latitude" | "longitude" | "photoId" | "photoAlt" | "publishedAt"
+>;
+
+const ROW_COLUMNS = [
+  "listing_id", "title", "species_slug", "set_kind", "slab_count", "length_mm", "thickness_mm", "average_width_mm", "min_width_mm",
+  "usable_length_mm", "usable_width_mm", "usable_thickness_mm", "moisture_pct", "ready", "price_minor", "price_per_board_foot_minor",
+  "currency", "board_feet", "volume_m3", "weight_kg", "weight_high_kg", "live_edge", "feature_bits", "freight", "pickup",
+  "town", "yard_name", "latitude", "longitude", "photo_id", "photo_alt", "published_at",
+] as const;
+
+const number = (value: unknown) => Number(value);
+const nullableNumber = (value: unknown) => (value === null || value === undefined ? null : Number(value));
+const nullableText = (value: unknown) => (value === null || value === undefined ? null : String(value));
+
+/** A row of the page query (as mysql2 hands it over) as a `CatalogueRow`. */
+export function catalogueRowFromSql(raw: Record<string, unknown>): CatalogueRow {
+  return {
+    listingId: String(raw.listing_id),
+    title: String(raw.title),
+    speciesSlug: String(raw.species_slug),
+    setKind: raw.set_kind as CatalogueRow["setKind"],
+    slabCount: number(raw.slab_count),
+    lengthMm: number(raw.length_mm),
+    thicknessMm: number(raw.thickness_mm),
+    averageWidthMm: number(raw.average_width_mm),
+    minWidthMm: number(raw.min_width_mm),
+    usableLengthMm: number(raw.usable_length_mm),
+    usableWidthMm: number(raw.usable_width_mm),
+    usableThicknessMm: number(raw.usable_thickness_mm),
+    moisturePct: nullableNumber(raw.moisture_pct),
+    ready: Boolean(number(raw.ready)),
+    priceMinor: number(raw.price_minor), // BIGINT arrives as text
+    pricePerBoardFootMinor: number(raw.price_per_board_foot_minor),
+    currency: raw.currency as CatalogueRow["currency"],
+    boardFeet: number(raw.board_feet),
+    volumeM3: number(raw.volume_m3),
+    weightKg: number(raw.weight_kg),
+    weightHighKg: number(raw.weight_high_kg),
+    liveEdge: raw.live_edge as CatalogueRow["liveEdge"],
+    featureBits: number(raw.feature_bits),
+    freight: Boolean(number(raw.freight)),
+    pickup: Boolean(number(raw.pickup)),
+    town: nullableText(raw.town),
+    yardName: nullableText(raw.yard_name),
+    latitude: nullableNumber(raw.latitude),
+    longitude: nullableNumber(raw.longitude),
+    photoId: nullableText(raw.photo_id),
+    photoAlt: nullableText(raw.photo_alt),
+    publishedAt: raw.published_at instanceof Date ? raw.published_at : new Date(String(raw.published_at)),
+  };
+}
+
+/** A piece of SQL and its positional parameters, in the order their `?` appear. */
+interface Fragment {
+  sql: string;
+  parameters: unknown[];
+}
+
+const EARTH_RADIUS_KM = 6371.0088; // IUGG mean radius, as geolib uses
+
+/** Haversine distance (km) from a fixed point to the row's position. */
+export function distanceSql(near: { latitude: number; longitude: number }): Fragment {
+  return {
+    sql: `(${EARTH_RADIUS_KM} * 2 * ASIN(SQRT(POWER(SIN(RADIANS(latitude - ?) / 2), 2) + COS(RADIANS(?)) * COS(RADIANS(latitude)) * POWER(SIN(RADIANS(longitude - ?) / 2), 2))))`,
+    parameters: [near.latitude, near.latitude, near.longitude],
+  };
+}
+
+/** The finished top a fit search asks for (mm). */
+export interface WantedTop {
+  lengthMm: number;
+  widthMm: number;
+  thicknessMm: number;
+}
+
+const FEATURE_BITS: Record<(typeof slabFeatures)[number], number> = { crotch: 1, burl: 2, spalting: 4, figure: 8 };
+
+/** Features as the bits stored in `feature_bits` (crotch 1, burl 2, spalting 4, figure 8). */
+export function featureBits(features: readonly string[]): number {
+  return features.reduce((bits, f) => bits | (FEATURE_BITS[f as keyof typeof FEATURE_BITS] ?? 0), 0);
+}
+
+/** The features a `feature_bits` value holds. */
+export function featuresOf(bits: number) {
+  return slabFeatures.filter((f) => (bits & FEATURE_BITS[f]) !== 0);
+}
+
+/** Every filter of the query as one WHERE condition ("1 = 1" when there is none). */
+export function filterSql(input: CatalogueQueryParsed, near: { latitude: number; longitude: number } | null, top: WantedTop | null): Fragment {
+  const conditions: string[] = [];
+  const parameters: unknown[] = [];
+  const add = (sql: string, ...values: unknown[]) => {
+    conditions.push(sql);
+    parameters.push(...values);
+  };
+  const list = (values: readonly unknown[]) => values.map(() => "?").join(", ");
+  if (top) add("usable_length_mm >= ? AND usable_width_mm >= ? AND usable_thickness_mm >= ?", top.lengthMm, top.widthMm, top.thicknessMm);
+  if (input.species?.length) add(`species_slug IN (${list(input.species)})`, ...input.species);
+  if (input.lengthMin !== undefined) add("length_mm >= ?", input.lengthMin);
+  if (input.lengthMax !== undefined) add("length_mm <= ?", input.lengthMax);
+  const widthColumn = input.widthBasis === "minimum" ? "min_width_mm" : "average_width_mm";
+  if (input.widthMin !== undefined) add(`${widthColumn} >= ?`, input.widthMin);
+  if (input.widthMax !== undefined) add(`${widthColumn} <= ?`, input.widthMax);
+  if (input.thicknessMin !== undefined) add("thickness_mm >= ?", input.thicknessMin);
+  if (input.thicknessMax !== undefined) add("thickness_mm <= ?", input.thicknessMax);
+  if (input.moistureMax !== undefined) add("moisture_pct <= ?", input.moistureMax);
+  if (input.ready) add("ready = 1");
+  if (input.priceMin !== undefined) add("price_minor >= ?", input.priceMin);
+  if (input.priceMax !== undefined) add("price_minor <= ?", input.priceMax);
+  if (input.liveEdge?.length) add(`live_edge IN (${list(input.liveEdge)})`, ...input.liveEdge);
+  if (input.features?.length) {
+    const bits = featureBits(input.features);
+    add("(feature_bits & ?) = ?", bits, bits);
+  }
+  if (input.sets?.length) add(`set_kind IN (${list(input.sets)})`, ...input.sets);
+  if (input.freight) add("freight = 1");
+  if (near && input.radiusKm !== undefined) {
+    // A bounding box the indexes can use, then the exact great-circle distance.
+    const latitudeDelta = input.radiusKm / 111.2;
+    const longitudeDelta = input.radiusKm / (111.2 * Math.max(0.01, Math.cos((near.latitude * Math.PI) / 180)));
+    add("latitude BETWEEN ? AND ?", near.latitude - latitudeDelta, near.latitude + latitudeDelta);
+    add("longitude BETWEEN ? AND ?", near.longitude - longitudeDelta, near.longitude + longitudeDelta);
+    const distance = distanceSql(near);
+    add(`${distance.sql} <= ?`, ...distance.parameters, input.radiusKm);
+  }
+  return { sql: conditions.length ? conditions.join(" AND ") : "1 = 1", parameters };
+}
+
+/** The sort orders as SQL: each plain column has a covering index starting with it (see the entity). */
+export const SORT_COLUMNS: Record<Exclude<CatalogueQueryParsed["sort"], "nearest">, string> = {
+  newest: "published_at",
+  price_low: "price_minor",
+  price_high: "price_minor",
+  price_per_board_foot: "price_per_board_foot_minor",
+  largest: "board_feet",
+};
+
+export interface PageSqlOptions {
+  sort: CatalogueQueryParsed["sort"];
+  direction: "ASC" | "DESC";
+  /** The last row of the previous page: its sort value and id. */
+  after: { value: unknown; id: string } | null;
+  /** Rows to fetch (one more than shown, to know whether another page follows). */
+  rows: number;
+}
+
+/**
+ * The page query: the ids of the page in order through a covering index, then their rows.
+ * With a town, each row carries `distance_km`.
+ */
+export function pageSql(filters: Fragment, near: { latitude: number; longitude: number } | null, options: PageSqlOptions): Fragment {
+  const distance = near ? distanceSql(near) : null;
+  const comparison = options.direction === "ASC" ? ">" : "<";
+  const parameters: unknown[] = [];
+  // The inner select list: the id, and the distance when there is a town.
+  let inner = "SELECT listing_id";
+  if (distance) {
+    inner += `, ${distance.sql} AS distance_km`;
+    parameters.push(...distance.parameters);
+  }
+  inner += ` FROM catalogue_entry WHERE ${filters.sql}`;
+  parameters.push(...filters.parameters);
+  let orderKey: string;
+  if (options.sort === "nearest") {
+    if (!distance) throw new Error("Sorting by distance needs a town.");
+    inner += " AND latitude IS NOT NULL";
+    orderKey = "distance_km";
+    if (options.after) {
+      inner += ` AND (${distance.sql} ${comparison} ? OR (${distance.sql} = ? AND listing_id ${comparison} ?))`;
+      parameters.push(...distance.parameters, options.after.value, ...distance.parameters, options.after.value, options.after.id);
+    }
+  } else {
+    orderKey = SORT_COLUMNS[options.sort];
+    if (options.after) {
+      inner += ` AND (${orderKey} ${comparison} ? OR (${orderKey} = ? AND listing_id ${comparison} ?))`;
+      parameters.push(options.after.value, options.after.value, options.after.id);
+    }
+  }
+  inner += ` ORDER BY ${orderKey} ${options.direction}, listing_id ${options.direction} LIMIT ${Math.trunc(options.rows)}`;
+  const outerOrder = options.sort === "nearest" ? `page.distance_km ${options.direction}` : `e.${orderKey} ${options.direction}`;
+  const columns = ROW_COLUMNS.map((column) => `e.${column}`).join(", ");
+  const sql =
+    `SELECT ${columns}${distance ? ", page.distance_km" : ""} FROM (${inner}) AS page ` +
+    `STRAIGHT_JOIN catalogue_entry e ON e.listing_id = page.listing_id ORDER BY ${outerOrder}, e.listing_id ${options.direction}`;
+  return { sql, parameters };
+}
+
+/** Counts at most `cap + 1` matches: enough to say "cap+" without reading the whole catalogue. */
+export function cappedCountSql(filters: Fragment, cap: number): Fragment {
+  return { sql: `SELECT COUNT(*) AS total FROM (SELECT 1 FROM catalogue_entry WHERE ${filters.sql} LIMIT ${Math.trunc(cap) + 1}) AS capped`, parameters: filters.parameters };
+}
+
+/** Whether one listing matches the filters (a saved search's alert check). */
+export function matchesListingSql(filters: Fragment, listingId: string): Fragment {
+  return { sql: `SELECT 1 AS found FROM catalogue_entry WHERE listing_id = ? AND ${filters.sql} LIMIT 1`, parameters: [listingId, ...filters.parameters] };
+}
