@@ -24,7 +24,11 @@ import { createLogger } from "../../apps/api/src/logger.ts";
 import { createCatalogueService } from "../../apps/api/src/services/catalogue-service.ts";
 
 const CONNECTIONS = 50;
-const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
+/** Measured seconds per endpoint, split into interleaved rounds (a slow spell of a shared machine then touches every endpoint alike). */
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 15);
+const ROUNDS = Number(process.env.BENCH_ROUNDS ?? 3);
+/** Unmeasured seconds per endpoint first, so every server is compiled and its caches filled before timing starts. */
+const WARM_UP_SECONDS = 2;
 /** A typical buyer's filter set: two species, a length and width range, dry, newest first. */
 const TYPICAL = "species=black-walnut,white-oak&lengthMin=1800&widthMin=500&moistureMax=10&sort=newest&limit=24";
 
@@ -55,8 +59,7 @@ const bareUrl = `http://127.0.0.1:${(bareServer.address() as AddressInfo).port}/
 // The SQL the API runs for the page (TypeORM's query with its parameters), run straight through mysql2.
 const catalogue = createCatalogueService({ dataSource, cursorSecret: config.sessionSecret, cache: false });
 const input = catalogueQuerySchema.parse(Object.fromEntries(new URLSearchParams(TYPICAL)));
-const [pageSql, pageParameters] = catalogue.prepareSearch(input).page.getQueryAndParameters();
-const [countSql, countParameters] = catalogue.prepareSearch(input).countQuery();
+const { pageSql, pageParameters, countSql, countParameters } = catalogue.prepareSearch(input);
 const explain = (await dataSource.query(`EXPLAIN ${pageSql}`, pageParameters)) as Record<string, unknown>[];
 const explainCount = (await dataSource.query(`EXPLAIN ${countSql}`, countParameters)) as Record<string, unknown>[];
 
@@ -68,7 +71,14 @@ interface Figures {
   p99: number;
 }
 
-function percentiles(name: string, latencies: number[], seconds: number): Figures {
+interface Sample {
+  latencies: number[];
+  seconds: number;
+}
+
+function percentiles(name: string, samples: Sample[]): Figures {
+  const latencies = samples.flatMap((s) => s.latencies);
+  const seconds = samples.reduce((sum, s) => sum + s.seconds, 0);
   latencies.sort((a, b) => a - b);
   const at = (p: number) => latencies[Math.min(latencies.length - 1, Math.floor((p / 100) * latencies.length))] ?? NaN;
   return { name, requestsPerSecond: latencies.length / seconds, p50: at(50), p95: at(95), p99: at(99) };
@@ -78,22 +88,22 @@ function percentiles(name: string, latencies: number[], seconds: number): Figure
  * autocannon drives the HTTP endpoints from a separate process (load-generator.mjs), as real
  * clients would be; every response time is kept, so p95 is exact.
  */
-async function cannon(name: string, url: string): Promise<Figures> {
-  const child = spawn(process.execPath, [join(import.meta.dirname, "load-generator.mjs"), url, String(CONNECTIONS), String(SECONDS)], { stdio: ["ignore", "pipe", "inherit"] });
+async function cannon(name: string, url: string, seconds: number): Promise<Sample> {
+  const child = spawn(process.execPath, [join(import.meta.dirname, "load-generator.mjs"), url, String(CONNECTIONS), String(seconds)], { stdio: ["ignore", "pipe", "inherit"] });
   let output = "";
   child.stdout.on("data", (chunk: Buffer) => (output += chunk.toString()));
   const code = await new Promise<number | null>((resolve) => child.on("close", resolve));
   if (code !== 0) throw new Error(`${name}: the load generator stopped with code ${code}`);
   const { latencies, failures, errors } = JSON.parse(output) as { latencies: number[]; failures: number; errors: number };
   if (failures > 0 || errors > 0) throw new Error(`${name}: ${failures} failed answers and ${errors} errors`);
-  return percentiles(name, latencies, SECONDS);
+  return { latencies, seconds };
 }
 
 /** The page and count queries as the API issues them, 50 at a time, straight through mysql2. */
-async function rawSql(): Promise<Figures> {
-  const pool = mysql.createPool({ host: config.database.host, port: config.database.port, user: config.database.user, password: config.database.password, database: config.database.database, connectionLimit: CONNECTIONS });
+const pool = mysql.createPool({ host: config.database.host, port: config.database.port, user: config.database.user, password: config.database.password, database: config.database.database, connectionLimit: CONNECTIONS });
+async function rawSql(seconds: number): Promise<Sample> {
   const latencies: number[] = [];
-  const deadline = Date.now() + SECONDS * 1000;
+  const deadline = Date.now() + seconds * 1000;
   await Promise.all(
     Array.from({ length: CONNECTIONS }, async () => {
       while (Date.now() < deadline) {
@@ -103,11 +113,10 @@ async function rawSql(): Promise<Figures> {
       }
     }),
   );
-  await pool.end();
-  return percentiles("raw SQL (mysql2)", latencies, SECONDS);
+  return { latencies, seconds };
 }
 
-console.log(`\nCatalogue search benchmark — ${count} live listings, ${CONNECTIONS} connections, ${SECONDS} s each`);
+console.log(`\nCatalogue search benchmark — ${count} live listings, ${CONNECTIONS} connections, ${SECONDS} s each in ${ROUNDS} interleaved rounds after a ${WARM_UP_SECONDS} s warm-up`);
 console.log(`typical query: ${TYPICAL}`);
 console.log(`answer size: ${sample.length} bytes, ${(JSON.parse(sample) as { total: number }).total} matches`);
 console.log("\nEXPLAIN of the page query:");
@@ -116,12 +125,19 @@ console.table(explain.map(explainRow));
 console.log("EXPLAIN of the capped count query:");
 console.table(explainCount.map(explainRow));
 
-const results = [
-  await cannon("bare Express, same JSON", bareUrl),
-  await cannon("catalogue search API", apiUrl),
-  await cannon("search API, cache off", uncachedUrl),
-  await rawSql(),
+const endpoints: [string, (seconds: number) => Promise<Sample>][] = [
+  ["bare Express, same JSON", (seconds) => cannon("bare Express", bareUrl, seconds)],
+  ["catalogue search API", (seconds) => cannon("catalogue search API", apiUrl, seconds)],
+  ["search API, cache off", (seconds) => cannon("search API, cache off", uncachedUrl, seconds)],
+  ["raw SQL (mysql2)", rawSql],
 ];
+for (const [, run] of endpoints) await run(WARM_UP_SECONDS);
+const samples = endpoints.map((): Sample[] => []);
+for (let round = 0; round < ROUNDS; round++) {
+  for (const [i, [, run]] of endpoints.entries()) samples[i]!.push(await run(SECONDS / ROUNDS));
+}
+await pool.end();
+const results = endpoints.map(([name], i) => percentiles(name, samples[i]!));
 console.log("");
 console.table(results.map((r) => ({ endpoint: r.name, "requests/s": Math.round(r.requestsPerSecond), "p50 ms": r.p50.toFixed(1), "p95 ms": r.p95.toFixed(1), "p99 ms": r.p99.toFixed(1) })));
 const [bareFigures, apiFigures, uncachedFigures, sqlFigures] = results as [Figures, Figures, Figures, Figures];
