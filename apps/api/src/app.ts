@@ -1,5 +1,6 @@
 import { existsSync } from "node:fs";
 import { join } from "node:path";
+import compression from "compression";
 import cookieSession from "cookie-session";
 import express, { type NextFunction, type Request, type Response } from "express";
 import helmet from "helmet";
@@ -95,6 +96,9 @@ export function createApp(appDeps: AppDependencies) {
   // session, the anti-forgery check and the acting-user lookup (it never needs them).
   const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret, cache: config.catalogueCache });
   app.get(catalogueSearchPath, catalogueSearch(catalogue));
+  // Everything else that is text (JSON, the web app's HTML, scripts and styles, CSV) goes out
+  // compressed to clients that take it; photos are already compressed and pass through.
+  app.use(compression());
 
   app.use(
     cookieSession({
@@ -195,6 +199,11 @@ export function createApp(appDeps: AppDependencies) {
   // The built web app, with the single-page fallback for its own routes.
   if (config.webDist && existsSync(join(config.webDist, "index.html"))) {
     const webDist = config.webDist;
+    // Vite names built scripts, styles and fonts by their content, so a browser may keep them for good;
+    // one that is missing is a 404, never the app's page in its place.
+    app.use("/assets", express.static(join(webDist, "assets"), { index: false, immutable: true, maxAge: "365d" }), (_req: Request, res: Response) => {
+      res.status(404).type("text/plain").send("Not found");
+    });
     app.use(express.static(webDist, { index: false, maxAge: production ? "1h" : 0 }));
     app.get("/{*path}", (_req, res) => {
       res.setHeader("cache-control", "no-cache");

@@ -1,4 +1,5 @@
 import { createHash, createHmac, timingSafeEqual } from "node:crypto";
+import { gzipSync } from "node:zlib";
 import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult } from "@grainyard/contracts";
 import { yardPaths } from "@grainyard/contracts";
 import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug, gluedTableFit, tableFit, topLengthForSeats } from "@grainyard/slab-math";
@@ -108,10 +109,17 @@ export const COUNT_CAP = 1000;
 const COUNT_TTL_MS = 30_000;
 const PAGE_TTL_MS = 5_000;
 
-/** A search answer ready to send: the JSON as bytes, and its entity tag. */
+/** A search answer ready to send: the JSON as bytes, its entity tag, and (once asked for) its gzip form. */
 export interface CatalogueAnswer {
   body: Buffer;
   etag: string;
+  gzipped?: Buffer;
+}
+
+/** The answer compressed with gzip, made once per cached answer (a phone on a weak signal gets a fifth of the bytes). */
+export function gzippedAnswer(answer: CatalogueAnswer): Buffer {
+  answer.gzipped ??= gzipSync(answer.body);
+  return answer.gzipped;
 }
 
 export function createCatalogueService(deps: { dataSource: DataSource; cursorSecret: string; cache?: boolean }) {
