@@ -120,6 +120,8 @@ describe("a sawyer's yard from a phone", () => {
     await page.getByText("Per board foot", { exact: true }).click();
     await page.getByLabel("Rate").fill("14.50");
     await expect.poll(() => page.locator('[data-test="live-price"]').innerText()).toMatch(/\d/);
+    // The take-home preview uses the fees in force, and says which.
+    await expect.poll(() => page.locator('[data-test="fee-note"]').innerText()).toMatch(/today's fees: \d+(\.\d+)? % to Grainyard/);
     await page.waitForTimeout(1200); // the draft is written to IndexedDB a moment after typing
     await page.reload();
     await expect.poll(() => page.getByLabel("Title").inputValue(), { timeout: 10_000 }).toBe("Black walnut sequential pair, Northshore");

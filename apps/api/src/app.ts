@@ -189,7 +189,7 @@ export function createApp(appDeps: AppDependencies) {
 
   app.use("/api", healthRoutes(deps));
   // Read-only routes first (no anti-forgery check needed): fewer routers to walk past.
-  app.use("/api/v1", catalogueRoutes(catalogue));
+  app.use("/api/v1", catalogueRoutes(catalogue, settings));
   app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), orderRoutes(checkout, orders));
   app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));
   app.use("/api/v1", requireCsrfToken, adminRoutes({ listings, audit, reports, moderation, settings, dashboard }), payoutRoutes(payouts));

@@ -170,6 +170,11 @@ export const marketplaceSettingsViewSchema = z.object({
   changedKeys: z.array(z.string()),
 });
 export type MarketplaceSettingsView = z.infer<typeof marketplaceSettingsViewSchema>;
+/** The fees in force, for anyone (a sawyer's listing form previews the take-home with them). */
+export const marketplaceFeesSchema = z.object({
+  fees: marketplaceSettingsSchema.pick({ platformFeeBps: true, processingFeeBps: true, processingFixedMinor: true }),
+});
+export type MarketplaceFees = z.infer<typeof marketplaceFeesSchema>["fees"];
 
 // Dashboard.
 export const dashboardSchema = z.object({

@@ -47,6 +47,8 @@ export const cataloguePaths = {
   search: `${API_PREFIX}/catalogue`,
   detail: (listingId: string) => `${API_PREFIX}/catalogue/${encodeURIComponent(listingId)}`,
   places: `${API_PREFIX}/places`,
+  /** The fees in force (public). */
+  fees: `${API_PREFIX}/marketplace/fees`,
 } as const;
 
 export const orderPaths = {

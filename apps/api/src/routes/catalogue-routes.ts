@@ -4,6 +4,7 @@ import { z } from "zod";
 import { parse } from "../http/context.ts";
 import { gzippedAnswer, type CatalogueService } from "../services/catalogue-service.ts";
 import { searchPlaces } from "../services/places.ts";
+import type { SettingsService } from "../services/settings-service.ts";
 
 const placeQuerySchema = z.object({ query: z.string().trim().min(1, "Type the start of a town name.").max(80) });
 
@@ -32,9 +33,12 @@ export function catalogueSearch(catalogue: CatalogueService) {
   };
 }
 
-/** The rest of the public catalogue: slab pages, and towns to search around. */
-export function catalogueRoutes(catalogue: CatalogueService) {
+/** The rest of the public catalogue: slab pages, towns to search around, and the fees in force. */
+export function catalogueRoutes(catalogue: CatalogueService, settings: Pick<SettingsService, "fees">) {
   const router = Router();
+  router.get("/marketplace/fees", (_req, res) => {
+    res.json({ fees: settings.fees() });
+  });
   router.get("/catalogue/:listingId", async (req, res) => {
     res.json(await catalogue.detail(req.actor, String(req.params.listingId)));
   });

@@ -273,6 +273,9 @@ describe("marketplace settings", () => {
     const [entry] = await auditOf("marketplace");
     expect(entry).toMatchObject({ action: "settings.update", before: { platformFeeBps: 1000, reservationMinutes: ctx.config.checkout.reservationMinutes, taxRateBps: ctx.config.checkout.taxRateBps }, after: { platformFeeBps: 800, reservationMinutes: 30, taxRateBps: 500 }, reason: "Winter promotion for yards." });
 
+    // The public fees follow at once, for the sawyer's listing-form preview.
+    expect((await sawyer.get("/api/v1/marketplace/fees")).body).toEqual({ fees: { platformFeeBps: 800, processingFeeBps: 290, processingFixedMinor: 30 } });
+
     // 8 % of 900.00 is 72.00 (slab-math feeBreakdown, basis points).
     const { listingId } = await draftListing(sawyer, { rateMinor: 90_000 });
     const listing = (await sawyer.get(`/api/v1/yard/listings/${listingId}`)).body.listing;

@@ -39,6 +39,11 @@ const routes: RouteCase[] = [
     expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
   },
   {
+    name: "GET /api/v1/marketplace/fees (public)",
+    call: (c) => c.get("/api/v1/marketplace/fees"),
+    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+  },
+  {
     name: "GET /api/v1/yard",
     call: (c) => c.get("/api/v1/yard"),
     expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },

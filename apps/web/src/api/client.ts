@@ -16,6 +16,7 @@ import {
   catalogueResultSchema,
   catalogueDetailSchema,
   placeListSchema,
+  marketplaceFeesSchema,
   buyerPaths,
   savedSearchEnvelopeSchema,
   savedSearchListSchema,
@@ -59,6 +60,7 @@ import {
   type CatalogueResult,
   type CsvRowError,
   type Place,
+  type MarketplaceFees,
   type DryingProjectionView,
   type Listing,
   type ListingInput,
@@ -186,6 +188,7 @@ const csvImportResult: ResponseParser<{ created: number }> = csvImportResultSche
 const catalogueResult: ResponseParser<CatalogueResult> = catalogueResultSchema;
 const catalogueDetail: ResponseParser<CatalogueDetail> = catalogueDetailSchema;
 const placeList: ResponseParser<{ places: Place[] }> = placeListSchema;
+const marketplaceFees: ResponseParser<{ fees: MarketplaceFees }> = marketplaceFeesSchema;
 const csvRowError: ResponseParser<CsvRowError> = csvRowErrorSchema;
 const orderEnvelope: ResponseParser<{ order: Order }> = orderEnvelopeSchema;
 const orderList: ResponseParser<{ orders: Order[] }> = orderListSchema;
@@ -464,6 +467,7 @@ export function createApiClient(options: ApiClientOptions = {}) {
       request("GET", cataloguePaths.detail(listingId), { schema: catalogueDetail, signal }),
     findPlaces: (query: string, signal?: AbortSignal): Promise<{ places: Place[] }> =>
       request("GET", cataloguePaths.places, { query: { query: query.trim() }, schema: placeList, signal }),
+    getMarketplaceFees: (signal?: AbortSignal): Promise<{ fees: MarketplaceFees }> => request("GET", cataloguePaths.fees, { schema: marketplaceFees, signal }),
 
     // Buying and the steps of an order.
     getCheckoutQuote: (listingId: string, signal?: AbortSignal) => request("GET", orderPaths.quote(listingId), { schema: checkoutQuote, signal }),
