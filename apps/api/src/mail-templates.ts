@@ -132,13 +132,17 @@ interface OrderStepFacts extends OrderForMail {
   status: string;
 }
 
-/** A pickup window in plain words, in the yard's (UTC unless told) time: "Sat 6 Dec 2026, 09:00–11:00 UTC". */
-export function windowText(startsAt: string | Date, endsAt: string | Date): string {
+/**
+ * A pickup window in plain words, in the yard's own time zone (an IANA name; UTC when the yard's
+ * town is unknown): "Sat, 5 Dec 2026, 09:00–11:00 EST".
+ */
+export function windowText(startsAt: string | Date, endsAt: string | Date, timeZone = "UTC"): string {
   const start = new Date(startsAt);
   const end = new Date(endsAt);
-  const day = new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone: "UTC" }).format(start);
-  const time = (d: Date) => new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone: "UTC" }).format(d);
-  return `${day}, ${time(start)}–${time(end)} UTC`;
+  const day = new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone }).format(start);
+  const time = (d: Date) => new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone }).format(d);
+  const zone = new Intl.DateTimeFormat("en-US", { timeZone, timeZoneName: "short" }).formatToParts(start).find((part) => part.type === "timeZoneName")?.value ?? timeZone;
+  return `${day}, ${time(start)}–${time(end)} ${zone}`;
 }
 
 const LIFT_CAUTION = "Slabs are heavy: lift with two people or a machine, secure the load, and keep to local load and vehicle limits.";
@@ -149,19 +153,19 @@ export function orderStepMail(
   role: "buyer" | "sawyer",
   step: OrderStep,
   order: OrderStepFacts,
-  parties: { buyerName: string; yardName: string | null; pickupTown: string | null },
+  parties: { buyerName: string; yardName: string | null; pickupTown: string | null; yardTimeZone: string },
   link: string,
   autoCompleteDays: number,
 ): OutgoingMail {
   const yard = parties.yardName ?? "the yard";
   const title = `"${order.title}"`;
   const hello = `Hello ${to.displayName},`;
-  const chosen = order.pickupStartsAt && order.pickupEndsAt ? windowText(order.pickupStartsAt, order.pickupEndsAt) : "";
+  const chosen = order.pickupStartsAt && order.pickupEndsAt ? windowText(order.pickupStartsAt, order.pickupEndsAt, parties.yardTimeZone) : "";
   let subject: string;
   let lines: string[];
   switch (step) {
     case "pickup_windows_proposed": {
-      const windows = (order.pickupWindows ?? []).map((w, i) => `${i + 1}. ${windowText(w.startsAt, w.endsAt)}`);
+      const windows = (order.pickupWindows ?? []).map((w, i) => `${i + 1}. ${windowText(w.startsAt, w.endsAt, parties.yardTimeZone)}`);
       subject = role === "buyer" ? `Choose a pickup time: ${order.title}` : `Pickup times sent: ${order.title}`;
       lines =
         role === "buyer"

@@ -67,7 +67,7 @@ beforeAll(async () => {
   });
   ({ server: apiServer, webhookUrl } = await listenForWebhooks(ctx.app));
   fake.webhooks.options.url = webhookUrl;
-  sawyer = await ctx.signedInClient("sawyer", { yardName: "Heron Bay Slabs", pickupTown: "Lakemont" });
+  sawyer = await ctx.signedInClient("sawyer", { yardName: "Heron Bay Slabs", pickupTown: "Lakemont", pickupLatitude: 44.618, pickupLongitude: -85.402 });
   admin = await ctx.signedInClient("admin");
   photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#9a6a3a" } }).jpeg().toBuffer();
 }, 60_000);
@@ -122,6 +122,8 @@ describe("order steps after payment", () => {
     const booked = (await mailTo(buyer.account.email)).find((m) => /^Pickup booked/.test(m.subject))!;
     expect(booked.text).toContain("Gate 2, 48 Sawmill Road, Lakemont");
     expect(booked.text).toMatch(/two people or a machine/);
+    // In the yard's own time (Lakemont keeps US Eastern time), not UTC.
+    expect(booked.text).toMatch(/\d{2}:\d{2}–\d{2}:\d{2} E[SD]T/);
 
     // The buyer cannot confirm before hand-over: 409 with a plain message.
     const early = await buyer.post(`${path}/completion`);

@@ -10,6 +10,7 @@ import type { Payments } from "../integrations/payments.ts";
 import { orderStepMail, type OrderStep } from "../mail-templates.ts";
 import { requireSignedIn, type Actor } from "./actor.ts";
 import { reversalEntries } from "./ledger.ts";
+import { timeZoneAt } from "./places.ts";
 
 /**
  * An order after payment: the sawyer readies it (pickup windows, or freight with a tracking
@@ -30,6 +31,8 @@ export interface Parties {
   buyerEmail: string;
   yardName: string | null;
   pickupTown: string | null;
+  /** The yard's time zone (from its town's position), for pickup times in e-mails. */
+  yardTimeZone: string;
   sawyerName: string;
   sawyerEmail: string;
 }
@@ -112,6 +115,7 @@ export async function partiesOf(manager: EntityManager | DataSource, orders: Ord
           buyerEmail: buyer?.email ?? "",
           yardName: sawyer?.yardName ?? null,
           pickupTown: sawyer?.pickupTown ?? null,
+          yardTimeZone: timeZoneAt(sawyer?.pickupLatitude ?? null, sawyer?.pickupLongitude ?? null),
           sawyerName: sawyer?.displayName ?? "The sawyer",
           sawyerEmail: sawyer?.email ?? "",
         },

@@ -1,6 +1,7 @@
 import { createRequire } from "node:module";
 import type { Place } from "@grainyard/contracts";
 import { getDistance } from "geolib";
+import timeZoneLookup from "@photostructure/tz-lookup";
 
 /**
  * Towns and where they lie, for pickup distance: the GeoNames towns of 1000+ people shipped by
@@ -85,4 +86,14 @@ export function findPlace(text: string): Place | null {
 /** Great-circle distance in kilometres (geolib's haversine on a mean Earth radius). */
 export function distanceKm(a: { latitude: number; longitude: number }, b: { latitude: number; longitude: number }): number {
   return getDistance(a, b, 1) / 1000;
+}
+
+/** The IANA time zone at a position (tz-lookup's offline map); "UTC" when the position is unknown. */
+export function timeZoneAt(latitude: number | null, longitude: number | null): string {
+  if (latitude === null || longitude === null) return "UTC";
+  try {
+    return timeZoneLookup(latitude, longitude);
+  } catch {
+    return "UTC";
+  }
 }
