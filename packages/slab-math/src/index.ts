@@ -128,3 +128,4 @@ export {
   type PlausibilitySlab,
   type PlausibilityWarning,
 } from './plausibility.ts';
+export { EARTH_MEAN_RADIUS_KM, greatCircleKm, type Position } from './geodesy.ts';
