@@ -1,9 +1,9 @@
 import { Column, Entity, Index, PrimaryColumn } from "typeorm";
 
-/** Every column a search can filter on (property names). */
+/** Every column a search can filter on (property names); the sawyer stands for the yard's position. */
 const FILTERED = [
   "speciesSlug", "lengthMm", "averageWidthMm", "minWidthMm", "thicknessMm", "moisturePct", "ready", "priceMinor", "liveEdge",
-  "featureBits", "setKind", "freight", "latitude", "longitude", "usableLengthMm", "usableWidthMm", "usableThicknessMm",
+  "featureBits", "setKind", "freight", "latitude", "longitude", "usableLengthMm", "usableWidthMm", "usableThicknessMm", "sawyerId",
 ];
 /** A covering index for one sort order: the sort key, the id (the keyset tie-break), then every filtered column. */
 const sortIndex = (sortKey: string) => [sortKey, "listingId", ...FILTERED.filter((column) => column !== sortKey)];
@@ -11,7 +11,8 @@ const sortIndex = (sortKey: string) => [sortKey, "listingId", ...FILTERED.filter
 /**
  * One row per live listing, flattened for the buyers' search: every filter is a plain column.
  * Each sort order has a covering index (sort key, id, every filtered column), so a page's ids are
- * found by walking one index without reading rows (see catalogue-sql.ts). Kept in step by the
+ * found by walking one index without reading rows (see catalogue-sql.ts); distances are worked
+ * out per yard, so there is no index on the position. Kept in step by the
  * catalogue service whenever a listing goes live, leaves, or its slabs' figures change.
  */
 @Entity({ name: "catalogue_entry" })
@@ -20,7 +21,8 @@ const sortIndex = (sortKey: string) => [sortKey, "listingId", ...FILTERED.filter
 @Index("idx_catalogue_price", sortIndex("priceMinor"))
 @Index("idx_catalogue_price_per_bf", sortIndex("pricePerBoardFootMinor"))
 @Index("idx_catalogue_size", sortIndex("boardFeet"))
-@Index("idx_catalogue_position", ["latitude", "longitude"])
+/** Yard by yard, for the nearest-first walk (the yards are taken in order of distance). */
+@Index("idx_catalogue_yard", sortIndex("sawyerId"))
 @Index("idx_catalogue_fit", ["usableLengthMm", "usableWidthMm", "usableThicknessMm"])
 /**
  * Every filtered column, species first: the capped result count reads this index alone (no row

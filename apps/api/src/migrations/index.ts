@@ -30,6 +30,6 @@ migrations.push(OperatorDesk1764738000000);
 import { Payouts1764748800000 } from "./1764748800000-payouts.ts";
 migrations.push(Payouts1764748800000);
 
-// Covering sort indexes for the catalogue search's page (ids from one index, then only the rows shown).
+// Covering sort indexes for the catalogue search (ids from one index, then only the rows shown), and yard by yard for the nearest-first walk.
 import { CatalogueSortIndexes1764759600000 } from "./1764759600000-catalogue-sort-indexes.ts";
 migrations.push(CatalogueSortIndexes1764759600000);

