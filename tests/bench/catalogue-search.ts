@@ -22,6 +22,7 @@ import { createPayments } from "../../apps/api/src/integrations/payments.ts";
 import { createPhotoStorage } from "../../apps/api/src/integrations/storage.ts";
 import { createLogger } from "../../apps/api/src/logger.ts";
 import { createCatalogueService } from "../../apps/api/src/services/catalogue-service.ts";
+import { findPlace } from "../../apps/api/src/services/places.ts";
 
 const CONNECTIONS = 50;
 /** Measured seconds per endpoint, split into interleaved rounds (a slow spell of a shared machine then touches every endpoint alike). */
@@ -148,6 +149,36 @@ console.log(`API throughput / bare endpoint: ${((apiFigures.requestsPerSecond / 
 console.log(`API p95: ${apiFigures.p95.toFixed(1)} ms  (goal ≤ 25 ms)`);
 console.log(`uncached API p50 / raw SQL p50: ${(uncachedFigures.p50 / sqlFigures.p50).toFixed(2)} ×, p95: ${(uncachedFigures.p95 / sqlFigures.p95).toFixed(2)} ×  (goal ≤ 1.5 ×)`);
 console.log(`uncached API: ${Math.round(uncachedFigures.requestsPerSecond)} requests/s, p95 ${uncachedFigures.p95.toFixed(1)} ms`);
+
+// Other shapes of search, one at a time with the answer cache off (the service alone, no HTTP):
+// what a buyer waits for on a first search at national scale.
+const town = findPlace("Chicago, IL")!.id;
+const shapes = [
+  "sort=newest",
+  "species=white-oak",
+  "seats=8",
+  "seats=8&sort=price_low",
+  `near=${town}&radiusKm=100`,
+  `near=${town}&radiusKm=100&sort=nearest`,
+  `near=${town}&sort=nearest`,
+  "features=burl&sets=bookmatched",
+  "priceMax=50000&sort=largest",
+];
+const shapeRows = [];
+for (const shape of shapes) {
+  const parsed = catalogueQuerySchema.parse(Object.fromEntries(new URLSearchParams(shape)));
+  const times: number[] = [];
+  let total = 0;
+  for (let run = 0; run < 25; run++) {
+    const started = performance.now();
+    total = (await catalogue.search(parsed)).total;
+    if (run >= 5) times.push(performance.now() - started);
+  }
+  times.sort((a, b) => a - b);
+  shapeRows.push({ search: shape.replace(town, "Chicago"), matches: total, "median ms": times[Math.floor(times.length / 2)]!.toFixed(1), "slowest ms": times.at(-1)!.toFixed(1) });
+}
+console.log("\nOther searches, one at a time, answer cache off (20 runs each after 5 unmeasured):");
+console.table(shapeRows);
 
 apiServer.close();
 uncachedServer.close();
