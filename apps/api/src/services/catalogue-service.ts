@@ -35,7 +35,6 @@ interface YardPosition {
   latitude: number;
   longitude: number;
 }
-const sqlAndParameters = (fragment: Fragment): [string, unknown[]] => [fragment.sql, fragment.parameters];
 
 export { featureBits } from "./catalogue-sql.ts";
 
@@ -147,6 +146,8 @@ export function gzippedAnswer(answer: CatalogueAnswer): Buffer {
 export function createCatalogueService(deps: { dataSource: DataSource; cursorSecret: string; cache?: boolean }) {
   const { dataSource } = deps;
   const caching = deps.cache ?? true;
+  /** Runs one piece of the search's SQL. */
+  const run = <T = Record<string, unknown>>(fragment: Fragment) => dataSource.query(fragment.sql, fragment.parameters) as Promise<T[]>;
   const counts = new LRUCache<string, { total: number; capped: boolean }>({ max: 2000, ttl: COUNT_TTL_MS });
   // Pages are kept as the bytes that go out with their entity tag, so a repeated search costs
   // neither serialising, encoding nor hashing. They are found by the query string exactly as the
@@ -201,22 +202,28 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
     }
     return positions.yards;
   }
-  /** The yards by great-circle distance from a town (slab-math), nearest first; kept per town while the positions last. */
-  const distancesByTown = new LRUCache<string, { from: Promise<YardPosition[]>; yards: YardDistance[] }>({ max: 300 });
-  async function yardsByDistance(near: Place): Promise<YardDistance[]> {
+  /** The yards by great-circle distance from a town (slab-math), nearest first, and each yard's distance; kept per town while the positions last. */
+  interface TownDistances {
+    from: Promise<YardPosition[]>;
+    yards: YardDistance[];
+    distanceOf: Map<string, number>;
+  }
+  const distancesByTown = new LRUCache<string, TownDistances>({ max: 300 });
+  async function yardsByDistance(near: Place): Promise<TownDistances> {
     const current = yardPositions();
     const kept = distancesByTown.get(near.id);
-    if (kept && kept.from === current) return kept.yards;
+    if (kept && kept.from === current) return kept;
     const yards = (await current)
       .map((yard) => ({ sawyerId: yard.sawyerId, distanceKm: greatCircleKm(near, yard) }))
       .sort((a, b) => a.distanceKm - b.distanceKm || (a.sawyerId < b.sawyerId ? -1 : 1));
-    distancesByTown.set(near.id, { from: current, yards });
-    return yards;
+    const distances = { from: current, yards, distanceOf: new Map(yards.map((yard) => [yard.sawyerId, yard.distanceKm])) };
+    distancesByTown.set(near.id, distances);
+    return distances;
   }
 
   /** One batch of the nearest-first walk, through `idx_catalogue_yard`. */
   const nearestBatch = (filters: Fragment) => async (yards: readonly string[], tie: { yards: readonly string[]; afterId: string } | null) =>
-    ((await dataSource.query(...sqlAndParameters(nearestIdsSql(filters, yards, tie)))) as { listing_id: string; sawyer_id: string }[]).map((row) => ({
+    (await run<{ listing_id: string; sawyer_id: string }>(nearestIdsSql(filters, yards, tie))).map((row) => ({
       listingId: row.listing_id,
       sawyerId: row.sawyer_id,
     }));
@@ -317,20 +324,22 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
      */
     async prepareSearch(input: CatalogueQueryParsed) {
       const checked = this.checkSearch(input);
-      const yards = checked.near ? await yardsByDistance(checked.near) : null;
-      // The radius keeps the yards within it; nearest-first needs a position at all.
+      const { yards, distanceOf } = checked.near ? await yardsByDistance(checked.near) : { yards: null, distanceOf: null };
+      // A radius keeps the yards within it (naming them only when it leaves some out); a radius or
+      // nearest-first also needs the listing to have a position at all.
       const within = yards && input.radiusKm !== undefined ? yards.filter((yard) => yard.distanceKm <= input.radiusKm!) : yards;
-      const limit: YardLimit = !within ? null : within.length === yards!.length ? (input.sort === "nearest" || input.radiusKm !== undefined ? "placed" : null) : within.map((yard) => yard.sawyerId);
+      let limit: YardLimit = null;
+      if (within && yards && within.length < yards.length) limit = within.map((yard) => yard.sawyerId);
+      else if (within && (input.sort === "nearest" || input.radiusKm !== undefined)) limit = "placed";
       const filters = filterSql(input, checked.top, limit);
       const count = cappedCountSql(filters, COUNT_CAP);
       const page = input.sort === "nearest" ? null : pageSql(filters, { sort: input.sort, direction: checked.sort.direction, after: checked.after, rows: input.limit + 1 });
-      return { ...checked, filters, count, page, yards, within };
+      return { ...checked, filters, count, page, distanceOf, within };
     },
 
     /** Whether a live listing matches a search's filters (sort and page aside). */
     async matchesListing(input: CatalogueQueryParsed, listingId: string): Promise<boolean> {
-      const { sql, parameters } = matchesListingSql((await this.prepareSearch(input)).filters, listingId);
-      return ((await dataSource.query(sql, parameters)) as unknown[]).length > 0;
+      return (await run(matchesListingSql((await this.prepareSearch(input)).filters, listingId))).length > 0;
     },
 
     async search(input: CatalogueQueryParsed): Promise<CatalogueResult> {
@@ -357,22 +366,21 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       const countTotal = async () => {
         const cached = caching ? counts.get(countKey) : undefined;
         if (cached) return cached;
-        const [row] = (await dataSource.query(plan.count.sql, plan.count.parameters)) as { total: string | number }[];
+        const [row] = await run<{ total: string | number }>(plan.count);
         const found = Number(row?.total ?? 0);
         const value = { total: Math.min(found, COUNT_CAP), capped: found > COUNT_CAP };
         if (caching) counts.set(countKey, value);
         return value;
       };
       const pageRows = async (): Promise<CatalogueRow[]> => {
-        if (plan.page) return ((await dataSource.query(plan.page.sql, plan.page.parameters)) as Record<string, unknown>[]).map(catalogueRowFromSql);
+        if (plan.page) return (await run(plan.page)).map(catalogueRowFromSql);
         const ids = await nearestFirst(plan.within ?? [], plan.after as { value: number; id: string } | null, input.limit + 1, nearestBatch(plan.filters));
-        const fetched = ids.length ? ((await dataSource.query(...sqlAndParameters(rowsByIdSql(ids)))) as Record<string, unknown>[]).map(catalogueRowFromSql) : [];
+        const fetched = ids.length ? (await run(rowsByIdSql(ids))).map(catalogueRowFromSql) : [];
         const byId = new Map(fetched.map((row) => [row.listingId, row]));
         return ids.flatMap((id) => byId.get(id) ?? []);
       };
       const [counted, fetchedRows] = await Promise.all([countTotal(), pageRows()]);
-      const distanceOf = new Map(plan.yards?.map((yard) => [yard.sawyerId, yard.distanceKm]));
-      const rows = fetchedRows.map((entity) => ({ entity, distance: near ? (distanceOf.get(entity.sawyerId) ?? null) : null }));
+      const rows = fetchedRows.map((entity) => ({ entity, distance: near ? (plan.distanceOf?.get(entity.sawyerId) ?? null) : null }));
       const hasMore = rows.length > input.limit;
       const shown = rows.slice(0, input.limit);
       const last = shown.at(-1);
