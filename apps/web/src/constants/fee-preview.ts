@@ -1,4 +1,5 @@
 import type { FeeSettings } from "@grainyard/slab-math";
+import { formatBasisPoints, formatMoney } from "../utils/money.ts";
 
 /**
  * FEE PREVIEW ONLY, while the fees in force have not arrived (say, no signal in the yard): the
@@ -16,7 +17,5 @@ export const FEE_PREVIEW_NOTE = "A preview with Grainyard's usual fees (today's 
 
 /** The note under the preview when it uses the fees in force, in words. */
 export function feesInForceNote(fees: FeeSettings, currency: string): string {
-  const percent = (bps: number) => `${(bps / 100).toLocaleString("en-US", { maximumFractionDigits: 2 })} %`;
-  const fixed = new Intl.NumberFormat("en-US", { style: "currency", currency }).format(fees.processingFixedMinor / 100);
-  return `A preview with today's fees: ${percent(fees.platformFeeBps)} to Grainyard and ${percent(fees.processingFeeBps)} + ${fixed} card processing. The exact figures appear once the listing is saved.`;
+  return `A preview with today's fees: ${formatBasisPoints(fees.platformFeeBps)} to Grainyard and ${formatBasisPoints(fees.processingFeeBps)} + ${formatMoney(fees.processingFixedMinor, currency)} card processing. The exact figures appear once the listing is saved.`;
 }

@@ -20,6 +20,11 @@ export function formatMoney(minor: number, currency: string): string {
   return sign + text.replace(/\.00$/, `.${String(cents).padStart(2, "0")}`);
 }
 
+/** Basis points as a percentage: 290 → "2.9 %", 1000 → "10 %". */
+export function formatBasisPoints(basisPoints: number): string {
+  return `${(basisPoints / 100).toLocaleString("en", { maximumFractionDigits: 2 })} %`;
+}
+
 export type ParsedMoney = { ok: true; minor: number } | { ok: false; message: string };
 
 /** "12.50", "12,5", "1 200", "$12" → integer minor units; anything else says what to type. */
