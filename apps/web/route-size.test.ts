@@ -6,10 +6,20 @@ describe("JavaScript loaded for a route", () => {
     const bundle = {
       "index.js": { type: "chunk" as const, fileName: "index.js", isEntry: true, imports: ["vue.js"] },
       "vue.js": { type: "chunk" as const, fileName: "vue.js", imports: [] },
-      "BrowseView.js": { type: "chunk" as const, fileName: "BrowseView.js", facadeModuleId: "/src/views/BrowseView.vue", imports: ["vue.js", "card.js"] },
+      "BrowseView.js": {
+        type: "chunk" as const,
+        fileName: "BrowseView.js",
+        facadeModuleId: "/src/views/BrowseView.vue",
+        imports: ["vue.js", "card.js"],
+      },
       "card.js": { type: "chunk" as const, fileName: "card.js", imports: ["format.js"] },
       "format.js": { type: "chunk" as const, fileName: "format.js", imports: [] },
-      "AdminHomeView.js": { type: "chunk" as const, fileName: "AdminHomeView.js", facadeModuleId: "/src/views/AdminHomeView.vue", imports: ["chart.js"] },
+      "AdminHomeView.js": {
+        type: "chunk" as const,
+        fileName: "AdminHomeView.js",
+        facadeModuleId: "/src/views/AdminHomeView.vue",
+        imports: ["chart.js"],
+      },
       "chart.js": { type: "chunk" as const, fileName: "chart.js", imports: [] },
       "style.css": { type: "asset" as const, fileName: "style.css" },
     };

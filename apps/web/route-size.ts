@@ -42,7 +42,9 @@ export function catalogueRouteSize(): Plugin {
       const files = routeFiles(bundle as unknown as Record<string, ChunkLike>, /views\/BrowseView\.vue$/);
       const bytes = files.reduce((sum, file) => sum + gzipSync((bundle[file] as ChunkLike).code ?? "").length, 0);
       const verdict = bytes <= BUDGET_BYTES ? "within" : "OVER";
-      console.log(`\n[grainyard] JavaScript loaded for /browse: ${(bytes / 1024).toFixed(1)} KB gzip in ${files.length} files (goal ≤ 150 KB: ${verdict})`);
+      console.log(
+        `\n[grainyard] JavaScript loaded for /browse: ${(bytes / 1024).toFixed(1)} KB gzip in ${files.length} files (goal ≤ 150 KB: ${verdict})`,
+      );
     },
   };
 }

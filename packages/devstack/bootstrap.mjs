@@ -31,11 +31,16 @@ if (major < 20 || (major === 20 && minor < 19)) fail(`Node.js 20.19 or newer is 
 if (pnpmVersion() !== PNPM_VERSION) {
   say(`installing pnpm ${PNPM_VERSION} with npm…`);
   const result = spawnSync("npm", ["install", "--global", `pnpm@${PNPM_VERSION}`], { stdio: ["ignore", "ignore", "inherit"] });
-  if (result.status !== 0 || pnpmVersion() !== PNPM_VERSION) fail(`could not install pnpm ${PNPM_VERSION} with npm (exit ${result.status}).`);
+  if (result.status !== 0 || pnpmVersion() !== PNPM_VERSION)
+    fail(`could not install pnpm ${PNPM_VERSION} with npm (exit ${result.status}).`);
 }
 
 say("installing workspace dependencies (pnpm install --frozen-lockfile)…");
-const install = spawnSync("pnpm", ["install", "--frozen-lockfile", "--reporter=silent"], { cwd: root, stdio: ["ignore", "inherit", "inherit"], env: { ...process.env, CI: process.env.CI ?? "" } });
+const install = spawnSync("pnpm", ["install", "--frozen-lockfile", "--reporter=silent"], {
+  cwd: root,
+  stdio: ["ignore", "inherit", "inherit"],
+  env: { ...process.env, CI: process.env.CI ?? "" },
+});
 if (install.status !== 0) fail(`pnpm install failed (exit ${install.status}); see the lines above.`);
 
 const tsx = join(root, "packages/devstack/node_modules/.bin/tsx");

@@ -39,7 +39,14 @@ await dataSource.initialize();
 const [{ count }] = (await dataSource.query("SELECT COUNT(*) AS count FROM catalogue_entry")) as { count: string }[];
 
 async function serveApi(catalogueCache: boolean) {
-  const app = createApp({ config: { ...config, catalogueCache }, dataSource, mailer: createMailer(config.mail), storage: createPhotoStorage(config.storage), payments: createPayments(config.payments), logger: createLogger("silent") });
+  const app = createApp({
+    config: { ...config, catalogueCache },
+    dataSource,
+    mailer: createMailer(config.mail),
+    storage: createPhotoStorage(config.storage),
+    payments: createPayments(config.payments),
+    logger: createLogger("silent"),
+  });
   const server = app.listen(0, "127.0.0.1");
   await new Promise((r) => server.once("listening", r));
   return { server, url: `http://127.0.0.1:${(server.address() as AddressInfo).port}/api/v1/catalogue?${TYPICAL}` };
@@ -93,7 +100,9 @@ function percentiles(name: string, samples: Sample[]): Figures {
  * clients would be; every response time is kept, so p95 is exact.
  */
 async function cannon(name: string, url: string, seconds: number): Promise<Sample> {
-  const child = spawn(process.execPath, [join(import.meta.dirname, "load-generator.mjs"), url, String(CONNECTIONS), String(seconds)], { stdio: ["ignore", "pipe", "inherit"] });
+  const child = spawn(process.execPath, [join(import.meta.dirname, "load-generator.mjs"), url, String(CONNECTIONS), String(seconds)], {
+    stdio: ["ignore", "pipe", "inherit"],
+  });
   let output = "";
   child.stdout.on("data", (chunk: Buffer) => (output += chunk.toString()));
   const code = await new Promise<number | null>((resolve) => child.on("close", resolve));
@@ -104,7 +113,14 @@ async function cannon(name: string, url: string, seconds: number): Promise<Sampl
 }
 
 /** The page and count queries as the API issues them, 50 at a time, straight through mysql2. */
-const pool = mysql.createPool({ host: config.database.host, port: config.database.port, user: config.database.user, password: config.database.password, database: config.database.database, connectionLimit: CONNECTIONS });
+const pool = mysql.createPool({
+  host: config.database.host,
+  port: config.database.port,
+  user: config.database.user,
+  password: config.database.password,
+  database: config.database.database,
+  connectionLimit: CONNECTIONS,
+});
 async function rawSql(seconds: number): Promise<Sample> {
   const latencies: number[] = [];
   const deadline = Date.now() + seconds * 1000;
@@ -120,7 +136,9 @@ async function rawSql(seconds: number): Promise<Sample> {
   return { latencies, seconds };
 }
 
-console.log(`\nCatalogue search benchmark — ${count} live listings, ${CONNECTIONS} connections, ${SECONDS} s each in ${ROUNDS} interleaved rounds after a ${WARM_UP_SECONDS} s warm-up`);
+console.log(
+  `\nCatalogue search benchmark — ${count} live listings, ${CONNECTIONS} connections, ${SECONDS} s each in ${ROUNDS} interleaved rounds after a ${WARM_UP_SECONDS} s warm-up`,
+);
 console.log(`typical query: ${TYPICAL}`);
 console.log(`answer size: ${sample.length} bytes, ${(JSON.parse(sample) as { total: number }).total} matches`);
 console.log("\nEXPLAIN of the page query:");
@@ -143,11 +161,23 @@ for (let round = 0; round < ROUNDS; round++) {
 await pool.end();
 const results = endpoints.map(([name], i) => percentiles(name, samples[i]!));
 console.log("");
-console.table(results.map((r) => ({ endpoint: r.name, "requests/s": Math.round(r.requestsPerSecond), "p50 ms": r.p50.toFixed(1), "p95 ms": r.p95.toFixed(1), "p99 ms": r.p99.toFixed(1) })));
+console.table(
+  results.map((r) => ({
+    endpoint: r.name,
+    "requests/s": Math.round(r.requestsPerSecond),
+    "p50 ms": r.p50.toFixed(1),
+    "p95 ms": r.p95.toFixed(1),
+    "p99 ms": r.p99.toFixed(1),
+  })),
+);
 const [bareFigures, apiFigures, uncachedFigures, sqlFigures] = results as [Figures, Figures, Figures, Figures];
-console.log(`API throughput / bare endpoint: ${((apiFigures.requestsPerSecond / bareFigures.requestsPerSecond) * 100).toFixed(0)} %  (goal ≥ 50 %)`);
+console.log(
+  `API throughput / bare endpoint: ${((apiFigures.requestsPerSecond / bareFigures.requestsPerSecond) * 100).toFixed(0)} %  (goal ≥ 50 %)`,
+);
 console.log(`API p95: ${apiFigures.p95.toFixed(1)} ms  (goal ≤ 25 ms)`);
-console.log(`uncached API p50 / raw SQL p50: ${(uncachedFigures.p50 / sqlFigures.p50).toFixed(2)} ×, p95: ${(uncachedFigures.p95 / sqlFigures.p95).toFixed(2)} ×  (goal ≤ 1.5 ×)`);
+console.log(
+  `uncached API p50 / raw SQL p50: ${(uncachedFigures.p50 / sqlFigures.p50).toFixed(2)} ×, p95: ${(uncachedFigures.p95 / sqlFigures.p95).toFixed(2)} ×  (goal ≤ 1.5 ×)`,
+);
 console.log(`uncached API: ${Math.round(uncachedFigures.requestsPerSecond)} requests/s, p95 ${uncachedFigures.p95.toFixed(1)} ms`);
 
 // Other shapes of search, one at a time with the answer cache off (the service alone, no HTTP):
@@ -175,7 +205,12 @@ for (const shape of shapes) {
     if (run >= 5) times.push(performance.now() - started);
   }
   times.sort((a, b) => a - b);
-  shapeRows.push({ search: shape.replace(town, "Chicago"), matches: total, "median ms": times[Math.floor(times.length / 2)]!.toFixed(1), "slowest ms": times.at(-1)!.toFixed(1) });
+  shapeRows.push({
+    search: shape.replace(town, "Chicago"),
+    matches: total,
+    "median ms": times[Math.floor(times.length / 2)]!.toFixed(1),
+    "slowest ms": times.at(-1)!.toFixed(1),
+  });
 }
 console.log("\nOther searches, one at a time, answer cache off (20 runs each after 5 unmeasured):");
 console.table(shapeRows);

@@ -6,7 +6,7 @@ import { expect } from "vitest";
 
 /** The real stack the test runner started: the app on one port, the mail sink's inbox on another. */
 export const appUrl = required("APP_URL");
-export const inboxUrl = required("INBOX_URL");
+const inboxUrl = required("INBOX_URL");
 const screenshotDir = process.env.SCREENSHOT_DIR ?? join(import.meta.dirname, "../../test-results/screenshots");
 
 function required(name: string): string {
@@ -32,7 +32,10 @@ export function launchChromium(): Promise<Browser> {
       "--disable-component-update",
       "--disable-sync",
       // Chromium refuses a few ports outright (10080 among them, ERR_UNSAFE_PORT); a test port base may land on one.
-      `--explicitly-allowed-ports=${[appUrl, inboxUrl].map((url) => new URL(url).port).filter(Boolean).join(",")}`,
+      `--explicitly-allowed-ports=${[appUrl, inboxUrl]
+        .map((url) => new URL(url).port)
+        .filter(Boolean)
+        .join(",")}`,
     ],
   });
 }
@@ -60,7 +63,8 @@ export function watchForPageErrors(page: Page): string[] {
   const problems: string[] = [];
   page.on("pageerror", (error) => problems.push(`page error: ${error.message}`));
   page.on("console", (message) => {
-    if (message.type() === "error" && !/status of 40[13]|status of 409|status of 422/.test(message.text())) problems.push(`console: ${message.text()}`);
+    if (message.type() === "error" && !/status of 40[13]|status of 409|status of 422/.test(message.text()))
+      problems.push(`console: ${message.text()}`);
   });
   return problems;
 }
@@ -69,12 +73,22 @@ export function watchForPageErrors(page: Page): string[] {
  * A JSON request to the app from the test itself, through node:http: Node's fetch refuses the
  * Fetch standard's "bad ports" (10080 among them), and a test port base may land on one.
  */
-export function appJson<T = unknown>(path: string, options: { method?: "GET" | "POST"; body?: unknown } = {}): Promise<{ status: number; body: T }> {
+export function appJson<T = unknown>(
+  path: string,
+  options: { method?: "GET" | "POST"; body?: unknown } = {},
+): Promise<{ status: number; body: T }> {
   const payload = options.body === undefined ? undefined : JSON.stringify(options.body);
   return new Promise((resolvePromise, reject) => {
     const request = httpRequest(
       new URL(path, appUrl),
-      { method: options.method ?? "GET", headers: { accept: "application/json", ...(payload ? { "content-type": "application/json", "content-length": Buffer.byteLength(payload) } : {}) }, timeout: 15_000 },
+      {
+        method: options.method ?? "GET",
+        headers: {
+          accept: "application/json",
+          ...(payload ? { "content-type": "application/json", "content-length": Buffer.byteLength(payload) } : {}),
+        },
+        timeout: 15_000,
+      },
       (response) => {
         const chunks: Buffer[] = [];
         response.on("data", (chunk: Buffer) => chunks.push(chunk));
@@ -97,7 +111,10 @@ export function appJson<T = unknown>(path: string, options: { method?: "GET" | "
 
 /** The id of a seeded listing, found by its title in the catalogue. */
 export async function listingIdOf(title: string): Promise<string> {
-  const { body } = await appJson<{ items?: { id?: string; listingId?: string; title: string }[]; results?: { id?: string; listingId?: string; title: string }[] }>("/api/v1/catalogue?limit=50");
+  const { body } = await appJson<{
+    items?: { id?: string; listingId?: string; title: string }[];
+    results?: { id?: string; listingId?: string; title: string }[];
+  }>("/api/v1/catalogue?limit=50");
   const item = (body.items ?? body.results ?? []).find((i) => i.title === title);
   if (!item) throw new Error(`the seeded listing "${title}" is not in the catalogue`);
   return (item.listingId ?? item.id)!;

@@ -2,7 +2,19 @@ import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
-import { appJson, appUrl, desktop, launchChromium, phone, screenshot, watchForPageErrors, listingIdOf, signIn, mailsTo, mailArrives } from "./browser.ts";
+import {
+  appJson,
+  appUrl,
+  desktop,
+  launchChromium,
+  phone,
+  screenshot,
+  watchForPageErrors,
+  listingIdOf,
+  signIn,
+  mailsTo,
+  mailArrives,
+} from "./browser.ts";
 
 /** A picture of one part of a long page (the buy panel), beside the full-page ones. */
 async function partShot(page: Page, selector: string, name: string) {
@@ -82,12 +94,20 @@ describe("buying a slab", () => {
     await page.emulateMedia({ media: "screen" });
 
     // The sawyer, on a phone: the order in their list, pickup times proposed.
-    const sawyerContext = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-US" });
+    const sawyerContext = await browser.newContext({
+      viewport: phone,
+      deviceScaleFactor: 2,
+      isMobile: true,
+      hasTouch: true,
+      locale: "en-US",
+    });
     const sawyerPage = await sawyerContext.newPage();
     const sawyerProblems = watchForPageErrors(sawyerPage);
     await signIn(sawyerPage, RIDGEBACK);
     await sawyerPage.goto(`${appUrl}/orders`);
-    await expect.poll(() => sawyerPage.locator(`[data-test="order-${orderId}"]`).innerText(), { timeout: 15_000 }).toMatch(/Propose pickup times/);
+    await expect
+      .poll(() => sawyerPage.locator(`[data-test="order-${orderId}"]`).innerText(), { timeout: 15_000 })
+      .toMatch(/Propose pickup times/);
     await screenshot(sawyerPage, "orders-sawyer-390");
     await sawyerPage.locator(`[data-test="order-${orderId}"]`).click();
     await expect.poll(() => sawyerPage.locator('[data-test="pickup-windows-form"]').isVisible(), { timeout: 15_000 }).toBe(true);
@@ -109,7 +129,13 @@ describe("buying a slab", () => {
     await mailArrives(RIDGEBACK.email, /^The buyer chose a pickup time/);
 
     // The same order and receipt on a phone.
-    const phoneContext = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-US" });
+    const phoneContext = await browser.newContext({
+      viewport: phone,
+      deviceScaleFactor: 2,
+      isMobile: true,
+      hasTouch: true,
+      locale: "en-US",
+    });
     const phonePage = await phoneContext.newPage();
     const phoneProblems = watchForPageErrors(phonePage);
     await signIn(phonePage, FERNHILL);

@@ -25,9 +25,11 @@ beforeAll(async () => {
 });
 afterAll(async () => browser?.close());
 
-const phoneContext = (locale = "en-US") => browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale });
+const phoneContext = (locale = "en-US") =>
+  browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale });
 const desktopContext = (locale = "en-US") => browser.newContext({ viewport: desktop, locale });
-const visible = (page: Page, selector: string, timeout = 15_000) => expect.poll(() => page.locator(selector).first().isVisible(), { timeout }).toBe(true);
+const visible = (page: Page, selector: string, timeout = 15_000) =>
+  expect.poll(() => page.locator(selector).first().isVisible(), { timeout }).toBe(true);
 
 /**
  * A full-page screenshot taken from the top (a sticky top bar is drawn where the page was
@@ -50,7 +52,13 @@ async function signIn(page: Page, who: { email: string; password: string }, land
 }
 
 /** The API through the page's own session (cookies and the anti-forgery token), as the app calls it. */
-async function apiCall(page: Page, method: "GET" | "POST" | "PATCH", path: string, body?: unknown, raw?: { contentType: string; data: Buffer }) {
+async function apiCall(
+  page: Page,
+  method: "GET" | "POST" | "PATCH",
+  path: string,
+  body?: unknown,
+  raw?: { contentType: string; data: Buffer },
+) {
   const session = await (await page.request.get(`${appUrl}/api/v1/session`)).json();
   const response = await page.request.fetch(`${appUrl}${path}`, {
     method,
@@ -141,7 +149,9 @@ describe("a homeowner's dining table", () => {
     expect(await page.locator('[data-test="save-search-alerts"]').isChecked()).toBe(true);
     await shot(page, "browse-save-form-1280");
     await page.locator('[data-test="save-search-submit"]').click();
-    await expect.poll(() => page.locator('[data-test="save-search-done"]').innerText(), { timeout: 10_000 }).toContain(`Saved as “${SEARCH_NAME}”`);
+    await expect
+      .poll(() => page.locator('[data-test="save-search-done"]').innerText(), { timeout: 10_000 })
+      .toContain(`Saved as “${SEARCH_NAME}”`);
     await shot(page, "browse-saved-1280");
 
     await page.goto(`${appUrl}/saved-searches`);
@@ -168,12 +178,23 @@ describe("a homeowner's dining table", () => {
       surfacing: "flattened",
       dryingMethod: "air_then_kiln",
     });
-    const made = await apiCall(sawyerPage, "POST", "/api/v1/yard/listings", { title: NEW_LISTING_TITLE, slabIds: [slab.slab.id], priceMode: "fixed", rateMinor: 145_000 });
-    newListingId = made.listing.id;
-    await apiCall(sawyerPage, "POST", `/api/v1/yard/listings/${newListingId}/photos?altText=${encodeURIComponent("Top face of the white oak slab")}`, undefined, {
-      contentType: "image/jpeg",
-      data: await slabPhoto(sawyerPage),
+    const made = await apiCall(sawyerPage, "POST", "/api/v1/yard/listings", {
+      title: NEW_LISTING_TITLE,
+      slabIds: [slab.slab.id],
+      priceMode: "fixed",
+      rateMinor: 145_000,
     });
+    newListingId = made.listing.id;
+    await apiCall(
+      sawyerPage,
+      "POST",
+      `/api/v1/yard/listings/${newListingId}/photos?altText=${encodeURIComponent("Top face of the white oak slab")}`,
+      undefined,
+      {
+        contentType: "image/jpeg",
+        data: await slabPhoto(sawyerPage),
+      },
+    );
     await apiCall(sawyerPage, "POST", `/api/v1/yard/listings/${newListingId}/submit`, {});
     await sawyerContext.close();
 
@@ -293,9 +314,13 @@ describe("asking the sawyer", () => {
     await signIn(buyer, HOMEOWNER, "/account");
     await buyer.goto(`${appUrl}/slabs/${newListingId}`);
     await visible(buyer, '[data-test="ask-sawyer"]');
-    await buyer.locator('[data-test="ask-body"]').fill("Hello! Is it flat enough to use as a dining top as it is, and could we pick it up on a Saturday?");
+    await buyer
+      .locator('[data-test="ask-body"]')
+      .fill("Hello! Is it flat enough to use as a dining top as it is, and could we pick it up on a Saturday?");
     await buyer.locator('[data-test="ask-send"]').click();
-    await expect.poll(() => buyer.locator('[data-test="ask-sent"]').innerText(), { timeout: 10_000 }).toContain("Sent to Ridgeback Urban Timber");
+    await expect
+      .poll(() => buyer.locator('[data-test="ask-sent"]').innerText(), { timeout: 10_000 })
+      .toContain("Sent to Ridgeback Urban Timber");
     await shot(buyer, "slab-page-asked-1280");
 
     // The sawyer's notice links the conversation.
@@ -324,7 +349,11 @@ describe("asking the sawyer", () => {
     expect(await sawyer.locator('[data-test="thread-with"]').innerText()).toBe("Ana and Theo Brandt");
     // Opened: nothing unread any more.
     await expect.poll(() => sawyer.locator('[data-test="menu-unread"]').count(), { timeout: 10_000 }).toBe(0);
-    await sawyer.locator('[data-test="reply-box"]').fill("Yes, it's flattened on both faces and has been through the kiln. Saturday from 9 works; it's heavy, so bring two helpers or a trolley.");
+    await sawyer
+      .locator('[data-test="reply-box"]')
+      .fill(
+        "Yes, it's flattened on both faces and has been through the kiln. Saturday from 9 works; it's heavy, so bring two helpers or a trolley.",
+      );
     await shot(sawyer, "thread-sawyer-typing-390");
     await sawyer.locator('[data-test="send"]').click();
     await expect.poll(() => sawyer.locator('[data-test="message"]').count(), { timeout: 10_000 }).toBe(2);

@@ -39,10 +39,24 @@ async function call(request: APIRequestContext, method: "GET" | "POST" | "PATCH"
 /** A listing of one honey locust slab with one photo, submitted for review through the API. */
 async function submitListing(page: Page, title: string, moisturePct: number): Promise<string> {
   const slab = (
-    await call(page.request, "POST", "/api/v1/yard/slabs", { speciesSlug: "honey-locust", lengthMm: 1800, thicknessMm: 60, widthStationsMm: [420, 440, 430], liveEdge: "both", surfacing: "flattened", dryingMethod: "kiln" })
+    await call(page.request, "POST", "/api/v1/yard/slabs", {
+      speciesSlug: "honey-locust",
+      lengthMm: 1800,
+      thicknessMm: 60,
+      widthStationsMm: [420, 440, 430],
+      liveEdge: "both",
+      surfacing: "flattened",
+      dryingMethod: "kiln",
+    })
   ).slab;
-  await call(page.request, "POST", `/api/v1/yard/slabs/${slab.id}/readings`, { readOn: "2026-11-20", moistureContentPct: moisturePct, method: "pin_meter" });
-  const id = (await call(page.request, "POST", "/api/v1/yard/listings", { title, slabIds: [slab.id], priceMode: "fixed", rateMinor: 64_000 })).listing.id as string;
+  await call(page.request, "POST", `/api/v1/yard/slabs/${slab.id}/readings`, {
+    readOn: "2026-11-20",
+    moistureContentPct: moisturePct,
+    method: "pin_meter",
+  });
+  const id = (
+    await call(page.request, "POST", "/api/v1/yard/listings", { title, slabIds: [slab.id], priceMode: "fixed", rateMinor: 64_000 })
+  ).listing.id as string;
   const photo = await page.evaluate(() => {
     const canvas = document.createElement("canvas");
     canvas.width = 1200;
@@ -55,7 +69,10 @@ async function submitListing(page: Page, title: string, moisturePct: number): Pr
     return canvas.toDataURL("image/jpeg", 0.85);
   });
   const { csrfToken } = await (await page.request.get(`${appUrl}/api/v1/session`)).json();
-  const upload = await page.request.post(`${appUrl}/api/v1/yard/listings/${id}/photos`, { headers: { "x-csrf-token": csrfToken, "content-type": "image/jpeg" }, data: Buffer.from(photo.split(",")[1]!, "base64") });
+  const upload = await page.request.post(`${appUrl}/api/v1/yard/listings/${id}/photos`, {
+    headers: { "x-csrf-token": csrfToken, "content-type": "image/jpeg" },
+    data: Buffer.from(photo.split(",")[1]!, "base64"),
+  });
   expect(upload.status()).toBe(201);
   await call(page.request, "POST", `/api/v1/yard/listings/${id}/submit`);
   return id;
@@ -66,13 +83,20 @@ async function fitsTheScreen(page: Page, width: number) {
   expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(width);
 }
 
-const visible = (page: Page, selector: string) => expect.poll(() => page.locator(selector).first().isVisible(), { timeout: 15_000 }).toBe(true);
+const visible = (page: Page, selector: string) =>
+  expect.poll(() => page.locator(selector).first().isVisible(), { timeout: 15_000 }).toBe(true);
 let listingId = "";
 
 describe("moderation desk", () => {
   it("send back with a reason → the sawyer fixes it on a phone → the admin sees what changed and approves", async () => {
     // The sawyer's listing, made through the API (the yard flows have their own e2e test).
-    const sawyerContext: BrowserContext = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-GB" });
+    const sawyerContext: BrowserContext = await browser.newContext({
+      viewport: phone,
+      deviceScaleFactor: 2,
+      isMobile: true,
+      hasTouch: true,
+      locale: "en-GB",
+    });
     const sawyerPage = await sawyerContext.newPage();
     const sawyerProblems = watchForPageErrors(sawyerPage);
     await signIn(sawyerPage, SAWYER, "/yard");
@@ -103,9 +127,13 @@ describe("moderation desk", () => {
     await screenshot(sawyerPage, "listing-sent-back-390");
     await sawyerPage.getByLabel("Title").fill(FIXED_TITLE);
     await sawyerPage.locator('[data-test="save"]').click();
-    await expect.poll(async () => (await call(sawyerPage.request, "GET", `/api/v1/yard/listings/${listingId}`)).listing.title, { timeout: 15_000 }).toBe(FIXED_TITLE);
+    await expect
+      .poll(async () => (await call(sawyerPage.request, "GET", `/api/v1/yard/listings/${listingId}`)).listing.title, { timeout: 15_000 })
+      .toBe(FIXED_TITLE);
     await sawyerPage.locator('[data-test="submit-for-review"]').click();
-    await expect.poll(() => sawyerPage.locator('[data-test="listing-status"]').innerText(), { timeout: 15_000 }).toMatch(/waiting for review/i);
+    await expect
+      .poll(() => sawyerPage.locator('[data-test="listing-status"]').innerText(), { timeout: 15_000 })
+      .toMatch(/waiting for review/i);
     await screenshot(sawyerPage, "listing-resubmitted-390");
 
     // The admin sees exactly what changed since the last review, and approves.
@@ -150,8 +178,13 @@ describe("moderation desk", () => {
     await submitListing(sawyerPage, `Honey locust offcut ${Date.now().toString(36)}`, 17);
     await sawyerContext.close();
 
-    for (const [size, viewport] of [["390", phone], ["1280", desktop]] as const) {
-      const context = await browser.newContext(size === "390" ? { viewport, deviceScaleFactor: 2, isMobile: true, hasTouch: true } : { viewport });
+    for (const [size, viewport] of [
+      ["390", phone],
+      ["1280", desktop],
+    ] as const) {
+      const context = await browser.newContext(
+        size === "390" ? { viewport, deviceScaleFactor: 2, isMobile: true, hasTouch: true } : { viewport },
+      );
       const page = await context.newPage();
       const problems = watchForPageErrors(page);
       await signIn(page, ADMIN, "/admin");
@@ -160,7 +193,9 @@ describe("moderation desk", () => {
       // chart or say there is nothing yet (other suites of this run may have bought slabs first).
       await expect.poll(() => page.locator("canvas").count(), { timeout: 15_000 }).toBeGreaterThanOrEqual(2);
       for (const panel of ["chart-orders", "chart-money"]) {
-        await expect.poll(() => page.locator(`section[aria-labelledby="${panel}"]`).locator("canvas, .charts__empty").count(), { timeout: 15_000 }).toBe(1);
+        await expect
+          .poll(() => page.locator(`section[aria-labelledby="${panel}"]`).locator("canvas, .charts__empty").count(), { timeout: 15_000 })
+          .toBe(1);
       }
       await page.waitForTimeout(600); // chart animations settle
       await fitsTheScreen(page, viewport.width);
@@ -204,7 +239,10 @@ describe("moderation desk", () => {
         expect(csv.status()).toBe(200);
         expect(await csv.text()).toMatch(/listing\.approve/);
         // Other suites of this run count on the default 7-day hold: put it back.
-        await call(page.request, "PATCH", "/api/v1/admin/settings", { holdDays: 7, reason: "Back to the usual hold after the holiday test." });
+        await call(page.request, "PATCH", "/api/v1/admin/settings", {
+          holdDays: 7,
+          reason: "Back to the usual hold after the holiday test.",
+        });
       }
       await fitsTheScreen(page, viewport.width);
       await screenshot(page, `admin-audit-${size}`);

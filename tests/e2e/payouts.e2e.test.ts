@@ -1,6 +1,17 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appJson, appUrl, desktop, launchChromium, phone, screenshot, watchForPageErrors, listingIdOf, signIn, mailArrives } from "./browser.ts";
+import {
+  appJson,
+  appUrl,
+  desktop,
+  launchChromium,
+  phone,
+  screenshot,
+  watchForPageErrors,
+  listingIdOf,
+  signIn,
+  mailArrives,
+} from "./browser.ts";
 
 /*
  * Paying a sawyer, end to end in Chromium: Northshore Kiln Co-op sets up payouts on the payments
@@ -29,7 +40,10 @@ afterAll(async () => {
  * from the top (the sticky top bar stays where it belongs); an open dialog as the screen shows it.
  */
 async function bothSizes(page: Page, name: string, finish: { width: number; height: number } = phone, dialog = false) {
-  for (const [size, suffix] of [[phone, "390"], [desktop, "1280"]] as const) {
+  for (const [size, suffix] of [
+    [phone, "390"],
+    [desktop, "1280"],
+  ] as const) {
     await page.setViewportSize(size);
     if (!dialog) await page.evaluate(() => window.scrollTo(0, 0));
     await page.waitForTimeout(200);
@@ -133,11 +147,23 @@ describe("payouts", () => {
     expect(await overflowX(desk)).toBeLessThanOrEqual(0);
 
     await row.locator('[data-test="approve-one"]').click();
-    await expect.poll(() => desk.locator('[data-test="confirm-recipient"]').innerText()).toMatch(new RegExp(`${net.replace(/[$.]/g, "\\$&")} goes to the payout account of Northshore Kiln Co-op`));
+    await expect
+      .poll(() => desk.locator('[data-test="confirm-recipient"]').innerText())
+      .toMatch(new RegExp(`${net.replace(/[$.]/g, "\\$&")} goes to the payout account of Northshore Kiln Co-op`));
     await bothSizes(desk, "admin-payouts-confirm", desktop, true);
     await desk.locator('[data-test="confirm"]').click();
-    await expect.poll(() => desk.locator('[data-test="desk-notice"]').innerText(), { timeout: 15_000 }).toContain(`Sent ${net} to Northshore Kiln Co-op`);
-    await expect.poll(() => desk.locator('[data-test="recent-list"] > li', { hasText: "Northshore Kiln Co-op" }).locator('[data-test="recent-status"]').first().innerText()).toBe("Paid out");
+    await expect
+      .poll(() => desk.locator('[data-test="desk-notice"]').innerText(), { timeout: 15_000 })
+      .toContain(`Sent ${net} to Northshore Kiln Co-op`);
+    await expect
+      .poll(() =>
+        desk
+          .locator('[data-test="recent-list"] > li', { hasText: "Northshore Kiln Co-op" })
+          .locator('[data-test="recent-status"]')
+          .first()
+          .innerText(),
+      )
+      .toBe("Paid out");
     await expect.poll(() => desk.locator('[data-test="due-list"] > li', { hasText: "Northshore Kiln Co-op" }).count()).toBe(0);
     await desk.locator("label.chip", { has: desk.locator('[data-test="filter-sent"]') }).click();
     await expect.poll(() => desk.locator('[data-test="filter-sent"]').isChecked()).toBe(true);
@@ -167,10 +193,14 @@ describe("payouts", () => {
     await refund.locator('[data-test="refund-amount"]').fill("150");
     await refund.locator('[data-test="refund-reason"]').fill("A crack under the crotch figure was not shown in the photos.");
     await refund.locator('[data-test="refund-start"]').click();
-    await expect.poll(() => desk.locator('[data-test="refund-confirm-text"]').innerText()).toMatch(/Part of what the buyer paid.*\$150\.00.*buyer and the sawyer both get an e-mail/s);
+    await expect
+      .poll(() => desk.locator('[data-test="refund-confirm-text"]').innerText())
+      .toMatch(/Part of what the buyer paid.*\$150\.00.*buyer and the sawyer both get an e-mail/s);
     await bothSizes(desk, "order-dispute-refund-confirm", desktop, true);
     await desk.locator('[data-test="confirm"]').click();
-    await expect.poll(() => refund.locator('[data-test="refund-result"]').innerText(), { timeout: 15_000 }).toMatch(/\$150\.00 of .* is left/);
+    await expect
+      .poll(() => refund.locator('[data-test="refund-result"]').innerText(), { timeout: 15_000 })
+      .toMatch(/\$150\.00 of .* is left/);
     await bothSizes(desk, "order-dispute-refund-done", desktop);
     await mailArrives(CALLOWAY.email, /^Partial refund on/);
     await mailArrives(NORTHSHORE.email, /^Partial refund on/);

@@ -51,7 +51,9 @@ describe("a sawyer joins from a phone", () => {
     if (await toggle.isVisible()) await toggle.click();
     await page.locator('[data-test="sign-out"]').first().click();
     // Signed out for real: the yard now asks for sign-in.
-    await expect.poll(async () => (await page.request.get(`${appUrl}/api/v1/session`)).json().then((b) => b.account), { timeout: 10_000 }).toBeNull();
+    await expect
+      .poll(async () => (await page.request.get(`${appUrl}/api/v1/session`)).json().then((b) => b.account), { timeout: 10_000 })
+      .toBeNull();
     await page.goto(`${appUrl}/yard`);
     await page.waitForURL(/\/sign-in/, { timeout: 15_000 });
 
@@ -61,7 +63,10 @@ describe("a sawyer joins from a phone", () => {
 
   it("shows the same yard at desktop width, and the main pages render at both widths", async () => {
     // A seeded, verified sawyer from the Lakemont demo.
-    for (const [label, viewport] of [["1280", desktop], ["390", phone]] as const) {
+    for (const [label, viewport] of [
+      ["1280", desktop],
+      ["390", phone],
+    ] as const) {
       const context = await browser.newContext({ viewport });
       const page = await context.newPage();
       const problems = watchForPageErrors(page);

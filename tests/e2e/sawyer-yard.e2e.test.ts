@@ -40,7 +40,8 @@ async function cameraPhoto(page: Page, hue: number): Promise<Buffer> {
   return Buffer.from(dataUrl.split(",")[1]!, "base64");
 }
 
-const visible = (page: Page, selector: string) => expect.poll(() => page.locator(selector).first().isVisible(), { timeout: 15_000 }).toBe(true);
+const visible = (page: Page, selector: string) =>
+  expect.poll(() => page.locator(selector).first().isVisible(), { timeout: 15_000 }).toBe(true);
 
 async function addSlab(page: Page, logId: string, sequence: number, widths: number[]) {
   await page.goto(`${appUrl}/yard/slabs/new?logId=${logId}`);
@@ -65,7 +66,13 @@ async function addSlab(page: Page, logId: string, sequence: number, widths: numb
 describe("a sawyer's yard from a phone", () => {
   it("records a log, two sequential slabs and three readings, lists them with three photos through a lost connection, and submits", async () => {
     // A sawyer who measures in millimetres (the units follow the locale until chosen).
-    const context: BrowserContext = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-GB" });
+    const context: BrowserContext = await browser.newContext({
+      viewport: phone,
+      deviceScaleFactor: 2,
+      isMobile: true,
+      hasTouch: true,
+      locale: "en-GB",
+    });
     const page = await context.newPage();
     const problems = watchForPageErrors(page);
     await signIn(page);
@@ -93,21 +100,33 @@ describe("a sawyer's yard from a phone", () => {
 
     // Three moisture readings on the first slab, drying into the band.
     await page.goto(`${appUrl}/yard/slabs/${first}`);
-    for (const [date, mc] of [["2025-01-15", "24"], ["2025-04-15", "14"], ["2025-07-15", "9"]] as const) {
+    for (const [date, mc] of [
+      ["2025-01-15", "24"],
+      ["2025-04-15", "14"],
+      ["2025-07-15", "9"],
+    ] as const) {
       await page.locator('[data-test="reading-date"]').fill(date);
       await page.getByLabel("Moisture content (%)").fill(mc);
       await page.locator('[data-test="add-reading"]').click();
-      await expect.poll(() => page.locator('[data-test="reading-list"] li').count(), { timeout: 10_000 }).toBeGreaterThanOrEqual([24, 14, 9].indexOf(Number(mc)) + 1);
+      await expect
+        .poll(() => page.locator('[data-test="reading-list"] li').count(), { timeout: 10_000 })
+        .toBeGreaterThanOrEqual([24, 14, 9].indexOf(Number(mc)) + 1);
     }
     await visible(page, '[data-test="moisture-chart"]');
     await expect.poll(() => page.locator('[data-test="drying-state"]').innerText()).toMatch(/ready/i);
     await screenshot(page, "slab-readings-390");
     await page.goto(`${appUrl}/yard/slabs/${second}`);
-    for (const [date, mc] of [["2025-01-15", "23"], ["2025-04-15", "13"], ["2025-07-15", "9"]] as const) {
+    for (const [date, mc] of [
+      ["2025-01-15", "23"],
+      ["2025-04-15", "13"],
+      ["2025-07-15", "9"],
+    ] as const) {
       await page.locator('[data-test="reading-date"]').fill(date);
       await page.getByLabel("Moisture content (%)").fill(mc);
       await page.locator('[data-test="add-reading"]').click();
-      await expect.poll(() => page.locator('[data-test="reading-list"] li').count(), { timeout: 10_000 }).toBeGreaterThanOrEqual([23, 13, 9].indexOf(Number(mc)) + 1);
+      await expect
+        .poll(() => page.locator('[data-test="reading-list"] li').count(), { timeout: 10_000 })
+        .toBeGreaterThanOrEqual([23, 13, 9].indexOf(Number(mc)) + 1);
     }
 
     // The listing: a sequential pair. Typed data survives a reload.
@@ -134,7 +153,9 @@ describe("a sawyer's yard from a phone", () => {
       { name: "live-edge.jpg", mimeType: "image/jpeg", buffer: await cameraPhoto(page, 20) },
     ]);
     await page.locator('[data-test="save"]').click();
-    await expect.poll(() => page.locator('[data-test="draft-sync-state"]').innerText(), { timeout: 10_000 }).toMatch(/saved on this phone/i);
+    await expect
+      .poll(() => page.locator('[data-test="draft-sync-state"]').innerText(), { timeout: 10_000 })
+      .toMatch(/saved on this phone/i);
     await screenshot(page, "listing-offline-390");
 
     // Back online: the draft syncs by itself, photos upload with progress, and it can be submitted.

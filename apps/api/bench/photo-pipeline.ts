@@ -50,7 +50,9 @@ function median(values: number[]): number {
 }
 
 const photo = await makePhonePhoto();
-console.log(`photo: ${WIDTH}×${HEIGHT} JPEG q90 with EXIF, ${(photo.length / 1024 / 1024).toFixed(2)} MB; ${os.availableParallelism()} cores; libvips threads ${sharp.concurrency()}`);
+console.log(
+  `photo: ${WIDTH}×${HEIGHT} JPEG q90 with EXIF, ${(photo.length / 1024 / 1024).toFixed(2)} MB; ${os.availableParallelism()} cores; libvips threads ${sharp.concurrency()}`,
+);
 
 // One warm-up run: loads libvips code paths once, as a running server would have done.
 await renderDisplaySizes(photo);
@@ -64,7 +66,9 @@ for (let run = 0; run < RUNS; run++) {
   timings.push(performance.now() - started);
 }
 
-console.log(`inspectPhoto + renderDisplaySizes, ${RUNS} runs: median ${median(timings).toFixed(0)} ms, min ${Math.min(...timings).toFixed(0)} ms, max ${Math.max(...timings).toFixed(0)} ms`);
+console.log(
+  `inspectPhoto + renderDisplaySizes, ${RUNS} runs: median ${median(timings).toFixed(0)} ms, min ${Math.min(...timings).toFixed(0)} ms, max ${Math.max(...timings).toFixed(0)} ms`,
+);
 for (const size of lastSizes) {
   console.log(`  ${size.name}: ${size.width}×${size.height} WebP, ${(size.bytes.length / 1024).toFixed(1)} KB`);
 }

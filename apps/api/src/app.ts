@@ -33,6 +33,7 @@ import { createYardService } from "./services/yard-service.ts";
 import { favouriteRoutes } from "./routes/favourite-routes.ts";
 import { messageRoutes } from "./routes/message-routes.ts";
 import { savedSearchRoutes } from "./routes/saved-search-routes.ts";
+import { createHealthService } from "./services/health-service.ts";
 import { createFavouriteService } from "./services/favourite-service.ts";
 import { createMessageService } from "./services/message-service.ts";
 import { createSavedSearchService } from "./services/saved-search-service.ts";
@@ -94,7 +95,11 @@ export function createApp(appDeps: AppDependencies) {
 
   // The catalogue search is the busiest route and the same for everyone: it answers before the
   // session, the anti-forgery check and the acting-user lookup (it never needs them).
-  const catalogue = createCatalogueService({ dataSource: deps.dataSource, cursorSecret: config.sessionSecret, cache: config.catalogueCache });
+  const catalogue = createCatalogueService({
+    dataSource: deps.dataSource,
+    cursorSecret: config.sessionSecret,
+    cache: config.catalogueCache,
+  });
   app.get(catalogueSearchPath, catalogueSearch(catalogue));
   // Everything else that is text (JSON, the web app's HTML, scripts and styles, CSV) goes out
   // compressed to clients that take it; photos are already compressed and pass through.
@@ -131,7 +136,15 @@ export function createApp(appDeps: AppDependencies) {
     onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
     onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
   });
-  const payouts = createPayoutService({ dataSource: deps.dataSource, payments: deps.payments, mailer: deps.mailer, config, holdDays: () => settings.current().holdDays, log: logger, now: deps.now });
+  const payouts = createPayoutService({
+    dataSource: deps.dataSource,
+    payments: deps.payments,
+    mailer: deps.mailer,
+    config,
+    holdDays: () => settings.current().holdDays,
+    log: logger,
+    now: deps.now,
+  });
   const orders = createOrderService({
     dataSource: deps.dataSource,
     payments: deps.payments,
@@ -162,18 +175,49 @@ export function createApp(appDeps: AppDependencies) {
     now: deps.now,
     onYardChanged: (manager, sawyerId) => listings.refreshAllOfSawyer(manager, sawyerId),
   });
-  const yard = createYardService({ dataSource: deps.dataSource, onSlabFiguresChanged: (manager, slabIds) => listings.refreshListingsOfSlabs(manager, slabIds) });
+  const yard = createYardService({
+    dataSource: deps.dataSource,
+    onSlabFiguresChanged: (manager, slabIds) => listings.refreshListingsOfSlabs(manager, slabIds),
+  });
   const inventoryCsv = createInventoryCsv({ dataSource: deps.dataSource, yard });
   const photos = createPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
   const logPhotos = createLogPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
-  const savedSearches = createSavedSearchService({ dataSource: deps.dataSource, mailer: deps.mailer, catalogue, config, log: logger, now: deps.now });
+  const savedSearches = createSavedSearchService({
+    dataSource: deps.dataSource,
+    mailer: deps.mailer,
+    catalogue,
+    config,
+    log: logger,
+    now: deps.now,
+  });
   const favourites = createFavouriteService({ dataSource: deps.dataSource, now: deps.now });
   const messages = createMessageService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
-  const refreshCatalogue = (manager: Parameters<typeof catalogue.refreshEntry>[0], listingId: string) => catalogue.refreshEntry(manager, listingId);
+  const refreshCatalogue = (manager: Parameters<typeof catalogue.refreshEntry>[0], listingId: string) =>
+    catalogue.refreshEntry(manager, listingId);
   const audit = createAuditService({ dataSource: deps.dataSource });
-  const moderation = createAccountModeration({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now, onListingChanged: refreshCatalogue });
-  const reports = createReportService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, moderation, now: deps.now, onListingChanged: refreshCatalogue });
-  const dashboard = createDashboardService({ dataSource: deps.dataSource, now: deps.now, openReports: () => reports.openCount(), suspendedUsers: () => moderation.suspendedCount() });
+  const moderation = createAccountModeration({
+    dataSource: deps.dataSource,
+    mailer: deps.mailer,
+    config,
+    log: logger,
+    now: deps.now,
+    onListingChanged: refreshCatalogue,
+  });
+  const reports = createReportService({
+    dataSource: deps.dataSource,
+    mailer: deps.mailer,
+    config,
+    log: logger,
+    moderation,
+    now: deps.now,
+    onListingChanged: refreshCatalogue,
+  });
+  const dashboard = createDashboardService({
+    dataSource: deps.dataSource,
+    now: deps.now,
+    openReports: () => reports.openCount(),
+    suspendedUsers: () => moderation.suspendedCount(),
+  });
 
   // Who is acting: read once per request from the session key in the cookie.
   app.use(async (req: Request, _res: Response, next: NextFunction) => {
@@ -187,10 +231,18 @@ export function createApp(appDeps: AppDependencies) {
     }
   });
 
-  app.use("/api", healthRoutes(deps));
+  app.use("/api", healthRoutes(createHealthService(deps)));
   // Read-only routes first (no anti-forgery check needed): fewer routers to walk past.
   app.use("/api/v1", catalogueRoutes(catalogue, settings));
-  app.use("/api/v1", requireCsrfToken, accountRoutes(accounts, createRateLimits(config.limits)), yardRoutes(yard, inventoryCsv, logPhotos), listingRoutes(listings), photoRoutes(photos, logPhotos), orderRoutes(checkout, orders));
+  app.use(
+    "/api/v1",
+    requireCsrfToken,
+    accountRoutes(accounts, createRateLimits(config.limits)),
+    yardRoutes(yard, inventoryCsv, logPhotos),
+    listingRoutes(listings),
+    photoRoutes(photos, logPhotos),
+    orderRoutes(checkout, orders),
+  );
   app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));
   app.use("/api/v1", requireCsrfToken, adminRoutes({ listings, audit, reports, moderation, settings, dashboard }), payoutRoutes(payouts));
   if (testClock) app.use("/api/_test", testClockRoutes(testClock));
@@ -201,9 +253,13 @@ export function createApp(appDeps: AppDependencies) {
     const webDist = config.webDist;
     // Vite names built scripts, styles and fonts by their content, so a browser may keep them for good;
     // one that is missing is a 404, never the app's page in its place.
-    app.use("/assets", express.static(join(webDist, "assets"), { index: false, immutable: true, maxAge: "365d" }), (_req: Request, res: Response) => {
-      res.status(404).type("text/plain").send("Not found");
-    });
+    app.use(
+      "/assets",
+      express.static(join(webDist, "assets"), { index: false, immutable: true, maxAge: "365d" }),
+      (_req: Request, res: Response) => {
+        res.status(404).type("text/plain").send("Not found");
+      },
+    );
     app.use(express.static(webDist, { index: false, maxAge: production ? "1h" : 0 }));
     app.get("/{*path}", (_req, res) => {
       res.setHeader("cache-control", "no-cache");

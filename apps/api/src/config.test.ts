@@ -16,7 +16,13 @@ describe("configuration", () => {
   });
 
   it("reads the stack endpoints from the environment", () => {
-    const config = loadConfig({ ...base, DATABASE_PORT: "5085", S3_ENDPOINT: "http://127.0.0.1:5083", PAYMENTS_PROTOCOL: "http", PAYMENTS_PORT: "5082" });
+    const config = loadConfig({
+      ...base,
+      DATABASE_PORT: "5085",
+      S3_ENDPOINT: "http://127.0.0.1:5083",
+      PAYMENTS_PROTOCOL: "http",
+      PAYMENTS_PORT: "5082",
+    });
     expect(config.database.port).toBe(5085);
     expect(config.storage.endpoint).toBe("http://127.0.0.1:5083");
     expect(config.payments).toMatchObject({ protocol: "http", port: 5082 });

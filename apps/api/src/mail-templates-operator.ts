@@ -8,7 +8,12 @@ export function listingRejectedMail(to: string, displayName: string, title: stri
     to,
     subject: `"${title}" was not accepted`,
     ...layout(
-      [`Hello ${displayName},`, `Our reviewer looked at "${title}" and cannot accept it on Grainyard:`, `“${reason}”`, "The slabs are back in your yard and free for another listing. Reply to this e-mail if you think this is a mistake."],
+      [
+        `Hello ${displayName},`,
+        `Our reviewer looked at "${title}" and cannot accept it on Grainyard:`,
+        `“${reason}”`,
+        "The slabs are back in your yard and free for another listing. Reply to this e-mail if you think this is a mistake.",
+      ],
       { label: "See the listing", url: link },
     ),
   };
@@ -18,7 +23,15 @@ export function listingTakenDownMail(to: string, displayName: string, title: str
   return {
     to,
     subject: `"${title}" was taken down`,
-    ...layout([`Hello ${displayName},`, `After a report, we took "${title}" off Grainyard:`, `“${reason}”`, "Reply to this e-mail if you think this is a mistake."], { label: "See the listing", url: link }),
+    ...layout(
+      [
+        `Hello ${displayName},`,
+        `After a report, we took "${title}" off Grainyard:`,
+        `“${reason}”`,
+        "Reply to this e-mail if you think this is a mistake.",
+      ],
+      { label: "See the listing", url: link },
+    ),
   };
 }
 
@@ -39,6 +52,9 @@ export function accountRestoredMail(to: string, displayName: string, link: strin
   return {
     to,
     subject: "Your Grainyard account is open again",
-    ...layout([`Hello ${displayName},`, "Your account is restored: you can sign in again, and listings that were live are back in the catalogue."], { label: "Sign in", url: link }),
+    ...layout(
+      [`Hello ${displayName},`, "Your account is restored: you can sign in again, and listings that were live are back in the catalogue."],
+      { label: "Sign in", url: link },
+    ),
   };
 }

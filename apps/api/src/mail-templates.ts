@@ -3,9 +3,13 @@ import type { OutgoingMail } from "./integrations/mail.ts";
 /** The words of every e-mail Grainyard sends, in one place. Plain text first; the HTML mirrors it. */
 export function layout(paragraphs: string[], action?: { label: string; url: string }): { text: string; html: string } {
   const escape = (s: string) => s.replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c]!);
-  const text = [...paragraphs, ...(action ? [`${action.label}: ${action.url}`] : []), "", "— Grainyard, slabs from city trees"].join("\n\n");
+  const text = [...paragraphs, ...(action ? [`${action.label}: ${action.url}`] : []), "", "— Grainyard, slabs from city trees"].join(
+    "\n\n",
+  );
   const html = `<div style="font-family:Georgia,serif;color:#2b241c;max-width:560px">${paragraphs.map((p) => `<p>${escape(p)}</p>`).join("")}${
-    action ? `<p><a href="${escape(action.url)}" style="background:#6b3f1d;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">${escape(action.label)}</a></p><p style="font-size:13px;color:#6d6256">Or paste this address into your browser: ${escape(action.url)}</p>` : ""
+    action
+      ? `<p><a href="${escape(action.url)}" style="background:#6b3f1d;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">${escape(action.label)}</a></p><p style="font-size:13px;color:#6d6256">Or paste this address into your browser: ${escape(action.url)}</p>`
+      : ""
   }<p style="font-size:13px;color:#6d6256">— Grainyard, slabs from city trees</p></div>`;
   return { text, html };
 }
@@ -15,7 +19,11 @@ export function verificationMail(to: string, displayName: string, link: string):
     to,
     subject: "Confirm your e-mail for Grainyard",
     ...layout(
-      [`Hello ${displayName},`, "Please confirm this address so we know it reaches you. The link works once and expires in 48 hours.", "If you did not sign up, you can ignore this e-mail."],
+      [
+        `Hello ${displayName},`,
+        "Please confirm this address so we know it reaches you. The link works once and expires in 48 hours.",
+        "If you did not sign up, you can ignore this e-mail.",
+      ],
       { label: "Confirm my e-mail", url: link },
     ),
   };
@@ -26,7 +34,11 @@ export function passwordResetMail(to: string, displayName: string, link: string)
     to,
     subject: "Reset your Grainyard password",
     ...layout(
-      [`Hello ${displayName},`, "Someone asked to reset the password of this Grainyard account. The link works once and expires in 1 hour.", "If it was not you, ignore this e-mail: your password stays as it is."],
+      [
+        `Hello ${displayName},`,
+        "Someone asked to reset the password of this Grainyard account. The link works once and expires in 1 hour.",
+        "If it was not you, ignore this e-mail: your password stays as it is.",
+      ],
       { label: "Choose a new password", url: link },
     ),
   };
@@ -36,7 +48,10 @@ export function listingApprovedMail(to: string, displayName: string, title: stri
   return {
     to,
     subject: `Your listing is live: ${title}`,
-    ...layout([`Hello ${displayName},`, `Good news: "${title}" passed review and is now live on Grainyard. Buyers can find it from today.`], { label: "See the listing", url: link }),
+    ...layout(
+      [`Hello ${displayName},`, `Good news: "${title}" passed review and is now live on Grainyard. Buyers can find it from today.`],
+      { label: "See the listing", url: link },
+    ),
   };
 }
 
@@ -45,7 +60,12 @@ export function listingSentBackMail(to: string, displayName: string, title: stri
     to,
     subject: `Changes needed before "${title}" goes live`,
     ...layout(
-      [`Hello ${displayName},`, `Our reviewer looked at "${title}" and asks for a change before it goes live:`, `“${reason}”`, "Edit the listing and submit it again; it comes straight back to the review list."],
+      [
+        `Hello ${displayName},`,
+        `Our reviewer looked at "${title}" and asks for a change before it goes live:`,
+        `“${reason}”`,
+        "Edit the listing and submit it again; it comes straight back to the review list.",
+      ],
       { label: "Edit the listing", url: link },
     ),
   };
@@ -75,7 +95,12 @@ function slabLines(order: OrderForMail): string[] {
   });
 }
 
-export function orderPaidBuyerMail(buyer: { email: string; displayName: string }, sawyer: { yardName: string | null; pickupTown: string | null }, order: OrderForMail, link: string): OutgoingMail {
+export function orderPaidBuyerMail(
+  buyer: { email: string; displayName: string },
+  sawyer: { yardName: string | null; pickupTown: string | null },
+  order: OrderForMail,
+  link: string,
+): OutgoingMail {
   const handover =
     order.handover === "pickup"
       ? `Pickup at ${sawyer.yardName ?? "the yard"}, ${sawyer.pickupTown ?? ""}. The sawyer will propose pickup times.`
@@ -98,7 +123,12 @@ export function orderPaidBuyerMail(buyer: { email: string; displayName: string }
   };
 }
 
-export function orderPaidSawyerMail(sawyer: { email: string; displayName: string }, buyer: { displayName: string }, order: OrderForMail, link: string): OutgoingMail {
+export function orderPaidSawyerMail(
+  sawyer: { email: string; displayName: string },
+  buyer: { displayName: string },
+  order: OrderForMail,
+  link: string,
+): OutgoingMail {
   return {
     to: sawyer.email,
     subject: `Sold: ${order.title}`,
@@ -107,7 +137,9 @@ export function orderPaidSawyerMail(sawyer: { email: string; displayName: string
         `Hello ${sawyer.displayName},`,
         `${buyer.displayName} bought "${order.title}" and the payment is confirmed.`,
         `Price ${moneyText(order.priceMinor, order.currency)} − platform fee ${moneyText(order.platformFeeMinor, order.currency)} − card processing ${moneyText(order.processingFeeMinor, order.currency)} = your net ${moneyText(order.sawyerNetMinor, order.currency)}.`,
-        order.handover === "pickup" ? "The buyer collects from your yard: propose pickup times from the order page." : `Freight to: ${order.deliveryAddress ?? ""}. Add the carrier and tracking reference on the order page.`,
+        order.handover === "pickup"
+          ? "The buyer collects from your yard: propose pickup times from the order page."
+          : `Freight to: ${order.deliveryAddress ?? ""}. Add the carrier and tracking reference on the order page.`,
       ],
       { label: "Open the order", url: link },
     ),
@@ -139,9 +171,13 @@ interface OrderStepFacts extends OrderForMail {
 export function windowText(startsAt: string | Date, endsAt: string | Date, timeZone = "UTC"): string {
   const start = new Date(startsAt);
   const end = new Date(endsAt);
-  const day = new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone }).format(start);
+  const day = new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone }).format(
+    start,
+  );
   const time = (d: Date) => new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone }).format(d);
-  const zone = new Intl.DateTimeFormat("en-US", { timeZone, timeZoneName: "short" }).formatToParts(start).find((part) => part.type === "timeZoneName")?.value ?? timeZone;
+  const zone =
+    new Intl.DateTimeFormat("en-US", { timeZone, timeZoneName: "short" }).formatToParts(start).find((part) => part.type === "timeZoneName")
+      ?.value ?? timeZone;
   return `${day}, ${time(start)}–${time(end)} ${zone}`;
 }
 
@@ -160,7 +196,8 @@ export function orderStepMail(
   const yard = parties.yardName ?? "the yard";
   const title = `"${order.title}"`;
   const hello = `Hello ${to.displayName},`;
-  const chosen = order.pickupStartsAt && order.pickupEndsAt ? windowText(order.pickupStartsAt, order.pickupEndsAt, parties.yardTimeZone) : "";
+  const chosen =
+    order.pickupStartsAt && order.pickupEndsAt ? windowText(order.pickupStartsAt, order.pickupEndsAt, parties.yardTimeZone) : "";
   let subject: string;
   let lines: string[];
   switch (step) {
@@ -169,30 +206,71 @@ export function orderStepMail(
       subject = role === "buyer" ? `Choose a pickup time: ${order.title}` : `Pickup times sent: ${order.title}`;
       lines =
         role === "buyer"
-          ? [hello, `${yard} is ready for you to collect ${title}. Choose one of these times on the order page:`, ...windows, `Where: ${order.pickupAddress ?? ""}`, LIFT_CAUTION]
-          : [hello, `You proposed these pickup times to ${parties.buyerName} for ${title}:`, ...windows, `Where: ${order.pickupAddress ?? ""}`, "We will tell you when the buyer chooses one."];
+          ? [
+              hello,
+              `${yard} is ready for you to collect ${title}. Choose one of these times on the order page:`,
+              ...windows,
+              `Where: ${order.pickupAddress ?? ""}`,
+              LIFT_CAUTION,
+            ]
+          : [
+              hello,
+              `You proposed these pickup times to ${parties.buyerName} for ${title}:`,
+              ...windows,
+              `Where: ${order.pickupAddress ?? ""}`,
+              "We will tell you when the buyer chooses one.",
+            ];
       break;
     }
     case "pickup_window_chosen":
       subject = role === "buyer" ? `Pickup booked: ${order.title}` : `The buyer chose a pickup time: ${order.title}`;
       lines =
         role === "buyer"
-          ? [hello, `You will collect ${title} from ${yard}: ${chosen}.`, `Where: ${order.pickupAddress ?? ""}`, "Bring enough hands or a lifting aid, straps and a vehicle long enough for the slab.", LIFT_CAUTION]
-          : [hello, `${parties.buyerName} will collect ${title}: ${chosen}.`, `Where: ${order.pickupAddress ?? ""}`, "Mark the order as handed over once it has left the yard."];
+          ? [
+              hello,
+              `You will collect ${title} from ${yard}: ${chosen}.`,
+              `Where: ${order.pickupAddress ?? ""}`,
+              "Bring enough hands or a lifting aid, straps and a vehicle long enough for the slab.",
+              LIFT_CAUTION,
+            ]
+          : [
+              hello,
+              `${parties.buyerName} will collect ${title}: ${chosen}.`,
+              `Where: ${order.pickupAddress ?? ""}`,
+              "Mark the order as handed over once it has left the yard.",
+            ];
       break;
     case "shipped":
       subject = role === "buyer" ? `On its way: ${order.title}` : `Marked as shipped: ${order.title}`;
       lines =
         role === "buyer"
-          ? [hello, `${yard} sent ${title} by freight to: ${order.deliveryAddress ?? ""}.`, `Carrier: ${order.carrier ?? ""}. Tracking reference: ${order.trackingReference ?? ""}.`, "Have help ready for the delivery. " + LIFT_CAUTION]
-          : [hello, `You sent ${title} to ${parties.buyerName}.`, `Carrier: ${order.carrier ?? ""}. Tracking reference: ${order.trackingReference ?? ""}.`, "Mark the order as handed over once the carrier has delivered it."]
+          ? [
+              hello,
+              `${yard} sent ${title} by freight to: ${order.deliveryAddress ?? ""}.`,
+              `Carrier: ${order.carrier ?? ""}. Tracking reference: ${order.trackingReference ?? ""}.`,
+              "Have help ready for the delivery. " + LIFT_CAUTION,
+            ]
+          : [
+              hello,
+              `You sent ${title} to ${parties.buyerName}.`,
+              `Carrier: ${order.carrier ?? ""}. Tracking reference: ${order.trackingReference ?? ""}.`,
+              "Mark the order as handed over once the carrier has delivered it.",
+            ];
       break;
     case "handed_over":
       subject = role === "buyer" ? `Handed over: ${order.title}` : `Handed over: ${order.title}`;
       lines =
         role === "buyer"
-          ? [hello, `${yard} marked ${title} as handed over to you.`, `Please confirm on the order page that you have it and it is as described. If we hear nothing, the order completes by itself ${autoCompleteDays} days after hand-over.`]
-          : [hello, `You marked ${title} as handed over to ${parties.buyerName}.`, `The order completes when the buyer confirms, or by itself ${autoCompleteDays} days after hand-over.`];
+          ? [
+              hello,
+              `${yard} marked ${title} as handed over to you.`,
+              `Please confirm on the order page that you have it and it is as described. If we hear nothing, the order completes by itself ${autoCompleteDays} days after hand-over.`,
+            ]
+          : [
+              hello,
+              `You marked ${title} as handed over to ${parties.buyerName}.`,
+              `The order completes when the buyer confirms, or by itself ${autoCompleteDays} days after hand-over.`,
+            ];
       break;
     case "completed":
       subject = `Completed: ${order.title}`;
@@ -210,13 +288,18 @@ export function orderStepMail(
       break;
     case "cancelled": {
       const who = order.cancelledBy === role ? "You" : order.cancelledBy === "sawyer" ? yard : parties.buyerName;
-      const refund = order.status === "refunded" ? `The full payment of ${moneyText(order.totalMinor, order.currency)} has been refunded to the card.` : `The full payment of ${moneyText(order.totalMinor, order.currency)} is being refunded to the card.`;
+      const refund =
+        order.status === "refunded"
+          ? `The full payment of ${moneyText(order.totalMinor, order.currency)} has been refunded to the card.`
+          : `The full payment of ${moneyText(order.totalMinor, order.currency)} is being refunded to the card.`;
       subject = `Cancelled and refunded: ${order.title}`;
       lines = [
         hello,
         `${who} cancelled the order for ${title}.`,
         `Reason given: “${order.cancelReason ?? ""}”`,
-        role === "buyer" ? `${refund} Banks usually show it within 5–10 business days.` : `${refund} The slab is back on sale in the catalogue.`,
+        role === "buyer"
+          ? `${refund} Banks usually show it within 5–10 business days.`
+          : `${refund} The slab is back on sale in the catalogue.`,
       ];
       break;
     }
@@ -242,7 +325,14 @@ export interface AlertMailItem {
 }
 
 /** New listings matching a saved search (one e-mail a day at most), with an unsubscribe link that needs no sign-in. */
-export function savedSearchAlertMail(to: string, displayName: string, searchName: string, items: AlertMailItem[], searchUrl: string, unsubscribeUrl: string): OutgoingMail {
+export function savedSearchAlertMail(
+  to: string,
+  displayName: string,
+  searchName: string,
+  items: AlertMailItem[],
+  searchUrl: string,
+  unsubscribeUrl: string,
+): OutgoingMail {
   const count = items.length === 1 ? "A new slab matches" : `${items.length} new slabs match`;
   const intro = `${count} your saved search "${searchName}":`;
   const line = (item: AlertMailItem) => `${item.title} — ${priceText(item.priceMinor, item.currency)}${item.town ? `, ${item.town}` : ""}`;
@@ -258,23 +348,50 @@ export function savedSearchAlertMail(to: string, displayName: string, searchName
   ].join("\n\n");
   const html = `<div style="font-family:Georgia,serif;color:#2b241c;max-width:560px"><p>${escapeHtmlText(`Hello ${displayName},`)}</p><p>${escapeHtmlText(intro)}</p><ul>${items
     .map((item) => `<li><a href="${escapeHtmlText(item.url)}">${escapeHtmlText(line(item))}</a></li>`)
-    .join("")}</ul><p><a href="${escapeHtmlText(searchUrl)}" style="background:#6b3f1d;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">See everything that matches</a></p><p style="font-size:13px;color:#6d6256">We send at most one of these a day. <a href="${escapeHtmlText(unsubscribeUrl)}">Stop alerts for “${escapeHtmlText(searchName)}”</a>.</p><p style="font-size:13px;color:#6d6256">${footer}</p></div>`;
-  return { to, subject: items.length === 1 ? `New slab for "${searchName}": ${items[0]!.title}` : `${items.length} new slabs for "${searchName}"`, text, html };
+    .join(
+      "",
+    )}</ul><p><a href="${escapeHtmlText(searchUrl)}" style="background:#6b3f1d;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">See everything that matches</a></p><p style="font-size:13px;color:#6d6256">We send at most one of these a day. <a href="${escapeHtmlText(unsubscribeUrl)}">Stop alerts for “${escapeHtmlText(searchName)}”</a>.</p><p style="font-size:13px;color:#6d6256">${footer}</p></div>`;
+  return {
+    to,
+    subject: items.length === 1 ? `New slab for "${searchName}": ${items[0]!.title}` : `${items.length} new slabs for "${searchName}"`,
+    text,
+    html,
+  };
 }
 
 /** A new message about a listing, for the other party: who wrote, a short excerpt, and the thread's link. */
-export function messageNoticeMail(to: string, displayName: string, fromName: string, listingTitle: string, excerpt: string, link: string): OutgoingMail {
+export function messageNoticeMail(
+  to: string,
+  displayName: string,
+  fromName: string,
+  listingTitle: string,
+  excerpt: string,
+  link: string,
+): OutgoingMail {
   return {
     to,
     subject: `New message about "${listingTitle}" from ${fromName}`,
-    ...layout([`Hello ${displayName},`, `${fromName} wrote about "${listingTitle}":`, `“${excerpt}”`, "Answer on Grainyard so the conversation stays with the listing."], { label: "Read and answer", url: link }),
+    ...layout(
+      [
+        `Hello ${displayName},`,
+        `${fromName} wrote about "${listingTitle}":`,
+        `“${excerpt}”`,
+        "Answer on Grainyard so the conversation stays with the listing.",
+      ],
+      { label: "Read and answer", url: link },
+    ),
   };
 }
 
 const payoutMoney = (minor: number, currency: string) => new Intl.NumberFormat("en", { style: "currency", currency }).format(minor / 100);
 
 /** A payout went out to the sawyer's payout account. */
-export function payoutSentMail(sawyer: { email: string; displayName: string }, payout: { amountMinor: number; currency: string }, orderCount: number, link: string): OutgoingMail {
+export function payoutSentMail(
+  sawyer: { email: string; displayName: string },
+  payout: { amountMinor: number; currency: string },
+  orderCount: number,
+  link: string,
+): OutgoingMail {
   return {
     to: sawyer.email,
     subject: `Grainyard sent you ${payoutMoney(payout.amountMinor, payout.currency)}`,
@@ -290,7 +407,14 @@ export function payoutSentMail(sawyer: { email: string; displayName: string }, p
 }
 
 /** An admin refunded all or part of a disputed order; both parties read the reason. */
-export function disputeRefundMail(person: { email: string; displayName: string }, side: "buyer" | "sawyer", order: { title: string; currency: string; totalMinor: number }, amountMinor: number, reason: string, link: string): OutgoingMail {
+export function disputeRefundMail(
+  person: { email: string; displayName: string },
+  side: "buyer" | "sawyer",
+  order: { title: string; currency: string; totalMinor: number },
+  amountMinor: number,
+  reason: string,
+  link: string,
+): OutgoingMail {
   const amount = payoutMoney(amountMinor, order.currency);
   const whole = amountMinor === order.totalMinor;
   return {

@@ -47,7 +47,11 @@ async function listen(app: PaymentsFakeApp): Promise<Server> {
 beforeAll(async () => {
   await new Promise<void>((r) => receiver.listen(0, "127.0.0.1", () => r()));
   const receiverUrl = `http://127.0.0.1:${(receiver.address() as AddressInfo).port}/webhook`;
-  fake = createPaymentsFakeApp({ stateFile, secretKey: SECRET_KEY, webhook: { url: receiverUrl, secret: WEBHOOK_SECRET, retryBaseMs: 20, maxAttempts: 4 } });
+  fake = createPaymentsFakeApp({
+    stateFile,
+    secretKey: SECRET_KEY,
+    webhook: { url: receiverUrl, secret: WEBHOOK_SECRET, retryBaseMs: 20, maxAttempts: 4 },
+  });
   server = await listen(fake);
   const port = (server.address() as AddressInfo).port;
   base = `http://127.0.0.1:${port}`;
@@ -101,19 +105,47 @@ describe("the provider's protocol, through the official SDK", () => {
   });
 
   it("maps errors to the SDK's typed errors", async () => {
-    const wrongKey = new Stripe("sk_test_wrong", { host: "127.0.0.1", port: Number(new URL(base).port), protocol: "http", maxNetworkRetries: 0, telemetry: false });
+    const wrongKey = new Stripe("sk_test_wrong", {
+      host: "127.0.0.1",
+      port: Number(new URL(base).port),
+      protocol: "http",
+      maxNetworkRetries: 0,
+      telemetry: false,
+    });
     await expect(wrongKey.balance.retrieve()).rejects.toMatchObject({ type: "StripeAuthenticationError", statusCode: 401 });
-    await expect(sdk.checkout.sessions.retrieve("cs_test_nothing")).rejects.toMatchObject({ type: "StripeInvalidRequestError", statusCode: 404, code: "resource_missing" });
-    await expect(sdk.checkout.sessions.create({ mode: "payment", success_url: "http://x.test/ok" } as Stripe.Checkout.SessionCreateParams)).rejects.toMatchObject({ statusCode: 400, param: "line_items" });
+    await expect(sdk.checkout.sessions.retrieve("cs_test_nothing")).rejects.toMatchObject({
+      type: "StripeInvalidRequestError",
+      statusCode: 404,
+      code: "resource_missing",
+    });
+    await expect(
+      sdk.checkout.sessions.create({ mode: "payment", success_url: "http://x.test/ok" } as Stripe.Checkout.SessionCreateParams),
+    ).rejects.toMatchObject({ statusCode: 400, param: "line_items" });
   });
 
   it("honours idempotency keys: the same key returns the same object", async () => {
     const first = await newSession();
-    const again1 = await sdk.checkout.sessions.create({ mode: "payment", success_url: "http://127.0.0.1/ok", line_items: [{ quantity: 1, price_data: { currency: "usd", unit_amount: 100, product_data: { name: "x" } } }] }, { idempotencyKey: "order-77" });
-    const again2 = await sdk.checkout.sessions.create({ mode: "payment", success_url: "http://127.0.0.1/ok", line_items: [{ quantity: 1, price_data: { currency: "usd", unit_amount: 100, product_data: { name: "x" } } }] }, { idempotencyKey: "order-77" });
+    const again1 = await sdk.checkout.sessions.create(
+      {
+        mode: "payment",
+        success_url: "http://127.0.0.1/ok",
+        line_items: [{ quantity: 1, price_data: { currency: "usd", unit_amount: 100, product_data: { name: "x" } } }],
+      },
+      { idempotencyKey: "order-77" },
+    );
+    const again2 = await sdk.checkout.sessions.create(
+      {
+        mode: "payment",
+        success_url: "http://127.0.0.1/ok",
+        line_items: [{ quantity: 1, price_data: { currency: "usd", unit_amount: 100, product_data: { name: "x" } } }],
+      },
+      { idempotencyKey: "order-77" },
+    );
     expect(again2.id).toBe(again1.id);
     expect(again1.id).not.toBe(first.id);
-    await expect(sdk.refunds.create({ payment_intent: "pi_x" }, { idempotencyKey: "order-77" })).rejects.toMatchObject({ type: "StripeIdempotencyError" });
+    await expect(sdk.refunds.create({ payment_intent: "pi_x" }, { idempotencyKey: "order-77" })).rejects.toMatchObject({
+      type: "StripeIdempotencyError",
+    });
   });
 });
 
@@ -121,7 +153,13 @@ describe("hosted checkout and test cards", () => {
   it("pays with 4242 4242 4242 4242: redirects to the success URL and sends a signed checkout.session.completed", async () => {
     const session = await newSession();
     expect(session.url).toBe(`${base}/pay/${session.id}`);
-    expect(session).toMatchObject({ status: "open", payment_status: "unpaid", amount_total: 48_500, currency: "usd", metadata: { order_id: "order-1" } });
+    expect(session).toMatchObject({
+      status: "open",
+      payment_status: "unpaid",
+      amount_total: 48_500,
+      currency: "usd",
+      metadata: { order_id: "order-1" },
+    });
     const pageHtml = await (await fetch(session.url!)).text();
     expect(pageHtml).toContain("TEST MODE");
     expect(pageHtml).toContain("$485.00");
@@ -139,7 +177,9 @@ describe("hosted checkout and test cards", () => {
     const event = sdk.webhooks.constructEvent(delivery.body, delivery.signature, WEBHOOK_SECRET);
     expect(event.type).toBe("checkout.session.completed");
     // … and rejects a tampered body or a wrong secret.
-    expect(() => sdk.webhooks.constructEvent(delivery.body.replace("48500", "1"), delivery.signature, WEBHOOK_SECRET)).toThrow(/signature/i);
+    expect(() => sdk.webhooks.constructEvent(delivery.body.replace("48500", "1"), delivery.signature, WEBHOOK_SECRET)).toThrow(
+      /signature/i,
+    );
     expect(() => sdk.webhooks.constructEvent(delivery.body, delivery.signature, "whsec_other")).toThrow(/signature/i);
     expect(() => sdk.webhooks.constructEvent(delivery.body, "", WEBHOOK_SECRET)).toThrow();
   });
@@ -182,12 +222,17 @@ describe("refunds", () => {
     const intentId = String((await sdk.checkout.sessions.retrieve(session.id)).payment_intent);
     const part = await sdk.refunds.create({ payment_intent: intentId, amount: 10_000, reason: "requested_by_customer" });
     expect(part).toMatchObject({ amount: 10_000, status: "succeeded", payment_intent: intentId });
-    await expect(sdk.refunds.create({ payment_intent: intentId, amount: 40_000 })).rejects.toMatchObject({ statusCode: 400, code: "amount_too_large" });
+    await expect(sdk.refunds.create({ payment_intent: intentId, amount: 40_000 })).rejects.toMatchObject({
+      statusCode: 400,
+      code: "amount_too_large",
+    });
     const rest = await sdk.refunds.create({ payment_intent: intentId });
     expect(rest.amount).toBe(38_500);
     expect((await sdk.refunds.retrieve(rest.id)).amount).toBe(38_500);
     await waitFor(() => events("charge.refunded").filter((e) => (e.data.object as Stripe.Charge).payment_intent === intentId).length === 2);
-    const last = events("charge.refunded").filter((e) => (e.data.object as Stripe.Charge).payment_intent === intentId).at(-1)!.data.object as Stripe.Charge;
+    const last = events("charge.refunded")
+      .filter((e) => (e.data.object as Stripe.Charge).payment_intent === intentId)
+      .at(-1)!.data.object as Stripe.Charge;
     expect(last).toMatchObject({ amount_refunded: 48_500, refunded: true });
   });
 });
@@ -196,8 +241,15 @@ describe("connected accounts, transfers and balance", () => {
   it("onboards a sawyer through the hosted page, then transfers within the platform balance", async () => {
     const account = await sdk.accounts.create({ type: "express", email: "yard@ridgeback-timber.test", metadata: { sawyer_id: "s1" } });
     expect(account.payouts_enabled).toBe(false);
-    await expect(sdk.transfers.create({ amount: 1000, currency: "usd", destination: account.id })).rejects.toMatchObject({ code: "account_not_ready" });
-    const link = await sdk.accountLinks.create({ account: account.id, type: "account_onboarding", return_url: "http://127.0.0.1:5080/yard/payouts?done=1", refresh_url: "http://127.0.0.1:5080/yard/payouts" });
+    await expect(sdk.transfers.create({ amount: 1000, currency: "usd", destination: account.id })).rejects.toMatchObject({
+      code: "account_not_ready",
+    });
+    const link = await sdk.accountLinks.create({
+      account: account.id,
+      type: "account_onboarding",
+      return_url: "http://127.0.0.1:5080/yard/payouts?done=1",
+      refresh_url: "http://127.0.0.1:5080/yard/payouts",
+    });
     expect(await (await fetch(link.url)).text()).toContain("Set up payouts");
     const finished = await fetch(`${base}/onboard/${account.id}`, {
       method: "POST",
@@ -211,12 +263,20 @@ describe("connected accounts, transfers and balance", () => {
 
     const before = (await sdk.balance.retrieve()).available.find((b) => b.currency === "usd")!.amount;
     expect(before).toBeGreaterThan(0);
-    const transfer = await sdk.transfers.create({ amount: 2_000, currency: "usd", destination: account.id, metadata: { payout_id: "p1" } }, { idempotencyKey: "payout-p1" });
-    const twice = await sdk.transfers.create({ amount: 2_000, currency: "usd", destination: account.id, metadata: { payout_id: "p1" } }, { idempotencyKey: "payout-p1" });
+    const transfer = await sdk.transfers.create(
+      { amount: 2_000, currency: "usd", destination: account.id, metadata: { payout_id: "p1" } },
+      { idempotencyKey: "payout-p1" },
+    );
+    const twice = await sdk.transfers.create(
+      { amount: 2_000, currency: "usd", destination: account.id, metadata: { payout_id: "p1" } },
+      { idempotencyKey: "payout-p1" },
+    );
     expect(twice.id).toBe(transfer.id); // approving the same payout twice sends money once
     const after = (await sdk.balance.retrieve()).available.find((b) => b.currency === "usd")!.amount;
     expect(after).toBe(before - 2_000);
-    await expect(sdk.transfers.create({ amount: after + 1, currency: "usd", destination: account.id })).rejects.toMatchObject({ code: "balance_insufficient" });
+    await expect(sdk.transfers.create({ amount: after + 1, currency: "usd", destination: account.id })).rejects.toMatchObject({
+      code: "balance_insufficient",
+    });
   });
 });
 
@@ -234,11 +294,21 @@ describe("webhook delivery", () => {
   });
 
   it("delivers each event several times on request (for idempotency tests)", async () => {
-    await fetch(`${base}/_test/webhooks`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ copies: 3, shuffle: true }) });
+    await fetch(`${base}/_test/webhooks`, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify({ copies: 3, shuffle: true }),
+    });
     const session = await newSession();
     await pay(session.id, "4242424242424242");
-    await waitFor(() => received.filter((r) => r.body.includes(session.id) && r.body.includes('"checkout.session.completed"')).length === 3);
-    const ids = new Set(received.filter((r) => r.body.includes(session.id) && r.body.includes('"checkout.session.completed"')).map((r) => (JSON.parse(r.body) as Stripe.Event).id));
+    await waitFor(
+      () => received.filter((r) => r.body.includes(session.id) && r.body.includes('"checkout.session.completed"')).length === 3,
+    );
+    const ids = new Set(
+      received
+        .filter((r) => r.body.includes(session.id) && r.body.includes('"checkout.session.completed"'))
+        .map((r) => (JSON.parse(r.body) as Stripe.Event).id),
+    );
     expect(ids.size).toBe(1); // the same event id each time
   });
 });

@@ -39,15 +39,24 @@ class ProviderError extends Error {
     super(message);
   }
 }
-const missing = (param: string) => new ProviderError(400, "invalid_request_error", `Missing required param: ${param}.`, { code: "parameter_missing", param });
-const noSuch = (kind: string, id: string, param = "id") => new ProviderError(404, "invalid_request_error", `No such ${kind}: '${id}'`, { code: "resource_missing", param });
+const missing = (param: string) =>
+  new ProviderError(400, "invalid_request_error", `Missing required param: ${param}.`, { code: "parameter_missing", param });
+const noSuch = (kind: string, id: string, param = "id") =>
+  new ProviderError(404, "invalid_request_error", `No such ${kind}: '${id}'`, { code: "resource_missing", param });
 
 const integer = (value: unknown, param: string): number => {
   const number = Number(value);
-  if (value === undefined || value === "" || !Number.isInteger(number) || number < 0) throw new ProviderError(400, "invalid_request_error", `Invalid integer: ${String(value)}`, { code: "parameter_invalid_integer", param });
+  if (value === undefined || value === "" || !Number.isInteger(number) || number < 0)
+    throw new ProviderError(400, "invalid_request_error", `Invalid integer: ${String(value)}`, {
+      code: "parameter_invalid_integer",
+      param,
+    });
   return number;
 };
-const metadataOf = (value: unknown): Record<string, string> => (value && typeof value === "object" ? Object.fromEntries(Object.entries(value as Record<string, unknown>).map(([k, v]) => [k, String(v)])) : {});
+const metadataOf = (value: unknown): Record<string, string> =>
+  value && typeof value === "object"
+    ? Object.fromEntries(Object.entries(value as Record<string, unknown>).map(([k, v]) => [k, String(v)]))
+    : {};
 
 export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
   const store = new Store(options.stateFile);
@@ -77,7 +86,8 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
   api.use((req: Request, _res: Response, next: NextFunction) => {
     const header = req.get("authorization") ?? "";
     const key = header.startsWith("Bearer ") ? header.slice(7) : "";
-    if (key !== options.secretKey) return next(new ProviderError(401, "invalid_request_error", "Invalid API key provided.", { code: "api_key_invalid" }));
+    if (key !== options.secretKey)
+      return next(new ProviderError(401, "invalid_request_error", "Invalid API key provided.", { code: "api_key_invalid" }));
     next();
   });
   // The same Idempotency-Key on a POST returns the first answer again, without doing the work twice.
@@ -86,7 +96,14 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     if (req.method !== "POST" || !key) return next();
     const remembered = store.state.idempotency[key];
     if (remembered) {
-      if (remembered.requestPath !== req.path) return next(new ProviderError(400, "idempotency_error", "Keys for idempotent requests can only be used for the same endpoint they were first used for."));
+      if (remembered.requestPath !== req.path)
+        return next(
+          new ProviderError(
+            400,
+            "idempotency_error",
+            "Keys for idempotent requests can only be used for the same endpoint they were first used for.",
+          ),
+        );
       res.setHeader("idempotent-replayed", "true");
       return res.status(remembered.status).json(remembered.body);
     }
@@ -102,16 +119,23 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
   // Checkout Sessions
   api.post("/checkout/sessions", (req, res) => {
     const body = req.body as Record<string, any>;
-    if (body.mode !== "payment") throw new ProviderError(400, "invalid_request_error", "Only mode=payment is supported by this stand-in.", { param: "mode" });
+    if (body.mode !== "payment")
+      throw new ProviderError(400, "invalid_request_error", "Only mode=payment is supported by this stand-in.", { param: "mode" });
     if (!body.success_url) throw missing("success_url");
     if (!Array.isArray(body.line_items) || body.line_items.length === 0) throw missing("line_items");
     const items = (body.line_items as Record<string, any>[]).map((item, index) => {
       const data = item.price_data ?? {};
       if (!data.currency) throw missing(`line_items[${index}][price_data][currency]`);
-      return { name: String(data.product_data?.name ?? "Item"), amount: integer(data.unit_amount, `line_items[${index}][price_data][unit_amount]`), quantity: integer(item.quantity ?? 1, `line_items[${index}][quantity]`), currency: String(data.currency).toLowerCase() };
+      return {
+        name: String(data.product_data?.name ?? "Item"),
+        amount: integer(data.unit_amount, `line_items[${index}][price_data][unit_amount]`),
+        quantity: integer(item.quantity ?? 1, `line_items[${index}][quantity]`),
+        currency: String(data.currency).toLowerCase(),
+      };
     });
     const currency = items[0]!.currency;
-    if (items.some((i) => i.currency !== currency)) throw new ProviderError(400, "invalid_request_error", "All line items must share one currency.", { param: "line_items" });
+    if (items.some((i) => i.currency !== currency))
+      throw new ProviderError(400, "invalid_request_error", "All line items must share one currency.", { param: "line_items" });
     const created = nowSeconds();
     const session = store.put({
       id: newId("cs_test"),
@@ -147,7 +171,10 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
   api.post("/checkout/sessions/:id/expire", (req, res) => {
     const session = store.get(String(req.params.id), "checkout.session");
     if (!session) throw noSuch("checkout.session", String(req.params.id));
-    if (session.status !== "open") throw new ProviderError(400, "invalid_request_error", `Only open sessions can be expired; this one is ${String(session.status)}.`, { code: "checkout_session_not_open" });
+    if (session.status !== "open")
+      throw new ProviderError(400, "invalid_request_error", `Only open sessions can be expired; this one is ${String(session.status)}.`, {
+        code: "checkout_session_not_open",
+      });
     session.status = "expired";
     store.put(session);
     webhooks.emit("checkout.session.expired", publicSession(session));
@@ -167,11 +194,19 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     if (!body.payment_intent) throw missing("payment_intent");
     const intent = store.get(String(body.payment_intent), "payment_intent");
     if (!intent) throw noSuch("payment_intent", String(body.payment_intent), "payment_intent");
-    if (intent.status !== "succeeded") throw new ProviderError(400, "invalid_request_error", "This payment has not succeeded, so there is nothing to refund.", { code: "charge_not_refundable" });
+    if (intent.status !== "succeeded")
+      throw new ProviderError(400, "invalid_request_error", "This payment has not succeeded, so there is nothing to refund.", {
+        code: "charge_not_refundable",
+      });
     const remaining = (intent.amount_received as number) - (intent.amount_refunded as number);
     const amount = body.amount === undefined ? remaining : integer(body.amount, "amount");
     if (amount <= 0 || amount > remaining) {
-      throw new ProviderError(400, "invalid_request_error", `Refund amount (${amount}) is greater than the unrefunded amount (${remaining}).`, { code: "amount_too_large", param: "amount" });
+      throw new ProviderError(
+        400,
+        "invalid_request_error",
+        `Refund amount (${amount}) is greater than the unrefunded amount (${remaining}).`,
+        { code: "amount_too_large", param: "amount" },
+      );
     }
     intent.amount_refunded = (intent.amount_refunded as number) + amount;
     store.put(intent);
@@ -228,7 +263,12 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     const account = store.get(String(body.account), "account");
     if (!account) throw noSuch("account", String(body.account), "account");
     const query = new URLSearchParams({ return_url: String(body.return_url), refresh_url: String(body.refresh_url) });
-    res.json({ object: "account_link", created: nowSeconds(), expires_at: nowSeconds() + 300, url: `${base(req)}/onboard/${account.id}?${query}` });
+    res.json({
+      object: "account_link",
+      created: nowSeconds(),
+      expires_at: nowSeconds() + 300,
+      url: `${base(req)}/onboard/${account.id}?${query}`,
+    });
   });
   api.post("/transfers", (req, res) => {
     const body = req.body as Record<string, any>;
@@ -238,11 +278,19 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     const account = store.get(String(body.destination), "account");
     if (!account) throw noSuch("account", String(body.destination), "destination");
     if (!account.payouts_enabled) {
-      throw new ProviderError(400, "invalid_request_error", "The destination account has not finished onboarding and cannot receive transfers.", { code: "account_not_ready", param: "destination" });
+      throw new ProviderError(
+        400,
+        "invalid_request_error",
+        "The destination account has not finished onboarding and cannot receive transfers.",
+        { code: "account_not_ready", param: "destination" },
+      );
     }
     const currency = String(body.currency).toLowerCase();
     if (amount > availableBalance(currency)) {
-      throw new ProviderError(400, "invalid_request_error", "You have insufficient available funds in your platform balance.", { code: "balance_insufficient", param: "amount" });
+      throw new ProviderError(400, "invalid_request_error", "You have insufficient available funds in your platform balance.", {
+        code: "balance_insufficient",
+        param: "amount",
+      });
     }
     const transfer = store.put({
       id: newId("tr"),
@@ -266,16 +314,29 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
 
   /** Payments received, less refunds and transfers out (no payout delay in this stand-in). */
   function availableBalance(currency: string): number {
-    const received = store.all("payment_intent").filter((p) => p.status === "succeeded" && p.currency === currency).reduce((sum, p) => sum + (p.amount_received as number) - (p.amount_refunded as number), 0);
-    const sent = store.all("transfer").filter((t) => t.currency === currency && !t.reversed).reduce((sum, t) => sum + (t.amount as number), 0);
+    const received = store
+      .all("payment_intent")
+      .filter((p) => p.status === "succeeded" && p.currency === currency)
+      .reduce((sum, p) => sum + (p.amount_received as number) - (p.amount_refunded as number), 0);
+    const sent = store
+      .all("transfer")
+      .filter((t) => t.currency === currency && !t.reversed)
+      .reduce((sum, t) => sum + (t.amount as number), 0);
     return received - sent;
   }
   api.get("/balance", (_req, res) => {
     const currencies = [...new Set([...store.all("payment_intent").map((p) => String(p.currency)), "usd"])];
-    res.json({ object: "balance", livemode: false, available: currencies.map((currency) => ({ amount: availableBalance(currency), currency })), pending: currencies.map((currency) => ({ amount: 0, currency })) });
+    res.json({
+      object: "balance",
+      livemode: false,
+      available: currencies.map((currency) => ({ amount: availableBalance(currency), currency })),
+      pending: currencies.map((currency) => ({ amount: 0, currency })),
+    });
   });
 
-  api.use((req: Request, _res: Response, next: NextFunction) => next(new ProviderError(404, "invalid_request_error", `Unrecognized request URL (${req.method}: /v1${req.path}).`)));
+  api.use((req: Request, _res: Response, next: NextFunction) =>
+    next(new ProviderError(404, "invalid_request_error", `Unrecognized request URL (${req.method}: /v1${req.path}).`)),
+  );
   app.use("/v1", api);
 
   // ---- The hosted pages ------------------------------------------------------------------------
@@ -284,23 +345,34 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     if (!session) return res.status(404).type("html").send(messagePage("Not found", "There is no payment with this address."));
     if (session.status === "complete") return res.redirect(303, successUrl(session));
     if (session.status !== "open" || (session.expires_at as number) <= nowSeconds()) {
-      return res.status(410).type("html").send(messagePage("This payment page has expired", "Go back to the shop and start the purchase again."));
+      return res
+        .status(410)
+        .type("html")
+        .send(messagePage("This payment page has expired", "Go back to the shop and start the purchase again."));
     }
     res.type("html").send(checkoutPage(session));
   });
   app.post("/pay/:id", (req, res) => {
     const session = store.get(String(req.params.id), "checkout.session");
-    if (!session || session.status !== "open") return res.status(410).type("html").send(messagePage("This payment page has expired", "Go back to the shop and start the purchase again."));
+    if (!session || session.status !== "open")
+      return res
+        .status(410)
+        .type("html")
+        .send(messagePage("This payment page has expired", "Go back to the shop and start the purchase again."));
     const card = String((req.body as Record<string, unknown>).card ?? "").replace(/\D/g, "");
     const rule = TEST_CARDS[card];
-    if (!rule) return res.status(402).type("html").send(checkoutPage(session, "Use one of the test cards listed below — no real card works here."));
+    if (!rule)
+      return res.status(402).type("html").send(checkoutPage(session, "Use one of the test cards listed below — no real card works here."));
     const intent = paymentIntentFor(session);
     if (rule.outcome === "declined") {
       intent.status = "requires_payment_method";
       intent.last_payment_error = { type: "card_error", code: rule.code, decline_code: rule.code, message: rule.message };
       store.put(intent);
       webhooks.emit("payment_intent.payment_failed", intent);
-      return res.status(402).type("html").send(checkoutPage(session, `${rule.message} Try another card, or cancel.`));
+      return res
+        .status(402)
+        .type("html")
+        .send(checkoutPage(session, `${rule.message} Try another card, or cancel.`));
     }
     intent.status = "succeeded";
     intent.amount_received = intent.amount;
@@ -329,8 +401,17 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     const account = store.get(String(req.params.id), "account");
     if (!account) return res.status(404).type("html").send(messagePage("Not found", "There is no account with this address."));
     const body = req.body as Record<string, string>;
-    const previous = { details_submitted: account.details_submitted, payouts_enabled: account.payouts_enabled, charges_enabled: account.charges_enabled };
-    Object.assign(account, { details_submitted: true, payouts_enabled: true, charges_enabled: true, business_profile: { name: body.name ?? null } });
+    const previous = {
+      details_submitted: account.details_submitted,
+      payouts_enabled: account.payouts_enabled,
+      charges_enabled: account.charges_enabled,
+    };
+    Object.assign(account, {
+      details_submitted: true,
+      payouts_enabled: true,
+      charges_enabled: true,
+      business_profile: { name: body.name ?? null },
+    });
     store.put(account);
     webhooks.emit("account.updated", account, previous);
     res.redirect(303, body.return_url || "/");
@@ -343,16 +424,23 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     if (body.shuffle !== undefined) webhooks.options.shuffle = Boolean(body.shuffle);
     if (body.url !== undefined) webhooks.options.url = body.url || undefined;
     if (body.resendAll) webhooks.resendAll();
-    res.json({ copies: webhooks.options.copies, shuffle: webhooks.options.shuffle, url: webhooks.options.url ?? null, attempts: webhooks.attempts.length });
+    res.json({
+      copies: webhooks.options.copies,
+      shuffle: webhooks.options.shuffle,
+      url: webhooks.options.url ?? null,
+      attempts: webhooks.attempts.length,
+    });
   });
 
   app.use((req: Request, res: Response) => {
     res.status(404).json({ error: { type: "invalid_request_error", message: `Unrecognized request URL (${req.method}: ${req.path}).` } });
   });
   app.use((error: unknown, _req: Request, res: Response, _next: NextFunction) => {
-    if (error instanceof ProviderError) return res.status(error.status).json({ error: { type: error.type, message: error.message, ...error.extra } });
+    if (error instanceof ProviderError)
+      return res.status(error.status).json({ error: { type: error.type, message: error.message, ...error.extra } });
     const status = (error as { status?: number }).status;
-    if (status && status < 500) return res.status(status).json({ error: { type: "invalid_request_error", message: "The request could not be read." } });
+    if (status && status < 500)
+      return res.status(status).json({ error: { type: "invalid_request_error", message: "The request could not be read." } });
     res.status(500).json({ error: { type: "api_error", message: "Something went wrong in the payments stand-in." } });
   });
 
@@ -373,7 +461,10 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
       amount_refunded: 0,
       currency: session.currency,
       status: "requires_payment_method",
-      metadata: { ...(session.payment_intent_data as { metadata: Record<string, string> }).metadata, ...(session.metadata as Record<string, string>) },
+      metadata: {
+        ...(session.payment_intent_data as { metadata: Record<string, string> }).metadata,
+        ...(session.metadata as Record<string, string>),
+      },
       latest_charge: null,
       last_payment_error: null,
       created: nowSeconds(),

@@ -20,13 +20,16 @@ small{color:#5b6675}
 </style></head><body><div class="banner">TEST MODE — payments stand-in, no real money moves</div><main>${body}</main></body></html>`;
 }
 
-export function formatAmount(minor: number, currency: string): string {
+function formatAmount(minor: number, currency: string): string {
   return new Intl.NumberFormat("en", { style: "currency", currency: currency.toUpperCase() }).format(minor / 100);
 }
 
 export function checkoutPage(session: Record<string, any>, error?: string): string {
   const items = (session.display_items as { name: string; amount: number; quantity: number }[])
-    .map((item) => `<div><span>${escape(item.name)}${item.quantity > 1 ? ` × ${item.quantity}` : ""}</span><span>${escape(formatAmount(item.amount * item.quantity, session.currency))}</span></div>`)
+    .map(
+      (item) =>
+        `<div><span>${escape(item.name)}${item.quantity > 1 ? ` × ${item.quantity}` : ""}</span><span>${escape(formatAmount(item.amount * item.quantity, session.currency))}</span></div>`,
+    )
     .join("");
   return page(
     "Pay — test mode",

@@ -30,7 +30,12 @@ export class Store {
   constructor(private readonly file: string) {
     if (existsSync(file)) {
       const loaded = JSON.parse(readFileSync(file, "utf8")) as Partial<FakeState>;
-      this.state = { createdAt: loaded.createdAt ?? new Date().toISOString(), objects: loaded.objects ?? {}, idempotency: loaded.idempotency ?? {}, events: loaded.events ?? [] };
+      this.state = {
+        createdAt: loaded.createdAt ?? new Date().toISOString(),
+        objects: loaded.objects ?? {},
+        idempotency: loaded.idempotency ?? {},
+        events: loaded.events ?? [],
+      };
     } else {
       this.state = { createdAt: new Date().toISOString(), objects: {}, idempotency: {}, events: [] };
       this.save();

@@ -83,9 +83,18 @@ export class WebhookSender {
     const event = this.store.get(pending.eventId);
     if (!event) return;
     const payload = JSON.stringify(event, null, 2);
-    let status: number | "network_error" = "network_error";
+    let status: number | "network_error";
     try {
-      status = await postOnce(url, { "content-type": "application/json; charset=utf-8", "stripe-signature": signatureHeader(payload, this.options.secret), "user-agent": "GrainyardPaymentsFake/1.0" }, payload, 10_000);
+      status = await postOnce(
+        url,
+        {
+          "content-type": "application/json; charset=utf-8",
+          "stripe-signature": signatureHeader(payload, this.options.secret),
+          "user-agent": "GrainyardPaymentsFake/1.0",
+        },
+        payload,
+        10_000,
+      );
     } catch {
       status = "network_error";
     }
@@ -122,11 +131,15 @@ function postOnce(url: string, headers: Record<string, string>, body: string, ti
   return new Promise((resolvePromise, reject) => {
     const target = new URL(url);
     const send = target.protocol === "https:" ? httpsRequest : httpRequest;
-    const request = send(target, { method: "POST", headers: { ...headers, "content-length": Buffer.byteLength(body) }, timeout: timeoutMs }, (response) => {
-      // The status is known with the headers (as with fetch); the body is read and dropped.
-      response.resume();
-      resolvePromise(response.statusCode ?? 0);
-    });
+    const request = send(
+      target,
+      { method: "POST", headers: { ...headers, "content-length": Buffer.byteLength(body) }, timeout: timeoutMs },
+      (response) => {
+        // The status is known with the headers (as with fetch); the body is read and dropped.
+        response.resume();
+        resolvePromise(response.statusCode ?? 0);
+      },
+    );
     request.on("timeout", () => request.destroy(new Error("timed out")));
     request.on("error", reject);
     request.end(body);

@@ -80,7 +80,15 @@ describe("operator desk pages", () => {
   it("every /admin page is for admins only", async () => {
     const { routes } = await import("./router.ts");
     const adminPages = routes.filter((r) => r.path.startsWith("/admin"));
-    expect(adminPages.map((r) => r.path).sort()).toEqual(["/admin", "/admin/audit", "/admin/payouts", "/admin/reports", "/admin/review", "/admin/settings", "/admin/users"]);
+    expect(adminPages.map((r) => r.path).sort()).toEqual([
+      "/admin",
+      "/admin/audit",
+      "/admin/payouts",
+      "/admin/reports",
+      "/admin/review",
+      "/admin/settings",
+      "/admin/users",
+    ]);
     for (const page of adminPages) expect(page.meta?.roles).toEqual(["admin"]);
   });
 });

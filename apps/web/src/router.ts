@@ -1,10 +1,4 @@
-import {
-  createRouter,
-  createWebHistory,
-  type RouteLocationNormalized,
-  type RouteRecordRaw,
-  type RouterHistory,
-} from "vue-router";
+import { createRouter, createWebHistory, type RouteLocationNormalized, type RouteRecordRaw, type RouterHistory } from "vue-router";
 import type { Pinia } from "pinia";
 import type { Role } from "@grainyard/contracts";
 import { useSessionStore } from "./stores/session.ts";

@@ -4,12 +4,22 @@ import { signInSchema, signUpSchema, yardProfileUpdateSchema } from "./accounts.
 
 describe("signUpSchema", () => {
   it("accepts a buyer and normalises the e-mail", () => {
-    const parsed = signUpSchema.parse({ role: "buyer", email: "  Ana.Brandt@Lakemont.TEST ", password: "first-dining-table", displayName: " Ana " });
+    const parsed = signUpSchema.parse({
+      role: "buyer",
+      email: "  Ana.Brandt@Lakemont.TEST ",
+      password: "first-dining-table",
+      displayName: " Ana ",
+    });
     expect(parsed).toEqual({ role: "buyer", email: "ana.brandt@lakemont.test", password: "first-dining-table", displayName: "Ana" });
   });
 
   it("asks a sawyer for yard name and pickup town", () => {
-    const result = signUpSchema.safeParse({ role: "sawyer", email: "yard@lakemont.test", password: "long-enough-pass", displayName: "Sam" });
+    const result = signUpSchema.safeParse({
+      role: "sawyer",
+      email: "yard@lakemont.test",
+      password: "long-enough-pass",
+      displayName: "Sam",
+    });
     expect(result.success).toBe(false);
     if (!result.success) expect(Object.keys(fieldMessages(result.error)).sort()).toEqual(["pickupTown", "yardName"]);
   });

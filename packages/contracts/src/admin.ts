@@ -20,7 +20,12 @@ export const reviewChangeSchema = z.object({ field: z.string(), label: z.string(
 export type ReviewChange = z.infer<typeof reviewChangeSchema>;
 
 export const reviewDecisionSchema = z.enum(["approved", "sent_back", "rejected"]);
-export const pastReviewSchema = z.object({ decision: reviewDecisionSchema, reason: z.string().nullable(), reviewedAt: z.string(), reviewerLabel: z.string() });
+export const pastReviewSchema = z.object({
+  decision: reviewDecisionSchema,
+  reason: z.string().nullable(),
+  reviewedAt: z.string(),
+  reviewerLabel: z.string(),
+});
 export type PastReview = z.infer<typeof pastReviewSchema>;
 
 export const reviewDeskItemSchema = z.object({
@@ -61,11 +66,15 @@ export const auditSearchSchema = z
     target: z.string().trim().max(64).optional(),
     from: isoDate.optional(),
     to: isoDate.optional(),
-    cursor: z.string().regex(/^\d{1,20}$/, "Not a page of this log.").optional(),
+    cursor: z
+      .string()
+      .regex(/^\d{1,20}$/, "Not a page of this log.")
+      .optional(),
     limit: z.coerce.number().int().min(1).max(200).optional(),
   })
   .superRefine((value, context) => {
-    if (value.from && value.to && value.from > value.to) context.addIssue({ code: "custom", path: ["to"], message: "The end date comes after the start date." });
+    if (value.from && value.to && value.from > value.to)
+      context.addIssue({ code: "custom", path: ["to"], message: "The end date comes after the start date." });
   });
 export type AuditSearchInput = z.input<typeof auditSearchSchema>;
 export const auditPageSchema = z.object({ entries: z.array(auditEntrySchema), nextCursor: z.string().nullable() });

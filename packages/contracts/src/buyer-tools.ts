@@ -10,7 +10,11 @@ import { catalogueCardSchema } from "./catalogue.ts";
 /** Parts of a catalogue query that say how to page, not what to find: never stored. */
 export const savedSearchIgnoredKeys = ["cursor", "sort", "limit"] as const;
 
-const savedSearchName = z.string({ error: "Give the search a name." }).trim().min(1, "Give the search a name.").max(80, "Keep the name under 80 characters.");
+const savedSearchName = z
+  .string({ error: "Give the search a name." })
+  .trim()
+  .min(1, "Give the search a name.")
+  .max(80, "Keep the name under 80 characters.");
 
 export const savedSearchInputSchema = z.object({
   name: savedSearchName,
@@ -23,7 +27,10 @@ export type SavedSearchInput = z.input<typeof savedSearchInputSchema>;
 export const savedSearchUpdateSchema = z
   .object({ name: savedSearchName, alerts: z.boolean({ error: "Say whether to send alerts." }) })
   .partial()
-  .refine((update) => update.name !== undefined || update.alerts !== undefined, { message: "Change the name or the alerts.", path: ["name"] });
+  .refine((update) => update.name !== undefined || update.alerts !== undefined, {
+    message: "Change the name or the alerts.",
+    path: ["name"],
+  });
 export type SavedSearchUpdate = z.input<typeof savedSearchUpdateSchema>;
 
 export const savedSearchSchema = z.object({

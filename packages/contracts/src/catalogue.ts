@@ -21,15 +21,39 @@ export const catalogueSortLabels = {
 const list = <T extends readonly [string, ...string[]]>(values: T, label: string) =>
   z
     .string()
-    .transform((text) => text.split(",").map((part) => part.trim()).filter(Boolean))
+    .transform((text) =>
+      text
+        .split(",")
+        .map((part) => part.trim())
+        .filter(Boolean),
+    )
     .pipe(z.array(z.enum(values, { error: `Unknown ${label}.` })).max(values.length));
-const millimetres = (label: string) => z.coerce.number({ error: `The ${label} must be a number of millimetres.` }).int(`Give the ${label} in whole millimetres.`).min(0, `The ${label} cannot be negative.`).max(12_000, `The ${label} is beyond any slab.`);
-const money = (label: string) => z.coerce.number({ error: `The ${label} must be a number.` }).int(`Give the ${label} in cents.`).min(0, `The ${label} cannot be negative.`).max(100_000_000);
+const millimetres = (label: string) =>
+  z.coerce
+    .number({ error: `The ${label} must be a number of millimetres.` })
+    .int(`Give the ${label} in whole millimetres.`)
+    .min(0, `The ${label} cannot be negative.`)
+    .max(12_000, `The ${label} is beyond any slab.`);
+const money = (label: string) =>
+  z.coerce
+    .number({ error: `The ${label} must be a number.` })
+    .int(`Give the ${label} in cents.`)
+    .min(0, `The ${label} cannot be negative.`)
+    .max(100_000_000);
 const flag = z.enum(["1", "true", "0", "false"]).transform((v) => v === "1" || v === "true");
 
 export const catalogueQuerySchema = z
   .object({
-    species: z.string().transform((text) => text.split(",").map((part) => part.trim()).filter(Boolean)).pipe(z.array(z.string().regex(/^[a-z][a-z0-9-]{1,60}$/, "Unknown species.")).max(40)).optional(),
+    species: z
+      .string()
+      .transform((text) =>
+        text
+          .split(",")
+          .map((part) => part.trim())
+          .filter(Boolean),
+      )
+      .pipe(z.array(z.string().regex(/^[a-z][a-z0-9-]{1,60}$/, "Unknown species.")).max(40))
+      .optional(),
     lengthMin: millimetres("shortest length").optional(),
     lengthMax: millimetres("longest length").optional(),
     widthMin: millimetres("narrowest width").optional(),
@@ -37,7 +61,11 @@ export const catalogueQuerySchema = z
     widthBasis: z.enum(["average", "minimum"]).default("average"),
     thicknessMin: millimetres("thinnest thickness").optional(),
     thicknessMax: millimetres("thickest thickness").optional(),
-    moistureMax: z.coerce.number({ error: "Moisture content must be a number." }).min(0, "Moisture content cannot be negative.").max(100).optional(),
+    moistureMax: z.coerce
+      .number({ error: "Moisture content must be a number." })
+      .min(0, "Moisture content cannot be negative.")
+      .max(100)
+      .optional(),
     ready: flag.optional(),
     priceMin: money("lowest price").optional(),
     priceMax: money("highest price").optional(),
@@ -45,14 +73,38 @@ export const catalogueQuerySchema = z
     features: list(slabFeatures, "feature").optional(),
     sets: list(["single", "sequential", "bookmatched"] as const, "set kind").optional(),
     near: z.string().trim().max(120).optional(),
-    radiusKm: z.coerce.number({ error: "The distance must be a number of kilometres." }).min(1, "Search at least 1 km around.").max(5000).optional(),
+    radiusKm: z.coerce
+      .number({ error: "The distance must be a number of kilometres." })
+      .min(1, "Search at least 1 km around.")
+      .max(5000)
+      .optional(),
     freight: flag.optional(),
     // "Fits my table": the finished top wanted (mm), or a number of diners.
-    fitLength: z.coerce.number({ error: "Give the top's length in millimetres." }).int().min(200, "A top is at least 200 mm long.").max(12_000).optional(),
-    fitWidth: z.coerce.number({ error: "Give the top's width in millimetres." }).int().min(100, "A top is at least 100 mm wide.").max(3_000).optional(),
-    fitThickness: z.coerce.number({ error: "Give the top's thickness in millimetres." }).int().min(10, "A top is at least 10 mm thick.").max(300).optional(),
+    fitLength: z.coerce
+      .number({ error: "Give the top's length in millimetres." })
+      .int()
+      .min(200, "A top is at least 200 mm long.")
+      .max(12_000)
+      .optional(),
+    fitWidth: z.coerce
+      .number({ error: "Give the top's width in millimetres." })
+      .int()
+      .min(100, "A top is at least 100 mm wide.")
+      .max(3_000)
+      .optional(),
+    fitThickness: z.coerce
+      .number({ error: "Give the top's thickness in millimetres." })
+      .int()
+      .min(10, "A top is at least 10 mm thick.")
+      .max(300)
+      .optional(),
     fitEdge: z.enum(["keep_live_edge", "trim_straight"]).default("keep_live_edge"),
-    seats: z.coerce.number({ error: "Give the number of diners." }).int("Give a whole number of diners.").min(2, "A table seats at least 2.").max(20, "Twenty diners is the most we plan for.").optional(),
+    seats: z.coerce
+      .number({ error: "Give the number of diners." })
+      .int("Give a whole number of diners.")
+      .min(2, "A table seats at least 2.")
+      .max(20, "Twenty diners is the most we plan for.")
+      .optional(),
     sort: z.enum(catalogueSorts, { error: "Unknown sort order." }).default("newest"),
     cursor: z.string().max(400).optional(),
     limit: z.coerce.number().int().min(1).max(60).default(24),
@@ -67,11 +119,15 @@ export const catalogueQuerySchema = z
     for (const [low, high, label] of pairs) {
       const a = query[low] as number | undefined;
       const b = query[high] as number | undefined;
-      if (a !== undefined && b !== undefined && a > b) context.addIssue({ code: "custom", path: [low], message: `The lowest ${label} is above the highest.` });
+      if (a !== undefined && b !== undefined && a > b)
+        context.addIssue({ code: "custom", path: [low], message: `The lowest ${label} is above the highest.` });
     }
-    if (query.sort === "nearest" && !query.near) context.addIssue({ code: "custom", path: ["sort"], message: "Choose a town to sort by distance." });
-    if (query.radiusKm !== undefined && !query.near) context.addIssue({ code: "custom", path: ["radiusKm"], message: "Choose a town to search around." });
-    if (query.seats !== undefined && query.fitLength !== undefined) context.addIssue({ code: "custom", path: ["seats"], message: "Give either the number of diners or the top's length, not both." });
+    if (query.sort === "nearest" && !query.near)
+      context.addIssue({ code: "custom", path: ["sort"], message: "Choose a town to sort by distance." });
+    if (query.radiusKm !== undefined && !query.near)
+      context.addIssue({ code: "custom", path: ["radiusKm"], message: "Choose a town to search around." });
+    if (query.seats !== undefined && query.fitLength !== undefined)
+      context.addIssue({ code: "custom", path: ["seats"], message: "Give either the number of diners or the top's length, not both." });
   });
 export type CatalogueQuery = z.input<typeof catalogueQuerySchema>;
 export type CatalogueQueryParsed = z.output<typeof catalogueQuerySchema>;
@@ -122,7 +178,14 @@ export const catalogueResultSchema = z.object({
 });
 export type CatalogueResult = z.infer<typeof catalogueResultSchema>;
 
-export const placeSchema = z.object({ id: z.string(), name: z.string(), region: z.string(), country: z.string(), latitude: z.number(), longitude: z.number() });
+export const placeSchema = z.object({
+  id: z.string(),
+  name: z.string(),
+  region: z.string(),
+  country: z.string(),
+  latitude: z.number(),
+  longitude: z.number(),
+});
 export type Place = z.infer<typeof placeSchema>;
 export const placeListSchema = z.object({ places: z.array(placeSchema) });
 
@@ -140,7 +203,15 @@ export const catalogueDetailSchema = z.object({
     freight: z.boolean(),
     status: z.string(),
     /** What a buyer needs; the fee split is the sawyer's business. */
-    figures: listingFiguresSchema.pick({ boardFeet: true, volumeM3: true, weightKg: true, weightLowKg: true, weightHighKg: true, heavyLift: true, priceMinor: true }),
+    figures: listingFiguresSchema.pick({
+      boardFeet: true,
+      volumeM3: true,
+      weightKg: true,
+      weightLowKg: true,
+      weightHighKg: true,
+      heavyLift: true,
+      priceMinor: true,
+    }),
     photos: z.array(listingPhotoSchema),
     publishedAt: z.string().nullable(),
   }),
@@ -148,7 +219,14 @@ export const catalogueDetailSchema = z.object({
   log: logSchema.nullable(),
   /** Photos of the log (the tree as felled, the cut ends). */
   logPhotos: z.array(photoSchema),
-  otherSlabsFromLog: z.array(z.object({ id: z.string(), sequenceInLog: z.number().nullable(), listingId: z.string().nullable(), status: z.string() })),
-  yard: z.object({ name: z.string().nullable(), town: z.string().nullable(), latitude: z.number().nullable(), longitude: z.number().nullable() }),
+  otherSlabsFromLog: z.array(
+    z.object({ id: z.string(), sequenceInLog: z.number().nullable(), listingId: z.string().nullable(), status: z.string() }),
+  ),
+  yard: z.object({
+    name: z.string().nullable(),
+    town: z.string().nullable(),
+    latitude: z.number().nullable(),
+    longitude: z.number().nullable(),
+  }),
 });
 export type CatalogueDetail = z.infer<typeof catalogueDetailSchema>;

@@ -8,7 +8,18 @@ import { slabSchema } from "./yard.ts";
  * The admin may reject a submission (final), take a live listing down after a report, and while
  * a sawyer is suspended their live listings are "suspended" (hidden) until the account is restored.
  */
-export const listingStatuses = ["draft", "in_review", "sent_back", "live", "reserved", "sold", "withdrawn", "rejected", "taken_down", "suspended"] as const;
+export const listingStatuses = [
+  "draft",
+  "in_review",
+  "sent_back",
+  "live",
+  "reserved",
+  "sold",
+  "withdrawn",
+  "rejected",
+  "taken_down",
+  "suspended",
+] as const;
 export type ListingStatus = (typeof listingStatuses)[number];
 
 export const listingStatusLabels: Record<ListingStatus, string> = {
@@ -30,9 +41,16 @@ export const setKinds = ["single", "sequential", "bookmatched"] as const;
 export const currencies = ["USD", "CAD", "EUR", "GBP"] as const;
 
 const listingFields = {
-  title: z.string({ error: "Give the listing a title." }).trim().min(4, "Give the listing a title of at least 4 characters.").max(120, "Keep the title under 120 characters."),
+  title: z
+    .string({ error: "Give the listing a title." })
+    .trim()
+    .min(4, "Give the listing a title of at least 4 characters.")
+    .max(120, "Keep the title under 120 characters."),
   description: z.string().trim().max(5000, "Keep the description under 5000 characters."),
-  slabIds: z.array(z.string().uuid("Choose slabs from your yard.")).min(1, "Choose at least one slab.").max(12, "A set holds at most 12 slabs."),
+  slabIds: z
+    .array(z.string().uuid("Choose slabs from your yard."))
+    .min(1, "Choose at least one slab.")
+    .max(12, "A set holds at most 12 slabs."),
   setKind: z.enum(setKinds),
   priceMode: z.enum(priceModes, { error: "Choose how the price is set." }),
   rateMinor: z
@@ -46,10 +64,14 @@ const listingFields = {
 };
 
 function listingRules(listing: { pickup?: boolean; freight?: boolean; slabIds?: string[]; setKind?: string }, context: z.RefinementCtx) {
-  if (listing.pickup === false && listing.freight === false) context.addIssue({ code: "custom", path: ["pickup"], message: "Offer pickup, freight, or both." });
-  if (listing.slabIds && new Set(listing.slabIds).size !== listing.slabIds.length) context.addIssue({ code: "custom", path: ["slabIds"], message: "Each slab once." });
-  if (listing.setKind === "bookmatched" && listing.slabIds && listing.slabIds.length !== 2) context.addIssue({ code: "custom", path: ["setKind"], message: "A bookmatched set is two neighbouring slabs." });
-  if (listing.setKind === "single" && listing.slabIds && listing.slabIds.length > 1) context.addIssue({ code: "custom", path: ["setKind"], message: "Choose sequential or bookmatched for more than one slab." });
+  if (listing.pickup === false && listing.freight === false)
+    context.addIssue({ code: "custom", path: ["pickup"], message: "Offer pickup, freight, or both." });
+  if (listing.slabIds && new Set(listing.slabIds).size !== listing.slabIds.length)
+    context.addIssue({ code: "custom", path: ["slabIds"], message: "Each slab once." });
+  if (listing.setKind === "bookmatched" && listing.slabIds && listing.slabIds.length !== 2)
+    context.addIssue({ code: "custom", path: ["setKind"], message: "A bookmatched set is two neighbouring slabs." });
+  if (listing.setKind === "single" && listing.slabIds && listing.slabIds.length > 1)
+    context.addIssue({ code: "custom", path: ["setKind"], message: "Choose sequential or bookmatched for more than one slab." });
 }
 
 // Field schemas carry no defaults (partial updates must not reset fields); creation adds them.

@@ -7,7 +7,8 @@ export const checkoutInputSchema = z
     deliveryAddress: z.string().trim().max(500, "Keep the address under 500 characters.").nullable().optional(),
   })
   .superRefine((input, context) => {
-    if (input.handover === "freight" && !input.deliveryAddress) context.addIssue({ code: "custom", path: ["deliveryAddress"], message: "Where should the freight go?" });
+    if (input.handover === "freight" && !input.deliveryAddress)
+      context.addIssue({ code: "custom", path: ["deliveryAddress"], message: "Where should the freight go?" });
   });
 export type CheckoutInput = z.infer<typeof checkoutInputSchema>;
 
@@ -34,12 +35,18 @@ const instant = (what: string) => z.iso.datetime({ offset: true, error: `Give th
 export const pickupWindowsInputSchema = z.object({
   windows: z
     .array(
-      z.object({ startsAt: instant("start"), endsAt: instant("end") }).refine((w) => Date.parse(w.endsAt) > Date.parse(w.startsAt), { path: ["endsAt"], message: "A window must end after it starts." }),
+      z
+        .object({ startsAt: instant("start"), endsAt: instant("end") })
+        .refine((w) => Date.parse(w.endsAt) > Date.parse(w.startsAt), { path: ["endsAt"], message: "A window must end after it starts." }),
       { error: "Propose at least one pickup window." },
     )
     .min(1, "Propose at least one pickup window.")
     .max(5, "Propose at most five pickup windows."),
-  pickupAddress: z.string({ error: "Say where the buyer should come." }).trim().min(3, "Say where the buyer should come.").max(300, "Keep the address under 300 characters."),
+  pickupAddress: z
+    .string({ error: "Say where the buyer should come." })
+    .trim()
+    .min(3, "Say where the buyer should come.")
+    .max(300, "Keep the address under 300 characters."),
 });
 export type PickupWindowsInput = z.infer<typeof pickupWindowsInputSchema>;
 
@@ -49,18 +56,33 @@ export type ChooseWindowInput = z.infer<typeof chooseWindowInputSchema>;
 
 export const shipmentInputSchema = z.object({
   carrier: z.string({ error: "Name the carrier." }).trim().min(2, "Name the carrier.").max(80, "Keep the carrier under 80 characters."),
-  trackingReference: z.string({ error: "Give the tracking reference." }).trim().min(3, "Give the tracking reference.").max(120, "Keep the reference under 120 characters."),
+  trackingReference: z
+    .string({ error: "Give the tracking reference." })
+    .trim()
+    .min(3, "Give the tracking reference.")
+    .max(120, "Keep the reference under 120 characters."),
 });
 export type ShipmentInput = z.infer<typeof shipmentInputSchema>;
 
 export const cancellationInputSchema = z.object({
-  reason: z.string({ error: "Say why the order is cancelled." }).trim().min(3, "Say why the order is cancelled.").max(500, "Keep the reason under 500 characters."),
+  reason: z
+    .string({ error: "Say why the order is cancelled." })
+    .trim()
+    .min(3, "Say why the order is cancelled.")
+    .max(500, "Keep the reason under 500 characters."),
 });
 export type CancellationInput = z.infer<typeof cancellationInputSchema>;
 
 /** What buying a listing would cost, from the same code as checkout (tax at the configured rate). */
 export const checkoutQuoteSchema = z.object({
-  quote: z.object({ currency: z.string(), priceMinor: z.number(), taxMinor: z.number(), taxRateBps: z.number(), totalMinor: z.number(), reservationMinutes: z.number() }),
+  quote: z.object({
+    currency: z.string(),
+    priceMinor: z.number(),
+    taxMinor: z.number(),
+    taxRateBps: z.number(),
+    totalMinor: z.number(),
+    reservationMinutes: z.number(),
+  }),
 });
 export type CheckoutQuote = z.infer<typeof checkoutQuoteSchema>["quote"];
 
@@ -104,7 +126,9 @@ export const orderSchema = z.object({
   /** When the order completes by itself if the buyer does not confirm (handed over + the configured days). */
   autoCompleteAt: z.string().nullable(),
   /** What the one looking may do now. */
-  actions: z.array(z.enum(["propose_pickup_windows", "choose_pickup_window", "mark_shipped", "mark_handed_over", "confirm_receipt", "cancel"])),
+  actions: z.array(
+    z.enum(["propose_pickup_windows", "choose_pickup_window", "mark_shipped", "mark_handed_over", "confirm_receipt", "cancel"]),
+  ),
 });
 export type Order = z.infer<typeof orderSchema>;
 export const checkoutResultSchema = z.object({ order: orderSchema, checkoutUrl: z.string() });

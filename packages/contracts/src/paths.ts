@@ -22,7 +22,8 @@ export const yardPaths = {
   log: (logId: string) => `${API_PREFIX}/yard/logs/${encodeURIComponent(logId)}`,
   logReadings: (logId: string) => `${API_PREFIX}/yard/logs/${encodeURIComponent(logId)}/readings`,
   logPhotos: (logId: string) => `${API_PREFIX}/yard/logs/${encodeURIComponent(logId)}/photos`,
-  logPhoto: (logId: string, photoId: string) => `${API_PREFIX}/yard/logs/${encodeURIComponent(logId)}/photos/${encodeURIComponent(photoId)}`,
+  logPhoto: (logId: string, photoId: string) =>
+    `${API_PREFIX}/yard/logs/${encodeURIComponent(logId)}/photos/${encodeURIComponent(photoId)}`,
   logPhotoImage: (photoId: string, size: "small" | "large") => `${API_PREFIX}/log-photos/${encodeURIComponent(photoId)}/${size}.webp`,
   slabs: `${API_PREFIX}/yard/slabs`,
   slab: (slabId: string) => `${API_PREFIX}/yard/slabs/${encodeURIComponent(slabId)}`,
@@ -36,7 +37,8 @@ export const yardPaths = {
   listingWithdraw: (listingId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/withdraw`,
   listingPhotos: (listingId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/photos`,
   listingPhotoOrder: (listingId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/photo-order`,
-  listingPhoto: (listingId: string, photoId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/photos/${encodeURIComponent(photoId)}`,
+  listingPhoto: (listingId: string, photoId: string) =>
+    `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/photos/${encodeURIComponent(photoId)}`,
   photoImage: (photoId: string, size: "small" | "large") => `${API_PREFIX}/photos/${encodeURIComponent(photoId)}/${size}.webp`,
   reviewQueue: `${API_PREFIX}/admin/listings`,
   reviewApprove: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/approve`,

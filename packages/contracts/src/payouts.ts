@@ -101,7 +101,10 @@ export const payoutApprovalSchema = z.object({
 export type PayoutApproval = z.infer<typeof payoutApprovalSchema>;
 
 export const payoutBatchSchema = z.object({
-  payouts: z.array(payoutApprovalSchema, { error: "Choose the payouts to approve." }).min(1, "Choose at least one payout.").max(200, "Approve at most 200 at a time."),
+  payouts: z
+    .array(payoutApprovalSchema, { error: "Choose the payouts to approve." })
+    .min(1, "Choose at least one payout.")
+    .max(200, "Approve at most 200 at a time."),
 });
 export type PayoutBatch = z.infer<typeof payoutBatchSchema>;
 
@@ -118,7 +121,11 @@ export const payoutListQuerySchema = z.object({
 /** An admin's refund on a disputed order: all or part of what the buyer paid, with the reason both parties are sent. */
 export const disputeRefundSchema = z.object({
   amountMinor: z.number({ error: "Give the amount to refund." }).int("Whole cents only.").positive("The refund must be more than zero."),
-  reason: z.string({ error: "Give the reason both parties will read." }).trim().min(5, "Give the reason both parties will read.").max(1000, "Keep the reason under 1000 characters."),
+  reason: z
+    .string({ error: "Give the reason both parties will read." })
+    .trim()
+    .min(5, "Give the reason both parties will read.")
+    .max(1000, "Keep the reason under 1000 characters."),
 });
 export type DisputeRefund = z.infer<typeof disputeRefundSchema>;
 

@@ -18,7 +18,14 @@ export const moistureMethods = ["pin_meter", "pinless_meter", "oven_dry"] as con
 /** Plain-words labels, shared by forms, lists and CSV. */
 export const yardLabels = {
   siteKind: { street: "Street tree", park: "Park", private_yard: "Private yard", construction: "Construction site", other: "Other" },
-  fellingReason: { storm: "Storm damage", disease: "Disease", pests: "Pests", construction: "Construction", hazard: "Hazard tree", other: "Other" },
+  fellingReason: {
+    storm: "Storm damage",
+    disease: "Disease",
+    pests: "Pests",
+    construction: "Construction",
+    hazard: "Hazard tree",
+    other: "Other",
+  },
   liveEdge: { both: "Both edges live", one: "One live edge", none: "Straight edges" },
   surfacing: { rough_sawn: "Rough sawn", flattened: "Flattened", sanded: "Sanded" },
   feature: { crotch: "Crotch", burl: "Burl", spalting: "Spalting", figure: "Figure" },
@@ -65,7 +72,10 @@ export const logInputSchema = z
     diameterMm: logFields.diameterMm.default(null),
     notes: logFields.notes.default(""),
   })
-  .refine((log) => !log.felledOn || !log.milledOn || log.milledOn >= log.felledOn, { message: "A log is milled after it is felled.", path: ["milledOn"] });
+  .refine((log) => !log.felledOn || !log.milledOn || log.milledOn >= log.felledOn, {
+    message: "A log is milled after it is felled.",
+    path: ["milledOn"],
+  });
 export type LogInput = z.input<typeof logInputSchema>;
 
 export const logUpdateSchema = z.object(logFields).partial();
@@ -110,15 +120,28 @@ const slabFields = {
   notes: text(2000, "the notes"),
 };
 
-function slabRules<T extends { logId?: string | null; sequenceInLog?: number | null; heatTreated?: boolean; heatTreatmentTemperatureC?: number | null; heatTreatmentMinutes?: number | null; dryingMethod?: string; kilnCompletedOn?: string | null }>(
-  slab: T,
-  context: z.RefinementCtx,
-) {
-  if (slab.sequenceInLog != null && !slab.logId) context.addIssue({ code: "custom", path: ["sequenceInLog"], message: "A sequence number needs the log it was cut from." });
+function slabRules<
+  T extends {
+    logId?: string | null;
+    sequenceInLog?: number | null;
+    heatTreated?: boolean;
+    heatTreatmentTemperatureC?: number | null;
+    heatTreatmentMinutes?: number | null;
+    dryingMethod?: string;
+    kilnCompletedOn?: string | null;
+  },
+>(slab: T, context: z.RefinementCtx) {
+  if (slab.sequenceInLog != null && !slab.logId)
+    context.addIssue({ code: "custom", path: ["sequenceInLog"], message: "A sequence number needs the log it was cut from." });
   if (slab.heatTreated && (slab.heatTreatmentTemperatureC == null || slab.heatTreatmentMinutes == null)) {
-    context.addIssue({ code: "custom", path: ["heatTreatmentTemperatureC"], message: "Give the core temperature and the minutes it was held (ISPM 15: 56 °C for 30 minutes)." });
+    context.addIssue({
+      code: "custom",
+      path: ["heatTreatmentTemperatureC"],
+      message: "Give the core temperature and the minutes it was held (ISPM 15: 56 °C for 30 minutes).",
+    });
   }
-  if (slab.dryingMethod === "air" && slab.kilnCompletedOn) context.addIssue({ code: "custom", path: ["kilnCompletedOn"], message: "An air-dried slab has no kiln date." });
+  if (slab.dryingMethod === "air" && slab.kilnCompletedOn)
+    context.addIssue({ code: "custom", path: ["kilnCompletedOn"], message: "An air-dried slab has no kiln date." });
 }
 
 export const slabInputSchema = z
@@ -199,7 +222,10 @@ export type Slab = z.infer<typeof slabSchema>;
 
 export const moistureReadingInputSchema = z.object({
   readOn: isoDate,
-  moistureContentPct: z.number({ error: "Give the moisture content in %." }).min(0, "Moisture content cannot be negative.").max(200, "Moisture content above 200 % is not a reading."),
+  moistureContentPct: z
+    .number({ error: "Give the moisture content in %." })
+    .min(0, "Moisture content cannot be negative.")
+    .max(200, "Moisture content above 200 % is not a reading."),
   method: z.enum(moistureMethods, { error: "Choose how it was measured." }),
 });
 export type MoistureReadingInput = z.infer<typeof moistureReadingInputSchema>;
@@ -226,7 +252,11 @@ export const photoSchema = z.object({
 });
 export const logDetailSchema = z.object({ log: logSchema, slabs: z.array(slabSchema), photos: z.array(photoSchema) });
 export const slabListSchema = z.object({ slabs: z.array(slabSchema) });
-export const slabDetailSchema = z.object({ slab: slabSchema, readings: z.array(moistureReadingSchema), projection: dryingProjectionSchema });
+export const slabDetailSchema = z.object({
+  slab: slabSchema,
+  readings: z.array(moistureReadingSchema),
+  projection: dryingProjectionSchema,
+});
 export const csvImportResultSchema = z.object({ created: z.number() });
 export const csvRowErrorSchema = z.object({ row: z.number(), field: z.string(), message: z.string() });
 export type CsvRowError = z.infer<typeof csvRowErrorSchema>;

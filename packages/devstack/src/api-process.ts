@@ -11,7 +11,7 @@ export const apiEntry = join(repoRoot, "apps/api/src/main.ts");
 const apiCli = (name: string) => join(repoRoot, "apps/api/src/cli", `${name}.ts`);
 
 /** A GET's status through node:http (fetch refuses the Fetch standard's "bad ports", 10080 among them). */
-export function statusOf(url: string, timeoutMs: number): Promise<number> {
+function statusOf(url: string, timeoutMs: number): Promise<number> {
   return new Promise((resolvePromise, reject) => {
     const request = httpGet(url, { timeout: timeoutMs }, (response) => {
       response.resume();
@@ -27,7 +27,8 @@ export async function waitForApi(url: string, api: ManagedProcess, logFile?: str
   void api.exited.then((code) => (exitCode = code));
   await waitUntil(
     async () => {
-      if (exitCode !== null) throw new StackError(`the API stopped while starting (exit ${exitCode})${logFile ? `: ${tail(logFile, 1)}` : ""}`);
+      if (exitCode !== null)
+        throw new StackError(`the API stopped while starting (exit ${exitCode})${logFile ? `: ${tail(logFile, 1)}` : ""}`);
       return (await statusOf(`${url}/api/health`, 2_000)) === 200;
     },
     60_000,
@@ -36,7 +37,12 @@ export async function waitForApi(url: string, api: ManagedProcess, logFile?: str
 }
 
 /** Migrations and demo data for one database, through the api's own CLI. */
-export async function prepareDatabase(stack: RunningStack, database: string, environment: Record<string, string>, seed = true): Promise<DemoAccount[]> {
+export async function prepareDatabase(
+  stack: RunningStack,
+  database: string,
+  environment: Record<string, string>,
+  seed = true,
+): Promise<DemoAccount[]> {
   stack.mariadb.createDatabase(database);
   const output = await runStep("running migrations and seeding", tsx, [apiCli("prepare"), ...(seed ? [] : ["--no-seed"])], {
     cwd: join(repoRoot, "apps/api"),
@@ -52,4 +58,3 @@ export interface DemoAccount {
   password: string;
   name: string;
 }
-

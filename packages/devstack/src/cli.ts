@@ -42,7 +42,12 @@ async function serve(mode: "start" | "dev"): Promise<void> {
     const viteUrl = `http://127.0.0.1:${profile.ports.vite}`;
     const appUrl = `http://127.0.0.1:${profile.ports.app}`;
     const publicUrl = mode === "dev" ? viteUrl : appUrl;
-    const environment = stack.apiEnvironment("grainyard", { NODE_ENV: "development", PUBLIC_URL: publicUrl, WEB_DIST: webDist, LOG_LEVEL: "info" });
+    const environment = stack.apiEnvironment("grainyard", {
+      NODE_ENV: "development",
+      PUBLIC_URL: publicUrl,
+      WEB_DIST: webDist,
+      LOG_LEVEL: "info",
+    });
     writeEnvironmentFile(join(profile.dataDir, "api.env"), environment);
     say("applying migrations and the Lakemont demo data…");
     const demoAccounts = await prepareDatabase(stack, "grainyard", environment);
@@ -60,13 +65,20 @@ async function serve(mode: "start" | "dev"): Promise<void> {
         }
       });
     } else {
-      const api = startProcess(tsx, ["watch", "--clear-screen=false", apiEntry], { cwd: join(repoRoot, "apps/api"), env: { ...process.env, ...environment } });
+      const api = startProcess(tsx, ["watch", "--clear-screen=false", apiEntry], {
+        cwd: join(repoRoot, "apps/api"),
+        env: { ...process.env, ...environment },
+      });
       children.push(api);
       await waitForApi(appUrl, api);
-      const vite = startProcess("pnpm", ["--filter", "@grainyard/web", "exec", "vite", "--host", "127.0.0.1", "--port", String(profile.ports.vite), "--strictPort"], {
-        cwd: repoRoot,
-        env: { ...process.env, GRAINYARD_API_URL: appUrl },
-      });
+      const vite = startProcess(
+        "pnpm",
+        ["--filter", "@grainyard/web", "exec", "vite", "--host", "127.0.0.1", "--port", String(profile.ports.vite), "--strictPort"],
+        {
+          cwd: repoRoot,
+          env: { ...process.env, GRAINYARD_API_URL: appUrl },
+        },
+      );
       children.push(vite);
       await waitUntil(async () => (await fetch(viteUrl)).ok, 60_000, "the Vite dev server");
     }
@@ -93,7 +105,7 @@ async function test(): Promise<void> {
   const profile = profileFor("test");
   ensureTestTools();
   const stack = await startStack(profile, { fresh: true });
-  let exitCode = 1;
+  let exitCode: number;
   const stop = async () => {
     await stack.stop();
   };
@@ -114,7 +126,12 @@ async function test(): Promise<void> {
 async function services(): Promise<void> {
   const profile = profileFor("test");
   const stack = await startStack(profile, { fresh: false });
-  const environment = stack.apiEnvironment("grainyard_unused", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "silent", GRAINYARD_TEST_STACK: "1" });
+  const environment = stack.apiEnvironment("grainyard_unused", {
+    NODE_ENV: "test",
+    BCRYPT_COST: "4",
+    LOG_LEVEL: "silent",
+    GRAINYARD_TEST_STACK: "1",
+  });
   const file = join(profile.dataDir, "test.env");
   writeEnvironmentFile(file, environment);
   say(`test services are up; in another shell: set -a; . ${file}; set +a; pnpm --filter @grainyard/api test`);

@@ -61,7 +61,13 @@ describe("mail sink", () => {
         smtpPort,
         "hello@grainyard.test",
         "Ana@Lakemont.test",
-        ["From: Grainyard <hello@grainyard.test>", "To: ana@lakemont.test", "Subject: Your slab <is> ready", "", "Visit http://127.0.0.1:5080/verify-email?token=abc"].join("\r\n"),
+        [
+          "From: Grainyard <hello@grainyard.test>",
+          "To: ana@lakemont.test",
+          "Subject: Your slab <is> ready",
+          "",
+          "Visit http://127.0.0.1:5080/verify-email?token=abc",
+        ].join("\r\n"),
       );
       expect(replies.at(-1)).toMatch(/^250/);
       const json = (await (await fetch(`${sink.inboxUrl}/api/messages?to=ana@lakemont.test`)).json()) as { messages: StoredMessage[] };

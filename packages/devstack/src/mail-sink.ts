@@ -103,7 +103,11 @@ export async function startMailSink(options: { dir: string; smtpPort: number; in
               )
               .join("")
           : "<li>No mail yet. Sign up in Grainyard and the verification e-mail lands here.</li>";
-        return send(200, "text/html", page("Grainyard inbox", `<h1>Grainyard development inbox <span class="tag">local only</span></h1><ul>${items}</ul>`));
+        return send(
+          200,
+          "text/html",
+          page("Grainyard inbox", `<h1>Grainyard development inbox <span class="tag">local only</span></h1><ul>${items}</ul>`),
+        );
       }
       const match = /^\/messages\/([0-9a-f-]{36})$/.exec(url.pathname);
       if (match && req.method === "GET") {
@@ -113,7 +117,10 @@ export async function startMailSink(options: { dir: string; smtpPort: number; in
         return send(
           200,
           "text/html",
-          page(message.subject, `<p><a href="/">← Inbox</a></p><h1>${escapeHtml(message.subject)}</h1><p><small>From ${escapeHtml(message.from)} to ${escapeHtml(message.to.join(", "))}</small></p><pre>${linked}</pre>`),
+          page(
+            message.subject,
+            `<p><a href="/">← Inbox</a></p><h1>${escapeHtml(message.subject)}</h1><p><small>From ${escapeHtml(message.from)} to ${escapeHtml(message.to.join(", "))}</small></p><pre>${linked}</pre>`,
+          ),
         );
       }
       send(404, "application/json", JSON.stringify({ error: "not found" }));

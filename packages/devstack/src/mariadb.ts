@@ -4,7 +4,7 @@ import { join } from "node:path";
 import { say, StackError } from "./log.ts";
 import { waitUntil } from "./ports.ts";
 
-export interface DatabaseEndpoint {
+interface DatabaseEndpoint {
   host: string;
   port: number;
   user: string;
@@ -21,7 +21,7 @@ function findServerBinary(): string | null {
 }
 
 /** Installs Debian's mariadb-server when `mariadbd` is missing. Never starts the system service. */
-export function ensureMariadbInstalled(): string {
+function ensureMariadbInstalled(): string {
   const found = findServerBinary();
   if (found) return found;
   if (process.getuid?.() !== 0) {
@@ -123,7 +123,12 @@ export async function startMariadb(options: { dir: string; port: number; appPass
     say("initialising a private MariaDB data folder…");
     const init = spawnSync(
       "mariadb-install-db",
-      [`--defaults-file=${configFile}`, "--auth-root-authentication-method=socket", "--skip-test-db", ...(runAsRoot ? ["--user=root"] : [])],
+      [
+        `--defaults-file=${configFile}`,
+        "--auth-root-authentication-method=socket",
+        "--skip-test-db",
+        ...(runAsRoot ? ["--user=root"] : []),
+      ],
       { encoding: "utf8" },
     );
     if (init.status !== 0) {
@@ -147,7 +152,8 @@ export async function startMariadb(options: { dir: string; port: number; appPass
     );
   } catch (error) {
     if (exited === null) server.kill("SIGTERM");
-    if (error instanceof StackError && exited !== null) throw new StackError(`MariaDB stopped while starting (exit ${exited}): ${lastErrorLine(errorLog)}`);
+    if (error instanceof StackError && exited !== null)
+      throw new StackError(`MariaDB stopped while starting (exit ${exited}): ${lastErrorLine(errorLog)}`);
     throw error;
   }
 

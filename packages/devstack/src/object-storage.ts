@@ -1,7 +1,7 @@
 import { mkdirSync } from "node:fs";
 import S3rver from "s3rver";
 
-export const PHOTO_BUCKET = "grainyard-photos";
+const PHOTO_BUCKET = "grainyard-photos";
 
 /** Browsers upload photos straight to storage with presigned URLs, so the bucket allows our origin. */
 function corsFor(origins: string[]): string {

@@ -34,7 +34,12 @@ export function startProcess(command: string, args: string[], options: SpawnOpti
 }
 
 /** Runs a command to completion; a non-zero exit becomes a StackError naming the step. */
-export async function runStep(step: string, command: string, args: string[], options: SpawnOptions & { quiet?: boolean } = {}): Promise<string> {
+export async function runStep(
+  step: string,
+  command: string,
+  args: string[],
+  options: SpawnOptions & { quiet?: boolean } = {},
+): Promise<string> {
   const { quiet, ...spawnOptions } = options;
   const child = spawn(command, args, { ...spawnOptions, stdio: quiet ? ["ignore", "pipe", "pipe"] : ["ignore", "inherit", "inherit"] });
   let output = "";

@@ -10,7 +10,7 @@ import { startObjectStorage } from "./object-storage.ts";
 import { assertPortFree } from "./ports.ts";
 import type { Profile } from "./profile.ts";
 
-export interface Secrets {
+interface Secrets {
   sessionSecret: string;
   databasePassword: string;
   paymentsSecretKey: string;
@@ -18,7 +18,7 @@ export interface Secrets {
 }
 
 /** Secrets generated once on first start and kept in the data folder (never committed). */
-export function secretsFor(dataDir: string): Secrets {
+function secretsFor(dataDir: string): Secrets {
   const file = join(dataDir, "secrets.json");
   const stored = existsSync(file) ? (JSON.parse(readFileSync(file, "utf8")) as Partial<Secrets>) : {};
   const secrets: Secrets = {
@@ -47,7 +47,10 @@ export interface RunningStack {
  * this process, the S3 fake, the mail sink and the payments fake. If any step fails, what already
  * started is stopped before the error goes up.
  */
-export async function startStack(profile: Profile, options: { fresh: boolean; extraPorts?: { port: number; purpose: string }[] }): Promise<RunningStack> {
+export async function startStack(
+  profile: Profile,
+  options: { fresh: boolean; extraPorts?: { port: number; purpose: string }[] },
+): Promise<RunningStack> {
   await stopLeftoverMariadb(join(profile.dataDir, "mariadb"));
   if (options.fresh) rmSync(profile.dataDir, { recursive: true, force: true });
   mkdirSync(profile.dataDir, { recursive: true });
@@ -71,7 +74,11 @@ export async function startStack(profile: Profile, options: { fresh: boolean; ex
   };
   try {
     say(`starting MariaDB on 127.0.0.1:${ports.mariadb}…`);
-    const mariadb = await startMariadb({ dir: join(profile.dataDir, "mariadb"), port: ports.mariadb, appPassword: secrets.databasePassword });
+    const mariadb = await startMariadb({
+      dir: join(profile.dataDir, "mariadb"),
+      port: ports.mariadb,
+      appPassword: secrets.databasePassword,
+    });
     stoppers.push(() => mariadb.stop());
 
     const appOrigins = [`http://127.0.0.1:${ports.app}`, `http://127.0.0.1:${ports.vite}`];

@@ -4,7 +4,15 @@ import { say } from "./log.ts";
 import { runStep } from "./processes.ts";
 import { repoRoot } from "./profile.ts";
 
-const WEB_SOURCES = ["apps/web/src", "apps/web/public", "apps/web/index.html", "apps/web/vite.config.ts", "apps/web/package.json", "packages/contracts/src", "packages/slab-math/src"];
+const WEB_SOURCES = [
+  "apps/web/src",
+  "apps/web/public",
+  "apps/web/index.html",
+  "apps/web/vite.config.ts",
+  "apps/web/package.json",
+  "packages/contracts/src",
+  "packages/slab-math/src",
+];
 
 function newestChange(path: string): number {
   if (!existsSync(path)) return 0;

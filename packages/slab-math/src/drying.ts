@@ -1,10 +1,10 @@
 /**
  * Drying: a projection from a slab's own moisture readings, and the air-drying rule of thumb.
  */
-import { SlabMathError, requireNumberInRange, requirePositive } from './errors.ts';
-import { LIMITS } from './limits.ts';
-import { MILLIMETRES_PER_INCH } from './units.ts';
-import { KILN_DRIED_TARGET_BAND } from './wood-physics.ts';
+import { SlabMathError, requireNumberInRange, requirePositive } from "./errors.ts";
+import { LIMITS } from "./limits.ts";
+import { MILLIMETRES_PER_INCH } from "./units.ts";
+import { KILN_DRIED_TARGET_BAND } from "./wood-physics.ts";
 
 const MILLISECONDS_PER_DAY = 86_400_000;
 
@@ -31,13 +31,13 @@ export interface DryingProjectionOptions {
 
 /** Result of {@link dryingProjection}, discriminated by `status`. */
 export type DryingProjection =
-  | { status: 'ready'; lastMoisturePct: number }
-  | { status: 'below_target_band'; lastMoisturePct: number }
-  | { status: 'not_enough_readings'; readingsNeeded: number; usableReadings: number }
-  | { status: 'not_drying'; lastMoisturePct: number }
-  | { status: 'target_not_reachable'; equilibriumMoistureContentPct: number; targetMoisturePct: number }
+  | { status: "ready"; lastMoisturePct: number }
+  | { status: "below_target_band"; lastMoisturePct: number }
+  | { status: "not_enough_readings"; readingsNeeded: number; usableReadings: number }
+  | { status: "not_drying"; lastMoisturePct: number }
+  | { status: "target_not_reachable"; equilibriumMoistureContentPct: number; targetMoisturePct: number }
   | {
-      status: 'projected';
+      status: "projected";
       /** Projected date the target is reached, ISO 8601 (never before the last reading). */
       projectedDate: string;
       projectedEpochMs: number;
@@ -66,24 +66,15 @@ export const MINIMUM_READINGS_FOR_PROJECTION = 3;
  * than 3 usable readings; 'not_drying' when the readings do not fall (k ≤ 0 or last ≥ first);
  * 'target_not_reachable' when the target is at or below the EMC; else 'projected'.
  */
-export function dryingProjection(
-  readings: readonly MoistureReading[],
-  options: DryingProjectionOptions = {},
-): DryingProjection {
+export function dryingProjection(readings: readonly MoistureReading[], options: DryingProjectionOptions = {}): DryingProjection {
   if (!Array.isArray(readings)) {
-    throw new SlabMathError('missing_input', 'readings', 'readings must be a list of { date, moistureContentPct }');
+    throw new SlabMathError("missing_input", "readings", "readings must be a list of { date, moistureContentPct }");
   }
   const band = options.targetBand ?? KILN_DRIED_TARGET_BAND;
-  requireNumberInRange(band.minimumPct, 'targetBand.minimumPct', 0, LIMITS.maximumMoisturePct, '%');
-  requireNumberInRange(band.maximumPct, 'targetBand.maximumPct', band.minimumPct, LIMITS.maximumMoisturePct, '%');
-  const equilibrium = requireNumberInRange(
-    options.equilibriumMoistureContentPct ?? 8,
-    'equilibriumMoistureContentPct',
-    0,
-    30,
-    '%',
-  );
-  const target = requireNumberInRange(options.targetMoisturePct ?? band.maximumPct, 'targetMoisturePct', 0, LIMITS.maximumMoisturePct, '%');
+  requireNumberInRange(band.minimumPct, "targetBand.minimumPct", 0, LIMITS.maximumMoisturePct, "%");
+  requireNumberInRange(band.maximumPct, "targetBand.maximumPct", band.minimumPct, LIMITS.maximumMoisturePct, "%");
+  const equilibrium = requireNumberInRange(options.equilibriumMoistureContentPct ?? 8, "equilibriumMoistureContentPct", 0, 30, "%");
+  const target = requireNumberInRange(options.targetMoisturePct ?? band.maximumPct, "targetMoisturePct", 0, LIMITS.maximumMoisturePct, "%");
 
   const points = readings.map((reading, index) => ({
     time: readingTime(reading?.date, `readings[${index}].date`),
@@ -92,7 +83,7 @@ export function dryingProjection(
       `readings[${index}].moistureContentPct`,
       LIMITS.minimumMoisturePct,
       LIMITS.maximumMoisturePct,
-      '%',
+      "%",
     ),
   }));
   points.sort((a, b) => a.time - b.time);
@@ -100,15 +91,15 @@ export function dryingProjection(
   const last = points[points.length - 1];
   if (last) {
     if (last.moisture >= band.minimumPct && last.moisture <= band.maximumPct) {
-      return { status: 'ready', lastMoisturePct: last.moisture };
+      return { status: "ready", lastMoisturePct: last.moisture };
     }
     if (last.moisture < band.minimumPct) {
-      return { status: 'below_target_band', lastMoisturePct: last.moisture };
+      return { status: "below_target_band", lastMoisturePct: last.moisture };
     }
   }
   const usable = points.filter((point) => point.moisture > equilibrium);
   if (usable.length < MINIMUM_READINGS_FOR_PROJECTION || !last) {
-    return { status: 'not_enough_readings', readingsNeeded: MINIMUM_READINGS_FOR_PROJECTION, usableReadings: usable.length };
+    return { status: "not_enough_readings", readingsNeeded: MINIMUM_READINGS_FOR_PROJECTION, usableReadings: usable.length };
   }
   const first = usable[0]!;
   // Least squares of y = ln(MC − EMC) on t (days since the first usable reading).
@@ -128,21 +119,21 @@ export function dryingProjection(
   const spread = count * sumTT - sumT * sumT;
   if (spread <= 0) {
     // All readings on the same day: no slope can be fitted.
-    return { status: 'not_enough_readings', readingsNeeded: MINIMUM_READINGS_FOR_PROJECTION, usableReadings: 1 };
+    return { status: "not_enough_readings", readingsNeeded: MINIMUM_READINGS_FOR_PROJECTION, usableReadings: 1 };
   }
   const slope = (count * sumTY - sumT * sumY) / spread;
   const intercept = (sumY - slope * sumT) / count;
   const rate = -slope;
   if (!(rate > 0) || last.moisture >= points[0]!.moisture) {
-    return { status: 'not_drying', lastMoisturePct: last.moisture };
+    return { status: "not_drying", lastMoisturePct: last.moisture };
   }
   if (target <= equilibrium) {
-    return { status: 'target_not_reachable', equilibriumMoistureContentPct: equilibrium, targetMoisturePct: target };
+    return { status: "target_not_reachable", equilibriumMoistureContentPct: equilibrium, targetMoisturePct: target };
   }
   const daysFromFirst = (intercept - Math.log(target - equilibrium)) / rate;
   const projectedEpochMs = Math.max(first.time + daysFromFirst * MILLISECONDS_PER_DAY, last.time);
   return {
-    status: 'projected',
+    status: "projected",
     projectedDate: new Date(projectedEpochMs).toISOString(),
     projectedEpochMs,
     daysFromLastReading: (projectedEpochMs - last.time) / MILLISECONDS_PER_DAY,
@@ -154,9 +145,9 @@ export function dryingProjection(
 }
 
 function readingTime(date: unknown, field: string): number {
-  const time = typeof date === 'number' ? date : typeof date === 'string' ? Date.parse(date) : Number.NaN;
-  if (!Number.isFinite(time) || new Date(time).toString() === 'Invalid Date') {
-    throw new SlabMathError('invalid_date', field, `${field} must be an ISO date or epoch milliseconds, got ${String(date)}`);
+  const time = typeof date === "number" ? date : typeof date === "string" ? Date.parse(date) : Number.NaN;
+  if (!Number.isFinite(time) || new Date(time).toString() === "Invalid Date") {
+    throw new SlabMathError("invalid_date", field, `${field} must be an ISO date or epoch milliseconds, got ${String(date)}`);
   }
   return time;
 }
@@ -166,5 +157,5 @@ function readingTime(date: unknown, field: string): number {
  * practice), down to near the outdoor EMC; a kiln finishes the rest.
  */
 export function airDryingRuleOfThumbYears(thicknessMm: number): number {
-  return requirePositive(thicknessMm, 'thicknessMm', LIMITS.maximumThicknessMm, 'mm') / MILLIMETRES_PER_INCH;
+  return requirePositive(thicknessMm, "thicknessMm", LIMITS.maximumThicknessMm, "mm") / MILLIMETRES_PER_INCH;
 }

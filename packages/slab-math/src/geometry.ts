@@ -1,9 +1,9 @@
 /**
  * Slab geometry from width stations, and board feet.
  */
-import { SlabMathError, requireNumberInRange, requirePositive } from './errors.ts';
-import { LIMITS } from './limits.ts';
-import { CUBIC_INCHES_PER_BOARD_FOOT, MILLIMETRES_PER_INCH } from './units.ts';
+import { SlabMathError, requireNumberInRange, requirePositive } from "./errors.ts";
+import { LIMITS } from "./limits.ts";
+import { CUBIC_INCHES_PER_BOARD_FOOT, MILLIMETRES_PER_INCH } from "./units.ts";
 
 /** Input of {@link slabGeometry}. */
 export interface SlabGeometryInput {
@@ -46,24 +46,24 @@ const CUBIC_MILLIMETRES_PER_BOARD_FOOT = CUBIC_INCHES_PER_BOARD_FOOT * MILLIMETR
  * @throws SlabMathError on negative, NaN/Infinity or implausible sizes, fewer than 2 stations.
  */
 export function slabGeometry(input: SlabGeometryInput): SlabGeometry {
-  const lengthMm = requirePositive(input.lengthMm, 'lengthMm', LIMITS.maximumLengthMm, 'mm');
-  const thicknessMm = requirePositive(input.thicknessMm, 'thicknessMm', LIMITS.maximumThicknessMm, 'mm');
+  const lengthMm = requirePositive(input.lengthMm, "lengthMm", LIMITS.maximumLengthMm, "mm");
+  const thicknessMm = requirePositive(input.thicknessMm, "thicknessMm", LIMITS.maximumThicknessMm, "mm");
   const stations = input.widthStationsMm;
   if (!Array.isArray(stations)) {
-    throw new SlabMathError('missing_input', 'widthStationsMm', 'widthStationsMm must be a list of widths in mm');
+    throw new SlabMathError("missing_input", "widthStationsMm", "widthStationsMm must be a list of widths in mm");
   }
   const count = stations.length;
   if (count < 2) {
     throw new SlabMathError(
-      'too_few_stations',
-      'widthStationsMm',
+      "too_few_stations",
+      "widthStationsMm",
       `widthStationsMm needs at least 2 widths (one at each end), got ${count}`,
     );
   }
   if (count > LIMITS.maximumStations) {
     throw new SlabMathError(
-      'out_of_range',
-      'widthStationsMm',
+      "out_of_range",
+      "widthStationsMm",
       `widthStationsMm accepts at most ${LIMITS.maximumStations} widths, got ${count}`,
     );
   }
@@ -73,8 +73,8 @@ export function slabGeometry(input: SlabGeometryInput): SlabGeometry {
   for (let index = 0; index < count; index++) {
     const width = stations[index];
     // Fast path for the common case; the slow path builds the precise error.
-    if (typeof width !== 'number' || !(width >= 0 && width <= LIMITS.maximumWidthMm)) {
-      requireNumberInRange(width, `widthStationsMm[${index}]`, 0, LIMITS.maximumWidthMm, 'mm');
+    if (typeof width !== "number" || !(width >= 0 && width <= LIMITS.maximumWidthMm)) {
+      requireNumberInRange(width, `widthStationsMm[${index}]`, 0, LIMITS.maximumWidthMm, "mm");
     }
     const value = width as number;
     if (value < minimum) minimum = value;
@@ -82,7 +82,7 @@ export function slabGeometry(input: SlabGeometryInput): SlabGeometry {
     if (index !== 0 && index !== count - 1) interiorSum += value;
   }
   if (maximum === 0) {
-    throw new SlabMathError('out_of_range', 'widthStationsMm', 'widthStationsMm must have at least one width greater than 0');
+    throw new SlabMathError("out_of_range", "widthStationsMm", "widthStationsMm must have at least one width greater than 0");
   }
   const spacing = lengthMm / (count - 1);
   const areaMm2 = spacing * ((stations[0] as number) / 2 + interiorSum + (stations[count - 1] as number) / 2);
@@ -106,9 +106,9 @@ export function slabGeometry(input: SlabGeometryInput): SlabGeometry {
  * @param lengthFt length, feet
  */
 export function boardFeet(thicknessIn: number, widthIn: number, lengthFt: number): number {
-  requireNumberInRange(thicknessIn, 'thicknessIn', 0, LIMITS.maximumThicknessMm / MILLIMETRES_PER_INCH, 'in');
-  requireNumberInRange(widthIn, 'widthIn', 0, LIMITS.maximumWidthMm / MILLIMETRES_PER_INCH, 'in');
-  requireNumberInRange(lengthFt, 'lengthFt', 0, LIMITS.maximumLengthMm / 304.8, 'ft');
+  requireNumberInRange(thicknessIn, "thicknessIn", 0, LIMITS.maximumThicknessMm / MILLIMETRES_PER_INCH, "in");
+  requireNumberInRange(widthIn, "widthIn", 0, LIMITS.maximumWidthMm / MILLIMETRES_PER_INCH, "in");
+  requireNumberInRange(lengthFt, "lengthFt", 0, LIMITS.maximumLengthMm / 304.8, "ft");
   return (thicknessIn * widthIn * lengthFt * 12) / CUBIC_INCHES_PER_BOARD_FOOT;
 }
 
@@ -128,18 +128,10 @@ export function widthAtPosition(lengthMm: number, widthStationsMm: readonly numb
 }
 
 /** Narrowest width between two positions along the slab, mm (interpolated ends plus the stations between). */
-export function minimumWidthBetween(
-  lengthMm: number,
-  widthStationsMm: readonly number[],
-  startMm: number,
-  endMm: number,
-): number {
+export function minimumWidthBetween(lengthMm: number, widthStationsMm: readonly number[], startMm: number, endMm: number): number {
   const count = widthStationsMm.length;
   const spacing = lengthMm / (count - 1);
-  let minimum = Math.min(
-    widthAtPosition(lengthMm, widthStationsMm, startMm),
-    widthAtPosition(lengthMm, widthStationsMm, endMm),
-  );
+  let minimum = Math.min(widthAtPosition(lengthMm, widthStationsMm, startMm), widthAtPosition(lengthMm, widthStationsMm, endMm));
   for (let index = 0; index < count; index++) {
     const position = index * spacing;
     if (position > startMm && position < endMm) {

@@ -2,16 +2,9 @@
  * @grainyard/slab-math — slab measurement, wood physics and money for Grainyard.
  * Pure TypeScript, no I/O. See README.md for every export, its units and its source.
  */
-export { SlabMathError, type SlabMathErrorCode } from './errors.ts';
-export { LIMITS } from './limits.ts';
-export {
-  slabGeometry,
-  boardFeet,
-  widthAtPosition,
-  minimumWidthBetween,
-  type SlabGeometry,
-  type SlabGeometryInput,
-} from './geometry.ts';
+export { SlabMathError, type SlabMathErrorCode } from "./errors.ts";
+export { LIMITS } from "./limits.ts";
+export { slabGeometry, boardFeet, widthAtPosition, minimumWidthBetween, type SlabGeometry, type SlabGeometryInput } from "./geometry.ts";
 export {
   FIBRE_SATURATION_POINT_PCT,
   KILN_DRIED_TARGET_BAND,
@@ -22,15 +15,8 @@ export {
   densityAtMoistureFromShrinkage,
   equilibriumMoistureContent,
   dimensionalChange,
-} from './wood-physics.ts';
-export {
-  species,
-  speciesBySlug,
-  findSpeciesBySlug,
-  type Species,
-  type SpeciesSources,
-  type SpeciesValueName,
-} from './species.ts';
+} from "./wood-physics.ts";
+export { species, speciesBySlug, findSpeciesBySlug, type Species, type SpeciesSources, type SpeciesValueName } from "./species.ts";
 export {
   NIOSH_LOAD_CONSTANT_KG,
   DENSITY_VARIATION_FRACTION,
@@ -39,7 +25,7 @@ export {
   type HandlingAdvice,
   type SlabWeight,
   type SlabWeightInput,
-} from './weight.ts';
+} from "./weight.ts";
 export {
   BASIS_POINTS_PER_WHOLE,
   roundHalfUp,
@@ -51,7 +37,7 @@ export {
   type PriceMode,
   type SlabPriceInput,
   type SlabPrice,
-} from './money.ts';
+} from "./money.ts";
 export {
   MILLIMETRES_PER_INCH,
   MILLIMETRES_PER_FOOT,
@@ -74,14 +60,14 @@ export {
   feetAndInchesToMillimetres,
   parseInches,
   type InchFraction,
-} from './units.ts';
+} from "./units.ts";
 export {
   seasonalMovement,
   type IndoorClimate,
   type SeasonalMovement,
   type SeasonalMovementInput,
   type SeasonalMovementNote,
-} from './seasonal-movement.ts';
+} from "./seasonal-movement.ts";
 export {
   MINIMUM_READINGS_FOR_PROJECTION,
   dryingProjection,
@@ -89,7 +75,7 @@ export {
   type MoistureReading,
   type DryingProjection,
   type DryingProjectionOptions,
-} from './drying.ts';
+} from "./drying.ts";
 export {
   DEFAULT_FLATTENING_ALLOWANCE_MM,
   DEFAULT_END_TRIM_MM,
@@ -105,7 +91,7 @@ export {
   type TableFit,
   type TableFitReason,
   type TableFitNote,
-} from './table-fit.ts';
+} from "./table-fit.ts";
 export {
   CRATE_RULE,
   DEFAULT_DIMENSIONAL_DIVISOR_CM3_PER_KG,
@@ -117,7 +103,7 @@ export {
   type ShippingEstimate,
   type ShippingEstimateInput,
   type ShippingReason,
-} from './shipping.ts';
+} from "./shipping.ts";
 export {
   LOWEST_PLAUSIBLE_MOISTURE_PCT,
   KILN_DRIED_HIGHEST_PLAUSIBLE_PCT,
@@ -127,5 +113,5 @@ export {
   type PlausibilityCode,
   type PlausibilitySlab,
   type PlausibilityWarning,
-} from './plausibility.ts';
-export { EARTH_MEAN_RADIUS_KM, greatCircleKm, type Position } from './geodesy.ts';
+} from "./plausibility.ts";
+export { EARTH_MEAN_RADIUS_KM, greatCircleKm, type Position } from "./geodesy.ts";

@@ -1,13 +1,13 @@
-import fc from 'fast-check';
-import { describe, expect, it } from 'vitest';
-import { SlabMathError } from './errors.ts';
-import { feeBreakdown, refundShares, roundHalfUp, slabPrice } from './money.ts';
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import { SlabMathError } from "./errors.ts";
+import { feeBreakdown, refundShares, roundHalfUp, slabPrice } from "./money.ts";
 
 // Money rules are Grainyard's own specification (integer minor units, basis points, half-up once);
 // the expected values below are worked by hand.
 
-describe('roundHalfUp', () => {
-  it('halves go up, everything else to the nearest', () => {
+describe("roundHalfUp", () => {
+  it("halves go up, everything else to the nearest", () => {
     expect(roundHalfUp(2.5)).toBe(3); // banker's rounding would give 2
     expect(roundHalfUp(3.5)).toBe(4);
     expect(roundHalfUp(2.4999)).toBe(2);
@@ -17,8 +17,8 @@ describe('roundHalfUp', () => {
   });
 });
 
-describe('feeBreakdown', () => {
-  it('worked example: $100.00, 10 % platform, 2.9 % + 30¢ processing', () => {
+describe("feeBreakdown", () => {
+  it("worked example: $100.00, 10 % platform, 2.9 % + 30¢ processing", () => {
     // platform 10000 × 1000 / 10000 = 1000; processing 10000 × 290 / 10000 = 290, + 30 = 320
     expect(feeBreakdown(10_000, { platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 })).toEqual({
       platformFeeMinor: 1000,
@@ -26,7 +26,7 @@ describe('feeBreakdown', () => {
       sawyerNetMinor: 8680,
     });
   });
-  it('half-up applied once per fee', () => {
+  it("half-up applied once per fee", () => {
     // 12345 × 250 / 10000 = 308.625 → 309; 12345 × 290 / 10000 = 358.005 → 358, + 30 = 388
     expect(feeBreakdown(12_345, { platformFeeBps: 250, processingFeeBps: 290, processingFixedMinor: 30 })).toEqual({
       platformFeeMinor: 309,
@@ -36,14 +36,14 @@ describe('feeBreakdown', () => {
     // an exact half: 50 × 1000 / 10000 = 5; 25 × 1000 / 10000 = 2.5 → 3
     expect(feeBreakdown(25, { platformFeeBps: 1000, processingFeeBps: 0, processingFixedMinor: 0 }).platformFeeMinor).toBe(3);
   });
-  it('exact for amounts beyond 2^53 / 10000 (integer arithmetic)', () => {
+  it("exact for amounts beyond 2^53 / 10000 (integer arithmetic)", () => {
     const subtotal = 9_007_199_254_740_991; // Number.MAX_SAFE_INTEGER
     const result = feeBreakdown(subtotal, { platformFeeBps: 1, processingFeeBps: 0, processingFixedMinor: 0 });
     // 9007199254740991 / 10000 = 900719925474.0991 → 900719925474
     expect(result.platformFeeMinor).toBe(900_719_925_474);
     expect(result.platformFeeMinor + result.processingFeeMinor + result.sawyerNetMinor).toBe(subtotal);
   });
-  it('rejects non-integer or negative money and out-of-range basis points', () => {
+  it("rejects non-integer or negative money and out-of-range basis points", () => {
     const settings = { platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 };
     expect(() => feeBreakdown(100.5, settings)).toThrow(/subtotalMinor/);
     expect(() => feeBreakdown(-1, settings)).toThrow(SlabMathError);
@@ -53,7 +53,7 @@ describe('feeBreakdown', () => {
     expect(() => feeBreakdown(20, settings)).toThrow(/fees/);
   });
 
-  it('property: the three parts are integers and always sum to the subtotal exactly', () => {
+  it("property: the three parts are integers and always sum to the subtotal exactly", () => {
     fc.assert(
       fc.property(
         fc.integer({ min: 0, max: Number.MAX_SAFE_INTEGER }),
@@ -66,7 +66,7 @@ describe('feeBreakdown', () => {
             result = feeBreakdown(subtotal, { platformFeeBps, processingFeeBps, processingFixedMinor });
           } catch (error) {
             // only allowed failure: fees larger than a tiny subtotal
-            expect((error as SlabMathError).code).toBe('fees_exceed_subtotal');
+            expect((error as SlabMathError).code).toBe("fees_exceed_subtotal");
             return;
           }
           expect(Number.isInteger(result.platformFeeMinor)).toBe(true);
@@ -75,16 +75,14 @@ describe('feeBreakdown', () => {
           expect(result.sawyerNetMinor).toBeGreaterThanOrEqual(0);
           expect(result.platformFeeMinor + result.processingFeeMinor + result.sawyerNetMinor).toBe(subtotal);
           // each fee is within half a minor unit of its exact value
-          expect(Math.abs(result.platformFeeMinor - (subtotal * platformFeeBps) / 10_000)).toBeLessThanOrEqual(
-            0.5 + subtotal * 1e-15,
-          );
+          expect(Math.abs(result.platformFeeMinor - (subtotal * platformFeeBps) / 10_000)).toBeLessThanOrEqual(0.5 + subtotal * 1e-15);
         },
       ),
       { numRuns: 2000 },
     );
   });
 
-  it('property: a larger subtotal never yields a smaller platform fee or net', () => {
+  it("property: a larger subtotal never yields a smaller platform fee or net", () => {
     fc.assert(
       fc.property(
         fc.integer({ min: 10_000, max: 10_000_000 }),
@@ -102,32 +100,32 @@ describe('feeBreakdown', () => {
   });
 });
 
-describe('slabPrice', () => {
-  it('per board foot: 45.77 bf at $14.00 → 45.77 × 1400 = 64078 minor units', () => {
-    expect(slabPrice({ mode: 'per_board_foot', rateMinor: 1400, boardFeet: 45.77 })).toEqual({
+describe("slabPrice", () => {
+  it("per board foot: 45.77 bf at $14.00 → 45.77 × 1400 = 64078 minor units", () => {
+    expect(slabPrice({ mode: "per_board_foot", rateMinor: 1400, boardFeet: 45.77 })).toEqual({
       priceMinor: 64_078,
-      mode: 'per_board_foot',
+      mode: "per_board_foot",
       quantity: 45.77,
     });
   });
-  it('per cubic metre: 0.108 m³ at €2,500.00 → 0.108 × 250000 = 27000', () => {
-    expect(slabPrice({ mode: 'per_cubic_metre', rateMinor: 250_000, volumeM3: 0.108 }).priceMinor).toBe(27_000);
+  it("per cubic metre: 0.108 m³ at €2,500.00 → 0.108 × 250000 = 27000", () => {
+    expect(slabPrice({ mode: "per_cubic_metre", rateMinor: 250_000, volumeM3: 0.108 }).priceMinor).toBe(27_000);
   });
-  it('half-up once: 2.5 bf × 5 = 12.5 → 13; 0.5 bf × 5 = 2.5 → 3', () => {
-    expect(slabPrice({ mode: 'per_board_foot', rateMinor: 5, boardFeet: 2.5 }).priceMinor).toBe(13);
-    expect(slabPrice({ mode: 'per_board_foot', rateMinor: 5, boardFeet: 0.5 }).priceMinor).toBe(3);
+  it("half-up once: 2.5 bf × 5 = 12.5 → 13; 0.5 bf × 5 = 2.5 → 3", () => {
+    expect(slabPrice({ mode: "per_board_foot", rateMinor: 5, boardFeet: 2.5 }).priceMinor).toBe(13);
+    expect(slabPrice({ mode: "per_board_foot", rateMinor: 5, boardFeet: 0.5 }).priceMinor).toBe(3);
   });
-  it('fixed price is taken as is', () => {
-    expect(slabPrice({ mode: 'fixed', rateMinor: 89_900 })).toEqual({ priceMinor: 89_900, mode: 'fixed', quantity: 1 });
+  it("fixed price is taken as is", () => {
+    expect(slabPrice({ mode: "fixed", rateMinor: 89_900 })).toEqual({ priceMinor: 89_900, mode: "fixed", quantity: 1 });
   });
-  it('rejects non-integer or negative rates and missing quantities', () => {
-    expect(() => slabPrice({ mode: 'fixed', rateMinor: 10.5 })).toThrow(/rateMinor/);
-    expect(() => slabPrice({ mode: 'fixed', rateMinor: -1 })).toThrow(SlabMathError);
-    expect(() => slabPrice({ mode: 'per_board_foot', rateMinor: 1400 })).toThrow(/boardFeet/);
-    expect(() => slabPrice({ mode: 'per_cubic_metre', rateMinor: 1400, volumeM3: Number.NaN })).toThrow(/volumeM3/);
-    expect(() => slabPrice({ mode: 'per_slab' as never, rateMinor: 1400 })).toThrow(/mode/);
+  it("rejects non-integer or negative rates and missing quantities", () => {
+    expect(() => slabPrice({ mode: "fixed", rateMinor: 10.5 })).toThrow(/rateMinor/);
+    expect(() => slabPrice({ mode: "fixed", rateMinor: -1 })).toThrow(SlabMathError);
+    expect(() => slabPrice({ mode: "per_board_foot", rateMinor: 1400 })).toThrow(/boardFeet/);
+    expect(() => slabPrice({ mode: "per_cubic_metre", rateMinor: 1400, volumeM3: Number.NaN })).toThrow(/volumeM3/);
+    expect(() => slabPrice({ mode: "per_slab" as never, rateMinor: 1400 })).toThrow(/mode/);
   });
-  it('property: more volume never costs less at a per-volume rate', () => {
+  it("property: more volume never costs less at a per-volume rate", () => {
     fc.assert(
       fc.property(
         fc.integer({ min: 0, max: 10_000_000 }),
@@ -135,8 +133,8 @@ describe('slabPrice', () => {
         fc.double({ min: 0, max: 10, noNaN: true }),
         (rateMinor, first, second) => {
           const [small, large] = first <= second ? [first, second] : [second, first];
-          const cheaper = slabPrice({ mode: 'per_cubic_metre', rateMinor, volumeM3: small }).priceMinor;
-          const dearer = slabPrice({ mode: 'per_cubic_metre', rateMinor, volumeM3: large }).priceMinor;
+          const cheaper = slabPrice({ mode: "per_cubic_metre", rateMinor, volumeM3: small }).priceMinor;
+          const dearer = slabPrice({ mode: "per_cubic_metre", rateMinor, volumeM3: large }).priceMinor;
           expect(dearer).toBeGreaterThanOrEqual(cheaper);
           expect(Number.isInteger(cheaper)).toBe(true);
         },
@@ -144,47 +142,56 @@ describe('slabPrice', () => {
       { numRuns: 2000 },
     );
   });
-  it('property: more board feet never cost less at a per-board-foot rate', () => {
+  it("property: more board feet never cost less at a per-board-foot rate", () => {
     fc.assert(
-      fc.property(fc.integer({ min: 0, max: 1_000_000 }), fc.double({ min: 0, max: 5000, noNaN: true }), fc.double({ min: 0, max: 100, noNaN: true }), (rateMinor, boardFeet, extra) => {
-        const base = slabPrice({ mode: 'per_board_foot', rateMinor, boardFeet }).priceMinor;
-        const more = slabPrice({ mode: 'per_board_foot', rateMinor, boardFeet: boardFeet + extra }).priceMinor;
-        expect(more).toBeGreaterThanOrEqual(base);
-      }),
+      fc.property(
+        fc.integer({ min: 0, max: 1_000_000 }),
+        fc.double({ min: 0, max: 5000, noNaN: true }),
+        fc.double({ min: 0, max: 100, noNaN: true }),
+        (rateMinor, boardFeet, extra) => {
+          const base = slabPrice({ mode: "per_board_foot", rateMinor, boardFeet }).priceMinor;
+          const more = slabPrice({ mode: "per_board_foot", rateMinor, boardFeet: boardFeet + extra }).priceMinor;
+          expect(more).toBeGreaterThanOrEqual(base);
+        },
+      ),
     );
   });
 });
 
-describe('refundShares (largest remainder / Hamilton apportionment)', () => {
-  it('worked example: sizes 50, 30, 20 sharing 7 units → 4, 2, 1 (quotas 3.5, 2.1, 1.4; the one unit left goes to the 0.5 remainder)', () => {
+describe("refundShares (largest remainder / Hamilton apportionment)", () => {
+  it("worked example: sizes 50, 30, 20 sharing 7 units → 4, 2, 1 (quotas 3.5, 2.1, 1.4; the one unit left goes to the 0.5 remainder)", () => {
     // Source: worked example of the largest remainder (Hamilton) method, infinitelexicon.com "largestremainder".
     expect(refundShares({ a: 50, b: 30, c: 20 }, 7)).toEqual({ a: 4, b: 2, c: 1 });
   });
-  it('worked example: 500, 300, 110, 20 sharing 4 → 2, 1, 1, 0 (quotas 2.15, 1.29, 0.47, 0.09)', () => {
+  it("worked example: 500, 300, 110, 20 sharing 4 → 2, 1, 1, 0 (quotas 2.15, 1.29, 0.47, 0.09)", () => {
     // Source: Hare-quota worked example of the largest remainders method (archipel-des-libertes.fr, "largest remainders method").
     expect(refundShares({ a: 500, b: 300, c: 110, d: 20 }, 4)).toEqual({ a: 2, b: 1, c: 1, d: 0 });
   });
-  it('a refund of everything gives every part back in full; nothing gives nothing', () => {
+  it("a refund of everything gives every part back in full; nothing gives nothing", () => {
     const order = { tax: 864, platformFee: 12_000, processing: 3_510, sawyerNet: 104_490 };
     expect(refundShares(order, 120_864)).toEqual(order);
     expect(refundShares(order, 0)).toEqual({ tax: 0, platformFee: 0, processing: 0, sawyerNet: 0 });
   });
-  it('always adds up to the refund exactly, each share within one unit of its exact share (property)', () => {
+  it("always adds up to the refund exactly, each share within one unit of its exact share (property)", () => {
     fc.assert(
-      fc.property(fc.array(fc.integer({ min: 0, max: 10_000_000 }), { minLength: 1, maxLength: 6 }), fc.double({ min: 0, max: 1, noNaN: true }), (sizes, fraction) => {
-        const parts = Object.fromEntries(sizes.map((size, i) => [`p${i}`, size]));
-        const total = sizes.reduce((a, b) => a + b, 0);
-        const refund = Math.floor(total * fraction);
-        const shares = refundShares(parts, refund);
-        expect(Object.values(shares).reduce((a, b) => a + b, 0)).toBe(refund);
-        for (const [key, size] of Object.entries(parts)) {
-          const exact = total === 0 ? 0 : (refund * size) / total;
-          expect(Math.abs(shares[key]! - exact)).toBeLessThan(1);
-        }
-      }),
+      fc.property(
+        fc.array(fc.integer({ min: 0, max: 10_000_000 }), { minLength: 1, maxLength: 6 }),
+        fc.double({ min: 0, max: 1, noNaN: true }),
+        (sizes, fraction) => {
+          const parts = Object.fromEntries(sizes.map((size, i) => [`p${i}`, size]));
+          const total = sizes.reduce((a, b) => a + b, 0);
+          const refund = Math.floor(total * fraction);
+          const shares = refundShares(parts, refund);
+          expect(Object.values(shares).reduce((a, b) => a + b, 0)).toBe(refund);
+          for (const [key, size] of Object.entries(parts)) {
+            const exact = total === 0 ? 0 : (refund * size) / total;
+            expect(Math.abs(shares[key]! - exact)).toBeLessThan(1);
+          }
+        },
+      ),
     );
   });
-  it('refuses a refund above what was paid, negative or fractional money', () => {
+  it("refuses a refund above what was paid, negative or fractional money", () => {
     expect(() => refundShares({ a: 10, b: 5 }, 16)).toThrow(SlabMathError);
     expect(() => refundShares({ a: 10 }, -1)).toThrow(SlabMathError);
     expect(() => refundShares({ a: 10.5 }, 1)).toThrow(SlabMathError);

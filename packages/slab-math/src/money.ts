@@ -2,8 +2,8 @@
  * Money: integer minor units (cents, pence) only; fees in basis points (1 bps = 0.01 %).
  * One rounding rule everywhere: half-up to the minor unit, applied once per amount.
  */
-import { SlabMathError, requireNonNegativeInteger, requireNumberInRange } from './errors.ts';
-import { LIMITS } from './limits.ts';
+import { SlabMathError, requireNonNegativeInteger, requireNumberInRange } from "./errors.ts";
+import { LIMITS } from "./limits.ts";
 
 /** Basis points in 100 %. */
 export const BASIS_POINTS_PER_WHOLE = 10_000;
@@ -49,18 +49,18 @@ export interface FeeBreakdown {
  * @throws SlabMathError on non-integer or negative money, bps outside 0–10 000, or fees above the subtotal.
  */
 export function feeBreakdown(subtotalMinor: number, settings: FeeSettings): FeeBreakdown {
-  const subtotal = requireNonNegativeInteger(subtotalMinor, 'subtotalMinor');
-  const platformBps = requireNonNegativeInteger(settings.platformFeeBps, 'platformFeeBps', BASIS_POINTS_PER_WHOLE);
-  const processingBps = requireNonNegativeInteger(settings.processingFeeBps, 'processingFeeBps', BASIS_POINTS_PER_WHOLE);
-  const fixed = requireNonNegativeInteger(settings.processingFixedMinor, 'processingFixedMinor');
+  const subtotal = requireNonNegativeInteger(subtotalMinor, "subtotalMinor");
+  const platformBps = requireNonNegativeInteger(settings.platformFeeBps, "platformFeeBps", BASIS_POINTS_PER_WHOLE);
+  const processingBps = requireNonNegativeInteger(settings.processingFeeBps, "processingFeeBps", BASIS_POINTS_PER_WHOLE);
+  const fixed = requireNonNegativeInteger(settings.processingFixedMinor, "processingFixedMinor");
   const whole = BigInt(BASIS_POINTS_PER_WHOLE);
   const platformFee = Number(divideRoundHalfUp(BigInt(subtotal) * BigInt(platformBps), whole));
   const processingFee = Number(divideRoundHalfUp(BigInt(subtotal) * BigInt(processingBps), whole)) + fixed;
   const net = subtotal - platformFee - processingFee;
   if (net < 0) {
     throw new SlabMathError(
-      'fees_exceed_subtotal',
-      'subtotalMinor',
+      "fees_exceed_subtotal",
+      "subtotalMinor",
       `subtotalMinor ${subtotal} is smaller than its fees (${platformFee} platform + ${processingFee} processing)`,
     );
   }
@@ -68,7 +68,7 @@ export function feeBreakdown(subtotalMinor: number, settings: FeeSettings): FeeB
 }
 
 /** How a slab is priced. */
-export type PriceMode = 'per_board_foot' | 'per_cubic_metre' | 'fixed';
+export type PriceMode = "per_board_foot" | "per_cubic_metre" | "fixed";
 
 /** Input of {@link slabPrice}. */
 export interface SlabPriceInput {
@@ -97,33 +97,33 @@ export interface SlabPrice {
  * @throws SlabMathError on non-integer or negative rates, missing or invalid quantities.
  */
 export function slabPrice(input: SlabPriceInput): SlabPrice {
-  const rate = requireNonNegativeInteger(input.rateMinor, 'rateMinor');
+  const rate = requireNonNegativeInteger(input.rateMinor, "rateMinor");
   let quantity: number;
   switch (input.mode) {
-    case 'fixed':
-      return { priceMinor: rate, mode: 'fixed', quantity: 1 };
-    case 'per_board_foot':
+    case "fixed":
+      return { priceMinor: rate, mode: "fixed", quantity: 1 };
+    case "per_board_foot":
       if (input.boardFeet === undefined) {
-        throw new SlabMathError('missing_input', 'boardFeet', 'boardFeet is needed to price per board foot');
+        throw new SlabMathError("missing_input", "boardFeet", "boardFeet is needed to price per board foot");
       }
-      quantity = requireNumberInRange(input.boardFeet, 'boardFeet', 0, LIMITS.maximumVolumeM3 / 0.002359737216, 'bf');
+      quantity = requireNumberInRange(input.boardFeet, "boardFeet", 0, LIMITS.maximumVolumeM3 / 0.002359737216, "bf");
       break;
-    case 'per_cubic_metre':
+    case "per_cubic_metre":
       if (input.volumeM3 === undefined) {
-        throw new SlabMathError('missing_input', 'volumeM3', 'volumeM3 is needed to price per cubic metre');
+        throw new SlabMathError("missing_input", "volumeM3", "volumeM3 is needed to price per cubic metre");
       }
-      quantity = requireNumberInRange(input.volumeM3, 'volumeM3', 0, LIMITS.maximumVolumeM3, 'm³');
+      quantity = requireNumberInRange(input.volumeM3, "volumeM3", 0, LIMITS.maximumVolumeM3, "m³");
       break;
     default:
       throw new SlabMathError(
-        'invalid_format',
-        'mode',
+        "invalid_format",
+        "mode",
         `mode must be per_board_foot, per_cubic_metre or fixed, got ${String((input as { mode: unknown }).mode)}`,
       );
   }
   const priceMinor = roundHalfUp(rate * quantity);
   if (!Number.isSafeInteger(priceMinor)) {
-    throw new SlabMathError('out_of_range', 'rateMinor', 'rateMinor × quantity is too large to price');
+    throw new SlabMathError("out_of_range", "rateMinor", "rateMinor × quantity is too large to price");
   }
   return { priceMinor, mode: input.mode, quantity };
 }
@@ -139,11 +139,13 @@ export function slabPrice(input: SlabPriceInput): SlabPrice {
 export function refundShares<K extends string>(parts: Record<K, number>, refundMinor: number): Record<K, number> {
   const keys = Object.keys(parts) as K[];
   for (const key of keys) {
-    if (!Number.isSafeInteger(parts[key]) || parts[key] < 0) throw new SlabMathError('not_integer', key, `${key} must be a whole, non-negative number of minor units`);
+    if (!Number.isSafeInteger(parts[key]) || parts[key] < 0)
+      throw new SlabMathError("not_integer", key, `${key} must be a whole, non-negative number of minor units`);
   }
   const total = keys.reduce((sum, key) => sum + parts[key], 0);
-  if (!Number.isSafeInteger(refundMinor) || refundMinor < 0) throw new SlabMathError('not_integer', 'refundMinor', 'The refund must be a whole, non-negative number of minor units');
-  if (refundMinor > total) throw new SlabMathError('out_of_range', 'refundMinor', 'The refund cannot be more than was paid');
+  if (!Number.isSafeInteger(refundMinor) || refundMinor < 0)
+    throw new SlabMathError("not_integer", "refundMinor", "The refund must be a whole, non-negative number of minor units");
+  if (refundMinor > total) throw new SlabMathError("out_of_range", "refundMinor", "The refund cannot be more than was paid");
   const shares = {} as Record<K, number>;
   if (total === 0) {
     for (const key of keys) shares[key] = 0;

@@ -1,7 +1,7 @@
 // Minimal type declarations for the two unit libraries the tests use as outside references
 // (neither package ships its own types). Only the calls the tests make are declared.
 
-declare module 'convert-units' {
+declare module "convert-units" {
   interface Conversion {
     from(unit: string): { to(unit: string): number };
   }
@@ -9,7 +9,7 @@ declare module 'convert-units' {
   export default convert;
 }
 
-declare module 'js-quantities' {
+declare module "js-quantities" {
   interface Quantity {
     readonly scalar: number;
     to(unit: string): Quantity;

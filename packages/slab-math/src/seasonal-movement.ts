@@ -1,14 +1,10 @@
 /**
  * Seasonal movement of a slab's width between two indoor climates.
  */
-import { SlabMathError, requireNumberInRange, requirePositive } from './errors.ts';
-import { LIMITS } from './limits.ts';
-import { speciesBySlug } from './species.ts';
-import {
-  DIMENSIONAL_CHANGE_COEFFICIENT_RANGE,
-  dimensionalChange,
-  equilibriumMoistureContent,
-} from './wood-physics.ts';
+import { SlabMathError, requireNumberInRange, requirePositive } from "./errors.ts";
+import { LIMITS } from "./limits.ts";
+import { speciesBySlug } from "./species.ts";
+import { DIMENSIONAL_CHANGE_COEFFICIENT_RANGE, dimensionalChange, equilibriumMoistureContent } from "./wood-physics.ts";
 
 /** An indoor climate. */
 export interface IndoorClimate {
@@ -29,9 +25,9 @@ export type SeasonalMovementInput = {
 /** Note codes of {@link SeasonalMovement}. */
 export type SeasonalMovementNote =
   /** The tangential coefficient was used: a through-and-through slab is mostly flat-sawn. */
-  | 'tangential_coefficient_used'
+  | "tangential_coefficient_used"
   /** An EMC lies outside 6–14 %, where the handbook coefficients were fitted: an estimate. */
-  | 'outside_coefficient_range';
+  | "outside_coefficient_range";
 
 /** Result of {@link seasonalMovement}. */
 export interface SeasonalMovement {
@@ -52,24 +48,24 @@ export interface SeasonalMovement {
  * the honest (larger) figure.
  */
 export function seasonalMovement(input: SeasonalMovementInput): SeasonalMovement {
-  const width = requirePositive(input.widthMm, 'widthMm', LIMITS.maximumWidthMm, 'mm');
+  const width = requirePositive(input.widthMm, "widthMm", LIMITS.maximumWidthMm, "mm");
   let coefficient: number;
   if (input.speciesSlug !== undefined) {
     coefficient = speciesBySlug(input.speciesSlug).tangentialCoefficient;
   } else if (input.tangentialCoefficient !== undefined) {
-    coefficient = requireNumberInRange(input.tangentialCoefficient, 'tangentialCoefficient', 0, 0.02);
+    coefficient = requireNumberInRange(input.tangentialCoefficient, "tangentialCoefficient", 0, 0.02);
   } else {
-    throw new SlabMathError('missing_input', 'speciesSlug', 'give either speciesSlug or tangentialCoefficient');
+    throw new SlabMathError("missing_input", "speciesSlug", "give either speciesSlug or tangentialCoefficient");
   }
   if (!input.summer || !input.winter) {
-    throw new SlabMathError('missing_input', input.summer ? 'winter' : 'summer', 'give both a summer and a winter climate');
+    throw new SlabMathError("missing_input", input.summer ? "winter" : "summer", "give both a summer and a winter climate");
   }
-  const summerEmcPct = climateEmc(input.summer, 'summer');
-  const winterEmcPct = climateEmc(input.winter, 'winter');
-  const notes: SeasonalMovementNote[] = ['tangential_coefficient_used'];
+  const summerEmcPct = climateEmc(input.summer, "summer");
+  const winterEmcPct = climateEmc(input.winter, "winter");
+  const notes: SeasonalMovementNote[] = ["tangential_coefficient_used"];
   const { minimumPct, maximumPct } = DIMENSIONAL_CHANGE_COEFFICIENT_RANGE;
   if (Math.min(summerEmcPct, winterEmcPct) < minimumPct || Math.max(summerEmcPct, winterEmcPct) > maximumPct) {
-    notes.push('outside_coefficient_range');
+    notes.push("outside_coefficient_range");
   }
   return {
     summerEmcPct,

@@ -2,9 +2,9 @@
  * Shipping estimate: crate, chargeable weight, mode suggestion and cost from the caller's
  * rate table. The package holds no prices; every rule here is common practice, documented.
  */
-import { SlabMathError, requireNonNegativeInteger, requireNumberInRange, requirePositive } from './errors.ts';
-import { LIMITS } from './limits.ts';
-import { NIOSH_LOAD_CONSTANT_KG } from './weight.ts';
+import { SlabMathError, requireNonNegativeInteger, requireNumberInRange, requirePositive } from "./errors.ts";
+import { LIMITS } from "./limits.ts";
+import { NIOSH_LOAD_CONSTANT_KG } from "./weight.ts";
 
 /**
  * Crate rule (common practice): the crate is the slab plus 50 mm on every side
@@ -41,7 +41,7 @@ export interface RateTable {
 }
 
 /** Suggested shipping mode. */
-export type ShippingMode = 'parcel' | 'freight' | 'local_pickup';
+export type ShippingMode = "parcel" | "freight" | "local_pickup";
 
 /** Input of {@link shippingEstimate}. */
 export interface ShippingEstimateInput {
@@ -60,11 +60,7 @@ export interface ShippingEstimateInput {
 
 /** Why the estimate chose as it did. */
 export type ShippingReason =
-  | 'too_heavy_for_parcel'
-  | 'too_long_for_parcel'
-  | 'too_heavy_for_freight'
-  | 'too_long_for_freight'
-  | 'no_rate_for_weight';
+  "too_heavy_for_parcel" | "too_long_for_parcel" | "too_heavy_for_freight" | "too_long_for_freight" | "no_rate_for_weight";
 
 /** Result of {@link shippingEstimate}. */
 export interface ShippingEstimate {
@@ -90,17 +86,21 @@ export interface ShippingEstimate {
  * Cost: the first rate step (sorted by `upToKg`) that covers the chargeable weight.
  */
 export function shippingEstimate(input: ShippingEstimateInput): ShippingEstimate {
-  const length = requirePositive(input.lengthMm, 'lengthMm', LIMITS.maximumLengthMm, 'mm');
-  const width = requirePositive(input.widthMm, 'widthMm', LIMITS.maximumWidthMm, 'mm');
-  const thickness = requirePositive(input.thicknessMm, 'thicknessMm', LIMITS.maximumThicknessMm, 'mm');
-  const slabKg = requirePositive(input.slabKg, 'slabKg', 50_000, 'kg');
-  const divisor = requirePositive(input.dimensionalDivisorCm3PerKg ?? DEFAULT_DIMENSIONAL_DIVISOR_CM3_PER_KG, 'dimensionalDivisorCm3PerKg', 1e6);
+  const length = requirePositive(input.lengthMm, "lengthMm", LIMITS.maximumLengthMm, "mm");
+  const width = requirePositive(input.widthMm, "widthMm", LIMITS.maximumWidthMm, "mm");
+  const thickness = requirePositive(input.thicknessMm, "thicknessMm", LIMITS.maximumThicknessMm, "mm");
+  const slabKg = requirePositive(input.slabKg, "slabKg", 50_000, "kg");
+  const divisor = requirePositive(
+    input.dimensionalDivisorCm3PerKg ?? DEFAULT_DIMENSIONAL_DIVISOR_CM3_PER_KG,
+    "dimensionalDivisorCm3PerKg",
+    1e6,
+  );
   const thresholds = { ...DEFAULT_SHIPPING_THRESHOLDS, ...input.thresholds };
   for (const [name, value] of Object.entries(thresholds)) {
     requireNumberInRange(value, `thresholds.${name}`, 0, 1e7);
   }
-  if (!input.rates || typeof input.rates !== 'object') {
-    throw new SlabMathError('missing_input', 'rates', 'rates is needed: { parcel?: [...], freight?: [...] }');
+  if (!input.rates || typeof input.rates !== "object") {
+    throw new SlabMathError("missing_input", "rates", "rates is needed: { parcel?: [...], freight?: [...] }");
   }
 
   const clearance = 2 * CRATE_RULE.clearancePerSideMm;
@@ -116,22 +116,22 @@ export function shippingEstimate(input: ShippingEstimateInput): ShippingEstimate
   const chargeableKg = Math.max(grossKg, dimensionalKg);
 
   const reasons: ShippingReason[] = [];
-  if (chargeableKg > thresholds.parcelMaximumKg) reasons.push('too_heavy_for_parcel');
-  if (crate.lengthMm > thresholds.parcelMaximumLengthMm) reasons.push('too_long_for_parcel');
-  let mode: ShippingMode = 'parcel';
+  if (chargeableKg > thresholds.parcelMaximumKg) reasons.push("too_heavy_for_parcel");
+  if (crate.lengthMm > thresholds.parcelMaximumLengthMm) reasons.push("too_long_for_parcel");
+  let mode: ShippingMode = "parcel";
   if (reasons.length > 0) {
-    mode = 'freight';
-    if (grossKg > thresholds.freightMaximumKg) reasons.push('too_heavy_for_freight');
-    if (crate.lengthMm > thresholds.freightMaximumLengthMm) reasons.push('too_long_for_freight');
-    if (reasons.includes('too_heavy_for_freight') || reasons.includes('too_long_for_freight')) mode = 'local_pickup';
+    mode = "freight";
+    if (grossKg > thresholds.freightMaximumKg) reasons.push("too_heavy_for_freight");
+    if (crate.lengthMm > thresholds.freightMaximumLengthMm) reasons.push("too_long_for_freight");
+    if (reasons.includes("too_heavy_for_freight") || reasons.includes("too_long_for_freight")) mode = "local_pickup";
   }
 
   let costMinor: number | null = null;
-  if (mode !== 'local_pickup') {
+  if (mode !== "local_pickup") {
     const steps = readSteps(input.rates[mode], `rates.${mode}`);
     const step = steps.find((candidate) => candidate.upToKg >= chargeableKg);
     if (step) costMinor = step.priceMinor;
-    else reasons.push('no_rate_for_weight');
+    else reasons.push("no_rate_for_weight");
   }
   return {
     crate: { ...crate, tareKg },
@@ -148,11 +148,11 @@ export function shippingEstimate(input: ShippingEstimateInput): ShippingEstimate
 function readSteps(steps: readonly RateStep[] | undefined, field: string): RateStep[] {
   if (steps === undefined) return [];
   if (!Array.isArray(steps)) {
-    throw new SlabMathError('missing_input', field, `${field} must be a list of { upToKg, priceMinor }`);
+    throw new SlabMathError("missing_input", field, `${field} must be a list of { upToKg, priceMinor }`);
   }
   return steps
     .map((step, index) => ({
-      upToKg: requirePositive(step?.upToKg, `${field}[${index}].upToKg`, 1e7, 'kg'),
+      upToKg: requirePositive(step?.upToKg, `${field}[${index}].upToKg`, 1e7, "kg"),
       priceMinor: requireNonNegativeInteger(step?.priceMinor, `${field}[${index}].priceMinor`),
     }))
     .sort((a, b) => a.upToKg - b.upToKg);

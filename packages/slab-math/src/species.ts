@@ -14,18 +14,18 @@
  *   North American species, recalled from the named handbook table but not re-checked); such
  *   values are not used as expected values in the tests.
  */
-import { SlabMathError } from './errors.ts';
-import { FIBRE_SATURATION_POINT_PCT } from './wood-physics.ts';
+import { SlabMathError } from "./errors.ts";
+import { FIBRE_SATURATION_POINT_PCT } from "./wood-physics.ts";
 
 /** Names of the numeric values of a {@link Species}. */
 export type SpeciesValueName =
-  | 'basicSpecificGravity'
-  | 'specificGravity12'
-  | 'shrinkageRadialPct'
-  | 'shrinkageTangentialPct'
-  | 'shrinkageVolumetricPct'
-  | 'radialCoefficient'
-  | 'tangentialCoefficient';
+  | "basicSpecificGravity"
+  | "specificGravity12"
+  | "shrinkageRadialPct"
+  | "shrinkageTangentialPct"
+  | "shrinkageVolumetricPct"
+  | "radialCoefficient"
+  | "tangentialCoefficient";
 
 /** Where each group of values came from. */
 export interface SpeciesSources {
@@ -42,9 +42,9 @@ export interface Species {
   /** Other common names (trade names, British names). */
   otherNames: readonly string[];
   botanicalName: string;
-  kind: 'hardwood' | 'softwood';
+  kind: "hardwood" | "softwood";
   /** Where the tree is a common urban tree (native or widely planted). */
-  regions: readonly ('north_america' | 'europe')[];
+  regions: readonly ("north_america" | "europe")[];
   /** Oven-dry mass over green volume. */
   basicSpecificGravity: number;
   /** Oven-dry mass over volume at 12 % MC. */
@@ -65,20 +65,20 @@ export interface Species {
   proxyForSlug?: string;
 }
 
-const SPECIFIC_GRAVITY_TABLE = 'Wood Handbook FPL-GTR-190 Table 5-3a';
-const SHRINKAGE_TABLE = 'Wood Handbook FPL-GTR-190 Table 4-3';
-const COEFFICIENT_TABLE = 'Wood Handbook FPL-GTR-190 Table 13-5';
-const DERIVED_COEFFICIENTS = 'derived from shrinkage ÷ FSP, common practice';
-const HOADLEY_TABLE = 'Hoadley 1998, The Structural Conservation of Panel Paintings (Getty), Table 1, genus average';
-const FROM_MEMORY = 'from memory';
+const SPECIFIC_GRAVITY_TABLE = "Wood Handbook FPL-GTR-190 Table 5-3a";
+const SHRINKAGE_TABLE = "Wood Handbook FPL-GTR-190 Table 4-3";
+const COEFFICIENT_TABLE = "Wood Handbook FPL-GTR-190 Table 13-5";
+const DERIVED_COEFFICIENTS = "derived from shrinkage ÷ FSP, common practice";
+const HOADLEY_TABLE = "Hoadley 1998, The Structural Conservation of Panel Paintings (Getty), Table 1, genus average";
+const FROM_MEMORY = "from memory";
 
 type Row = [
   slug: string,
   commonName: string,
   otherNames: readonly string[],
   botanicalName: string,
-  kind: 'hardwood' | 'softwood',
-  regions: readonly ('north_america' | 'europe')[],
+  kind: "hardwood" | "softwood",
+  regions: readonly ("north_america" | "europe")[],
   basicSpecificGravity: number,
   specificGravity12: number,
   radial: number,
@@ -90,9 +90,9 @@ type Row = [
   fromMemory: readonly SpeciesValueName[],
 ];
 
-const NA: readonly ('north_america' | 'europe')[] = ['north_america'];
-const EU: readonly ('north_america' | 'europe')[] = ['europe'];
-const BOTH: readonly ('north_america' | 'europe')[] = ['north_america', 'europe'];
+const NA: readonly ("north_america" | "europe")[] = ["north_america"];
+const EU: readonly ("north_america" | "europe")[] = ["europe"];
+const BOTH: readonly ("north_america" | "europe")[] = ["north_america", "europe"];
 
 /** North American species: all three handbook tables. */
 const handbook: SpeciesSources = {
@@ -101,9 +101,9 @@ const handbook: SpeciesSources = {
   coefficients: COEFFICIENT_TABLE,
 };
 
-const SG = 'basicSpecificGravity' as const;
-const SG12 = 'specificGravity12' as const;
-const SHRINK = ['shrinkageRadialPct', 'shrinkageTangentialPct', 'shrinkageVolumetricPct'] as const;
+const SG = "basicSpecificGravity" as const;
+const SG12 = "specificGravity12" as const;
+const SHRINK = ["shrinkageRadialPct", "shrinkageTangentialPct", "shrinkageVolumetricPct"] as const;
 
 /** European species: SG from memory, shrinkage from Hoadley, coefficients derived. */
 const european: SpeciesSources = {
@@ -111,7 +111,7 @@ const european: SpeciesSources = {
   shrinkage: `${HOADLEY_TABLE} (radial, tangential); volumetric from memory`,
   coefficients: DERIVED_COEFFICIENTS,
 };
-const EUROPEAN_MEMORY: readonly SpeciesValueName[] = [SG, SG12, 'shrinkageVolumetricPct'];
+const EUROPEAN_MEMORY: readonly SpeciesValueName[] = [SG, SG12, "shrinkageVolumetricPct"];
 
 // prettier-ignore
 const ROWS: readonly Row[] = [
@@ -149,10 +149,26 @@ const ROWS: readonly Row[] = [
   ['eastern-red-cedar', 'Eastern red cedar', ['eastern redcedar', 'aromatic cedar'], 'Juniperus virginiana', 'softwood', NA, 0.44, 0.47, 3.1, 4.7, 7.8, null, null, { ...handbook, coefficients: DERIVED_COEFFICIENTS }, [SG, SG12]],
 ];
 
-const LONDON_PLANE_SOURCE = 'assumed equal to American sycamore (same genus, Platanus): no published values found';
+const LONDON_PLANE_SOURCE = "assumed equal to American sycamore (same genus, Platanus): no published values found";
 
 function rowToSpecies(row: Row): Species {
-  const [slug, commonName, otherNames, botanicalName, kind, regions, basic, twelve, radial, tangential, volumetric, cr, ct, sources, fromMemory] = row;
+  const [
+    slug,
+    commonName,
+    otherNames,
+    botanicalName,
+    kind,
+    regions,
+    basic,
+    twelve,
+    radial,
+    tangential,
+    volumetric,
+    cr,
+    ct,
+    sources,
+    fromMemory,
+  ] = row;
   // Where the handbook publishes no coefficient: shrinkage (green → oven-dry) spread evenly over
   // the moisture range below fibre saturation, C ≈ S / (100 · FSP) per % MC (common practice).
   const radialCoefficient = cr ?? Math.round((radial / 100 / FIBRE_SATURATION_POINT_PCT) * 1e5) / 1e5;
@@ -179,7 +195,7 @@ function rowToSpecies(row: Row): Species {
 
 function buildCatalogue(): readonly Species[] {
   const list = ROWS.map(rowToSpecies);
-  const sycamore = list.find((entry) => entry.slug === 'american-sycamore')!;
+  const sycamore = list.find((entry) => entry.slug === "american-sycamore")!;
   const londonPlaneSources = {
     specificGravity: LONDON_PLANE_SOURCE,
     shrinkage: LONDON_PLANE_SOURCE,
@@ -188,18 +204,18 @@ function buildCatalogue(): readonly Species[] {
   list.push(
     Object.freeze({
       ...sycamore,
-      slug: 'london-plane',
-      commonName: 'London plane',
-      otherNames: ['plane', 'lacewood (quartersawn)'],
-      botanicalName: 'Platanus × hispanica (P. × acerifolia)',
+      slug: "london-plane",
+      commonName: "London plane",
+      otherNames: ["plane", "lacewood (quartersawn)"],
+      botanicalName: "Platanus × hispanica (P. × acerifolia)",
       regions: BOTH,
       source: `SG, shrinkage and coefficients: ${LONDON_PLANE_SOURCE}`,
       sources: londonPlaneSources,
       fromMemory: [],
-      proxyForSlug: 'american-sycamore',
+      proxyForSlug: "american-sycamore",
     }),
   );
-  list.sort((a, b) => a.commonName.localeCompare(b.commonName, 'en'));
+  list.sort((a, b) => a.commonName.localeCompare(b.commonName, "en"));
   return Object.freeze(list);
 }
 
@@ -217,10 +233,10 @@ export function findSpeciesBySlug(slug: string): Species | undefined {
  * Looks a species up by slug.
  * @throws SlabMathError('unknown_species') when the slug is not in the catalogue.
  */
-export function speciesBySlug(slug: string, field = 'speciesSlug'): Species {
-  const found = typeof slug === 'string' ? BY_SLUG.get(slug) : undefined;
+export function speciesBySlug(slug: string, field = "speciesSlug"): Species {
+  const found = typeof slug === "string" ? BY_SLUG.get(slug) : undefined;
   if (!found) {
-    throw new SlabMathError('unknown_species', field, `${field} "${String(slug)}" is not in the species catalogue`);
+    throw new SlabMathError("unknown_species", field, `${field} "${String(slug)}" is not in the species catalogue`);
   }
   return found;
 }

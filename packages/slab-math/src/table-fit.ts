@@ -2,9 +2,9 @@
  * Does a slab (or a glued set of slabs) yield a finished table top? And how many seats?
  * All allowances here are common practice, not a standard.
  */
-import { SlabMathError, requireNumberInRange, requirePositive } from './errors.ts';
-import { minimumWidthBetween, slabGeometry } from './geometry.ts';
-import { LIMITS } from './limits.ts';
+import { SlabMathError, requireNumberInRange, requirePositive } from "./errors.ts";
+import { minimumWidthBetween, slabGeometry } from "./geometry.ts";
+import { LIMITS } from "./limits.ts";
 
 /** Default thickness lost to flattening cup and twist, mm in total (common practice). */
 export const DEFAULT_FLATTENING_ALLOWANCE_MM = 6;
@@ -30,7 +30,7 @@ export interface TableTop {
   widthMm: number;
   thicknessMm: number;
   /** Keep the live edge, or trim the edges straight (default keep_live_edge). */
-  edge?: 'keep_live_edge' | 'trim_straight';
+  edge?: "keep_live_edge" | "trim_straight";
 }
 
 /** Allowances (defaults above). */
@@ -42,16 +42,16 @@ export interface FitAllowances {
 }
 
 /** Why a top does not fit. */
-export type TableFitReason = 'too_short' | 'too_narrow' | 'too_thin';
+export type TableFitReason = "too_short" | "too_narrow" | "too_thin";
 
 /** Information about how the fit was judged. */
 export type TableFitNote =
   /** Live edge kept: the usable width is the narrowest width over the usable length. */
-  | 'live_edge_uses_minimum_width'
+  | "live_edge_uses_minimum_width"
   /** Trimmed straight: the straight top is no wider than the narrowest width over the usable length. */
-  | 'straight_edges_use_minimum_width'
+  | "straight_edges_use_minimum_width"
   /** Glued set: widths were added side by side, less the jointing allowance. */
-  | 'glued_widths_summed';
+  | "glued_widths_summed";
 
 /** Result of {@link tableFit} and {@link gluedTableFit}. */
 export interface TableFit {
@@ -68,29 +68,29 @@ function readAllowances(allowances: FitAllowances) {
   return {
     flattening: requireNumberInRange(
       allowances.flatteningAllowanceMm ?? DEFAULT_FLATTENING_ALLOWANCE_MM,
-      'flatteningAllowanceMm',
+      "flatteningAllowanceMm",
       0,
       LIMITS.maximumThicknessMm,
-      'mm',
+      "mm",
     ),
-    endTrim: requireNumberInRange(allowances.endTrimMm ?? DEFAULT_END_TRIM_MM, 'endTrimMm', 0, LIMITS.maximumLengthMm / 2, 'mm'),
+    endTrim: requireNumberInRange(allowances.endTrimMm ?? DEFAULT_END_TRIM_MM, "endTrimMm", 0, LIMITS.maximumLengthMm / 2, "mm"),
     jointing: requireNumberInRange(
       allowances.jointingAllowanceMm ?? DEFAULT_JOINTING_ALLOWANCE_MM,
-      'jointingAllowanceMm',
+      "jointingAllowanceMm",
       0,
       LIMITS.maximumWidthMm,
-      'mm',
+      "mm",
     ),
   };
 }
 
 function readTop(top: TableTop) {
-  if (!top) throw new SlabMathError('missing_input', 'top', 'top is needed: { lengthMm, widthMm, thicknessMm }');
+  if (!top) throw new SlabMathError("missing_input", "top", "top is needed: { lengthMm, widthMm, thicknessMm }");
   return {
-    length: requirePositive(top.lengthMm, 'top.lengthMm', LIMITS.maximumLengthMm, 'mm'),
-    width: requirePositive(top.widthMm, 'top.widthMm', LIMITS.maximumWidthMm * 4, 'mm'),
-    thickness: requirePositive(top.thicknessMm, 'top.thicknessMm', LIMITS.maximumThicknessMm, 'mm'),
-    edge: top.edge ?? 'keep_live_edge',
+    length: requirePositive(top.lengthMm, "top.lengthMm", LIMITS.maximumLengthMm, "mm"),
+    width: requirePositive(top.widthMm, "top.widthMm", LIMITS.maximumWidthMm * 4, "mm"),
+    thickness: requirePositive(top.thicknessMm, "top.thicknessMm", LIMITS.maximumThicknessMm, "mm"),
+    edge: top.edge ?? "keep_live_edge",
   };
 }
 
@@ -105,8 +105,7 @@ function usableSlab(slab: SlabDimensions, field: string, endTrim: number, flatte
     throw error;
   }
   const length = slab.lengthMm - 2 * endTrim;
-  const width =
-    length > 0 ? minimumWidthBetween(slab.lengthMm, slab.widthStationsMm, endTrim, slab.lengthMm - endTrim) : 0;
+  const width = length > 0 ? minimumWidthBetween(slab.lengthMm, slab.widthStationsMm, endTrim, slab.lengthMm - endTrim) : 0;
   return { length, width, thickness: slab.thicknessMm - flattening };
 }
 
@@ -119,9 +118,9 @@ function judge(
   const spareWidthMm = usable.width - top.width;
   const spareThicknessMm = usable.thickness - top.thickness;
   const reasons: TableFitReason[] = [];
-  if (spareLengthMm < 0) reasons.push('too_short');
-  if (spareWidthMm < 0) reasons.push('too_narrow');
-  if (spareThicknessMm < 0) reasons.push('too_thin');
+  if (spareLengthMm < 0) reasons.push("too_short");
+  if (spareWidthMm < 0) reasons.push("too_narrow");
+  if (spareThicknessMm < 0) reasons.push("too_thin");
   return { fits: reasons.length === 0, spareLengthMm, spareWidthMm, spareThicknessMm, reasons, notes };
 }
 
@@ -134,8 +133,8 @@ function judge(
 export function tableFit(slab: SlabDimensions, top: TableTop, allowances: FitAllowances = {}): TableFit {
   const { flattening, endTrim } = readAllowances(allowances);
   const wanted = readTop(top);
-  const usable = usableSlab(slab, 'slab', endTrim, flattening);
-  const note: TableFitNote = wanted.edge === 'trim_straight' ? 'straight_edges_use_minimum_width' : 'live_edge_uses_minimum_width';
+  const usable = usableSlab(slab, "slab", endTrim, flattening);
+  const note: TableFitNote = wanted.edge === "trim_straight" ? "straight_edges_use_minimum_width" : "live_edge_uses_minimum_width";
   return judge(usable, wanted, [note]);
 }
 
@@ -147,7 +146,7 @@ export function tableFit(slab: SlabDimensions, top: TableTop, allowances: FitAll
  */
 export function gluedTableFit(slabs: readonly SlabDimensions[], top: TableTop, allowances: FitAllowances = {}): TableFit {
   if (!Array.isArray(slabs) || slabs.length < 1) {
-    throw new SlabMathError('missing_input', 'slabs', 'slabs must list at least one slab');
+    throw new SlabMathError("missing_input", "slabs", "slabs must list at least one slab");
   }
   const { flattening, endTrim, jointing } = readAllowances(allowances);
   const wanted = readTop(top);
@@ -161,9 +160,8 @@ export function gluedTableFit(slabs: readonly SlabDimensions[], top: TableTop, a
     width += usable.width;
   });
   width -= 2 * jointing * (slabs.length - 1);
-  const edgeNote: TableFitNote =
-    wanted.edge === 'trim_straight' ? 'straight_edges_use_minimum_width' : 'live_edge_uses_minimum_width';
-  return judge({ length, width, thickness }, wanted, [edgeNote, 'glued_widths_summed']);
+  const edgeNote: TableFitNote = wanted.edge === "trim_straight" ? "straight_edges_use_minimum_width" : "live_edge_uses_minimum_width";
+  return judge({ length, width, thickness }, wanted, [edgeNote, "glued_widths_summed"]);
 }
 
 /**
@@ -171,8 +169,8 @@ export function gluedTableFit(slabs: readonly SlabDimensions[], top: TableTop, a
  * practice): floor(length / 600) along each long side plus floor(width / 600) at each end.
  */
 export function seatsAbout(lengthMm: number, widthMm: number): number {
-  const length = requirePositive(lengthMm, 'lengthMm', LIMITS.maximumLengthMm, 'mm');
-  const width = requirePositive(widthMm, 'widthMm', LIMITS.maximumWidthMm * 4, 'mm');
+  const length = requirePositive(lengthMm, "lengthMm", LIMITS.maximumLengthMm, "mm");
+  const width = requirePositive(widthMm, "widthMm", LIMITS.maximumWidthMm * 4, "mm");
   const longSide = Math.max(length, width);
   const shortSide = Math.min(length, width);
   return 2 * Math.floor(longSide / EDGE_PER_DINER_MM) + 2 * Math.floor(shortSide / EDGE_PER_DINER_MM);
@@ -184,10 +182,10 @@ export function seatsAbout(lengthMm: number, widthMm: number): number {
  */
 export function topLengthForSeats(seats: number, endSeats = 0): number {
   if (!Number.isInteger(seats) || seats < 1 || seats > 40) {
-    throw new SlabMathError('out_of_range', 'seats', `seats must be a whole number from 1 to 40, got ${seats}`);
+    throw new SlabMathError("out_of_range", "seats", `seats must be a whole number from 1 to 40, got ${seats}`);
   }
   if (!Number.isInteger(endSeats) || endSeats < 0 || endSeats > 2 || endSeats >= seats) {
-    throw new SlabMathError('out_of_range', 'endSeats', `endSeats must be 0, 1 or 2 and fewer than seats, got ${endSeats}`);
+    throw new SlabMathError("out_of_range", "endSeats", `endSeats must be 0, 1 or 2 and fewer than seats, got ${endSeats}`);
   }
   return Math.ceil((seats - endSeats) / 2) * EDGE_PER_DINER_MM;
 }

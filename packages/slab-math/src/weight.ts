@@ -1,10 +1,10 @@
 /**
  * Slab weight from volume, species and moisture content, with handling advice.
  */
-import { SlabMathError, requireNumberInRange, requirePositive } from './errors.ts';
-import { LIMITS } from './limits.ts';
-import { speciesBySlug } from './species.ts';
-import { densityAtMoisture, densityAtMoistureFromShrinkage } from './wood-physics.ts';
+import { SlabMathError, requireNumberInRange, requirePositive } from "./errors.ts";
+import { LIMITS } from "./limits.ts";
+import { speciesBySlug } from "./species.ts";
+import { densityAtMoisture, densityAtMoistureFromShrinkage } from "./wood-physics.ts";
 
 /**
  * Load constant of the revised NIOSH lifting equation (Waters et al. 1993): 23 kg (51 lb),
@@ -19,7 +19,7 @@ export const NIOSH_LOAD_CONSTANT_KG = 23;
 export const DENSITY_VARIATION_FRACTION = 0.1;
 
 /** Handling advice code for a slab of a given weight. */
-export type HandlingAdvice = 'one_person' | 'two_people' | 'mechanical_aid';
+export type HandlingAdvice = "one_person" | "two_people" | "mechanical_aid";
 
 /** Input of {@link slabWeight}: a species slug or a basic specific gravity. */
 export type SlabWeightInput = {
@@ -58,23 +58,19 @@ export interface SlabWeight {
  * The heavy-lift flag and the handling advice are judged on the high end (the safe side).
  */
 export function slabWeight(input: SlabWeightInput): SlabWeight {
-  const volume = requirePositive(input.volumeM3, 'volumeM3', LIMITS.maximumVolumeM3, 'm³');
+  const volume = requirePositive(input.volumeM3, "volumeM3", LIMITS.maximumVolumeM3, "m³");
   const variation =
     input.variationFraction === undefined
       ? DENSITY_VARIATION_FRACTION
-      : requireNumberInRange(input.variationFraction, 'variationFraction', 0, 0.5);
+      : requireNumberInRange(input.variationFraction, "variationFraction", 0, 0.5);
   let density: number;
   if (input.speciesSlug !== undefined) {
     const entry = speciesBySlug(input.speciesSlug);
-    density = densityAtMoistureFromShrinkage(
-      entry.basicSpecificGravity,
-      entry.shrinkageVolumetricPct,
-      input.moistureContentPct,
-    );
+    density = densityAtMoistureFromShrinkage(entry.basicSpecificGravity, entry.shrinkageVolumetricPct, input.moistureContentPct);
   } else if (input.basicSpecificGravity !== undefined) {
     density = densityAtMoisture(input.basicSpecificGravity, input.moistureContentPct);
   } else {
-    throw new SlabMathError('missing_input', 'speciesSlug', 'give either speciesSlug or basicSpecificGravity');
+    throw new SlabMathError("missing_input", "speciesSlug", "give either speciesSlug or basicSpecificGravity");
   }
   const kg = volume * density;
   const highKg = kg * (1 + variation);
@@ -90,8 +86,8 @@ export function slabWeight(input: SlabWeightInput): SlabWeight {
 
 /** Handling advice for a weight in kg (see {@link SlabWeight.handling}). */
 export function handlingAdvice(kilograms: number): HandlingAdvice {
-  requireNumberInRange(kilograms, 'kilograms', 0, 1e7, 'kg');
-  if (kilograms <= NIOSH_LOAD_CONSTANT_KG) return 'one_person';
-  if (kilograms <= 2 * NIOSH_LOAD_CONSTANT_KG) return 'two_people';
-  return 'mechanical_aid';
+  requireNumberInRange(kilograms, "kilograms", 0, 1e7, "kg");
+  if (kilograms <= NIOSH_LOAD_CONSTANT_KG) return "one_person";
+  if (kilograms <= 2 * NIOSH_LOAD_CONSTANT_KG) return "two_people";
+  return "mechanical_aid";
 }

@@ -2,8 +2,8 @@
  * Wood–moisture physics after the USDA Forest Products Laboratory's Wood Handbook
  * (FPL-GTR-190, 2010), chapters 4 and 13, and Simpson (1993, FPL-GTR-76).
  */
-import { SlabMathError, requireNumberInRange } from './errors.ts';
-import { LIMITS } from './limits.ts';
+import { SlabMathError, requireNumberInRange } from "./errors.ts";
+import { LIMITS } from "./limits.ts";
 
 /**
  * Fibre saturation point, % MC. Wood Handbook ch. 4 uses about 30 % as the average;
@@ -35,16 +35,16 @@ const WATER_DENSITY_KG_PER_M3 = 1000;
 export function specificGravityAtMoisture(basicSpecificGravity: number, moistureContentPct: number): number {
   const basic = requireNumberInRange(
     basicSpecificGravity,
-    'basicSpecificGravity',
+    "basicSpecificGravity",
     LIMITS.minimumSpecificGravity,
     LIMITS.maximumSpecificGravity,
   );
   const moisture = requireNumberInRange(
     moistureContentPct,
-    'moistureContentPct',
+    "moistureContentPct",
     LIMITS.minimumMoisturePct,
     LIMITS.maximumMoisturePct,
-    '%',
+    "%",
   );
   if (moisture >= FIBRE_SATURATION_POINT_PCT) return basic;
   const a = (FIBRE_SATURATION_POINT_PCT - moisture) / FIBRE_SATURATION_POINT_PCT;
@@ -59,16 +59,16 @@ export function specificGravityAtMoisture(basicSpecificGravity: number, moisture
 export function densityFromSpecificGravity(specificGravityAtMoistureContent: number, moistureContentPct: number): number {
   const gravity = requireNumberInRange(
     specificGravityAtMoistureContent,
-    'specificGravityAtMoistureContent',
+    "specificGravityAtMoistureContent",
     LIMITS.minimumSpecificGravity,
     1.6,
   );
   const moisture = requireNumberInRange(
     moistureContentPct,
-    'moistureContentPct',
+    "moistureContentPct",
     LIMITS.minimumMoisturePct,
     LIMITS.maximumMoisturePct,
-    '%',
+    "%",
   );
   return WATER_DENSITY_KG_PER_M3 * gravity * (1 + moisture / 100);
 }
@@ -101,20 +101,19 @@ export function densityAtMoistureFromShrinkage(
 ): number {
   const basic = requireNumberInRange(
     basicSpecificGravity,
-    'basicSpecificGravity',
+    "basicSpecificGravity",
     LIMITS.minimumSpecificGravity,
     LIMITS.maximumSpecificGravity,
   );
-  const shrinkage = requireNumberInRange(volumetricShrinkagePct, 'volumetricShrinkagePct', 0, 40, '%');
+  const shrinkage = requireNumberInRange(volumetricShrinkagePct, "volumetricShrinkagePct", 0, 40, "%");
   const moisture = requireNumberInRange(
     moistureContentPct,
-    'moistureContentPct',
+    "moistureContentPct",
     LIMITS.minimumMoisturePct,
     LIMITS.maximumMoisturePct,
-    '%',
+    "%",
   );
-  const shrinkageToMoisture =
-    moisture >= FIBRE_SATURATION_POINT_PCT ? 0 : shrinkage * (1 - moisture / FIBRE_SATURATION_POINT_PCT);
+  const shrinkageToMoisture = moisture >= FIBRE_SATURATION_POINT_PCT ? 0 : shrinkage * (1 - moisture / FIBRE_SATURATION_POINT_PCT);
   return WATER_DENSITY_KG_PER_M3 * (basic / (1 - shrinkageToMoisture / 100)) * (1 + moisture / 100);
 }
 
@@ -131,14 +130,8 @@ export function densityAtMoistureFromShrinkage(
  * @param relativeHumidityPct relative humidity, % (0–100)
  */
 export function equilibriumMoistureContent(temperatureC: number, relativeHumidityPct: number): number {
-  const celsius = requireNumberInRange(
-    temperatureC,
-    'temperatureC',
-    LIMITS.minimumTemperatureC,
-    LIMITS.maximumTemperatureC,
-    '°C',
-  );
-  const humidity = requireNumberInRange(relativeHumidityPct, 'relativeHumidityPct', 0, 100, '%') / 100;
+  const celsius = requireNumberInRange(temperatureC, "temperatureC", LIMITS.minimumTemperatureC, LIMITS.maximumTemperatureC, "°C");
+  const humidity = requireNumberInRange(relativeHumidityPct, "relativeHumidityPct", 0, 100, "%") / 100;
   const t = celsius * 1.8 + 32;
   const w = 330 + 0.452 * t + 0.00415 * t * t;
   const k = 0.791 + 0.000463 * t - 0.000000844 * t * t;
@@ -162,18 +155,13 @@ export function equilibriumMoistureContent(temperatureC: number, relativeHumidit
  * @param toMoisturePct final moisture content, %
  * @param coefficient dimensional change coefficient, fraction per % MC (e.g. 0.00274)
  */
-export function dimensionalChange(
-  dimensionMm: number,
-  fromMoisturePct: number,
-  toMoisturePct: number,
-  coefficient: number,
-): number {
-  const dimension = requireNumberInRange(dimensionMm, 'dimensionMm', 0, LIMITS.maximumLengthMm, 'mm');
-  const from = requireNumberInRange(fromMoisturePct, 'fromMoisturePct', 0, LIMITS.maximumMoisturePct, '%');
-  const to = requireNumberInRange(toMoisturePct, 'toMoisturePct', 0, LIMITS.maximumMoisturePct, '%');
-  const perPercent = requireNumberInRange(coefficient, 'coefficient', 0, 0.02);
+export function dimensionalChange(dimensionMm: number, fromMoisturePct: number, toMoisturePct: number, coefficient: number): number {
+  const dimension = requireNumberInRange(dimensionMm, "dimensionMm", 0, LIMITS.maximumLengthMm, "mm");
+  const from = requireNumberInRange(fromMoisturePct, "fromMoisturePct", 0, LIMITS.maximumMoisturePct, "%");
+  const to = requireNumberInRange(toMoisturePct, "toMoisturePct", 0, LIMITS.maximumMoisturePct, "%");
+  const perPercent = requireNumberInRange(coefficient, "coefficient", 0, 0.02);
   if (perPercent === 0) {
-    throw new SlabMathError('out_of_range', 'coefficient', 'coefficient must be greater than 0 (e.g. 0.00274 per % MC)');
+    throw new SlabMathError("out_of_range", "coefficient", "coefficient must be greater than 0 (e.g. 0.00274 per % MC)");
   }
   const clampedFrom = Math.min(from, FIBRE_SATURATION_POINT_PCT);
   const clampedTo = Math.min(to, FIBRE_SATURATION_POINT_PCT);

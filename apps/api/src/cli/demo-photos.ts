@@ -16,7 +16,11 @@ export function demoPhotoOptions(dataSource: DataSource, config: AppConfig) {
   };
 }
 
-export async function withDemoPhotos<T>(dataSource: DataSource, config: AppConfig, work: (options: ReturnType<typeof demoPhotoOptions>) => Promise<T>): Promise<T> {
+export async function withDemoPhotos<T>(
+  dataSource: DataSource,
+  config: AppConfig,
+  work: (options: ReturnType<typeof demoPhotoOptions>) => Promise<T>,
+): Promise<T> {
   const options = demoPhotoOptions(dataSource, config);
   try {
     return await work(options);

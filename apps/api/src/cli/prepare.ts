@@ -11,5 +11,9 @@ await runCli("prepare", async (dataSource, config) => {
   const { logs } = seed ? await withDemoPhotos(dataSource, config, (options) => seedLakemontYards(dataSource, options)) : { logs: 0 };
   console.log(`prepare: ${applied.length} migration(s) applied, ${created} demo account(s) and ${logs} demo log(s) added`);
   // The last line lists the demo accounts for the start banner.
-  console.log(JSON.stringify(demoAccounts.map(({ role, email, password, displayName, yardName }) => ({ role, email, password, name: yardName ?? displayName }))));
+  console.log(
+    JSON.stringify(
+      demoAccounts.map(({ role, email, password, displayName, yardName }) => ({ role, email, password, name: yardName ?? displayName })),
+    ),
+  );
 });

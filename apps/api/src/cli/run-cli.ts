@@ -13,7 +13,10 @@ export async function runCli(name: string, command: (dataSource: DataSource, con
     try {
       await dataSource.initialize();
     } catch (error) {
-      throw new Error(`cannot reach MariaDB at ${config.database.host}:${config.database.port} (${(error as Error).message}). Is Grainyard started (npm start)?`);
+      throw new Error(
+        `cannot reach MariaDB at ${config.database.host}:${config.database.port} (${(error as Error).message}). Is Grainyard started (npm start)?`,
+        { cause: error },
+      );
     }
     await command(dataSource, config);
   } catch (error) {

@@ -19,7 +19,10 @@ describe("lock conflicts", () => {
     await b.startTransaction();
     await a.query("UPDATE lock_probe SET n = n + 1 WHERE id = 1");
     await b.query("UPDATE lock_probe SET n = n + 1 WHERE id = 2");
-    const outcomes = await Promise.allSettled([a.query("UPDATE lock_probe SET n = n + 1 WHERE id = 2"), b.query("UPDATE lock_probe SET n = n + 1 WHERE id = 1")]);
+    const outcomes = await Promise.allSettled([
+      a.query("UPDATE lock_probe SET n = n + 1 WHERE id = 2"),
+      b.query("UPDATE lock_probe SET n = n + 1 WHERE id = 1"),
+    ]);
     const failed = outcomes.filter((o): o is PromiseRejectedResult => o.status === "rejected");
     expect(failed).toHaveLength(1);
     expect(isLockConflict(failed[0]!.reason)).toBe(true);

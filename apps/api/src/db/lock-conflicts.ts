@@ -3,7 +3,9 @@
  * errno 1213) or a lock wait that timed out (errno 1205). Either way the statement did nothing.
  */
 export function isLockConflict(error: unknown): boolean {
-  const errno = (error as { errno?: number; driverError?: { errno?: number } } | null)?.errno ?? (error as { driverError?: { errno?: number } } | null)?.driverError?.errno;
+  const errno =
+    (error as { errno?: number; driverError?: { errno?: number } } | null)?.errno ??
+    (error as { driverError?: { errno?: number } } | null)?.driverError?.errno;
   return errno === 1213 || errno === 1205;
 }
 

@@ -16,7 +16,12 @@ let dataSource: DataSource;
 
 beforeAll(async () => {
   const config = loadConfig({ ...stackEnvironment(), DATABASE_NAME: database });
-  const server = await mysql.createConnection({ host: config.database.host, port: config.database.port, user: config.database.user, password: config.database.password });
+  const server = await mysql.createConnection({
+    host: config.database.host,
+    port: config.database.port,
+    user: config.database.user,
+    password: config.database.password,
+  });
   await server.query(`CREATE DATABASE \`${database}\``);
   await server.end();
   dataSource = createDataSource(config.database);
@@ -34,7 +39,36 @@ describe("migrations", () => {
     await dataSource.runMigrations({ transaction: "each" });
     const pending = await dataSource.driver.createSchemaBuilder().log();
     expect(pending.upQueries.map((q) => q.query)).toEqual([]);
-    expect(await tables()).toEqual(["account", "audit_entry", "buyer_order", "catalogue_entry", "content_report", "email_token", "favourite", "ledger_entry", "listing", "listing_photo", "listing_review", "listing_slab", "log_photo", "marketplace_setting", "message", "message_thread", "moisture_reading", "order_refund", "payment_event", "payout", "payout_account", "payout_line", "saved_search", "saved_search_match", "schema_migration", "session_record", "slab", "yard_log"]);
+    expect(await tables()).toEqual([
+      "account",
+      "audit_entry",
+      "buyer_order",
+      "catalogue_entry",
+      "content_report",
+      "email_token",
+      "favourite",
+      "ledger_entry",
+      "listing",
+      "listing_photo",
+      "listing_review",
+      "listing_slab",
+      "log_photo",
+      "marketplace_setting",
+      "message",
+      "message_thread",
+      "moisture_reading",
+      "order_refund",
+      "payment_event",
+      "payout",
+      "payout_account",
+      "payout_line",
+      "saved_search",
+      "saved_search_match",
+      "schema_migration",
+      "session_record",
+      "slab",
+      "yard_log",
+    ]);
   });
 
   it("revert cleanly with down, and apply again", async () => {

@@ -2,8 +2,24 @@ import { Column, Entity, Index, PrimaryColumn } from "typeorm";
 
 /** Every column a search can filter on (property names); the sawyer stands for the yard's position. */
 const FILTERED = [
-  "speciesSlug", "lengthMm", "averageWidthMm", "minWidthMm", "thicknessMm", "moisturePct", "ready", "priceMinor", "liveEdge",
-  "featureBits", "setKind", "freight", "latitude", "longitude", "usableLengthMm", "usableWidthMm", "usableThicknessMm", "sawyerId",
+  "speciesSlug",
+  "lengthMm",
+  "averageWidthMm",
+  "minWidthMm",
+  "thicknessMm",
+  "moisturePct",
+  "ready",
+  "priceMinor",
+  "liveEdge",
+  "featureBits",
+  "setKind",
+  "freight",
+  "latitude",
+  "longitude",
+  "usableLengthMm",
+  "usableWidthMm",
+  "usableThicknessMm",
+  "sawyerId",
 ];
 /** A covering index for one sort order: the sort key, the id (the keyset tie-break), then every filtered column. */
 const sortIndex = (sortKey: string) => [sortKey, "listingId", ...FILTERED.filter((column) => column !== sortKey)];

@@ -1,7 +1,7 @@
+import type { reportStatuses } from "@grainyard/contracts";
 import { Column, Entity, Index, PrimaryColumn } from "typeorm";
 
 export const reportTargets = ["listing", "message"] as const;
-export const reportStatuses = ["open", "dismissed", "listing_taken_down", "user_suspended"] as const;
 export type ReportStatus = (typeof reportStatuses)[number];
 
 /** Someone signed in told the admin that a listing or a message is wrong. */

@@ -10,8 +10,33 @@ import { SessionRecordEntity } from "./session-record.ts";
 import { SlabEntity } from "./slab.ts";
 import { YardLogEntity } from "./yard-log.ts";
 
-export { AccountEntity, CatalogueEntryEntity, LogPhotoEntity, EmailTokenEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SessionRecordEntity, SlabEntity, YardLogEntity };
-export const entities: Function[] = [AccountEntity, SessionRecordEntity, EmailTokenEntity, YardLogEntity, SlabEntity, MoistureReadingEntity, ListingEntity, ListingSlabEntity, ListingPhotoEntity, CatalogueEntryEntity, LogPhotoEntity];
+export {
+  AccountEntity,
+  CatalogueEntryEntity,
+  LogPhotoEntity,
+  EmailTokenEntity,
+  ListingEntity,
+  ListingPhotoEntity,
+  ListingSlabEntity,
+  MoistureReadingEntity,
+  SessionRecordEntity,
+  SlabEntity,
+  YardLogEntity,
+};
+/** Every entity class, for the data source. */
+export const entities: (new () => object)[] = [
+  AccountEntity,
+  SessionRecordEntity,
+  EmailTokenEntity,
+  YardLogEntity,
+  SlabEntity,
+  MoistureReadingEntity,
+  ListingEntity,
+  ListingSlabEntity,
+  ListingPhotoEntity,
+  CatalogueEntryEntity,
+  LogPhotoEntity,
+];
 
 // Orders, the ledger and handled provider events.
 import { LedgerEntryEntity } from "./ledger-entry.ts";

@@ -1,7 +1,8 @@
+import type { reviewDecisionSchema } from "@grainyard/contracts";
+import type { z } from "zod";
 import { Column, Entity, Index, PrimaryColumn } from "typeorm";
 
-export const reviewDecisions = ["approved", "sent_back", "rejected"] as const;
-export type ReviewDecision = (typeof reviewDecisions)[number];
+export type ReviewDecision = z.infer<typeof reviewDecisionSchema>;
 
 /**
  * One decision on a submitted listing, with a snapshot of what the reviewer saw, so the next

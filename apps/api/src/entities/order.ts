@@ -1,9 +1,9 @@
+import type { orderStatusLabels } from "@grainyard/contracts";
 import { Column, CreateDateColumn, Entity, Index, PrimaryColumn, UpdateDateColumn } from "typeorm";
 
 const money = { to: (v: number) => v, from: (v: string | number) => Number(v) };
 
-export const orderStatuses = ["awaiting_payment", "paid", "ready_for_pickup", "shipped", "handed_over", "completed", "cancelled", "payment_failed", "expired", "refunded"] as const;
-export type OrderStatus = (typeof orderStatuses)[number];
+export type OrderStatus = keyof typeof orderStatusLabels;
 
 /**
  * A buyer's order for one listing. Everything the buyer agreed to — the slabs' figures, the price,
@@ -141,6 +141,12 @@ export class OrderEntity {
   @CreateDateColumn({ name: "created_at", type: "datetime", precision: 3, default: () => "CURRENT_TIMESTAMP(3)" })
   createdAt: Date;
 
-  @UpdateDateColumn({ name: "updated_at", type: "datetime", precision: 3, default: () => "CURRENT_TIMESTAMP(3)", onUpdate: "CURRENT_TIMESTAMP(3)" })
+  @UpdateDateColumn({
+    name: "updated_at",
+    type: "datetime",
+    precision: 3,
+    default: () => "CURRENT_TIMESTAMP(3)",
+    onUpdate: "CURRENT_TIMESTAMP(3)",
+  })
   updatedAt: Date;
 }

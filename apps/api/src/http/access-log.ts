@@ -32,7 +32,11 @@ export function accessLog(logger: Logger): RequestHandler {
       const level = !finished || res.statusCode >= 500 ? "error" : res.statusCode >= 400 ? "warn" : "info";
       if (!logger.isLevelEnabled(level)) return;
       logger[level](
-        { req: { id, method: req.method, url: req.originalUrl }, res: { statusCode: res.statusCode }, responseTime: Math.round(performance.now() - started) },
+        {
+          req: { id, method: req.method, url: req.originalUrl },
+          res: { statusCode: res.statusCode },
+          responseTime: Math.round(performance.now() - started),
+        },
         finished ? "request completed" : "request aborted",
       );
     });

@@ -13,7 +13,8 @@ const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
  */
 export const requireCsrfToken: RequestHandler = (req, _res, next) => {
   if (SAFE_METHODS.has(req.method)) return next();
-  if (req.get("sec-fetch-site") === "cross-site") return next(new Forbidden("Requests from other sites are not accepted.", "csrf_rejected"));
+  if (req.get("sec-fetch-site") === "cross-site")
+    return next(new Forbidden("Requests from other sites are not accepted.", "csrf_rejected"));
   const expected = sessionOf(req).csrf;
   const sent = req.get(CSRF_HEADER);
   if (!expected || !sent || !sameToken(expected, sent)) {

@@ -4,29 +4,42 @@ import type { Logger } from "../logger.ts";
 
 /** Unknown API routes answer JSON, never the web app's HTML. */
 export const apiNotFound: RequestHandler = (req, res) => {
-  res.status(404).json({ error: { code: "not_found", message: `There is no ${req.method} ${req.originalUrl.split("?")[0]} in the Grainyard API.` } });
+  res
+    .status(404)
+    .json({ error: { code: "not_found", message: `There is no ${req.method} ${req.originalUrl.split("?")[0]} in the Grainyard API.` } });
 };
 
 /** Maps every error to `{ error: { code, message, fields? } }`; internals never leave the server (they go to the log). */
-export const errorHandler = (logger: Logger): ErrorRequestHandler => (error, req, res, _next) => {
-  if (error instanceof AppError) {
-    res.status(error.status).json({ error: { ...error.details, code: error.code, message: error.message, ...(error.fields ? { fields: error.fields } : {}) } });
-    return;
-  }
-  const bodyError = error as { type?: string; status?: number };
-  if (bodyError.type === "entity.parse.failed") {
-    res.status(400).json({ error: { code: "malformed_request", message: "The request body is not valid JSON." } });
-    return;
-  }
-  if (bodyError.type === "entity.too.large") {
-    const photo = req.path.endsWith("/photos");
-    res.status(413).json({ error: { code: photo ? "too_large_file" : "too_large", message: photo ? "That photo is larger than 25 MB. Take it at a lower resolution or pick another." : "The request body is too large." } });
-    return;
-  }
-  if (typeof bodyError.status === "number" && bodyError.status >= 400 && bodyError.status < 500) {
-    res.status(bodyError.status).json({ error: { code: "malformed_request", message: "The request could not be read." } });
-    return;
-  }
-  logger.error({ err: error, req: { id: req.id, method: req.method, url: req.originalUrl } }, "unhandled error");
-  res.status(500).json({ error: { code: "internal", message: "Something went wrong on our side. Please try again in a moment." } });
-};
+export const errorHandler =
+  (logger: Logger): ErrorRequestHandler =>
+  (error, req, res, _next) => {
+    if (error instanceof AppError) {
+      res
+        .status(error.status)
+        .json({ error: { ...error.details, code: error.code, message: error.message, ...(error.fields ? { fields: error.fields } : {}) } });
+      return;
+    }
+    const bodyError = error as { type?: string; status?: number };
+    if (bodyError.type === "entity.parse.failed") {
+      res.status(400).json({ error: { code: "malformed_request", message: "The request body is not valid JSON." } });
+      return;
+    }
+    if (bodyError.type === "entity.too.large") {
+      const photo = req.path.endsWith("/photos");
+      res.status(413).json({
+        error: {
+          code: photo ? "too_large_file" : "too_large",
+          message: photo
+            ? "That photo is larger than 25 MB. Take it at a lower resolution or pick another."
+            : "The request body is too large.",
+        },
+      });
+      return;
+    }
+    if (typeof bodyError.status === "number" && bodyError.status >= 400 && bodyError.status < 500) {
+      res.status(bodyError.status).json({ error: { code: "malformed_request", message: "The request could not be read." } });
+      return;
+    }
+    logger.error({ err: error, req: { id: req.id, method: req.method, url: req.originalUrl } }, "unhandled error");
+    res.status(500).json({ error: { code: "internal", message: "Something went wrong on our side. Please try again in a moment." } });
+  };

@@ -17,12 +17,40 @@ export function createRateLimits(limits: AppConfig["limits"]) {
   const signInMessage = "Too many sign-in attempts. Wait 15 minutes and try again, or reset your password.";
   const resetMessage = "Too many reset requests. Wait a while before asking again.";
   const signIn: RequestHandler[] = [
-    rateLimit({ windowMs: limits.windowMs, limit: limits.signInPerIp, skipSuccessfulRequests: true, standardHeaders: "draft-8", legacyHeaders: false, handler: limited(signInMessage) }),
-    rateLimit({ windowMs: limits.windowMs, limit: limits.signInPerAccount, skipSuccessfulRequests: true, standardHeaders: "draft-8", legacyHeaders: false, keyGenerator: emailKey, handler: limited(signInMessage) }),
+    rateLimit({
+      windowMs: limits.windowMs,
+      limit: limits.signInPerIp,
+      skipSuccessfulRequests: true,
+      standardHeaders: "draft-8",
+      legacyHeaders: false,
+      handler: limited(signInMessage),
+    }),
+    rateLimit({
+      windowMs: limits.windowMs,
+      limit: limits.signInPerAccount,
+      skipSuccessfulRequests: true,
+      standardHeaders: "draft-8",
+      legacyHeaders: false,
+      keyGenerator: emailKey,
+      handler: limited(signInMessage),
+    }),
   ];
   const passwordReset: RequestHandler[] = [
-    rateLimit({ windowMs: limits.windowMs, limit: limits.resetPerIp, standardHeaders: "draft-8", legacyHeaders: false, handler: limited(resetMessage) }),
-    rateLimit({ windowMs: 60 * 60 * 1000, limit: limits.resetPerAccount, standardHeaders: "draft-8", legacyHeaders: false, keyGenerator: emailKey, handler: limited(resetMessage) }),
+    rateLimit({
+      windowMs: limits.windowMs,
+      limit: limits.resetPerIp,
+      standardHeaders: "draft-8",
+      legacyHeaders: false,
+      handler: limited(resetMessage),
+    }),
+    rateLimit({
+      windowMs: 60 * 60 * 1000,
+      limit: limits.resetPerAccount,
+      standardHeaders: "draft-8",
+      legacyHeaders: false,
+      keyGenerator: emailKey,
+      handler: limited(resetMessage),
+    }),
   ];
   return { signIn, passwordReset };
 }

@@ -24,7 +24,9 @@ async function rawGet(path: string, headers: Record<string, string>) {
   await once(server, "listening");
   try {
     const { port } = server.address() as AddressInfo;
-    const response = await new Promise<IncomingMessage>((resolve, reject) => get({ host: "127.0.0.1", port, path, headers }, resolve).on("error", reject));
+    const response = await new Promise<IncomingMessage>((resolve, reject) =>
+      get({ host: "127.0.0.1", port, path, headers }, resolve).on("error", reject),
+    );
     const chunks: Buffer[] = [];
     for await (const chunk of response) chunks.push(chunk as Buffer);
     return { headers: response.headers, body: Buffer.concat(chunks) };
@@ -61,7 +63,7 @@ describe("serving the web app", () => {
   it("serves the page for the app's own routes, never cached", async () => {
     const res = await request(ctx.app).get("/browse?species=white-oak");
     expect(res.status).toBe(200);
-    expect(res.text).toContain('<div id=app>');
+    expect(res.text).toContain("<div id=app>");
     expect(res.headers["cache-control"]).toBe("no-cache");
   });
 

@@ -11,12 +11,8 @@ export class Catalogue1764684000000 implements MigrationInterface {
     await queryRunner.query(
       "CREATE INDEX `idx_catalogue_fit` ON `catalogue_entry` (`usable_length_mm`, `usable_width_mm`, `usable_thickness_mm`)",
     );
-    await queryRunner.query(
-      "ALTER TABLE `account` ADD `pickup_latitude` double NULL",
-    );
-    await queryRunner.query(
-      "ALTER TABLE `account` ADD `pickup_longitude` double NULL",
-    );
+    await queryRunner.query("ALTER TABLE `account` ADD `pickup_latitude` double NULL");
+    await queryRunner.query("ALTER TABLE `account` ADD `pickup_longitude` double NULL");
   }
 
   async down(queryRunner: QueryRunner): Promise<void> {

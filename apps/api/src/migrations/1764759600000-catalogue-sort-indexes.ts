@@ -2,8 +2,23 @@ import type { MigrationInterface, QueryRunner } from "typeorm";
 
 /** Every filtered column as the previous migration indexed them, and now with the sawyer (the yard's position stands for it). */
 const FILTERED_BEFORE = [
-  "species_slug", "length_mm", "average_width_mm", "min_width_mm", "thickness_mm", "moisture_pct", "ready", "price_minor", "live_edge",
-  "feature_bits", "set_kind", "freight", "latitude", "longitude", "usable_length_mm", "usable_width_mm", "usable_thickness_mm",
+  "species_slug",
+  "length_mm",
+  "average_width_mm",
+  "min_width_mm",
+  "thickness_mm",
+  "moisture_pct",
+  "ready",
+  "price_minor",
+  "live_edge",
+  "feature_bits",
+  "set_kind",
+  "freight",
+  "latitude",
+  "longitude",
+  "usable_length_mm",
+  "usable_width_mm",
+  "usable_thickness_mm",
 ];
 const FILTERED = [...FILTERED_BEFORE, "sawyer_id"];
 const SORT_INDEXES: [name: string, sortKey: string][] = [

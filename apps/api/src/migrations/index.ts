@@ -1,10 +1,16 @@
+import type { MigrationInterface } from "typeorm";
 import { Accounts1764662400000 } from "./1764662400000-accounts.ts";
 import { YardAndListings1764673200000 } from "./1764673200000-yard-and-listings.ts";
 import { Catalogue1764684000000 } from "./1764684000000-catalogue.ts";
 import { LogPhotos1764694800000 } from "./1764694800000-log-photos.ts";
 
 /** Every migration, oldest first. Add new ones at the end (see DEVELOPERS.md). */
-export const migrations: Function[] = [Accounts1764662400000, YardAndListings1764673200000, Catalogue1764684000000, LogPhotos1764694800000];
+export const migrations: (new () => MigrationInterface)[] = [
+  Accounts1764662400000,
+  YardAndListings1764673200000,
+  Catalogue1764684000000,
+  LogPhotos1764694800000,
+];
 
 // Orders and the ledger.
 import { Orders1764716400000 } from "./1764716400000-orders.ts";

@@ -26,7 +26,9 @@ const BLUE = { r: 20, g: 20, b: 220 };
 /** Stored (not displayed) pixels: left half red, right half blue. */
 async function redLeftBlueRight(width: number, height: number) {
   const half = Math.floor(width / 2);
-  const left = await sharp({ create: { width: half, height, channels: 3, background: RED } }).png().toBuffer();
+  const left = await sharp({ create: { width: half, height, channels: 3, background: RED } })
+    .png()
+    .toBuffer();
   return sharp({ create: { width, height, channels: 3, background: BLUE } }).composite([{ input: left, left: 0, top: 0 }]);
 }
 
@@ -60,9 +62,14 @@ function withIptcSegment(jpeg: Buffer): Buffer {
 
 /** 2000 × 1000 stored, EXIF orientation 6 (shown rotated 90° clockwise: 1000 × 2000), GPS, XMP, IPTC. */
 async function phoneJpegWithLocation(): Promise<Buffer> {
-  const jpeg = await (await redLeftBlueRight(2000, 1000))
+  const jpeg = await (
+    await redLeftBlueRight(2000, 1000)
+  )
     .jpeg({ quality: 90 })
-    .withExif({ IFD0: { Make: "TestPhone", Copyright: "Test Yard" }, IFD3: { GPSLatitudeRef: "N", GPSLatitude: GPS_LATITUDE, GPSLongitudeRef: "W", GPSLongitude: GPS_LONGITUDE } })
+    .withExif({
+      IFD0: { Make: "TestPhone", Copyright: "Test Yard" },
+      IFD3: { GPSLatitudeRef: "N", GPSLatitude: GPS_LATITUDE, GPSLongitudeRef: "W", GPSLongitude: GPS_LONGITUDE },
+    })
     .withMetadata({ orientation: 6 })
     .withXmp(XMP_PACKET)
     .toBuffer();
@@ -117,7 +124,7 @@ async function rejectionOf(work: Promise<unknown>): Promise<PhotoRejected> {
     await work;
   } catch (error) {
     if (error instanceof PhotoRejected) return error;
-    throw new Error(`expected PhotoRejected, got ${String(error)}`);
+    throw new Error(`expected PhotoRejected, got ${String(error)}`, { cause: error });
   }
   throw new Error("expected PhotoRejected, but the photo was accepted");
 }
@@ -134,7 +141,7 @@ function webpChunkIds(bytes: Buffer): string[] {
   expect(bytes.subarray(0, 4).toString("latin1")).toBe("RIFF");
   expect(bytes.subarray(8, 12).toString("latin1")).toBe("WEBP");
   const ids: string[] = [];
-  for (let offset = 12; offset + 8 <= bytes.length; ) {
+  for (let offset = 12; offset + 8 <= bytes.length;) {
     ids.push(bytes.subarray(offset, offset + 4).toString("latin1"));
     const size = bytes.readUInt32LE(offset + 4);
     offset += 8 + size + (size % 2);
@@ -222,7 +229,18 @@ describe("a phone JPEG with orientation, GPS, XMP and IPTC", () => {
       // Only pixel chunks in the container: no EXIF, "XMP " or ICCP chunk.
       for (const id of webpChunkIds(size.bytes)) expect(["VP8 ", "VP8L", "VP8X", "ALPH"]).toContain(id);
       const bytes = size.bytes;
-      for (const marker of ["Exif", "GPS", XMP_MARKER, "W5M0MpCehiHzreSzNTczkc9d", "xmpmeta", "Photoshop", "8BIM", IPTC_MARKER, "TestPhone", "Test Yard"]) {
+      for (const marker of [
+        "Exif",
+        "GPS",
+        XMP_MARKER,
+        "W5M0MpCehiHzreSzNTczkc9d",
+        "xmpmeta",
+        "Photoshop",
+        "8BIM",
+        IPTC_MARKER,
+        "TestPhone",
+        "Test Yard",
+      ]) {
         expect(bytes.includes(Buffer.from(marker, "latin1")), `served ${size.name} contains ${marker}`).toBe(false);
       }
       for (const rational of [GPS_LATITUDE, GPS_LONGITUDE]) {
@@ -237,7 +255,10 @@ describe("other inputs", () => {
   it("a Display P3 photo is converted to sRGB and served without a profile", async () => {
     const colour = { r: 200, g: 120, b: 60 };
     // withIccProfile converts the sRGB colour into P3 numbers and tags the file with P3.
-    const tagged = await sharp({ create: { width: 64, height: 64, channels: 3, background: colour } }).withIccProfile("p3").jpeg({ quality: 95 }).toBuffer();
+    const tagged = await sharp({ create: { width: 64, height: 64, channels: 3, background: colour } })
+      .withIccProfile("p3")
+      .jpeg({ quality: 95 })
+      .toBuffer();
     expect((await sharp(tagged).metadata()).icc).toBeDefined();
     // The stored numbers are visibly not the sRGB ones (P3 orange: less red, more blue)…
     const stored = await pixelAt(await sharp(tagged, { ignoreIcc: true }).png().toBuffer(), 32, 32);
@@ -253,7 +274,9 @@ describe("other inputs", () => {
   });
 
   it("a large PNG with transparency is fitted and keeps its alpha", async () => {
-    const png = await sharp({ create: { width: 2400, height: 1200, channels: 4, background: { r: 120, g: 80, b: 40, alpha: 0.5 } } }).png().toBuffer();
+    const png = await sharp({ create: { width: 2400, height: 1200, channels: 4, background: { r: 120, g: 80, b: 40, alpha: 0.5 } } })
+      .png()
+      .toBuffer();
     expect(await inspectPhoto(png)).toEqual({ format: "png", width: 2400, height: 1200, megapixels: 2.88 });
     const { sizes } = await renderDisplaySizes(png);
     expect(sizes.map(({ width, height }) => [width, height])).toEqual([
@@ -292,11 +315,17 @@ describe("refusals", () => {
   });
 
   it("GIF, AVIF, TIFF and video are recognised but not taken", async () => {
-    const gif = await sharp({ create: { width: 32, height: 32, channels: 3, background: RED } }).gif().toBuffer();
+    const gif = await sharp({ create: { width: 32, height: 32, channels: 3, background: RED } })
+      .gif()
+      .toBuffer();
     expect((await expectRejected(inspectPhoto(gif), "unsupported_format")).message).toContain("GIF");
-    const avif = await sharp({ create: { width: 32, height: 32, channels: 3, background: RED } }).avif().toBuffer();
+    const avif = await sharp({ create: { width: 32, height: 32, channels: 3, background: RED } })
+      .avif()
+      .toBuffer();
     expect((await expectRejected(inspectPhoto(avif), "unsupported_format")).message).toContain("AVIF");
-    const tiff = await sharp({ create: { width: 32, height: 32, channels: 3, background: RED } }).tiff().toBuffer();
+    const tiff = await sharp({ create: { width: 32, height: 32, channels: 3, background: RED } })
+      .tiff()
+      .toBuffer();
     await expectRejected(inspectPhoto(tiff), "unsupported_format");
     await expectRejected(inspectPhoto(fileTypeBox("isom", ["isom", "iso2", "mp41"], Buffer.alloc(64))), "unsupported_format");
   });
@@ -336,13 +365,21 @@ describe("refusals", () => {
 
   it("an animation whose frames add up past 40 MP is a decompression bomb", async () => {
     const frames = await Promise.all(
-      Array.from({ length: 11 }, (_, index) => sharp({ create: { width: 2000, height: 2000, channels: 3, background: { r: index * 20, g: 0, b: 0 } } }).png({ compressionLevel: 1 }).toBuffer()),
+      Array.from({ length: 11 }, (_, index) =>
+        sharp({ create: { width: 2000, height: 2000, channels: 3, background: { r: index * 20, g: 0, b: 0 } } })
+          .png({ compressionLevel: 1 })
+          .toBuffer(),
+      ),
     );
-    const animation = await sharp(frames, { join: { animated: true } }).webp({ lossless: true, effort: 0 }).toBuffer();
+    const animation = await sharp(frames, { join: { animated: true } })
+      .webp({ lossless: true, effort: 0 })
+      .toBuffer();
     expect((await sharp(animation).metadata()).pages).toBe(11);
     await expectRejected(inspectPhoto(animation), "decompression_bomb");
     // Three such frames (12 MP in all) are fine: the first frame is what gets shown.
-    const short = await sharp(frames.slice(0, 3), { join: { animated: true } }).webp({ lossless: true, effort: 0 }).toBuffer();
+    const short = await sharp(frames.slice(0, 3), { join: { animated: true } })
+      .webp({ lossless: true, effort: 0 })
+      .toBuffer();
     expect((await inspectPhoto(short)).megapixels).toBe(4);
   });
 
@@ -372,37 +409,42 @@ const HAS_HEIF_ENCODER = findHeifEncoder();
 describe("HEIC", () => {
   // Neither sharp (its libheif encodes AV1 only) nor heic-decode (decode only) can write HEVC,
   // so recognition and refusal are checked always, and a real HEIC only where heif-enc exists.
-  it.skipIf(!HAS_HEIF_ENCODER)("a real HEVC HEIC is decoded, fitted and served without its EXIF (needs heif-enc from libheif-examples)", async () => {
-    const folder = mkdtempSync(join(tmpdir(), "grainyard-heic-"));
-    try {
-      const jpeg = await (await redLeftBlueRight(1200, 800))
-        .jpeg({ quality: 95 })
-        .withExif({ IFD0: { Make: "TestPhone" }, IFD3: { GPSLatitudeRef: "N", GPSLatitude: GPS_LATITUDE } })
-        .toBuffer();
-      writeFileSync(join(folder, "in.jpg"), jpeg);
-      execFileSync("heif-enc", ["-q", "90", "-o", join(folder, "out.heic"), join(folder, "in.jpg")], { stdio: "ignore" });
-      const heic = readFileSync(join(folder, "out.heic"));
-      expect(sniffFormat(heic)).toEqual({ kind: "supported", format: "heic" });
-      // heif-enc copies the EXIF block (stored uncompressed) into the HEIC.
-      expect(heic.includes(Buffer.from("TestPhone", "latin1"))).toBe(true);
-      expect(await inspectPhoto(heic)).toEqual({ format: "heic", width: 1200, height: 800, megapixels: 0.96 });
-      const { sizes } = await renderDisplaySizes(heic);
-      expect(sizes.map(({ name, width, height }) => [name, width, height])).toEqual([
-        ["small", 400, 267],
-        ["large", 1200, 800],
-      ]);
-      for (const size of sizes) {
-        expect((await sharp(size.bytes).metadata()).exif).toBeUndefined();
-        expect(size.bytes.includes(Buffer.from("TestPhone", "latin1"))).toBe(false);
-        expect(size.bytes.includes(rationalBytes(GPS_LATITUDE, true))).toBe(false);
+  it.skipIf(!HAS_HEIF_ENCODER)(
+    "a real HEVC HEIC is decoded, fitted and served without its EXIF (needs heif-enc from libheif-examples)",
+    async () => {
+      const folder = mkdtempSync(join(tmpdir(), "grainyard-heic-"));
+      try {
+        const jpeg = await (
+          await redLeftBlueRight(1200, 800)
+        )
+          .jpeg({ quality: 95 })
+          .withExif({ IFD0: { Make: "TestPhone" }, IFD3: { GPSLatitudeRef: "N", GPSLatitude: GPS_LATITUDE } })
+          .toBuffer();
+        writeFileSync(join(folder, "in.jpg"), jpeg);
+        execFileSync("heif-enc", ["-q", "90", "-o", join(folder, "out.heic"), join(folder, "in.jpg")], { stdio: "ignore" });
+        const heic = readFileSync(join(folder, "out.heic"));
+        expect(sniffFormat(heic)).toEqual({ kind: "supported", format: "heic" });
+        // heif-enc copies the EXIF block (stored uncompressed) into the HEIC.
+        expect(heic.includes(Buffer.from("TestPhone", "latin1"))).toBe(true);
+        expect(await inspectPhoto(heic)).toEqual({ format: "heic", width: 1200, height: 800, megapixels: 0.96 });
+        const { sizes } = await renderDisplaySizes(heic);
+        expect(sizes.map(({ name, width, height }) => [name, width, height])).toEqual([
+          ["small", 400, 267],
+          ["large", 1200, 800],
+        ]);
+        for (const size of sizes) {
+          expect((await sharp(size.bytes).metadata()).exif).toBeUndefined();
+          expect(size.bytes.includes(Buffer.from("TestPhone", "latin1"))).toBe(false);
+          expect(size.bytes.includes(rationalBytes(GPS_LATITUDE, true))).toBe(false);
+        }
+        const large = sizeNamed(sizes, "large").bytes;
+        expect((await pixelAt(large, 100, 400)).r).toBeGreaterThan(180);
+        expect((await pixelAt(large, 1100, 400)).b).toBeGreaterThan(180);
+      } finally {
+        rmSync(folder, { recursive: true, force: true });
       }
-      const large = sizeNamed(sizes, "large").bytes;
-      expect((await pixelAt(large, 100, 400)).r).toBeGreaterThan(180);
-      expect((await pixelAt(large, 1100, 400)).b).toBeGreaterThan(180);
-    } finally {
-      rmSync(folder, { recursive: true, force: true });
-    }
-  });
+    },
+  );
 
   it("is recognised by its ftyp brands, major or compatible", () => {
     expect(sniffFormat(fileTypeBox("heic", ["mif1", "heic"]))).toEqual({ kind: "supported", format: "heic" });
@@ -416,7 +458,11 @@ describe("HEIC", () => {
   });
 
   it("a broken HEIC is corrupt, for inspection and rendering", async () => {
-    const broken = fileTypeBox("heic", ["mif1", "heic"], Buffer.concat([Buffer.from([0, 0, 0, 40]), Buffer.from("meta", "latin1"), Buffer.alloc(200, 7)]));
+    const broken = fileTypeBox(
+      "heic",
+      ["mif1", "heic"],
+      Buffer.concat([Buffer.from([0, 0, 0, 40]), Buffer.from("meta", "latin1"), Buffer.alloc(200, 7)]),
+    );
     await expectRejected(inspectPhoto(broken), "corrupt_image");
     await expectRejected(renderDisplaySizes(broken), "corrupt_image");
     // Major brand heic-decode does not know, HEIC among the compatible brands: still refused cleanly.

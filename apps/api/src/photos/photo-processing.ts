@@ -26,7 +26,7 @@ export const DISPLAY_SIZES = [
 ] as const;
 
 export type DisplaySizeName = (typeof DISPLAY_SIZES)[number]["name"];
-export type PhotoFormat = "jpeg" | "png" | "webp" | "heic";
+type PhotoFormat = "jpeg" | "png" | "webp" | "heic";
 
 export interface PhotoInspection {
   format: PhotoFormat;
@@ -47,12 +47,7 @@ export interface DisplayImage {
 }
 
 export type PhotoRejectionCode =
-  | "not_an_image"
-  | "unsupported_format"
-  | "too_large_file"
-  | "too_many_pixels"
-  | "corrupt_image"
-  | "decompression_bomb";
+  "not_an_image" | "unsupported_format" | "too_large_file" | "too_many_pixels" | "corrupt_image" | "decompression_bomb";
 
 /** An upload we will not take, with a message a sawyer can act on. Maps to HTTP 413 or 422. */
 export class PhotoRejected extends AppError {
@@ -121,9 +116,11 @@ export function sniffFormat(bytes: Buffer): SniffResult {
     return { kind: "unsupported", name: "a video or other ISO media file" };
   }
   if (ascii(bytes, 0, 6) === "GIF87a" || ascii(bytes, 0, 6) === "GIF89a") return { kind: "unsupported", name: "GIF" };
-  if (startsWith(bytes, [0x49, 0x49, 0x2a, 0x00]) || startsWith(bytes, [0x4d, 0x4d, 0x00, 0x2a])) return { kind: "unsupported", name: "TIFF or camera RAW" };
+  if (startsWith(bytes, [0x49, 0x49, 0x2a, 0x00]) || startsWith(bytes, [0x4d, 0x4d, 0x00, 0x2a]))
+    return { kind: "unsupported", name: "TIFF or camera RAW" };
   if (ascii(bytes, 0, 2) === "BM" && bytes.length >= 14) return { kind: "unsupported", name: "BMP" };
-  if (startsWith(bytes, [0xff, 0x0a]) || startsWith(bytes, [0x00, 0x00, 0x00, 0x0c, 0x4a, 0x58, 0x4c, 0x20])) return { kind: "unsupported", name: "JPEG XL" };
+  if (startsWith(bytes, [0xff, 0x0a]) || startsWith(bytes, [0x00, 0x00, 0x00, 0x0c, 0x4a, 0x58, 0x4c, 0x20]))
+    return { kind: "unsupported", name: "JPEG XL" };
   if (ascii(bytes, 0, 4) === "8BPS") return { kind: "unsupported", name: "Photoshop" };
   if (/^\s*(<\?xml[^>]*>\s*)?<svg[\s>]/i.test(ascii(bytes, 0, 512))) return { kind: "unsupported", name: "SVG" };
   return { kind: "unknown" };
@@ -149,12 +146,19 @@ function identifyFormat(bytes: Buffer): PhotoFormat {
 }
 
 function tooManyPixels(width?: number, height?: number): PhotoRejected {
-  const size = width && height ? `${width} × ${height} pixels (${megapixelsOf(width, height)} MP)` : `more than ${MAX_PHOTO_MEGAPIXELS} megapixels`;
-  return new PhotoRejected("too_many_pixels", `This photo is ${size}; photos can be at most ${MAX_PHOTO_MEGAPIXELS} megapixels. Export a smaller copy and try again.`);
+  const size =
+    width && height ? `${width} × ${height} pixels (${megapixelsOf(width, height)} MP)` : `more than ${MAX_PHOTO_MEGAPIXELS} megapixels`;
+  return new PhotoRejected(
+    "too_many_pixels",
+    `This photo is ${size}; photos can be at most ${MAX_PHOTO_MEGAPIXELS} megapixels. Export a smaller copy and try again.`,
+  );
 }
 
 function corruptImage(format: PhotoFormat): PhotoRejected {
-  return new PhotoRejected("corrupt_image", `This ${format.toUpperCase()} file is damaged or incomplete and cannot be read. Try exporting or uploading it again.`);
+  return new PhotoRejected(
+    "corrupt_image",
+    `This ${format.toUpperCase()} file is damaged or incomplete and cannot be read. Try exporting or uploading it again.`,
+  );
 }
 
 /** Turns sharp's errors into the rejection a sawyer sees. */
@@ -173,7 +177,10 @@ function checkPixelCount(width: number, height: number, pages = 1): void {
   // Only the first frame is ever used, but a file whose frames add up past the limit is built to
   // exhaust memory in any viewer that decodes it whole: a phone photo is never that.
   if (width * height * pages > MAX_PHOTO_PIXELS) {
-    throw new PhotoRejected("decompression_bomb", `This file holds ${pages} frames that add up to more than ${MAX_PHOTO_MEGAPIXELS} megapixels; upload a single photo.`);
+    throw new PhotoRejected(
+      "decompression_bomb",
+      `This file holds ${pages} frames that add up to more than ${MAX_PHOTO_MEGAPIXELS} megapixels; upload a single photo.`,
+    );
   }
 }
 
@@ -181,7 +188,9 @@ function checkPixelCount(width: number, height: number, pages = 1): void {
 type HeicImageData = { width: number; height: number; data: Uint8ClampedArray };
 type HeicDecode = {
   (input: { buffer: Uint8Array }): Promise<HeicImageData>;
-  all(input: { buffer: Uint8Array }): Promise<Array<{ width: number; height: number; decode(): Promise<HeicImageData> }> & { dispose(): void }>;
+  all(input: {
+    buffer: Uint8Array;
+  }): Promise<Array<{ width: number; height: number; decode(): Promise<HeicImageData> }> & { dispose(): void }>;
 };
 let heicDecodeModule: Promise<HeicDecode> | undefined;
 function loadHeicDecode(): Promise<HeicDecode> {
@@ -266,7 +275,10 @@ async function openUpright(bytes: Buffer, format: PhotoFormat): Promise<Sharp> {
   const { width, height, data } = decoded;
   // The header was checked already; a file whose decoded image is bigger than its header said is hostile.
   if (width * height > MAX_PHOTO_PIXELS) {
-    throw new PhotoRejected("decompression_bomb", `This HEIC file decodes to more than ${MAX_PHOTO_MEGAPIXELS} megapixels although its header says less.`);
+    throw new PhotoRejected(
+      "decompression_bomb",
+      `This HEIC file decodes to more than ${MAX_PHOTO_MEGAPIXELS} megapixels although its header says less.`,
+    );
   }
   if (data.length !== width * height * 4) throw corruptImage("heic");
   const pixels = Buffer.from(data.buffer, data.byteOffset, data.byteLength);

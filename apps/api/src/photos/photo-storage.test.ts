@@ -8,7 +8,9 @@ import { StorageUnavailable, deleteObjects, displayKey, getObjectBytes, original
 // Runs against the S3 fake of the local test stack (`npm test`, or `npm run services` and the
 // env file it writes). Without it this file fails on purpose instead of skipping quietly.
 if (!process.env.S3_ENDPOINT) {
-  throw new Error("photo-storage tests need the S3 fake: run `npm test` from the repository root, or `npm run services` and source .data/test/test.env.");
+  throw new Error(
+    "photo-storage tests need the S3 fake: run `npm test` from the repository root, or `npm run services` and source .data/test/test.env.",
+  );
 }
 
 const environment = { ...process.env, NODE_ENV: "test" };
@@ -70,7 +72,9 @@ describe("against the S3 fake", () => {
   });
 
   it("never stores an original as public", async () => {
-    await expect(putObject(storage.client, storage.bucket, originalKey("l", "p"), Buffer.from("x"), "image/jpeg", { private: false })).rejects.toThrow(TypeError);
+    await expect(
+      putObject(storage.client, storage.bucket, originalKey("l", "p"), Buffer.from("x"), "image/jpeg", { private: false }),
+    ).rejects.toThrow(TypeError);
   });
 });
 

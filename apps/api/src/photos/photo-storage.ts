@@ -21,7 +21,8 @@ export class StorageUnavailable extends AppError {
 
 /** Ids become key segments: refuse anything that could step into another folder. */
 function keySegment(value: string, label: string): string {
-  if (!/^[A-Za-z0-9_-]{1,64}$/.test(value)) throw new TypeError(`${label} must be letters, digits, "-" or "_" (got ${JSON.stringify(value)}).`);
+  if (!/^[A-Za-z0-9_-]{1,64}$/.test(value))
+    throw new TypeError(`${label} must be letters, digits, "-" or "_" (got ${JSON.stringify(value)}).`);
   return value;
 }
 
@@ -54,7 +55,12 @@ const REQUEST_TIMEOUT_MS = 30_000;
 
 function describeCause(error: unknown): string {
   if (error && typeof error === "object") {
-    const { name, code, message, $metadata } = error as { name?: string; code?: string; message?: string; $metadata?: { httpStatusCode?: number } };
+    const { name, code, message, $metadata } = error as {
+      name?: string;
+      code?: string;
+      message?: string;
+      $metadata?: { httpStatusCode?: number };
+    };
     const status = $metadata?.httpStatusCode ? ` (HTTP ${$metadata.httpStatusCode})` : "";
     const text = [code ?? name, message].filter((part) => part && part !== "Error" && part !== "UnknownError").join(": ");
     if (text || status) return `${text || "error"}${status}`;
@@ -63,11 +69,21 @@ function describeCause(error: unknown): string {
 }
 
 function unavailable(action: string, error: unknown): StorageUnavailable {
-  return new StorageUnavailable(`Photo storage is unavailable: could not ${action} (${describeCause(error)}). Please try again in a moment.`, { cause: error });
+  return new StorageUnavailable(
+    `Photo storage is unavailable: could not ${action} (${describeCause(error)}). Please try again in a moment.`,
+    { cause: error },
+  );
 }
 
 /** Stores `bytes` under `key`. Originals must be private. */
-export async function putObject(client: S3Client, bucket: string, key: string, bytes: Buffer, contentType: string, options: PutObjectOptions): Promise<void> {
+export async function putObject(
+  client: S3Client,
+  bucket: string,
+  key: string,
+  bytes: Buffer,
+  contentType: string,
+  options: PutObjectOptions,
+): Promise<void> {
   if (key.startsWith("originals/") && !options.private) throw new TypeError(`originals are never public: ${key}`);
   try {
     await client.send(
@@ -91,7 +107,9 @@ export async function putObject(client: S3Client, bucket: string, key: string, b
 /** The bytes stored under `key`, or null when there is no such object. */
 export async function getObjectBytes(client: S3Client, bucket: string, key: string): Promise<Buffer | null> {
   try {
-    const response = await client.send(new GetObjectCommand({ Bucket: bucket, Key: key }), { abortSignal: AbortSignal.timeout(REQUEST_TIMEOUT_MS) });
+    const response = await client.send(new GetObjectCommand({ Bucket: bucket, Key: key }), {
+      abortSignal: AbortSignal.timeout(REQUEST_TIMEOUT_MS),
+    });
     if (!response.Body) return Buffer.alloc(0);
     return Buffer.from(await response.Body.transformToByteArray());
   } catch (error) {
@@ -119,6 +137,7 @@ export async function deleteObjects(client: S3Client, bucket: string, keys: stri
       throw unavailable(`delete ${batch.length} photo object(s)`, error);
     }
     // DeleteObjects answers 200 even when single keys fail; those failures are listed in Errors.
-    if (failed.length) throw new StorageUnavailable(`Photo storage is unavailable: could not delete ${failed.join(", ")}. Please try again in a moment.`);
+    if (failed.length)
+      throw new StorageUnavailable(`Photo storage is unavailable: could not delete ${failed.join(", ")}. Please try again in a moment.`);
   }
 }

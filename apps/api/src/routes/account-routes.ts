@@ -1,5 +1,13 @@
 import { Router } from "express";
-import { passwordResetRequestSchema, passwordResetSchema, signInSchema, signUpSchema, userSearchSchema, verifyEmailSchema, yardProfileUpdateSchema } from "@grainyard/contracts";
+import {
+  passwordResetRequestSchema,
+  passwordResetSchema,
+  signInSchema,
+  signUpSchema,
+  userSearchSchema,
+  verifyEmailSchema,
+  yardProfileUpdateSchema,
+} from "@grainyard/contracts";
 import type { RequestHandler } from "express";
 import { newToken } from "../services/tokens.ts";
 import type { AccountService } from "../services/account-service.ts";

@@ -26,7 +26,13 @@ describe("sign-up", () => {
       pickupTown: "Lakemont",
     });
     expect(res.status).toBe(201);
-    expect(res.body.account).toMatchObject({ email: email.toLowerCase(), role: "sawyer", emailVerified: false, yardName: "Fairweather Mill", pickupTown: "Lakemont" });
+    expect(res.body.account).toMatchObject({
+      email: email.toLowerCase(),
+      role: "sawyer",
+      emailVerified: false,
+      yardName: "Fairweather Mill",
+      pickupTown: "Lakemont",
+    });
     expect(res.body.account.passwordHash).toBeUndefined();
     const mail = await mailTo(email);
     expect(mail[0]!.subject).toMatch(/confirm your e-mail/i);
@@ -38,7 +44,9 @@ describe("sign-up", () => {
   it("stores a bcrypt hash, never the password", async () => {
     const email = unique("hash");
     const client = await ctx.client();
-    await client.post("/api/v1/accounts", { role: "buyer", email, password: "walnut-and-elm-tables", displayName: "Hash Check" }).then((r) => expect(r.status).toBe(201));
+    await client
+      .post("/api/v1/accounts", { role: "buyer", email, password: "walnut-and-elm-tables", displayName: "Hash Check" })
+      .then((r) => expect(r.status).toBe(201));
     const row = await ctx.dataSource.getRepository(AccountEntity).findOneByOrFail({ email });
     expect(row.passwordHash).toMatch(/^\$2[aby]\$04\$/);
     expect(row.passwordHash).not.toContain("walnut");
@@ -46,7 +54,12 @@ describe("sign-up", () => {
 
   it("never creates an admin through the API", async () => {
     const client = await ctx.client();
-    const res = await client.post("/api/v1/accounts", { role: "admin", email: unique("admin"), password: "please-make-me-admin", displayName: "Sneaky" });
+    const res = await client.post("/api/v1/accounts", {
+      role: "admin",
+      email: unique("admin"),
+      password: "please-make-me-admin",
+      displayName: "Sneaky",
+    });
     expect(res.status).toBe(422);
     expect(res.body.error.fields.role).toBeTruthy();
     const admins = await ctx.dataSource.getRepository(AccountEntity).countBy({ role: "admin" });
@@ -55,7 +68,12 @@ describe("sign-up", () => {
 
   it("needs yard name and pickup town from a sawyer, with a message per field", async () => {
     const client = await ctx.client();
-    const res = await client.post("/api/v1/accounts", { role: "sawyer", email: unique("nofields"), password: "long-enough-pass-1", displayName: "No Yard" });
+    const res = await client.post("/api/v1/accounts", {
+      role: "sawyer",
+      email: unique("nofields"),
+      password: "long-enough-pass-1",
+      displayName: "No Yard",
+    });
     expect(res.status).toBe(422);
     expect(res.body.error.code).toBe("invalid_input");
     expect(Object.keys(res.body.error.fields).sort()).toEqual(["pickupTown", "yardName"]);
@@ -63,27 +81,51 @@ describe("sign-up", () => {
 
   it("refuses passwords shorter than 10 characters and common ones", async () => {
     const client = await ctx.client();
-    const short = await client.post("/api/v1/accounts", { role: "buyer", email: unique("short"), password: "oak-slab", displayName: "Short" });
+    const short = await client.post("/api/v1/accounts", {
+      role: "buyer",
+      email: unique("short"),
+      password: "oak-slab",
+      displayName: "Short",
+    });
     expect(short.status).toBe(422);
     expect(short.body.error.fields.password).toMatch(/at least 10/);
-    const common = await client.post("/api/v1/accounts", { role: "buyer", email: unique("common"), password: "password123", displayName: "Common" });
+    const common = await client.post("/api/v1/accounts", {
+      role: "buyer",
+      email: unique("common"),
+      password: "password123",
+      displayName: "Common",
+    });
     expect(common.status).toBe(422);
     expect(common.body.error.fields.password).toMatch(/common/);
-    const commonWithSuffix = await client.post("/api/v1/accounts", { role: "buyer", email: unique("common2"), password: "qwertyuiop!!", displayName: "Common" });
+    const commonWithSuffix = await client.post("/api/v1/accounts", {
+      role: "buyer",
+      email: unique("common2"),
+      password: "qwertyuiop!!",
+      displayName: "Common",
+    });
     expect(commonWithSuffix.status).toBe(422);
   });
 
   it("answers 409 when the e-mail is taken", async () => {
     const existing = await ctx.createAccount("buyer");
     const client = await ctx.client();
-    const res = await client.post("/api/v1/accounts", { role: "buyer", email: existing.email, password: "another-fine-password", displayName: "Twin" });
+    const res = await client.post("/api/v1/accounts", {
+      role: "buyer",
+      email: existing.email,
+      password: "another-fine-password",
+      displayName: "Twin",
+    });
     expect(res.status).toBe(409);
     expect(res.body.error.code).toBe("email_taken");
   });
 
   it("answers 400 with the JSON error shape for a malformed body", async () => {
     const client = await ctx.client();
-    const res = await client.agent.post("/api/v1/accounts").set("x-csrf-token", client.csrfToken).set("content-type", "application/json").send('{"role": "buyer",');
+    const res = await client.agent
+      .post("/api/v1/accounts")
+      .set("x-csrf-token", client.csrfToken)
+      .set("content-type", "application/json")
+      .send('{"role": "buyer",');
     expect(res.status).toBe(400);
     expect(res.body).toEqual({ error: { code: "malformed_request", message: expect.any(String) } });
   });
@@ -93,7 +135,14 @@ describe("e-mail verification", () => {
   it("verifies once with the mailed link; a second use is refused", async () => {
     const email = unique("verify");
     const client = await ctx.client();
-    await client.post("/api/v1/accounts", { role: "sawyer", email, password: "honey-locust-slabs", displayName: "Vee", yardName: "Vee Yard", pickupTown: "Lakemont" });
+    await client.post("/api/v1/accounts", {
+      role: "sawyer",
+      email,
+      password: "honey-locust-slabs",
+      displayName: "Vee",
+      yardName: "Vee Yard",
+      pickupTown: "Lakemont",
+    });
     const token = await mailedToken(email, "verify-email");
     const first = await client.post("/api/v1/email-verification", { token });
     expect(first.status).toBe(200);
@@ -194,7 +243,8 @@ describe("rate limits", () => {
     const limited = await createTestContext({ environment: { SIGN_IN_LIMIT_PER_IP: "3" } });
     try {
       const client = await limited.client();
-      for (let i = 0; i < 3; i++) expect((await client.post("/api/v1/session", { email: unique(`ip${i}`), password: "wrong-password-x" })).status).toBe(401);
+      for (let i = 0; i < 3; i++)
+        expect((await client.post("/api/v1/session", { email: unique(`ip${i}`), password: "wrong-password-x" })).status).toBe(401);
       expect((await client.post("/api/v1/session", { email: unique("ip9"), password: "wrong-password-x" })).status).toBe(429);
     } finally {
       await limited.close();
@@ -219,7 +269,11 @@ describe("anti-forgery", () => {
     expect(missing.body.error.code).toBe("csrf_rejected");
     const wrong = await client.agent.post("/api/v1/session").set("x-csrf-token", "forged-token-value").send(body);
     expect(wrong.status).toBe(403);
-    const crossSite = await client.agent.post("/api/v1/session").set("x-csrf-token", client.csrfToken).set("sec-fetch-site", "cross-site").send(body);
+    const crossSite = await client.agent
+      .post("/api/v1/session")
+      .set("x-csrf-token", client.csrfToken)
+      .set("sec-fetch-site", "cross-site")
+      .send(body);
     expect(crossSite.status).toBe(403);
     // And with the right token the same request works.
     expect((await client.post("/api/v1/session", body)).status).toBe(200);
@@ -228,7 +282,10 @@ describe("anti-forgery", () => {
   it("refuses a token from another session", async () => {
     const alice = await ctx.client();
     const mallory = await ctx.client();
-    const res = await alice.agent.post("/api/v1/password-reset-requests").set("x-csrf-token", mallory.csrfToken).send({ email: unique("x") });
+    const res = await alice.agent
+      .post("/api/v1/password-reset-requests")
+      .set("x-csrf-token", mallory.csrfToken)
+      .send({ email: unique("x") });
     expect(res.status).toBe(403);
   });
 });
@@ -255,7 +312,9 @@ describe("password reset", () => {
     const res = await client.post("/api/v1/password-resets", { token, password: "black-cherry-top-2026" });
     expect(res.status).toBe(200);
     expect((await signedIn.get("/api/v1/yard")).status).toBe(401); // the old session ended
-    expect(await ctx.dataSource.getRepository(SessionRecordEntity).countBy({ accountId: signedIn.account.id, revokedAt: IsNull() })).toBe(0);
+    expect(await ctx.dataSource.getRepository(SessionRecordEntity).countBy({ accountId: signedIn.account.id, revokedAt: IsNull() })).toBe(
+      0,
+    );
     expect((await client.post("/api/v1/session", { email: signedIn.account.email, password: signedIn.account.password })).status).toBe(401);
     expect((await client.post("/api/v1/session", { email: signedIn.account.email, password: "black-cherry-top-2026" })).status).toBe(200);
     const again = await (await ctx.client()).post("/api/v1/password-resets", { token, password: "yet-another-password" });

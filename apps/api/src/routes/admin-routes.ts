@@ -19,7 +19,14 @@ import type { ReportService } from "../services/report-service.ts";
 import type { SettingsService } from "../services/settings-service.ts";
 
 /** The operator desk. Every route needs an admin (checked in the services), except filing a report. */
-export function adminRoutes(services: { listings: ListingService; audit: AuditService; reports: ReportService; moderation: AccountModeration; settings: SettingsService; dashboard: DashboardService }) {
+export function adminRoutes(services: {
+  listings: ListingService;
+  audit: AuditService;
+  reports: ReportService;
+  moderation: AccountModeration;
+  settings: SettingsService;
+  dashboard: DashboardService;
+}) {
   const { listings, audit, reports, moderation, settings, dashboard } = services;
   const router = Router();
   const id = (value: string | string[] | undefined) => String(value);

@@ -17,7 +17,14 @@ let otherSawyer: Client;
 let photo: Buffer;
 const DAY = 24 * 3600_000;
 
-const slabBase = { lengthMm: 2400, thicknessMm: 57, widthStationsMm: [800, 780, 760], liveEdge: "both", surfacing: "flattened", dryingMethod: "kiln" };
+const slabBase = {
+  lengthMm: 2400,
+  thicknessMm: 57,
+  widthStationsMm: [800, 780, 760],
+  liveEdge: "both",
+  surfacing: "flattened",
+  dryingMethod: "kiln",
+};
 
 /** A listing of one slab by `owner`, with a photo; submitted and approved unless told to stop earlier. */
 async function listing(owner: BrowserClient, title: string, speciesSlug: string, stage: "draft" | "live" = "live"): Promise<string> {
@@ -27,7 +34,11 @@ async function listing(owner: BrowserClient, title: string, speciesSlug: string,
   if (made.status !== 201) throw new Error(JSON.stringify(made.body));
   const id = made.body.listing.id as string;
   if (stage === "draft") return id;
-  const uploaded = await owner.agent.post(`/api/v1/yard/listings/${id}/photos?altText=${encodeURIComponent(title)}`).set("x-csrf-token", owner.csrfToken).set("content-type", "image/jpeg").send(photo);
+  const uploaded = await owner.agent
+    .post(`/api/v1/yard/listings/${id}/photos?altText=${encodeURIComponent(title)}`)
+    .set("x-csrf-token", owner.csrfToken)
+    .set("content-type", "image/jpeg")
+    .send(photo);
   if (uploaded.status !== 201) throw new Error(JSON.stringify(uploaded.body));
   const submitted = await owner.post(`/api/v1/yard/listings/${id}/submit`);
   if (submitted.status !== 200) throw new Error(JSON.stringify(submitted.body));
@@ -42,7 +53,9 @@ const slabLinks = (text: string) => [...text.matchAll(/\/slabs\/([0-9a-f-]{36})/
 
 beforeAll(async () => {
   ctx = await createTestContext({ clock });
-  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#7b4a2a" } }).jpeg().toBuffer();
+  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#7b4a2a" } })
+    .jpeg()
+    .toBuffer();
   admin = (await ctx.signedInClient("admin")) as Client;
   sawyer = (await ctx.signedInClient("sawyer", { displayName: "Rosa Ferreira", yardName: "Ridgeback Urban Timber" })) as Client;
   otherSawyer = (await ctx.signedInClient("sawyer")) as Client;
@@ -52,10 +65,20 @@ afterAll(async () => ctx?.close());
 describe("saved searches", () => {
   it("saves a normalised query (no cursor, sort, limit or unknown keys), lists, renames, switches alerts, deletes", async () => {
     const owner = await buyer();
-    const created = await owner.post("/api/v1/saved-searches", { name: "Walnut for eight", query: "?seats=8&species=black-walnut&sort=price_low&cursor=abc&limit=5&colour=red&ready=", alerts: true });
+    const created = await owner.post("/api/v1/saved-searches", {
+      name: "Walnut for eight",
+      query: "?seats=8&species=black-walnut&sort=price_low&cursor=abc&limit=5&colour=red&ready=",
+      alerts: true,
+    });
     expect(created.status).toBe(201);
     const saved = created.body.savedSearch;
-    expect(saved).toMatchObject({ name: "Walnut for eight", query: "species=black-walnut&seats=8", alerts: true, lastAlertAt: null, pendingMatches: 0 });
+    expect(saved).toMatchObject({
+      name: "Walnut for eight",
+      query: "species=black-walnut&seats=8",
+      alerts: true,
+      lastAlertAt: null,
+      pendingMatches: 0,
+    });
     // The stored query runs as it is in the catalogue.
     expect((await request(ctx.app).get(`/api/v1/catalogue?${saved.query}`)).status).toBe(200);
 
@@ -76,7 +99,9 @@ describe("saved searches", () => {
     expect((await stranger.get("/api/v1/saved-searches")).body.savedSearches).toEqual([]);
 
     expect((await owner.delete(`/api/v1/saved-searches/${saved.id}`)).status).toBe(204);
-    expect((await owner.get("/api/v1/saved-searches")).body.savedSearches.map((s: { id: string }) => s.id)).toEqual([second.body.savedSearch.id]);
+    expect((await owner.get("/api/v1/saved-searches")).body.savedSearches.map((s: { id: string }) => s.id)).toEqual([
+      second.body.savedSearch.id,
+    ]);
     expect((await owner.delete(`/api/v1/saved-searches/${saved.id}`)).status).toBe(404);
     expect((await owner.patch(`/api/v1/saved-searches/${saved.id}`, { alerts: true })).status).toBe(404);
   });
@@ -95,12 +120,16 @@ describe("saved searches", () => {
     for (const [query, field] of cases) {
       const res = await owner.post("/api/v1/saved-searches", { name: "Bad", query });
       expect(res.status, query).toBe(422);
-      expect(Object.keys(res.body.error.fields).some((key) => key === field || key.startsWith(`${field}.`)), `${query}: ${JSON.stringify(res.body.error.fields)}`).toBe(true);
+      expect(
+        Object.keys(res.body.error.fields).some((key) => key === field || key.startsWith(`${field}.`)),
+        `${query}: ${JSON.stringify(res.body.error.fields)}`,
+      ).toBe(true);
     }
     const noName = await owner.post("/api/v1/saved-searches", { name: "  ", query: "species=black-walnut" });
     expect(noName.status).toBe(422);
     expect(noName.body.error.fields).toHaveProperty("name");
-    const id = (await owner.post("/api/v1/saved-searches", { name: "Fine", query: "species=black-walnut", alerts: false })).body.savedSearch.id;
+    const id = (await owner.post("/api/v1/saved-searches", { name: "Fine", query: "species=black-walnut", alerts: false })).body.savedSearch
+      .id;
     expect((await owner.patch(`/api/v1/saved-searches/${id}`, {})).status).toBe(422);
     expect((await owner.patch(`/api/v1/saved-searches/${id}`, { alerts: "yes" })).status).toBe(422);
     expect((await owner.get("/api/v1/saved-searches")).body.savedSearches).toHaveLength(1);
@@ -110,7 +139,9 @@ describe("saved searches", () => {
     const walnutFan = await buyer();
     const oakFan = await buyer();
     const quietFan = await buyer();
-    const watch = (await walnutFan.post("/api/v1/saved-searches", { name: "Walnut watch", query: "species=black-walnut&thicknessMin=50", alerts: true })).body.savedSearch;
+    const watch = (
+      await walnutFan.post("/api/v1/saved-searches", { name: "Walnut watch", query: "species=black-walnut&thicknessMin=50", alerts: true })
+    ).body.savedSearch;
     await oakFan.post("/api/v1/saved-searches", { name: "Oak", query: "species=white-oak", alerts: true });
     await quietFan.post("/api/v1/saved-searches", { name: "Walnut, no mail", query: "species=black-walnut", alerts: false });
 
@@ -136,8 +167,17 @@ describe("saved searches", () => {
 
     // A thin walnut slab does not match thicknessMin=50, an oak one goes to the oak search only.
     const thinSlab = await sawyer.post("/api/v1/yard/slabs", { ...slabBase, speciesSlug: "black-walnut", thicknessMm: 30 });
-    const thin = await sawyer.post("/api/v1/yard/listings", { title: "Thin walnut", slabIds: [thinSlab.body.slab.id], priceMode: "fixed", rateMinor: 10_000 });
-    await sawyer.agent.post(`/api/v1/yard/listings/${thin.body.listing.id}/photos?altText=thin`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+    const thin = await sawyer.post("/api/v1/yard/listings", {
+      title: "Thin walnut",
+      slabIds: [thinSlab.body.slab.id],
+      priceMode: "fixed",
+      rateMinor: 10_000,
+    });
+    await sawyer.agent
+      .post(`/api/v1/yard/listings/${thin.body.listing.id}/photos?altText=thin`)
+      .set("x-csrf-token", sawyer.csrfToken)
+      .set("content-type", "image/jpeg")
+      .send(photo);
     await sawyer.post(`/api/v1/yard/listings/${thin.body.listing.id}/submit`);
     await admin.post(`/api/v1/admin/listings/${thin.body.listing.id}/approve`);
     const oak = await listing(sawyer, "White oak slab", "white-oak");
@@ -170,7 +210,8 @@ describe("saved searches", () => {
 
   it("turns alerts off from the mailed link without signing in; a changed token is refused", async () => {
     const owner = await buyer();
-    const search = (await owner.post("/api/v1/saved-searches", { name: "Cherry <b>tops</b>", query: "species=black-cherry" })).body.savedSearch;
+    const search = (await owner.post("/api/v1/saved-searches", { name: "Cherry <b>tops</b>", query: "species=black-cherry" })).body
+      .savedSearch;
     clock.advance(DAY + 60_000); // clear of earlier tests' alert windows
     const live = await listing(sawyer, "Cherry for the link test", "black-cherry");
     const [mail] = await mailTo(owner.account.email);
@@ -184,7 +225,9 @@ describe("saved searches", () => {
     expect(refused.status).toBe(400);
     expect(refused.type).toBe("text/html");
     expect(refused.text).toContain("unsubscribe link is not valid");
-    const otherId = (await request(ctx.app).get(`/api/v1/saved-searches/unsubscribe?token=${encodeURIComponent(`${crypto.randomUUID()}.${token.split(".")[1]}`)}`));
+    const otherId = await request(ctx.app).get(
+      `/api/v1/saved-searches/unsubscribe?token=${encodeURIComponent(`${crypto.randomUUID()}.${token.split(".")[1]}`)}`,
+    );
     expect(otherId.status).toBe(400);
     expect((await request(ctx.app).get("/api/v1/saved-searches/unsubscribe")).status).toBe(400);
     expect((await ctx.dataSource.getRepository(SavedSearchEntity).findOneByOrFail({ id: search.id })).alerts).toBe(true);
@@ -232,7 +275,9 @@ describe("favourites", () => {
     const list = await fan.get("/api/v1/favourites");
     expect(list.status).toBe(200);
     expect(list.body.favourites.map((c: { listingId: string }) => c.listingId)).toEqual([maple, walnut]);
-    const fromCatalogue = (await request(ctx.app).get("/api/v1/catalogue?species=black-walnut&limit=60")).body.results.find((c: { listingId: string }) => c.listingId === walnut);
+    const fromCatalogue = (await request(ctx.app).get("/api/v1/catalogue?species=black-walnut&limit=60")).body.results.find(
+      (c: { listingId: string }) => c.listingId === walnut,
+    );
     expect(list.body.favourites[1]).toEqual(fromCatalogue);
 
     // Someone else's favourites are their own.
@@ -270,13 +315,29 @@ describe("messages about a listing", () => {
     asker = (await ctx.signedInClient("buyer", { displayName: "Ada Moreno" })) as Client;
   }, 60_000);
 
-  const threadsOf = async (client: BrowserClient) => (await client.get("/api/v1/threads")).body.threads as { id: string; unreadCount: number; listingTitle: string; otherParty: { displayName: string }; lastMessage: { excerpt: string; fromMe: boolean } | null; myRole: string }[];
+  const threadsOf = async (client: BrowserClient) =>
+    (await client.get("/api/v1/threads")).body.threads as {
+      id: string;
+      unreadCount: number;
+      listingTitle: string;
+      otherParty: { displayName: string };
+      lastMessage: { excerpt: string; fromMe: boolean } | null;
+      myRole: string;
+    }[];
 
   it("a buyer asks, the sawyer is told by e-mail; a second question continues the same thread", async () => {
-    const asked = await asker.post(`/api/v1/listings/${walnut}/messages`, { body: "Is this slab still available?\nCould I see it on Saturday?" });
+    const asked = await asker.post(`/api/v1/listings/${walnut}/messages`, {
+      body: "Is this slab still available?\nCould I see it on Saturday?",
+    });
     expect(asked.status).toBe(201);
     threadId = asked.body.thread.id;
-    expect(asked.body.thread).toMatchObject({ listingId: walnut, listingTitle: "Walnut to ask about", myRole: "buyer", otherParty: { id: sawyer.account.id, displayName: "Rosa Ferreira" }, unreadCount: 0 });
+    expect(asked.body.thread).toMatchObject({
+      listingId: walnut,
+      listingTitle: "Walnut to ask about",
+      myRole: "buyer",
+      otherParty: { id: sawyer.account.id, displayName: "Rosa Ferreira" },
+      unreadCount: 0,
+    });
     expect(asked.body.message).toMatchObject({ fromMe: true, authorId: asker.account.id, authorName: "Ada Moreno", readAt: null });
     const [notice] = await mailTo(sawyer.account.email).then((all) => all.filter((m) => m.subject.includes("Walnut to ask about")));
     expect(notice!.subject).toContain("Ada Moreno");
@@ -291,10 +352,18 @@ describe("messages about a listing", () => {
 
   it("the sawyer sees two unread, reads them, answers; the buyer is told and reads the answer", async () => {
     const before = (await threadsOf(sawyer)).find((t) => t.id === threadId)!;
-    expect(before).toMatchObject({ unreadCount: 2, myRole: "sawyer", otherParty: { displayName: "Ada Moreno" }, lastMessage: { excerpt: "And is it kiln dried?", fromMe: false } });
+    expect(before).toMatchObject({
+      unreadCount: 2,
+      myRole: "sawyer",
+      otherParty: { displayName: "Ada Moreno" },
+      lastMessage: { excerpt: "And is it kiln dried?", fromMe: false },
+    });
     const opened = await sawyer.get(`/api/v1/threads/${threadId}`);
     expect(opened.status).toBe(200);
-    expect(opened.body.messages.map((m: { body: string }) => m.body)).toEqual(["Is this slab still available?\nCould I see it on Saturday?", "And is it kiln dried?"]);
+    expect(opened.body.messages.map((m: { body: string }) => m.body)).toEqual([
+      "Is this slab still available?\nCould I see it on Saturday?",
+      "And is it kiln dried?",
+    ]);
     expect(opened.body.thread.unreadCount).toBe(0);
     expect((await threadsOf(sawyer)).find((t) => t.id === threadId)!.unreadCount).toBe(0);
 

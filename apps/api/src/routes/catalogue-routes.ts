@@ -18,7 +18,8 @@ export const catalogueSearchPath = `${API_PREFIX}/catalogue`;
 export function catalogueSearch(catalogue: CatalogueService) {
   return async (req: Request, res: Response) => {
     const queryString = req.url.slice(req.url.indexOf("?") + 1 || req.url.length);
-    const answer = catalogue.cachedAnswer(queryString) ?? (await catalogue.searchAnswer(parse(catalogueQuerySchema, req.query), queryString));
+    const answer =
+      catalogue.cachedAnswer(queryString) ?? (await catalogue.searchAnswer(parse(catalogueQuerySchema, req.query), queryString));
     res.setHeader("etag", answer.etag);
     res.setHeader("vary", "Accept-Encoding");
     if (req.fresh) {

@@ -17,19 +17,49 @@ async function sawyerIn(town: string) {
   return sawyer;
 }
 
-async function liveListing(sawyer: BrowserClient, name: string, slabs: Record<string, unknown>[], listing: Record<string, unknown>, readings: number[] = []) {
-  const log = (await sawyer.post("/api/v1/yard/logs", { speciesSlug: slabs[0]!.speciesSlug, siteTown: "Lakemont", siteKind: "street", fellingReason: "storm", notes: `The ${name} tree.` })).body.log;
+async function liveListing(
+  sawyer: BrowserClient,
+  name: string,
+  slabs: Record<string, unknown>[],
+  listing: Record<string, unknown>,
+  readings: number[] = [],
+) {
+  const log = (
+    await sawyer.post("/api/v1/yard/logs", {
+      speciesSlug: slabs[0]!.speciesSlug,
+      siteTown: "Lakemont",
+      siteKind: "street",
+      fellingReason: "storm",
+      notes: `The ${name} tree.`,
+    })
+  ).body.log;
   const slabIds: string[] = [];
   for (const [index, slab] of slabs.entries()) {
-    const created = await sawyer.post("/api/v1/yard/slabs", { logId: log.id, sequenceInLog: index + 1, liveEdge: "both", surfacing: "flattened", dryingMethod: "kiln", ...slab });
+    const created = await sawyer.post("/api/v1/yard/slabs", {
+      logId: log.id,
+      sequenceInLog: index + 1,
+      liveEdge: "both",
+      surfacing: "flattened",
+      dryingMethod: "kiln",
+      ...slab,
+    });
     if (created.status !== 201) throw new Error(JSON.stringify(created.body));
-    for (const [day, mc] of readings.entries()) await sawyer.post(`/api/v1/yard/slabs/${created.body.slab.id}/readings`, { readOn: `2025-0${day + 1}-01`, moistureContentPct: mc, method: "pin_meter" });
+    for (const [day, mc] of readings.entries())
+      await sawyer.post(`/api/v1/yard/slabs/${created.body.slab.id}/readings`, {
+        readOn: `2025-0${day + 1}-01`,
+        moistureContentPct: mc,
+        method: "pin_meter",
+      });
     slabIds.push(created.body.slab.id);
   }
   const made = await sawyer.post("/api/v1/yard/listings", { title: name, slabIds, priceMode: "fixed", rateMinor: 50_000, ...listing });
   if (made.status !== 201) throw new Error(JSON.stringify(made.body));
   const id = made.body.listing.id;
-  const uploaded = await sawyer.agent.post(`/api/v1/yard/listings/${id}/photos?altText=${encodeURIComponent(name)}`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+  const uploaded = await sawyer.agent
+    .post(`/api/v1/yard/listings/${id}/photos?altText=${encodeURIComponent(name)}`)
+    .set("x-csrf-token", sawyer.csrfToken)
+    .set("content-type", "image/jpeg")
+    .send(photo);
   if (uploaded.status !== 201) throw new Error(JSON.stringify(uploaded.body));
   const submitted = await sawyer.post(`/api/v1/yard/listings/${id}/submit`);
   if (submitted.status !== 200) throw new Error(JSON.stringify(submitted.body));
@@ -42,22 +72,64 @@ async function liveListing(sawyer: BrowserClient, name: string, slabs: Record<st
 const search = (query: string) => request(ctx.app).get(`/api/v1/catalogue?${query}`);
 const titles = (res: request.Response) => (res.body.results as { title: string }[]).map((r) => r.title);
 
-const slab = (speciesSlug: string, lengthMm: number, thicknessMm: number, widthStationsMm: number[], extra: Record<string, unknown> = {}) => ({ speciesSlug, lengthMm, thicknessMm, widthStationsMm, ...extra });
+const slab = (
+  speciesSlug: string,
+  lengthMm: number,
+  thicknessMm: number,
+  widthStationsMm: number[],
+  extra: Record<string, unknown> = {},
+) => ({ speciesSlug, lengthMm, thicknessMm, widthStationsMm, ...extra });
 
 beforeAll(async () => {
   ctx = await createTestContext();
   admin = await ctx.signedInClient("admin");
-  photo = await sharp({ create: { width: 800, height: 600, channels: 3, background: "#7b4a2a" } }).jpeg().toBuffer();
+  photo = await sharp({ create: { width: 800, height: 600, channels: 3, background: "#7b4a2a" } })
+    .jpeg()
+    .toBuffer();
   const lakemont = await sawyerIn("Lakemont"); // invented demo town
   const northshore = await sawyerIn("Northshore"); // invented demo town, about 14 km north
   const toronto = await sawyerIn("Toronto"); // far away (GeoNames)
-  await liveListing(lakemont, "walnut dining", [slab("black-walnut", 2600, 57, [1000, 960, 940], { features: ["crotch", "figure"] })], { rateMinor: 240_000, freight: true }, [30, 18, 9]);
-  await liveListing(lakemont, "maple bench", [slab("silver-maple", 1500, 76, [420, 380, 300], { liveEdge: "one", features: ["spalting"] })], { rateMinor: 45_000 }, [25, 20, 16]);
-  await liveListing(northshore, "oak pair", [slab("white-oak", 2400, 51, [520, 500]), slab("white-oak", 2400, 51, [515, 505])], { setKind: "bookmatched", rateMinor: 180_000, freight: true }, [12, 10, 8]);
-  await liveListing(toronto, "elm shelf", [slab("american-elm", 1200, 38, [300, 290], { liveEdge: "none" })], { priceMode: "per_board_foot", rateMinor: 900 });
-  await liveListing(toronto, "cherry top", [slab("black-cherry", 2000, 45, [700, 690, 680], { features: ["figure"] })], { rateMinor: 120_000 }, [9, 8, 7]);
+  await liveListing(
+    lakemont,
+    "walnut dining",
+    [slab("black-walnut", 2600, 57, [1000, 960, 940], { features: ["crotch", "figure"] })],
+    { rateMinor: 240_000, freight: true },
+    [30, 18, 9],
+  );
+  await liveListing(
+    lakemont,
+    "maple bench",
+    [slab("silver-maple", 1500, 76, [420, 380, 300], { liveEdge: "one", features: ["spalting"] })],
+    { rateMinor: 45_000 },
+    [25, 20, 16],
+  );
+  await liveListing(
+    northshore,
+    "oak pair",
+    [slab("white-oak", 2400, 51, [520, 500]), slab("white-oak", 2400, 51, [515, 505])],
+    { setKind: "bookmatched", rateMinor: 180_000, freight: true },
+    [12, 10, 8],
+  );
+  await liveListing(toronto, "elm shelf", [slab("american-elm", 1200, 38, [300, 290], { liveEdge: "none" })], {
+    priceMode: "per_board_foot",
+    rateMinor: 900,
+  });
+  await liveListing(
+    toronto,
+    "cherry top",
+    [slab("black-cherry", 2000, 45, [700, 690, 680], { features: ["figure"] })],
+    { rateMinor: 120_000 },
+    [9, 8, 7],
+  );
   // A draft that must never show.
-  const draftSlab = (await lakemont.post("/api/v1/yard/slabs", { ...slab("black-walnut", 2600, 57, [950, 900]), liveEdge: "both", surfacing: "flattened", dryingMethod: "kiln" })).body.slab;
+  const draftSlab = (
+    await lakemont.post("/api/v1/yard/slabs", {
+      ...slab("black-walnut", 2600, 57, [950, 900]),
+      liveEdge: "both",
+      surfacing: "flattened",
+      dryingMethod: "kiln",
+    })
+  ).body.slab;
   await lakemont.post("/api/v1/yard/listings", { title: "hidden draft", slabIds: [draftSlab.id], priceMode: "fixed", rateMinor: 1000 });
 }, 120_000);
 afterAll(async () => ctx?.close());
@@ -69,7 +141,14 @@ describe("catalogue search", () => {
     expect(res.body.total).toBe(5);
     expect(titles(res)).toEqual(["cherry top", "elm shelf", "oak pair", "maple bench", "walnut dining"]);
     const walnut = res.body.results.find((r: { title: string }) => r.title === "walnut dining");
-    expect(walnut).toMatchObject({ town: "Lakemont", speciesSlug: "black-walnut", features: ["crotch", "figure"], photoAlt: "walnut dining", ready: true, moisturePct: 9 });
+    expect(walnut).toMatchObject({
+      town: "Lakemont",
+      speciesSlug: "black-walnut",
+      features: ["crotch", "figure"],
+      photoAlt: "walnut dining",
+      ready: true,
+      moisturePct: 9,
+    });
     expect(walnut.photoUrl).toMatch(/\/api\/v1\/photos\/.+\/small\.webp$/);
     expect((await request(ctx.app).get(walnut.photoUrl)).status).toBe(200);
   });
@@ -115,7 +194,9 @@ describe("catalogue search", () => {
     expect(low).toEqual([...low].sort((a, b) => a - b));
     const high = (await search("sort=price_high")).body.results.map((r: { priceMinor: number }) => r.priceMinor);
     expect(high).toEqual([...high].sort((a, b) => b - a));
-    const perFoot = (await search("sort=price_per_board_foot")).body.results.map((r: { pricePerBoardFootMinor: number }) => r.pricePerBoardFootMinor);
+    const perFoot = (await search("sort=price_per_board_foot")).body.results.map(
+      (r: { pricePerBoardFootMinor: number }) => r.pricePerBoardFootMinor,
+    );
     expect(perFoot).toEqual([...perFoot].sort((a, b) => a - b));
     const largest = (await search("sort=largest")).body.results.map((r: { boardFeet: number }) => r.boardFeet);
     expect(largest).toEqual([...largest].sort((a, b) => b - a));
@@ -154,7 +235,10 @@ describe("catalogue search", () => {
     for (const [query, field] of cases) {
       const res = await search(query);
       expect(res.status, query).toBe(422);
-      expect(Object.keys(res.body.error.fields).some((key) => key === field || key.startsWith(`${field}.`)), query).toBe(true);
+      expect(
+        Object.keys(res.body.error.fields).some((key) => key === field || key.startsWith(`${field}.`)),
+        query,
+      ).toBe(true);
     }
     const town = await search("near=Atlantis-under-the-sea");
     expect(town.status).toBe(422);
@@ -177,7 +261,11 @@ describe("catalogue search", () => {
     expect(titles(await search("species=white-ash"))).toEqual(["ash board"]);
     expect((await search("species=white-ash&ready=1")).body.total).toBe(0);
     const detail = await request(ctx.app).get(`/api/v1/catalogue/${id}`);
-    await sawyer.post(`/api/v1/yard/slabs/${detail.body.slabs[0].id}/readings`, { readOn: "2025-09-01", moistureContentPct: 8, method: "oven_dry" });
+    await sawyer.post(`/api/v1/yard/slabs/${detail.body.slabs[0].id}/readings`, {
+      readOn: "2025-09-01",
+      moistureContentPct: 8,
+      method: "oven_dry",
+    });
     expect(titles(await search("species=white-ash&ready=1"))).toEqual(["ash board"]);
     await sawyer.post(`/api/v1/yard/listings/${id}/withdraw`);
     expect((await search("species=white-ash")).body.total).toBe(0);
@@ -220,10 +308,16 @@ describe("fits my table", () => {
       { lengthMm: 1400, widthMm: 300, thicknessMm: 60 },
     ];
     for (const top of tops) {
-      const found = new Set(titles(await search(`fitLength=${top.lengthMm}&fitWidth=${top.widthMm}&fitThickness=${top.thicknessMm}&limit=60`)));
+      const found = new Set(
+        titles(await search(`fitLength=${top.lengthMm}&fitWidth=${top.widthMm}&fitThickness=${top.thicknessMm}&limit=60`)),
+      );
       for (const card of all) {
         const detail = (await request(ctx.app).get(`/api/v1/catalogue/${card.listingId}`)).body;
-        const slabs = detail.slabs.map((s: { lengthMm: number; thicknessMm: number; widthStationsMm: number[] }) => ({ lengthMm: s.lengthMm, thicknessMm: s.thicknessMm, widthStationsMm: s.widthStationsMm }));
+        const slabs = detail.slabs.map((s: { lengthMm: number; thicknessMm: number; widthStationsMm: number[] }) => ({
+          lengthMm: s.lengthMm,
+          thicknessMm: s.thicknessMm,
+          widthStationsMm: s.widthStationsMm,
+        }));
         const expected = slabs.length === 1 ? tableFit(slabs[0], top) : gluedTableFit(slabs, top);
         expect(found.has(card.title), `${card.title} for ${JSON.stringify(top)}`).toBe(expected.fits);
       }
@@ -252,8 +346,17 @@ describe("slab page", () => {
 
   it("hides a listing that is not live, except from its sawyer and admins", async () => {
     const sawyer = await ctx.signedInClient("sawyer");
-    const made = (await sawyer.post("/api/v1/yard/slabs", { ...slab("black-walnut", 2000, 50, [500, 500]), liveEdge: "both", surfacing: "flattened", dryingMethod: "kiln" })).body.slab;
-    const draft = (await sawyer.post("/api/v1/yard/listings", { title: "Not yet", slabIds: [made.id], priceMode: "fixed", rateMinor: 9000 })).body.listing;
+    const made = (
+      await sawyer.post("/api/v1/yard/slabs", {
+        ...slab("black-walnut", 2000, 50, [500, 500]),
+        liveEdge: "both",
+        surfacing: "flattened",
+        dryingMethod: "kiln",
+      })
+    ).body.slab;
+    const draft = (
+      await sawyer.post("/api/v1/yard/listings", { title: "Not yet", slabIds: [made.id], priceMode: "fixed", rateMinor: 9000 })
+    ).body.listing;
     expect((await request(ctx.app).get(`/api/v1/catalogue/${draft.id}`)).status).toBe(404);
     expect((await sawyer.get(`/api/v1/catalogue/${draft.id}`)).status).toBe(200);
     expect((await admin.get(`/api/v1/catalogue/${draft.id}`)).status).toBe(200);

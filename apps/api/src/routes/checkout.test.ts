@@ -5,7 +5,13 @@ import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { signatureHeader, type PaymentsFakeApp } from "@grainyard/payments-fake";
 import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
-import { expectLedgerBalanced, listenForWebhooks, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
+import {
+  expectLedgerBalanced,
+  listenForWebhooks,
+  startPaymentsFake,
+  until,
+  type TestPaymentsFake,
+} from "../test-support/payments-harness.ts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -16,7 +22,6 @@ const WEBHOOK_SECRET = "whsec_checkout_test";
 let payments: TestPaymentsFake;
 let webhookUrl = "";
 let fake: PaymentsFakeApp;
-let fakeServer: Server;
 let apiServer: Server;
 let ctx: TestContext;
 const clock = testClock();
@@ -26,16 +31,43 @@ let photo: Buffer;
 let fakeBase = "";
 
 async function liveListing(priceMinor = 120_000) {
-  const slab = (await sawyer.post("/api/v1/yard/slabs", { speciesSlug: "black-cherry", lengthMm: 2000, thicknessMm: 45, widthStationsMm: [600, 580], liveEdge: "both", surfacing: "sanded", dryingMethod: "kiln" })).body.slab;
-  const listing = (await sawyer.post("/api/v1/yard/listings", { title: `Cherry top ${Math.random().toString(36).slice(2, 6)}`, slabIds: [slab.id], priceMode: "fixed", rateMinor: priceMinor, freight: true })).body.listing;
-  await sawyer.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+  const slab = (
+    await sawyer.post("/api/v1/yard/slabs", {
+      speciesSlug: "black-cherry",
+      lengthMm: 2000,
+      thicknessMm: 45,
+      widthStationsMm: [600, 580],
+      liveEdge: "both",
+      surfacing: "sanded",
+      dryingMethod: "kiln",
+    })
+  ).body.slab;
+  const listing = (
+    await sawyer.post("/api/v1/yard/listings", {
+      title: `Cherry top ${Math.random().toString(36).slice(2, 6)}`,
+      slabIds: [slab.id],
+      priceMode: "fixed",
+      rateMinor: priceMinor,
+      freight: true,
+    })
+  ).body.listing;
+  await sawyer.agent
+    .post(`/api/v1/yard/listings/${listing.id}/photos`)
+    .set("x-csrf-token", sawyer.csrfToken)
+    .set("content-type", "image/jpeg")
+    .send(photo);
   await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
   await admin.post(`/api/v1/admin/listings/${listing.id}/approve`);
   return listing.id as string;
 }
 
 async function pay(checkoutUrl: string, card: string) {
-  return fetch(checkoutUrl, { method: "POST", headers: { "content-type": "application/x-www-form-urlencoded" }, body: new URLSearchParams({ card, expiry: "12/34", cvc: "123" }), redirect: "manual" });
+  return fetch(checkoutUrl, {
+    method: "POST",
+    headers: { "content-type": "application/x-www-form-urlencoded" },
+    body: new URLSearchParams({ card, expiry: "12/34", cvc: "123" }),
+    redirect: "manual",
+  });
 }
 
 const listingStatus = async (id: string) => (await ctx.dataSource.getRepository(ListingEntity).findOneByOrFail({ id })).status;
@@ -44,7 +76,7 @@ const ledgerSumsToZero = () => expectLedgerBalanced(ctx.dataSource);
 
 beforeAll(async () => {
   payments = await startPaymentsFake({ secretKey: "sk_test_checkout", webhookSecret: WEBHOOK_SECRET });
-  ({ fake, server: fakeServer } = payments);
+  ({ fake } = payments);
   fakeBase = payments.base;
   ctx = await createTestContext({
     clock,
@@ -54,7 +86,9 @@ beforeAll(async () => {
   fake.webhooks.options.url = webhookUrl;
   sawyer = await ctx.signedInClient("sawyer");
   admin = await ctx.signedInClient("admin");
-  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a4f32" } }).jpeg().toBuffer();
+  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a4f32" } })
+    .jpeg()
+    .toBuffer();
 }, 60_000);
 afterEach(async () => ledgerSumsToZero());
 afterAll(async () => {
@@ -71,7 +105,13 @@ describe("buying a slab", () => {
     expect(res.status).toBe(201);
     expect(res.body.checkoutUrl.startsWith(`${fakeBase}/pay/`)).toBe(true);
     // Tax 8 % of 1 200.00 = 96.00 (half-up once); total 1 296.00.
-    expect(res.body.order).toMatchObject({ status: "awaiting_payment", priceMinor: 120_000, taxMinor: 9_600, totalMinor: 129_600, sawyerShare: null });
+    expect(res.body.order).toMatchObject({
+      status: "awaiting_payment",
+      priceMinor: 120_000,
+      taxMinor: 9_600,
+      totalMinor: 129_600,
+      sawyerShare: null,
+    });
     expect(await listingStatus(listingId)).toBe("reserved");
     expect((await request(ctx.app).get(`/api/v1/catalogue/${listingId}`)).body.listing.status).toBe("reserved");
 
@@ -87,7 +127,9 @@ describe("buying a slab", () => {
 
     const entries = await ctx.dataSource.getRepository(LedgerEntryEntity).findBy({ orderId: res.body.order.id });
     expect(entries.reduce((sum, e) => sum + e.amountMinor, 0)).toBe(0);
-    expect(entries.find((e) => e.account === `sawyer:${sawyer.account.id}`)!.amountMinor).toBe(-(await orderOf(res.body.order.id)).sawyerNetMinor);
+    expect(entries.find((e) => e.account === `sawyer:${sawyer.account.id}`)!.amountMinor).toBe(
+      -(await orderOf(res.body.order.id)).sawyerNetMinor,
+    );
     expect(entries.every((e) => Number.isInteger(e.amountMinor))).toBe(true);
     await until(async () => (await mailTo(buyer.account.email)).some((m) => /your order/i.test(m.subject)));
     await until(async () => (await mailTo(sawyer.account.email)).some((m) => /^sold/i.test(m.subject)));
@@ -112,7 +154,10 @@ describe("buying a slab", () => {
   it("handles every webhook three times and out of order: one paid order, one set of ledger entries", async () => {
     const listingId = await liveListing(64_000);
     const buyer = await ctx.signedInClient("buyer");
-    const { body } = await buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "freight", deliveryAddress: "14 Quarry Lane, Cedar Hollow" });
+    const { body } = await buyer.post(`/api/v1/listings/${listingId}/checkout`, {
+      handover: "freight",
+      deliveryAddress: "14 Quarry Lane, Cedar Hollow",
+    });
     fake.webhooks.options.copies = 3;
     fake.webhooks.options.shuffle = true;
     try {
@@ -132,13 +177,26 @@ describe("buying a slab", () => {
     const listingId = await liveListing(50_000);
     const buyer = await ctx.signedInClient("buyer");
     const { body } = await buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" });
-    const forged = JSON.stringify({ id: "evt_forged", object: "event", type: "checkout.session.completed", data: { object: { id: "cs_x", metadata: { order_id: body.order.id }, payment_intent: "pi_x" } } });
+    const forged = JSON.stringify({
+      id: "evt_forged",
+      object: "event",
+      type: "checkout.session.completed",
+      data: { object: { id: "cs_x", metadata: { order_id: body.order.id }, payment_intent: "pi_x" } },
+    });
     const unsigned = await request(ctx.app).post("/api/v1/payments/webhook").set("content-type", "application/json").send(forged);
     expect(unsigned.status).toBe(400);
-    const wrongKey = await request(ctx.app).post("/api/v1/payments/webhook").set("content-type", "application/json").set("stripe-signature", signatureHeader(forged, "whsec_not_ours")).send(forged);
+    const wrongKey = await request(ctx.app)
+      .post("/api/v1/payments/webhook")
+      .set("content-type", "application/json")
+      .set("stripe-signature", signatureHeader(forged, "whsec_not_ours"))
+      .send(forged);
     expect(wrongKey.status).toBe(400);
     const signed = signatureHeader(forged, WEBHOOK_SECRET);
-    const tampered = await request(ctx.app).post("/api/v1/payments/webhook").set("content-type", "application/json").set("stripe-signature", signed).send(forged.replace("cs_x", "cs_y"));
+    const tampered = await request(ctx.app)
+      .post("/api/v1/payments/webhook")
+      .set("content-type", "application/json")
+      .set("stripe-signature", signed)
+      .send(forged.replace("cs_x", "cs_y"));
     expect(tampered.status).toBe(400);
     expect((await orderOf(body.order.id)).status).toBe("awaiting_payment");
     expect(await listingStatus(listingId)).toBe("reserved");
@@ -177,9 +235,25 @@ describe("buying a slab", () => {
     try {
       const seller = await down.signedInClient("sawyer");
       const downAdmin = await down.signedInClient("admin");
-      const slab = (await seller.post("/api/v1/yard/slabs", { speciesSlug: "black-cherry", lengthMm: 2000, thicknessMm: 45, widthStationsMm: [600, 580], liveEdge: "both", surfacing: "sanded", dryingMethod: "kiln" })).body.slab;
-      const listing = (await seller.post("/api/v1/yard/listings", { title: "Provider down", slabIds: [slab.id], priceMode: "fixed", rateMinor: 20_000 })).body.listing;
-      await seller.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", seller.csrfToken).set("content-type", "image/jpeg").send(photo);
+      const slab = (
+        await seller.post("/api/v1/yard/slabs", {
+          speciesSlug: "black-cherry",
+          lengthMm: 2000,
+          thicknessMm: 45,
+          widthStationsMm: [600, 580],
+          liveEdge: "both",
+          surfacing: "sanded",
+          dryingMethod: "kiln",
+        })
+      ).body.slab;
+      const listing = (
+        await seller.post("/api/v1/yard/listings", { title: "Provider down", slabIds: [slab.id], priceMode: "fixed", rateMinor: 20_000 })
+      ).body.listing;
+      await seller.agent
+        .post(`/api/v1/yard/listings/${listing.id}/photos`)
+        .set("x-csrf-token", seller.csrfToken)
+        .set("content-type", "image/jpeg")
+        .send(photo);
       await seller.post(`/api/v1/yard/listings/${listing.id}/submit`);
       await downAdmin.post(`/api/v1/admin/listings/${listing.id}/approve`);
       const buyer = await down.signedInClient("buyer");

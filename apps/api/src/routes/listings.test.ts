@@ -41,7 +41,10 @@ async function newSlab(client: BrowserClient, overrides: Record<string, unknown>
 async function phonePhoto(): Promise<Buffer> {
   return sharp({ create: { width: 1200, height: 800, channels: 3, background: { r: 150, g: 98, b: 60 } } })
     .jpeg({ quality: 85 })
-    .withExif({ IFD0: { Make: "YardPhone" }, IFD3: { GPSLatitudeRef: "N", GPSLatitude: "45/1 30/1 1234/100", GPSLongitudeRef: "W", GPSLongitude: "122/1 40/1 5678/100" } })
+    .withExif({
+      IFD0: { Make: "YardPhone" },
+      IFD3: { GPSLatitudeRef: "N", GPSLatitude: "45/1 30/1 1234/100", GPSLongitudeRef: "W", GPSLongitude: "122/1 40/1 5678/100" },
+    })
     .toBuffer();
 }
 
@@ -56,7 +59,13 @@ function upload(client: BrowserClient, listingId: string, bytes: Buffer, content
 describe("listing figures", () => {
   it("prices per board foot on the server and splits the fees so they sum to the price", async () => {
     const slab = await newSlab(sawyer);
-    const res = await sawyer.post("/api/v1/yard/listings", { title: "Walnut slab, 8 ft", slabIds: [slab.id], priceMode: "per_board_foot", rateMinor: 1200, figures: { priceMinor: 1 } });
+    const res = await sawyer.post("/api/v1/yard/listings", {
+      title: "Walnut slab, 8 ft",
+      slabIds: [slab.id],
+      priceMode: "per_board_foot",
+      rateMinor: 1200,
+      figures: { priceMinor: 1 },
+    });
     expect(res.status).toBe(201);
     const { figures, status } = res.body.listing;
     expect(status).toBe("draft");
@@ -73,16 +82,28 @@ describe("listing figures", () => {
 
   it("prices per cubic metre and as a fixed price", async () => {
     const slab = await newSlab(sawyer);
-    const perVolume = await sawyer.post("/api/v1/yard/listings", { title: "Per volume", slabIds: [slab.id], priceMode: "per_cubic_metre", rateMinor: 500_000 });
+    const perVolume = await sawyer.post("/api/v1/yard/listings", {
+      title: "Per volume",
+      slabIds: [slab.id],
+      priceMode: "per_cubic_metre",
+      rateMinor: 500_000,
+    });
     expect(perVolume.body.listing.figures.priceMinor).toBe(Math.round(slab.figures.volumeM3 * 500_000));
     const slab2 = await newSlab(sawyer);
-    const fixed = await sawyer.post("/api/v1/yard/listings", { title: "Fixed price", slabIds: [slab2.id], priceMode: "fixed", rateMinor: 45_000 });
+    const fixed = await sawyer.post("/api/v1/yard/listings", {
+      title: "Fixed price",
+      slabIds: [slab2.id],
+      priceMode: "fixed",
+      rateMinor: 45_000,
+    });
     expect(fixed.body.listing.figures.priceMinor).toBe(45_000);
   });
 
   it("follows a slab's new figures while the listing is a draft", async () => {
     const slab = await newSlab(sawyer);
-    const listing = (await sawyer.post("/api/v1/yard/listings", { title: "Follows", slabIds: [slab.id], priceMode: "per_board_foot", rateMinor: 1000 })).body.listing;
+    const listing = (
+      await sawyer.post("/api/v1/yard/listings", { title: "Follows", slabIds: [slab.id], priceMode: "per_board_foot", rateMinor: 1000 })
+    ).body.listing;
     await sawyer.patch(`/api/v1/yard/slabs/${slab.id}`, { thicknessMm: 152 });
     const after = (await sawyer.get(`/api/v1/yard/listings/${listing.id}`)).body.listing;
     expect(after.figures.priceMinor / listing.figures.priceMinor).toBeCloseTo(2, 1);
@@ -91,37 +112,89 @@ describe("listing figures", () => {
 
 describe("sets and slab rules", () => {
   it("sells neighbouring slabs of one log as a bookmatched pair, and refuses mismatched sets", async () => {
-    const log = (await sawyer.post("/api/v1/yard/logs", { speciesSlug: "black-walnut", siteTown: "Lakemont", siteKind: "park", fellingReason: "disease" })).body.log;
-    const [one, two, four] = [await newSlab(sawyer, { logId: log.id, sequenceInLog: 1 }), await newSlab(sawyer, { logId: log.id, sequenceInLog: 2 }), await newSlab(sawyer, { logId: log.id, sequenceInLog: 4 })];
+    const log = (
+      await sawyer.post("/api/v1/yard/logs", {
+        speciesSlug: "black-walnut",
+        siteTown: "Lakemont",
+        siteKind: "park",
+        fellingReason: "disease",
+      })
+    ).body.log;
+    const [one, two, four] = [
+      await newSlab(sawyer, { logId: log.id, sequenceInLog: 1 }),
+      await newSlab(sawyer, { logId: log.id, sequenceInLog: 2 }),
+      await newSlab(sawyer, { logId: log.id, sequenceInLog: 4 }),
+    ];
     const loose = await newSlab(sawyer);
-    const pair = await sawyer.post("/api/v1/yard/listings", { title: "Bookmatched walnut pair", slabIds: [one.id, two.id], setKind: "bookmatched", priceMode: "fixed", rateMinor: 180_000 });
+    const pair = await sawyer.post("/api/v1/yard/listings", {
+      title: "Bookmatched walnut pair",
+      slabIds: [one.id, two.id],
+      setKind: "bookmatched",
+      priceMode: "fixed",
+      rateMinor: 180_000,
+    });
     expect(pair.status).toBe(201);
     expect(pair.body.listing.slabs.map((s: { sequenceInLog: number }) => s.sequenceInLog)).toEqual([1, 2]);
-    const gap = await sawyer.post("/api/v1/yard/listings", { title: "Not neighbours", slabIds: [two.id, four.id], setKind: "sequential", priceMode: "fixed", rateMinor: 1000 });
+    const gap = await sawyer.post("/api/v1/yard/listings", {
+      title: "Not neighbours",
+      slabIds: [two.id, four.id],
+      setKind: "sequential",
+      priceMode: "fixed",
+      rateMinor: 1000,
+    });
     expect(gap.status).toBe(409); // slab two is already in the pair
-    const mixed = await sawyer.post("/api/v1/yard/listings", { title: "Mixed logs", slabIds: [four.id, loose.id], setKind: "sequential", priceMode: "fixed", rateMinor: 1000 });
+    const mixed = await sawyer.post("/api/v1/yard/listings", {
+      title: "Mixed logs",
+      slabIds: [four.id, loose.id],
+      setKind: "sequential",
+      priceMode: "fixed",
+      rateMinor: 1000,
+    });
     expect(mixed.status).toBe(422);
     expect(mixed.body.error.fields.slabIds).toMatch(/one log/);
-    const three = await sawyer.post("/api/v1/yard/listings", { title: "Three in a pair", slabIds: [one.id, two.id, four.id], setKind: "bookmatched", priceMode: "fixed", rateMinor: 1000 });
+    const three = await sawyer.post("/api/v1/yard/listings", {
+      title: "Three in a pair",
+      slabIds: [one.id, two.id, four.id],
+      setKind: "bookmatched",
+      priceMode: "fixed",
+      rateMinor: 1000,
+    });
     expect(three.status).toBe(422);
   });
 
   it("refuses another yard's slab, and a slab already listed", async () => {
     const theirs = await newSlab(otherSawyer);
-    expect((await sawyer.post("/api/v1/yard/listings", { title: "Not mine", slabIds: [theirs.id], priceMode: "fixed", rateMinor: 1000 })).status).toBe(403);
+    expect(
+      (await sawyer.post("/api/v1/yard/listings", { title: "Not mine", slabIds: [theirs.id], priceMode: "fixed", rateMinor: 1000 })).status,
+    ).toBe(403);
     const mine = await newSlab(sawyer);
-    expect((await sawyer.post("/api/v1/yard/listings", { title: "First", slabIds: [mine.id], priceMode: "fixed", rateMinor: 1000 })).status).toBe(201);
+    expect(
+      (await sawyer.post("/api/v1/yard/listings", { title: "First", slabIds: [mine.id], priceMode: "fixed", rateMinor: 1000 })).status,
+    ).toBe(201);
     const second = await sawyer.post("/api/v1/yard/listings", { title: "Second", slabIds: [mine.id], priceMode: "fixed", rateMinor: 1000 });
     expect(second.status).toBe(409);
     expect(second.body.error.code).toBe("slab_already_listed");
-    expect((await sawyer.post("/api/v1/yard/listings", { title: "No way out", slabIds: [mine.id], priceMode: "fixed", rateMinor: 1000, pickup: false, freight: false })).body.error.fields.pickup).toBeTruthy();
+    expect(
+      (
+        await sawyer.post("/api/v1/yard/listings", {
+          title: "No way out",
+          slabIds: [mine.id],
+          priceMode: "fixed",
+          rateMinor: 1000,
+          pickup: false,
+          freight: false,
+        })
+      ).body.error.fields.pickup,
+    ).toBeTruthy();
   });
 });
 
 describe("photos", () => {
   it("stores the original privately and serves WebP sizes with no EXIF or GPS", async () => {
     const slab = await newSlab(sawyer);
-    const listing = (await sawyer.post("/api/v1/yard/listings", { title: "Photo check", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })).body.listing;
+    const listing = (
+      await sawyer.post("/api/v1/yard/listings", { title: "Photo check", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })
+    ).body.listing;
     const input = await phonePhoto();
     expect(exifReader((await sharp(input).metadata()).exif!).GPSInfo?.GPSLatitude).toEqual([45, 30, 12.34]); // the input really carries GPS
     const res = await upload(sawyer, listing.id, input);
@@ -129,11 +202,14 @@ describe("photos", () => {
     expect(res.body.photo).toMatchObject({ altText: "Top face, oiled", position: 0, width: 1200, height: 800 });
 
     // Read back what is served and what is stored: no metadata in either.
-    const served = await sawyer.agent.get(res.body.photo.largeUrl).buffer(true).parse((r, done) => {
-      const chunks: Buffer[] = [];
-      r.on("data", (c: Buffer) => chunks.push(c));
-      r.on("end", () => done(null, Buffer.concat(chunks)));
-    });
+    const served = await sawyer.agent
+      .get(res.body.photo.largeUrl)
+      .buffer(true)
+      .parse((r, done) => {
+        const chunks: Buffer[] = [];
+        r.on("data", (c: Buffer) => chunks.push(c));
+        r.on("end", () => done(null, Buffer.concat(chunks)));
+      });
     expect(served.status).toBe(200);
     expect(served.headers["content-type"]).toBe("image/webp");
     const meta = await sharp(served.body as Buffer).metadata();
@@ -144,8 +220,13 @@ describe("photos", () => {
 
     const storage = createPhotoStorage(ctx.config.storage);
     const listed = await storage.client.send(new ListObjectsV2Command({ Bucket: storage.bucket, Prefix: `display/${listing.id}/` }));
-    expect(listed.Contents?.map((o) => o.Key).sort()).toEqual([`display/${listing.id}/${res.body.photo.id}/large.webp`, `display/${listing.id}/${res.body.photo.id}/small.webp`]);
-    const small = await storage.client.send(new GetObjectCommand({ Bucket: storage.bucket, Key: `display/${listing.id}/${res.body.photo.id}/small.webp` }));
+    expect(listed.Contents?.map((o) => o.Key).sort()).toEqual([
+      `display/${listing.id}/${res.body.photo.id}/large.webp`,
+      `display/${listing.id}/${res.body.photo.id}/small.webp`,
+    ]);
+    const small = await storage.client.send(
+      new GetObjectCommand({ Bucket: storage.bucket, Key: `display/${listing.id}/${res.body.photo.id}/small.webp` }),
+    );
     const smallBytes = Buffer.from(await small.Body!.transformToByteArray());
     const smallMeta = await sharp(smallBytes).metadata();
     expect(Math.max(smallMeta.width!, smallMeta.height!)).toBe(400);
@@ -160,11 +241,20 @@ describe("photos", () => {
 
   it("refuses files that are not photos by their bytes, and stores nothing for them", async () => {
     const slab = await newSlab(sawyer);
-    const listing = (await sawyer.post("/api/v1/yard/listings", { title: "Bad files", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })).body.listing;
+    const listing = (
+      await sawyer.post("/api/v1/yard/listings", { title: "Bad files", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })
+    ).body.listing;
     const text = await upload(sawyer, listing.id, Buffer.from("this is a shopping list, not a photo"), "image/jpeg");
     expect(text.status).toBe(422);
     expect(text.body.error.code).toBe("not_an_image");
-    const gif = await upload(sawyer, listing.id, await sharp({ create: { width: 20, height: 20, channels: 3, background: "red" } }).gif().toBuffer(), "image/gif");
+    const gif = await upload(
+      sawyer,
+      listing.id,
+      await sharp({ create: { width: 20, height: 20, channels: 3, background: "red" } })
+        .gif()
+        .toBuffer(),
+      "image/gif",
+    );
     expect(gif.body.error.code).toBe("unsupported_format");
     const huge = await upload(sawyer, listing.id, Buffer.alloc(26 * 1024 * 1024, 0xff), "image/jpeg");
     expect(huge.status).toBe(413);
@@ -181,7 +271,9 @@ describe("photos", () => {
     try {
       const client = await down.signedInClient("sawyer");
       const slab = (await client.post("/api/v1/yard/slabs", slabBase)).body.slab;
-      const listing = (await client.post("/api/v1/yard/listings", { title: "Storage down", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })).body.listing;
+      const listing = (
+        await client.post("/api/v1/yard/listings", { title: "Storage down", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })
+      ).body.listing;
       const res = await upload(client, listing.id, await phonePhoto());
       expect(res.status).toBe(503);
       expect(res.body.error.code).toBe("storage_unavailable");
@@ -193,13 +285,20 @@ describe("photos", () => {
 
   it("reorders photos, changes alt text and removes a photo; other yards cannot", async () => {
     const slab = await newSlab(sawyer);
-    const listing = (await sawyer.post("/api/v1/yard/listings", { title: "Order", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })).body.listing;
+    const listing = (
+      await sawyer.post("/api/v1/yard/listings", { title: "Order", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })
+    ).body.listing;
     const a = (await upload(sawyer, listing.id, await phonePhoto(), "image/jpeg", "first")).body.photo;
     const b = (await upload(sawyer, listing.id, await phonePhoto(), "image/jpeg", "second")).body.photo;
     expect((await upload(otherSawyer, listing.id, await phonePhoto())).status).toBe(403);
-    const reordered = await sawyer.agent.put(`/api/v1/yard/listings/${listing.id}/photo-order`).set("x-csrf-token", sawyer.csrfToken).send({ photoIds: [b.id, a.id] });
+    const reordered = await sawyer.agent
+      .put(`/api/v1/yard/listings/${listing.id}/photo-order`)
+      .set("x-csrf-token", sawyer.csrfToken)
+      .send({ photoIds: [b.id, a.id] });
     expect(reordered.body.photos.map((p: { id: string }) => p.id)).toEqual([b.id, a.id]);
-    expect((await sawyer.patch(`/api/v1/yard/listings/${listing.id}/photos/${a.id}`, { altText: "End grain" })).body.photo.altText).toBe("End grain");
+    expect((await sawyer.patch(`/api/v1/yard/listings/${listing.id}/photos/${a.id}`, { altText: "End grain" })).body.photo.altText).toBe(
+      "End grain",
+    );
     expect((await sawyer.delete(`/api/v1/yard/listings/${listing.id}/photos/${b.id}`)).status).toBe(204);
     const after = (await sawyer.get(`/api/v1/yard/listings/${listing.id}`)).body.listing;
     expect(after.photos.map((p: { id: string; altText: string }) => [p.id, p.altText])).toEqual([[a.id, "End grain"]]);
@@ -209,7 +308,14 @@ describe("photos", () => {
 describe("review flow", () => {
   it("draft → review → sent back with a reason → edited → resubmitted → live, with e-mails; measurements lock while live", async () => {
     const slab = await newSlab(sawyer);
-    const listing = (await sawyer.post("/api/v1/yard/listings", { title: "Walnut for review", slabIds: [slab.id], priceMode: "per_board_foot", rateMinor: 1500 })).body.listing;
+    const listing = (
+      await sawyer.post("/api/v1/yard/listings", {
+        title: "Walnut for review",
+        slabIds: [slab.id],
+        priceMode: "per_board_foot",
+        rateMinor: 1500,
+      })
+    ).body.listing;
 
     const noPhoto = await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
     expect(noPhoto.status).toBe(422);
@@ -251,7 +357,9 @@ describe("review flow", () => {
   it("only a sawyer with a confirmed e-mail can submit", async () => {
     const unverified = await ctx.signedInClient("sawyer", { emailVerifiedAt: null });
     const slab = await newSlab(unverified);
-    const listing = (await unverified.post("/api/v1/yard/listings", { title: "Unverified", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })).body.listing;
+    const listing = (
+      await unverified.post("/api/v1/yard/listings", { title: "Unverified", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })
+    ).body.listing;
     await upload(unverified, listing.id, await phonePhoto());
     const res = await unverified.post(`/api/v1/yard/listings/${listing.id}/submit`);
     expect(res.status).toBe(403);
@@ -261,9 +369,20 @@ describe("review flow", () => {
 
 describe("log photos", () => {
   it("stores a log's photos without metadata, shows them with the slab page once a slab from the log is live", async () => {
-    const log = (await sawyer.post("/api/v1/yard/logs", { speciesSlug: "black-walnut", siteTown: "Lakemont", siteKind: "private_yard", fellingReason: "hazard" })).body.log;
+    const log = (
+      await sawyer.post("/api/v1/yard/logs", {
+        speciesSlug: "black-walnut",
+        siteTown: "Lakemont",
+        siteKind: "private_yard",
+        fellingReason: "hazard",
+      })
+    ).body.log;
     const upload = (client: BrowserClient, bytes: Buffer) =>
-      client.agent.post(`/api/v1/yard/logs/${log.id}/photos?altText=${encodeURIComponent("The log on the trailer")}`).set("x-csrf-token", client.csrfToken).set("content-type", "image/jpeg").send(bytes);
+      client.agent
+        .post(`/api/v1/yard/logs/${log.id}/photos?altText=${encodeURIComponent("The log on the trailer")}`)
+        .set("x-csrf-token", client.csrfToken)
+        .set("content-type", "image/jpeg")
+        .send(bytes);
     const res = await upload(sawyer, await phonePhoto());
     expect(res.status).toBe(201);
     expect(res.body.photo.altText).toBe("The log on the trailer");
@@ -272,20 +391,34 @@ describe("log photos", () => {
     const detail = await sawyer.get(`/api/v1/yard/logs/${log.id}`);
     expect(detail.body.photos.map((p: { id: string }) => p.id)).toEqual([res.body.photo.id]);
 
-    const own = await sawyer.agent.get(res.body.photo.largeUrl).buffer(true).parse((r, done) => {
-      const chunks: Buffer[] = [];
-      r.on("data", (c: Buffer) => chunks.push(c));
-      r.on("end", () => done(null, Buffer.concat(chunks)));
-    });
+    const own = await sawyer.agent
+      .get(res.body.photo.largeUrl)
+      .buffer(true)
+      .parse((r, done) => {
+        const chunks: Buffer[] = [];
+        r.on("data", (c: Buffer) => chunks.push(c));
+        r.on("end", () => done(null, Buffer.concat(chunks)));
+      });
     expect(own.status).toBe(200);
     expect((await sharp(own.body as Buffer).metadata()).exif).toBeUndefined();
     // Nothing from this log is live yet: hidden from others.
     expect((await request(ctx.app).get(res.body.photo.smallUrl)).status).toBe(404);
 
     const slab = await newSlab(sawyer, { logId: log.id, sequenceInLog: 1 });
-    const listing = (await sawyer.post("/api/v1/yard/listings", { title: "Walnut from the yard tree", slabIds: [slab.id], priceMode: "fixed", rateMinor: 30_000 })).body.listing;
+    const listing = (
+      await sawyer.post("/api/v1/yard/listings", {
+        title: "Walnut from the yard tree",
+        slabIds: [slab.id],
+        priceMode: "fixed",
+        rateMinor: 30_000,
+      })
+    ).body.listing;
     await upload(sawyer, await phonePhoto()); // a second log photo
-    await sawyer.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(await phonePhoto());
+    await sawyer.agent
+      .post(`/api/v1/yard/listings/${listing.id}/photos`)
+      .set("x-csrf-token", sawyer.csrfToken)
+      .set("content-type", "image/jpeg")
+      .send(await phonePhoto());
     await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
     await admin.post(`/api/v1/admin/listings/${listing.id}/approve`);
     expect((await request(ctx.app).get(res.body.photo.smallUrl)).status).toBe(200);

@@ -16,7 +16,10 @@ interface RouteInfo {
 function registeredRoutes(app: unknown): RouteInfo[] {
   const found: RouteInfo[] = [];
   const walk = (stack: unknown[]) => {
-    for (const layer of stack as { route?: { path: string | string[]; methods: Record<string, boolean> }; handle?: { stack?: unknown[] } }[]) {
+    for (const layer of stack as {
+      route?: { path: string | string[]; methods: Record<string, boolean> };
+      handle?: { stack?: unknown[] };
+    }[]) {
       if (layer.route) {
         for (const path of ([] as string[]).concat(layer.route.path)) {
           for (const method of Object.keys(layer.route.methods)) found.push({ method: method.toUpperCase(), path });

@@ -1,7 +1,15 @@
 import sharp from "sharp";
 import { IsNull } from "typeorm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { AccountEntity, AuditEntryEntity, CatalogueEntryEntity, LedgerEntryEntity, ListingEntity, OrderEntity, SessionRecordEntity } from "../entities/index.ts";
+import {
+  AccountEntity,
+  AuditEntryEntity,
+  CatalogueEntryEntity,
+  LedgerEntryEntity,
+  ListingEntity,
+  OrderEntity,
+  SessionRecordEntity,
+} from "../entities/index.ts";
 import { median, weekStart } from "../services/dashboard-service.ts";
 import { createTestContext, mailTo, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
@@ -16,18 +24,42 @@ let sawyer: Signed;
 let buyer: Signed;
 let photo: Buffer;
 
-async function draftListing(owner: Signed, overrides: { title?: string; moisture?: number; dryingMethod?: string; rateMinor?: number } = {}) {
+async function draftListing(
+  owner: Signed,
+  overrides: { title?: string; moisture?: number; dryingMethod?: string; rateMinor?: number } = {},
+) {
   const slab = (
-    await owner.post("/api/v1/yard/slabs", { speciesSlug: "black-cherry", lengthMm: 2000, thicknessMm: 45, widthStationsMm: [600, 580], liveEdge: "both", surfacing: "sanded", dryingMethod: overrides.dryingMethod ?? "kiln" })
+    await owner.post("/api/v1/yard/slabs", {
+      speciesSlug: "black-cherry",
+      lengthMm: 2000,
+      thicknessMm: 45,
+      widthStationsMm: [600, 580],
+      liveEdge: "both",
+      surfacing: "sanded",
+      dryingMethod: overrides.dryingMethod ?? "kiln",
+    })
   ).body.slab;
   if (overrides.moisture !== undefined) {
-    const reading = await owner.post(`/api/v1/yard/slabs/${slab.id}/readings`, { readOn: "2026-10-01", moistureContentPct: overrides.moisture, method: "pin_meter" });
+    const reading = await owner.post(`/api/v1/yard/slabs/${slab.id}/readings`, {
+      readOn: "2026-10-01",
+      moistureContentPct: overrides.moisture,
+      method: "pin_meter",
+    });
     expect(reading.status).toBe(201);
   }
-  const created = await owner.post("/api/v1/yard/listings", { title: overrides.title ?? `Cherry top ${Math.random().toString(36).slice(2, 6)}`, slabIds: [slab.id], priceMode: "fixed", rateMinor: overrides.rateMinor ?? 90_000 });
+  const created = await owner.post("/api/v1/yard/listings", {
+    title: overrides.title ?? `Cherry top ${Math.random().toString(36).slice(2, 6)}`,
+    slabIds: [slab.id],
+    priceMode: "fixed",
+    rateMinor: overrides.rateMinor ?? 90_000,
+  });
   expect(created.status).toBe(201);
   const listing = created.body.listing;
-  await owner.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", owner.csrfToken).set("content-type", "image/jpeg").send(photo);
+  await owner.agent
+    .post(`/api/v1/yard/listings/${listing.id}/photos`)
+    .set("x-csrf-token", owner.csrfToken)
+    .set("content-type", "image/jpeg")
+    .send(photo);
   return { listingId: listing.id as string, slabId: slab.id as string };
 }
 async function submitted(owner: Signed, overrides: Parameters<typeof draftListing>[1] = {}) {
@@ -49,7 +81,9 @@ beforeAll(async () => {
   admin = (await ctx.signedInClient("admin")) as Signed;
   sawyer = (await ctx.signedInClient("sawyer")) as Signed;
   buyer = (await ctx.signedInClient("buyer")) as Signed;
-  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a4f32" } }).jpeg().toBuffer();
+  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a4f32" } })
+    .jpeg()
+    .toBuffer();
 }, 60_000);
 afterAll(async () => ctx?.close());
 
@@ -80,9 +114,13 @@ describe("moderation desk", () => {
     expect(sent.body.listing.status).toBe("sent_back");
     expect((await mailTo(sawyer.account.email)).some((m) => m.text.includes("Say which end has the crack."))).toBe(true);
 
-    expect((await sawyer.patch(`/api/v1/yard/listings/${listingId}`, { title: "Cherry top, crack at the north end", rateMinor: 85_000 })).status).toBe(200);
+    expect(
+      (await sawyer.patch(`/api/v1/yard/listings/${listingId}`, { title: "Cherry top, crack at the north end", rateMinor: 85_000 })).status,
+    ).toBe(200);
     expect((await sawyer.post(`/api/v1/yard/listings/${listingId}/submit`)).status).toBe(200);
-    const item = (await admin.get("/api/v1/admin/review-desk")).body.items.find((i: { listing: { id: string } }) => i.listing.id === listingId);
+    const item = (await admin.get("/api/v1/admin/review-desk")).body.items.find(
+      (i: { listing: { id: string } }) => i.listing.id === listingId,
+    );
     expect(item.lastReview).toMatchObject({ decision: "sent_back", reason: "Say which end has the crack." });
     expect(item.changes).toEqual([
       { field: "title", label: "Title", before: "Cherry top first try", after: "Cherry top, crack at the north end" },
@@ -97,7 +135,13 @@ describe("moderation desk", () => {
     expect(history.map((r: { decision: string }) => r.decision)).toEqual(["approved", "sent_back"]);
     const entries = await auditOf(listingId);
     expect(entries.map((e) => e.action)).toEqual(["listing.send_back", "listing.approve"]);
-    expect(entries[0]).toMatchObject({ actorId: admin.account.id, actorLabel: admin.account.email, before: { status: "in_review" }, after: { status: "sent_back" }, reason: "Say which end has the crack." });
+    expect(entries[0]).toMatchObject({
+      actorId: admin.account.id,
+      actorLabel: admin.account.email,
+      before: { status: "in_review" },
+      after: { status: "sent_back" },
+      reason: "Say which end has the crack.",
+    });
     // A second approval is refused and writes nothing.
     expect((await admin.post(`/api/v1/admin/listings/${listingId}/approve`)).status).toBe(409);
     expect(await auditOf(listingId)).toHaveLength(2);
@@ -110,7 +154,10 @@ describe("moderation desk", () => {
     expect(rejected.body.listing.status).toBe("rejected");
     expect((await mailTo(sawyer.account.email))[0]).toMatchObject({ subject: expect.stringMatching(/not accepted/) });
     expect((await sawyer.post(`/api/v1/yard/listings/${listingId}/submit`)).status).toBe(409);
-    expect((await sawyer.post("/api/v1/yard/listings", { title: "Cherry, second go", slabIds: [slabId], priceMode: "fixed", rateMinor: 50_000 })).status).toBe(201);
+    expect(
+      (await sawyer.post("/api/v1/yard/listings", { title: "Cherry, second go", slabIds: [slabId], priceMode: "fixed", rateMinor: 50_000 }))
+        .status,
+    ).toBe(201);
   });
 });
 
@@ -126,7 +173,9 @@ describe("audit log", () => {
     const pages: string[] = [];
     let cursor: string | null = null;
     do {
-      const page: { body: { entries: { id: string }[]; nextCursor: string | null } } = await admin.get(`/api/v1/admin/audit?limit=2${cursor ? `&cursor=${cursor}` : ""}`);
+      const page: { body: { entries: { id: string }[]; nextCursor: string | null } } = await admin.get(
+        `/api/v1/admin/audit?limit=2${cursor ? `&cursor=${cursor}` : ""}`,
+      );
       pages.push(...page.body.entries.map((e) => e.id));
       cursor = page.body.nextCursor;
     } while (cursor);
@@ -139,7 +188,9 @@ describe("audit log", () => {
     expect(byActor.body.entries).toHaveLength(total);
     expect((await admin.get(`/api/v1/admin/audit?actor=${admin.account.id}`)).body.entries).toHaveLength(total);
     const target = all.body.entries[0].targetId;
-    expect((await admin.get(`/api/v1/admin/audit?target=${target}`)).body.entries.every((e: { targetId: string }) => e.targetId === target)).toBe(true);
+    expect(
+      (await admin.get(`/api/v1/admin/audit?target=${target}`)).body.entries.every((e: { targetId: string }) => e.targetId === target),
+    ).toBe(true);
     const today = new Date().toISOString().slice(0, 10);
     expect((await admin.get(`/api/v1/admin/audit?from=${today}&to=${today}`)).body.entries).toHaveLength(total);
     expect((await admin.get("/api/v1/admin/audit?from=2020-01-01&to=2020-01-31")).body.entries).toHaveLength(0);
@@ -160,30 +211,55 @@ describe("audit log", () => {
 describe("reports and suspension", () => {
   it("anyone signed in reports a listing or a message; the admin dismisses or takes the listing down", async () => {
     const { listingId } = await liveListing(sawyer);
-    expect((await (await ctx.client()).post("/api/v1/reports", { targetKind: "listing", targetId: listingId, reason: "Looks copied." })).status).toBe(401);
+    expect(
+      (await (await ctx.client()).post("/api/v1/reports", { targetKind: "listing", targetId: listingId, reason: "Looks copied." })).status,
+    ).toBe(401);
     expect((await buyer.post("/api/v1/reports", { targetKind: "listing", targetId: listingId, reason: "" })).status).toBe(422);
-    const report = await buyer.post("/api/v1/reports", { targetKind: "listing", targetId: listingId, reason: "The photos are from another site." });
+    const report = await buyer.post("/api/v1/reports", {
+      targetKind: "listing",
+      targetId: listingId,
+      reason: "The photos are from another site.",
+    });
     expect(report.status).toBe(201);
-    expect((await buyer.post("/api/v1/reports", { targetKind: "listing", targetId: listingId, reason: "Again, the photos." })).status).toBe(409);
-    expect((await sawyer.post("/api/v1/reports", { targetKind: "listing", targetId: listingId, reason: "Reporting myself." })).status).toBe(422);
+    expect((await buyer.post("/api/v1/reports", { targetKind: "listing", targetId: listingId, reason: "Again, the photos." })).status).toBe(
+      409,
+    );
+    expect((await sawyer.post("/api/v1/reports", { targetKind: "listing", targetId: listingId, reason: "Reporting myself." })).status).toBe(
+      422,
+    );
 
     const thread = (await buyer.post(`/api/v1/listings/${listingId}/messages`, { body: "Is the crack stable?" })).body.thread;
     const answer = await sawyer.post(`/api/v1/threads/${thread.id}/messages`, { body: "Rude words here" });
     expect(answer.status).toBe(201);
     const messageId = String(answer.body.message.id);
     const outsider = (await ctx.signedInClient("buyer")) as Signed;
-    expect((await outsider.post("/api/v1/reports", { targetKind: "message", targetId: messageId, reason: "Not mine but rude." })).status).toBe(404);
-    const messageReport = await buyer.post("/api/v1/reports", { targetKind: "message", targetId: messageId, reason: "Rude answer to a question." });
+    expect(
+      (await outsider.post("/api/v1/reports", { targetKind: "message", targetId: messageId, reason: "Not mine but rude." })).status,
+    ).toBe(404);
+    const messageReport = await buyer.post("/api/v1/reports", {
+      targetKind: "message",
+      targetId: messageId,
+      reason: "Rude answer to a question.",
+    });
     expect(messageReport.status).toBe(201);
     expect(messageReport.body.report.excerpt).toBe("Rude words here");
 
     const queue = (await admin.get("/api/v1/admin/reports")).body.reports;
     expect(queue.map((r: { id: string }) => r.id)).toEqual([report.body.report.id, messageReport.body.report.id]);
-    const dismissed = await admin.post(`/api/v1/admin/reports/${messageReport.body.report.id}/resolve`, { resolution: "dismiss", note: "Blunt, not abusive." });
+    const dismissed = await admin.post(`/api/v1/admin/reports/${messageReport.body.report.id}/resolve`, {
+      resolution: "dismiss",
+      note: "Blunt, not abusive.",
+    });
     expect(dismissed.body.report.status).toBe("dismissed");
-    expect((await admin.post(`/api/v1/admin/reports/${messageReport.body.report.id}/resolve`, { resolution: "dismiss", note: "Again please." })).status).toBe(409);
+    expect(
+      (await admin.post(`/api/v1/admin/reports/${messageReport.body.report.id}/resolve`, { resolution: "dismiss", note: "Again please." }))
+        .status,
+    ).toBe(409);
 
-    const down = await admin.post(`/api/v1/admin/reports/${report.body.report.id}/resolve`, { resolution: "take_down", note: "Photos traced to another seller." });
+    const down = await admin.post(`/api/v1/admin/reports/${report.body.report.id}/resolve`, {
+      resolution: "take_down",
+      note: "Photos traced to another seller.",
+    });
     expect(down.body.report.status).toBe("listing_taken_down");
     expect(await statusOf(listingId)).toBe("taken_down");
     expect(await inCatalogue(listingId)).toBe(false);
@@ -205,8 +281,15 @@ describe("reports and suspension", () => {
     expect(order.status).toBe(201);
     expect(await statusOf(other.listingId)).toBe("reserved");
 
-    const report = await buyer.post("/api/v1/reports", { targetKind: "listing", targetId: live.listingId, reason: "Seller asks for payment outside Grainyard." });
-    const resolved = await admin.post(`/api/v1/admin/reports/${report.body.report.id}/resolve`, { resolution: "suspend", note: "Asked buyers to pay off the platform." });
+    const report = await buyer.post("/api/v1/reports", {
+      targetKind: "listing",
+      targetId: live.listingId,
+      reason: "Seller asks for payment outside Grainyard.",
+    });
+    const resolved = await admin.post(`/api/v1/admin/reports/${report.body.report.id}/resolve`, {
+      resolution: "suspend",
+      note: "Asked buyers to pay off the platform.",
+    });
     expect(resolved.body.report.status).toBe("user_suspended");
     expect(resolved.body.report.reported.suspended).toBe(true);
 
@@ -235,7 +318,9 @@ describe("reports and suspension", () => {
     expect(await statusOf(live.listingId)).toBe("live");
     expect(await inCatalogue(live.listingId)).toBe(true);
     expect(await statusOf(withdrawn.listingId)).toBe("withdrawn");
-    expect((await (await ctx.client()).post("/api/v1/session", { email: seller.account.email, password: seller.account.password })).status).toBe(200);
+    expect(
+      (await (await ctx.client()).post("/api/v1/session", { email: seller.account.email, password: seller.account.password })).status,
+    ).toBe(200);
     const entries = (await auditOf(seller.account.id)).map((e) => e.action);
     expect(entries).toEqual(["account.suspend", "account.restore"]);
     // Admins cannot be suspended from the desk, nor oneself.
@@ -251,14 +336,26 @@ describe("other admin actions", () => {
     expect((await admin.patch(`/api/v1/yards/${yard.account.id}`, { yardName: "Desk Rename Yard" })).status).toBe(200);
     const entries = await auditOf(yard.account.id);
     expect(entries).toHaveLength(1);
-    expect(entries[0]).toMatchObject({ action: "yard.update", actorId: admin.account.id, before: { yardName: "Own Rename Yard" }, after: { yardName: "Desk Rename Yard" } });
+    expect(entries[0]).toMatchObject({
+      action: "yard.update",
+      actorId: admin.account.id,
+      before: { yardName: "Own Rename Yard" },
+      after: { yardName: "Desk Rename Yard" },
+    });
   });
 });
 
 describe("marketplace settings", () => {
   it("defaults from the old constants and env; changes are validated, audited and used by listings and checkout", async () => {
     const initial = await admin.get("/api/v1/admin/settings");
-    expect(initial.body.settings).toEqual({ platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30, holdDays: 7, reservationMinutes: ctx.config.checkout.reservationMinutes, taxRateBps: ctx.config.checkout.taxRateBps });
+    expect(initial.body.settings).toEqual({
+      platformFeeBps: 1000,
+      processingFeeBps: 290,
+      processingFixedMinor: 30,
+      holdDays: 7,
+      reservationMinutes: ctx.config.checkout.reservationMinutes,
+      taxRateBps: ctx.config.checkout.taxRateBps,
+    });
     expect(initial.body.changedKeys).toEqual([]);
 
     const bad = await admin.patch("/api/v1/admin/settings", { platformFeeBps: 12.5, reservationMinutes: 1, reason: "Trying bad numbers." });
@@ -267,14 +364,30 @@ describe("marketplace settings", () => {
     expect((await admin.patch("/api/v1/admin/settings", { platformFeeBps: 800 })).status).toBe(422);
     expect((await admin.patch("/api/v1/admin/settings", { wizardFee: 1, reason: "Unknown setting." })).status).toBe(422);
 
-    const changed = await admin.patch("/api/v1/admin/settings", { platformFeeBps: 800, reservationMinutes: 30, taxRateBps: 500, reason: "Winter promotion for yards." });
+    const changed = await admin.patch("/api/v1/admin/settings", {
+      platformFeeBps: 800,
+      reservationMinutes: 30,
+      taxRateBps: 500,
+      reason: "Winter promotion for yards.",
+    });
     expect(changed.status).toBe(200);
     expect(changed.body.changedKeys).toEqual(["platformFeeBps", "reservationMinutes", "taxRateBps"]);
     const [entry] = await auditOf("marketplace");
-    expect(entry).toMatchObject({ action: "settings.update", before: { platformFeeBps: 1000, reservationMinutes: ctx.config.checkout.reservationMinutes, taxRateBps: ctx.config.checkout.taxRateBps }, after: { platformFeeBps: 800, reservationMinutes: 30, taxRateBps: 500 }, reason: "Winter promotion for yards." });
+    expect(entry).toMatchObject({
+      action: "settings.update",
+      before: {
+        platformFeeBps: 1000,
+        reservationMinutes: ctx.config.checkout.reservationMinutes,
+        taxRateBps: ctx.config.checkout.taxRateBps,
+      },
+      after: { platformFeeBps: 800, reservationMinutes: 30, taxRateBps: 500 },
+      reason: "Winter promotion for yards.",
+    });
 
     // The public fees follow at once, for the sawyer's listing-form preview.
-    expect((await sawyer.get("/api/v1/marketplace/fees")).body).toEqual({ fees: { platformFeeBps: 800, processingFeeBps: 290, processingFixedMinor: 30 } });
+    expect((await sawyer.get("/api/v1/marketplace/fees")).body).toEqual({
+      fees: { platformFeeBps: 800, processingFeeBps: 290, processingFixedMinor: 30 },
+    });
 
     // 8 % of 900.00 is 72.00 (slab-math feeBreakdown, basis points).
     const { listingId } = await draftListing(sawyer, { rateMinor: 90_000 });
@@ -308,7 +421,11 @@ describe("users", () => {
     const suspended = (await admin.get("/api/v1/admin/users?suspended=yes")).body.users;
     expect(suspended.length).toBeGreaterThanOrEqual(1);
     expect(suspended.every((u: { suspended: boolean }) => u.suspended)).toBe(true);
-    expect((await admin.get("/api/v1/admin/users?role=buyer")).body.users.every((u: { account: { role: string } }) => u.account.role === "buyer")).toBe(true);
+    expect(
+      (await admin.get("/api/v1/admin/users?role=buyer")).body.users.every(
+        (u: { account: { role: string } }) => u.account.role === "buyer",
+      ),
+    ).toBe(true);
     expect((await admin.get("/api/v1/admin/users?role=wizard")).status).toBe(422);
   });
 });
@@ -329,16 +446,60 @@ describe("dashboard", () => {
     // Money per week straight from the ledger: a payment (sums to zero) and a refund of the platform fee this week.
     const now = new Date();
     await ctx.dataSource.getRepository(LedgerEntryEntity).insert([
-      { orderId: null, account: "provider_clearing", amountMinor: 108_000, currency: "CAD", kind: "payment", providerEventId: null, createdAt: now },
-      { orderId: null, account: "platform_fees", amountMinor: -10_000, currency: "CAD", kind: "payment", providerEventId: null, createdAt: now },
-      { orderId: null, account: "tax_payable", amountMinor: -8_000, currency: "CAD", kind: "payment", providerEventId: null, createdAt: now },
+      {
+        orderId: null,
+        account: "provider_clearing",
+        amountMinor: 108_000,
+        currency: "CAD",
+        kind: "payment",
+        providerEventId: null,
+        createdAt: now,
+      },
+      {
+        orderId: null,
+        account: "platform_fees",
+        amountMinor: -10_000,
+        currency: "CAD",
+        kind: "payment",
+        providerEventId: null,
+        createdAt: now,
+      },
+      {
+        orderId: null,
+        account: "tax_payable",
+        amountMinor: -8_000,
+        currency: "CAD",
+        kind: "payment",
+        providerEventId: null,
+        createdAt: now,
+      },
       { orderId: null, account: "sawyer:x", amountMinor: -90_000, currency: "CAD", kind: "payment", providerEventId: null, createdAt: now },
-      { orderId: null, account: "platform_fees", amountMinor: 2_500, currency: "CAD", kind: "refund", providerEventId: null, createdAt: now },
-      { orderId: null, account: "provider_clearing", amountMinor: -2_500, currency: "CAD", kind: "refund", providerEventId: null, createdAt: now },
+      {
+        orderId: null,
+        account: "platform_fees",
+        amountMinor: 2_500,
+        currency: "CAD",
+        kind: "refund",
+        providerEventId: null,
+        createdAt: now,
+      },
+      {
+        orderId: null,
+        account: "provider_clearing",
+        amountMinor: -2_500,
+        currency: "CAD",
+        kind: "refund",
+        providerEventId: null,
+        createdAt: now,
+      },
     ]);
-    const money = (await admin.get("/api/v1/admin/dashboard")).body.dashboard.salesByWeek.filter((r: { currency: string }) => r.currency === "CAD");
+    const money = (await admin.get("/api/v1/admin/dashboard")).body.dashboard.salesByWeek.filter(
+      (r: { currency: string }) => r.currency === "CAD",
+    );
     expect(money).toEqual([{ week: weekStart(now), currency: "CAD", salesMinor: 108_000, platformRevenueMinor: 7_500 }]);
-    expect(d.suspendedUsers).toBe(await ctx.dataSource.getRepository(AccountEntity).createQueryBuilder("a").where("a.suspended_at IS NOT NULL").getCount());
+    expect(d.suspendedUsers).toBe(
+      await ctx.dataSource.getRepository(AccountEntity).createQueryBuilder("a").where("a.suspended_at IS NOT NULL").getCount(),
+    );
   });
 });
 

@@ -1,6 +1,12 @@
 import express, { Router, type Request, type Response } from "express";
 import type Stripe from "stripe";
-import { cancellationInputSchema, checkoutInputSchema, chooseWindowInputSchema, pickupWindowsInputSchema, shipmentInputSchema } from "@grainyard/contracts";
+import {
+  cancellationInputSchema,
+  checkoutInputSchema,
+  chooseWindowInputSchema,
+  pickupWindowsInputSchema,
+  shipmentInputSchema,
+} from "@grainyard/contracts";
 import { parse } from "../http/context.ts";
 import type { Payments } from "../integrations/payments.ts";
 import type { CheckoutService } from "../services/checkout-service.ts";

@@ -4,7 +4,13 @@ import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import type { PaymentsFakeApp } from "@grainyard/payments-fake";
 import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
-import { expectLedgerBalanced, listenForWebhooks, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
+import {
+  expectLedgerBalanced,
+  listenForWebhooks,
+  startPaymentsFake,
+  until,
+  type TestPaymentsFake,
+} from "../test-support/payments-harness.ts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -14,7 +20,6 @@ import { createTestContext, mailTo, testClock, type BrowserClient, type TestCont
  */
 const WEBHOOK_SECRET = "whsec_order_steps_test";
 let payments: TestPaymentsFake;
-let fakeBase = "";
 let webhookUrl = "";
 let fake: PaymentsFakeApp;
 let fakeServer: Server;
@@ -28,9 +33,31 @@ let photo: Buffer;
 const app = () => ctx.app as unknown as { orders: { completeDueOrders(): Promise<number>; retryPendingRefunds(): Promise<number> } };
 
 async function liveListing(priceMinor: number) {
-  const slab = (await sawyer.post("/api/v1/yard/slabs", { speciesSlug: "white-oak", lengthMm: 2400, thicknessMm: 50, widthStationsMm: [700, 680], liveEdge: "both", surfacing: "flattened", dryingMethod: "kiln" })).body.slab;
-  const listing = (await sawyer.post("/api/v1/yard/listings", { title: `Oak top ${Math.random().toString(36).slice(2, 6)}`, slabIds: [slab.id], priceMode: "fixed", rateMinor: priceMinor, freight: true })).body.listing;
-  await sawyer.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+  const slab = (
+    await sawyer.post("/api/v1/yard/slabs", {
+      speciesSlug: "white-oak",
+      lengthMm: 2400,
+      thicknessMm: 50,
+      widthStationsMm: [700, 680],
+      liveEdge: "both",
+      surfacing: "flattened",
+      dryingMethod: "kiln",
+    })
+  ).body.slab;
+  const listing = (
+    await sawyer.post("/api/v1/yard/listings", {
+      title: `Oak top ${Math.random().toString(36).slice(2, 6)}`,
+      slabIds: [slab.id],
+      priceMode: "fixed",
+      rateMinor: priceMinor,
+      freight: true,
+    })
+  ).body.listing;
+  await sawyer.agent
+    .post(`/api/v1/yard/listings/${listing.id}/photos`)
+    .set("x-csrf-token", sawyer.csrfToken)
+    .set("content-type", "image/jpeg")
+    .send(photo);
   await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
   await admin.post(`/api/v1/admin/listings/${listing.id}/approve`);
   return listing.id as string;
@@ -45,21 +72,34 @@ const mailed = (address: string, subject: RegExp) => until(async () => (await ma
 async function paidOrder(handover: "pickup" | "freight", priceMinor = 90_000) {
   const listingId = await liveListing(priceMinor);
   const buyer = await ctx.signedInClient("buyer");
-  const res = await buyer.post(`/api/v1/listings/${listingId}/checkout`, handover === "freight" ? { handover, deliveryAddress: "7 Heron Walk, Lakemont" } : { handover });
+  const res = await buyer.post(
+    `/api/v1/listings/${listingId}/checkout`,
+    handover === "freight" ? { handover, deliveryAddress: "7 Heron Walk, Lakemont" } : { handover },
+  );
   expect(res.status).toBe(201);
-  const paid = await fetch(res.body.checkoutUrl, { method: "POST", headers: { "content-type": "application/x-www-form-urlencoded" }, body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }), redirect: "manual" });
+  const paid = await fetch(res.body.checkoutUrl, {
+    method: "POST",
+    headers: { "content-type": "application/x-www-form-urlencoded" },
+    body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }),
+    redirect: "manual",
+  });
   expect(paid.status).toBe(303);
   await until(async () => (await orderOf(res.body.order.id)).status === "paid");
   return { buyer, listingId, orderId: res.body.order.id as string };
 }
 
 const hours = (n: number) => new Date(clock.now().getTime() + n * 3_600_000).toISOString();
-const windowsInput = () => ({ windows: [{ startsAt: hours(48), endsAt: hours(50) }, { startsAt: hours(24), endsAt: hours(26) }], pickupAddress: "Gate 2, 48 Sawmill Road, Lakemont" });
+const windowsInput = () => ({
+  windows: [
+    { startsAt: hours(48), endsAt: hours(50) },
+    { startsAt: hours(24), endsAt: hours(26) },
+  ],
+  pickupAddress: "Gate 2, 48 Sawmill Road, Lakemont",
+});
 
 beforeAll(async () => {
   payments = await startPaymentsFake({ secretKey: "sk_test_steps", webhookSecret: WEBHOOK_SECRET });
   ({ fake, server: fakeServer } = payments);
-  fakeBase = payments.base;
   fakePort = payments.port;
   ctx = await createTestContext({
     clock,
@@ -67,9 +107,16 @@ beforeAll(async () => {
   });
   ({ server: apiServer, webhookUrl } = await listenForWebhooks(ctx.app));
   fake.webhooks.options.url = webhookUrl;
-  sawyer = await ctx.signedInClient("sawyer", { yardName: "Heron Bay Slabs", pickupTown: "Lakemont", pickupLatitude: 44.618, pickupLongitude: -85.402 });
+  sawyer = await ctx.signedInClient("sawyer", {
+    yardName: "Heron Bay Slabs",
+    pickupTown: "Lakemont",
+    pickupLatitude: 44.618,
+    pickupLongitude: -85.402,
+  });
   admin = await ctx.signedInClient("admin");
-  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#9a6a3a" } }).jpeg().toBuffer();
+  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#9a6a3a" } })
+    .jpeg()
+    .toBuffer();
 }, 60_000);
 afterEach(async () => ledgerSumsToZero());
 afterAll(async () => {
@@ -92,20 +139,37 @@ describe("order steps after payment", () => {
     const none = await sawyer.post(`${path}/pickup-windows`, { windows: [], pickupAddress: "Gate 2" });
     expect(none.status).toBe(422);
     expect(none.body.error.fields.windows).toMatch(/at least one/);
-    const six = await sawyer.post(`${path}/pickup-windows`, { windows: Array.from({ length: 6 }, (_, i) => ({ startsAt: hours(24 + i * 3), endsAt: hours(25 + i * 3) })), pickupAddress: "Gate 2" });
+    const six = await sawyer.post(`${path}/pickup-windows`, {
+      windows: Array.from({ length: 6 }, (_, i) => ({ startsAt: hours(24 + i * 3), endsAt: hours(25 + i * 3) })),
+      pickupAddress: "Gate 2",
+    });
     expect(six.status).toBe(422);
-    const backwards = await sawyer.post(`${path}/pickup-windows`, { windows: [{ startsAt: hours(30), endsAt: hours(29) }], pickupAddress: "Gate 2" });
+    const backwards = await sawyer.post(`${path}/pickup-windows`, {
+      windows: [{ startsAt: hours(30), endsAt: hours(29) }],
+      pickupAddress: "Gate 2",
+    });
     expect(backwards.body.error.fields["windows.0.endsAt"]).toMatch(/end after/);
-    const past = await sawyer.post(`${path}/pickup-windows`, { windows: [{ startsAt: hours(-3), endsAt: hours(-1) }], pickupAddress: "Gate 2" });
+    const past = await sawyer.post(`${path}/pickup-windows`, {
+      windows: [{ startsAt: hours(-3), endsAt: hours(-1) }],
+      pickupAddress: "Gate 2",
+    });
     expect(past.body.error.fields["windows.0.startsAt"]).toMatch(/future/);
     expect((await orderOf(orderId)).status).toBe("paid");
 
     const input = windowsInput();
     const proposed = await sawyer.post(`${path}/pickup-windows`, input);
     expect(proposed.status).toBe(200);
-    expect(proposed.body.order).toMatchObject({ status: "ready_for_pickup", pickupAddress: "Gate 2, 48 Sawmill Road, Lakemont", chosenPickupWindow: null, actions: ["propose_pickup_windows", "mark_handed_over", "cancel"] });
+    expect(proposed.body.order).toMatchObject({
+      status: "ready_for_pickup",
+      pickupAddress: "Gate 2, 48 Sawmill Road, Lakemont",
+      chosenPickupWindow: null,
+      actions: ["propose_pickup_windows", "mark_handed_over", "cancel"],
+    });
     // Sorted by start.
-    expect(proposed.body.order.pickupWindows.map((w: { startsAt: string }) => w.startsAt)).toEqual([input.windows[1]!.startsAt, input.windows[0]!.startsAt]);
+    expect(proposed.body.order.pickupWindows.map((w: { startsAt: string }) => w.startsAt)).toEqual([
+      input.windows[1]!.startsAt,
+      input.windows[0]!.startsAt,
+    ]);
     expect(proposed.body.order.steps.readyForPickupAt).not.toBeNull();
     await mailed(buyer.account.email, /^Choose a pickup time/);
     await mailed(sawyer.account.email, /^Pickup times sent/);
@@ -173,7 +237,11 @@ describe("order steps after payment", () => {
 
     const shipped = await sawyer.post(`${path}/shipment`, { carrier: "Lakeshore Freight Lines", trackingReference: "LFL-2026-11873" });
     expect(shipped.status).toBe(200);
-    expect(shipped.body.order).toMatchObject({ status: "shipped", carrier: "Lakeshore Freight Lines", trackingReference: "LFL-2026-11873" });
+    expect(shipped.body.order).toMatchObject({
+      status: "shipped",
+      carrier: "Lakeshore Freight Lines",
+      trackingReference: "LFL-2026-11873",
+    });
     expect((await sawyer.post(`${path}/shipment`, { carrier: "Again", trackingReference: "AGAIN-1" })).status).toBe(409);
     // On its way: no longer cancellable from the app.
     expect((await buyer.post(`${path}/cancellation`, { reason: "Too slow" })).status).toBe(409);
@@ -245,7 +313,12 @@ describe("cancelling before hand-over", () => {
       fake.webhooks.options.shuffle = false;
     }
     expect(res.status).toBe(200);
-    expect(res.body.order).toMatchObject({ status: "refunded", cancelledBy: "buyer", cancelReason: "Our dining room plans changed.", actions: [] });
+    expect(res.body.order).toMatchObject({
+      status: "refunded",
+      cancelledBy: "buyer",
+      cancelReason: "Our dining room plans changed.",
+      actions: [],
+    });
     const order = await orderOf(orderId);
     expect(order.refundId).toMatch(/^re_/);
     expect(order.cancelledAt).not.toBeNull();
@@ -276,7 +349,9 @@ describe("cancelling before hand-over", () => {
 
     await mailed(buyer.account.email, /^Cancelled and refunded/);
     await mailed(sawyer.account.email, /^Cancelled and refunded/);
-    const sawyerMail = (await mailTo(sawyer.account.email)).find((m) => /^Cancelled and refunded/.test(m.subject) && m.text.includes("Our dining room plans changed."))!;
+    const sawyerMail = (await mailTo(sawyer.account.email)).find(
+      (m) => /^Cancelled and refunded/.test(m.subject) && m.text.includes("Our dining room plans changed."),
+    )!;
     expect(sawyerMail.text).toMatch(/back on sale/);
 
     // Someone else can buy it now.
@@ -293,7 +368,9 @@ describe("cancelling before hand-over", () => {
     });
     try {
       for (const { orderId, listingId } of [first, second]) {
-        const res = await sawyer.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "Found a crack right through while wrapping it." });
+        const res = await sawyer.post(`/api/v1/orders/${orderId}/cancellation`, {
+          reason: "Found a crack right through while wrapping it.",
+        });
         expect(res.status).toBe(200);
         expect(res.body.order.status).toBe("cancelled");
         expect(await listingStatus(listingId)).toBe("live");
@@ -311,7 +388,11 @@ describe("cancelling before hand-over", () => {
     const secondIntent = (await orderOf(second.orderId)).paymentIntentId!;
     const atProvider = await fetch(`http://127.0.0.1:${fakePort}/v1/refunds`, {
       method: "POST",
-      headers: { authorization: "Bearer sk_test_steps", "content-type": "application/x-www-form-urlencoded", "idempotency-key": `refund-${second.orderId}` },
+      headers: {
+        authorization: "Bearer sk_test_steps",
+        "content-type": "application/x-www-form-urlencoded",
+        "idempotency-key": `refund-${second.orderId}`,
+      },
       body: new URLSearchParams({ payment_intent: secondIntent, "metadata[order_id]": second.orderId }),
     });
     expect(atProvider.status).toBe(200);

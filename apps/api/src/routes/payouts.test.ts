@@ -6,7 +6,13 @@ import type { PaymentsFakeApp } from "@grainyard/payments-fake";
 import { feeBreakdown } from "@grainyard/slab-math";
 import { OrderEntity, PayoutAccountEntity } from "../entities/index.ts";
 import { createPayments } from "../integrations/payments.ts";
-import { expectLedgerBalanced, listenForWebhooks, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
+import {
+  expectLedgerBalanced,
+  listenForWebhooks,
+  startPaymentsFake,
+  until,
+  type TestPaymentsFake,
+} from "../test-support/payments-harness.ts";
 import { browserClient, createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -40,7 +46,10 @@ const orderOf = (id: string) => ctx.dataSource.getRepository(OrderEntity).findOn
 
 /** A sawyer, an admin and a buyer of their own (sessions start at the test clock's time). */
 async function people() {
-  const sawyer = (await ctx.signedInClient("sawyer", { yardName: `Marsh Lane Slabs ${Math.random().toString(36).slice(2, 5)}`, pickupTown: "Lakemont" })) as Client;
+  const sawyer = (await ctx.signedInClient("sawyer", {
+    yardName: `Marsh Lane Slabs ${Math.random().toString(36).slice(2, 5)}`,
+    pickupTown: "Lakemont",
+  })) as Client;
   const admin = (await ctx.signedInClient("admin")) as Client;
   const buyer = (await ctx.signedInClient("buyer")) as Client;
   return { sawyer, admin, buyer };
@@ -48,9 +57,31 @@ async function people() {
 
 /** A live fixed-price listing of one slab by this sawyer. */
 async function liveListing(sawyer: Client, admin: Client, priceMinor: number) {
-  const slab = (await sawyer.post("/api/v1/yard/slabs", { speciesSlug: "black-walnut", lengthMm: 2200, thicknessMm: 55, widthStationsMm: [640, 620], liveEdge: "both", surfacing: "flattened", dryingMethod: "kiln" })).body.slab;
-  const listing = (await sawyer.post("/api/v1/yard/listings", { title: `Walnut top ${Math.random().toString(36).slice(2, 6)}`, slabIds: [slab.id], priceMode: "fixed", rateMinor: priceMinor, freight: true })).body.listing;
-  await sawyer.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+  const slab = (
+    await sawyer.post("/api/v1/yard/slabs", {
+      speciesSlug: "black-walnut",
+      lengthMm: 2200,
+      thicknessMm: 55,
+      widthStationsMm: [640, 620],
+      liveEdge: "both",
+      surfacing: "flattened",
+      dryingMethod: "kiln",
+    })
+  ).body.slab;
+  const listing = (
+    await sawyer.post("/api/v1/yard/listings", {
+      title: `Walnut top ${Math.random().toString(36).slice(2, 6)}`,
+      slabIds: [slab.id],
+      priceMode: "fixed",
+      rateMinor: priceMinor,
+      freight: true,
+    })
+  ).body.listing;
+  await sawyer.agent
+    .post(`/api/v1/yard/listings/${listing.id}/photos`)
+    .set("x-csrf-token", sawyer.csrfToken)
+    .set("content-type", "image/jpeg")
+    .send(photo);
   await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
   expect((await admin.post(`/api/v1/admin/listings/${listing.id}/approve`)).status).toBe(200);
   return listing.id as string;
@@ -59,14 +90,29 @@ async function liveListing(sawyer: Client, admin: Client, priceMinor: number) {
 /** Bought with the test card, shipped and handed over: the sale is on the sawyer's side of the ledger. */
 async function handedOverSale(sawyer: Client, admin: Client, buyer: Client, priceMinor: number, handOver = true) {
   const listingId = await liveListing(sawyer, admin, priceMinor);
-  const res = await buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "freight", deliveryAddress: "12 Alder Row, Lakemont" });
+  const res = await buyer.post(`/api/v1/listings/${listingId}/checkout`, {
+    handover: "freight",
+    deliveryAddress: "12 Alder Row, Lakemont",
+  });
   expect(res.status).toBe(201);
-  const paid = await fetch(res.body.checkoutUrl, { method: "POST", headers: { "content-type": "application/x-www-form-urlencoded" }, body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }), redirect: "manual" });
+  const paid = await fetch(res.body.checkoutUrl, {
+    method: "POST",
+    headers: { "content-type": "application/x-www-form-urlencoded" },
+    body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }),
+    redirect: "manual",
+  });
   expect(paid.status).toBe(303);
   const orderId = res.body.order.id as string;
   await until(async () => (await orderOf(orderId)).status === "paid");
   if (handOver) {
-    expect((await sawyer.post(`/api/v1/orders/${orderId}/shipment`, { carrier: "Lakeshore Freight Lines", trackingReference: `LFL-${orderId.slice(0, 6)}` })).status).toBe(200);
+    expect(
+      (
+        await sawyer.post(`/api/v1/orders/${orderId}/shipment`, {
+          carrier: "Lakeshore Freight Lines",
+          trackingReference: `LFL-${orderId.slice(0, 6)}`,
+        })
+      ).status,
+    ).toBe(200);
     expect((await sawyer.post(`/api/v1/orders/${orderId}/handed-over`)).status).toBe(200);
   }
   return orderId;
@@ -83,7 +129,11 @@ async function onboard(sawyer: Client) {
   const finished = await fetch(`${fakeBase}${url.pathname}`, {
     method: "POST",
     headers: { "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ name: "Marsh Lane Slabs", return_url: url.searchParams.get("return_url")!, refresh_url: url.searchParams.get("refresh_url")! }),
+    body: new URLSearchParams({
+      name: "Marsh Lane Slabs",
+      return_url: url.searchParams.get("return_url")!,
+      refresh_url: url.searchParams.get("refresh_url")!,
+    }),
     redirect: "manual",
   });
   expect(finished.status).toBe(303);
@@ -92,11 +142,25 @@ async function onboard(sawyer: Client) {
 }
 
 /** What the slab-math fee split leaves the sawyer of a price (10 % platform, 2.9 % + 30 processing: the defaults). */
-const netOf = (priceMinor: number) => feeBreakdown(priceMinor, { platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 }).sawyerNetMinor;
-const balanceOf = async (sawyer: Client) => (await sawyer.get("/api/v1/yard/payouts")).body.balances[0] as { pendingMinor: number; availableMinor: number; paidMinor: number };
-const dueFor = async (admin: Client, sawyerId: string) => ((await admin.get("/api/v1/admin/payouts/due")).body.due as { sawyerId: string; dueKey: string; amountMinor: number; currency: string; lines: { orderId: string; amountMinor: number }[]; blockedReason: string | null; accountState: string }[]).filter((d) => d.sawyerId === sawyerId);
+const netOf = (priceMinor: number) =>
+  feeBreakdown(priceMinor, { platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 }).sawyerNetMinor;
+const balanceOf = async (sawyer: Client) =>
+  (await sawyer.get("/api/v1/yard/payouts")).body.balances[0] as { pendingMinor: number; availableMinor: number; paidMinor: number };
+const dueFor = async (admin: Client, sawyerId: string) =>
+  (
+    (await admin.get("/api/v1/admin/payouts/due")).body.due as {
+      sawyerId: string;
+      dueKey: string;
+      amountMinor: number;
+      currency: string;
+      lines: { orderId: string; amountMinor: number }[];
+      blockedReason: string | null;
+      accountState: string;
+    }[]
+  ).filter((d) => d.sawyerId === sawyerId);
 const transfersTo = (accountId: string) => fake.store.all("transfer").filter((t) => t.destination === accountId);
-const providerAccountOf = async (sawyerId: string) => (await ctx.dataSource.getRepository(PayoutAccountEntity).findOneByOrFail({ sawyerId })).providerAccountId;
+const providerAccountOf = async (sawyerId: string) =>
+  (await ctx.dataSource.getRepository(PayoutAccountEntity).findOneByOrFail({ sawyerId })).providerAccountId;
 
 beforeAll(async () => {
   payments = await startPaymentsFake({ secretKey: "sk_test_payouts", webhookSecret: WEBHOOK_SECRET });
@@ -108,7 +172,9 @@ beforeAll(async () => {
   });
   ({ server: apiServer, webhookUrl } = await listenForWebhooks(ctx.app));
   fake.webhooks.options.url = webhookUrl;
-  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#5a3a22" } }).jpeg().toBuffer();
+  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#5a3a22" } })
+    .jpeg()
+    .toBuffer();
 }, 60_000);
 afterEach(async () => ledgerSumsToZero());
 afterAll(async () => {
@@ -148,11 +214,19 @@ describe("payouts to sawyers", () => {
     const [due] = await dueFor(admin, sawyer.account.id);
     expect(due).toMatchObject({ accountState: "ready", blockedReason: null, dueKey: blocked!.dueKey });
     // Buyers and sawyers cannot approve payouts.
-    expect((await sawyer.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey })).status).toBe(403);
+    expect((await sawyer.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey })).status).toBe(
+      403,
+    );
 
     const approved = await admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey });
     expect(approved.status).toBe(200);
-    expect(approved.body.payout).toMatchObject({ status: "sent", amountMinor: net, currency: "USD", failureReason: null, lines: [{ orderId, amountMinor: net }] });
+    expect(approved.body.payout).toMatchObject({
+      status: "sent",
+      amountMinor: net,
+      currency: "USD",
+      failureReason: null,
+      lines: [{ orderId, amountMinor: net }],
+    });
     const account = await providerAccountOf(sawyer.account.id);
     expect(transfersTo(account).map((t) => t.amount)).toEqual([net]);
 
@@ -188,7 +262,9 @@ describe("payouts to sawyers", () => {
     const stale = await admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: "not-the-key" });
     expect(stale.status).toBe(409);
     expect(stale.body.error.code).toBe("payout_changed");
-    const both = await Promise.all([0, 1].map(() => admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey })));
+    const both = await Promise.all(
+      [0, 1].map(() => admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey })),
+    );
     expect(both.map((r) => r.status)).toEqual([200, 200]);
     expect(both[0]!.body.payout.id).toBe(both[1]!.body.payout.id);
     expect(transfersTo(await providerAccountOf(sawyer.account.id)).map((t) => t.amount)).toEqual([netOf(50_000)]);
@@ -209,12 +285,18 @@ describe("payouts to sawyers", () => {
     await new Promise((r) => fakeServer.once("listening", r));
     expect(down.status).toBe(503);
     expect(down.body.error.message).toMatch(/not answering/);
-    const [open] = (await ctx.dataSource.query("SELECT id, status FROM payout WHERE due_key = ?", [due!.dueKey])) as { id: string; status: string }[];
+    const [open] = (await ctx.dataSource.query("SELECT id, status FROM payout WHERE due_key = ?", [due!.dueKey])) as {
+      id: string;
+      status: string;
+    }[];
     expect(open!.status).toBe("sending");
     expect(await balanceOf(sawyer)).toMatchObject({ availableMinor: 0, paidMinor: netOf(70_000) }); // on its way
     // Suppose the first call had reached the provider and only its answer was lost: the same key was used.
     const accountId = await providerAccountOf(sawyer.account.id);
-    await createPayments(ctx.config.payments).sdk.transfers.create({ amount: netOf(70_000), currency: "usd", destination: accountId, metadata: { payout_id: open!.id } }, { idempotencyKey: `payout-${open!.id}` });
+    await createPayments(ctx.config.payments).sdk.transfers.create(
+      { amount: netOf(70_000), currency: "usd", destination: accountId, metadata: { payout_id: open!.id } },
+      { idempotencyKey: `payout-${open!.id}` },
+    );
     const again = await admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey });
     expect(again.body.payout).toMatchObject({ id: open!.id, status: "sent" });
     expect(transfersTo(accountId)).toHaveLength(1);
@@ -260,25 +342,44 @@ describe("payouts to sawyers", () => {
     await handedOverSale(a.sawyer, a.admin, a.buyer, 30_000); // handed over just now: pending
     const due = [...(await dueFor(a.admin, a.sawyer.account.id)), ...(await dueFor(a.admin, b.sawyer.account.id))];
     expect(due.map((d) => d.amountMinor)).toEqual([netOf(40_000), netOf(60_000)]);
-    const batch = await a.admin.post("/api/v1/admin/payouts/batch", { payouts: due.map((d) => ({ sawyerId: d.sawyerId, currency: d.currency, dueKey: d.dueKey })) });
+    const batch = await a.admin.post("/api/v1/admin/payouts/batch", {
+      payouts: due.map((d) => ({ sawyerId: d.sawyerId, currency: d.currency, dueKey: d.dueKey })),
+    });
     expect(batch.status).toBe(200);
     expect(batch.body.results.map((r: { payout: { status: string } }) => r.payout.status)).toEqual(["sent", "sent"]);
-    expect(await balanceOf(a.sawyer)).toEqual({ currency: "USD", pendingMinor: netOf(30_000), availableMinor: 0, paidMinor: netOf(40_000) });
+    expect(await balanceOf(a.sawyer)).toEqual({
+      currency: "USD",
+      pendingMinor: netOf(30_000),
+      availableMinor: 0,
+      paidMinor: netOf(40_000),
+    });
     expect((await a.admin.post("/api/v1/admin/payouts/batch", { payouts: [] })).status).toBe(422);
   });
 });
 
 describe("dispute refunds", () => {
   it("a partial refund after a payout is split across tax, fees and the sawyer's share; the sawyer's next payout takes it back", async () => {
-    let { sawyer, admin, buyer } = await people();
+    const cast = await people();
+    let { sawyer, admin } = cast;
+    const { buyer } = cast;
     await onboard(sawyer);
     const first = await handedOverSale(sawyer, admin, buyer, 100_000);
     clock.advance(8 * DAY);
     const [due] = await dueFor(admin, sawyer.account.id);
-    expect((await admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey })).body.payout.status).toBe("sent");
+    expect(
+      (await admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey })).body.payout.status,
+    ).toBe("sent");
 
     // What the admin's refund form starts from: nothing refunded yet, the whole total left.
-    expect((await admin.get(`/api/v1/admin/orders/${first}/refund`)).body).toEqual({ orderId: first, currency: "USD", totalMinor: 100_000, refundedMinor: 0, refundableMinor: 100_000, canRefund: true, refunds: [] });
+    expect((await admin.get(`/api/v1/admin/orders/${first}/refund`)).body).toEqual({
+      orderId: first,
+      currency: "USD",
+      totalMinor: 100_000,
+      refundedMinor: 0,
+      refundableMinor: 100_000,
+      canRefund: true,
+      refunds: [],
+    });
     expect((await buyer.get(`/api/v1/admin/orders/${first}/refund`)).status).toBe(403);
 
     // Bad input first: nothing changes.
@@ -287,19 +388,33 @@ describe("dispute refunds", () => {
     const tooMuch = await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 100_001, reason: "Crack not shown in photos" });
     expect(tooMuch.status).toBe(422);
     expect(tooMuch.body.error.fields.amountMinor).toMatch(/More than is left/);
-    expect((await buyer.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 10_000, reason: "Crack not shown in photos" })).status).toBe(403);
+    expect(
+      (await buyer.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 10_000, reason: "Crack not shown in photos" })).status,
+    ).toBe(403);
 
     // 20 % back: the sawyer's share of it is 20 % of their net (largest-remainder split, slab-math refundShares).
-    const refund = await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 20_000, reason: "A check at one end was not shown in the photos." });
+    const refund = await admin.post(`/api/v1/admin/orders/${first}/refund`, {
+      amountMinor: 20_000,
+      reason: "A check at one end was not shown in the photos.",
+    });
     expect(refund.status).toBe(200);
     expect(refund.body).toEqual({ refundedMinor: 20_000, refundableMinor: 80_000 });
-    expect((await admin.get(`/api/v1/admin/orders/${first}/refund`)).body).toMatchObject({ refundedMinor: 20_000, refundableMinor: 80_000, canRefund: true, refunds: [{ amountMinor: 20_000, reason: "A check at one end was not shown in the photos." }] });
+    expect((await admin.get(`/api/v1/admin/orders/${first}/refund`)).body).toMatchObject({
+      refundedMinor: 20_000,
+      refundableMinor: 80_000,
+      canRefund: true,
+      refunds: [{ amountMinor: 20_000, reason: "A check at one end was not shown in the photos." }],
+    });
     const sawyerShare = Math.round(netOf(100_000) * 0.2); // net 87 070 × 0.2 = 17 414 exactly (no remainder to place)
     expect(sawyerShare).toBe(17_414);
     const refunds = fake.store.all("refund").filter((r) => r.amount === 20_000);
     expect(refunds).toHaveLength(1);
     for (const address of [buyer.account.email, sawyer.account.email]) {
-      await until(async () => (await mailTo(address)).some((m) => /^Partial refund on/.test(m.subject) && m.text.includes("A check at one end was not shown in the photos.")));
+      await until(async () =>
+        (await mailTo(address)).some(
+          (m) => /^Partial refund on/.test(m.subject) && m.text.includes("A check at one end was not shown in the photos."),
+        ),
+      );
     }
     expect((await orderOf(first)).status).not.toBe("refunded");
     // Already paid out, so the sawyer now owes that share back…
@@ -308,25 +423,39 @@ describe("dispute refunds", () => {
     // …and it comes off the next payout as a negative line.
     const second = await handedOverSale(sawyer, admin, buyer, 50_000);
     clock.advance(8 * DAY);
-    [sawyer, admin, buyer] = await Promise.all([sawyer, admin, buyer].map(signInAgain));
+    [sawyer, admin] = await Promise.all([sawyer, admin].map(signInAgain));
     const [next] = await dueFor(admin, sawyer.account.id);
     expect(next!.amountMinor).toBe(netOf(50_000) - sawyerShare);
-    expect(next!.lines).toEqual(expect.arrayContaining([expect.objectContaining({ orderId: first, amountMinor: -sawyerShare }), expect.objectContaining({ orderId: second, amountMinor: netOf(50_000) })]));
+    expect(next!.lines).toEqual(
+      expect.arrayContaining([
+        expect.objectContaining({ orderId: first, amountMinor: -sawyerShare }),
+        expect.objectContaining({ orderId: second, amountMinor: netOf(50_000) }),
+      ]),
+    );
     const sent = await admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: next!.dueKey });
     expect(sent.body.payout).toMatchObject({ status: "sent", amountMinor: netOf(50_000) - sawyerShare });
     expect(await balanceOf(sawyer)).toMatchObject({ pendingMinor: 0, availableMinor: 0 });
 
     // The rest of the order refunded: it is refunded in full now, and cannot be refunded again.
-    expect((await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 80_000, reason: "The buyer returned the slab." })).body).toEqual({ refundedMinor: 100_000, refundableMinor: 0 });
+    expect(
+      (await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 80_000, reason: "The buyer returned the slab." })).body,
+    ).toEqual({ refundedMinor: 100_000, refundableMinor: 0 });
     expect((await orderOf(first)).status).toBe("refunded");
     expect((await admin.post(`/api/v1/admin/orders/${first}/refund`, { amountMinor: 1, reason: "Once more" })).status).toBe(409);
-    expect((await admin.get(`/api/v1/admin/orders/${first}/refund`)).body).toMatchObject({ refundedMinor: 100_000, refundableMinor: 0, canRefund: false });
+    expect((await admin.get(`/api/v1/admin/orders/${first}/refund`)).body).toMatchObject({
+      refundedMinor: 100_000,
+      refundableMinor: 0,
+      canRefund: false,
+    });
   });
 
   it("a refund before hand-over (the sale still pending) lowers what will be paid", async () => {
     const { sawyer, admin, buyer } = await people();
     const orderId = await handedOverSale(sawyer, admin, buyer, 100_000, false);
-    await admin.post(`/api/v1/admin/orders/${orderId}/refund`, { amountMinor: 50_000, reason: "Half back: the slab arrived with a split." });
+    await admin.post(`/api/v1/admin/orders/${orderId}/refund`, {
+      amountMinor: 50_000,
+      reason: "Half back: the slab arrived with a split.",
+    });
     expect(await balanceOf(sawyer)).toMatchObject({ pendingMinor: netOf(100_000) - netOf(100_000) / 2, availableMinor: 0 });
   });
 });

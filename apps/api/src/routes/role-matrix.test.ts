@@ -66,7 +66,13 @@ const routes: RouteCase[] = [
   },
   {
     name: "POST /api/v1/accounts (while signed in)",
-    call: (c) => c.post("/api/v1/accounts", { role: "buyer", email: `m-${Math.random().toString(36).slice(2)}@lakemont.test`, password: "matrix-password-ok", displayName: "Matrix" }),
+    call: (c) =>
+      c.post("/api/v1/accounts", {
+        role: "buyer",
+        email: `m-${Math.random().toString(36).slice(2)}@lakemont.test`,
+        password: "matrix-password-ok",
+        displayName: "Matrix",
+      }),
     expected: { anonymous: 201, buyer: 409, sawyer: 409, otherSawyer: 409, admin: 409 },
   },
   {
@@ -86,7 +92,8 @@ const routes: RouteCase[] = [
   },
   {
     name: "POST /api/v1/yard/logs/:logId/readings",
-    call: (c, ids) => c.post(`/api/v1/yard/logs/${ids.logId}/readings`, { readOn: "2025-06-01", moistureContentPct: 18, method: "pin_meter" }),
+    call: (c, ids) =>
+      c.post(`/api/v1/yard/logs/${ids.logId}/readings`, { readOn: "2025-06-01", moistureContentPct: 18, method: "pin_meter" }),
     expected: { anonymous: 401, buyer: 403, sawyer: 201, otherSawyer: 403, admin: 403 },
   },
   {
@@ -101,7 +108,8 @@ const routes: RouteCase[] = [
   },
   {
     name: "POST /api/v1/yard/slabs/:slabId/readings",
-    call: (c, ids) => c.post(`/api/v1/yard/slabs/${ids.slabId}/readings`, { readOn: "2025-07-01", moistureContentPct: 15, method: "pin_meter" }),
+    call: (c, ids) =>
+      c.post(`/api/v1/yard/slabs/${ids.slabId}/readings`, { readOn: "2025-07-01", moistureContentPct: 15, method: "pin_meter" }),
     expected: { anonymous: 401, buyer: 403, sawyer: 201, otherSawyer: 403, admin: 403 },
   },
   {
@@ -137,17 +145,32 @@ const routes: RouteCase[] = [
   // Operator desk (operator-desk.test.ts has the behaviour).
   ...adminOnly("GET /api/v1/admin/review-desk", (c) => c.get("/api/v1/admin/review-desk")),
   ...adminOnly("GET /api/v1/admin/listings/:listingId/reviews", (c, ids) => c.get(`/api/v1/admin/listings/${ids.listingId}/reviews`)),
-  ...adminOnly("POST /api/v1/admin/listings/:listingId/reject (a draft)", (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/reject`, { reason: "Matrix says no." }), 409),
+  ...adminOnly(
+    "POST /api/v1/admin/listings/:listingId/reject (a draft)",
+    (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/reject`, { reason: "Matrix says no." }),
+    409,
+  ),
   ...adminOnly("GET /api/v1/admin/audit", (c) => c.get("/api/v1/admin/audit")),
   ...adminOnly("GET /api/v1/admin/audit.csv", (c) => c.get("/api/v1/admin/audit.csv")),
   ...adminOnly("GET /api/v1/admin/reports", (c) => c.get("/api/v1/admin/reports")),
-  ...adminOnly("POST /api/v1/admin/reports/:reportId/resolve (unknown report)", (c) => c.post("/api/v1/admin/reports/00000000-0000-4000-8000-000000000000/resolve", { resolution: "dismiss", note: "Matrix resolves." }), 404),
+  ...adminOnly(
+    "POST /api/v1/admin/reports/:reportId/resolve (unknown report)",
+    (c) =>
+      c.post("/api/v1/admin/reports/00000000-0000-4000-8000-000000000000/resolve", { resolution: "dismiss", note: "Matrix resolves." }),
+    404,
+  ),
   ...adminOnly("GET /api/v1/admin/users", (c) => c.get("/api/v1/admin/users")),
   ...adminOnly("GET /api/v1/admin/users/:accountId", (c, ids) => c.get(`/api/v1/admin/users/${ids.sawyerId}`)),
-  ...adminOnly("POST /api/v1/admin/users/:accountId/suspend (a spare buyer)", (c, ids) => c.post(`/api/v1/admin/users/${ids.spareBuyerId}/suspend`, { reason: "Matrix suspends." })),
-  ...adminOnly("POST /api/v1/admin/users/:accountId/restore (the spare buyer)", (c, ids) => c.post(`/api/v1/admin/users/${ids.spareBuyerId}/restore`, { reason: "Matrix restores." })),
+  ...adminOnly("POST /api/v1/admin/users/:accountId/suspend (a spare buyer)", (c, ids) =>
+    c.post(`/api/v1/admin/users/${ids.spareBuyerId}/suspend`, { reason: "Matrix suspends." }),
+  ),
+  ...adminOnly("POST /api/v1/admin/users/:accountId/restore (the spare buyer)", (c, ids) =>
+    c.post(`/api/v1/admin/users/${ids.spareBuyerId}/restore`, { reason: "Matrix restores." }),
+  ),
   ...adminOnly("GET /api/v1/admin/settings", (c) => c.get("/api/v1/admin/settings")),
-  ...adminOnly("PATCH /api/v1/admin/settings", (c) => c.patch("/api/v1/admin/settings", { holdDays: 7, reason: "Matrix keeps seven days." })),
+  ...adminOnly("PATCH /api/v1/admin/settings", (c) =>
+    c.patch("/api/v1/admin/settings", { holdDays: 7, reason: "Matrix keeps seven days." }),
+  ),
   ...adminOnly("GET /api/v1/admin/dashboard", (c) => c.get("/api/v1/admin/dashboard")),
   // Payouts and dispute refunds (payouts.test.ts has the behaviour).
   {
@@ -176,12 +199,26 @@ const routes: RouteCase[] = [
     expected: { anonymous: 401, buyer: 403, sawyer: 404, otherSawyer: 404, admin: 403 },
   },
   ...adminOnly("GET /api/v1/admin/payouts/due", (c) => c.get("/api/v1/admin/payouts/due")),
-  ...adminOnly("POST /api/v1/admin/payouts (a sawyer with no payout account)", (c) => c.post("/api/v1/admin/payouts", { sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }), 409),
-  ...adminOnly("POST /api/v1/admin/payouts/batch", (c) => c.post("/api/v1/admin/payouts/batch", { payouts: [{ sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }] })),
+  ...adminOnly(
+    "POST /api/v1/admin/payouts (a sawyer with no payout account)",
+    (c) => c.post("/api/v1/admin/payouts", { sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }),
+    409,
+  ),
+  ...adminOnly("POST /api/v1/admin/payouts/batch", (c) =>
+    c.post("/api/v1/admin/payouts/batch", { payouts: [{ sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }] }),
+  ),
   ...adminOnly("GET /api/v1/admin/payouts", (c) => c.get("/api/v1/admin/payouts")),
   ...adminOnly("GET /api/v1/admin/payouts/:payoutId (unknown)", (c) => c.get(`/api/v1/admin/payouts/${randomUUID()}`), 404),
-  ...adminOnly("GET /api/v1/admin/orders/:orderId/refund (unknown order)", (c) => c.get(`/api/v1/admin/orders/${randomUUID()}/refund`), 404),
-  ...adminOnly("POST /api/v1/admin/orders/:orderId/refund (unknown order)", (c) => c.post(`/api/v1/admin/orders/${randomUUID()}/refund`, { amountMinor: 100, reason: "Matrix refunds." }), 404),
+  ...adminOnly(
+    "GET /api/v1/admin/orders/:orderId/refund (unknown order)",
+    (c) => c.get(`/api/v1/admin/orders/${randomUUID()}/refund`),
+    404,
+  ),
+  ...adminOnly(
+    "POST /api/v1/admin/orders/:orderId/refund (unknown order)",
+    (c) => c.post(`/api/v1/admin/orders/${randomUUID()}/refund`, { amountMinor: 100, reason: "Matrix refunds." }),
+    404,
+  ),
   {
     name: "POST /api/v1/yard/listings/:listingId/withdraw (last: it ends the draft)",
     call: (c, ids) => c.post(`/api/v1/yard/listings/${ids.listingId}/withdraw`),
@@ -235,7 +272,8 @@ const routes: RouteCase[] = [
   },
   {
     name: "POST /api/v1/reports (sawyer's live listing)",
-    call: (c) => c.post("/api/v1/reports", { targetKind: "listing", targetId: buyerToolIds.liveListingId, reason: "Reported by the matrix." }),
+    call: (c) =>
+      c.post("/api/v1/reports", { targetKind: "listing", targetId: buyerToolIds.liveListingId, reason: "Reported by the matrix." }),
     expected: { anonymous: 401, buyer: 201, sawyer: 422, otherSawyer: 201, admin: 201 },
   },
   {
@@ -278,7 +316,11 @@ const routes: RouteCase[] = [
   },
   {
     name: "POST /api/v1/orders/:orderId/pickup-windows",
-    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/pickup-windows`, { windows: [{ startsAt: orderIds.windowStart, endsAt: orderIds.windowEnd }], pickupAddress: "Matrix yard gate" }),
+    call: (c) =>
+      c.post(`/api/v1/orders/${orderIds.pickup}/pickup-windows`, {
+        windows: [{ startsAt: orderIds.windowStart, endsAt: orderIds.windowEnd }],
+        pickupAddress: "Matrix yard gate",
+      }),
     expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
   },
   {
@@ -326,25 +368,73 @@ beforeAll(async () => {
   clients.otherSawyer = await ctx.signedInClient("sawyer");
   clients.admin = await ctx.signedInClient("admin");
   ids.spareBuyerId = (await ctx.createAccount("buyer")).id;
-  ids.logId = (await sawyer.post("/api/v1/yard/logs", { speciesSlug: "northern-red-oak", siteTown: "Lakemont", siteKind: "street", fellingReason: "pests" })).body.log.id;
+  ids.logId = (
+    await sawyer.post("/api/v1/yard/logs", {
+      speciesSlug: "northern-red-oak",
+      siteTown: "Lakemont",
+      siteKind: "street",
+      fellingReason: "pests",
+    })
+  ).body.log.id;
   ids.slabId = (
-    await sawyer.post("/api/v1/yard/slabs", { logId: ids.logId, sequenceInLog: 1, speciesSlug: "northern-red-oak", lengthMm: 2000, thicknessMm: 50, widthStationsMm: [500, 480], liveEdge: "one", surfacing: "rough_sawn", dryingMethod: "air" })
+    await sawyer.post("/api/v1/yard/slabs", {
+      logId: ids.logId,
+      sequenceInLog: 1,
+      speciesSlug: "northern-red-oak",
+      lengthMm: 2000,
+      thicknessMm: 50,
+      widthStationsMm: [500, 480],
+      liveEdge: "one",
+      surfacing: "rough_sawn",
+      dryingMethod: "air",
+    })
   ).body.slab.id;
-  ids.listingId = (await sawyer.post("/api/v1/yard/listings", { title: "Matrix oak", slabIds: [ids.slabId], priceMode: "fixed", rateMinor: 20_000 })).body.listing.id;
-  const photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a5a32" } }).jpeg().toBuffer();
-  const uploaded = await sawyer.agent.post(`/api/v1/yard/listings/${ids.listingId}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+  ids.listingId = (
+    await sawyer.post("/api/v1/yard/listings", { title: "Matrix oak", slabIds: [ids.slabId], priceMode: "fixed", rateMinor: 20_000 })
+  ).body.listing.id;
+  const photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a5a32" } })
+    .jpeg()
+    .toBuffer();
+  const uploaded = await sawyer.agent
+    .post(`/api/v1/yard/listings/${ids.listingId}/photos`)
+    .set("x-csrf-token", sawyer.csrfToken)
+    .set("content-type", "image/jpeg")
+    .send(photo);
   ids.photoUrl = uploaded.body.photo.smallUrl;
   // Buyer tools: a second slab listed, submitted and approved, so it is live.
   const liveSlab = (
-    await sawyer.post("/api/v1/yard/slabs", { logId: ids.logId, sequenceInLog: 2, speciesSlug: "northern-red-oak", lengthMm: 2000, thicknessMm: 50, widthStationsMm: [500, 480], liveEdge: "one", surfacing: "rough_sawn", dryingMethod: "air" })
+    await sawyer.post("/api/v1/yard/slabs", {
+      logId: ids.logId,
+      sequenceInLog: 2,
+      speciesSlug: "northern-red-oak",
+      lengthMm: 2000,
+      thicknessMm: 50,
+      widthStationsMm: [500, 480],
+      liveEdge: "one",
+      surfacing: "rough_sawn",
+      dryingMethod: "air",
+    })
   ).body.slab.id;
-  buyerToolIds.liveListingId = (await sawyer.post("/api/v1/yard/listings", { title: "Matrix live oak", slabIds: [liveSlab], priceMode: "fixed", rateMinor: 20_000 })).body.listing.id;
-  await sawyer.agent.post(`/api/v1/yard/listings/${buyerToolIds.liveListingId}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+  buyerToolIds.liveListingId = (
+    await sawyer.post("/api/v1/yard/listings", { title: "Matrix live oak", slabIds: [liveSlab], priceMode: "fixed", rateMinor: 20_000 })
+  ).body.listing.id;
+  await sawyer.agent
+    .post(`/api/v1/yard/listings/${buyerToolIds.liveListingId}/photos`)
+    .set("x-csrf-token", sawyer.csrfToken)
+    .set("content-type", "image/jpeg")
+    .send(photo);
   await sawyer.post(`/api/v1/yard/listings/${buyerToolIds.liveListingId}/submit`);
-  if ((await clients.admin.post(`/api/v1/admin/listings/${buyerToolIds.liveListingId}/approve`)).status !== 200) throw new Error("matrix: the live listing was not approved");
-  buyerToolIds.threadId = (await clients.buyer.post(`/api/v1/listings/${buyerToolIds.liveListingId}/messages`, { body: "Matrix question" })).body.thread.id;
-  buyerToolIds.savedSearchId = (await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix oak", query: "species=northern-red-oak" })).body.savedSearch.id;
-  buyerToolIds.spareSavedSearchId = (await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix spare", query: "species=white-oak" })).body.savedSearch.id;
+  if ((await clients.admin.post(`/api/v1/admin/listings/${buyerToolIds.liveListingId}/approve`)).status !== 200)
+    throw new Error("matrix: the live listing was not approved");
+  buyerToolIds.threadId = (
+    await clients.buyer.post(`/api/v1/listings/${buyerToolIds.liveListingId}/messages`, { body: "Matrix question" })
+  ).body.thread.id;
+  buyerToolIds.savedSearchId = (
+    await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix oak", query: "species=northern-red-oak" })
+  ).body.savedSearch.id;
+  buyerToolIds.spareSavedSearchId = (
+    await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix spare", query: "species=white-oak" })
+  ).body.savedSearch.id;
   buyerToolIds.unsubscribeToken = unsubscribeToken(ctx.config.sessionSecret, buyerToolIds.savedSearchId);
   // Two paid pickup orders of "buyer" for "sawyer"'s draft listing (the money side is checkout.test.ts's).
   const buyerId = ((await clients.buyer.get("/api/v1/session")).body.account as { id: string }).id;

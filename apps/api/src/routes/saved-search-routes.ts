@@ -4,7 +4,8 @@ import { AppError } from "../errors.ts";
 import { parse } from "../http/context.ts";
 import type { SavedSearchService } from "../services/saved-search-service.ts";
 
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
+const escapeHtml = (s: string) =>
+  s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 
 /** The one HTML answer of the API: what a person sees after following an e-mail's unsubscribe link. */
 function htmlPage(res: Response, status: number, heading: string, text: string) {
@@ -26,7 +27,12 @@ export function savedSearchRoutes(savedSearches: SavedSearchService) {
   router.get("/saved-searches/unsubscribe", async (req, res) => {
     try {
       const { name } = await savedSearches.unsubscribe(typeof req.query.token === "string" ? req.query.token : "");
-      htmlPage(res, 200, `Alerts for “${name}” are off`, "We will not e-mail you about this search again. It stays in your saved searches: sign in to turn alerts back on or to delete it.");
+      htmlPage(
+        res,
+        200,
+        `Alerts for “${name}” are off`,
+        "We will not e-mail you about this search again. It stays in your saved searches: sign in to turn alerts back on or to delete it.",
+      );
     } catch (error) {
       if (!(error instanceof AppError)) throw error;
       const status = error.status === 422 ? 400 : error.status;
@@ -40,7 +46,9 @@ export function savedSearchRoutes(savedSearches: SavedSearchService) {
     res.status(201).json({ savedSearch: await savedSearches.create(req.actor, parse(savedSearchInputSchema, req.body)) });
   });
   router.patch("/saved-searches/:savedSearchId", async (req, res) => {
-    res.json({ savedSearch: await savedSearches.update(req.actor, id(req.params.savedSearchId), parse(savedSearchUpdateSchema, req.body)) });
+    res.json({
+      savedSearch: await savedSearches.update(req.actor, id(req.params.savedSearchId), parse(savedSearchUpdateSchema, req.body)),
+    });
   });
   router.delete("/saved-searches/:savedSearchId", async (req, res) => {
     await savedSearches.remove(req.actor, id(req.params.savedSearchId));

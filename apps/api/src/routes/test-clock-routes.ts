@@ -29,7 +29,12 @@ export function movableClock(base: () => Date = () => new Date()): MovableClock 
 }
 
 const clockMoveSchema = z.union([
-  z.object({ advanceDays: z.number({ error: "Give the days to move forward." }).positive("Move the clock forward only.").max(365, "At most 365 days at a time.") }),
+  z.object({
+    advanceDays: z
+      .number({ error: "Give the days to move forward." })
+      .positive("Move the clock forward only.")
+      .max(365, "At most 365 days at a time."),
+  }),
   z.object({ reset: z.literal(true) }),
 ]);
 

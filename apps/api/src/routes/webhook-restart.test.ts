@@ -67,7 +67,9 @@ beforeAll(async () => {
   fake.webhooks.options.url = `http://127.0.0.1:${webhookPort}/api/v1/payments/webhook`;
   sawyer = await ctx.signedInClient("sawyer");
   admin = await ctx.signedInClient("admin");
-  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#7a5030" } }).jpeg().toBuffer();
+  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#7a5030" } })
+    .jpeg()
+    .toBuffer();
 }, 60_000);
 afterEach(async () => ledgerSumsToZero());
 afterAll(async () => {
@@ -79,9 +81,25 @@ afterAll(async () => {
 
 describe("the API restarting between payment and webhook", () => {
   it("the first deliveries fail while nothing listens; the retried one reaches the new instance and pays the order once", async () => {
-    const slab = (await sawyer.post("/api/v1/yard/slabs", { speciesSlug: "black-walnut", lengthMm: 1800, thicknessMm: 45, widthStationsMm: [520, 500], liveEdge: "both", surfacing: "sanded", dryingMethod: "kiln" })).body.slab;
-    const listing = (await sawyer.post("/api/v1/yard/listings", { title: "Walnut bench top", slabIds: [slab.id], priceMode: "fixed", rateMinor: 48_000 })).body.listing;
-    await sawyer.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+    const slab = (
+      await sawyer.post("/api/v1/yard/slabs", {
+        speciesSlug: "black-walnut",
+        lengthMm: 1800,
+        thicknessMm: 45,
+        widthStationsMm: [520, 500],
+        liveEdge: "both",
+        surfacing: "sanded",
+        dryingMethod: "kiln",
+      })
+    ).body.slab;
+    const listing = (
+      await sawyer.post("/api/v1/yard/listings", { title: "Walnut bench top", slabIds: [slab.id], priceMode: "fixed", rateMinor: 48_000 })
+    ).body.listing;
+    await sawyer.agent
+      .post(`/api/v1/yard/listings/${listing.id}/photos`)
+      .set("x-csrf-token", sawyer.csrfToken)
+      .set("content-type", "image/jpeg")
+      .send(photo);
     await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
     await admin.post(`/api/v1/admin/listings/${listing.id}/approve`);
     const buyer = await ctx.signedInClient("buyer");
@@ -89,9 +107,21 @@ describe("the API restarting between payment and webhook", () => {
     const orderId = body.order.id as string;
 
     // The first instance (ctx.app) is not listening anywhere: it has "gone down" after checkout.
-    const paid = await fetch(body.checkoutUrl, { method: "POST", headers: { "content-type": "application/x-www-form-urlencoded" }, body: new URLSearchParams({ card: "4242424242424242", expiry: "12/34", cvc: "123" }), redirect: "manual" });
+    const paid = await fetch(body.checkoutUrl, {
+      method: "POST",
+      headers: { "content-type": "application/x-www-form-urlencoded" },
+      body: new URLSearchParams({ card: "4242424242424242", expiry: "12/34", cvc: "123" }),
+      redirect: "manual",
+    });
     expect(paid.status).toBe(303);
-    const completedEvent = () => fake.store.state.events.map((id) => fake.store.get(id)!).find((e) => e.type === "checkout.session.completed" && (e.data as { object: { metadata: Record<string, string> } }).object.metadata.order_id === orderId);
+    const completedEvent = () =>
+      fake.store.state.events
+        .map((id) => fake.store.get(id)!)
+        .find(
+          (e) =>
+            e.type === "checkout.session.completed" &&
+            (e.data as { object: { metadata: Record<string, string> } }).object.metadata.order_id === orderId,
+        );
     await until(async () => {
       const event = completedEvent();
       return !!event && fake.webhooks.attempts.filter((a) => a.eventId === event.id && a.status === "network_error").length >= 2;
@@ -121,9 +151,25 @@ describe("the API restarting between payment and webhook", () => {
   });
 
   it("two instances answering at once (one restarting, one up): a burst of duplicate deliveries still pays once", async () => {
-    const slab = (await sawyer.post("/api/v1/yard/slabs", { speciesSlug: "black-walnut", lengthMm: 1500, thicknessMm: 45, widthStationsMm: [450, 440], liveEdge: "both", surfacing: "sanded", dryingMethod: "kiln" })).body.slab;
-    const listing = (await sawyer.post("/api/v1/yard/listings", { title: "Walnut shelf", slabIds: [slab.id], priceMode: "fixed", rateMinor: 22_000 })).body.listing;
-    await sawyer.agent.post(`/api/v1/yard/listings/${listing.id}/photos`).set("x-csrf-token", sawyer.csrfToken).set("content-type", "image/jpeg").send(photo);
+    const slab = (
+      await sawyer.post("/api/v1/yard/slabs", {
+        speciesSlug: "black-walnut",
+        lengthMm: 1500,
+        thicknessMm: 45,
+        widthStationsMm: [450, 440],
+        liveEdge: "both",
+        surfacing: "sanded",
+        dryingMethod: "kiln",
+      })
+    ).body.slab;
+    const listing = (
+      await sawyer.post("/api/v1/yard/listings", { title: "Walnut shelf", slabIds: [slab.id], priceMode: "fixed", rateMinor: 22_000 })
+    ).body.listing;
+    await sawyer.agent
+      .post(`/api/v1/yard/listings/${listing.id}/photos`)
+      .set("x-csrf-token", sawyer.csrfToken)
+      .set("content-type", "image/jpeg")
+      .send(photo);
     await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
     await admin.post(`/api/v1/admin/listings/${listing.id}/approve`);
     const buyer = await ctx.signedInClient("buyer");
@@ -136,7 +182,12 @@ describe("the API restarting between payment and webhook", () => {
     const firstUrl = `http://127.0.0.1:${(first.address() as AddressInfo).port}/api/v1/payments/webhook`;
     fake.webhooks.options.copies = 4;
     try {
-      await fetch(body.checkoutUrl, { method: "POST", headers: { "content-type": "application/x-www-form-urlencoded" }, body: new URLSearchParams({ card: "4242424242424242", expiry: "12/34", cvc: "123" }), redirect: "manual" });
+      await fetch(body.checkoutUrl, {
+        method: "POST",
+        headers: { "content-type": "application/x-www-form-urlencoded" },
+        body: new URLSearchParams({ card: "4242424242424242", expiry: "12/34", cvc: "123" }),
+        redirect: "manual",
+      });
       fake.webhooks.options.url = firstUrl;
       fake.webhooks.resendAll();
       fake.webhooks.options.url = second;

@@ -37,10 +37,14 @@ export function yardRoutes(yard: YardService, csv: InventoryCsv, logPhotos: LogP
     res.setHeader("content-disposition", 'attachment; filename="grainyard-slabs.csv"');
     res.send(text);
   });
-  router.post("/yard/slabs/import", express.text({ type: ["text/csv", "text/plain", "application/csv", "application/vnd.ms-excel"], limit: "2mb" }), async (req, res) => {
-    const text = typeof req.body === "string" ? req.body : "";
-    res.status(201).json(await csv.importSlabs(req.actor, text));
-  });
+  router.post(
+    "/yard/slabs/import",
+    express.text({ type: ["text/csv", "text/plain", "application/csv", "application/vnd.ms-excel"], limit: "2mb" }),
+    async (req, res) => {
+      const text = typeof req.body === "string" ? req.body : "";
+      res.status(201).json(await csv.importSlabs(req.actor, text));
+    },
+  );
 
   router.get("/yard/slabs", async (req, res) => {
     res.json({ slabs: await yard.listSlabs(req.actor) });

@@ -163,7 +163,11 @@ describe("moisture readings", () => {
     expect(drying.body.slab.figures.weightKg).toBeGreaterThan(slab.figures.weightKg);
     expect(drying.body.slab.figures.weightAtMoisturePct).toBe(20);
 
-    const inBand = await sawyer.post(`/api/v1/yard/slabs/${slab.id}/readings`, { readOn: "2025-10-01", moistureContentPct: 8.5, method: "oven_dry" });
+    const inBand = await sawyer.post(`/api/v1/yard/slabs/${slab.id}/readings`, {
+      readOn: "2025-10-01",
+      moistureContentPct: 8.5,
+      method: "oven_dry",
+    });
     const ready = await sawyer.get(`/api/v1/yard/slabs/${slab.id}`);
     expect(ready.body.slab.dryingState).toBe("ready");
     expect(ready.body.projection.status).toBe("ready");
@@ -178,7 +182,11 @@ describe("moisture readings", () => {
     const slab = (await sawyer.post("/api/v1/yard/slabs", slabInput())).body.slab;
     await sawyer.post(`/api/v1/yard/slabs/${slab.id}/readings`, { readOn: "2025-01-10", moistureContentPct: 30, method: "pin_meter" });
     expect((await sawyer.get(`/api/v1/yard/slabs/${slab.id}`)).body.projection.status).toBe("not_enough_readings");
-    const bad = await sawyer.post(`/api/v1/yard/slabs/${slab.id}/readings`, { readOn: "10/01/2025", moistureContentPct: -4, method: "guess" });
+    const bad = await sawyer.post(`/api/v1/yard/slabs/${slab.id}/readings`, {
+      readOn: "10/01/2025",
+      moistureContentPct: -4,
+      method: "guess",
+    });
     expect(bad.status).toBe(422);
     expect(Object.keys(bad.body.error.fields).sort()).toEqual(["method", "moistureContentPct", "readOn"]);
   });
@@ -186,7 +194,11 @@ describe("moisture readings", () => {
   it("records one reading for every slab of a log at once", async () => {
     const log = (await sawyer.post("/api/v1/yard/logs", logInput)).body.log;
     for (const n of [1, 2, 3]) await sawyer.post("/api/v1/yard/slabs", slabInput({ logId: log.id, sequenceInLog: n }));
-    const res = await sawyer.post(`/api/v1/yard/logs/${log.id}/readings`, { readOn: "2025-05-01", moistureContentPct: 14, method: "pin_meter" });
+    const res = await sawyer.post(`/api/v1/yard/logs/${log.id}/readings`, {
+      readOn: "2025-05-01",
+      moistureContentPct: 14,
+      method: "pin_meter",
+    });
     expect(res.status).toBe(201);
     expect(res.body.count).toBe(3);
     const detail = await sawyer.get(`/api/v1/yard/logs/${log.id}`);
@@ -204,7 +216,11 @@ describe("inventory CSV", () => {
     const text = exported.text;
     expect(text.split("\n")[0]).toContain("width_stations_mm");
     expect(text).toContain('"Has a ""tight"" knot, near one end"');
-    const imported = await fresh.agent.post("/api/v1/yard/slabs/import").set("x-csrf-token", fresh.csrfToken).set("content-type", "text/csv").send(text);
+    const imported = await fresh.agent
+      .post("/api/v1/yard/slabs/import")
+      .set("x-csrf-token", fresh.csrfToken)
+      .set("content-type", "text/csv")
+      .send(text);
     expect(imported.status).toBe(201);
     expect(imported.body.created).toBe(1);
     const slabs = (await fresh.get("/api/v1/yard/slabs")).body.slabs;
@@ -221,7 +237,11 @@ describe("inventory CSV", () => {
       "black-walnut,40000,60,610,one,sanded,air,",
       "red-maple,2100,55,500;480,none,rough_sawn,air,glitter",
     ].join("\n");
-    const res = await fresh.agent.post("/api/v1/yard/slabs/import").set("x-csrf-token", fresh.csrfToken).set("content-type", "text/csv").send(csv);
+    const res = await fresh.agent
+      .post("/api/v1/yard/slabs/import")
+      .set("x-csrf-token", fresh.csrfToken)
+      .set("content-type", "text/csv")
+      .send(csv);
     expect(res.status).toBe(422);
     expect(res.body.error.code).toBe("csv_rows_invalid");
     expect(res.body.error.message).toMatch(/nothing was saved/);
@@ -236,7 +256,11 @@ describe("inventory CSV", () => {
     );
     expect(rows.some((r) => r.row === 2)).toBe(false);
     expect((await fresh.get("/api/v1/yard/slabs")).body.slabs).toHaveLength(0);
-    const header = await fresh.agent.post("/api/v1/yard/slabs/import").set("x-csrf-token", fresh.csrfToken).set("content-type", "text/csv").send("name,colour\noak,brown\n");
+    const header = await fresh.agent
+      .post("/api/v1/yard/slabs/import")
+      .set("x-csrf-token", fresh.csrfToken)
+      .set("content-type", "text/csv")
+      .send("name,colour\noak,brown\n");
     expect(header.status).toBe(422);
     expect(header.body.error.code).toBe("csv_columns_missing");
   });

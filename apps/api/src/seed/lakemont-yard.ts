@@ -36,7 +36,15 @@ interface DemoLog {
   diameterMm: number;
   notes: string;
   slabs: DemoSlab[];
-  listings: { title: string; description: string; setKind: "single" | "sequential" | "bookmatched"; slabs: number[]; priceMode: "per_board_foot" | "fixed"; rateMinor: number; live: boolean }[];
+  listings: {
+    title: string;
+    description: string;
+    setKind: "single" | "sequential" | "bookmatched";
+    slabs: number[];
+    priceMode: "per_board_foot" | "fixed";
+    rateMinor: number;
+    live: boolean;
+  }[];
 }
 
 const kilnDried = (readings: [string, number][]): Pick<DemoSlab, "dryingMethod" | "kilnCompletedOn" | "readings"> => ({
@@ -75,8 +83,24 @@ export const demoLogs: DemoLog[] = [
       ]),
     })),
     listings: [
-      { title: "Spalted silver maple, sequential pair", description: "Two neighbouring slabs from an Alder Row street maple, flattened and kiln-finished.", setKind: "sequential", slabs: [1, 2], priceMode: "per_board_foot", rateMinor: 1100, live: true },
-      { title: "Silver maple bench slab with checks", description: "The outside slab of the Alder Row maple; end checks stabilised.", setKind: "single", slabs: [3], priceMode: "fixed", rateMinor: 32000, live: false },
+      {
+        title: "Spalted silver maple, sequential pair",
+        description: "Two neighbouring slabs from an Alder Row street maple, flattened and kiln-finished.",
+        setKind: "sequential",
+        slabs: [1, 2],
+        priceMode: "per_board_foot",
+        rateMinor: 1100,
+        live: true,
+      },
+      {
+        title: "Silver maple bench slab with checks",
+        description: "The outside slab of the Alder Row maple; end checks stabilised.",
+        setKind: "single",
+        slabs: [3],
+        priceMode: "fixed",
+        rateMinor: 32000,
+        live: false,
+      },
     ],
   },
   {
@@ -90,28 +114,27 @@ export const demoLogs: DemoLog[] = [
     milledOn: "2024-02-20",
     lengthMm: 2700,
     diameterMm: 910,
-    notes: "Removed for the Fountain Park path renovation; milled on site with the chainsaw mill. The widest slab went through the co-op kiln.",
+    notes:
+      "Removed for the Fountain Park path renovation; milled on site with the chainsaw mill. The widest slab went through the co-op kiln.",
     slabs: [
-      ...[1, 2].map(
-        (sequence): DemoSlab => ({
-          sequence,
-          lengthMm: 2500,
-          thicknessMm: 76,
-          widthStationsMm: [840, 800, 785, 820],
-          liveEdge: "both",
-          surfacing: "rough_sawn",
-          features: [],
-          defects: ["cracks"],
-          dryingMethod: "air",
-          kilnCompletedOn: null,
-          readings: [
-            ["2024-03-01", 74],
-            ["2024-09-01", 41],
-            ["2025-03-01", 27],
-            ["2025-09-01", 19],
-          ],
-        }),
-      ),
+      ...[1, 2].map((sequence): DemoSlab => ({
+        sequence,
+        lengthMm: 2500,
+        thicknessMm: 76,
+        widthStationsMm: [840, 800, 785, 820],
+        liveEdge: "both",
+        surfacing: "rough_sawn",
+        features: [],
+        defects: ["cracks"],
+        dryingMethod: "air",
+        kilnCompletedOn: null,
+        readings: [
+          ["2024-03-01", 74],
+          ["2024-09-01", 41],
+          ["2025-03-01", 27],
+          ["2025-09-01", 19],
+        ],
+      })),
       {
         sequence: 3,
         lengthMm: 2950,
@@ -130,7 +153,15 @@ export const demoLogs: DemoLog[] = [
       },
     ],
     listings: [
-      { title: "Wide red oak dining slab, seats eight", description: "Centre cut of the Fountain Park oak, flattened both faces; two walnut butterfly keys hold a small check.", setKind: "single", slabs: [3], priceMode: "per_board_foot", rateMinor: 1450, live: true },
+      {
+        title: "Wide red oak dining slab, seats eight",
+        description: "Centre cut of the Fountain Park oak, flattened both faces; two walnut butterfly keys hold a small check.",
+        setKind: "single",
+        slabs: [3],
+        priceMode: "per_board_foot",
+        rateMinor: 1450,
+        live: true,
+      },
     ],
   },
   {
@@ -162,14 +193,28 @@ export const demoLogs: DemoLog[] = [
       ]),
     })),
     listings: [
-      { title: "Bookmatched black walnut pair with crotch figure", description: "Two neighbouring slabs from the hospital-wing walnut, opened like a book. One small void filled with clear epoxy.", setKind: "bookmatched", slabs: [1, 2], priceMode: "fixed", rateMinor: 260000, live: true },
+      {
+        title: "Bookmatched black walnut pair with crotch figure",
+        description: "Two neighbouring slabs from the hospital-wing walnut, opened like a book. One small void filled with clear epoxy.",
+        setKind: "bookmatched",
+        slabs: [1, 2],
+        priceMode: "fixed",
+        rateMinor: 260000,
+        live: true,
+      },
     ],
   },
 ];
 
 type AddPhoto = (manager: EntityManager, listingId: string, position: number, bytes: Buffer, altText: string) => Promise<void>;
 
-async function addLog(manager: EntityManager, sawyer: AccountEntity, demo: DemoLog, photos?: AddPhoto, onLive?: (manager: EntityManager, listingId: string) => Promise<void>) {
+async function addLog(
+  manager: EntityManager,
+  sawyer: AccountEntity,
+  demo: DemoLog,
+  photos?: AddPhoto,
+  onLive?: (manager: EntityManager, listingId: string) => Promise<void>,
+) {
   const logId = randomUUID();
   await manager.getRepository(YardLogEntity).insert({
     id: logId,
@@ -215,7 +260,9 @@ async function addLog(manager: EntityManager, sawyer: AccountEntity, demo: DemoL
       lastReadOn: last ? last[0] : null,
     });
     for (const [readOn, moistureContentPct] of slab.readings) {
-      await manager.getRepository(MoistureReadingEntity).insert({ id: randomUUID(), slabId: id, readOn, moistureContentPct, method: "pin_meter" });
+      await manager
+        .getRepository(MoistureReadingEntity)
+        .insert({ id: randomUUID(), slabId: id, readOn, moistureContentPct, method: "pin_meter" });
     }
     slabIds.set(slab.sequence, id);
     figuresBySequence.set(slab.sequence, figures);
@@ -246,11 +293,19 @@ async function addLog(manager: EntityManager, sawyer: AccountEntity, demo: DemoL
       publishedAt: demoListing.live ? at : null,
       ...figures,
     });
-    await manager.getRepository(ListingSlabEntity).insert(demoListing.slabs.map((n, position) => ({ listingId, slabId: slabIds.get(n)!, position })));
+    await manager
+      .getRepository(ListingSlabEntity)
+      .insert(demoListing.slabs.map((n, position) => ({ listingId, slabId: slabIds.get(n)!, position })));
     if (photos) {
       for (const [position, n] of demoListing.slabs.entries()) {
         const slab = demo.slabs.find((s) => s.sequence === n)!;
-        await photos(manager, listingId, position, await slabPicture(demo.speciesSlug, slab.lengthMm, slab.widthStationsMm, n), `Slab ${n} of the ${demo.siteNeighbourhood} log, top face`);
+        await photos(
+          manager,
+          listingId,
+          position,
+          await slabPicture(demo.speciesSlug, slab.lengthMm, slab.widthStationsMm, n),
+          `Slab ${n} of the ${demo.siteNeighbourhood} log, top face`,
+        );
       }
     }
     if (demoListing.live) await onLive?.(manager, listingId);
@@ -262,13 +317,17 @@ async function addLog(manager: EntityManager, sawyer: AccountEntity, demo: DemoL
  * nothing. With `photos`, listings get drawn photos through the real photo pipeline, and live
  * ones enter the catalogue through `onLive`.
  */
-export async function seedLakemontYards(dataSource: DataSource, options: { photos?: AddPhoto; onLive?: (manager: EntityManager, listingId: string) => Promise<void> } = {}): Promise<{ logs: number }> {
+export async function seedLakemontYards(
+  dataSource: DataSource,
+  options: { photos?: AddPhoto; onLive?: (manager: EntityManager, listingId: string) => Promise<void> } = {},
+): Promise<{ logs: number }> {
   let logs = 0;
   await dataSource.transaction(async (manager) => {
     for (const demo of demoLogs) {
       const sawyer = await manager.getRepository(AccountEntity).findOneBy({ email: demo.yardEmail });
       if (!sawyer) continue;
-      if (await manager.getRepository(YardLogEntity).exists({ where: { sawyerId: sawyer.id, siteNeighbourhood: demo.siteNeighbourhood } })) continue;
+      if (await manager.getRepository(YardLogEntity).exists({ where: { sawyerId: sawyer.id, siteNeighbourhood: demo.siteNeighbourhood } }))
+        continue;
       await addLog(manager, sawyer, demo, options.photos, options.onLive);
       logs += 1;
     }

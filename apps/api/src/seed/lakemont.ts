@@ -20,7 +20,13 @@ export interface DemoAccount {
 }
 
 export const demoAccounts: DemoAccount[] = [
-  { email: "desk@grainyard.test", password: "lakemont-desk-2026", role: "admin", displayName: "Grainyard desk (Wren Halloway)", note: "admin" },
+  {
+    email: "desk@grainyard.test",
+    password: "lakemont-desk-2026",
+    role: "admin",
+    displayName: "Grainyard desk (Wren Halloway)",
+    note: "admin",
+  },
   {
     email: "yard@ridgeback-timber.test",
     password: "ridgeback-bandmill-2026",
@@ -48,9 +54,27 @@ export const demoAccounts: DemoAccount[] = [
     pickupTown: "Northshore",
     note: "sawyer, shared kiln co-op",
   },
-  { email: "shop@fernhill-furniture.test", password: "fernhill-benches-2026", role: "buyer", displayName: "Fernhill Furniture Shop", note: "buyer, small furniture shop" },
-  { email: "ana.theo@lakemont-home.test", password: "first-dining-table-26", role: "buyer", displayName: "Ana and Theo Brandt", note: "buyer, first dining table" },
-  { email: "studio@calloway-interiors.test", password: "bookmatched-pair-2026", role: "buyer", displayName: "Ines Calloway", note: "buyer, interior designer" },
+  {
+    email: "shop@fernhill-furniture.test",
+    password: "fernhill-benches-2026",
+    role: "buyer",
+    displayName: "Fernhill Furniture Shop",
+    note: "buyer, small furniture shop",
+  },
+  {
+    email: "ana.theo@lakemont-home.test",
+    password: "first-dining-table-26",
+    role: "buyer",
+    displayName: "Ana and Theo Brandt",
+    note: "buyer, first dining table",
+  },
+  {
+    email: "studio@calloway-interiors.test",
+    password: "bookmatched-pair-2026",
+    role: "buyer",
+    displayName: "Ines Calloway",
+    note: "buyer, interior designer",
+  },
 ];
 
 /** Adds the demo accounts that are missing; running it twice adds nothing twice. */
@@ -62,7 +86,8 @@ export async function seedLakemont(dataSource: DataSource, bcryptCost: number): 
       const existing = await repository.findOneBy({ email: demo.email });
       if (existing) {
         // Accounts seeded before pickup towns were placed on the map get their position now.
-        if (existing.pickupTown && existing.pickupLatitude === null) await repository.update({ id: existing.id }, pickupPosition(existing.pickupTown));
+        if (existing.pickupTown && existing.pickupLatitude === null)
+          await repository.update({ id: existing.id }, pickupPosition(existing.pickupTown));
         continue;
       }
       await repository.insert({

@@ -22,7 +22,9 @@ export async function slabPicture(speciesSlug: string, lengthMm: number, widthSt
   const step = (lengthMm * scale) / (widthStationsMm.length - 1);
   const wobble = (i: number) => Math.sin(i * 2.3 + variant) * 6;
   const top = widthStationsMm.map((w, i) => `${(left + i * step).toFixed(1)},${(middle - (w * scale) / 2 + wobble(i)).toFixed(1)}`);
-  const bottom = widthStationsMm.map((w, i) => `${(left + i * step).toFixed(1)},${(middle + (w * scale) / 2 + wobble(i + 3)).toFixed(1)}`).reverse();
+  const bottom = widthStationsMm
+    .map((w, i) => `${(left + i * step).toFixed(1)},${(middle + (w * scale) / 2 + wobble(i + 3)).toFixed(1)}`)
+    .reverse();
   const outline = [...top, ...bottom].join(" ");
   // Flat-sawn "cathedral" grain: growth rings cut at a slant show as nested arches.
   const pithX = left + lengthMm * scale * (0.72 + 0.05 * Math.sin(variant));

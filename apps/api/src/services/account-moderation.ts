@@ -40,11 +40,20 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
   async function counts(accountIds: string[]): Promise<Map<string, { listings: number; orders: number }>> {
     const result = new Map(accountIds.map((id) => [id, { listings: 0, orders: 0 }]));
     if (accountIds.length === 0) return result;
-    const listings: { id: string; n: string }[] = await dataSource.query("SELECT sawyer_id AS id, COUNT(*) AS n FROM listing WHERE sawyer_id IN (?) GROUP BY sawyer_id", [accountIds]);
+    const listings: { id: string; n: string }[] = await dataSource.query(
+      "SELECT sawyer_id AS id, COUNT(*) AS n FROM listing WHERE sawyer_id IN (?) GROUP BY sawyer_id",
+      [accountIds],
+    );
     for (const row of listings) result.get(row.id)!.listings = Number(row.n);
-    const buyers: { id: string; n: string }[] = await dataSource.query("SELECT buyer_id AS id, COUNT(*) AS n FROM buyer_order WHERE buyer_id IN (?) GROUP BY buyer_id", [accountIds]);
+    const buyers: { id: string; n: string }[] = await dataSource.query(
+      "SELECT buyer_id AS id, COUNT(*) AS n FROM buyer_order WHERE buyer_id IN (?) GROUP BY buyer_id",
+      [accountIds],
+    );
     for (const row of buyers) result.get(row.id)!.orders += Number(row.n);
-    const sawyers: { id: string; n: string }[] = await dataSource.query("SELECT sawyer_id AS id, COUNT(*) AS n FROM buyer_order WHERE sawyer_id IN (?) GROUP BY sawyer_id", [accountIds]);
+    const sawyers: { id: string; n: string }[] = await dataSource.query(
+      "SELECT sawyer_id AS id, COUNT(*) AS n FROM buyer_order WHERE sawyer_id IN (?) GROUP BY sawyer_id",
+      [accountIds],
+    );
     for (const row of sawyers) result.get(row.id)!.orders += Number(row.n);
     return result;
   }
@@ -67,7 +76,13 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
   }
 
   /** The suspension itself, inside the caller's transaction (also used when resolving a report). */
-  async function suspendWith(manager: EntityManager, admin: SignedInActor, accountId: string, reason: string, at: Date): Promise<AccountEntity> {
+  async function suspendWith(
+    manager: EntityManager,
+    admin: SignedInActor,
+    accountId: string,
+    reason: string,
+    at: Date,
+  ): Promise<AccountEntity> {
     const account = await manager.getRepository(AccountEntity).findOne({ where: { id: accountId }, lock: { mode: "pessimistic_write" } });
     if (!account) throw new NotFound("No account with that id.");
     if (account.role === "admin") throw new Forbidden("Admin accounts cannot be suspended from the desk.", "admin_not_suspendable");
@@ -133,7 +148,9 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
         const at = now();
         await manager.getRepository(AccountEntity).update({ id: accountId }, { suspendedAt: null, suspensionReason: null });
         // Only listings hidden by the suspension come back; taken-down, withdrawn or sold ones stay as they are.
-        const hidden = await manager.getRepository(ListingEntity).find({ where: { sawyerId: accountId, status: "suspended" }, select: { id: true } });
+        const hidden = await manager
+          .getRepository(ListingEntity)
+          .find({ where: { sawyerId: accountId, status: "suspended" }, select: { id: true } });
         for (const { id } of hidden) {
           await manager.getRepository(ListingEntity).update({ id, status: "suspended" }, { status: "live" });
           await changed(manager, id);
@@ -141,7 +158,14 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
         await recordAudit(
           manager,
           admin,
-          { action: "account.restore", targetKind: "account", targetId: accountId, before: { suspended: true, reason: found.suspensionReason }, after: { suspended: false, listingsReturned: hidden.map((l) => l.id) }, reason: input.reason },
+          {
+            action: "account.restore",
+            targetKind: "account",
+            targetId: accountId,
+            before: { suspended: true, reason: found.suspensionReason },
+            after: { suspended: false, listingsReturned: hidden.map((l) => l.id) },
+            reason: input.reason,
+          },
           at,
         );
         return found;
@@ -161,7 +185,10 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
         const like = `%${input.query.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
         query.andWhere(
           new Brackets((where) => {
-            where.where("account.email LIKE :like", { like }).orWhere("account.display_name LIKE :like", { like }).orWhere("account.yard_name LIKE :like", { like });
+            where
+              .where("account.email LIKE :like", { like })
+              .orWhere("account.display_name LIKE :like", { like })
+              .orWhere("account.yard_name LIKE :like", { like });
           }),
         );
       }

@@ -80,7 +80,8 @@ export function createAccountService(deps: AccountServiceDependencies) {
     const hash = tokenHash(token);
     const found = await repository.findOne({ where: { tokenHash: hash, purpose }, lock: { mode: "pessimistic_write" } });
     const noun = purpose === "verify_email" ? "confirmation" : "reset";
-    if (!found) throw new Invalid(`That ${noun} link is not valid. Copy the whole link from the e-mail.`, { token: "Unknown link." }, "link_invalid");
+    if (!found)
+      throw new Invalid(`That ${noun} link is not valid. Copy the whole link from the e-mail.`, { token: "Unknown link." }, "link_invalid");
     if (found.usedAt) throw new Gone(`That ${noun} link has already been used.`, "link_used");
     if (found.expiresAt.getTime() <= now().getTime()) throw new Gone(`That ${noun} link has expired. Ask for a new one.`, "link_expired");
     const result = await repository.update({ id: found.id, usedAt: IsNull() }, { usedAt: now() });
@@ -99,7 +100,8 @@ export function createAccountService(deps: AccountServiceDependencies) {
   return {
     /** Creates a buyer or sawyer account (never an admin) and mails a confirmation link. */
     async signUp(actor: Actor, input: SignUpInput): Promise<Account> {
-      if (actor.kind === "account") throw new Conflict("You are already signed in. Sign out to create another account.", "already_signed_in");
+      if (actor.kind === "account")
+        throw new Conflict("You are already signed in. Sign out to create another account.", "already_signed_in");
       if ((input.role as string) === "admin") throw new Forbidden("Admin accounts cannot be created here.");
       if (isCommonPassword(input.password)) throw new Invalid(COMMON_PASSWORD_MESSAGE, { password: COMMON_PASSWORD_MESSAGE });
       const passwordHash = await hashPassword(input.password, config.bcryptCost);
@@ -133,9 +135,15 @@ export function createAccountService(deps: AccountServiceDependencies) {
     /** Checks the password and opens a session; returns the session key for the cookie. */
     async signIn(input: SignInInput): Promise<{ account: Account; sessionKey: string }> {
       const entity = await accounts().findOne({ where: { email: input.email } });
-      const matches = entity ? await passwordMatches(input.password, entity.passwordHash) : await decoyPasswordCheck(input.password, config.bcryptCost);
+      const matches = entity
+        ? await passwordMatches(input.password, entity.passwordHash)
+        : await decoyPasswordCheck(input.password, config.bcryptCost);
       if (!entity || !matches) throw new Unauthorized("That e-mail and password do not match an account.", "wrong_credentials");
-      if (entity.suspendedAt) throw new Forbidden("This account is suspended, so it cannot sign in. Reply to the e-mail we sent you to talk to us about it.", "account_suspended");
+      if (entity.suspendedAt)
+        throw new Forbidden(
+          "This account is suspended, so it cannot sign in. Reply to the e-mail we sent you to talk to us about it.",
+          "account_suspended",
+        );
       const sessionKey = newToken();
       await dataSource.getRepository(SessionRecordEntity).insert({
         keyHash: tokenHash(sessionKey),
@@ -150,11 +158,20 @@ export function createAccountService(deps: AccountServiceDependencies) {
     async actorForSession(sessionKey: string | undefined): Promise<{ actor: Actor; account: AccountEntity | null }> {
       if (!sessionKey) return { actor: { kind: "anonymous" }, account: null };
       const keyHash = tokenHash(sessionKey);
-      const record = await dataSource.getRepository(SessionRecordEntity).findOne({ where: { keyHash, revokedAt: IsNull() }, relations: { account: true } });
-      if (!record?.account || record.expiresAt.getTime() <= now().getTime() || record.account.suspendedAt) return { actor: { kind: "anonymous" }, account: null };
+      const record = await dataSource
+        .getRepository(SessionRecordEntity)
+        .findOne({ where: { keyHash, revokedAt: IsNull() }, relations: { account: true } });
+      if (!record?.account || record.expiresAt.getTime() <= now().getTime() || record.account.suspendedAt)
+        return { actor: { kind: "anonymous" }, account: null };
       const account = record.account;
       return {
-        actor: { kind: "account", accountId: account.id, role: account.role, emailVerified: account.emailVerifiedAt !== null, sessionKeyHash: keyHash },
+        actor: {
+          kind: "account",
+          accountId: account.id,
+          role: account.role,
+          emailVerified: account.emailVerifiedAt !== null,
+          sessionKeyHash: keyHash,
+        },
         account,
       };
     },
@@ -202,9 +219,13 @@ export function createAccountService(deps: AccountServiceDependencies) {
         const at = now();
         const account = await manager.getRepository(AccountEntity).findOneByOrFail({ id: token.accountId });
         // The link reached the inbox, which also proves the address.
-        await manager.getRepository(AccountEntity).update({ id: account.id }, { passwordHash, emailVerifiedAt: account.emailVerifiedAt ?? at });
+        await manager
+          .getRepository(AccountEntity)
+          .update({ id: account.id }, { passwordHash, emailVerifiedAt: account.emailVerifiedAt ?? at });
         await manager.getRepository(SessionRecordEntity).update({ accountId: account.id, revokedAt: IsNull() }, { revokedAt: at });
-        await manager.getRepository(EmailTokenEntity).update({ accountId: account.id, purpose: "reset_password", usedAt: IsNull() }, { usedAt: at });
+        await manager
+          .getRepository(EmailTokenEntity)
+          .update({ accountId: account.id, purpose: "reset_password", usedAt: IsNull() }, { usedAt: at });
       });
     },
 
@@ -227,12 +248,19 @@ export function createAccountService(deps: AccountServiceDependencies) {
       const yard = await accounts().findOneBy({ id: sawyerId, role: "sawyer" });
       if (!yard) throw new NotFound("No yard with that id.");
       await dataSource.transaction(async (manager) => {
-        await manager.getRepository(AccountEntity).update({ id: yard.id }, { ...input, ...(input.pickupTown !== undefined ? pickupPosition(input.pickupTown) : {}) });
+        await manager
+          .getRepository(AccountEntity)
+          .update({ id: yard.id }, { ...input, ...(input.pickupTown !== undefined ? pickupPosition(input.pickupTown) : {}) });
         await deps.onYardChanged?.(manager, yard.id);
         // An admin changing someone's yard is an admin action: audited in the same transaction.
         if (signedIn.role === "admin") {
           const before = Object.fromEntries(Object.keys(input).map((key) => [key, yard[key as keyof typeof yard] ?? null]));
-          await recordAudit(manager, signedIn, { action: "yard.update", targetKind: "account", targetId: yard.id, before, after: input }, now());
+          await recordAudit(
+            manager,
+            signedIn,
+            { action: "yard.update", targetKind: "account", targetId: yard.id, before, after: input },
+            now(),
+          );
         }
       });
       return toAccount(await accounts().findOneByOrFail({ id: yard.id }));
@@ -247,7 +275,10 @@ export function createAccountService(deps: AccountServiceDependencies) {
         const like = `%${input.query.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
         query.andWhere(
           new Brackets((where) => {
-            where.where("account.email LIKE :like", { like }).orWhere("account.display_name LIKE :like", { like }).orWhere("account.yard_name LIKE :like", { like });
+            where
+              .where("account.email LIKE :like", { like })
+              .orWhere("account.display_name LIKE :like", { like })
+              .orWhere("account.yard_name LIKE :like", { like });
           }),
         );
       }

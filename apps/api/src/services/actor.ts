@@ -3,10 +3,7 @@ import { Forbidden, Unauthorized } from "../errors.ts";
 
 /** Who is acting. Every service function takes one, so permission cannot be forgotten by a route. */
 export type Actor =
-  | { kind: "anonymous" }
-  | { kind: "account"; accountId: string; role: Role; emailVerified: boolean; sessionKeyHash: string };
-
-export const anonymous: Actor = { kind: "anonymous" };
+  { kind: "anonymous" } | { kind: "account"; accountId: string; role: Role; emailVerified: boolean; sessionKeyHash: string };
 
 export type SignedInActor = Extract<Actor, { kind: "account" }>;
 

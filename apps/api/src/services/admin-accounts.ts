@@ -21,11 +21,27 @@ export async function createAdmin(
     const existing = await repository.findOneBy({ email });
     if (existing) {
       await repository.update({ id: existing.id }, { role: "admin", yardName: null, pickupTown: null });
-      await recordAudit(manager, "cli", { action: "account.promote", targetKind: "account", targetId: existing.id, before: { role: existing.role }, after: { role: "admin" } }, new Date());
+      await recordAudit(
+        manager,
+        "cli",
+        {
+          action: "account.promote",
+          targetKind: "account",
+          targetId: existing.id,
+          before: { role: existing.role },
+          after: { role: "admin" },
+        },
+        new Date(),
+      );
       return { email, created: false };
     }
     const id = randomUUID();
-    await recordAudit(manager, "cli", { action: "account.create_admin", targetKind: "account", targetId: id, before: null, after: { role: "admin", email } }, new Date());
+    await recordAudit(
+      manager,
+      "cli",
+      { action: "account.create_admin", targetKind: "account", targetId: id, before: null, after: { role: "admin", email } },
+      new Date(),
+    );
     await repository.insert({
       id,
       email,

@@ -24,7 +24,9 @@ export async function recordAudit(manager: EntityManager, actor: SignedInActor |
   let actorLabel = "command line";
   if (actor !== "cli") {
     actorId = actor.accountId;
-    const account = await manager.getRepository(AccountEntity).findOne({ where: { id: actor.accountId }, select: { id: true, email: true } });
+    const account = await manager
+      .getRepository(AccountEntity)
+      .findOne({ where: { id: actor.accountId }, select: { id: true, email: true } });
     actorLabel = account?.email ?? actor.accountId;
   }
   await manager.getRepository(AuditEntryEntity).insert({
@@ -96,9 +98,17 @@ export function createAuditService(deps: { dataSource: DataSource }) {
       return stringify(
         rows.map((r) => {
           const v = view(r);
-          return { ...v, before: v.before === null ? "" : JSON.stringify(v.before), after: v.after === null ? "" : JSON.stringify(v.after), reason: v.reason ?? "" };
+          return {
+            ...v,
+            before: v.before === null ? "" : JSON.stringify(v.before),
+            after: v.after === null ? "" : JSON.stringify(v.after),
+            reason: v.reason ?? "",
+          };
         }),
-        { header: true, columns: ["id", "createdAt", "actorId", "actorLabel", "action", "targetKind", "targetId", "reason", "before", "after"] },
+        {
+          header: true,
+          columns: ["id", "createdAt", "actorId", "actorLabel", "action", "targetKind", "targetId", "reason", "before", "after"],
+        },
       );
     },
   };

@@ -2,10 +2,28 @@ import { createHash, createHmac, timingSafeEqual } from "node:crypto";
 import { gzipSync } from "node:zlib";
 import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult, Place } from "@grainyard/contracts";
 import { yardPaths } from "@grainyard/contracts";
-import { KILN_DRIED_TARGET_BAND, NIOSH_LOAD_CONSTANT_KG, findSpeciesBySlug, gluedTableFit, greatCircleKm, tableFit, topLengthForSeats } from "@grainyard/slab-math";
+import {
+  KILN_DRIED_TARGET_BAND,
+  NIOSH_LOAD_CONSTANT_KG,
+  findSpeciesBySlug,
+  gluedTableFit,
+  greatCircleKm,
+  tableFit,
+  topLengthForSeats,
+} from "@grainyard/slab-math";
 import { LRUCache } from "lru-cache";
 import { In, type DataSource, type EntityManager } from "typeorm";
-import { AccountEntity, CatalogueEntryEntity, LogPhotoEntity, ListingEntity, ListingPhotoEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
+import {
+  AccountEntity,
+  CatalogueEntryEntity,
+  LogPhotoEntity,
+  ListingEntity,
+  ListingPhotoEntity,
+  ListingSlabEntity,
+  MoistureReadingEntity,
+  SlabEntity,
+  YardLogEntity,
+} from "../entities/index.ts";
 import { Invalid, NotFound } from "../errors.ts";
 import type { Actor } from "./actor.ts";
 import { photoView } from "./listing-service.ts";
@@ -74,8 +92,8 @@ export function plainCatalogueCard(entry: CatalogueRow): CatalogueCard {
 }
 
 /** A dining top's usual width and thickness when a buyer gives only the number of diners (common practice: about 900 mm wide, 38 mm thick). */
-export const DEFAULT_DINING_WIDTH_MM = 900;
-export const DEFAULT_TOP_THICKNESS_MM = 38;
+const DEFAULT_DINING_WIDTH_MM = 900;
+const DEFAULT_TOP_THICKNESS_MM = 38;
 
 /**
  * What a listing yields as a finished top, from slab-math's fit check with its default allowances:
@@ -92,8 +110,11 @@ export function usableTop(slabs: { lengthMm: number; thicknessMm: number; widthS
 }
 
 /** The top a fit search asks for, or null when the query has no fit part. */
-export function wantedTop(input: CatalogueQueryParsed): { lengthMm: number; widthMm: number; thicknessMm: number; seats: number | null } | null {
-  if (input.seats === undefined && input.fitLength === undefined && input.fitWidth === undefined && input.fitThickness === undefined) return null;
+export function wantedTop(
+  input: CatalogueQueryParsed,
+): { lengthMm: number; widthMm: number; thicknessMm: number; seats: number | null } | null {
+  if (input.seats === undefined && input.fitLength === undefined && input.fitWidth === undefined && input.fitThickness === undefined)
+    return null;
   const lengthMm = input.seats !== undefined ? topLengthForSeats(input.seats) : (input.fitLength ?? 200);
   return {
     lengthMm,
@@ -120,7 +141,7 @@ const SORTS: Record<CatalogueQueryParsed["sort"], SortSpec> = {
 };
 
 /** Counts above this read "1000+": counting stops there, so a broad search costs no full scan. */
-export const COUNT_CAP = 1000;
+const COUNT_CAP = 1000;
 
 /**
  * Short-lived answers for repeated searches (a popular filter set is asked again and again):
@@ -167,7 +188,8 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
     return `${payload}.${sign(payload)}`;
   }
   function decodeCursor(sort: string, cursor: string): { value: string | number; id: string } {
-    const bad = () => new Invalid("That page link is not valid any more. Start the search again.", { cursor: "Invalid page token." }, "bad_cursor");
+    const bad = () =>
+      new Invalid("That page link is not valid any more. Start the search again.", { cursor: "Invalid page token." }, "bad_cursor");
     const [payload, signature] = cursor.split(".");
     if (!payload || !signature) throw bad();
     const expected = Buffer.from(sign(payload));
@@ -196,7 +218,9 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
           "SELECT a.id, a.pickup_latitude, a.pickup_longitude FROM (SELECT DISTINCT sawyer_id FROM catalogue_entry) AS yard " +
             "JOIN account a ON a.id = yard.sawyer_id WHERE a.pickup_latitude IS NOT NULL AND a.pickup_longitude IS NOT NULL",
         )
-        .then((rows: { id: string; pickup_latitude: number; pickup_longitude: number }[]) => rows.map((row) => ({ sawyerId: row.id, latitude: Number(row.pickup_latitude), longitude: Number(row.pickup_longitude) })));
+        .then((rows: { id: string; pickup_latitude: number; pickup_longitude: number }[]) =>
+          rows.map((row) => ({ sawyerId: row.id, latitude: Number(row.pickup_latitude), longitude: Number(row.pickup_longitude) })),
+        );
       positions = { loadedAt: Date.now(), yards };
       yards.catch(() => (positions = null)); // a failed read is tried again by the next search
     }
@@ -234,7 +258,11 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       ...plainCatalogueCard(entry),
       distanceKm: distance === null ? null : Math.round(distance * 10) / 10,
       fit: top
-        ? { spareLengthMm: entry.usableLengthMm - top.lengthMm, spareWidthMm: entry.usableWidthMm - top.widthMm, spareThicknessMm: entry.usableThicknessMm - top.thicknessMm }
+        ? {
+            spareLengthMm: entry.usableLengthMm - top.lengthMm,
+            spareWidthMm: entry.usableWidthMm - top.widthMm,
+            spareThicknessMm: entry.usableThicknessMm - top.thicknessMm,
+          }
         : null,
     };
   }
@@ -249,7 +277,9 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         await repository.delete({ listingId });
         return;
       }
-      const links = await manager.getRepository(ListingSlabEntity).find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
+      const links = await manager
+        .getRepository(ListingSlabEntity)
+        .find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
       const slabs = links.map((l) => l.slab!).filter(Boolean);
       if (slabs.length === 0) {
         await repository.delete({ listingId });
@@ -275,7 +305,8 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         minWidthMm: Math.min(...slabs.map((s) => s.minWidthMm)),
         ...usableTop(slabs),
         moisturePct: allRead ? Math.max(...(moistures as number[])) : null,
-        ready: allRead && (moistures as number[]).every((m) => m >= KILN_DRIED_TARGET_BAND.minimumPct && m <= KILN_DRIED_TARGET_BAND.maximumPct),
+        ready:
+          allRead && (moistures as number[]).every((m) => m >= KILN_DRIED_TARGET_BAND.minimumPct && m <= KILN_DRIED_TARGET_BAND.maximumPct),
         priceMinor: listing.priceMinor,
         // Price per board foot of the whole listing, half-up to the minor unit (for sorting and cards).
         pricePerBoardFootMinor: listing.boardFeet > 0 ? Math.round(listing.priceMinor / listing.boardFeet) : 0,
@@ -309,7 +340,8 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         throw new Invalid(`Unknown species: ${unknown.join(", ")}.`, { species: "Choose species from the list." });
       }
       const near = input.near ? findPlace(input.near) : null;
-      if (input.near && !near) throw new Invalid(`We could not find the town "${input.near}".`, { near: "Choose a town from the list." }, "unknown_place");
+      if (input.near && !near)
+        throw new Invalid(`We could not find the town "${input.near}".`, { near: "Choose a town from the list." }, "unknown_place");
       const sort = SORTS[input.sort];
       const top = withFigureErrors(() => wantedTop(input));
       const cursor = input.cursor ? decodeCursor(input.sort, input.cursor) : null;
@@ -333,7 +365,10 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       else if (within && (input.sort === "nearest" || input.radiusKm !== undefined)) limit = "placed";
       const filters = filterSql(input, checked.top, limit);
       const count = cappedCountSql(filters, COUNT_CAP);
-      const page = input.sort === "nearest" ? null : pageSql(filters, { sort: input.sort, direction: checked.sort.direction, after: checked.after, rows: input.limit + 1 });
+      const page =
+        input.sort === "nearest"
+          ? null
+          : pageSql(filters, { sort: input.sort, direction: checked.sort.direction, after: checked.after, rows: input.limit + 1 });
       return { ...checked, filters, count, page, distanceOf, within };
     },
 
@@ -374,7 +409,12 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       };
       const pageRows = async (): Promise<CatalogueRow[]> => {
         if (plan.page) return (await run(plan.page)).map(catalogueRowFromSql);
-        const ids = await nearestFirst(plan.within ?? [], plan.after as { value: number; id: string } | null, input.limit + 1, nearestBatch(plan.filters));
+        const ids = await nearestFirst(
+          plan.within ?? [],
+          plan.after as { value: number; id: string } | null,
+          input.limit + 1,
+          nearestBatch(plan.filters),
+        );
         const fetched = ids.length ? (await run(rowsByIdSql(ids))).map(catalogueRowFromSql) : [];
         const byId = new Map(fetched.map((row) => [row.listingId, row]));
         return ids.flatMap((id) => byId.get(id) ?? []);
@@ -402,14 +442,25 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
     async detail(actor: Actor, listingId: string): Promise<CatalogueDetail> {
       const listing = await dataSource.getRepository(ListingEntity).findOneBy({ id: listingId });
       const privileged = actor.kind === "account" && (actor.role === "admin" || actor.accountId === listing?.sawyerId);
-      if (!listing || (!["live", "reserved", "sold"].includes(listing.status) && !privileged)) throw new NotFound("That slab is not for sale here.");
-      const links = await dataSource.getRepository(ListingSlabEntity).find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
+      if (!listing || (!["live", "reserved", "sold"].includes(listing.status) && !privileged))
+        throw new NotFound("That slab is not for sale here.");
+      const links = await dataSource
+        .getRepository(ListingSlabEntity)
+        .find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
       const slabs = links.map((l) => l.slab!).filter(Boolean);
-      const readings = slabs.length ? await dataSource.getRepository(MoistureReadingEntity).find({ where: { slabId: In(slabs.map((s) => s.id)) }, order: { readOn: "ASC" } }) : [];
+      const readings = slabs.length
+        ? await dataSource
+            .getRepository(MoistureReadingEntity)
+            .find({ where: { slabId: In(slabs.map((s) => s.id)) }, order: { readOn: "ASC" } })
+        : [];
       const logId = slabs[0]?.logId ?? null;
       const log = logId ? await dataSource.getRepository(YardLogEntity).findOneBy({ id: logId }) : null;
       const siblings = logId ? await dataSource.getRepository(SlabEntity).find({ where: { logId }, order: { sequenceInLog: "ASC" } }) : [];
-      const siblingLinks = siblings.length ? await dataSource.getRepository(ListingSlabEntity).find({ where: { slabId: In(siblings.map((s) => s.id)) }, relations: { listing: true } }) : [];
+      const siblingLinks = siblings.length
+        ? await dataSource
+            .getRepository(ListingSlabEntity)
+            .find({ where: { slabId: In(siblings.map((s) => s.id)) }, relations: { listing: true } })
+        : [];
       const [sawyer, photos] = await Promise.all([
         dataSource.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId }),
         dataSource.getRepository(ListingPhotoEntity).find({ where: { listingId }, order: { position: "ASC" } }),
@@ -439,16 +490,35 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
           photos: photos.map(photoView),
           publishedAt: listing.publishedAt?.toISOString() ?? null,
         },
-        slabs: slabs.map((s) => ({ ...toSlab(s, listing.id), readings: readings.filter((r) => r.slabId === s.id).map((r) => ({ id: r.id, slabId: r.slabId, readOn: r.readOn, moistureContentPct: r.moistureContentPct, method: r.method })) })),
+        slabs: slabs.map((s) => ({
+          ...toSlab(s, listing.id),
+          readings: readings
+            .filter((r) => r.slabId === s.id)
+            .map((r) => ({ id: r.id, slabId: r.slabId, readOn: r.readOn, moistureContentPct: r.moistureContentPct, method: r.method })),
+        })),
         log: log ? toLog(log, siblings.length) : null,
-        logPhotos: log ? (await dataSource.getRepository(LogPhotoEntity).find({ where: { logId: log.id }, order: { position: "ASC" } })).map(logPhotoView) : [],
+        logPhotos: log
+          ? (await dataSource.getRepository(LogPhotoEntity).find({ where: { logId: log.id }, order: { position: "ASC" } })).map(
+              logPhotoView,
+            )
+          : [],
         otherSlabsFromLog: siblings
           .filter((s) => !inListing.has(s.id))
           .map((s) => {
             const link = siblingLinks.find((l) => l.slabId === s.id && l.listing && l.listing.status !== "withdrawn");
-            return { id: s.id, sequenceInLog: s.sequenceInLog, listingId: link && link.listing!.status === "live" ? link.listingId : null, status: link?.listing?.status ?? "in_yard" };
+            return {
+              id: s.id,
+              sequenceInLog: s.sequenceInLog,
+              listingId: link && link.listing!.status === "live" ? link.listingId : null,
+              status: link?.listing?.status ?? "in_yard",
+            };
           }),
-        yard: { name: sawyer?.yardName ?? null, town: sawyer?.pickupTown ?? null, latitude: sawyer?.pickupLatitude ?? null, longitude: sawyer?.pickupLongitude ?? null },
+        yard: {
+          name: sawyer?.yardName ?? null,
+          town: sawyer?.pickupTown ?? null,
+          latitude: sawyer?.pickupLatitude ?? null,
+          longitude: sawyer?.pickupLongitude ?? null,
+        },
       };
     },
   };

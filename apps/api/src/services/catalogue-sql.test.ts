@@ -1,6 +1,15 @@
 import { catalogueQuerySchema } from "@grainyard/contracts";
 import { describe, expect, it } from "vitest";
-import { cappedCountSql, featureBits, featuresOf, filterSql, matchesListingSql, nearestIdsSql, pageSql, rowsByIdSql } from "./catalogue-sql.ts";
+import {
+  cappedCountSql,
+  featureBits,
+  featuresOf,
+  filterSql,
+  matchesListingSql,
+  nearestIdsSql,
+  pageSql,
+  rowsByIdSql,
+} from "./catalogue-sql.ts";
 
 const placeholders = (sql: string) => (sql.match(/\?/g) ?? []).length;
 const parse = (query: string) => catalogueQuerySchema.parse(Object.fromEntries(new URLSearchParams(query)));
@@ -49,7 +58,9 @@ describe("catalogue SQL", () => {
     const filters = filterSql(parse(""), null);
     expect(filters).toEqual({ sql: "1 = 1", parameters: [] });
     const page = pageSql(filters, { sort: "price_per_board_foot", direction: "ASC", after: null, rows: 25 });
-    expect(page.sql).toMatch(/^SELECT e\.listing_id, .* FROM \(SELECT listing_id FROM catalogue_entry WHERE 1 = 1 ORDER BY price_per_board_foot_minor ASC, listing_id ASC LIMIT 25\) AS page STRAIGHT_JOIN/);
+    expect(page.sql).toMatch(
+      /^SELECT e\.listing_id, .* FROM \(SELECT listing_id FROM catalogue_entry WHERE 1 = 1 ORDER BY price_per_board_foot_minor ASC, listing_id ASC LIMIT 25\) AS page STRAIGHT_JOIN/,
+    );
     expect(page.parameters).toEqual([]);
   });
 

@@ -19,17 +19,75 @@ import type { CatalogueEntryEntity } from "../entities/index.ts";
 /** The columns a catalogue card is built from (everything the search returns per listing). */
 export type CatalogueRow = Pick<
   CatalogueEntryEntity,
-  | "listingId" | "sawyerId" | "title" | "speciesSlug" | "setKind" | "slabCount" | "lengthMm" | "thicknessMm" | "averageWidthMm" | "minWidthMm"
-  | "usableLengthMm" | "usableWidthMm" | "usableThicknessMm" | "moisturePct" | "ready" | "priceMinor" | "pricePerBoardFootMinor"
-  | "currency" | "boardFeet" | "volumeM3" | "weightKg" | "weightHighKg" | "liveEdge" | "featureBits" | "freight" | "pickup"
-  | "town" | "yardName" | "latitude" | "longitude" | "photoId" | "photoAlt" | "publishedAt"
+  | "listingId"
+  | "sawyerId"
+  | "title"
+  | "speciesSlug"
+  | "setKind"
+  | "slabCount"
+  | "lengthMm"
+  | "thicknessMm"
+  | "averageWidthMm"
+  | "minWidthMm"
+  | "usableLengthMm"
+  | "usableWidthMm"
+  | "usableThicknessMm"
+  | "moisturePct"
+  | "ready"
+  | "priceMinor"
+  | "pricePerBoardFootMinor"
+  | "currency"
+  | "boardFeet"
+  | "volumeM3"
+  | "weightKg"
+  | "weightHighKg"
+  | "liveEdge"
+  | "featureBits"
+  | "freight"
+  | "pickup"
+  | "town"
+  | "yardName"
+  | "latitude"
+  | "longitude"
+  | "photoId"
+  | "photoAlt"
+  | "publishedAt"
 >;
 
 const ROW_COLUMNS = [
-  "listing_id", "sawyer_id", "title", "species_slug", "set_kind", "slab_count", "length_mm", "thickness_mm", "average_width_mm", "min_width_mm",
-  "usable_length_mm", "usable_width_mm", "usable_thickness_mm", "moisture_pct", "ready", "price_minor", "price_per_board_foot_minor",
-  "currency", "board_feet", "volume_m3", "weight_kg", "weight_high_kg", "live_edge", "feature_bits", "freight", "pickup",
-  "town", "yard_name", "latitude", "longitude", "photo_id", "photo_alt", "published_at",
+  "listing_id",
+  "sawyer_id",
+  "title",
+  "species_slug",
+  "set_kind",
+  "slab_count",
+  "length_mm",
+  "thickness_mm",
+  "average_width_mm",
+  "min_width_mm",
+  "usable_length_mm",
+  "usable_width_mm",
+  "usable_thickness_mm",
+  "moisture_pct",
+  "ready",
+  "price_minor",
+  "price_per_board_foot_minor",
+  "currency",
+  "board_feet",
+  "volume_m3",
+  "weight_kg",
+  "weight_high_kg",
+  "live_edge",
+  "feature_bits",
+  "freight",
+  "pickup",
+  "town",
+  "yard_name",
+  "latitude",
+  "longitude",
+  "photo_id",
+  "photo_alt",
+  "published_at",
 ] as const;
 
 const number = (value: unknown) => Number(value);
@@ -143,7 +201,7 @@ export function filterSql(input: CatalogueQueryParsed, top: WantedTop | null, ya
 }
 
 /** The sort orders as SQL: each plain column has a covering index starting with it (see the entity). */
-export const SORT_COLUMNS: Record<Exclude<CatalogueQueryParsed["sort"], "nearest">, string> = {
+const SORT_COLUMNS: Record<Exclude<CatalogueQueryParsed["sort"], "nearest">, string> = {
   newest: "published_at",
   price_low: "price_minor",
   price_high: "price_minor",
@@ -182,7 +240,11 @@ export function pageSql(filters: Fragment, options: PageSqlOptions): Fragment {
  * covering `idx_catalogue_yard`), and from yards at exactly the previous page's last distance
  * only those after its last id.
  */
-export function nearestIdsSql(filters: Fragment, yards: readonly string[], tie: { yards: readonly string[]; afterId: string } | null): Fragment {
+export function nearestIdsSql(
+  filters: Fragment,
+  yards: readonly string[],
+  tie: { yards: readonly string[]; afterId: string } | null,
+): Fragment {
   const parts: string[] = [];
   const parameters: unknown[] = [];
   if (yards.length) {
@@ -194,21 +256,33 @@ export function nearestIdsSql(filters: Fragment, yards: readonly string[], tie: 
     parameters.push(...tie.yards, tie.afterId);
   }
   const which = parts.length ? `(${parts.join(" OR ")})` : "0 = 1";
-  return { sql: `SELECT listing_id, sawyer_id FROM catalogue_entry WHERE ${which} AND ${filters.sql}`, parameters: [...parameters, ...filters.parameters] };
+  return {
+    sql: `SELECT listing_id, sawyer_id FROM catalogue_entry WHERE ${which} AND ${filters.sql}`,
+    parameters: [...parameters, ...filters.parameters],
+  };
 }
 
 /** The rows of these listings (in no particular order). */
 export function rowsByIdSql(listingIds: readonly string[]): Fragment {
   if (listingIds.length === 0) return { sql: `SELECT ${ROW_COLUMNS.join(", ")} FROM catalogue_entry WHERE 0 = 1`, parameters: [] };
-  return { sql: `SELECT ${ROW_COLUMNS.join(", ")} FROM catalogue_entry WHERE listing_id IN (${list(listingIds)})`, parameters: [...listingIds] };
+  return {
+    sql: `SELECT ${ROW_COLUMNS.join(", ")} FROM catalogue_entry WHERE listing_id IN (${list(listingIds)})`,
+    parameters: [...listingIds],
+  };
 }
 
 /** Counts at most `cap + 1` matches: enough to say "cap+" without reading the whole catalogue. */
 export function cappedCountSql(filters: Fragment, cap: number): Fragment {
-  return { sql: `SELECT COUNT(*) AS total FROM (SELECT 1 FROM catalogue_entry WHERE ${filters.sql} LIMIT ${Math.trunc(cap) + 1}) AS capped`, parameters: filters.parameters };
+  return {
+    sql: `SELECT COUNT(*) AS total FROM (SELECT 1 FROM catalogue_entry WHERE ${filters.sql} LIMIT ${Math.trunc(cap) + 1}) AS capped`,
+    parameters: filters.parameters,
+  };
 }
 
 /** Whether one listing matches the filters (a saved search's alert check). */
 export function matchesListingSql(filters: Fragment, listingId: string): Fragment {
-  return { sql: `SELECT 1 AS found FROM catalogue_entry WHERE listing_id = ? AND ${filters.sql} LIMIT 1`, parameters: [listingId, ...filters.parameters] };
+  return {
+    sql: `SELECT 1 AS found FROM catalogue_entry WHERE listing_id = ? AND ${filters.sql} LIMIT 1`,
+    parameters: [listingId, ...filters.parameters],
+  };
 }

@@ -28,9 +28,15 @@ export interface CheckoutInput {
  * (slab-math's money rule); the platform and processing fees were split by slab-math when the
  * listing was priced and are taken from the sawyer's share, not added for the buyer.
  */
-export function quoteFor(listing: Pick<ListingEntity, "priceMinor" | "currency">, checkout: Pick<AppConfig["checkout"], "taxRateBps">) {
+function quoteFor(listing: Pick<ListingEntity, "priceMinor" | "currency">, checkout: Pick<AppConfig["checkout"], "taxRateBps">) {
   const taxMinor = roundHalfUp((listing.priceMinor * checkout.taxRateBps) / 10_000);
-  return { currency: listing.currency, priceMinor: listing.priceMinor, taxMinor, taxRateBps: checkout.taxRateBps, totalMinor: listing.priceMinor + taxMinor };
+  return {
+    currency: listing.currency,
+    priceMinor: listing.priceMinor,
+    taxMinor,
+    taxRateBps: checkout.taxRateBps,
+    totalMinor: listing.priceMinor + taxMinor,
+  };
 }
 
 export function createCheckoutService(deps: {
@@ -68,7 +74,10 @@ export function createCheckoutService(deps: {
       dataSource.getRepository(AccountEntity).findOneBy({ id: order.sawyerId }),
     ]);
     const link = `${config.publicUrl}/orders/${order.id}`;
-    for (const mail of [buyer && sawyer ? orderPaidBuyerMail(buyer, sawyer, order, link) : null, sawyer && buyer ? orderPaidSawyerMail(sawyer, buyer, order, link) : null]) {
+    for (const mail of [
+      buyer && sawyer ? orderPaidBuyerMail(buyer, sawyer, order, link) : null,
+      sawyer && buyer ? orderPaidSawyerMail(sawyer, buyer, order, link) : null,
+    ]) {
       if (!mail) continue;
       try {
         await deps.mailer.send(mail);
@@ -93,20 +102,32 @@ export function createCheckoutService(deps: {
      */
     async checkout(actor: Actor, listingId: string, input: CheckoutInput): Promise<{ order: Order; checkoutUrl: string }> {
       const buyer = requireRole(actor, "buyer");
-      if (input.handover === "freight" && !input.deliveryAddress?.trim()) throw new Invalid("Give the delivery address for freight.", { deliveryAddress: "Where should the freight go?" });
+      if (input.handover === "freight" && !input.deliveryAddress?.trim())
+        throw new Invalid("Give the delivery address for freight.", { deliveryAddress: "Where should the freight go?" });
       const order = await dataSource.transaction(async (manager) => {
         const listing = await manager.getRepository(ListingEntity).findOneBy({ id: listingId });
         if (!listing) throw new NotFound("That slab is not for sale here.");
         if (listing.sawyerId === buyer.accountId) throw new Forbidden("You cannot buy your own listing.");
-        if (input.handover === "pickup" && !listing.pickup) throw new Invalid("This listing is not offered for pickup.", { handover: "Choose freight." });
-        if (input.handover === "freight" && !listing.freight) throw new Invalid("This listing is not offered for freight.", { handover: "Choose pickup." });
+        if (input.handover === "pickup" && !listing.pickup)
+          throw new Invalid("This listing is not offered for pickup.", { handover: "Choose freight." });
+        if (input.handover === "freight" && !listing.freight)
+          throw new Invalid("This listing is not offered for freight.", { handover: "Choose pickup." });
         const reserved = await manager.getRepository(ListingEntity).update({ id: listingId, status: "live" }, { status: "reserved" });
         if (reserved.affected !== 1) {
           // Read again, past this transaction's snapshot: another buyer may have won the race a moment ago.
-          const current = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, lock: { mode: "pessimistic_read" } });
-          throw new Conflict(current?.status === "reserved" ? "Someone else has just reserved this slab. It comes back if they do not pay in time." : "This slab is no longer for sale.", "listing_not_available");
+          const current = await manager
+            .getRepository(ListingEntity)
+            .findOne({ where: { id: listingId }, lock: { mode: "pessimistic_read" } });
+          throw new Conflict(
+            current?.status === "reserved"
+              ? "Someone else has just reserved this slab. It comes back if they do not pay in time."
+              : "This slab is no longer for sale.",
+            "listing_not_available",
+          );
         }
-        const links = await manager.getRepository(ListingSlabEntity).find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
+        const links = await manager
+          .getRepository(ListingSlabEntity)
+          .find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
         const { taxMinor } = quoteFor(listing, config.checkout);
         const entity = manager.getRepository(OrderEntity).create({
           id: randomUUID(),
@@ -139,9 +160,16 @@ export function createCheckoutService(deps: {
       let session: Stripe.Checkout.Session;
       try {
         const lineItems: Stripe.Checkout.SessionCreateParams.LineItem[] = [
-          { quantity: 1, price_data: { currency: order.currency.toLowerCase(), unit_amount: order.priceMinor, product_data: { name: order.title } } },
+          {
+            quantity: 1,
+            price_data: { currency: order.currency.toLowerCase(), unit_amount: order.priceMinor, product_data: { name: order.title } },
+          },
         ];
-        if (order.taxMinor > 0) lineItems.push({ quantity: 1, price_data: { currency: order.currency.toLowerCase(), unit_amount: order.taxMinor, product_data: { name: "Tax" } } });
+        if (order.taxMinor > 0)
+          lineItems.push({
+            quantity: 1,
+            price_data: { currency: order.currency.toLowerCase(), unit_amount: order.taxMinor, product_data: { name: "Tax" } },
+          });
         session = await payments.sdk.checkout.sessions.create(
           {
             mode: "payment",
@@ -158,7 +186,10 @@ export function createCheckoutService(deps: {
       } catch (error) {
         deps.log.error({ err: error, orderId: order.id }, "could not open checkout");
         await dataSource.transaction((manager) => release(manager, order, "cancelled"));
-        throw new ServiceUnavailable("Card payments are not available right now, so nothing was reserved. Please try again in a few minutes.", "payments_unavailable");
+        throw new ServiceUnavailable(
+          "Card payments are not available right now, so nothing was reserved. Please try again in a few minutes.",
+          "payments_unavailable",
+        );
       }
       await dataSource.getRepository(OrderEntity).update({ id: order.id }, { checkoutSessionId: session.id, checkoutUrl: session.url });
       const saved = await dataSource.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
@@ -182,7 +213,10 @@ export function createCheckoutService(deps: {
           .execute();
         if ((inserted.raw as { affectedRows?: number }).affectedRows === 0) return "duplicate" as const;
         // A sawyer's payout account changed at the provider (set-up finished, say).
-        if (event.type === "account.updated") return (await deps.onAccountUpdated?.(event.data.object as Stripe.Account, manager)) ? ("handled" as const) : ("ignored" as const);
+        if (event.type === "account.updated")
+          return (await deps.onAccountUpdated?.(event.data.object as Stripe.Account, manager))
+            ? ("handled" as const)
+            : ("ignored" as const);
         const object = event.data.object as { id: string; metadata?: Record<string, string>; payment_intent?: string | null };
         const orderId = object.metadata?.order_id;
         if (!orderId) return "ignored" as const;
@@ -192,14 +226,24 @@ export function createCheckoutService(deps: {
           case "checkout.session.completed": {
             if (order.status !== OPEN_PAYMENT && order.status !== "payment_failed" && order.status !== "expired") return "ignored" as const;
             // Paid after the reservation lapsed and someone else bought it: the money goes back.
-            const listing = await manager.getRepository(ListingEntity).findOne({ where: { id: order.listingId }, lock: { mode: "pessimistic_write" } });
+            const listing = await manager
+              .getRepository(ListingEntity)
+              .findOne({ where: { id: order.listingId }, lock: { mode: "pessimistic_write" } });
             const stillOurs = order.status === OPEN_PAYMENT ? listing?.status === "reserved" : listing?.status === "live";
             if (!stillOurs) {
-              await manager.getRepository(OrderEntity).update({ id: order.id }, { status: "refunded", paymentIntentId: object.payment_intent ?? null });
-              if (object.payment_intent) await payments.sdk.refunds.create({ payment_intent: object.payment_intent, metadata: { order_id: order.id, reason: "sold_elsewhere" } }, { idempotencyKey: `late-${order.id}` });
+              await manager
+                .getRepository(OrderEntity)
+                .update({ id: order.id }, { status: "refunded", paymentIntentId: object.payment_intent ?? null });
+              if (object.payment_intent)
+                await payments.sdk.refunds.create(
+                  { payment_intent: object.payment_intent, metadata: { order_id: order.id, reason: "sold_elsewhere" } },
+                  { idempotencyKey: `late-${order.id}` },
+                );
               return "handled" as const;
             }
-            await manager.getRepository(OrderEntity).update({ id: order.id }, { status: "paid", paidAt: now(), paymentIntentId: object.payment_intent ?? null });
+            await manager
+              .getRepository(OrderEntity)
+              .update({ id: order.id }, { status: "paid", paidAt: now(), paymentIntentId: object.payment_intent ?? null });
             await manager.getRepository(ListingEntity).update({ id: order.listingId }, { status: "sold" });
             await manager.getRepository(LedgerEntryEntity).insert(saleEntries(order, "payment", event.id));
             await changed(manager, order.listingId);
@@ -219,7 +263,9 @@ export function createCheckoutService(deps: {
       });
       if (event.type === "payment_intent.payment_failed" && outcome === "handled") {
         // The hosted page would let the buyer try another card; the slab is free again, so close it.
-        const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: (event.data.object as { metadata?: Record<string, string> }).metadata?.order_id ?? "" });
+        const order = await dataSource
+          .getRepository(OrderEntity)
+          .findOneBy({ id: (event.data.object as { metadata?: Record<string, string> }).metadata?.order_id ?? "" });
         if (order?.checkoutSessionId) await payments.sdk.checkout.sessions.expire(order.checkoutSessionId).catch(() => undefined);
       }
       if (paidOrder) await mailPaid(paidOrder);
@@ -231,7 +277,9 @@ export function createCheckoutService(deps: {
      * release is a conditional update, so only one instance wins each order.
      */
     async sweepExpiredReservations(): Promise<number> {
-      const due = await dataSource.getRepository(OrderEntity).find({ where: { status: OPEN_PAYMENT, reservedUntil: LessThan(now()) }, take: 200 });
+      const due = await dataSource
+        .getRepository(OrderEntity)
+        .find({ where: { status: OPEN_PAYMENT, reservedUntil: LessThan(now()) }, take: 200 });
       let released = 0;
       for (const order of due) {
         const done = await retryOnLockConflict(() => dataSource.transaction((manager) => release(manager, order, "expired")));
@@ -245,7 +293,10 @@ export function createCheckoutService(deps: {
 
     /** The ledger's balance per currency (always zero). */
     async ledgerTotals(): Promise<Record<string, number>> {
-      const rows = (await dataSource.query("SELECT currency, SUM(amount_minor) AS total FROM ledger_entry GROUP BY currency")) as { currency: string; total: string }[];
+      const rows = (await dataSource.query("SELECT currency, SUM(amount_minor) AS total FROM ledger_entry GROUP BY currency")) as {
+        currency: string;
+        total: string;
+      }[];
       return Object.fromEntries(rows.map((r) => [r.currency, Number(r.total)]));
     },
 

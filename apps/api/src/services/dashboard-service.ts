@@ -3,7 +3,7 @@ import type { DataSource } from "typeorm";
 import { requireRole, type Actor } from "./actor.ts";
 
 /** Weeks shown on the dashboard's weekly charts. */
-export const DASHBOARD_WEEKS = 12;
+const DASHBOARD_WEEKS = 12;
 
 /** Monday (UTC) of the week a moment falls in, as YYYY-MM-DD. */
 export function weekStart(at: Date): string {
@@ -24,7 +24,12 @@ export function median(values: number[]): number {
  * money per week straight from the ledger (sales = what buyers paid in, platform revenue = the
  * net of the platform_fees account, so refunds count against it).
  */
-export function createDashboardService(deps: { dataSource: DataSource; now?: () => Date; openReports: () => Promise<number>; suspendedUsers: () => Promise<number> }) {
+export function createDashboardService(deps: {
+  dataSource: DataSource;
+  now?: () => Date;
+  openReports: () => Promise<number>;
+  suspendedUsers: () => Promise<number>;
+}) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
   return {
@@ -32,10 +37,18 @@ export function createDashboardService(deps: { dataSource: DataSource; now?: () 
       requireRole(actor, "admin");
       const since = new Date(Date.parse(weekStart(now())) - (DASHBOARD_WEEKS - 1) * 7 * 86400_000);
       const [[waiting], bySpecies, reviews, orders, money, openReports, suspendedUsers] = await Promise.all([
-        dataSource.query("SELECT COUNT(*) AS n, MIN(submitted_at) AS oldest FROM listing WHERE status = 'in_review'") as Promise<{ n: string; oldest: Date | null }[]>,
-        dataSource.query("SELECT species_slug AS speciesSlug, COUNT(*) AS n FROM catalogue_entry GROUP BY species_slug ORDER BY n DESC, species_slug") as Promise<{ speciesSlug: string; n: string }[]>,
-        dataSource.query("SELECT submitted_at AS submittedAt, reviewed_at AS reviewedAt FROM listing_review WHERE reviewed_at >= ?", [since]) as Promise<{ submittedAt: Date; reviewedAt: Date }[]>,
-        dataSource.query("SELECT status, COUNT(*) AS n FROM buyer_order GROUP BY status ORDER BY n DESC, status") as Promise<{ status: string; n: string }[]>,
+        dataSource.query("SELECT COUNT(*) AS n, MIN(submitted_at) AS oldest FROM listing WHERE status = 'in_review'") as Promise<
+          { n: string; oldest: Date | null }[]
+        >,
+        dataSource.query(
+          "SELECT species_slug AS speciesSlug, COUNT(*) AS n FROM catalogue_entry GROUP BY species_slug ORDER BY n DESC, species_slug",
+        ) as Promise<{ speciesSlug: string; n: string }[]>,
+        dataSource.query("SELECT submitted_at AS submittedAt, reviewed_at AS reviewedAt FROM listing_review WHERE reviewed_at >= ?", [
+          since,
+        ]) as Promise<{ submittedAt: Date; reviewedAt: Date }[]>,
+        dataSource.query("SELECT status, COUNT(*) AS n FROM buyer_order GROUP BY status ORDER BY n DESC, status") as Promise<
+          { status: string; n: string }[]
+        >,
         dataSource.query(
           `SELECT DATE_FORMAT(DATE_SUB(DATE(created_at), INTERVAL WEEKDAY(created_at) DAY), '%Y-%m-%d') AS week, currency,
                   SUM(CASE WHEN account = 'provider_clearing' AND kind = 'payment' THEN amount_minor ELSE 0 END) AS sales,
@@ -52,13 +65,27 @@ export function createDashboardService(deps: { dataSource: DataSource; now?: () 
         const hours = (new Date(r.reviewedAt).getTime() - new Date(r.submittedAt).getTime()) / 3_600_000;
         hoursByWeek.set(week, [...(hoursByWeek.get(week) ?? []), Math.max(0, hours)]);
       }
-      const weeks = Array.from({ length: DASHBOARD_WEEKS }, (_, i) => new Date(since.getTime() + i * 7 * 86400_000).toISOString().slice(0, 10));
+      const weeks = Array.from({ length: DASHBOARD_WEEKS }, (_, i) =>
+        new Date(since.getTime() + i * 7 * 86400_000).toISOString().slice(0, 10),
+      );
       return {
-        awaitingReview: { count: Number(waiting?.n ?? 0), oldestSubmittedAt: waiting?.oldest ? new Date(waiting.oldest).toISOString() : null },
+        awaitingReview: {
+          count: Number(waiting?.n ?? 0),
+          oldestSubmittedAt: waiting?.oldest ? new Date(waiting.oldest).toISOString() : null,
+        },
         liveBySpecies: bySpecies.map((r) => ({ speciesSlug: r.speciesSlug, count: Number(r.n) })),
-        reviewTimes: weeks.map((week) => ({ week, reviews: hoursByWeek.get(week)?.length ?? 0, medianHours: Math.round(median(hoursByWeek.get(week) ?? []) * 100) / 100 })),
+        reviewTimes: weeks.map((week) => ({
+          week,
+          reviews: hoursByWeek.get(week)?.length ?? 0,
+          medianHours: Math.round(median(hoursByWeek.get(week) ?? []) * 100) / 100,
+        })),
         ordersByState: orders.map((r) => ({ status: r.status, count: Number(r.n) })),
-        salesByWeek: money.map((r) => ({ week: r.week, currency: r.currency, salesMinor: Number(r.sales), platformRevenueMinor: Number(r.platform) })),
+        salesByWeek: money.map((r) => ({
+          week: r.week,
+          currency: r.currency,
+          salesMinor: Number(r.sales),
+          platformRevenueMinor: Number(r.platform),
+        })),
         openReports,
         suspendedUsers,
       };

@@ -17,7 +17,13 @@ export function createFavouriteService(deps: { dataSource: DataSource; now?: () 
       const buyer = requireRole(actor, "buyer");
       const listing = await dataSource.getRepository(ListingEntity).findOneBy({ id: listingId });
       if (!listing || listing.status !== "live") throw new NotFound("Only slabs that are for sale can be kept as favourites.");
-      await favourites().createQueryBuilder().insert().into(FavouriteEntity).values({ accountId: buyer.accountId, listingId, createdAt: now() }).orIgnore().execute();
+      await favourites()
+        .createQueryBuilder()
+        .insert()
+        .into(FavouriteEntity)
+        .values({ accountId: buyer.accountId, listingId, createdAt: now() })
+        .orIgnore()
+        .execute();
       const saved = await favourites().findOneByOrFail({ accountId: buyer.accountId, listingId });
       return { listingId: saved.listingId, createdAt: saved.createdAt.toISOString() };
     },
@@ -31,8 +37,15 @@ export function createFavouriteService(deps: { dataSource: DataSource; now?: () 
     /** Catalogue cards of favourites still live, most recently favourited first. */
     async list(actor: Actor): Promise<CatalogueCard[]> {
       const buyer = requireRole(actor, "buyer");
-      const rows = await favourites().find({ where: { accountId: buyer.accountId }, order: { createdAt: "DESC", listingId: "ASC" }, take: 500 });
-      return catalogueCardsFor(dataSource, rows.map((row) => row.listingId));
+      const rows = await favourites().find({
+        where: { accountId: buyer.accountId },
+        order: { createdAt: "DESC", listingId: "ASC" },
+        take: 500,
+      });
+      return catalogueCardsFor(
+        dataSource,
+        rows.map((row) => row.listingId),
+      );
     },
   };
 }

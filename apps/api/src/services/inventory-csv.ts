@@ -13,7 +13,7 @@ import type { YardService } from "./yard-service.ts";
  * Export writes the computed figures too; import reads only the measured columns and recomputes
  * every figure. An import with any bad row saves nothing and says which rows and fields.
  */
-export const CSV_COLUMNS = [
+const CSV_COLUMNS = [
   "log_id",
   "sequence_in_log",
   "species",
@@ -32,7 +32,7 @@ export const CSV_COLUMNS = [
   "notes",
 ] as const;
 const COMPUTED_COLUMNS = ["id", "board_feet", "volume_m3", "weight_kg", "last_moisture_pct", "last_read_on"] as const;
-export const MAX_IMPORT_ROWS = 2000;
+const MAX_IMPORT_ROWS = 2000;
 
 const FIELD_TO_COLUMN: Record<string, string> = {
   logId: "log_id",
@@ -123,16 +123,28 @@ export function createInventoryCsv(deps: { dataSource: DataSource; yard: YardSer
       const sawyer = requireRole(actor, "sawyer");
       let records: Record<string, string>[];
       try {
-        records = parse(text, { columns: (header: string[]) => header.map((h) => h.trim().toLowerCase()), skip_empty_lines: true, bom: true, trim: false });
+        records = parse(text, {
+          columns: (header: string[]) => header.map((h) => h.trim().toLowerCase()),
+          skip_empty_lines: true,
+          bom: true,
+          trim: false,
+        });
       } catch (error) {
         throw new Invalid(`That file is not readable CSV: ${(error as Error).message}`, undefined, "csv_unreadable");
       }
       if (records.length === 0) throw new Invalid("The file has no rows under its header.", undefined, "csv_empty");
-      if (records.length > MAX_IMPORT_ROWS) throw new Invalid(`Import at most ${MAX_IMPORT_ROWS} rows at a time.`, undefined, "csv_too_long");
-      const missing = ["species", "length_mm", "thickness_mm", "width_stations_mm", "live_edge", "surfacing", "drying_method"].filter((c) => !(c in records[0]!));
+      if (records.length > MAX_IMPORT_ROWS)
+        throw new Invalid(`Import at most ${MAX_IMPORT_ROWS} rows at a time.`, undefined, "csv_too_long");
+      const missing = ["species", "length_mm", "thickness_mm", "width_stations_mm", "live_edge", "surfacing", "drying_method"].filter(
+        (c) => !(c in records[0]!),
+      );
       if (missing.length) throw new Invalid(`The header lacks: ${missing.join(", ")}.`, undefined, "csv_columns_missing");
 
-      const ownLogs = new Set((await dataSource.getRepository(YardLogEntity).find({ where: { sawyerId: sawyer.accountId }, select: { id: true } })).map((l) => l.id));
+      const ownLogs = new Set(
+        (await dataSource.getRepository(YardLogEntity).find({ where: { sawyerId: sawyer.accountId }, select: { id: true } })).map(
+          (l) => l.id,
+        ),
+      );
       const errors: CsvRowError[] = [];
       const inputs: SlabInput[] = [];
       records.forEach((record, index) => {
@@ -145,8 +157,10 @@ export function createInventoryCsv(deps: { dataSource: DataSource; yard: YardSer
           }
           return;
         }
-        if (!findSpeciesBySlug(parsed.data.speciesSlug)) errors.push({ row, field: "species", message: `Unknown species "${parsed.data.speciesSlug}".` });
-        if (parsed.data.logId && !ownLogs.has(parsed.data.logId)) errors.push({ row, field: "log_id", message: "No such log in your yard." });
+        if (!findSpeciesBySlug(parsed.data.speciesSlug))
+          errors.push({ row, field: "species", message: `Unknown species "${parsed.data.speciesSlug}".` });
+        if (parsed.data.logId && !ownLogs.has(parsed.data.logId))
+          errors.push({ row, field: "log_id", message: "No such log in your yard." });
         inputs.push(parsed.data);
       });
       if (errors.length === 0) {
@@ -169,7 +183,13 @@ export function createInventoryCsv(deps: { dataSource: DataSource; yard: YardSer
         }
       }
       if (errors.length) {
-        throw new AppError(422, "csv_rows_invalid", `${new Set(errors.map((e) => e.row)).size} row(s) need fixing; nothing was saved.`, undefined, { rows: errors.slice(0, 200) });
+        throw new AppError(
+          422,
+          "csv_rows_invalid",
+          `${new Set(errors.map((e) => e.row)).size} row(s) need fixing; nothing was saved.`,
+          undefined,
+          { rows: errors.slice(0, 200) },
+        );
       }
       return { created: inputs.length };
     },

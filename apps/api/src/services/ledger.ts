@@ -1,6 +1,9 @@
 import type { LedgerEntryEntity, OrderEntity } from "../entities/index.ts";
 
-type Figures = Pick<OrderEntity, "id" | "currency" | "totalMinor" | "platformFeeMinor" | "processingFeeMinor" | "taxMinor" | "sawyerNetMinor" | "sawyerId">;
+type Figures = Pick<
+  OrderEntity,
+  "id" | "currency" | "totalMinor" | "platformFeeMinor" | "processingFeeMinor" | "taxMinor" | "sawyerNetMinor" | "sawyerId"
+>;
 
 /**
  * The money of a paid order in the double-entry ledger: what the provider holds for us on one

@@ -1,5 +1,15 @@
 import { randomUUID } from "node:crypto";
-import type { Listing, ListingInput, ListingPhoto, ListingStatus, ListingUpdate, PastReview, RejectInput, ReviewDeskItem, SendBackInput } from "@grainyard/contracts";
+import type {
+  Listing,
+  ListingInput,
+  ListingPhoto,
+  ListingStatus,
+  ListingUpdate,
+  PastReview,
+  RejectInput,
+  ReviewDeskItem,
+  SendBackInput,
+} from "@grainyard/contracts";
 import { listingInputSchema, yardPaths } from "@grainyard/contracts";
 import { NIOSH_LOAD_CONSTANT_KG, plausibilityWarnings, type FeeSettings } from "@grainyard/slab-math";
 import { In, type DataSource, type EntityManager } from "typeorm";
@@ -16,7 +26,6 @@ import { requireRole, type Actor } from "./actor.ts";
 import { DEFAULT_WEIGHT_MOISTURE_PCT, computeListingFigures } from "./figures.ts";
 import { DEFAULT_FEE_SETTINGS } from "./marketplace-settings.ts";
 import { HOLDING_STATUSES, toSlab } from "./yard-service.ts";
-
 
 /** States in which the sawyer may still change the listing. */
 const EDITABLE: ListingStatus[] = ["draft", "sent_back"];
@@ -55,7 +64,9 @@ export function createListingService(deps: ListingServiceDependencies) {
   const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
 
   async function slabsOf(manager: EntityManager, listingId: string): Promise<SlabEntity[]> {
-    const links = await manager.getRepository(ListingSlabEntity).find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
+    const links = await manager
+      .getRepository(ListingSlabEntity)
+      .find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
     return links.map((l) => l.slab!).filter(Boolean);
   }
 
@@ -102,31 +113,49 @@ export function createListingService(deps: ListingServiceDependencies) {
   }
 
   /** Checks the chosen slabs: the sawyer's own, free, and for a set all from one log. */
-  async function checkSlabs(manager: EntityManager, sawyerId: string, slabIds: string[], setKind: string, exceptListingId?: string): Promise<SlabEntity[]> {
+  async function checkSlabs(
+    manager: EntityManager,
+    sawyerId: string,
+    slabIds: string[],
+    setKind: string,
+    exceptListingId?: string,
+  ): Promise<SlabEntity[]> {
     const slabs = await manager.getRepository(SlabEntity).find({ where: { id: In(slabIds) }, lock: { mode: "pessimistic_write" } });
     if (slabs.length !== slabIds.length) throw new Invalid("Some of those slabs are not in your yard.", { slabIds: "Unknown slab." });
     if (slabs.some((s) => s.sawyerId !== sawyerId)) throw new Forbidden("You can only list slabs from your own yard.");
     const links = await manager.getRepository(ListingSlabEntity).find({ where: { slabId: In(slabIds) }, relations: { listing: true } });
-    const taken = links.find((l) => l.listingId !== exceptListingId && l.listing && (HOLDING_STATUSES as readonly string[]).includes(l.listing.status));
+    const taken = links.find(
+      (l) => l.listingId !== exceptListingId && l.listing && (HOLDING_STATUSES as readonly string[]).includes(l.listing.status),
+    );
     if (taken) throw new Conflict("One of those slabs is already in another listing.", "slab_already_listed");
     if (setKind !== "single") {
       const logIds = new Set(slabs.map((s) => s.logId));
-      if (logIds.size !== 1 || logIds.has(null)) throw new Invalid("A set is made of slabs cut from the same log.", { slabIds: "Choose slabs from one log." });
-      if (slabs.some((s) => s.sequenceInLog == null)) throw new Invalid("Give every slab of a set its number in the log.", { slabIds: "Numbers in the log are missing." });
+      if (logIds.size !== 1 || logIds.has(null))
+        throw new Invalid("A set is made of slabs cut from the same log.", { slabIds: "Choose slabs from one log." });
+      if (slabs.some((s) => s.sequenceInLog == null))
+        throw new Invalid("Give every slab of a set its number in the log.", { slabIds: "Numbers in the log are missing." });
       const numbers = slabs.map((s) => s.sequenceInLog!).sort((a, b) => a - b);
       const consecutive = numbers.every((n, i) => i === 0 || n === numbers[i - 1]! + 1);
-      if (!consecutive) throw new Invalid("Sequential and bookmatched slabs are neighbours in the log.", { slabIds: "Choose neighbouring slabs." });
+      if (!consecutive)
+        throw new Invalid("Sequential and bookmatched slabs are neighbours in the log.", { slabIds: "Choose neighbouring slabs." });
     }
     // Keep the order the sawyer chose.
     return slabIds.map((id) => slabs.find((s) => s.id === id)!);
   }
 
   function figuresFor(listing: Pick<ListingEntity, "priceMode" | "rateMinor">, slabs: SlabEntity[]) {
-    return computeListingFigures({ priceMode: listing.priceMode, rateMinor: listing.rateMinor, slabs, fees: deps.settings?.fees() ?? DEFAULT_FEE_SETTINGS });
+    return computeListingFigures({
+      priceMode: listing.priceMode,
+      rateMinor: listing.rateMinor,
+      slabs,
+      fees: deps.settings?.fees() ?? DEFAULT_FEE_SETTINGS,
+    });
   }
 
   async function ownListing(manager: EntityManager, sawyerId: string, listingId: string, lock = false): Promise<ListingEntity> {
-    const listing = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, ...(lock ? { lock: { mode: "pessimistic_write" as const } } : {}) });
+    const listing = await manager
+      .getRepository(ListingEntity)
+      .findOne({ where: { id: listingId }, ...(lock ? { lock: { mode: "pessimistic_write" as const } } : {}) });
     if (!listing) throw new NotFound("No listing with that id.");
     if (listing.sawyerId !== sawyerId) throw new Forbidden("That listing belongs to another yard.");
     return listing;
@@ -143,8 +172,15 @@ export function createListingService(deps: ListingServiceDependencies) {
   }
 
   async function pastReview(row: ListingReviewEntity): Promise<PastReview> {
-    const reviewer = await dataSource.getRepository(AccountEntity).findOne({ where: { id: row.reviewerId }, select: { id: true, displayName: true } });
-    return { decision: row.decision, reason: row.reason, reviewedAt: row.reviewedAt.toISOString(), reviewerLabel: reviewer?.displayName ?? "an admin" };
+    const reviewer = await dataSource
+      .getRepository(AccountEntity)
+      .findOne({ where: { id: row.reviewerId }, select: { id: true, displayName: true } });
+    return {
+      decision: row.decision,
+      reason: row.reason,
+      reviewedAt: row.reviewedAt.toISOString(),
+      reviewerLabel: reviewer?.displayName ?? "an admin",
+    };
   }
 
   const DECISION_STATUS: Record<ReviewDecision, ListingStatus> = { approved: "live", sent_back: "sent_back", rejected: "rejected" };
@@ -161,13 +197,21 @@ export function createListingService(deps: ListingServiceDependencies) {
       const verb = { approved: "approved", sent_back: "sent back", rejected: "rejected" }[decision];
       if (found.status !== "in_review") throw new Conflict(`Only a listing waiting for review can be ${verb}.`, "listing_not_in_review");
       if (decision === "approved") {
-        const sawyer = await manager.getRepository(AccountEntity).findOne({ where: { id: found.sawyerId }, select: { id: true, suspendedAt: true } });
-        if (sawyer?.suspendedAt) throw new Conflict("The sawyer's account is suspended: restore it before approving, or reject the listing.", "sawyer_suspended");
+        const sawyer = await manager
+          .getRepository(AccountEntity)
+          .findOne({ where: { id: found.sawyerId }, select: { id: true, suspendedAt: true } });
+        if (sawyer?.suspendedAt)
+          throw new Conflict("The sawyer's account is suspended: restore it before approving, or reject the listing.", "sawyer_suspended");
       }
       const at = now();
       const status = DECISION_STATUS[decision];
       const before = await view(manager, found);
-      await manager.getRepository(ListingEntity).update({ id: listingId }, decision === "approved" ? { status, publishedAt: at, reviewNote: null } : { status, reviewNote: reason });
+      await manager
+        .getRepository(ListingEntity)
+        .update(
+          { id: listingId },
+          decision === "approved" ? { status, publishedAt: at, reviewNote: null } : { status, reviewNote: reason },
+        );
       await manager.getRepository(ListingReviewEntity).insert({
         id: randomUUID(),
         listingId,
@@ -178,7 +222,19 @@ export function createListingService(deps: ListingServiceDependencies) {
         submittedAt: found.submittedAt ?? at,
         reviewedAt: at,
       });
-      await recordAudit(manager, admin, { action: `listing.${decision === "approved" ? "approve" : decision === "sent_back" ? "send_back" : "reject"}`, targetKind: "listing", targetId: listingId, before: { status: found.status }, after: { status }, reason }, at);
+      await recordAudit(
+        manager,
+        admin,
+        {
+          action: `listing.${decision === "approved" ? "approve" : decision === "sent_back" ? "send_back" : "reject"}`,
+          targetKind: "listing",
+          targetId: listingId,
+          before: { status: found.status },
+          after: { status },
+          reason,
+        },
+        at,
+      );
       await changed(manager, listingId);
       return manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
     });
@@ -187,7 +243,9 @@ export function createListingService(deps: ListingServiceDependencies) {
   return {
     async listOwn(actor: Actor): Promise<Listing[]> {
       const sawyer = requireRole(actor, "sawyer");
-      const listings = await dataSource.getRepository(ListingEntity).find({ where: { sawyerId: sawyer.accountId }, order: { createdAt: "DESC" } });
+      const listings = await dataSource
+        .getRepository(ListingEntity)
+        .find({ where: { sawyerId: sawyer.accountId }, order: { createdAt: "DESC" } });
       return Promise.all(listings.map((l) => view(dataSource.manager, l)));
     },
 
@@ -217,7 +275,8 @@ export function createListingService(deps: ListingServiceDependencies) {
       const signedIn = requireRole(actor, "sawyer", "admin");
       const listing = await dataSource.getRepository(ListingEntity).findOneBy({ id: listingId });
       if (!listing) throw new NotFound("No listing with that id.");
-      if (signedIn.role === "sawyer" && listing.sawyerId !== signedIn.accountId) throw new Forbidden("That listing belongs to another yard.");
+      if (signedIn.role === "sawyer" && listing.sawyerId !== signedIn.accountId)
+        throw new Forbidden("That listing belongs to another yard.");
       return view(dataSource.manager, listing);
     },
 
@@ -226,11 +285,18 @@ export function createListingService(deps: ListingServiceDependencies) {
       return dataSource.transaction(async (manager) => {
         const listing = await ownListing(manager, sawyer.accountId, listingId, true);
         if (!EDITABLE.includes(listing.status)) {
-          throw new Conflict(`A listing that is "${listing.status.replace("_", " ")}" cannot be changed. Withdraw it first.`, "listing_not_editable");
+          throw new Conflict(
+            `A listing that is "${listing.status.replace("_", " ")}" cannot be changed. Withdraw it first.`,
+            "listing_not_editable",
+          );
         }
         const currentSlabs = await slabsOf(manager, listingId);
         const merged = listingInputSchema.safeParse({ ...listing, slabIds: currentSlabs.map((s) => s.id), ...input });
-        if (!merged.success) throw new Invalid("Some fields need another look.", Object.fromEntries(merged.error.issues.map((i) => [i.path.join("."), i.message])));
+        if (!merged.success)
+          throw new Invalid(
+            "Some fields need another look.",
+            Object.fromEntries(merged.error.issues.map((i) => [i.path.join("."), i.message])),
+          );
         const { slabIds, ...fields } = merged.data;
         const slabs = await checkSlabs(manager, sawyer.accountId, slabIds, fields.setKind, listingId);
         await manager.getRepository(ListingEntity).update({ id: listingId }, { ...fields, ...figuresFor(fields, slabs) });
@@ -246,9 +312,11 @@ export function createListingService(deps: ListingServiceDependencies) {
       if (!sawyer.emailVerified) throw new Forbidden("Confirm your e-mail address before you submit listings.", "email_unverified");
       return dataSource.transaction(async (manager) => {
         const listing = await ownListing(manager, sawyer.accountId, listingId, true);
-        if (!EDITABLE.includes(listing.status)) throw new Conflict("Only a draft or a listing that was sent back can be submitted.", "listing_not_submittable");
+        if (!EDITABLE.includes(listing.status))
+          throw new Conflict("Only a draft or a listing that was sent back can be submitted.", "listing_not_submittable");
         const photos = await manager.getRepository(ListingPhotoEntity).countBy({ listingId });
-        if (photos === 0) throw new Invalid("Add at least one photo before you submit.", { photos: "Add at least one photo." }, "photos_missing");
+        if (photos === 0)
+          throw new Invalid("Add at least one photo before you submit.", { photos: "Add at least one photo." }, "photos_missing");
         await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "in_review", submittedAt: now() });
         return view(manager, await manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId }));
       });
@@ -258,7 +326,8 @@ export function createListingService(deps: ListingServiceDependencies) {
       const sawyer = requireRole(actor, "sawyer");
       return dataSource.transaction(async (manager) => {
         const listing = await ownListing(manager, sawyer.accountId, listingId, true);
-        if (!WITHDRAWABLE.includes(listing.status)) throw new Conflict("This listing can no longer be withdrawn.", "listing_not_withdrawable");
+        if (!WITHDRAWABLE.includes(listing.status))
+          throw new Conflict("This listing can no longer be withdrawn.", "listing_not_withdrawable");
         await manager.getRepository(ListingEntity).update({ id: listingId }, { status: "withdrawn" });
         await changed(manager, listingId);
         return view(manager, await manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId }));
@@ -268,14 +337,18 @@ export function createListingService(deps: ListingServiceDependencies) {
     /** Admin: listings waiting for review, oldest first. */
     async reviewQueue(actor: Actor): Promise<Listing[]> {
       requireRole(actor, "admin");
-      const listings = await dataSource.getRepository(ListingEntity).find({ where: { status: "in_review" }, order: { submittedAt: "ASC" } });
+      const listings = await dataSource
+        .getRepository(ListingEntity)
+        .find({ where: { status: "in_review" }, order: { submittedAt: "ASC" } });
       return Promise.all(listings.map((l) => view(dataSource.manager, l)));
     },
 
     /** Admin: the review desk — each waiting listing with plausibility warnings and what changed since its last review. */
     async reviewDesk(actor: Actor): Promise<ReviewDeskItem[]> {
       requireRole(actor, "admin");
-      const listings = await dataSource.getRepository(ListingEntity).find({ where: { status: "in_review" }, order: { submittedAt: "ASC", id: "ASC" } });
+      const listings = await dataSource
+        .getRepository(ListingEntity)
+        .find({ where: { status: "in_review" }, order: { submittedAt: "ASC", id: "ASC" } });
       return Promise.all(
         listings.map(async (entity) => {
           const listing = await view(dataSource.manager, entity);

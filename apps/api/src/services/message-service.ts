@@ -12,7 +12,7 @@ import { requireRole, requireSignedIn, type Actor, type SignedInActor } from "./
 const EXCERPT_LENGTH = 160;
 
 /** A message's first words on one line, for lists and e-mail notices. */
-export function excerptOf(body: string, length = EXCERPT_LENGTH): string {
+function excerptOf(body: string, length = EXCERPT_LENGTH): string {
   const line = body.replace(/\s+/g, " ").trim();
   return line.length <= length ? line : `${line.slice(0, length - 1).trimEnd()}…`;
 }
@@ -63,12 +63,17 @@ export function createMessageService(deps: MessageServiceDependencies) {
     if (threads.length === 0) return [];
     const threadIds = threads.map((t) => t.id);
     const [listings, accounts, lastMessages, unread] = await Promise.all([
-      manager.getRepository(ListingEntity).find({ where: { id: In([...new Set(threads.map((t) => t.listingId))]) }, select: { id: true, title: true } }),
+      manager
+        .getRepository(ListingEntity)
+        .find({ where: { id: In([...new Set(threads.map((t) => t.listingId))]) }, select: { id: true, title: true } }),
       manager.getRepository(AccountEntity).find({ where: { id: In([...new Set(threads.flatMap((t) => [t.buyerId, t.sawyerId]))]) } }),
       manager
         .getRepository(MessageEntity)
         .createQueryBuilder("message")
-        .where("message.id IN (SELECT MAX(latest.id) FROM message latest WHERE latest.thread_id IN (:...threadIds) GROUP BY latest.thread_id)", { threadIds })
+        .where(
+          "message.id IN (SELECT MAX(latest.id) FROM message latest WHERE latest.thread_id IN (:...threadIds) GROUP BY latest.thread_id)",
+          { threadIds },
+        )
         .getMany(),
       manager
         .getRepository(MessageEntity)
@@ -97,7 +102,14 @@ export function createMessageService(deps: MessageServiceDependencies) {
         buyer: buyerView,
         sawyer: sawyerView,
         otherParty: side === "sawyer" ? buyerView : { id: sawyerView.id, displayName: sawyerView.displayName },
-        lastMessage: last ? { authorId: last.authorId, fromMe: last.authorId === readerId, excerpt: excerptOf(last.body), createdAt: last.createdAt.toISOString() } : null,
+        lastMessage: last
+          ? {
+              authorId: last.authorId,
+              fromMe: last.authorId === readerId,
+              excerpt: excerptOf(last.body),
+              createdAt: last.createdAt.toISOString(),
+            }
+          : null,
         unreadCount: side ? Number(unread.find((u) => u.threadId === thread.id)?.unread ?? 0) : 0,
         lastMessageAt: thread.lastMessageAt.toISOString(),
         createdAt: thread.createdAt.toISOString(),
@@ -107,7 +119,9 @@ export function createMessageService(deps: MessageServiceDependencies) {
 
   async function addMessage(manager: EntityManager, thread: MessageThreadEntity, authorId: string, body: string): Promise<MessageEntity> {
     const at = now();
-    const inserted = await manager.getRepository(MessageEntity).insert({ threadId: thread.id, authorId, body, createdAt: at, readAt: null });
+    const inserted = await manager
+      .getRepository(MessageEntity)
+      .insert({ threadId: thread.id, authorId, body, createdAt: at, readAt: null });
     await manager.getRepository(MessageThreadEntity).update({ id: thread.id }, { lastMessageAt: at });
     return manager.getRepository(MessageEntity).findOneByOrFail({ id: String(inserted.identifiers[0]!.id) });
   }
@@ -123,14 +137,27 @@ export function createMessageService(deps: MessageServiceDependencies) {
       ]);
       if (!recipient || !author) return;
       const fromName = authorId === thread.sawyerId && author.yardName ? `${author.displayName} (${author.yardName})` : author.displayName;
-      await deps.mailer.send(messageNoticeMail(recipient.email, recipient.displayName, fromName, listing?.title ?? "a listing", excerptOf(body), `${config.publicUrl}/messages/${thread.id}`));
+      await deps.mailer.send(
+        messageNoticeMail(
+          recipient.email,
+          recipient.displayName,
+          fromName,
+          listing?.title ?? "a listing",
+          excerptOf(body),
+          `${config.publicUrl}/messages/${thread.id}`,
+        ),
+      );
     } catch (error) {
       log.error({ err: error, threadId: thread.id }, "could not send a message notice");
     }
   }
 
   async function posted(thread: MessageThreadEntity, message: MessageEntity, readerId: string): Promise<MessagePosted> {
-    const [summary] = await summaries(dataSource.manager, [await dataSource.getRepository(MessageThreadEntity).findOneByOrFail({ id: thread.id })], readerId);
+    const [summary] = await summaries(
+      dataSource.manager,
+      [await dataSource.getRepository(MessageThreadEntity).findOneByOrFail({ id: thread.id })],
+      readerId,
+    );
     const author = await dataSource.getRepository(AccountEntity).findOneBy({ id: message.authorId });
     return { thread: summary!, message: messageView(message, readerId, new Map(author ? [[author.id, author]] : [])) };
   }
@@ -143,14 +170,21 @@ export function createMessageService(deps: MessageServiceDependencies) {
       const { thread, message } = await dataSource.transaction(async (manager) => {
         const listing = await manager.getRepository(ListingEntity).findOneBy({ id: listingId });
         if (!listing) throw new NotFound("That slab is not for sale here.");
-        if (listing.sawyerId === asker.accountId) throw new Forbidden("This is your own listing: buyers' questions reach you in your messages.", "own_listing");
+        if (listing.sawyerId === asker.accountId)
+          throw new Forbidden("This is your own listing: buyers' questions reach you in your messages.", "own_listing");
         const threads = manager.getRepository(MessageThreadEntity);
         let thread = await threads.findOne({ where: { buyerId: asker.accountId, listingId }, lock: { mode: "pessimistic_write" } });
         if (!thread) {
           if (listing.status !== "live") throw new NotFound("That slab is not for sale here.");
           const at = now();
           // One thread per asker and listing, even when two first messages race (unique key).
-          await threads.createQueryBuilder().insert().into(MessageThreadEntity).values({ id: randomUUID(), listingId, buyerId: asker.accountId, sawyerId: listing.sawyerId, lastMessageAt: at, createdAt: at }).orIgnore().execute();
+          await threads
+            .createQueryBuilder()
+            .insert()
+            .into(MessageThreadEntity)
+            .values({ id: randomUUID(), listingId, buyerId: asker.accountId, sawyerId: listing.sawyerId, lastMessageAt: at, createdAt: at })
+            .orIgnore()
+            .execute();
           thread = await threads.findOneOrFail({ where: { buyerId: asker.accountId, listingId }, lock: { mode: "pessimistic_write" } });
         }
         return { thread, message: await addMessage(manager, thread, asker.accountId, body) };
@@ -164,10 +198,14 @@ export function createMessageService(deps: MessageServiceDependencies) {
       const author = requireSignedIn(actor);
       const { body } = messageInputSchema.parse(input);
       const { thread, message } = await dataSource.transaction(async (manager) => {
-        const thread = await manager.getRepository(MessageThreadEntity).findOne({ where: { id: threadId }, lock: { mode: "pessimistic_write" } });
+        const thread = await manager
+          .getRepository(MessageThreadEntity)
+          .findOne({ where: { id: threadId }, lock: { mode: "pessimistic_write" } });
         if (!thread) throw new NotFound("No conversation with that id.");
         if (!sideOf(thread, author.accountId)) {
-          throw new Forbidden(author.role === "admin" ? "Admins can read conversations but not write in them." : "That conversation is between other people.");
+          throw new Forbidden(
+            author.role === "admin" ? "Admins can read conversations but not write in them." : "That conversation is between other people.",
+          );
         }
         return { thread, message: await addMessage(manager, thread, author.accountId, body) };
       });
@@ -191,10 +229,17 @@ export function createMessageService(deps: MessageServiceDependencies) {
       const reader = requireSignedIn(actor);
       const thread = await readableThread(dataSource.manager, reader, threadId);
       if (sideOf(thread, reader.accountId)) {
-        await dataSource.getRepository(MessageEntity).update({ threadId, authorId: Not(reader.accountId), readAt: IsNull() }, { readAt: now() });
+        await dataSource
+          .getRepository(MessageEntity)
+          .update({ threadId, authorId: Not(reader.accountId), readAt: IsNull() }, { readAt: now() });
       }
       const messages = await dataSource.getRepository(MessageEntity).find({ where: { threadId }, order: { id: "ASC" } });
-      const names = new Map((await dataSource.getRepository(AccountEntity).find({ where: { id: In([thread.buyerId, thread.sawyerId]) } })).map((a) => [a.id, a]));
+      const names = new Map(
+        (await dataSource.getRepository(AccountEntity).find({ where: { id: In([thread.buyerId, thread.sawyerId]) } })).map((a) => [
+          a.id,
+          a,
+        ]),
+      );
       const [summary] = await summaries(dataSource.manager, [thread], reader.accountId);
       return { thread: summary!, messages: messages.map((m) => messageView(m, reader.accountId, names)) };
     },

@@ -4,7 +4,7 @@ import { nearestFirst, type FetchBatch, type YardDistance } from "./nearest-firs
 // A small deterministic generator, so a failure can be replayed.
 function generator(seed: number) {
   let state = seed >>> 0;
-  return () => ((state = (state * 1664525 + 1013904223) >>> 0) / 2 ** 32);
+  return () => (state = (state * 1664525 + 1013904223) >>> 0) / 2 ** 32;
 }
 
 /** An invented catalogue: yards at distances with many ties, listings in each, some not matching. */
@@ -15,12 +15,20 @@ function catalogue(seed: number) {
     distanceKm: Math.floor(random() * 25) * 3.5, // few distinct values: yards in the same town tie
   })).sort((a, b) => a.distanceKm - b.distanceKm || (a.sawyerId < b.sawyerId ? -1 : 1));
   const listings = yards.flatMap((yard) =>
-    Array.from({ length: Math.floor(random() * 7) }, () => ({ listingId: `${Math.floor(random() * 1e9).toString(16).padStart(8, "0")}-${yard.sawyerId}`, sawyerId: yard.sawyerId, matches: random() < 0.7 })),
+    Array.from({ length: Math.floor(random() * 7) }, () => ({
+      listingId: `${Math.floor(random() * 1e9)
+        .toString(16)
+        .padStart(8, "0")}-${yard.sawyerId}`,
+      sawyerId: yard.sawyerId,
+      matches: random() < 0.7,
+    })),
   );
   let batches = 0;
   const fetchBatch: FetchBatch = async (asked, tie) => {
     batches += 1;
-    return listings.filter((l) => l.matches && (asked.includes(l.sawyerId) || (tie !== null && tie.yards.includes(l.sawyerId) && l.listingId > tie.afterId)));
+    return listings.filter(
+      (l) => l.matches && (asked.includes(l.sawyerId) || (tie !== null && tie.yards.includes(l.sawyerId) && l.listingId > tie.afterId)),
+    );
   };
   const distanceOf = new Map(yards.map((y) => [y.sawyerId, y.distanceKm]));
   // The order the walk must give: every matching listing by (distance, id), worked out in one go.

@@ -11,7 +11,10 @@ export interface YardDistance {
 }
 
 /** Matching listings of some yards; from the `tie` yards only those after `afterId` (by id). */
-export type FetchBatch = (yards: readonly string[], tie: { yards: readonly string[]; afterId: string } | null) => Promise<{ listingId: string; sawyerId: string }[]>;
+export type FetchBatch = (
+  yards: readonly string[],
+  tie: { yards: readonly string[]; afterId: string } | null,
+) => Promise<{ listingId: string; sawyerId: string }[]>;
 
 const FIRST_BATCH = 8;
 const GROWTH = 4;
@@ -22,7 +25,12 @@ const GROWTH = 4;
  * the page is full every yard not yet asked is farther than every row found: sorting what was
  * found gives the exact page.
  */
-export async function nearestFirst(yards: readonly YardDistance[], after: { value: number; id: string } | null, rows: number, fetchBatch: FetchBatch): Promise<string[]> {
+export async function nearestFirst(
+  yards: readonly YardDistance[],
+  after: { value: number; id: string } | null,
+  rows: number,
+  fetchBatch: FetchBatch,
+): Promise<string[]> {
   let next = after ? yards.findIndex((yard) => yard.distanceKm >= after.value) : 0;
   if (next < 0) return [];
   const found: { listingId: string; distanceKm: number }[] = [];

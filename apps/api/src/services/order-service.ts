@@ -1,4 +1,11 @@
-import { orderStatusLabels, type CancellationInput, type ChooseWindowInput, type Order, type PickupWindowsInput, type ShipmentInput } from "@grainyard/contracts";
+import {
+  orderStatusLabels,
+  type CancellationInput,
+  type ChooseWindowInput,
+  type Order,
+  type PickupWindowsInput,
+  type ShipmentInput,
+} from "@grainyard/contracts";
 import { retryOnLockConflict } from "../db/lock-conflicts.ts";
 import { In, LessThan, Not, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
@@ -42,7 +49,8 @@ const iso = (date: Date | null) => date?.toISOString() ?? null;
 function actionsFor(order: OrderEntity, viewerIs: Order["viewerIs"]): Order["actions"] {
   const actions: Order["actions"] = [];
   if (viewerIs === "sawyer") {
-    if (order.handover === "pickup" && (order.status === "paid" || order.status === "ready_for_pickup")) actions.push("propose_pickup_windows");
+    if (order.handover === "pickup" && (order.status === "paid" || order.status === "ready_for_pickup"))
+      actions.push("propose_pickup_windows");
     if (order.handover === "freight" && order.status === "paid") actions.push("mark_shipped");
     if (order.status === "ready_for_pickup" || order.status === "shipped") actions.push("mark_handed_over");
   }
@@ -56,7 +64,14 @@ function actionsFor(order: OrderEntity, viewerIs: Order["viewerIs"]): Order["act
 
 /** The order as this actor sees it: fees and the sawyer's net only for the sawyer and admins. */
 export function orderView(order: OrderEntity, actor: Actor, parties: Parties | undefined, autoCompleteDays: number): Order {
-  const viewerIs: Order["viewerIs"] = actor.kind !== "account" ? "other" : actor.accountId === order.buyerId ? "buyer" : actor.accountId === order.sawyerId ? "sawyer" : "other";
+  const viewerIs: Order["viewerIs"] =
+    actor.kind !== "account"
+      ? "other"
+      : actor.accountId === order.buyerId
+        ? "buyer"
+        : actor.accountId === order.sawyerId
+          ? "sawyer"
+          : "other";
   const seesShare = actor.kind === "account" && (actor.role === "admin" || actor.accountId === order.sawyerId);
   return {
     id: order.id,
@@ -72,13 +87,18 @@ export function orderView(order: OrderEntity, actor: Actor, parties: Parties | u
     reservedUntil: order.reservedUntil.toISOString(),
     paidAt: iso(order.paidAt),
     slabs: order.slabSnapshot,
-    sawyerShare: seesShare ? { platformFeeMinor: order.platformFeeMinor, processingFeeMinor: order.processingFeeMinor, sawyerNetMinor: order.sawyerNetMinor } : null,
+    sawyerShare: seesShare
+      ? { platformFeeMinor: order.platformFeeMinor, processingFeeMinor: order.processingFeeMinor, sawyerNetMinor: order.sawyerNetMinor }
+      : null,
     createdAt: order.createdAt.toISOString(),
     viewerIs,
     parties: { buyerName: parties?.buyerName ?? "The buyer", yardName: parties?.yardName ?? null, pickupTown: parties?.pickupTown ?? null },
     pickupWindows: order.pickupWindows ?? [],
     pickupAddress: order.pickupAddress,
-    chosenPickupWindow: order.pickupStartsAt && order.pickupEndsAt ? { startsAt: order.pickupStartsAt.toISOString(), endsAt: order.pickupEndsAt.toISOString() } : null,
+    chosenPickupWindow:
+      order.pickupStartsAt && order.pickupEndsAt
+        ? { startsAt: order.pickupStartsAt.toISOString(), endsAt: order.pickupEndsAt.toISOString() }
+        : null,
     carrier: order.carrier,
     trackingReference: order.trackingReference,
     steps: {
@@ -94,7 +114,10 @@ export function orderView(order: OrderEntity, actor: Actor, parties: Parties | u
     completedBy: order.completedBy,
     cancelledBy: order.cancelledBy,
     cancelReason: order.cancelReason,
-    autoCompleteAt: order.status === "handed_over" && order.handedOverAt ? new Date(order.handedOverAt.getTime() + autoCompleteDays * DAY_MS).toISOString() : null,
+    autoCompleteAt:
+      order.status === "handed_over" && order.handedOverAt
+        ? new Date(order.handedOverAt.getTime() + autoCompleteDays * DAY_MS).toISOString()
+        : null,
     actions: actionsFor(order, viewerIs),
   };
 }
@@ -129,8 +152,16 @@ export async function partiesOf(manager: EntityManager | DataSource, orders: Ord
  * webhook came first): cancelled → refunded once, with the sale reversed in the ledger. Whichever
  * of the two arrives second changes nothing.
  */
-export async function recordRefund(manager: EntityManager, orderId: string, refundId: string | null, sourceId: string, at: Date): Promise<boolean> {
-  const updated = await manager.getRepository(OrderEntity).update({ id: orderId, status: "cancelled" }, { status: "refunded", refundedAt: at, ...(refundId ? { refundId } : {}) });
+export async function recordRefund(
+  manager: EntityManager,
+  orderId: string,
+  refundId: string | null,
+  sourceId: string,
+  at: Date,
+): Promise<boolean> {
+  const updated = await manager
+    .getRepository(OrderEntity)
+    .update({ id: orderId, status: "cancelled" }, { status: "refunded", refundedAt: at, ...(refundId ? { refundId } : {}) });
   if (updated.affected !== 1) return false;
   const order = await manager.getRepository(OrderEntity).findOneByOrFail({ id: orderId });
   // An order cancelled before its sale reached the ledger has nothing to reverse.
@@ -175,7 +206,13 @@ export function createOrderService(deps: {
   }
 
   /** One step: a conditional update from the allowed statuses; anything else is a 409 naming the current state. */
-  async function step(order: OrderEntity, from: OrderStatus[], changes: Partial<OrderEntity>, doing: string, manager: EntityManager = dataSource.manager): Promise<OrderEntity> {
+  async function step(
+    order: OrderEntity,
+    from: OrderStatus[],
+    changes: Partial<OrderEntity>,
+    doing: string,
+    manager: EntityManager = dataSource.manager,
+  ): Promise<OrderEntity> {
     if (!from.includes(order.status)) throw wrongState(order.status, doing);
     const updated = await manager.getRepository(OrderEntity).update({ id: order.id, status: In(from) }, changes);
     if (updated.affected !== 1) {
@@ -190,8 +227,24 @@ export function createOrderService(deps: {
     const parties = (await partiesOf(dataSource, [order])).get(order.id)!;
     const link = `${config.publicUrl}/orders/${order.id}`;
     const mails: OutgoingMail[] = [
-      orderStepMail({ email: parties.buyerEmail, displayName: parties.buyerName }, "buyer", stepName, order, parties, link, config.checkout.autoCompleteDays),
-      orderStepMail({ email: parties.sawyerEmail, displayName: parties.sawyerName }, "sawyer", stepName, order, parties, link, config.checkout.autoCompleteDays),
+      orderStepMail(
+        { email: parties.buyerEmail, displayName: parties.buyerName },
+        "buyer",
+        stepName,
+        order,
+        parties,
+        link,
+        config.checkout.autoCompleteDays,
+      ),
+      orderStepMail(
+        { email: parties.sawyerEmail, displayName: parties.sawyerName },
+        "sawyer",
+        stepName,
+        order,
+        parties,
+        link,
+        config.checkout.autoCompleteDays,
+      ),
     ];
     for (const mail of mails) {
       if (!mail.to) continue;
@@ -211,7 +264,11 @@ export function createOrderService(deps: {
     }
     try {
       const made = await payments.sdk.refunds.create(
-        { payment_intent: order.paymentIntentId, reason: "requested_by_customer", metadata: { order_id: order.id, cancelled_by: order.cancelledBy ?? "" } },
+        {
+          payment_intent: order.paymentIntentId,
+          reason: "requested_by_customer",
+          metadata: { order_id: order.id, cancelled_by: order.cancelledBy ?? "" },
+        },
         { idempotencyKey: `refund-${order.id}` },
       );
       await dataSource.transaction((manager) => recordRefund(manager, order.id, made.id, made.id, now()));
@@ -227,14 +284,20 @@ export function createOrderService(deps: {
       const signedIn = requireSignedIn(actor);
       const order = await orders().findOneBy({ id: orderId });
       if (!order) throw new NotFound("No order with that id.");
-      if (signedIn.role !== "admin" && signedIn.accountId !== order.buyerId && signedIn.accountId !== order.sawyerId) throw new Forbidden("That order is not yours.");
+      if (signedIn.role !== "admin" && signedIn.accountId !== order.buyerId && signedIn.accountId !== order.sawyerId)
+        throw new Forbidden("That order is not yours.");
       return present(order, actor);
     },
 
     /** A buyer's orders, the sales of a sawyer's yard, or for an admin every order (newest first, the latest 100). */
     async listOwn(actor: Actor): Promise<Order[]> {
       const signedIn = requireSignedIn(actor);
-      const where = signedIn.role === "admin" ? {} : signedIn.role === "sawyer" ? { sawyerId: signedIn.accountId, status: In(SAWYER_VISIBLE) } : { buyerId: signedIn.accountId };
+      const where =
+        signedIn.role === "admin"
+          ? {}
+          : signedIn.role === "sawyer"
+            ? { sawyerId: signedIn.accountId, status: In(SAWYER_VISIBLE) }
+            : { buyerId: signedIn.accountId };
       const list = await orders().find({ where, order: { createdAt: "DESC" }, take: 100 });
       const parties = await partiesOf(dataSource, list);
       return list.map((o) => orderView(o, actor, parties.get(o.id), config.checkout.autoCompleteDays));
@@ -243,7 +306,8 @@ export function createOrderService(deps: {
     /** Pickup orders: the sawyer proposes 1–5 windows (again, if none suits) and where to come. */
     async proposePickupWindows(actor: Actor, orderId: string, input: PickupWindowsInput): Promise<Order> {
       const order = await orderFor(actor, orderId, "sawyer");
-      if (order.handover !== "pickup") throw new Conflict("This order goes by freight: add the carrier and tracking reference instead.", "order_state");
+      if (order.handover !== "pickup")
+        throw new Conflict("This order goes by freight: add the carrier and tracking reference instead.", "order_state");
       const at = now();
       const windows = input.windows
         .map((w) => ({ startsAt: new Date(w.startsAt), endsAt: new Date(w.endsAt) }))
@@ -251,9 +315,12 @@ export function createOrderService(deps: {
       const fields: Record<string, string> = {};
       windows.forEach((w, index) => {
         if (w.startsAt.getTime() <= at.getTime()) fields[`windows.${index}.startsAt`] = "Choose a time in the future.";
-        if (w.endsAt.getTime() - w.startsAt.getTime() > 12 * 3_600_000) fields[`windows.${index}.endsAt`] = "Keep a window to 12 hours or less.";
-        if (w.startsAt.getTime() - at.getTime() > 60 * DAY_MS) fields[`windows.${index}.startsAt`] = "Propose times within the next 60 days.";
-        if (index > 0 && w.startsAt.getTime() === windows[index - 1]!.startsAt.getTime()) fields[`windows.${index}.startsAt`] = "Two windows start at the same time.";
+        if (w.endsAt.getTime() - w.startsAt.getTime() > 12 * 3_600_000)
+          fields[`windows.${index}.endsAt`] = "Keep a window to 12 hours or less.";
+        if (w.startsAt.getTime() - at.getTime() > 60 * DAY_MS)
+          fields[`windows.${index}.startsAt`] = "Propose times within the next 60 days.";
+        if (index > 0 && w.startsAt.getTime() === windows[index - 1]!.startsAt.getTime())
+          fields[`windows.${index}.startsAt`] = "Two windows start at the same time.";
       });
       if (Object.keys(fields).length) throw new Invalid("Some pickup windows need a change.", fields);
       const updated = await step(
@@ -280,8 +347,14 @@ export function createOrderService(deps: {
       if (order.status !== "ready_for_pickup") throw wrongState(order.status, "have a pickup window chosen");
       const wanted = Date.parse(input.startsAt);
       const window = (order.pickupWindows ?? []).find((w) => Date.parse(w.startsAt) === wanted);
-      if (!window) throw new Invalid("Choose one of the windows the sawyer proposed.", { startsAt: "That is not one of the proposed windows." });
-      const updated = await step(order, ["ready_for_pickup"], { pickupStartsAt: new Date(window.startsAt), pickupEndsAt: new Date(window.endsAt), pickupChosenAt: now() }, "have a pickup window chosen");
+      if (!window)
+        throw new Invalid("Choose one of the windows the sawyer proposed.", { startsAt: "That is not one of the proposed windows." });
+      const updated = await step(
+        order,
+        ["ready_for_pickup"],
+        { pickupStartsAt: new Date(window.startsAt), pickupEndsAt: new Date(window.endsAt), pickupChosenAt: now() },
+        "have a pickup window chosen",
+      );
       await mailBoth(updated, "pickup_window_chosen");
       return present(updated, actor);
     },
@@ -289,8 +362,14 @@ export function createOrderService(deps: {
     /** Freight orders: the sawyer sends it and gives the carrier and tracking reference. */
     async markShipped(actor: Actor, orderId: string, input: ShipmentInput): Promise<Order> {
       const order = await orderFor(actor, orderId, "sawyer");
-      if (order.handover !== "freight") throw new Conflict("This order is collected at the yard: propose pickup windows instead.", "order_state");
-      const updated = await step(order, ["paid"], { status: "shipped", carrier: input.carrier, trackingReference: input.trackingReference, shippedAt: now() }, "be marked as shipped");
+      if (order.handover !== "freight")
+        throw new Conflict("This order is collected at the yard: propose pickup windows instead.", "order_state");
+      const updated = await step(
+        order,
+        ["paid"],
+        { status: "shipped", carrier: input.carrier, trackingReference: input.trackingReference, shippedAt: now() },
+        "be marked as shipped",
+      );
       await mailBoth(updated, "shipped");
       return present(updated, actor);
     },
@@ -298,7 +377,12 @@ export function createOrderService(deps: {
     /** The slab left the sawyer's hands: collected at the yard, or delivered by the carrier. */
     async markHandedOver(actor: Actor, orderId: string): Promise<Order> {
       const order = await orderFor(actor, orderId, "sawyer");
-      const updated = await step(order, ["ready_for_pickup", "shipped"], { status: "handed_over", handedOverAt: now() }, "be marked as handed over");
+      const updated = await step(
+        order,
+        ["ready_for_pickup", "shipped"],
+        { status: "handed_over", handedOverAt: now() },
+        "be marked as handed over",
+      );
       await mailBoth(updated, "handed_over");
       return present(updated, actor);
     },
@@ -306,7 +390,12 @@ export function createOrderService(deps: {
     /** The buyer has the slab and says so. */
     async confirmReceipt(actor: Actor, orderId: string): Promise<Order> {
       const order = await orderFor(actor, orderId, "buyer");
-      const updated = await step(order, ["handed_over"], { status: "completed", completedAt: now(), completedBy: "buyer" }, "be confirmed as received");
+      const updated = await step(
+        order,
+        ["handed_over"],
+        { status: "completed", completedAt: now(), completedBy: "buyer" },
+        "be confirmed as received",
+      );
       await mailBoth(updated, "completed");
       return present(updated, actor);
     },
@@ -320,7 +409,13 @@ export function createOrderService(deps: {
       const order = await orderFor(actor, orderId, "either");
       const by = requireSignedIn(actor).accountId === order.sawyerId ? "sawyer" : "buyer";
       const cancelled = await dataSource.transaction(async (manager) => {
-        const updated = await step(order, CANCELLABLE, { status: "cancelled", cancelledAt: now(), cancelledBy: by, cancelReason: input.reason }, "be cancelled", manager);
+        const updated = await step(
+          order,
+          CANCELLABLE,
+          { status: "cancelled", cancelledAt: now(), cancelledBy: by, cancelReason: input.reason },
+          "be cancelled",
+          manager,
+        );
         await manager.getRepository(ListingEntity).update({ id: order.listingId, status: "sold" }, { status: "live" });
         await deps.onListingChanged?.(manager, order.listingId);
         return updated;
@@ -339,7 +434,9 @@ export function createOrderService(deps: {
       const due = await orders().find({ where: { status: "handed_over", handedOverAt: LessThan(cutoff) }, take: 200 });
       let completed = 0;
       for (const order of due) {
-        const updated = await retryOnLockConflict(() => orders().update({ id: order.id, status: "handed_over" }, { status: "completed", completedAt: now(), completedBy: "automatic" }));
+        const updated = await retryOnLockConflict(() =>
+          orders().update({ id: order.id, status: "handed_over" }, { status: "completed", completedAt: now(), completedBy: "automatic" }),
+        );
         if (updated?.affected !== 1) continue;
         completed += 1;
         await mailBoth(await orders().findOneByOrFail({ id: order.id }), "completed");

@@ -1,12 +1,33 @@
 import { createHash, randomUUID } from "node:crypto";
-import type { DisputeRefund, DisputeRefundState, Payout, PayoutApproval, PayoutBatch, PayoutBatchResult, PayoutDue, PayoutLine, PayoutsDue, SawyerBalance, SawyerPayouts, PayoutAccountState } from "@grainyard/contracts";
+import type {
+  DisputeRefund,
+  DisputeRefundState,
+  Payout,
+  PayoutApproval,
+  PayoutBatch,
+  PayoutBatchResult,
+  PayoutDue,
+  PayoutLine,
+  PayoutsDue,
+  SawyerBalance,
+  SawyerPayouts,
+  PayoutAccountState,
+} from "@grainyard/contracts";
 import { disputeRefundSchema, payoutApprovalSchema, payoutBatchSchema } from "@grainyard/contracts";
 import { refundShares } from "@grainyard/slab-math";
 import { stringify } from "csv-stringify/sync";
 import type Stripe from "stripe";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
-import { AccountEntity, LedgerEntryEntity, OrderEntity, OrderRefundEntity, PayoutAccountEntity, PayoutEntity, PayoutLineEntity } from "../entities/index.ts";
+import {
+  AccountEntity,
+  LedgerEntryEntity,
+  OrderEntity,
+  OrderRefundEntity,
+  PayoutAccountEntity,
+  PayoutEntity,
+  PayoutLineEntity,
+} from "../entities/index.ts";
 import { AppError, Conflict, Invalid, NotFound, ServiceUnavailable } from "../errors.ts";
 import type { Mailer } from "../integrations/mail.ts";
 import type { Payments } from "../integrations/payments.ts";
@@ -70,28 +91,57 @@ export function createPayoutService(deps: {
         WHERE e.account = ? AND e.order_id IS NOT NULL
         GROUP BY e.order_id, e.currency, o.status, o.handed_over_at, o.title`,
       [sawyerAccount(sawyerId)],
-    )) as { orderId: string; currency: string; owed: string | number; status: string; handedOverAt: Date | null; title: string; inFlight: string | number }[];
+    )) as {
+      orderId: string;
+      currency: string;
+      owed: string | number;
+      status: string;
+      handedOverAt: Date | null;
+      title: string;
+      inFlight: string | number;
+    }[];
     const holdMs = deps.holdDays() * DAY_MS;
     return rows
       .map((row) => {
         const handedOverAt = row.handedOverAt ? new Date(row.handedOverAt) : null;
-        const released = SETTLED.includes(row.status) || (HANDED_OVER.includes(row.status) && handedOverAt !== null && handedOverAt.getTime() + holdMs <= at.getTime());
-        return { orderId: row.orderId, currency: row.currency, owedMinor: Number(row.owed) - Number(row.inFlight), released, listingTitle: row.title, handedOverAt };
+        const released =
+          SETTLED.includes(row.status) ||
+          (HANDED_OVER.includes(row.status) && handedOverAt !== null && handedOverAt.getTime() + holdMs <= at.getTime());
+        return {
+          orderId: row.orderId,
+          currency: row.currency,
+          owedMinor: Number(row.owed) - Number(row.inFlight),
+          released,
+          listingTitle: row.title,
+          handedOverAt,
+        };
       })
       .filter((row) => row.owedMinor !== 0);
   }
 
   function lineOf(row: OrderOwed): PayoutLine {
-    return { orderId: row.orderId, listingTitle: row.listingTitle, handedOverAt: row.handedOverAt?.toISOString() ?? null, amountMinor: row.owedMinor };
+    return {
+      orderId: row.orderId,
+      listingTitle: row.listingTitle,
+      handedOverAt: row.handedOverAt?.toISOString() ?? null,
+      amountMinor: row.owedMinor,
+    };
   }
 
   /** The payout that could be approved now per currency (only when the released total is above zero). */
-  async function dueFor(manager: EntityManager, sawyerId: string, at: Date): Promise<{ currency: string; lines: PayoutLine[]; amountMinor: number; dueKey: string }[]> {
+  async function dueFor(
+    manager: EntityManager,
+    sawyerId: string,
+    at: Date,
+  ): Promise<{ currency: string; lines: PayoutLine[]; amountMinor: number; dueKey: string }[]> {
     const released = (await owedByOrder(manager, sawyerId, at)).filter((row) => row.released);
     const currencies = [...new Set(released.map((row) => row.currency))].sort();
     return currencies
       .map((currency) => {
-        const lines = released.filter((row) => row.currency === currency).map(lineOf).sort((a, b) => (a.handedOverAt ?? "").localeCompare(b.handedOverAt ?? "") || a.orderId.localeCompare(b.orderId));
+        const lines = released
+          .filter((row) => row.currency === currency)
+          .map(lineOf)
+          .sort((a, b) => (a.handedOverAt ?? "").localeCompare(b.handedOverAt ?? "") || a.orderId.localeCompare(b.orderId));
         const amountMinor = lines.reduce((sum, line) => sum + line.amountMinor, 0);
         return { currency, lines, amountMinor, dueKey: dueKeyOf(sawyerId, currency, lines) };
       })
@@ -113,8 +163,15 @@ export function createPayoutService(deps: {
     if (payouts.length === 0) return [];
     const ids = payouts.map((p) => p.id);
     const lines = await manager.getRepository(PayoutLineEntity).findBy({ payoutId: In(ids) });
-    const orders = lines.length ? await manager.getRepository(OrderEntity).find({ where: { id: In([...new Set(lines.map((l) => l.orderId))]) }, select: { id: true, title: true, handedOverAt: true } }) : [];
-    const people = await manager.getRepository(AccountEntity).find({ where: { id: In([...new Set(payouts.flatMap((p) => [p.sawyerId, p.approvedBy].filter((v): v is string => !!v)))]) }, select: { id: true, displayName: true, yardName: true, email: true } });
+    const orders = lines.length
+      ? await manager
+          .getRepository(OrderEntity)
+          .find({ where: { id: In([...new Set(lines.map((l) => l.orderId))]) }, select: { id: true, title: true, handedOverAt: true } })
+      : [];
+    const people = await manager.getRepository(AccountEntity).find({
+      where: { id: In([...new Set(payouts.flatMap((p) => [p.sawyerId, p.approvedBy].filter((v): v is string => !!v)))]) },
+      select: { id: true, displayName: true, yardName: true, email: true },
+    });
     const person = new Map(people.map((p) => [p.id, p]));
     const order = new Map(orders.map((o) => [o.id, o]));
     return payouts.map((p) => ({
@@ -132,7 +189,12 @@ export function createPayoutService(deps: {
       sentAt: p.sentAt?.toISOString() ?? null,
       lines: lines
         .filter((l) => l.payoutId === p.id)
-        .map((l) => ({ orderId: l.orderId, listingTitle: order.get(l.orderId)?.title ?? "", handedOverAt: order.get(l.orderId)?.handedOverAt?.toISOString() ?? null, amountMinor: l.amountMinor })),
+        .map((l) => ({
+          orderId: l.orderId,
+          listingTitle: order.get(l.orderId)?.title ?? "",
+          handedOverAt: order.get(l.orderId)?.handedOverAt?.toISOString() ?? null,
+          amountMinor: l.amountMinor,
+        })),
     }));
   }
 
@@ -150,31 +212,55 @@ export function createPayoutService(deps: {
     try {
       if (!account) throw new Error("The sawyer has no payout account.");
       transfer = await payments.sdk.transfers.create(
-        { amount: payout.amountMinor, currency: payout.currency.toLowerCase(), destination: account.providerAccountId, metadata: { payout_id: payout.id, sawyer_id: payout.sawyerId } },
+        {
+          amount: payout.amountMinor,
+          currency: payout.currency.toLowerCase(),
+          destination: account.providerAccountId,
+          metadata: { payout_id: payout.id, sawyer_id: payout.sawyerId },
+        },
         { idempotencyKey: `payout-${payout.id}` },
       );
     } catch (error) {
       const type = (error as { type?: string }).type;
       // A provider that cannot be reached leaves the attempt open: approving again retries it with the same key.
-      if (type === "StripeConnectionError" || type === "StripeAPIError") throw new ServiceUnavailable("The payment provider is not answering; the payout was not sent. Try again in a minute.");
+      if (type === "StripeConnectionError" || type === "StripeAPIError")
+        throw new ServiceUnavailable("The payment provider is not answering; the payout was not sent. Try again in a minute.");
       failure = providerMessage(error);
     }
     const at = now();
     await dataSource.transaction(async (manager) => {
       if (transfer) {
-        const updated = await manager.getRepository(PayoutEntity).update({ id: payout.id, status: "sending" }, { status: "sent", transferId: transfer.id, sentAt: at });
+        const updated = await manager
+          .getRepository(PayoutEntity)
+          .update({ id: payout.id, status: "sending" }, { status: "sent", transferId: transfer.id, sentAt: at });
         if (updated.affected !== 1) return;
         // One pair of entries per order: the sawyer's balance for it goes down, the money leaves the provider account.
         const lines = await manager.getRepository(PayoutLineEntity).findBy({ payoutId: payout.id });
         await manager.getRepository(LedgerEntryEntity).insert(
           lines.flatMap((line) => [
-            { orderId: line.orderId, account: sawyerAccount(payout.sawyerId), amountMinor: line.amountMinor, currency: payout.currency, kind: "payout", providerEventId: transfer!.id },
-            { orderId: line.orderId, account: "provider_clearing", amountMinor: -line.amountMinor, currency: payout.currency, kind: "payout", providerEventId: transfer!.id },
+            {
+              orderId: line.orderId,
+              account: sawyerAccount(payout.sawyerId),
+              amountMinor: line.amountMinor,
+              currency: payout.currency,
+              kind: "payout",
+              providerEventId: transfer!.id,
+            },
+            {
+              orderId: line.orderId,
+              account: "provider_clearing",
+              amountMinor: -line.amountMinor,
+              currency: payout.currency,
+              kind: "payout",
+              providerEventId: transfer!.id,
+            },
           ]),
         );
       } else {
         // Nothing reaches the ledger: the sawyer's balance stays as it was, and the reason is kept to show.
-        await manager.getRepository(PayoutEntity).update({ id: payout.id, status: "sending" }, { status: "failed", failureReason: failure });
+        await manager
+          .getRepository(PayoutEntity)
+          .update({ id: payout.id, status: "sending" }, { status: "failed", failureReason: failure });
       }
     });
     const done = await dataSource.getRepository(PayoutEntity).findOneByOrFail({ id: payout.id });
@@ -196,15 +282,22 @@ export function createPayoutService(deps: {
   async function openAttempt(admin: SignedInActor, approval: PayoutApproval, at: Date): Promise<{ payoutId: string; created: boolean }> {
     const adminId = admin.accountId;
     return dataSource.transaction(async (manager) => {
-      const account = await manager.getRepository(PayoutAccountEntity).findOne({ where: { sawyerId: approval.sawyerId }, lock: { mode: "pessimistic_write" } });
+      const account = await manager
+        .getRepository(PayoutAccountEntity)
+        .findOne({ where: { sawyerId: approval.sawyerId }, lock: { mode: "pessimistic_write" } });
       const attempts = await manager.getRepository(PayoutEntity).find({ where: { dueKey: approval.dueKey }, order: { attempt: "DESC" } });
       const open = attempts.find((p) => p.status !== "failed");
       // The same statement approved again: the money goes (or went) once.
       if (open) return { payoutId: open.id, created: false };
       if (!account) throw new Conflict("This sawyer has not set up a payout account yet.", "payout_account_missing");
-      if (!account.payoutsEnabled) throw new Conflict("This sawyer's payout account is not finished yet, so it cannot receive money.", "payout_account_unfinished");
+      if (!account.payoutsEnabled)
+        throw new Conflict("This sawyer's payout account is not finished yet, so it cannot receive money.", "payout_account_unfinished");
       const due = (await dueFor(manager, approval.sawyerId, at)).find((d) => d.currency === approval.currency.toUpperCase());
-      if (!due || due.dueKey !== approval.dueKey) throw new Conflict("This payout changed since the list was loaded (a sale or refund moved). Look at it again before approving.", "payout_changed");
+      if (!due || due.dueKey !== approval.dueKey)
+        throw new Conflict(
+          "This payout changed since the list was loaded (a sale or refund moved). Look at it again before approving.",
+          "payout_changed",
+        );
       const payoutId = randomUUID();
       await manager.getRepository(PayoutEntity).insert({
         id: payoutId,
@@ -220,8 +313,26 @@ export function createPayoutService(deps: {
         createdAt: at,
         sentAt: null,
       });
-      await manager.getRepository(PayoutLineEntity).insert(due.lines.map((line) => ({ payoutId, orderId: line.orderId, amountMinor: line.amountMinor })));
-      await recordAudit(manager, admin, { action: "payout.approve", targetKind: "account", targetId: approval.sawyerId, after: { payoutId, currency: due.currency, amountMinor: due.amountMinor, orders: due.lines.length, attempt: (attempts[0]?.attempt ?? 0) + 1 } }, at);
+      await manager
+        .getRepository(PayoutLineEntity)
+        .insert(due.lines.map((line) => ({ payoutId, orderId: line.orderId, amountMinor: line.amountMinor })));
+      await recordAudit(
+        manager,
+        admin,
+        {
+          action: "payout.approve",
+          targetKind: "account",
+          targetId: approval.sawyerId,
+          after: {
+            payoutId,
+            currency: due.currency,
+            amountMinor: due.amountMinor,
+            orders: due.lines.length,
+            attempt: (attempts[0]?.attempt ?? 0) + 1,
+          },
+        },
+        at,
+      );
       return { payoutId, created: true };
     });
   }
@@ -237,15 +348,25 @@ export function createPayoutService(deps: {
   /** Owed per currency for a sawyer: pending, available, paid. */
   async function balancesOf(manager: EntityManager, sawyerId: string, at: Date): Promise<SawyerBalance[]> {
     const owed = await owedByOrder(manager, sawyerId, at);
-    const paidRows = (await manager.query("SELECT currency, SUM(amount_minor) AS paid FROM ledger_entry WHERE account = ? AND kind = 'payout' GROUP BY currency", [sawyerAccount(sawyerId)])) as { currency: string; paid: string }[];
-    const inFlight = (await manager.query("SELECT currency, SUM(amount_minor) AS sending FROM payout WHERE sawyer_id = ? AND status = 'sending' GROUP BY currency", [sawyerId])) as { currency: string; sending: string }[];
-    const currencies = [...new Set([...owed.map((o) => o.currency), ...paidRows.map((p) => p.currency), ...inFlight.map((p) => p.currency)])].sort();
+    const paidRows = (await manager.query(
+      "SELECT currency, SUM(amount_minor) AS paid FROM ledger_entry WHERE account = ? AND kind = 'payout' GROUP BY currency",
+      [sawyerAccount(sawyerId)],
+    )) as { currency: string; paid: string }[];
+    const inFlight = (await manager.query(
+      "SELECT currency, SUM(amount_minor) AS sending FROM payout WHERE sawyer_id = ? AND status = 'sending' GROUP BY currency",
+      [sawyerId],
+    )) as { currency: string; sending: string }[];
+    const currencies = [
+      ...new Set([...owed.map((o) => o.currency), ...paidRows.map((p) => p.currency), ...inFlight.map((p) => p.currency)]),
+    ].sort();
     return currencies.map((currency) => ({
       currency,
       pendingMinor: owed.filter((o) => o.currency === currency && !o.released).reduce((sum, o) => sum + o.owedMinor, 0),
       availableMinor: owed.filter((o) => o.currency === currency && o.released).reduce((sum, o) => sum + o.owedMinor, 0),
       // Money on its way counts as paid for the sawyer's view (it left their available balance).
-      paidMinor: Number(paidRows.find((p) => p.currency === currency)?.paid ?? 0) + Number(inFlight.find((p) => p.currency === currency)?.sending ?? 0),
+      paidMinor:
+        Number(paidRows.find((p) => p.currency === currency)?.paid ?? 0) +
+        Number(inFlight.find((p) => p.currency === currency)?.sending ?? 0),
     }));
   }
 
@@ -256,7 +377,9 @@ export function createPayoutService(deps: {
       const manager = dataSource.manager;
       const account = await manager.getRepository(PayoutAccountEntity).findOneBy({ sawyerId: sawyer.accountId });
       const state = accountState(account);
-      const payouts = await manager.getRepository(PayoutEntity).find({ where: { sawyerId: sawyer.accountId }, order: { createdAt: "DESC" }, take: 100 });
+      const payouts = await manager
+        .getRepository(PayoutEntity)
+        .find({ where: { sawyerId: sawyer.accountId }, order: { createdAt: "DESC" }, take: 100 });
       return {
         account: { state, updatedAt: account?.updatedAt.toISOString() ?? null },
         blockedReason: blockedReason(state),
@@ -277,7 +400,13 @@ export function createPayoutService(deps: {
             { type: "express", email: me.email, business_profile: { name: me.yardName ?? me.displayName }, metadata: { sawyer_id: me.id } },
             { idempotencyKey: `payout-account-${me.id}` },
           );
-          await dataSource.createQueryBuilder().insert().into(PayoutAccountEntity).values({ sawyerId: me.id, providerAccountId: created.id, payoutsEnabled: false, detailsSubmitted: false }).orIgnore().execute();
+          await dataSource
+            .createQueryBuilder()
+            .insert()
+            .into(PayoutAccountEntity)
+            .values({ sawyerId: me.id, providerAccountId: created.id, payoutsEnabled: false, detailsSubmitted: false })
+            .orIgnore()
+            .execute();
           account = await dataSource.getRepository(PayoutAccountEntity).findOneByOrFail({ sawyerId: me.id });
         }
         const link = await payments.sdk.accountLinks.create({
@@ -310,8 +439,16 @@ export function createPayoutService(deps: {
     },
 
     /** The provider's word on an account (from `account.updated` or a retrieve). */
-    async recordAccount(remote: Pick<Stripe.Account, "id" | "payouts_enabled" | "details_submitted">, manager: EntityManager = dataSource.manager): Promise<boolean> {
-      const updated = await manager.getRepository(PayoutAccountEntity).update({ providerAccountId: remote.id }, { payoutsEnabled: !!remote.payouts_enabled, detailsSubmitted: !!remote.details_submitted });
+    async recordAccount(
+      remote: Pick<Stripe.Account, "id" | "payouts_enabled" | "details_submitted">,
+      manager: EntityManager = dataSource.manager,
+    ): Promise<boolean> {
+      const updated = await manager
+        .getRepository(PayoutAccountEntity)
+        .update(
+          { providerAccountId: remote.id },
+          { payoutsEnabled: !!remote.payouts_enabled, detailsSubmitted: !!remote.details_submitted },
+        );
       return (updated.affected ?? 0) > 0;
     },
 
@@ -325,12 +462,25 @@ export function createPayoutService(deps: {
         [sawyerAccount(sawyer.accountId)],
       )) as { at: Date; kind: string; orderId: string | null; title: string | null; currency: string; amount: string | number }[];
       const running = new Map<string, number>();
-      const words: Record<string, string> = { payment: "sale", refund: "refund", dispute_refund: "refund (dispute)", payout: "paid out to you" };
+      const words: Record<string, string> = {
+        payment: "sale",
+        refund: "refund",
+        dispute_refund: "refund (dispute)",
+        payout: "paid out to you",
+      };
       const lines = rows.map((row) => {
         const amount = Number(row.amount);
         const total = (running.get(row.currency) ?? 0) + amount;
         running.set(row.currency, total);
-        return [new Date(row.at).toISOString(), words[row.kind] ?? row.kind, row.orderId ?? "", row.title ?? "", row.currency, (amount / 100).toFixed(2), (total / 100).toFixed(2)];
+        return [
+          new Date(row.at).toISOString(),
+          words[row.kind] ?? row.kind,
+          row.orderId ?? "",
+          row.title ?? "",
+          row.currency,
+          (amount / 100).toFixed(2),
+          (total / 100).toFixed(2),
+        ];
       });
       return stringify(lines, { header: true, columns: ["date", "what", "order", "listing", "currency", "amount", "owed to you after"] });
     },
@@ -339,19 +489,41 @@ export function createPayoutService(deps: {
     async due(actor: Actor): Promise<PayoutsDue> {
       requireRole(actor, "admin");
       const at = now();
-      const sawyerIds = ((await dataSource.query("SELECT DISTINCT SUBSTRING(account, 8) AS id FROM ledger_entry WHERE account LIKE 'sawyer:%'")) as { id: string }[]).map((r) => r.id);
+      const sawyerIds = (
+        (await dataSource.query("SELECT DISTINCT SUBSTRING(account, 8) AS id FROM ledger_entry WHERE account LIKE 'sawyer:%'")) as {
+          id: string;
+        }[]
+      ).map((r) => r.id);
       if (sawyerIds.length === 0) return { due: [], holdDays: deps.holdDays() };
-      const people = await dataSource.getRepository(AccountEntity).find({ where: { id: In(sawyerIds) }, select: { id: true, displayName: true, yardName: true } });
+      const people = await dataSource
+        .getRepository(AccountEntity)
+        .find({ where: { id: In(sawyerIds) }, select: { id: true, displayName: true, yardName: true } });
       const accounts = await dataSource.getRepository(PayoutAccountEntity).findBy({ sawyerId: In(sawyerIds) });
       const result: PayoutDue[] = [];
       for (const person of people) {
         const state = accountState(accounts.find((a) => a.sawyerId === person.id) ?? null);
         for (const due of await dueFor(dataSource.manager, person.id, at)) {
-          const failed = await dataSource.getRepository(PayoutEntity).findOne({ where: { dueKey: due.dueKey, status: "failed" }, order: { attempt: "DESC" } });
-          result.push({ sawyerId: person.id, sawyerName: person.displayName, yardName: person.yardName, currency: due.currency, amountMinor: due.amountMinor, dueKey: due.dueKey, accountState: state, blockedReason: state === "ready" ? null : blockedReason(state), lines: due.lines, lastFailure: failed?.failureReason ?? null });
+          const failed = await dataSource
+            .getRepository(PayoutEntity)
+            .findOne({ where: { dueKey: due.dueKey, status: "failed" }, order: { attempt: "DESC" } });
+          result.push({
+            sawyerId: person.id,
+            sawyerName: person.displayName,
+            yardName: person.yardName,
+            currency: due.currency,
+            amountMinor: due.amountMinor,
+            dueKey: due.dueKey,
+            accountState: state,
+            blockedReason: state === "ready" ? null : blockedReason(state),
+            lines: due.lines,
+            lastFailure: failed?.failureReason ?? null,
+          });
         }
       }
-      result.sort((a, b) => (a.lines[0]?.handedOverAt ?? "").localeCompare(b.lines[0]?.handedOverAt ?? "") || a.sawyerName.localeCompare(b.sawyerName));
+      result.sort(
+        (a, b) =>
+          (a.lines[0]?.handedOverAt ?? "").localeCompare(b.lines[0]?.handedOverAt ?? "") || a.sawyerName.localeCompare(b.sawyerName),
+      );
       return { due: result, holdDays: deps.holdDays() };
     },
 
@@ -364,7 +536,12 @@ export function createPayoutService(deps: {
       const results: PayoutBatchResult["results"] = [];
       for (const approval of payouts) {
         try {
-          results.push({ sawyerId: approval.sawyerId, currency: approval.currency, payout: await approveOne(actor, approval), error: null });
+          results.push({
+            sawyerId: approval.sawyerId,
+            currency: approval.currency,
+            payout: await approveOne(actor, approval),
+            error: null,
+          });
         } catch (error) {
           if (!(error instanceof AppError)) throw error;
           results.push({ sawyerId: approval.sawyerId, currency: approval.currency, payout: null, error: error.message });
@@ -376,7 +553,9 @@ export function createPayoutService(deps: {
     async list(actor: Actor, query: { status?: Payout["status"]; sawyerId?: string }): Promise<Payout[]> {
       requireRole(actor, "admin");
       const { status, sawyerId } = query;
-      const payouts = await dataSource.getRepository(PayoutEntity).find({ where: { ...(status ? { status } : {}), ...(sawyerId ? { sawyerId } : {}) }, order: { createdAt: "DESC" }, take: 200 });
+      const payouts = await dataSource
+        .getRepository(PayoutEntity)
+        .find({ where: { ...(status ? { status } : {}), ...(sawyerId ? { sawyerId } : {}) }, order: { createdAt: "DESC" }, take: 200 });
       return present(dataSource.manager, payouts);
     },
 
@@ -419,7 +598,10 @@ export function createPayoutService(deps: {
       const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: orderId });
       if (!order) throw new NotFound("No order with that id.");
       if (!REFUNDABLE.includes(order.status) || !order.paymentIntentId) {
-        throw new Conflict("Only a paid order can be refunded for a dispute (cancelled and refunded orders are settled already).", "order_not_refundable");
+        throw new Conflict(
+          "Only a paid order can be refunded for a dispute (cancelled and refunded orders are settled already).",
+          "order_not_refundable",
+        );
       }
       const refundId = randomUUID();
       const at = now();
@@ -428,23 +610,40 @@ export function createPayoutService(deps: {
         const locked = await manager.getRepository(OrderEntity).findOne({ where: { id: orderId }, lock: { mode: "pessimistic_write" } });
         const given = (await manager.getRepository(OrderRefundEntity).sum("amountMinor", { orderId })) ?? 0;
         const refundable = locked!.totalMinor - Number(given);
-        if (amountMinor > refundable) throw new Invalid(`At most ${(refundable / 100).toFixed(2)} ${locked!.currency} can still be refunded on this order.`, { amountMinor: "More than is left to refund." });
-        await manager.getRepository(OrderRefundEntity).insert({ id: refundId, orderId, amountMinor, reason, providerRefundId: null, createdBy: admin.accountId, createdAt: at });
+        if (amountMinor > refundable)
+          throw new Invalid(`At most ${(refundable / 100).toFixed(2)} ${locked!.currency} can still be refunded on this order.`, {
+            amountMinor: "More than is left to refund.",
+          });
+        await manager
+          .getRepository(OrderRefundEntity)
+          .insert({ id: refundId, orderId, amountMinor, reason, providerRefundId: null, createdBy: admin.accountId, createdAt: at });
         return Number(given);
       });
       let providerRefund: Stripe.Refund;
       try {
-        providerRefund = await payments.sdk.refunds.create({ payment_intent: order.paymentIntentId, amount: amountMinor, metadata: { order_id: order.id, dispute_refund_id: refundId } }, { idempotencyKey: `dispute-${refundId}` });
+        providerRefund = await payments.sdk.refunds.create(
+          { payment_intent: order.paymentIntentId, amount: amountMinor, metadata: { order_id: order.id, dispute_refund_id: refundId } },
+          { idempotencyKey: `dispute-${refundId}` },
+        );
       } catch (error) {
         // Nothing was refunded: take the reservation back, so the amount can be refunded later.
         await dataSource.getRepository(OrderRefundEntity).delete({ id: refundId });
         const type = (error as { type?: string }).type;
-        if (type === "StripeConnectionError" || type === "StripeAPIError") throw new ServiceUnavailable("The payment provider is not answering; nothing was refunded. Try again in a minute.");
+        if (type === "StripeConnectionError" || type === "StripeAPIError")
+          throw new ServiceUnavailable("The payment provider is not answering; nothing was refunded. Try again in a minute.");
         throw new Conflict(`The payment provider refused the refund: ${providerMessage(error)}`, "refund_refused");
       }
       await dataSource.transaction(async (manager) => {
         await manager.getRepository(OrderRefundEntity).update({ id: refundId }, { providerRefundId: providerRefund.id });
-        const shares = refundShares({ tax: order.taxMinor, platformFee: order.platformFeeMinor, processing: order.processingFeeMinor, sawyerNet: order.sawyerNetMinor }, amountMinor);
+        const shares = refundShares(
+          {
+            tax: order.taxMinor,
+            platformFee: order.platformFeeMinor,
+            processing: order.processingFeeMinor,
+            sawyerNet: order.sawyerNetMinor,
+          },
+          amountMinor,
+        );
         const entries = [
           { account: "provider_clearing", amountMinor: -amountMinor },
           { account: "tax_payable", amountMinor: shares.tax },
@@ -452,14 +651,46 @@ export function createPayoutService(deps: {
           { account: "processing_fees", amountMinor: shares.processing },
           { account: sawyerAccount(order.sawyerId), amountMinor: shares.sawyerNet },
         ].filter((e) => e.amountMinor !== 0);
-        await manager.getRepository(LedgerEntryEntity).insert(entries.map((e) => ({ ...e, orderId: order.id, currency: order.currency, kind: "dispute_refund", providerEventId: providerRefund.id })));
-        if (before + amountMinor === order.totalMinor) await manager.getRepository(OrderEntity).update({ id: order.id }, { status: "refunded", refundedAt: at, refundId: providerRefund.id });
-        await recordAudit(manager, admin, { action: "order.dispute_refund", targetKind: "order", targetId: order.id, before: { refundedMinor: before }, after: { refundedMinor: before + amountMinor, refundId: providerRefund.id, shares }, reason }, at);
+        await manager.getRepository(LedgerEntryEntity).insert(
+          entries.map((e) => ({
+            ...e,
+            orderId: order.id,
+            currency: order.currency,
+            kind: "dispute_refund",
+            providerEventId: providerRefund.id,
+          })),
+        );
+        if (before + amountMinor === order.totalMinor)
+          await manager
+            .getRepository(OrderEntity)
+            .update({ id: order.id }, { status: "refunded", refundedAt: at, refundId: providerRefund.id });
+        await recordAudit(
+          manager,
+          admin,
+          {
+            action: "order.dispute_refund",
+            targetKind: "order",
+            targetId: order.id,
+            before: { refundedMinor: before },
+            after: { refundedMinor: before + amountMinor, refundId: providerRefund.id, shares },
+            reason,
+          },
+          at,
+        );
       });
       try {
         const people = await dataSource.getRepository(AccountEntity).findBy({ id: In([order.buyerId, order.sawyerId]) });
         for (const person of people) {
-          await deps.mailer.send(disputeRefundMail(person, person.id === order.buyerId ? "buyer" : "sawyer", order, amountMinor, reason, `${config.publicUrl}/orders/${order.id}`));
+          await deps.mailer.send(
+            disputeRefundMail(
+              person,
+              person.id === order.buyerId ? "buyer" : "sawyer",
+              order,
+              amountMinor,
+              reason,
+              `${config.publicUrl}/orders/${order.id}`,
+            ),
+          );
         }
       } catch (error) {
         deps.log.error({ err: error, orderId }, "could not send the dispute refund e-mails");

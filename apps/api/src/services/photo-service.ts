@@ -4,7 +4,17 @@ import type { DataSource, EntityManager } from "typeorm";
 import { ListingEntity, ListingPhotoEntity, ListingSlabEntity, LogPhotoEntity, YardLogEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import type { PhotoStorage } from "../integrations/storage.ts";
-import { deleteObjects, displayKey, getObjectBytes, inspectPhoto, logPhotoKey, originalKey, putObject, renderDisplaySizes, type DisplaySizeName } from "../photos/index.ts";
+import {
+  deleteObjects,
+  displayKey,
+  getObjectBytes,
+  inspectPhoto,
+  logPhotoKey,
+  originalKey,
+  putObject,
+  renderDisplaySizes,
+  type DisplaySizeName,
+} from "../photos/index.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { photoView } from "./listing-service.ts";
 
@@ -27,7 +37,8 @@ export function createPhotoService(deps: { dataSource: DataSource; storage: Phot
     const listing = await dataSource.getRepository(ListingEntity).findOneBy({ id: listingId });
     if (!listing) throw new NotFound("No listing with that id.");
     if (listing.sawyerId !== sawyer.accountId) throw new Forbidden("That listing belongs to another yard.");
-    if (!PHOTO_EDITABLE.includes(listing.status)) throw new Conflict("Photos can change only while the listing is a draft or was sent back.", "listing_not_editable");
+    if (!PHOTO_EDITABLE.includes(listing.status))
+      throw new Conflict("Photos can change only while the listing is a draft or was sent back.", "listing_not_editable");
     return listing;
   }
 
@@ -38,14 +49,19 @@ export function createPhotoService(deps: { dataSource: DataSource; storage: Phot
     return photo;
   }
 
-  const keysOf = (listingId: string, photoId: string) => [originalKey(listingId, photoId), displayKey(listingId, photoId, "small"), displayKey(listingId, photoId, "large")];
+  const keysOf = (listingId: string, photoId: string) => [
+    originalKey(listingId, photoId),
+    displayKey(listingId, photoId, "small"),
+    displayKey(listingId, photoId, "large"),
+  ];
 
   return {
     async upload(actor: Actor, listingId: string, bytes: Buffer, altText: string): Promise<ListingPhoto> {
       const listing = await editableListing(actor, listingId);
       if (altText.length > 300) throw new Invalid("Keep the description under 300 characters.", { altText: "At most 300 characters." });
       const already = await dataSource.getRepository(ListingPhotoEntity).countBy({ listingId });
-      if (already >= MAX_PHOTOS_PER_LISTING) throw new Conflict(`A listing holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
+      if (already >= MAX_PHOTOS_PER_LISTING)
+        throw new Conflict(`A listing holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
 
       const inspection = await inspectPhoto(bytes);
       const { sizes } = await renderDisplaySizes(bytes);
@@ -65,7 +81,8 @@ export function createPhotoService(deps: { dataSource: DataSource; storage: Phot
           // Lock the listing row so two uploads at once cannot pass the limit or share a position.
           await manager.getRepository(ListingEntity).findOne({ where: { id: listing.id }, lock: { mode: "pessimistic_write" } });
           const photos = await manager.getRepository(ListingPhotoEntity).find({ where: { listingId: listing.id } });
-          if (photos.length >= MAX_PHOTOS_PER_LISTING) throw new Conflict(`A listing holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
+          if (photos.length >= MAX_PHOTOS_PER_LISTING)
+            throw new Conflict(`A listing holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
           const entity = manager.getRepository(ListingPhotoEntity).create({
             id: photoId,
             listingId: listing.id,
@@ -134,14 +151,26 @@ export type PhotoService = ReturnType<typeof createPhotoService>;
  * Stores a photo for a listing without the request checks (the seed's drawn demo photos): the
  * same pipeline — inspected, resized to WebP without metadata, original kept private.
  */
-export async function storeSeedPhoto(manager: EntityManager, storage: PhotoStorage, listingId: string, position: number, bytes: Buffer, altText: string): Promise<void> {
+export async function storeSeedPhoto(
+  manager: EntityManager,
+  storage: PhotoStorage,
+  listingId: string,
+  position: number,
+  bytes: Buffer,
+  altText: string,
+): Promise<void> {
   const inspection = await inspectPhoto(bytes);
   const { sizes } = await renderDisplaySizes(bytes);
   const photoId = randomUUID();
   await putObject(storage.client, storage.bucket, originalKey(listingId, photoId), bytes, `image/${inspection.format}`, { private: true });
-  for (const size of sizes) await putObject(storage.client, storage.bucket, displayKey(listingId, photoId, size.name), size.bytes, size.contentType, { private: false });
+  for (const size of sizes)
+    await putObject(storage.client, storage.bucket, displayKey(listingId, photoId, size.name), size.bytes, size.contentType, {
+      private: false,
+    });
   const large = sizes.find((s) => s.name === "large") ?? sizes[0]!;
-  await manager.getRepository(ListingPhotoEntity).insert({ id: photoId, listingId, position, altText, width: large.width, height: large.height, originalFormat: inspection.format });
+  await manager
+    .getRepository(ListingPhotoEntity)
+    .insert({ id: photoId, listingId, position, altText, width: large.width, height: large.height, originalFormat: inspection.format });
 }
 
 /** Listing states that make a log's photos public (its story is shown on the slab page). */
@@ -162,7 +191,11 @@ export function logPhotoView(photo: LogPhotoEntity): ListingPhoto {
 /** Photos of logs: the sawyer's own, through the same pipeline as listing photos. */
 export function createLogPhotoService(deps: { dataSource: DataSource; storage: PhotoStorage }) {
   const { dataSource, storage } = deps;
-  const keysOf = (logId: string, photoId: string) => [logPhotoKey(logId, photoId, "original"), logPhotoKey(logId, photoId, "small"), logPhotoKey(logId, photoId, "large")];
+  const keysOf = (logId: string, photoId: string) => [
+    logPhotoKey(logId, photoId, "original"),
+    logPhotoKey(logId, photoId, "small"),
+    logPhotoKey(logId, photoId, "large"),
+  ];
 
   async function ownLog(actor: Actor, logId: string) {
     const sawyer = requireRole(actor, "sawyer");
@@ -201,7 +234,8 @@ export function createLogPhotoService(deps: { dataSource: DataSource; storage: P
         const photo = await dataSource.transaction(async (manager) => {
           await manager.getRepository(YardLogEntity).findOne({ where: { id: log.id }, lock: { mode: "pessimistic_write" } });
           const photos = await manager.getRepository(LogPhotoEntity).find({ where: { logId: log.id } });
-          if (photos.length >= MAX_PHOTOS_PER_LISTING) throw new Conflict(`A log holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
+          if (photos.length >= MAX_PHOTOS_PER_LISTING)
+            throw new Conflict(`A log holds at most ${MAX_PHOTOS_PER_LISTING} photos.`, "too_many_photos");
           const entity = manager.getRepository(LogPhotoEntity).create({
             id: photoId,
             logId: log.id,

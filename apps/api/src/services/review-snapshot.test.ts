@@ -37,7 +37,12 @@ describe("review snapshot and changes", () => {
   });
 
   it("names each changed field with its old and new text, in listing order", () => {
-    const after = { ...listing, rateMinor: 85_000, freight: true, slabs: [{ ...slab, lastMoisturePct: 7, widthStationsMm: [600, 590] }] } as unknown as Listing;
+    const after = {
+      ...listing,
+      rateMinor: 85_000,
+      freight: true,
+      slabs: [{ ...slab, lastMoisturePct: 7, widthStationsMm: [600, 590] }],
+    } as unknown as Listing;
     expect(changesBetween(snapshotOf(listing), snapshotOf(after))).toEqual([
       { field: "price", label: "Price", before: "fixed: 900.00 USD", after: "fixed: 850.00 USD" },
       { field: "freight", label: "Freight", before: "no", after: "yes" },
@@ -47,11 +52,24 @@ describe("review snapshot and changes", () => {
   });
 
   it("a photo added or a slab removed from a set shows up", () => {
-    const set = { ...listing, setKind: "sequential", slabs: [slab, { ...slab, id: "22222222-bbbb-4bbb-8bbb-222222222222" }] } as unknown as Listing;
-    const smaller = { ...set, slabs: [slab], photos: [...listing.photos, { id: "bbbbbbbb-0000-4000-8000-000000000002" }] } as unknown as Listing;
+    const set = {
+      ...listing,
+      setKind: "sequential",
+      slabs: [slab, { ...slab, id: "22222222-bbbb-4bbb-8bbb-222222222222" }],
+    } as unknown as Listing;
+    const smaller = {
+      ...set,
+      slabs: [slab],
+      photos: [...listing.photos, { id: "bbbbbbbb-0000-4000-8000-000000000002" }],
+    } as unknown as Listing;
     const changes = changesBetween(snapshotOf(set), snapshotOf(smaller));
     expect(changes.map((c) => c.field)).toContain("photos");
-    expect(changes.find((c) => c.field === "photoCount")).toEqual({ field: "photoCount", label: "Number of photos", before: "1", after: "2" });
+    expect(changes.find((c) => c.field === "photoCount")).toEqual({
+      field: "photoCount",
+      label: "Number of photos",
+      before: "1",
+      after: "2",
+    });
     expect(changes.filter((c) => c.field.startsWith("slabs.1.")).every((c) => c.after === "—")).toBe(true);
   });
 });

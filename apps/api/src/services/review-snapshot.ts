@@ -35,7 +35,11 @@ export function snapshotOf(listing: Listing): ReviewSnapshot {
     add("features", "features", list(slab.features));
     add("defects", "defects", list(slab.defects));
     add("drying", "drying", slab.dryingMethod + (slab.kilnCompletedOn ? ` (kiln done ${slab.kilnCompletedOn})` : ""));
-    add("moisture", "moisture", slab.lastMoisturePct === null ? "no reading" : `${slab.lastMoisturePct} %${slab.lastReadOn ? ` on ${slab.lastReadOn}` : ""}`);
+    add(
+      "moisture",
+      "moisture",
+      slab.lastMoisturePct === null ? "no reading" : `${slab.lastMoisturePct} %${slab.lastReadOn ? ` on ${slab.lastReadOn}` : ""}`,
+    );
     add("notes", "notes", slab.notes);
   });
   return snapshot;

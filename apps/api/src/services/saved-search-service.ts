@@ -11,25 +11,28 @@ import { requireRole, type Actor } from "./actor.ts";
 import type { CatalogueService } from "./catalogue-service.ts";
 
 /** At most one alert e-mail per saved search in this window. */
-export const ALERT_INTERVAL_MS = 24 * 3600_000;
+const ALERT_INTERVAL_MS = 24 * 3600_000;
 /** Enough for anyone; keeps the per-listing matching work bounded. */
-export const MAX_SAVED_SEARCHES = 50;
+const MAX_SAVED_SEARCHES = 50;
 
 const QUERY_KEYS = Object.keys(catalogueQuerySchema.shape).filter((key) => !(savedSearchIgnoredKeys as readonly string[]).includes(key));
-const prefixed = (fields: Record<string, string> | undefined) => Object.fromEntries(Object.entries(fields ?? {}).map(([key, message]) => [`query.${key}`, message]));
+const prefixed = (fields: Record<string, string> | undefined) =>
+  Object.fromEntries(Object.entries(fields ?? {}).map(([key, message]) => [`query.${key}`, message]));
 
 /**
  * Reads a catalogue query string as the catalogue would, without its paging parts (cursor, sort,
  * limit) or keys the catalogue does not know; empty values are left out. Returns the parsed
  * query and the normalised text that is stored.
  */
-export function parseSavedQuery(text: string): { parsed: CatalogueQueryParsed; normalised: string } {
+function parseSavedQuery(text: string): { parsed: CatalogueQueryParsed; normalised: string } {
   const given = new URLSearchParams(text.trim().replace(/^\?/, ""));
   const raw: Record<string, string> = {};
   for (const [key, value] of given) if (QUERY_KEYS.includes(key) && value.trim() !== "") raw[key] = value;
   const result = catalogueQuerySchema.safeParse(raw);
   if (!result.success) throw new Invalid("That search has filters that need another look.", prefixed(fieldMessages(result.error)));
-  const normalised = new URLSearchParams(QUERY_KEYS.filter((key) => key in raw).map((key): [string, string] => [key, raw[key]!])).toString();
+  const normalised = new URLSearchParams(
+    QUERY_KEYS.filter((key) => key in raw).map((key): [string, string] => [key, raw[key]!]),
+  ).toString();
   return { parsed: result.data, normalised };
 }
 
@@ -45,7 +48,7 @@ export function unsubscribeToken(secret: string, savedSearchId: string): string 
 }
 
 /** The saved search id of a genuine token, or null when it was changed or is not one of ours. */
-export function savedSearchIdOfToken(secret: string, token: string): string | null {
+function savedSearchIdOfToken(secret: string, token: string): string | null {
   const dot = token.lastIndexOf(".");
   if (dot <= 0) return null;
   const id = token.slice(0, dot);
@@ -111,7 +114,9 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
   }
 
   async function ownSearch(manager: EntityManager, accountId: string, id: string, lock = false): Promise<SavedSearchEntity> {
-    const found = await manager.getRepository(SavedSearchEntity).findOne({ where: { id }, ...(lock ? { lock: { mode: "pessimistic_write" as const } } : {}) });
+    const found = await manager
+      .getRepository(SavedSearchEntity)
+      .findOne({ where: { id }, ...(lock ? { lock: { mode: "pessimistic_write" as const } } : {}) });
     if (!found) throw new NotFound("No saved search with that id.");
     if (found.accountId !== accountId) throw new Forbidden("That saved search belongs to someone else.");
     return found;
@@ -144,10 +149,14 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
    */
   async function sendDueAlert(savedSearchId: string, at: Date): Promise<boolean> {
     return dataSource.transaction(async (manager) => {
-      const search = await manager.getRepository(SavedSearchEntity).findOne({ where: { id: savedSearchId }, lock: { mode: "pessimistic_write" } });
+      const search = await manager
+        .getRepository(SavedSearchEntity)
+        .findOne({ where: { id: savedSearchId }, lock: { mode: "pessimistic_write" } });
       if (!search || !search.alerts) return false;
       if (search.lastAlertAt && at.getTime() - search.lastAlertAt.getTime() < ALERT_INTERVAL_MS) return false;
-      const pending = await manager.getRepository(SavedSearchMatchEntity).find({ where: { savedSearchId, alertedAt: IsNull() }, order: { matchedAt: "ASC", id: "ASC" } });
+      const pending = await manager
+        .getRepository(SavedSearchMatchEntity)
+        .find({ where: { savedSearchId, alertedAt: IsNull() }, order: { matchedAt: "ASC", id: "ASC" } });
       if (pending.length === 0) return false;
       const entries = await manager.getRepository(CatalogueEntryEntity).findBy({ listingId: In(pending.map((m) => m.listingId)) });
       const live = pending.flatMap((match) => entries.filter((entry) => entry.listingId === match.listingId));
@@ -162,7 +171,13 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
           owner.email,
           owner.displayName,
           search.name,
-          live.map((entry) => ({ title: entry.title, priceMinor: entry.priceMinor, currency: entry.currency, town: entry.town, url: `${config.publicUrl}/slabs/${entry.listingId}` })),
+          live.map((entry) => ({
+            title: entry.title,
+            priceMinor: entry.priceMinor,
+            currency: entry.currency,
+            town: entry.town,
+            url: `${config.publicUrl}/slabs/${entry.listingId}`,
+          })),
           `${config.publicUrl}/browse${search.query ? `?${search.query}` : ""}`,
           `${config.publicUrl}${buyerPaths.savedSearchUnsubscribe}?token=${encodeURIComponent(unsubscribeToken(config.sessionSecret, search.id))}`,
         ),
@@ -182,7 +197,9 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
       .select("search.id", "id")
       .where("search.alerts = 1")
       .andWhere("(search.last_alert_at IS NULL OR search.last_alert_at <= :cutoff)", { cutoff: new Date(at.getTime() - ALERT_INTERVAL_MS) })
-      .andWhere("EXISTS (SELECT 1 FROM saved_search_match pending WHERE pending.saved_search_id = search.id AND pending.alerted_at IS NULL)")
+      .andWhere(
+        "EXISTS (SELECT 1 FROM saved_search_match pending WHERE pending.saved_search_id = search.id AND pending.alerted_at IS NULL)",
+      )
       .getRawMany<{ id: string }>();
     let sent = 0;
     for (const { id } of due) {
@@ -212,9 +229,20 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
         // Lock the buyer's row so two parallel saves cannot both pass the limit.
         await manager.getRepository(AccountEntity).findOne({ where: { id: buyer.accountId }, lock: { mode: "pessimistic_write" } });
         if ((await manager.getRepository(SavedSearchEntity).countBy({ accountId: buyer.accountId })) >= MAX_SAVED_SEARCHES) {
-          throw new Conflict(`You can keep up to ${MAX_SAVED_SEARCHES} saved searches. Delete one you no longer use.`, "too_many_saved_searches");
+          throw new Conflict(
+            `You can keep up to ${MAX_SAVED_SEARCHES} saved searches. Delete one you no longer use.`,
+            "too_many_saved_searches",
+          );
         }
-        await manager.getRepository(SavedSearchEntity).insert({ id, accountId: buyer.accountId, name: fields.name, query: normalised, alerts: fields.alerts, lastAlertAt: null, createdAt: now() });
+        await manager.getRepository(SavedSearchEntity).insert({
+          id,
+          accountId: buyer.accountId,
+          name: fields.name,
+          query: normalised,
+          alerts: fields.alerts,
+          lastAlertAt: null,
+          createdAt: now(),
+        });
       });
       return viewOne(await searches().findOneByOrFail({ id }));
     },
@@ -241,7 +269,12 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
     /** The mailed unsubscribe link: no session needed, the signed token is the proof. */
     async unsubscribe(token: string): Promise<{ name: string }> {
       const id = savedSearchIdOfToken(config.sessionSecret, token);
-      if (!id) throw new Invalid("That unsubscribe link is not valid. Open the link from the e-mail exactly as it was sent.", { token: "Invalid link." }, "link_invalid");
+      if (!id)
+        throw new Invalid(
+          "That unsubscribe link is not valid. Open the link from the e-mail exactly as it was sent.",
+          { token: "Invalid link." },
+          "link_invalid",
+        );
       return dataSource.transaction(async (manager) => {
         const search = await manager.getRepository(SavedSearchEntity).findOne({ where: { id }, lock: { mode: "pessimistic_write" } });
         if (!search) throw new NotFound("That saved search was deleted, so no more alerts come from it.");

@@ -10,10 +10,10 @@ import { recordAudit } from "./audit-log.ts";
 import { DEFAULT_FEE_SETTINGS } from "./marketplace-settings.ts";
 
 /** Days a sawyer's money is held after hand-over before a payout (common practice for marketplaces). */
-export const DEFAULT_HOLD_DAYS = 7;
+const DEFAULT_HOLD_DAYS = 7;
 
 /** The defaults when an admin has set nothing: the fee constants and the env values of before. */
-export function defaultMarketplaceSettings(config: Pick<AppConfig, "checkout">): MarketplaceSettings {
+function defaultMarketplaceSettings(config: Pick<AppConfig, "checkout">): MarketplaceSettings {
   return {
     platformFeeBps: DEFAULT_FEE_SETTINGS.platformFeeBps,
     processingFeeBps: DEFAULT_FEE_SETTINGS.processingFeeBps,
@@ -32,7 +32,12 @@ const FRESH_FOR_MS = 5_000;
  * the way in and out; a row that no longer passes is ignored in favour of the default). Services
  * read a copy kept fresh per request, so their figures stay synchronous.
  */
-export function createSettingsService(deps: { dataSource: DataSource; config: Pick<AppConfig, "checkout">; now?: () => Date; log?: { error(o: object, m: string): void } }) {
+export function createSettingsService(deps: {
+  dataSource: DataSource;
+  config: Pick<AppConfig, "checkout">;
+  now?: () => Date;
+  log?: { error(o: object, m: string): void };
+}) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
   const defaults = defaultMarketplaceSettings(deps.config);
@@ -69,7 +74,11 @@ export function createSettingsService(deps: { dataSource: DataSource; config: Pi
       return current;
     },
     fees(): FeeSettings {
-      return { platformFeeBps: current.platformFeeBps, processingFeeBps: current.processingFeeBps, processingFixedMinor: current.processingFixedMinor };
+      return {
+        platformFeeBps: current.platformFeeBps,
+        processingFeeBps: current.processingFeeBps,
+        processingFixedMinor: current.processingFixedMinor,
+      };
     },
     /** The `checkout` part of the config, as the checkout service reads it. */
     checkoutConfig(): AppConfig["checkout"] {
@@ -92,15 +101,30 @@ export function createSettingsService(deps: { dataSource: DataSource; config: Pi
       const before = { ...current };
       const after = { ...current, ...changes };
       // Processing fees above the platform's cut leave nothing sensible; the checks stay in slab-math's feeBreakdown too.
-      if (after.platformFeeBps + after.processingFeeBps >= 10_000) throw new Invalid("Fees together must stay under 100 %.", { platformFeeBps: "Fees together must stay under 100 %." });
+      if (after.platformFeeBps + after.processingFeeBps >= 10_000)
+        throw new Invalid("Fees together must stay under 100 %.", { platformFeeBps: "Fees together must stay under 100 %." });
       const at = now();
       await dataSource.transaction(async (manager) => {
         for (const key of keys) {
-          await manager.getRepository(MarketplaceSettingEntity).save({ key, value: changes[key], updatedBy: admin.accountId, updatedAt: at });
+          await manager
+            .getRepository(MarketplaceSettingEntity)
+            .save({ key, value: changes[key], updatedBy: admin.accountId, updatedAt: at });
         }
         const changedBefore = Object.fromEntries(keys.map((k) => [k, before[k]]));
         const changedAfter = Object.fromEntries(keys.map((k) => [k, after[k]]));
-        await recordAudit(manager, admin, { action: "settings.update", targetKind: "settings", targetId: "marketplace", before: changedBefore, after: changedAfter, reason }, at);
+        await recordAudit(
+          manager,
+          admin,
+          {
+            action: "settings.update",
+            targetKind: "settings",
+            targetId: "marketplace",
+            before: changedBefore,
+            after: changedAfter,
+            reason,
+          },
+          at,
+        );
       });
       await load();
       return { settings: current, defaults, changedKeys };

@@ -1,28 +1,19 @@
 import { randomUUID } from "node:crypto";
-import type {
-  Log,
-  LogInput,
-  LogUpdate,
-  MoistureReading,
-  MoistureReadingInput,
-  Slab,
-  SlabInput,
-  SlabUpdate,
-} from "@grainyard/contracts";
+import type { Log, LogInput, LogUpdate, MoistureReading, MoistureReadingInput, Slab, SlabInput, SlabUpdate } from "@grainyard/contracts";
 import { logInputSchema, slabInputSchema } from "@grainyard/contracts";
 import { findSpeciesBySlug } from "@grainyard/slab-math";
 import { In, Not, type DataSource, type EntityManager } from "typeorm";
-import { ListingEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
+import { type ListingEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { computeSlabFigures, dryingStateOf, projectionView, slabFiguresView } from "./figures.ts";
 
 /** Listing states in which a slab's measurements are locked (a reviewer or buyer relies on them). */
-export const LOCKING_STATUSES = ["in_review", "live", "reserved", "sold"] as const;
+const LOCKING_STATUSES = ["in_review", "live", "reserved", "sold"] as const;
 /** Listing states that hold a slab (it cannot be offered in a second listing). */
 export const HOLDING_STATUSES = ["draft", "in_review", "sent_back", "live", "reserved", "sold"] as const;
 
-export function requireKnownSpecies(slug: string): void {
+function requireKnownSpecies(slug: string): void {
   if (!findSpeciesBySlug(slug)) throw new Invalid("Choose the species from the list.", { speciesSlug: "Unknown species." });
 }
 
@@ -73,7 +64,13 @@ export function toSlab(entity: SlabEntity, listingId: string | null): Slab {
 }
 
 function toReading(entity: MoistureReadingEntity): MoistureReading {
-  return { id: entity.id, slabId: entity.slabId, readOn: entity.readOn, moistureContentPct: entity.moistureContentPct, method: entity.method };
+  return {
+    id: entity.id,
+    slabId: entity.slabId,
+    readOn: entity.readOn,
+    moistureContentPct: entity.moistureContentPct,
+    method: entity.method,
+  };
 }
 
 export interface YardServiceDependencies {
@@ -93,7 +90,9 @@ export function createYardService(deps: YardServiceDependencies) {
   }
 
   async function ownSlab(manager: EntityManager, sawyerId: string, slabId: string, lock = false): Promise<SlabEntity> {
-    const slab = await manager.getRepository(SlabEntity).findOne({ where: { id: slabId }, ...(lock ? { lock: { mode: "pessimistic_write" as const } } : {}) });
+    const slab = await manager
+      .getRepository(SlabEntity)
+      .findOne({ where: { id: slabId }, ...(lock ? { lock: { mode: "pessimistic_write" as const } } : {}) });
     if (!slab) throw new NotFound("No slab with that id in your yard.");
     if (slab.sawyerId !== sawyerId) throw new Forbidden("That slab belongs to another yard.");
     return slab;
@@ -108,7 +107,12 @@ export function createYardService(deps: YardServiceDependencies) {
     return map;
   }
 
-  async function checkLogPlacement(manager: EntityManager, sawyerId: string, slab: { logId: string | null; sequenceInLog: number | null }, exceptSlabId?: string) {
+  async function checkLogPlacement(
+    manager: EntityManager,
+    sawyerId: string,
+    slab: { logId: string | null; sequenceInLog: number | null },
+    exceptSlabId?: string,
+  ) {
     if (!slab.logId) return;
     await ownLog(manager, sawyerId, slab.logId);
     if (slab.sequenceInLog == null) return;
@@ -117,7 +121,10 @@ export function createYardService(deps: YardServiceDependencies) {
       sequenceInLog: slab.sequenceInLog,
       ...(exceptSlabId ? { id: Not(exceptSlabId) } : {}),
     });
-    if (clash) throw new Invalid(`Slab number ${slab.sequenceInLog} of this log is already recorded.`, { sequenceInLog: "That number is taken in this log." });
+    if (clash)
+      throw new Invalid(`Slab number ${slab.sequenceInLog} of this log is already recorded.`, {
+        sequenceInLog: "That number is taken in this log.",
+      });
   }
 
   /** Recomputes a slab's figures (after its measurements or readings change) and tells listings. */
@@ -128,21 +135,28 @@ export function createYardService(deps: YardServiceDependencies) {
   }
 
   async function refreshLastReading(manager: EntityManager, slab: SlabEntity): Promise<void> {
-    const last = await manager.getRepository(MoistureReadingEntity).findOne({ where: { slabId: slab.id }, order: { readOn: "DESC", createdAt: "DESC" } });
+    const last = await manager
+      .getRepository(MoistureReadingEntity)
+      .findOne({ where: { slabId: slab.id }, order: { readOn: "DESC", createdAt: "DESC" } });
     slab.lastMoisturePct = last?.moistureContentPct ?? null;
     slab.lastReadOn = last?.readOn ?? null;
     await refreshFigures(manager, slab);
   }
 
   async function slabViews(manager: EntityManager, slabs: SlabEntity[]): Promise<Slab[]> {
-    const holding = await holdingListings(manager, slabs.map((s) => s.id));
+    const holding = await holdingListings(
+      manager,
+      slabs.map((s) => s.id),
+    );
     return slabs.map((s) => toSlab(s, holding.get(s.id)?.id ?? null));
   }
 
   return {
     async listLogs(actor: Actor): Promise<Log[]> {
       const sawyer = requireRole(actor, "sawyer");
-      const logs = await dataSource.getRepository(YardLogEntity).find({ where: { sawyerId: sawyer.accountId }, order: { createdAt: "DESC" } });
+      const logs = await dataSource
+        .getRepository(YardLogEntity)
+        .find({ where: { sawyerId: sawyer.accountId }, order: { createdAt: "DESC" } });
       const counts = await dataSource
         .getRepository(SlabEntity)
         .createQueryBuilder("slab")
@@ -169,7 +183,9 @@ export function createYardService(deps: YardServiceDependencies) {
     async getLog(actor: Actor, logId: string): Promise<{ log: Log; slabs: Slab[] }> {
       const sawyer = requireRole(actor, "sawyer");
       const log = await ownLog(dataSource.manager, sawyer.accountId, logId);
-      const slabs = await dataSource.getRepository(SlabEntity).find({ where: { logId }, order: { sequenceInLog: "ASC", createdAt: "ASC" } });
+      const slabs = await dataSource
+        .getRepository(SlabEntity)
+        .find({ where: { logId }, order: { sequenceInLog: "ASC", createdAt: "ASC" } });
       return { log: toLog(log, slabs.length), slabs: await slabViews(dataSource.manager, slabs) };
     },
 
@@ -178,7 +194,11 @@ export function createYardService(deps: YardServiceDependencies) {
       return dataSource.transaction(async (manager) => {
         const log = await ownLog(manager, sawyer.accountId, logId);
         const merged = logInputSchema.safeParse({ ...toLog(log, 0), ...input });
-        if (!merged.success) throw new Invalid("Some fields need another look.", Object.fromEntries(merged.error.issues.map((i) => [i.path.join("."), i.message])));
+        if (!merged.success)
+          throw new Invalid(
+            "Some fields need another look.",
+            Object.fromEntries(merged.error.issues.map((i) => [i.path.join("."), i.message])),
+          );
         requireKnownSpecies(merged.data.speciesSlug);
         await manager.getRepository(YardLogEntity).update({ id: logId }, merged.data);
         const slabCount = await manager.getRepository(SlabEntity).countBy({ logId });
@@ -198,7 +218,9 @@ export function createYardService(deps: YardServiceDependencies) {
 
     async listSlabs(actor: Actor): Promise<Slab[]> {
       const sawyer = requireRole(actor, "sawyer");
-      const slabs = await dataSource.getRepository(SlabEntity).find({ where: { sawyerId: sawyer.accountId }, order: { createdAt: "DESC" } });
+      const slabs = await dataSource
+        .getRepository(SlabEntity)
+        .find({ where: { sawyerId: sawyer.accountId }, order: { createdAt: "DESC" } });
       return slabViews(dataSource.manager, slabs);
     },
 
@@ -210,7 +232,9 @@ export function createYardService(deps: YardServiceDependencies) {
         await checkLogPlacement(m, sawyer.accountId, parsed);
         const id = randomUUID();
         const figures = computeSlabFigures({ ...parsed, lastMoisturePct: null });
-        await m.getRepository(SlabEntity).insert({ id, sawyerId: sawyer.accountId, ...parsed, ...figures, lastMoisturePct: null, lastReadOn: null });
+        await m
+          .getRepository(SlabEntity)
+          .insert({ id, sawyerId: sawyer.accountId, ...parsed, ...figures, lastMoisturePct: null, lastReadOn: null });
         return toSlab(await m.getRepository(SlabEntity).findOneByOrFail({ id }), null);
       };
       return manager.queryRunner?.isTransactionActive ? run(manager) : dataSource.transaction(run);
@@ -219,7 +243,9 @@ export function createYardService(deps: YardServiceDependencies) {
     async getSlab(actor: Actor, slabId: string) {
       const sawyer = requireRole(actor, "sawyer");
       const slab = await ownSlab(dataSource.manager, sawyer.accountId, slabId);
-      const readings = await dataSource.getRepository(MoistureReadingEntity).find({ where: { slabId }, order: { readOn: "ASC", createdAt: "ASC" } });
+      const readings = await dataSource
+        .getRepository(MoistureReadingEntity)
+        .find({ where: { slabId }, order: { readOn: "ASC", createdAt: "ASC" } });
       const [view] = await slabViews(dataSource.manager, [slab]);
       return { slab: view!, readings: readings.map(toReading), projection: projectionView(readings) };
     },
@@ -230,10 +256,17 @@ export function createYardService(deps: YardServiceDependencies) {
         const slab = await ownSlab(manager, sawyer.accountId, slabId, true);
         const holding = (await holdingListings(manager, [slabId])).get(slabId);
         if (holding && (LOCKING_STATUSES as readonly string[]).includes(holding.status)) {
-          throw new Conflict("This slab is in a listing that is under review or live. Withdraw the listing to change its measurements.", "slab_locked");
+          throw new Conflict(
+            "This slab is in a listing that is under review or live. Withdraw the listing to change its measurements.",
+            "slab_locked",
+          );
         }
         const merged = slabInputSchema.safeParse({ ...toSlab(slab, null), ...input });
-        if (!merged.success) throw new Invalid("Some fields need another look.", Object.fromEntries(merged.error.issues.map((i) => [i.path.join("."), i.message])));
+        if (!merged.success)
+          throw new Invalid(
+            "Some fields need another look.",
+            Object.fromEntries(merged.error.issues.map((i) => [i.path.join("."), i.message])),
+          );
         requireKnownSpecies(merged.data.speciesSlug);
         await checkLogPlacement(manager, sawyer.accountId, merged.data, slabId);
         Object.assign(slab, merged.data);

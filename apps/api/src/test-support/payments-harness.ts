@@ -23,7 +23,9 @@ export async function until(check: () => Promise<boolean>, ms = 10_000): Promise
 
 /** Double entry: every currency's ledger entries sum to zero. */
 export async function expectLedgerBalanced(dataSource: DataSource): Promise<void> {
-  const rows = (await dataSource.query("SELECT currency, SUM(amount_minor) AS total FROM ledger_entry GROUP BY currency")) as { total: string }[];
+  const rows = (await dataSource.query("SELECT currency, SUM(amount_minor) AS total FROM ledger_entry GROUP BY currency")) as {
+    total: string;
+  }[];
   for (const row of rows) expect(Number(row.total)).toBe(0);
 }
 
@@ -39,9 +41,18 @@ export interface TestPaymentsFake {
 }
 
 /** A payments fake on a free loopback port, with its state in a temporary folder. */
-export async function startPaymentsFake(options: { secretKey: string; webhookSecret: string; retryBaseMs?: number; maxAttempts?: number }): Promise<TestPaymentsFake> {
+export async function startPaymentsFake(options: {
+  secretKey: string;
+  webhookSecret: string;
+  retryBaseMs?: number;
+  maxAttempts?: number;
+}): Promise<TestPaymentsFake> {
   const dir = mkdtempSync(join(tmpdir(), "payments-fake-"));
-  const fake = createPaymentsFakeApp({ stateFile: join(dir, "state.json"), secretKey: options.secretKey, webhook: { secret: options.webhookSecret, retryBaseMs: options.retryBaseMs ?? 25, maxAttempts: options.maxAttempts ?? 6 } });
+  const fake = createPaymentsFakeApp({
+    stateFile: join(dir, "state.json"),
+    secretKey: options.secretKey,
+    webhook: { secret: options.webhookSecret, retryBaseMs: options.retryBaseMs ?? 25, maxAttempts: options.maxAttempts ?? 6 },
+  });
   const server = fake.listen(0, "127.0.0.1");
   await new Promise((r) => server.once("listening", r));
   const port = (server.address() as AddressInfo).port;
@@ -50,7 +61,13 @@ export async function startPaymentsFake(options: { secretKey: string; webhookSec
     server,
     port,
     base: `http://127.0.0.1:${port}`,
-    environment: { PAYMENTS_HOST: "127.0.0.1", PAYMENTS_PORT: String(port), PAYMENTS_PROTOCOL: "http", PAYMENTS_SECRET_KEY: options.secretKey, PAYMENTS_WEBHOOK_SECRET: options.webhookSecret },
+    environment: {
+      PAYMENTS_HOST: "127.0.0.1",
+      PAYMENTS_PORT: String(port),
+      PAYMENTS_PROTOCOL: "http",
+      PAYMENTS_SECRET_KEY: options.secretKey,
+      PAYMENTS_WEBHOOK_SECRET: options.webhookSecret,
+    },
     async close() {
       fake.webhooks.stop();
       await new Promise((r) => handle.server.close(r));

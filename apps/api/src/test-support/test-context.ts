@@ -39,7 +39,12 @@ export async function createTestContext(options: { environment?: Record<string, 
   const environment = { ...stackEnvironment(), ...options.environment };
   const database = `grainyard_t_${randomBytes(5).toString("hex")}`;
   const config: AppConfig = loadConfig({ ...environment, DATABASE_NAME: database });
-  const server = await mysql.createConnection({ host: config.database.host, port: config.database.port, user: config.database.user, password: config.database.password });
+  const server = await mysql.createConnection({
+    host: config.database.host,
+    port: config.database.port,
+    user: config.database.user,
+    password: config.database.password,
+  });
   await server.query(`CREATE DATABASE \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
   await server.end();
 

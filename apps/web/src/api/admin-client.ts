@@ -27,7 +27,7 @@ import {
 } from "@grainyard/contracts";
 import { api, envelope, type ApiClient, type ResponseParser } from "./client.ts";
 
-export function createAdminApi(client: ApiClient = api) {
+function createAdminApi(client: ApiClient = api) {
   const { request } = client;
   const listingEnvelope = listingEnvelopeSchema as ResponseParser<{ listing: Listing }>;
   return {
@@ -44,9 +44,16 @@ export function createAdminApi(client: ApiClient = api) {
       return `${adminPaths.auditCsv}${params.size ? `?${params}` : ""}`;
     },
     listReports: (status: string | undefined, signal?: AbortSignal): Promise<{ reports: Report[] }> =>
-      request("GET", adminPaths.adminReports, { query: { status }, schema: reportListSchema as ResponseParser<{ reports: Report[] }>, signal }),
+      request("GET", adminPaths.adminReports, {
+        query: { status },
+        schema: reportListSchema as ResponseParser<{ reports: Report[] }>,
+        signal,
+      }),
     resolveReport: (reportId: string, input: ReportResolveInput): Promise<{ report: Report }> =>
-      request("POST", adminPaths.adminReportResolve(reportId), { body: input, schema: reportEnvelopeSchema as ResponseParser<{ report: Report }> }),
+      request("POST", adminPaths.adminReportResolve(reportId), {
+        body: input,
+        schema: reportEnvelopeSchema as ResponseParser<{ report: Report }>,
+      }),
     searchUsers: (filter: AdminUserSearchInput, signal?: AbortSignal): Promise<{ users: AdminUser[] }> =>
       request("GET", adminPaths.users, {
         query: { query: filter.query?.trim() || undefined, role: filter.role, suspended: filter.suspended },
@@ -54,13 +61,22 @@ export function createAdminApi(client: ApiClient = api) {
         signal,
       }),
     suspendUser: (accountId: string, reason: string): Promise<{ user: AdminUser }> =>
-      request("POST", adminPaths.userSuspend(accountId), { body: { reason }, schema: adminUserEnvelopeSchema as ResponseParser<{ user: AdminUser }> }),
+      request("POST", adminPaths.userSuspend(accountId), {
+        body: { reason },
+        schema: adminUserEnvelopeSchema as ResponseParser<{ user: AdminUser }>,
+      }),
     restoreUser: (accountId: string, reason: string): Promise<{ user: AdminUser }> =>
-      request("POST", adminPaths.userRestore(accountId), { body: { reason }, schema: adminUserEnvelopeSchema as ResponseParser<{ user: AdminUser }> }),
+      request("POST", adminPaths.userRestore(accountId), {
+        body: { reason },
+        schema: adminUserEnvelopeSchema as ResponseParser<{ user: AdminUser }>,
+      }),
     getSettings: (signal?: AbortSignal): Promise<MarketplaceSettingsView> =>
       request("GET", adminPaths.settings, { schema: marketplaceSettingsViewSchema as ResponseParser<MarketplaceSettingsView>, signal }),
     updateSettings: (input: MarketplaceSettingsUpdate): Promise<MarketplaceSettingsView> =>
-      request("PATCH", adminPaths.settings, { body: input, schema: marketplaceSettingsViewSchema as ResponseParser<MarketplaceSettingsView> }),
+      request("PATCH", adminPaths.settings, {
+        body: input,
+        schema: marketplaceSettingsViewSchema as ResponseParser<MarketplaceSettingsView>,
+      }),
     getDashboard: (signal?: AbortSignal): Promise<{ dashboard: Dashboard }> =>
       request("GET", adminPaths.dashboard, { schema: envelope("dashboard", dashboardSchema as ResponseParser<Dashboard>), signal }),
   };

@@ -104,9 +104,7 @@ describe("api client: errors", () => {
         },
       }),
     );
-    const error = await caught(
-      client.signUp({ role: "buyer", email: "a@b.example", password: "password123", displayName: "Ada" }),
-    );
+    const error = await caught(client.signUp({ role: "buyer", email: "a@b.example", password: "password123", displayName: "Ada" }));
     expect(error.status).toBe(422);
     expect(error.code).toBe("invalid_input");
     expect(error.message).toBe("Check the highlighted fields.");

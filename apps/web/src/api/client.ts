@@ -86,49 +86,16 @@ import {
   type YardProfileUpdateInput,
 } from "@grainyard/contracts";
 
-/** Codes the client itself produces when no API answer could be read. */
-export const clientErrorCodes = {
-  offline: "offline",
-  unavailable: "unavailable",
-  unexpectedResponse: "unexpected_response",
-} as const;
+import {
+  ApiRequestError,
+  clientErrorCodes,
+  OFFLINE_MESSAGE,
+  toApiRequestError,
+  UNAVAILABLE_MESSAGE,
+  UNEXPECTED_MESSAGE,
+} from "./errors.ts";
 
-export const OFFLINE_MESSAGE = "You seem to be offline. Check your connection and try again.";
-export const UNAVAILABLE_MESSAGE = "Grainyard can't be reached right now. Please try again in a moment.";
-const UNEXPECTED_MESSAGE = "The server sent an answer we did not understand. Please try again.";
-
-export class ApiRequestError extends Error {
-  readonly status: number;
-  readonly code: string;
-  readonly fields: Record<string, string>;
-  /** The whole `error` object of the answer, for codes that carry more (e.g. CSV row errors). */
-  readonly detail: unknown;
-
-  constructor(status: number, code: string, message: string, fields: Record<string, string> = {}, detail: unknown = undefined) {
-    super(message);
-    this.name = "ApiRequestError";
-    this.status = status;
-    this.code = code;
-    this.fields = fields;
-    this.detail = detail;
-  }
-
-  /** True when no answer came back at all (no network, or the server is down). */
-  get isOffline(): boolean {
-    return this.code === clientErrorCodes.offline;
-  }
-
-  get hasFieldMessages(): boolean {
-    return Object.keys(this.fields).length > 0;
-  }
-}
-
-/** Turns anything thrown into an ApiRequestError so views can always show a message. */
-export function toApiRequestError(error: unknown): ApiRequestError {
-  if (error instanceof ApiRequestError) return error;
-  const message = error instanceof Error && error.message ? error.message : UNEXPECTED_MESSAGE;
-  return new ApiRequestError(0, clientErrorCodes.unexpectedResponse, message);
-}
+export { ApiRequestError, clientErrorCodes, OFFLINE_MESSAGE, toApiRequestError };
 
 const MUTATING_METHODS = new Set(["POST", "PATCH", "PUT", "DELETE"]);
 
@@ -213,7 +180,7 @@ export class CsvImportError extends ApiRequestError {
 }
 
 /** Reads `rows` from a csv_rows_invalid answer (rows that do not match the contract are left out). */
-export function csvRowsFrom(error: ApiRequestError): CsvRowError[] {
+function csvRowsFrom(error: ApiRequestError): CsvRowError[] {
   const rows = (error.detail as { rows?: unknown } | undefined)?.rows;
   if (!Array.isArray(rows)) return [];
   return rows.flatMap((row) => {
@@ -223,7 +190,7 @@ export function csvRowsFrom(error: ApiRequestError): CsvRowError[] {
 }
 
 /** Progress of one upload, 0–1. */
-export type UploadProgress = (fraction: number) => void;
+type UploadProgress = (fraction: number) => void;
 
 export interface PhotoUploadOptions {
   altText?: string;
@@ -377,8 +344,7 @@ export function createApiClient(options: ApiClientOptions = {}) {
     },
 
     getSession: (): Promise<SessionState> => request("GET", apiPaths.session, { schema: sessionSchema }),
-    signIn: (input: SignInInput): Promise<SessionState> =>
-      request("POST", apiPaths.session, { body: input, schema: sessionSchema }),
+    signIn: (input: SignInInput): Promise<SessionState> => request("POST", apiPaths.session, { body: input, schema: sessionSchema }),
     signOut: (): Promise<SessionState> => request("DELETE", apiPaths.session, { schema: sessionSchema }),
 
     signUp: (input: SignUpInput): Promise<{ account: Account }> =>
@@ -389,8 +355,7 @@ export function createApiClient(options: ApiClientOptions = {}) {
 
     requestPasswordReset: (input: PasswordResetRequestInput): Promise<void> =>
       request("POST", apiPaths.passwordResetRequests, { body: input }),
-    resetPassword: (input: PasswordResetInput): Promise<void> =>
-      request("POST", apiPaths.passwordResets, { body: input }),
+    resetPassword: (input: PasswordResetInput): Promise<void> => request("POST", apiPaths.passwordResets, { body: input }),
 
     getYard: (): Promise<{ account: Account }> => request("GET", apiPaths.yard, { schema: accountEnvelope }),
     updateYard: (sawyerId: string, input: YardProfileUpdateInput): Promise<{ account: Account }> =>
@@ -415,8 +380,7 @@ export function createApiClient(options: ApiClientOptions = {}) {
     listSlabs: (signal?: AbortSignal) => request("GET", yardPaths.slabs, { schema: slabList, signal }),
     createSlab: (input: SlabInput) => request("POST", yardPaths.slabs, { body: input, schema: slabEnvelope }),
     getSlab: (slabId: string, signal?: AbortSignal) => request("GET", yardPaths.slab(slabId), { schema: slabDetail, signal }),
-    updateSlab: (slabId: string, input: SlabUpdate) =>
-      request("PATCH", yardPaths.slab(slabId), { body: input, schema: slabEnvelope }),
+    updateSlab: (slabId: string, input: SlabUpdate) => request("PATCH", yardPaths.slab(slabId), { body: input, schema: slabEnvelope }),
     deleteSlab: (slabId: string): Promise<void> => request("DELETE", yardPaths.slab(slabId)),
     addReading: (slabId: string, input: MoistureReadingInput) =>
       request("POST", yardPaths.slabReadings(slabId), { body: input, schema: readingEnvelope }),
@@ -444,10 +408,8 @@ export function createApiClient(options: ApiClientOptions = {}) {
       request("GET", yardPaths.listing(listingId), { schema: listingEnvelope, signal }),
     updateListing: (listingId: string, input: ListingUpdate) =>
       request("PATCH", yardPaths.listing(listingId), { body: input, schema: listingEnvelope }),
-    submitListing: (listingId: string) =>
-      request("POST", yardPaths.listingSubmit(listingId), { body: {}, schema: listingEnvelope }),
-    withdrawListing: (listingId: string) =>
-      request("POST", yardPaths.listingWithdraw(listingId), { body: {}, schema: listingEnvelope }),
+    submitListing: (listingId: string) => request("POST", yardPaths.listingSubmit(listingId), { body: {}, schema: listingEnvelope }),
+    withdrawListing: (listingId: string) => request("POST", yardPaths.listingWithdraw(listingId), { body: {}, schema: listingEnvelope }),
     uploadListingPhoto: uploadPhoto,
     /** A photo of a log (the tree as felled, the cut ends): same upload, its own address. */
     uploadLogPhoto: (logId: string, file: Blob, opts: PhotoUploadOptions = {}) => uploadPhotoTo(yardPaths.logPhotos(logId), file, opts),
@@ -457,8 +419,7 @@ export function createApiClient(options: ApiClientOptions = {}) {
       request("PATCH", yardPaths.listingPhoto(listingId, photoId), { body: { altText } }),
     setPhotoOrder: (listingId: string, photoIds: string[]): Promise<void> =>
       request("PUT", yardPaths.listingPhotoOrder(listingId), { body: { photoIds } }),
-    deletePhoto: (listingId: string, photoId: string): Promise<void> =>
-      request("DELETE", yardPaths.listingPhoto(listingId, photoId)),
+    deletePhoto: (listingId: string, photoId: string): Promise<void> => request("DELETE", yardPaths.listingPhoto(listingId, photoId)),
 
     // The public catalogue. The query is the URL's own text (mm, minor units), passed as it is.
     searchCatalogue: (query: Record<string, string | undefined>, signal?: AbortSignal): Promise<CatalogueResult> =>
@@ -467,19 +428,26 @@ export function createApiClient(options: ApiClientOptions = {}) {
       request("GET", cataloguePaths.detail(listingId), { schema: catalogueDetail, signal }),
     findPlaces: (query: string, signal?: AbortSignal): Promise<{ places: Place[] }> =>
       request("GET", cataloguePaths.places, { query: { query: query.trim() }, schema: placeList, signal }),
-    getMarketplaceFees: (signal?: AbortSignal): Promise<{ fees: MarketplaceFees }> => request("GET", cataloguePaths.fees, { schema: marketplaceFees, signal }),
+    getMarketplaceFees: (signal?: AbortSignal): Promise<{ fees: MarketplaceFees }> =>
+      request("GET", cataloguePaths.fees, { schema: marketplaceFees, signal }),
 
     // Buying and the steps of an order.
-    getCheckoutQuote: (listingId: string, signal?: AbortSignal) => request("GET", orderPaths.quote(listingId), { schema: checkoutQuote, signal }),
-    checkout: (listingId: string, input: CheckoutInput) => request("POST", orderPaths.checkout(listingId), { body: input, schema: checkoutResult }),
+    getCheckoutQuote: (listingId: string, signal?: AbortSignal) =>
+      request("GET", orderPaths.quote(listingId), { schema: checkoutQuote, signal }),
+    checkout: (listingId: string, input: CheckoutInput) =>
+      request("POST", orderPaths.checkout(listingId), { body: input, schema: checkoutResult }),
     listOrders: (signal?: AbortSignal) => request("GET", orderPaths.orders, { schema: orderList, signal }),
     getOrder: (orderId: string, signal?: AbortSignal) => request("GET", orderPaths.order(orderId), { schema: orderEnvelope, signal }),
-    proposePickupWindows: (orderId: string, input: PickupWindowsInput) => request("POST", orderPaths.pickupWindows(orderId), { body: input, schema: orderEnvelope }),
-    choosePickupWindow: (orderId: string, startsAt: string) => request("POST", orderPaths.pickupChoice(orderId), { body: { startsAt }, schema: orderEnvelope }),
-    markShipped: (orderId: string, input: ShipmentInput) => request("POST", orderPaths.shipment(orderId), { body: input, schema: orderEnvelope }),
+    proposePickupWindows: (orderId: string, input: PickupWindowsInput) =>
+      request("POST", orderPaths.pickupWindows(orderId), { body: input, schema: orderEnvelope }),
+    choosePickupWindow: (orderId: string, startsAt: string) =>
+      request("POST", orderPaths.pickupChoice(orderId), { body: { startsAt }, schema: orderEnvelope }),
+    markShipped: (orderId: string, input: ShipmentInput) =>
+      request("POST", orderPaths.shipment(orderId), { body: input, schema: orderEnvelope }),
     markHandedOver: (orderId: string) => request("POST", orderPaths.handedOver(orderId), { body: {}, schema: orderEnvelope }),
     confirmReceipt: (orderId: string) => request("POST", orderPaths.completion(orderId), { body: {}, schema: orderEnvelope }),
-    cancelOrder: (orderId: string, reason: string) => request("POST", orderPaths.cancellation(orderId), { body: { reason }, schema: orderEnvelope }),
+    cancelOrder: (orderId: string, reason: string) =>
+      request("POST", orderPaths.cancellation(orderId), { body: { reason }, schema: orderEnvelope }),
     // Buyer tools: saved searches (with e-mail alerts), favourites, messages about a listing.
     listSavedSearches: (signal?: AbortSignal) => request("GET", buyerPaths.savedSearches, { schema: savedSearchList, signal }),
     saveSearch: (input: SavedSearchInput) => request("POST", buyerPaths.savedSearches, { body: input, schema: savedSearchEnvelope }),
@@ -498,8 +466,7 @@ export function createApiClient(options: ApiClientOptions = {}) {
 
     // Admin review.
     reviewQueue: (signal?: AbortSignal) => request("GET", yardPaths.reviewQueue, { schema: listingList, signal }),
-    approveListing: (listingId: string) =>
-      request("POST", yardPaths.reviewApprove(listingId), { body: {}, schema: listingEnvelope }),
+    approveListing: (listingId: string) => request("POST", yardPaths.reviewApprove(listingId), { body: {}, schema: listingEnvelope }),
     sendBackListing: (listingId: string, reason: string) =>
       request("POST", yardPaths.reviewSendBack(listingId), { body: { reason }, schema: listingEnvelope }),
   };

@@ -44,7 +44,7 @@ const batchResult: ResponseParser<PayoutBatchResult> = payoutBatchResultSchema a
 const refundState: ResponseParser<DisputeRefundState> = disputeRefundStateSchema;
 const refundResult: ResponseParser<DisputeRefundResult> = disputeRefundResultSchema;
 
-export function createPayoutsApi(client: Pick<ApiClient, "request"> = api) {
+function createPayoutsApi(client: Pick<ApiClient, "request"> = api) {
   const { request } = client;
   return {
     // The sawyer's side.
@@ -59,14 +59,16 @@ export function createPayoutsApi(client: Pick<ApiClient, "request"> = api) {
     due: (signal?: AbortSignal) => request("GET", payoutPaths.due, { schema: due, signal }),
     approve: (approval: PayoutApproval) => request("POST", payoutPaths.approve, { body: approval, schema: payoutEnvelope }),
     approveBatch: (payouts: PayoutApproval[]) => request("POST", payoutPaths.batch, { body: { payouts }, schema: batchResult }),
-    list: (status: PayoutStatus | undefined, signal?: AbortSignal) => request("GET", payoutPaths.list, { query: { status }, schema: payoutList, signal }),
+    list: (status: PayoutStatus | undefined, signal?: AbortSignal) =>
+      request("GET", payoutPaths.list, { query: { status }, schema: payoutList, signal }),
     one: (payoutId: string, signal?: AbortSignal) => request("GET", payoutPaths.one(payoutId), { schema: payoutEnvelope, signal }),
 
     // Dispute refunds (admins).
-    refundState: (orderId: string, signal?: AbortSignal) => request("GET", payoutPaths.disputeRefund(orderId), { schema: refundState, signal }),
-    disputeRefund: (orderId: string, input: DisputeRefund) => request("POST", payoutPaths.disputeRefund(orderId), { body: input, schema: refundResult }),
+    refundState: (orderId: string, signal?: AbortSignal) =>
+      request("GET", payoutPaths.disputeRefund(orderId), { schema: refundState, signal }),
+    disputeRefund: (orderId: string, input: DisputeRefund) =>
+      request("POST", payoutPaths.disputeRefund(orderId), { body: input, schema: refundResult }),
   };
 }
 
-export type PayoutsApi = ReturnType<typeof createPayoutsApi>;
 export const payoutsApi = createPayoutsApi();

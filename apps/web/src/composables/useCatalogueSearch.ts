@@ -3,7 +3,7 @@ import type { CatalogueCard, CatalogueResult } from "@grainyard/contracts";
 import { api, toApiRequestError, type ApiRequestError } from "../api/client.ts";
 import { searchQuery, type CatalogueFilters } from "../utils/catalogue-filters.ts";
 
-export const CATALOGUE_PAGE_SIZE = 24;
+const CATALOGUE_PAGE_SIZE = 24;
 
 /**
  * One catalogue search and its pages: `search` loads the first page for the filters (an older

@@ -4,9 +4,7 @@ import { toApiRequestError, type ApiRequestError } from "../api/client.ts";
 
 /** Anything with zod's safeParse: the contracts' schemas. */
 interface Validator<T> {
-  safeParse(
-    input: unknown,
-  ): { success: true; data: T } | { success: false; error: Parameters<typeof fieldMessages>[0] };
+  safeParse(input: unknown): { success: true; data: T } | { success: false; error: Parameters<typeof fieldMessages>[0] };
 }
 
 /**

@@ -18,7 +18,7 @@ import {
 
 export type DraftSyncState = "local" | "queued" | "syncing" | "synced" | "incomplete" | "failed";
 
-export const draftSyncLabels: Record<DraftSyncState, string> = {
+const draftSyncLabels: Record<DraftSyncState, string> = {
   local: "Saved on this phone",
   queued: "Saved on this phone — will sync when you're back online",
   syncing: "Syncing…",

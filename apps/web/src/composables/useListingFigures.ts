@@ -1,4 +1,3 @@
-import { computed, type Ref } from "vue";
 import { SlabMathError, feeBreakdown, slabPrice, type FeeBreakdown, type FeeSettings, type PriceMode } from "@grainyard/slab-math";
 import type { Slab } from "@grainyard/contracts";
 import { FEE_PREVIEW_SETTINGS } from "../constants/fee-preview.ts";
@@ -57,8 +56,4 @@ export function listingPreview(
     if (error instanceof SlabMathError) return { ...base, problem: "That rate cannot be priced. Check the number." };
     throw error;
   }
-}
-
-export function useListingFigures(slabs: Ref<readonly Slab[]>, priceMode: Ref<PriceMode | "">, rateMinor: Ref<number | null>) {
-  return computed(() => listingPreview(slabs.value, priceMode.value, rateMinor.value));
 }

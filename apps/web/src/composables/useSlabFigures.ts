@@ -2,7 +2,7 @@ import { computed, type Ref } from "vue";
 import { SlabMathError, slabGeometry, slabWeight, type SlabGeometry, type SlabWeight } from "@grainyard/slab-math";
 
 /** Moisture content assumed for the weight when a slab has no reading yet (kiln-dried, indoor). */
-export const ASSUMED_MOISTURE_PCT = 12;
+const ASSUMED_MOISTURE_PCT = 12;
 
 export interface SlabFigureInput {
   speciesSlug: string;
@@ -25,17 +25,23 @@ export interface LiveSlabFigures {
 }
 
 /** A plain sentence for a SlabMathError, keyed on the form field it belongs to. */
-export function slabMathMessage(error: SlabMathError): { field: string; message: string } {
+function slabMathMessage(error: SlabMathError): { field: string; message: string } {
   const station = /^widthStationsMm\[(\d+)\]$/.exec(error.field);
   if (station) {
     const index = Number(station[1]);
-    return { field: `widthStationsMm.${index}`, message: `Width ${index + 1} is wider than any slab we take (3 m, about 118″). Check the number and the units.` };
+    return {
+      field: `widthStationsMm.${index}`,
+      message: `Width ${index + 1} is wider than any slab we take (3 m, about 118″). Check the number and the units.`,
+    };
   }
   switch (error.field) {
     case "lengthMm":
       return { field: "lengthMm", message: "That is longer than any slab we take (12 m, about 39 ft). Check the number and the units." };
     case "thicknessMm":
-      return { field: "thicknessMm", message: "That is thicker than any slab we take (600 mm, about 23 5/8″). Check the number and the units." };
+      return {
+        field: "thicknessMm",
+        message: "That is thicker than any slab we take (600 mm, about 23 5/8″). Check the number and the units.",
+      };
     case "widthStationsMm":
       return { field: "widthStationsMm", message: "Give at least one width above zero, at two or more points." };
     case "volumeM3":
@@ -48,14 +54,15 @@ export function slabMathMessage(error: SlabMathError): { field: string; message:
 }
 
 /** Area, volume, widths and weight from what the sawyer has typed so far, with slab-math. */
-export function liveSlabFigures(input: SlabFigureInput): LiveSlabFigures {
+function liveSlabFigures(input: SlabFigureInput): LiveSlabFigures {
   const moistureAssumed = input.moisturePct == null;
   const moisturePct = input.moisturePct ?? ASSUMED_MOISTURE_PCT;
   const base = { geometry: null, weight: null, moisturePct, moistureAssumed, waitingFor: null, problem: null };
   const widths = input.widthStationsMm.filter((width): width is number => width != null);
   if (input.lengthMm == null) return { ...base, waitingFor: "Type the length to see the figures." };
   if (input.thicknessMm == null) return { ...base, waitingFor: "Type the thickness to see the figures." };
-  if (widths.length < 2 || widths.length !== input.widthStationsMm.length) return { ...base, waitingFor: "Type every width (or remove the empty ones) to see the figures." };
+  if (widths.length < 2 || widths.length !== input.widthStationsMm.length)
+    return { ...base, waitingFor: "Type every width (or remove the empty ones) to see the figures." };
   let geometry: SlabGeometry;
   try {
     geometry = slabGeometry({ lengthMm: input.lengthMm, thicknessMm: input.thicknessMm, widthStationsMm: widths });

@@ -13,7 +13,8 @@ export const FEE_PREVIEW_SETTINGS: Readonly<FeeSettings> = Object.freeze({
   processingFixedMinor: 30,
 });
 
-export const FEE_PREVIEW_NOTE = "A preview with Grainyard's usual fees (today's could not be fetched). The exact figures appear once the listing is saved.";
+export const FEE_PREVIEW_NOTE =
+  "A preview with Grainyard's usual fees (today's could not be fetched). The exact figures appear once the listing is saved.";
 
 /** The note under the preview when it uses the fees in force, in words. */
 export function feesInForceNote(fees: FeeSettings, currency: string): string {

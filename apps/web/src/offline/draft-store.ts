@@ -15,7 +15,7 @@ const DATABASE = "grainyard-drafts";
 const STORE = "drafts";
 
 /** IndexedDB storage; falls back to memory when the browser refuses IndexedDB (private mode). */
-export function createIndexedDbDraftStorage(): DraftStorage {
+function createIndexedDbDraftStorage(): DraftStorage {
   let database: Promise<IDBPDatabase> | null = null;
   const fallback = createMemoryDraftStorage();
   let useFallback = typeof indexedDB === "undefined";
@@ -40,9 +40,21 @@ export function createIndexedDbDraftStorage(): DraftStorage {
   }
 
   return {
-    get: <T>(key: string) => attempt(async (db) => (await db.get(STORE, key)) as T | undefined, () => fallback.get<T>(key)),
-    put: <T>(key: string, value: T) => attempt(async (db) => void (await db.put(STORE, value, key)), () => fallback.put(key, value)),
-    delete: (key: string) => attempt((db) => db.delete(STORE, key), () => fallback.delete(key)),
+    get: <T>(key: string) =>
+      attempt(
+        async (db) => (await db.get(STORE, key)) as T | undefined,
+        () => fallback.get<T>(key),
+      ),
+    put: <T>(key: string, value: T) =>
+      attempt(
+        async (db) => void (await db.put(STORE, value, key)),
+        () => fallback.put(key, value),
+      ),
+    delete: (key: string) =>
+      attempt(
+        (db) => db.delete(STORE, key),
+        () => fallback.delete(key),
+      ),
   };
 }
 

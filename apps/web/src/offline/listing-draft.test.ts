@@ -24,7 +24,18 @@ function listing(id: string, over: Partial<Listing> = {}): Listing {
     freight: false,
     status: "draft",
     reviewNote: null,
-    figures: { boardFeet: 1, volumeM3: 1, weightKg: 1, weightLowKg: 1, weightHighKg: 1, heavyLift: false, priceMinor: 1, platformFeeMinor: 0, processingFeeMinor: 0, sawyerNetMinor: 1 },
+    figures: {
+      boardFeet: 1,
+      volumeM3: 1,
+      weightKg: 1,
+      weightLowKg: 1,
+      weightHighKg: 1,
+      heavyLift: false,
+      priceMinor: 1,
+      platformFeeMinor: 0,
+      processingFeeMinor: 0,
+      sawyerNetMinor: 1,
+    },
     slabs: [],
     photos: [],
     submittedAt: null,
@@ -60,7 +71,15 @@ function fakeApi() {
       options?.onProgress?.(1);
       photoCount += 1;
       calls.push(`upload ${id} ${name} alt=${options?.altText ?? ""}`);
-      const photo: ListingPhoto = { id: `ph_${photoCount}`, position: photoCount - 1, altText: options?.altText ?? "", width: 10, height: 10, smallUrl: `/s/${photoCount}`, largeUrl: `/l/${photoCount}` };
+      const photo: ListingPhoto = {
+        id: `ph_${photoCount}`,
+        position: photoCount - 1,
+        altText: options?.altText ?? "",
+        width: 10,
+        height: 10,
+        smallUrl: `/s/${photoCount}`,
+        largeUrl: `/l/${photoCount}`,
+      };
       return { photo };
     },
     async updatePhotoAltText(id: string, photoId: string, altText: string) {
@@ -99,24 +118,65 @@ describe("syncListingDraft", () => {
     const fake = fakeApi();
     const draft = newListingDraft({ title: "Walnut slab", slabIds: [SLAB], priceMode: "per_board_foot", rate: "18.50" });
     draft.photos.push(
-      { key: "a", serverId: null, blob: photoFile("first"), fileName: "first.jpg", altText: "Top face", altTextSynced: true, smallUrl: null, rejected: null },
-      { key: "b", serverId: null, blob: photoFile("second"), fileName: "second.jpg", altText: "", altTextSynced: true, smallUrl: null, rejected: null },
+      {
+        key: "a",
+        serverId: null,
+        blob: photoFile("first"),
+        fileName: "first.jpg",
+        altText: "Top face",
+        altTextSynced: true,
+        smallUrl: null,
+        rejected: null,
+      },
+      {
+        key: "b",
+        serverId: null,
+        blob: photoFile("second"),
+        fileName: "second.jpg",
+        altText: "",
+        altTextSynced: true,
+        smallUrl: null,
+        rejected: null,
+      },
     );
     const progress: [string, number][] = [];
-    const result = await syncListingDraft(draft, { api: fake.api, toInput: validInput, onChange: () => undefined, onProgress: (key, value) => progress.push([key, value]), isOnline: fake.isOnline });
+    const result = await syncListingDraft(draft, {
+      api: fake.api,
+      toInput: validInput,
+      onChange: () => undefined,
+      onProgress: (key, value) => progress.push([key, value]),
+      isOnline: fake.isOnline,
+    });
 
     expect(result.status).toBe("synced");
-    expect(fake.calls).toEqual(["create Walnut slab", "upload lst_1 first alt=Top face", "upload lst_1 second alt=", "order lst_1 ph_1,ph_2"]);
+    expect(fake.calls).toEqual([
+      "create Walnut slab",
+      "upload lst_1 first alt=Top face",
+      "upload lst_1 second alt=",
+      "order lst_1 ph_1,ph_2",
+    ]);
     expect(draft.serverId).toBe("lst_1");
     expect(draft.key).toBe("listing:lst_1");
-    expect(draft.photos.map((photo) => [photo.serverId, photo.blob])).toEqual([["ph_1", null], ["ph_2", null]]);
+    expect(draft.photos.map((photo) => [photo.serverId, photo.blob])).toEqual([
+      ["ph_1", null],
+      ["ph_2", null],
+    ]);
     expect(progress.filter(([key]) => key === "a").map(([, value]) => value)).toEqual([0, 0.5, 1, 1]);
   });
 
   it("stops where the connection was lost and carries on from there next time", async () => {
     const fake = fakeApi();
     const draft = newListingDraft({ title: "Walnut slab", slabIds: [SLAB], priceMode: "fixed", rate: "400" });
-    draft.photos.push({ key: "a", serverId: null, blob: photoFile("first"), fileName: "a", altText: "", altTextSynced: true, smallUrl: null, rejected: null });
+    draft.photos.push({
+      key: "a",
+      serverId: null,
+      blob: photoFile("first"),
+      fileName: "a",
+      altText: "",
+      altTextSynced: true,
+      smallUrl: null,
+      rejected: null,
+    });
     fake.setOnline(false);
     // The browser thinks it is online, but the request fails: the client says "offline".
     const first = await syncListingDraft(draft, { api: fake.api, toInput: validInput, onChange: () => undefined, isOnline: () => true });
@@ -126,7 +186,12 @@ describe("syncListingDraft", () => {
     expect(draft.photos[0]!.blob).not.toBeNull();
 
     fake.setOnline(true);
-    const second = await syncListingDraft(draft, { api: fake.api, toInput: validInput, onChange: () => undefined, isOnline: fake.isOnline });
+    const second = await syncListingDraft(draft, {
+      api: fake.api,
+      toInput: validInput,
+      onChange: () => undefined,
+      isOnline: fake.isOnline,
+    });
     expect(second.status).toBe("synced");
     expect(fake.calls).toEqual(["create Walnut slab", "upload lst_1 first alt=", "order lst_1 ph_1"]);
   });
@@ -136,10 +201,33 @@ describe("syncListingDraft", () => {
     fake.refuse.add("not-a-photo");
     const draft = newListingDraft({ title: "Walnut slab", slabIds: [SLAB], priceMode: "fixed", rate: "400" });
     draft.photos.push(
-      { key: "a", serverId: null, blob: photoFile("not-a-photo"), fileName: "a", altText: "", altTextSynced: true, smallUrl: null, rejected: null },
-      { key: "b", serverId: null, blob: photoFile("good"), fileName: "b", altText: "", altTextSynced: true, smallUrl: null, rejected: null },
+      {
+        key: "a",
+        serverId: null,
+        blob: photoFile("not-a-photo"),
+        fileName: "a",
+        altText: "",
+        altTextSynced: true,
+        smallUrl: null,
+        rejected: null,
+      },
+      {
+        key: "b",
+        serverId: null,
+        blob: photoFile("good"),
+        fileName: "b",
+        altText: "",
+        altTextSynced: true,
+        smallUrl: null,
+        rejected: null,
+      },
     );
-    const result = await syncListingDraft(draft, { api: fake.api, toInput: validInput, onChange: () => undefined, isOnline: fake.isOnline });
+    const result = await syncListingDraft(draft, {
+      api: fake.api,
+      toInput: validInput,
+      onChange: () => undefined,
+      isOnline: fake.isOnline,
+    });
     expect(result.status).toBe("synced");
     expect(draft.photos[0]!.rejected).toBe("That file is not a photo we can read.");
     expect(draft.photos[1]!.serverId).toBe("ph_1");
@@ -153,10 +241,24 @@ describe("syncListingDraft", () => {
     const fake = fakeApi();
     const draft = newListingDraft({ title: "Walnut pair", slabIds: [SLAB], priceMode: "fixed", rate: "400" });
     draft.serverId = "lst_7";
-    draft.photos.push({ key: "ph_3", serverId: "ph_3", blob: null, fileName: "", altText: "Edge detail", altTextSynced: false, smallUrl: "/s", rejected: null });
+    draft.photos.push({
+      key: "ph_3",
+      serverId: "ph_3",
+      blob: null,
+      fileName: "",
+      altText: "Edge detail",
+      altTextSynced: false,
+      smallUrl: "/s",
+      rejected: null,
+    });
     draft.deletedPhotoIds.push("ph_2");
     draft.orderPending = true;
-    const result = await syncListingDraft(draft, { api: fake.api, toInput: validInput, onChange: () => undefined, isOnline: fake.isOnline });
+    const result = await syncListingDraft(draft, {
+      api: fake.api,
+      toInput: validInput,
+      onChange: () => undefined,
+      isOnline: fake.isOnline,
+    });
     expect(result.status).toBe("synced");
     expect(fake.calls).toEqual(["update lst_7 Walnut pair", "delete lst_7 ph_2", "alt lst_7 ph_3 Edge detail", "order lst_7 ph_3"]);
     expect(draft.deletedPhotoIds).toEqual([]);
@@ -165,7 +267,12 @@ describe("syncListingDraft", () => {
   it("does not send an incomplete listing", async () => {
     const fake = fakeApi();
     const draft = newListingDraft({ title: "Wa" });
-    const result = await syncListingDraft(draft, { api: fake.api, toInput: validInput, onChange: () => undefined, isOnline: fake.isOnline });
+    const result = await syncListingDraft(draft, {
+      api: fake.api,
+      toInput: validInput,
+      onChange: () => undefined,
+      isOnline: fake.isOnline,
+    });
     expect(result.status).toBe("incomplete");
     expect(fake.calls).toEqual([]);
   });
@@ -257,7 +364,9 @@ describe("useListingDraft: refused photos", () => {
     const fake = fakeApi();
     fake.refuse.add("notes");
     const scope = effectScope();
-    const drafts = scope.run(() => useListingDraft({ toInput: validInput, storage, api: fake.api, isOnline: fake.isOnline, debounceMs: 0, listen: false }))!;
+    const drafts = scope.run(() =>
+      useListingDraft({ toInput: validInput, storage, api: fake.api, isOnline: fake.isOnline, debounceMs: 0, listen: false }),
+    )!;
     await drafts.start(null, { title: "Walnut slab", slabIds: [SLAB], priceMode: "fixed" });
     drafts.addPhotos([photoFile("good"), photoFile("notes")]);
     const result = await drafts.save();
@@ -266,7 +375,9 @@ describe("useListingDraft: refused photos", () => {
     scope.stop();
 
     // The listing page opens the same draft: the good photo is up, the refused one still says why.
-    const again = effectScope().run(() => useListingDraft({ toInput: validInput, storage, api: fake.api, isOnline: fake.isOnline, debounceMs: 0, listen: false }))!;
+    const again = effectScope().run(() =>
+      useListingDraft({ toInput: validInput, storage, api: fake.api, isOnline: fake.isOnline, debounceMs: 0, listen: false }),
+    )!;
     await again.start(listing("lst_1"));
     expect(again.restored.value).toBe(false);
     expect(again.state.value).toBe("synced");

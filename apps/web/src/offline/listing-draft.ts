@@ -55,7 +55,7 @@ export interface ListingDraft {
 export const NEW_LISTING_KEY = "listing:new";
 export const listingDraftKey = (listingId: string) => `listing:${listingId}`;
 
-export function emptyListingFields(): ListingDraftFields {
+function emptyListingFields(): ListingDraftFields {
   return {
     title: "",
     description: "",
@@ -83,7 +83,7 @@ export function newListingDraft(fields: Partial<ListingDraftFields> = {}): Listi
   };
 }
 
-export function photoFromServer(photo: ListingPhoto): DraftPhoto {
+function photoFromServer(photo: ListingPhoto): DraftPhoto {
   return {
     key: photo.id,
     serverId: photo.id,
@@ -165,11 +165,7 @@ function isOffline(error: unknown): boolean {
  * Sends what is pending, in order. Never throws: the result says how far it got.
  * Photos the server refuses keep their message (`rejected`) and do not stop the others.
  */
-export async function syncListingDraft(
-  draft: ListingDraft,
-  hooks: SyncHooks,
-  options: { photosOnly?: boolean } = {},
-): Promise<SyncResult> {
+export async function syncListingDraft(draft: ListingDraft, hooks: SyncHooks, options: { photosOnly?: boolean } = {}): Promise<SyncResult> {
   const online = hooks.isOnline ?? (() => (typeof navigator === "undefined" ? true : navigator.onLine !== false));
   if (!online()) return { status: "offline" };
   let listing: Listing | null = null;

@@ -13,7 +13,10 @@ afterEach(() => {
   document.body.innerHTML = "";
 });
 
-const page: StubbedAnswer = { status: 200, body: { results: [oakCard], total: 1, totalIsAtLeast: false, nextCursor: null, near: null, fitTop: null } };
+const page: StubbedAnswer = {
+  status: 200,
+  body: { results: [oakCard], total: 1, totalIsAtLeast: false, nextCursor: null, near: null, fitTop: null },
+};
 const put = `PUT ${buyerPaths.favourite(oakCard.listingId)}`;
 const del = `DELETE ${buyerPaths.favourite(oakCard.listingId)}`;
 
@@ -43,7 +46,11 @@ describe("favourites", () => {
     expect(heart().attributes("aria-pressed")).toBe("true");
     await flushPromises();
     expect(heart().attributes("aria-pressed")).toBe("true");
-    expect(fetchMock.mock.calls.some(([url, init]) => String(url) === buyerPaths.favourite(oakCard.listingId) && (init as RequestInit).method === "PUT")).toBe(true);
+    expect(
+      fetchMock.mock.calls.some(
+        ([url, init]) => String(url) === buyerPaths.favourite(oakCard.listingId) && (init as RequestInit).method === "PUT",
+      ),
+    ).toBe(true);
     // The click did not open the slab page (the heart sits on the card's link).
     expect(wrapper.vm.$router.currentRoute.value.path).toBe("/browse");
 
@@ -71,7 +78,11 @@ describe("favourites", () => {
 
   it("ignores a second tap while the first is on its way", async () => {
     const slow = deferred();
-    const { session } = await mountView(BrowseView, { path: "/browse", session: { account: buyerAccount }, answers: { [`GET ${cataloguePaths.search}`]: [page], [`GET ${buyerPaths.favourites}`]: [{ status: 200, body: { favourites: [] } }] } });
+    const { session } = await mountView(BrowseView, {
+      path: "/browse",
+      session: { account: buyerAccount },
+      answers: { [`GET ${cataloguePaths.search}`]: [page], [`GET ${buyerPaths.favourites}`]: [{ status: 200, body: { favourites: [] } }] },
+    });
     expect(session.isBuyer).toBe(true);
     const store = useFavouritesStore();
     let puts = 0;
@@ -93,7 +104,10 @@ describe("favourites", () => {
   });
 
   it("sends an anonymous person to sign in and back to the same page", async () => {
-    const { wrapper, router } = await mountView(BrowseView, { path: "/browse?seats=8", answers: { [`GET ${cataloguePaths.search}`]: [page] } });
+    const { wrapper, router } = await mountView(BrowseView, {
+      path: "/browse?seats=8",
+      answers: { [`GET ${cataloguePaths.search}`]: [page] },
+    });
     await wrapper.find('[data-test="favourite-toggle"]').trigger("click");
     // The sign-in page loads on demand: wait for the navigation to finish.
     await vi.waitFor(() => expect(router.currentRoute.value.path).toBe("/sign-in"), { timeout: 5000 });
@@ -115,7 +129,11 @@ describe("favourites", () => {
   });
 
   it("shows the empty state when nothing is saved", async () => {
-    const { wrapper } = await mountView(FavouritesView, { path: "/favourites", session: { account: buyerAccount }, answers: { [`GET ${buyerPaths.favourites}`]: [{ status: 200, body: { favourites: [] } }] } });
+    const { wrapper } = await mountView(FavouritesView, {
+      path: "/favourites",
+      session: { account: buyerAccount },
+      answers: { [`GET ${buyerPaths.favourites}`]: [{ status: 200, body: { favourites: [] } }] },
+    });
     expect(wrapper.find('[data-test="favourites-empty"]').text()).toContain("Tap the heart");
   });
 });

@@ -51,8 +51,9 @@ export const useFavouritesStore = defineStore("favourites", () => {
         cards.value = favourites;
         // A toggle still on its way keeps the state the buyer chose.
         const next = new Set(favourites.map((card) => card.listingId));
-        for (const id of pending.value) if (ids.value.has(id)) next.add(id);
-        else next.delete(id);
+        for (const id of pending.value)
+          if (ids.value.has(id)) next.add(id);
+          else next.delete(id);
         ids.value = next;
         status.value = "ready";
       })

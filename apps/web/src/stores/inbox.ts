@@ -45,7 +45,8 @@ export const useInboxStore = defineStore("inbox", () => {
   }
 
   /** The reader's thread about a listing, if they asked about it before. */
-  const threadAbout = (listingId: string) => threads.value.find((thread) => thread.listingId === listingId && thread.myRole === "buyer") ?? null;
+  const threadAbout = (listingId: string) =>
+    threads.value.find((thread) => thread.listingId === listingId && thread.myRole === "buyer") ?? null;
 
   watch(
     () => session.account?.id ?? null,

@@ -11,23 +11,16 @@
  *   (the no-result suggestions and the chips above the results).
  */
 import type { LocationQuery, LocationQueryRaw } from "vue-router";
-import {
-  catalogueSortLabels,
-  catalogueSorts,
-  liveEdges,
-  setKinds,
-  slabFeatures,
-  yardLabels,
-} from "@grainyard/contracts";
+import { catalogueSortLabels, catalogueSorts, liveEdges, setKinds, slabFeatures, yardLabels } from "@grainyard/contracts";
 import type { UnitFormatter } from "../composables/useUnits.ts";
 import { speciesName } from "./yard.ts";
 import { minorToInput } from "./money.ts";
 
 export type CatalogueSort = (typeof catalogueSorts)[number];
-export type LiveEdgeChoice = (typeof liveEdges)[number];
-export type FeatureChoice = (typeof slabFeatures)[number];
+type LiveEdgeChoice = (typeof liveEdges)[number];
+type FeatureChoice = (typeof slabFeatures)[number];
 export type SetChoice = (typeof setKinds)[number];
-export type WidthBasis = "average" | "minimum";
+type WidthBasis = "average" | "minimum";
 export type FitEdge = "keep_live_edge" | "trim_straight";
 
 export interface CatalogueFilters {
@@ -58,7 +51,7 @@ export interface CatalogueFilters {
   sort: CatalogueSort;
 }
 
-export const emptyFilters: Readonly<CatalogueFilters> = Object.freeze({
+const emptyFilters: Readonly<CatalogueFilters> = Object.freeze({
   species: [],
   lengthMin: null,
   lengthMax: null,
@@ -289,7 +282,13 @@ function rangeLabel(name: string, low: number | null, high: number | null, show:
 export function activeFilters(filters: CatalogueFilters, format: UnitFormatter, placeName: string | null = null): ActiveFilter[] {
   const active: ActiveFilter[] = [];
   const take = (keys: (keyof CatalogueFilters)[], label: string) => {
-    const without = { ...filters, species: [...filters.species], liveEdge: [...filters.liveEdge], features: [...filters.features], sets: [...filters.sets] };
+    const without = {
+      ...filters,
+      species: [...filters.species],
+      liveEdge: [...filters.liveEdge],
+      features: [...filters.features],
+      sets: [...filters.sets],
+    };
     for (const key of keys) (without as Record<string, unknown>)[key] = structuredCloneDefault(key);
     active.push({ keys, label, without });
   };
@@ -314,11 +313,15 @@ export function activeFilters(filters: CatalogueFilters, format: UnitFormatter, 
     take(["priceMin", "priceMax"], rangeLabel("Price", filters.priceMin, filters.priceMax, minorToInput));
   }
   if (filters.liveEdge.length) take(["liveEdge"], filters.liveEdge.map((edge) => yardLabels.liveEdge[edge]).join(" or "));
-  if (filters.features.length) take(["features"], `With ${filters.features.map((feature) => yardLabels.feature[feature].toLowerCase()).join(" and ")}`);
+  if (filters.features.length)
+    take(["features"], `With ${filters.features.map((feature) => yardLabels.feature[feature].toLowerCase()).join(" and ")}`);
   if (filters.sets.length) take(["sets"], filters.sets.map((kind) => setLabels[kind]).join(" or "));
   if (filters.near) {
     const town = placeName ?? filters.near;
-    take(["near", "radiusKm", ...(filters.sort === "nearest" ? (["sort"] as const) : [])], filters.radiusKm !== null ? `Within ${filters.radiusKm} km of ${town}` : `Near ${town}`);
+    take(
+      ["near", "radiusKm", ...(filters.sort === "nearest" ? (["sort"] as const) : [])],
+      filters.radiusKm !== null ? `Within ${filters.radiusKm} km of ${town}` : `Near ${town}`,
+    );
   } else if (filters.radiusKm !== null) {
     take(["radiusKm"], `Within ${filters.radiusKm} km`);
   }
@@ -328,7 +331,10 @@ export function activeFilters(filters: CatalogueFilters, format: UnitFormatter, 
       filters.seats !== null
         ? `Table for ${filters.seats}`
         : `Top ${[filters.fitLength, filters.fitWidth, filters.fitThickness].map((mm) => (mm === null ? "any" : format.length(mm))).join(" × ")}`;
-    take(["seats", "fitLength", "fitWidth", "fitThickness", "fitEdge"], filters.fitEdge === "trim_straight" ? `${label}, edges trimmed` : label);
+    take(
+      ["seats", "fitLength", "fitWidth", "fitThickness", "fitEdge"],
+      filters.fitEdge === "trim_straight" ? `${label}, edges trimmed` : label,
+    );
   }
   return active;
 }

@@ -26,8 +26,3 @@ export function otherPartyName(thread: ThreadSummary): string {
   if (thread.myRole === "observer") return `${thread.buyer.displayName} and ${thread.sawyer.displayName}`;
   return thread.otherParty.displayName;
 }
-
-/** "3 unread" for screen readers and badges; "" when none. */
-export function unreadLabel(count: number): string {
-  return count > 0 ? `${count} unread` : "";
-}

@@ -29,7 +29,10 @@ export type ParsedMoney = { ok: true; minor: number } | { ok: false; message: st
 
 /** "12.50", "12,5", "1 200", "$12" → integer minor units; anything else says what to type. */
 export function parseMoneyInput(text: string): ParsedMoney {
-  const cleaned = text.trim().replace(/^[$€£]|\s/g, "").replace(/^(CAD|USD|EUR|GBP)/i, "");
+  const cleaned = text
+    .trim()
+    .replace(/^[$€£]|\s/g, "")
+    .replace(/^(CAD|USD|EUR|GBP)/i, "");
   if (cleaned === "") return { ok: false, message: "Give the price." };
   const match = /^(\d{1,9})(?:[.,](\d{1,2}))?$/.exec(cleaned);
   if (!match) return { ok: false, message: "Type the price like 12.50." };

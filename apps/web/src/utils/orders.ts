@@ -57,8 +57,8 @@ export function snapshotSlabs(order: Pick<Order, "slabs">): SnapshotSlab[] {
 /** The heaviest handling any one slab needs (each slab is lifted on its own). */
 export function worstHandling(slabs: SnapshotSlab[]): SnapshotSlab["handling"] {
   const rank = ["one_person", "two_people", "mechanical_aid"] as const;
-  return slabs.reduce<SnapshotSlab["handling"]>((worst, s) => (rank.indexOf(s.handling) > rank.indexOf(worst) ? s.handling : worst), "one_person");
+  return slabs.reduce<SnapshotSlab["handling"]>(
+    (worst, s) => (rank.indexOf(s.handling) > rank.indexOf(worst) ? s.handling : worst),
+    "one_person",
+  );
 }
-
-/** Statuses where the order stopped short of the steps (shown as a note, not a step). */
-export const endedStatuses = ["cancelled", "refunded", "payment_failed", "expired"] as const;

@@ -1,7 +1,20 @@
 import { describe, expect, it } from "vitest";
 import type { PayoutBatchResult, PayoutDue } from "@grainyard/contracts";
 import { ApiRequestError } from "../api/client.ts";
-import { accountCard, balanceIsEmpty, balanceSegments, batchRows, canApprove, checkRefund, deskBlockedReason, holdExplanation, isStaleDue, recipientLabel, refundPrefill, totalsLabel } from "./payouts.ts";
+import {
+  accountCard,
+  balanceIsEmpty,
+  balanceSegments,
+  batchRows,
+  canApprove,
+  checkRefund,
+  deskBlockedReason,
+  holdExplanation,
+  isStaleDue,
+  recipientLabel,
+  refundPrefill,
+  totalsLabel,
+} from "./payouts.ts";
 
 const due = (over: Partial<PayoutDue> = {}): PayoutDue => ({
   sawyerId: "6f1c1d7e-0000-4000-8000-000000000001",
@@ -74,16 +87,37 @@ describe("the payouts desk", () => {
 
   it("lists each batch outcome: sent, not sent with the provider's reason, refused with the API's message", () => {
     const first = due();
-    const second = due({ sawyerId: "6f1c1d7e-0000-4000-8000-000000000002", sawyerName: "Iris Okafor", yardName: "Cobble Lane Slabworks", amountMinor: 50_000 });
+    const second = due({
+      sawyerId: "6f1c1d7e-0000-4000-8000-000000000002",
+      sawyerName: "Iris Okafor",
+      yardName: "Cobble Lane Slabworks",
+      amountMinor: 50_000,
+    });
     const third = due({ sawyerId: "6f1c1d7e-0000-4000-8000-000000000003", sawyerName: "Tom Reyes", yardName: null, amountMinor: 9_900 });
     const payout = (d: PayoutDue, status: "sent" | "failed", failureReason: string | null = null) => ({
-      id: `p-${d.sawyerId}`, sawyerId: d.sawyerId, sawyerName: d.sawyerName, yardName: d.yardName, currency: d.currency, amountMinor: d.amountMinor,
-      status, failureReason, transferId: null, approvedBy: null, createdAt: "2026-12-09T10:00:00.000Z", sentAt: null, lines: d.lines,
+      id: `p-${d.sawyerId}`,
+      sawyerId: d.sawyerId,
+      sawyerName: d.sawyerName,
+      yardName: d.yardName,
+      currency: d.currency,
+      amountMinor: d.amountMinor,
+      status,
+      failureReason,
+      transferId: null,
+      approvedBy: null,
+      createdAt: "2026-12-09T10:00:00.000Z",
+      sentAt: null,
+      lines: d.lines,
     });
     const result: PayoutBatchResult = {
       results: [
         { sawyerId: first.sawyerId, currency: "USD", payout: payout(first, "sent"), error: null },
-        { sawyerId: second.sawyerId, currency: "USD", payout: payout(second, "failed", "The destination account cannot receive transfers."), error: null },
+        {
+          sawyerId: second.sawyerId,
+          currency: "USD",
+          payout: payout(second, "failed", "The destination account cannot receive transfers."),
+          error: null,
+        },
         { sawyerId: third.sawyerId, currency: "USD", payout: null, error: "This payout changed since the list was loaded." },
       ],
     };
@@ -111,14 +145,30 @@ describe("dispute refund form", () => {
   });
 
   it("accepts all that is left, or a part, with a reason", () => {
-    expect(checkRefund("800.00", "The buyer returned the slab.", state)).toEqual({ ok: true, amountMinor: 80_000, reason: "The buyer returned the slab.", partial: false });
-    expect(checkRefund("120,5", "  A check at one end was not shown.  ", state)).toEqual({ ok: true, amountMinor: 12_050, reason: "A check at one end was not shown.", partial: true });
+    expect(checkRefund("800.00", "The buyer returned the slab.", state)).toEqual({
+      ok: true,
+      amountMinor: 80_000,
+      reason: "The buyer returned the slab.",
+      partial: false,
+    });
+    expect(checkRefund("120,5", "  A check at one end was not shown.  ", state)).toEqual({
+      ok: true,
+      amountMinor: 12_050,
+      reason: "A check at one end was not shown.",
+      partial: true,
+    });
   });
 
   it("refuses zero, more than is left, unreadable amounts and a missing reason, with field messages", () => {
     expect(checkRefund("0", "Reason enough", state)).toEqual({ ok: false, fields: { amountMinor: "The refund must be more than zero." } });
-    expect(checkRefund("800.01", "Reason enough", state)).toEqual({ ok: false, fields: { amountMinor: "At most $800.00 is left to refund." } });
+    expect(checkRefund("800.01", "Reason enough", state)).toEqual({
+      ok: false,
+      fields: { amountMinor: "At most $800.00 is left to refund." },
+    });
     expect(checkRefund("12.345", "Reason enough", state)).toEqual({ ok: false, fields: { amountMinor: "Type the amount like 120.50." } });
-    expect(checkRefund("", "no", state)).toEqual({ ok: false, fields: { amountMinor: "Give the amount to refund.", reason: "Give the reason both parties will read." } });
+    expect(checkRefund("", "no", state)).toEqual({
+      ok: false,
+      fields: { amountMinor: "Give the amount to refund.", reason: "Give the reason both parties will read." },
+    });
   });
 });

@@ -76,7 +76,11 @@ export function balanceSegments(balance: SawyerBalance): BalanceSegment[] {
     { key: "paid", label: "Paid to you", minor: balance.paidMinor },
   ];
   const whole = rows.reduce((sum, row) => sum + Math.max(0, row.minor), 0);
-  return rows.map((row) => ({ ...row, text: formatMoney(row.minor, balance.currency), share: whole > 0 ? Math.max(0, row.minor) / whole : 0 }));
+  return rows.map((row) => ({
+    ...row,
+    text: formatMoney(row.minor, balance.currency),
+    share: whole > 0 ? Math.max(0, row.minor) / whole : 0,
+  }));
 }
 
 /** True when a balance has nothing in it at all (a new sawyer): the page shows the empty state instead. */
@@ -94,8 +98,10 @@ export function canApprove(due: PayoutDue): boolean {
 
 /** Why the desk cannot send a payout yet, in the admin's words (the API's blockedReason speaks to the sawyer). */
 export function deskBlockedReason(due: Pick<PayoutDue, "accountState">): string | null {
-  if (due.accountState === "none") return "This sawyer has not set up a payout account yet, so nothing can be sent. Their payouts page asks them to.";
-  if (due.accountState === "unfinished") return "This sawyer started the payout account set-up but has not finished it, so nothing can be sent yet.";
+  if (due.accountState === "none")
+    return "This sawyer has not set up a payout account yet, so nothing can be sent. Their payouts page asks them to.";
+  if (due.accountState === "unfinished")
+    return "This sawyer started the payout account set-up but has not finished it, so nothing can be sent yet.";
   return null;
 }
 
@@ -127,10 +133,20 @@ export function batchRows(result: PayoutBatchResult, dues: PayoutDue[]): BatchRo
   return result.results.map((entry) => {
     const due = dues.find((d) => d.sawyerId === entry.sawyerId && d.currency === entry.currency);
     const recipient = due ? recipientLabel(due) : entry.payout ? recipientLabel(entry.payout) : entry.sawyerId;
-    const amount = entry.payout ? formatMoney(entry.payout.amountMinor, entry.payout.currency) : due ? formatMoney(due.amountMinor, due.currency) : "";
-    if (!entry.payout) return { id: `${entry.sawyerId}:${entry.currency}`, recipient, amount, outcome: "refused", message: entry.error ?? "Not approved." };
+    const amount = entry.payout
+      ? formatMoney(entry.payout.amountMinor, entry.payout.currency)
+      : due
+        ? formatMoney(due.amountMinor, due.currency)
+        : "";
+    if (!entry.payout)
+      return { id: `${entry.sawyerId}:${entry.currency}`, recipient, amount, outcome: "refused", message: entry.error ?? "Not approved." };
     const status: PayoutStatus = entry.payout.status;
-    const message = status === "sent" ? "Sent." : status === "sending" ? "Being sent." : `Not sent: ${entry.payout.failureReason ?? "the payment provider refused it."}`;
+    const message =
+      status === "sent"
+        ? "Sent."
+        : status === "sending"
+          ? "Being sent."
+          : `Not sent: ${entry.payout.failureReason ?? "the payment provider refused it."}`;
     return { id: `${entry.sawyerId}:${entry.currency}`, recipient, amount, outcome: status, message };
   });
 }
@@ -140,7 +156,8 @@ export function isStaleDue(error: unknown): boolean {
   return error instanceof ApiRequestError && error.status === 409 && error.code === "payout_changed";
 }
 
-export const STALE_MESSAGE = "That payout changed since the list was loaded (a sale or refund moved), so nothing was sent. The list is fresh again: check the amount and approve once more.";
+export const STALE_MESSAGE =
+  "That payout changed since the list was loaded (a sale or refund moved), so nothing was sent. The list is fresh again: check the amount and approve once more.";
 
 export const payoutStatusFilters: { value: PayoutStatus | ""; label: string }[] = [
   { value: "", label: "All" },
@@ -154,16 +171,22 @@ export function refundPrefill(state: Pick<DisputeRefundState, "refundableMinor">
   return state.refundableMinor > 0 ? minorToInput(state.refundableMinor) : "";
 }
 
-export type RefundCheck = { ok: true; amountMinor: number; reason: string; partial: boolean } | { ok: false; fields: { amountMinor?: string; reason?: string } };
+export type RefundCheck =
+  { ok: true; amountMinor: number; reason: string; partial: boolean } | { ok: false; fields: { amountMinor?: string; reason?: string } };
 
 /** Checks the form before the confirmation: an amount above zero and no more than is left, and a reason both parties can read. */
-export function checkRefund(amountText: string, reasonText: string, state: Pick<DisputeRefundState, "refundableMinor" | "currency">): RefundCheck {
+export function checkRefund(
+  amountText: string,
+  reasonText: string,
+  state: Pick<DisputeRefundState, "refundableMinor" | "currency">,
+): RefundCheck {
   const fields: { amountMinor?: string; reason?: string } = {};
   const parsed = parseMoneyInput(amountText);
   let amountMinor = 0;
   if (!parsed.ok) fields.amountMinor = parsed.message === "Give the price." ? "Give the amount to refund." : "Type the amount like 120.50.";
   else if (parsed.minor <= 0) fields.amountMinor = "The refund must be more than zero.";
-  else if (parsed.minor > state.refundableMinor) fields.amountMinor = `At most ${formatMoney(state.refundableMinor, state.currency)} is left to refund.`;
+  else if (parsed.minor > state.refundableMinor)
+    fields.amountMinor = `At most ${formatMoney(state.refundableMinor, state.currency)} is left to refund.`;
   else amountMinor = parsed.minor;
   const reason = reasonText.trim();
   if (reason.length < 5) fields.reason = "Give the reason both parties will read.";

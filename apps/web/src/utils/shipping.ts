@@ -11,9 +11,19 @@ export interface ShippingSlab {
 }
 
 /** slab-math's shippingEstimate for one slab (crated on its own) from the preview rate table. */
-export function estimateSlabShipping(slab: ShippingSlab): { slab: ShippingSlab; estimate: ShippingEstimate | null; problem: string | null } {
+export function estimateSlabShipping(slab: ShippingSlab): {
+  slab: ShippingSlab;
+  estimate: ShippingEstimate | null;
+  problem: string | null;
+} {
   try {
-    const estimate = shippingEstimate({ lengthMm: slab.lengthMm, widthMm: slab.maxWidthMm, thicknessMm: slab.thicknessMm, slabKg: slab.weightHighKg, rates: SHIPPING_PREVIEW_RATES });
+    const estimate = shippingEstimate({
+      lengthMm: slab.lengthMm,
+      widthMm: slab.maxWidthMm,
+      thicknessMm: slab.thicknessMm,
+      slabKg: slab.weightHighKg,
+      rates: SHIPPING_PREVIEW_RATES,
+    });
     return { slab, estimate, problem: null };
   } catch (error) {
     if (error instanceof SlabMathError) return { slab, estimate: null, problem: "We can't estimate shipping for this slab's size." };

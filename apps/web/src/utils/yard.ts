@@ -35,7 +35,9 @@ export function projectionSentence(projection: DryingProjectionView): string {
     case "projected":
       return projection.projectedDate
         ? `Projected to reach ${maximumPct} % around ${formatDate(projection.projectedDate)}${
-            projection.daysFromLastReading != null ? ` (about ${Math.round(projection.daysFromLastReading)} days after the last reading)` : ""
+            projection.daysFromLastReading != null
+              ? ` (about ${Math.round(projection.daysFromLastReading)} days after the last reading)`
+              : ""
           }. An estimate from its own readings; keep measuring.`
         : `Projected to reach ${maximumPct} %; keep measuring.`;
   }

@@ -5,11 +5,50 @@ import AdminPayoutsView from "./AdminPayoutsView.vue";
 import { mountView } from "../test/mount-view.ts";
 import { api } from "../api/client.ts";
 
-const admin = { id: "acc_9", email: "desk@grainyard.test", displayName: "Desk", role: "admin", emailVerified: true, yardName: null, pickupTown: null, createdAt: "2025-01-10T09:00:00.000Z" };
+const admin = {
+  id: "acc_9",
+  email: "desk@grainyard.test",
+  displayName: "Desk",
+  role: "admin",
+  emailVerified: true,
+  yardName: null,
+  pickupTown: null,
+  createdAt: "2025-01-10T09:00:00.000Z",
+};
 const sawyerId = "6f1c1d7e-0000-4000-8000-000000000001";
-const line = { orderId: "0d7e7a52-1111-4000-8000-000000000001", listingTitle: "Bookmatched black walnut pair", handedOverAt: "2026-12-01T10:00:00.000Z", amountMinor: 226_200 };
-const dueItem = (amountMinor: number, dueKey: string) => ({ sawyerId, sawyerName: "Mara Lindqvist", yardName: "Northshore Kiln Co-op", currency: "USD", amountMinor, dueKey, accountState: "ready", blockedReason: null, lines: [{ ...line, amountMinor }], lastFailure: null });
-const sentPayout = { id: "p1", sawyerId, sawyerName: "Mara Lindqvist", yardName: "Northshore Kiln Co-op", currency: "USD", amountMinor: 226_200, status: "sent", failureReason: null, transferId: "tr_1", approvedBy: "desk@grainyard.test", createdAt: "2026-12-09T10:00:00.000Z", sentAt: "2026-12-09T10:00:01.000Z", lines: [line] };
+const line = {
+  orderId: "0d7e7a52-1111-4000-8000-000000000001",
+  listingTitle: "Bookmatched black walnut pair",
+  handedOverAt: "2026-12-01T10:00:00.000Z",
+  amountMinor: 226_200,
+};
+const dueItem = (amountMinor: number, dueKey: string) => ({
+  sawyerId,
+  sawyerName: "Mara Lindqvist",
+  yardName: "Northshore Kiln Co-op",
+  currency: "USD",
+  amountMinor,
+  dueKey,
+  accountState: "ready",
+  blockedReason: null,
+  lines: [{ ...line, amountMinor }],
+  lastFailure: null,
+});
+const sentPayout = {
+  id: "p1",
+  sawyerId,
+  sawyerName: "Mara Lindqvist",
+  yardName: "Northshore Kiln Co-op",
+  currency: "USD",
+  amountMinor: 226_200,
+  status: "sent",
+  failureReason: null,
+  transferId: "tr_1",
+  approvedBy: "desk@grainyard.test",
+  createdAt: "2026-12-09T10:00:00.000Z",
+  sentAt: "2026-12-09T10:00:01.000Z",
+  lines: [line],
+};
 
 afterEach(() => {
   api.useFetch(undefined);
@@ -28,15 +67,23 @@ describe("AdminPayoutsView", () => {
       path: "/admin/payouts",
       session: { account: admin },
       answers: {
-        [`GET ${payoutPaths.due}`]: [{ status: 200, body: { due: [dueItem(226_200, "k1")], holdDays: 7 } }, { status: 200, body: { due: [], holdDays: 7 } }],
-        [`GET ${payoutPaths.list}`]: [{ status: 200, body: { payouts: [] } }, { status: 200, body: { payouts: [sentPayout] } }],
+        [`GET ${payoutPaths.due}`]: [
+          { status: 200, body: { due: [dueItem(226_200, "k1")], holdDays: 7 } },
+          { status: 200, body: { due: [], holdDays: 7 } },
+        ],
+        [`GET ${payoutPaths.list}`]: [
+          { status: 200, body: { payouts: [] } },
+          { status: 200, body: { payouts: [sentPayout] } },
+        ],
         [`POST ${payoutPaths.approve}`]: [{ status: 200, body: { payout: sentPayout } }],
       },
     });
     expect(wrapper.find('[data-test="due-amount"]').text()).toBe("$2,262.00");
     await click('[data-test="approve-one"]');
     expect(dialog()?.textContent).toContain("Send $2,262.00?");
-    expect(document.querySelector('[data-test="confirm-recipient"]')?.textContent).toMatch(/\$2,262\.00.*Northshore Kiln Co-op \(Mara Lindqvist\).*1\s+order/s);
+    expect(document.querySelector('[data-test="confirm-recipient"]')?.textContent).toMatch(
+      /\$2,262\.00.*Northshore Kiln Co-op \(Mara Lindqvist\).*1\s+order/s,
+    );
     // Nothing is sent before the confirmation.
     expect(fetchMock.mock.calls.some(([, init]) => init?.method === "POST")).toBe(false);
     await click('[data-test="confirm"]');
@@ -51,9 +98,14 @@ describe("AdminPayoutsView", () => {
       path: "/admin/payouts",
       session: { account: admin },
       answers: {
-        [`GET ${payoutPaths.due}`]: [{ status: 200, body: { due: [dueItem(226_200, "k1")], holdDays: 7 } }, { status: 200, body: { due: [dueItem(180_000, "k2")], holdDays: 7 } }],
+        [`GET ${payoutPaths.due}`]: [
+          { status: 200, body: { due: [dueItem(226_200, "k1")], holdDays: 7 } },
+          { status: 200, body: { due: [dueItem(180_000, "k2")], holdDays: 7 } },
+        ],
         [`GET ${payoutPaths.list}`]: [{ status: 200, body: { payouts: [] } }],
-        [`POST ${payoutPaths.approve}`]: [{ status: 409, body: { error: { code: "payout_changed", message: "This payout changed since the list was loaded." } } }],
+        [`POST ${payoutPaths.approve}`]: [
+          { status: 409, body: { error: { code: "payout_changed", message: "This payout changed since the list was loaded." } } },
+        ],
       },
     });
     await click('[data-test="approve-one"]');
@@ -63,15 +115,34 @@ describe("AdminPayoutsView", () => {
   });
 
   it("approves the selected payouts as one batch and lists each outcome", async () => {
-    const other = { ...dueItem(50_000, "k3"), sawyerId: "6f1c1d7e-0000-4000-8000-000000000002", sawyerName: "Iris Okafor", yardName: "Cobble Lane Slabworks" };
+    const other = {
+      ...dueItem(50_000, "k3"),
+      sawyerId: "6f1c1d7e-0000-4000-8000-000000000002",
+      sawyerName: "Iris Okafor",
+      yardName: "Cobble Lane Slabworks",
+    };
     const { wrapper, fetchMock } = await mountView(AdminPayoutsView, {
       path: "/admin/payouts",
       session: { account: admin },
       answers: {
-        [`GET ${payoutPaths.due}`]: [{ status: 200, body: { due: [dueItem(226_200, "k1"), other], holdDays: 7 } }, { status: 200, body: { due: [], holdDays: 7 } }],
-        [`GET ${payoutPaths.list}`]: [{ status: 200, body: { payouts: [] } }, { status: 200, body: { payouts: [] } }],
+        [`GET ${payoutPaths.due}`]: [
+          { status: 200, body: { due: [dueItem(226_200, "k1"), other], holdDays: 7 } },
+          { status: 200, body: { due: [], holdDays: 7 } },
+        ],
+        [`GET ${payoutPaths.list}`]: [
+          { status: 200, body: { payouts: [] } },
+          { status: 200, body: { payouts: [] } },
+        ],
         [`POST ${payoutPaths.batch}`]: [
-          { status: 200, body: { results: [{ sawyerId, currency: "USD", payout: sentPayout, error: null }, { sawyerId: other.sawyerId, currency: "USD", payout: null, error: "This sawyer's payout account is not finished yet." }] } },
+          {
+            status: 200,
+            body: {
+              results: [
+                { sawyerId, currency: "USD", payout: sentPayout, error: null },
+                { sawyerId: other.sawyerId, currency: "USD", payout: null, error: "This sawyer's payout account is not finished yet." },
+              ],
+            },
+          },
         ],
       },
     });

@@ -22,7 +22,10 @@ const SEARCH = `GET ${cataloguePaths.search}`;
 const oak: CatalogueCard = { ...oakCard, photoUrl: "/api/v1/photos/p1/small.webp", photoAlt: "Slab 3 of the Fountain Park log, top face" };
 
 function page(results: CatalogueCard[], extra: Partial<CatalogueResult> = {}): StubbedAnswer {
-  return { status: 200, body: { results, total: results.length, totalIsAtLeast: false, nextCursor: null, near: null, fitTop: null, ...extra } };
+  return {
+    status: 200,
+    body: { results, total: results.length, totalIsAtLeast: false, nextCursor: null, near: null, fitTop: null, ...extra },
+  };
 }
 
 /** The query of each catalogue search the page sent. */
@@ -93,7 +96,9 @@ describe("BrowseView: the catalogue", () => {
     expect(last.has("fitLength")).toBe(false);
     // The card shows the margin the API gave, in the person's units (metric in this test).
     expect(wrapper.find('[data-test="fit-spare"]').text()).toContain("450 mm in length");
-    expect(wrapper.find('[data-test="fit-top"]').text()).toContain(`${topLengthForSeats(8).toLocaleString("en")} × 900 × 38 mm for 8 diners`);
+    expect(wrapper.find('[data-test="fit-top"]').text()).toContain(
+      `${topLengthForSeats(8).toLocaleString("en")} × 900 × 38 mm for 8 diners`,
+    );
   });
 
   it("refuses a number of diners outside 2–20 without searching", async () => {
@@ -114,7 +119,11 @@ describe("BrowseView: the catalogue", () => {
     const empty = wrapper.find('[data-test="no-results"]');
     expect(empty.exists()).toBe(true);
     const chips = empty.findAll("button[data-filter]");
-    expect(chips.map((chip) => chip.text().replace(/×.*$/s, "").trim())).toEqual(["Black cherry", "Length from 2,000 mm", "Ready to work only"]);
+    expect(chips.map((chip) => chip.text().replace(/×.*$/s, "").trim())).toEqual([
+      "Black cherry",
+      "Length from 2,000 mm",
+      "Ready to work only",
+    ]);
 
     await chips[1]!.trigger("click");
     await flushPromises();
@@ -135,7 +144,18 @@ describe("BrowseView: the catalogue", () => {
     const { wrapper } = await mountView(BrowseView, {
       path: "/browse?near=Nowhere",
       answers: {
-        [SEARCH]: [{ status: 422, body: { error: { code: "unknown_place", message: 'We could not find the town "Nowhere".', fields: { near: "Choose a town from the list." } } } }],
+        [SEARCH]: [
+          {
+            status: 422,
+            body: {
+              error: {
+                code: "unknown_place",
+                message: 'We could not find the town "Nowhere".',
+                fields: { near: "Choose a town from the list." },
+              },
+            },
+          },
+        ],
       },
     });
     expect(wrapper.find('[data-test="filter-problem"]').text()).toContain('We could not find the town "Nowhere".');

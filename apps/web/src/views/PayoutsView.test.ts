@@ -4,7 +4,16 @@ import PayoutsView from "./PayoutsView.vue";
 import { mountView } from "../test/mount-view.ts";
 import { api } from "../api/client.ts";
 
-const sawyer = { id: "acc_2", email: "kiln@northshore-coop.test", displayName: "Mara Lindqvist", role: "sawyer", emailVerified: true, yardName: "Northshore Kiln Co-op", pickupTown: "Northshore", createdAt: "2025-01-10T09:00:00.000Z" };
+const sawyer = {
+  id: "acc_2",
+  email: "kiln@northshore-coop.test",
+  displayName: "Mara Lindqvist",
+  role: "sawyer",
+  emailVerified: true,
+  yardName: "Northshore Kiln Co-op",
+  pickupTown: "Northshore",
+  createdAt: "2025-01-10T09:00:00.000Z",
+};
 const page = (state: "none" | "unfinished" | "ready", over: object = {}) => ({
   account: { state, updatedAt: null },
   blockedReason: state === "ready" ? null : "Set up a payout account so Grainyard can send you money.",
@@ -21,7 +30,11 @@ afterEach(() => {
 
 describe("PayoutsView", () => {
   it("without an account: the plain-words reason, a set-up button, and the empty states", async () => {
-    const { wrapper } = await mountView(PayoutsView, { path: "/yard/payouts", session: { account: sawyer }, answers: { [`GET ${payoutPaths.mine}`]: [{ status: 200, body: page("none") }] } });
+    const { wrapper } = await mountView(PayoutsView, {
+      path: "/yard/payouts",
+      session: { account: sawyer },
+      answers: { [`GET ${payoutPaths.mine}`]: [{ status: 200, body: page("none") }] },
+    });
     expect(wrapper.find('[data-test="account-state"]').text()).toBe("Not set up");
     expect(wrapper.find('[data-test="blocked-reason"]').text()).toContain("Set up a payout account");
     expect(wrapper.find('[data-test="start-setup"]').text()).toBe("Set up payouts");
@@ -45,11 +58,37 @@ describe("PayoutsView", () => {
   });
 
   it("shows balances in the currency and each payout with its orders", async () => {
-    const payout = { id: "p1", sawyerId: "s", sawyerName: "Mara", yardName: "Northshore Kiln Co-op", currency: "USD", amountMinor: 226_200, status: "sent", failureReason: null, transferId: "tr_1", approvedBy: null, createdAt: "2026-12-09T10:00:00.000Z", sentAt: "2026-12-09T10:00:01.000Z", lines: [{ orderId: "o1", listingTitle: "Bookmatched black walnut pair", handedOverAt: "2026-12-01T10:00:00.000Z", amountMinor: 226_200 }] };
+    const payout = {
+      id: "p1",
+      sawyerId: "s",
+      sawyerName: "Mara",
+      yardName: "Northshore Kiln Co-op",
+      currency: "USD",
+      amountMinor: 226_200,
+      status: "sent",
+      failureReason: null,
+      transferId: "tr_1",
+      approvedBy: null,
+      createdAt: "2026-12-09T10:00:00.000Z",
+      sentAt: "2026-12-09T10:00:01.000Z",
+      lines: [
+        { orderId: "o1", listingTitle: "Bookmatched black walnut pair", handedOverAt: "2026-12-01T10:00:00.000Z", amountMinor: 226_200 },
+      ],
+    };
     const { wrapper } = await mountView(PayoutsView, {
       path: "/yard/payouts",
       session: { account: sawyer },
-      answers: { [`GET ${payoutPaths.mine}`]: [{ status: 200, body: page("ready", { balances: [{ currency: "USD", pendingMinor: 5_000, availableMinor: 0, paidMinor: 226_200 }], payouts: [payout] }) }] },
+      answers: {
+        [`GET ${payoutPaths.mine}`]: [
+          {
+            status: 200,
+            body: page("ready", {
+              balances: [{ currency: "USD", pendingMinor: 5_000, availableMinor: 0, paidMinor: 226_200 }],
+              payouts: [payout],
+            }),
+          },
+        ],
+      },
     });
     expect(wrapper.find('[data-test="balance-pending"]').text()).toBe("$50.00");
     expect(wrapper.find('[data-test="balance-paid"]').text()).toBe("$2,262.00");
@@ -61,7 +100,9 @@ describe("PayoutsView", () => {
     const { wrapper } = await mountView(PayoutsView, {
       path: "/yard/payouts",
       session: { account: sawyer },
-      answers: { [`GET ${payoutPaths.mine}`]: [{ status: 503, body: { error: { code: "unavailable", message: "Grainyard is resting." } } }] },
+      answers: {
+        [`GET ${payoutPaths.mine}`]: [{ status: 503, body: { error: { code: "unavailable", message: "Grainyard is resting." } } }],
+      },
     });
     expect(wrapper.text()).toContain("We couldn't load your payouts");
   });

@@ -16,12 +16,20 @@ afterEach(() => {
 
 const LIST = `GET ${buyerPaths.savedSearches}`;
 const one = `${buyerPaths.savedSearches}/ss_1`;
-const dining = savedSearch({ query: "species=black-walnut&lengthMin=2000&seats=8", name: "Dining walnut", pendingMatches: 2, lastAlertAt: "2026-11-30T08:00:00.000Z" });
+const dining = savedSearch({
+  query: "species=black-walnut&lengthMin=2000&seats=8",
+  name: "Dining walnut",
+  pendingMatches: 2,
+  lastAlertAt: "2026-11-30T08:00:00.000Z",
+});
 
 function calls(fetchMock: { mock: { calls: unknown[][] } }, method: string) {
   return fetchMock.mock.calls
     .filter(([, init]) => (init as RequestInit | undefined)?.method === method)
-    .map(([url, init]) => ({ url: String(url), body: (init as RequestInit).body ? JSON.parse(String((init as RequestInit).body)) : undefined }));
+    .map(([url, init]) => ({
+      url: String(url),
+      body: (init as RequestInit).body ? JSON.parse(String((init as RequestInit).body)) : undefined,
+    }));
 }
 
 describe("Saved searches page", () => {
@@ -29,7 +37,11 @@ describe("Saved searches page", () => {
     const { wrapper } = await mountView(SavedSearchesView, {
       path: "/saved-searches",
       session: { account: buyerAccount },
-      answers: { [LIST]: [{ status: 200, body: { savedSearches: [dining, savedSearch({ id: "ss_2", name: "Anything", query: "", alerts: false })] } }] },
+      answers: {
+        [LIST]: [
+          { status: 200, body: { savedSearches: [dining, savedSearch({ id: "ss_2", name: "Anything", query: "", alerts: false })] } },
+        ],
+      },
     });
     const items = wrapper.findAll('[data-test="saved-search"]');
     expect(items).toHaveLength(2);
@@ -37,7 +49,9 @@ describe("Saved searches page", () => {
     expect(items[0]!.findAll(".saved__word").map((w) => w.text())).toEqual(["Black walnut", "Length from 2,000 mm", "Table for 8"]);
     expect(items[0]!.find('[data-test="saved-search-pending"]').text()).toBe("2 new slabs waiting for the next e-mail");
     expect(items[0]!.find('[data-test="saved-search-last-alert"]').text()).toBe("Nov 30, 2026");
-    expect(items[0]!.find('[data-test="saved-search-open"]').attributes("href")).toBe("/browse?species=black-walnut&lengthMin=2000&seats=8");
+    expect(items[0]!.find('[data-test="saved-search-open"]').attributes("href")).toBe(
+      "/browse?species=black-walnut&lengthMin=2000&seats=8",
+    );
     expect(items[1]!.find('[data-test="saved-search-pending"]').text()).toBe("Alerts are off");
     expect(items[1]!.find('[data-test="saved-search-last-alert"]').text()).toBe("None yet");
     expect(items[1]!.findAll(".saved__word").map((w) => w.text())).toEqual(["Every slab"]);
@@ -50,7 +64,17 @@ describe("Saved searches page", () => {
       answers: {
         [LIST]: [{ status: 200, body: { savedSearches: [savedSearch({ query: "near=demo%3Anorthshore&radiusKm=30" })] } }],
         [`GET ${cataloguePaths.search}`]: [
-          { status: 200, body: { results: [], total: 0, totalIsAtLeast: false, nextCursor: null, near: { name: "Northshore", region: "Lakemont region (demo)", latitude: 44.7, longitude: -85.4 }, fitTop: null } },
+          {
+            status: 200,
+            body: {
+              results: [],
+              total: 0,
+              totalIsAtLeast: false,
+              nextCursor: null,
+              near: { name: "Northshore", region: "Lakemont region (demo)", latitude: 44.7, longitude: -85.4 },
+              fitTop: null,
+            },
+          },
         ],
       },
     });
@@ -61,7 +85,11 @@ describe("Saved searches page", () => {
   });
 
   it("says what to do when there are none", async () => {
-    const { wrapper } = await mountView(SavedSearchesView, { path: "/saved-searches", session: { account: buyerAccount }, answers: { [LIST]: [{ status: 200, body: { savedSearches: [] } }] } });
+    const { wrapper } = await mountView(SavedSearchesView, {
+      path: "/saved-searches",
+      session: { account: buyerAccount },
+      answers: { [LIST]: [{ status: 200, body: { savedSearches: [] } }] },
+    });
     expect(wrapper.find('[data-test="saved-searches-empty"]').text()).toContain("Save this search");
   });
 

@@ -53,7 +53,13 @@ describe("SlabFormView", () => {
   it("labels the fields and starts with three width stations", async () => {
     const { wrapper } = await open();
     const labels = wrapper.findAll("label[for]").map((label) => [label.attributes("for"), label.text()]);
-    expect(labels).toEqual(expect.arrayContaining([["speciesSlug", "Species"], ["lengthMm", "Length"], ["thicknessMm", "Thickness"]]));
+    expect(labels).toEqual(
+      expect.arrayContaining([
+        ["speciesSlug", "Species"],
+        ["lengthMm", "Length"],
+        ["thicknessMm", "Thickness"],
+      ]),
+    );
     expect(wrapper.findAll('input[data-test="width-station"]')).toHaveLength(3);
     expect(wrapper.text()).toContain("Measure at evenly spaced points from one end to the other");
     await wrapper.find('[data-test="add-station"]').trigger("click");
@@ -144,6 +150,14 @@ describe("SlabFormView", () => {
     expect(post).toBeDefined();
     const body = JSON.parse(String(post![1]!.body));
     // 96 in = 2438.4 mm; 2 1/4 in = 57.15 mm; 24 1/8 in = 612.775 mm; 23.5 in = 596.9 mm
-    expect(body).toMatchObject({ speciesSlug: "white-oak", lengthMm: 2438, thicknessMm: 57, widthStationsMm: [610, 613, 597], liveEdge: "both", surfacing: "flattened", dryingMethod: "kiln" });
+    expect(body).toMatchObject({
+      speciesSlug: "white-oak",
+      lengthMm: 2438,
+      thicknessMm: 57,
+      widthStationsMm: [610, 613, 597],
+      liveEdge: "both",
+      surfacing: "flattened",
+      dryingMethod: "kiln",
+    });
   });
 });

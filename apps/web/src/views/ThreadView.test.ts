@@ -24,7 +24,15 @@ const question: Message = {
   createdAt: "2026-12-02T09:00:00.000Z",
   readAt: "2026-12-02T09:05:00.000Z",
 };
-const answer: Message = { ...question, id: "2", authorId: "acc_sawyer", authorName: "Oskar Lindqvist", fromMe: true, body: "Yes: flattened both faces.", readAt: null };
+const answer: Message = {
+  ...question,
+  id: "2",
+  authorId: "acc_sawyer",
+  authorName: "Oskar Lindqvist",
+  fromMe: true,
+  body: "Yes: flattened both faces.",
+  readAt: null,
+};
 const detail = (messages: Message[]): StubbedAnswer => ({ status: 200, body: { thread: asSawyer, messages } });
 const GET = `GET ${buyerPaths.thread("thr_1")}`;
 const POST = `POST ${buyerPaths.threadMessages("thr_1")}`;
@@ -49,7 +57,9 @@ describe("a conversation", () => {
     expect((wrapper.find('[data-test="reply-box"]').element as HTMLTextAreaElement).disabled).toBe(true);
     await flushPromises();
 
-    const posted = fetchMock.mock.calls.find(([url, init]) => String(url) === buyerPaths.threadMessages("thr_1") && (init as RequestInit).method === "POST");
+    const posted = fetchMock.mock.calls.find(
+      ([url, init]) => String(url) === buyerPaths.threadMessages("thr_1") && (init as RequestInit).method === "POST",
+    );
     expect(JSON.parse(String((posted![1] as RequestInit).body))).toEqual({ body: "Yes: flattened both faces." });
     const bubbles = wrapper.findAll('[data-test="message"]');
     expect(bubbles).toHaveLength(2);
@@ -61,7 +71,17 @@ describe("a conversation", () => {
     const { wrapper } = await mountView(ThreadView, {
       path: "/messages/thr_1",
       session: { account: sawyerAccount },
-      answers: { [GET]: [detail([question])], [POST]: [{ status: 422, body: { error: { code: "invalid", message: "Check the message.", fields: { body: "Keep the message under 4000 characters." } } } }] },
+      answers: {
+        [GET]: [detail([question])],
+        [POST]: [
+          {
+            status: 422,
+            body: {
+              error: { code: "invalid", message: "Check the message.", fields: { body: "Keep the message under 4000 characters." } },
+            },
+          },
+        ],
+      },
     });
     await wrapper.find('[data-test="reply-box"]').setValue("A long answer");
     await wrapper.find('[data-test="send-form"]').trigger("submit");
@@ -75,11 +95,18 @@ describe("a conversation", () => {
   it("picks up new messages by polling while open", async () => {
     vi.useFakeTimers({ toFake: ["setTimeout", "clearTimeout"] });
     const reply = { ...answer, id: "3", fromMe: false, authorName: "Ana and Theo Brandt", body: "Could we see it on Saturday?" };
-    const { wrapper } = await mountView(ThreadView, { path: "/messages/thr_1", session: { account: sawyerAccount }, answers: { [GET]: [detail([question]), detail([question, reply])] } });
+    const { wrapper } = await mountView(ThreadView, {
+      path: "/messages/thr_1",
+      session: { account: sawyerAccount },
+      answers: { [GET]: [detail([question]), detail([question, reply])] },
+    });
     expect(wrapper.findAll('[data-test="message"]')).toHaveLength(1);
     await vi.advanceTimersByTimeAsync(THREAD_POLL_MS + 10);
     await flushPromises();
-    expect(wrapper.findAll('[data-test="message"]').map((m) => m.find(".thread__body").text())).toEqual([question.body, "Could we see it on Saturday?"]);
+    expect(wrapper.findAll('[data-test="message"]').map((m) => m.find(".thread__body").text())).toEqual([
+      question.body,
+      "Could we see it on Saturday?",
+    ]);
     wrapper.unmount();
   });
 

@@ -5,7 +5,10 @@ import ReasonDialog from "./ReasonDialog.vue";
 
 describe("ReasonDialog", () => {
   it("refuses a reason shorter than 5 characters, then sends the trimmed reason", async () => {
-    const wrapper = mount(ReasonDialog, { props: { show: false, title: "Send back", lead: "Say what to change.", confirmLabel: "Send back" }, attachTo: document.body });
+    const wrapper = mount(ReasonDialog, {
+      props: { show: false, title: "Send back", lead: "Say what to change.", confirmLabel: "Send back" },
+      attachTo: document.body,
+    });
     await wrapper.setProps({ show: true });
     await nextTick();
     const textarea = document.querySelector<HTMLTextAreaElement>('[data-test="reason-text"]')!;

@@ -29,7 +29,10 @@ async function mountAsk(account: unknown, answers: Record<string, { status: numb
   const router = createGrainyardRouter(pinia, createMemoryHistory());
   await router.push("/slabs/lst_oak");
   await router.isReady();
-  const wrapper = mount(AskSawyer, { props: { listingId: "lst_oak", yardName: "Ridgeback Urban Timber" }, global: { plugins: [pinia, router] } });
+  const wrapper = mount(AskSawyer, {
+    props: { listingId: "lst_oak", yardName: "Ridgeback Urban Timber" },
+    global: { plugins: [pinia, router] },
+  });
   await flushPromises();
   return { wrapper, requests };
 }
@@ -39,7 +42,22 @@ describe("Ask the sawyer", () => {
     const thread = threadSummary({ lastMessage: null });
     const { wrapper, requests } = await mountAsk(buyerAccount, {
       [`GET ${buyerPaths.threads}`]: { status: 200, body: { threads: [] } },
-      [`POST ${buyerPaths.listingMessages("lst_oak")}`]: { status: 201, body: { thread, message: { id: "1", threadId: thread.id, authorId: "acc_buyer", authorName: "Ana", fromMe: true, body: "Is it flat?", createdAt: thread.createdAt, readAt: null } } },
+      [`POST ${buyerPaths.listingMessages("lst_oak")}`]: {
+        status: 201,
+        body: {
+          thread,
+          message: {
+            id: "1",
+            threadId: thread.id,
+            authorId: "acc_buyer",
+            authorName: "Ana",
+            fromMe: true,
+            body: "Is it flat?",
+            createdAt: thread.createdAt,
+            readAt: null,
+          },
+        },
+      },
     });
     await wrapper.find('[data-test="ask-body"]').setValue("Is it flat?");
     await wrapper.find("form").trigger("submit");
@@ -51,14 +69,19 @@ describe("Ask the sawyer", () => {
   });
 
   it("points to the earlier conversation when the buyer asked before", async () => {
-    const { wrapper } = await mountAsk(buyerAccount, { [`GET ${buyerPaths.threads}`]: { status: 200, body: { threads: [threadSummary({ id: "thr_old" })] } } });
+    const { wrapper } = await mountAsk(buyerAccount, {
+      [`GET ${buyerPaths.threads}`]: { status: 200, body: { threads: [threadSummary({ id: "thr_old" })] } },
+    });
     expect(wrapper.find('[data-test="ask-open-thread"]').attributes("href")).toBe("/messages/thr_old");
   });
 
   it("shows the API's reason and keeps the question when it is refused", async () => {
     const { wrapper } = await mountAsk(buyerAccount, {
       [`GET ${buyerPaths.threads}`]: { status: 200, body: { threads: [] } },
-      [`POST ${buyerPaths.listingMessages("lst_oak")}`]: { status: 404, body: { error: { code: "not_found", message: "That slab is not for sale here." } } },
+      [`POST ${buyerPaths.listingMessages("lst_oak")}`]: {
+        status: 404,
+        body: { error: { code: "not_found", message: "That slab is not for sale here." } },
+      },
     });
     await wrapper.find('[data-test="ask-body"]').setValue("Still there?");
     await wrapper.find("form").trigger("submit");

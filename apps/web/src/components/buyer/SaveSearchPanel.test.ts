@@ -15,11 +15,16 @@ afterEach(() => {
 });
 
 const SEARCH = `GET ${cataloguePaths.search}`;
-const page: StubbedAnswer = { status: 200, body: { results: [oakCard], total: 1, totalIsAtLeast: false, nextCursor: null, near: null, fitTop: null } };
+const page: StubbedAnswer = {
+  status: 200,
+  body: { results: [oakCard], total: 1, totalIsAtLeast: false, nextCursor: null, near: null, fitTop: null },
+};
 const noFavourites: StubbedAnswer = { status: 200, body: { favourites: [] } };
 
 function posted(fetchMock: { mock: { calls: unknown[][] } }) {
-  return fetchMock.mock.calls.filter(([url, init]) => String(url) === buyerPaths.savedSearches && (init as RequestInit | undefined)?.method === "POST").map(([, init]) => JSON.parse(String((init as RequestInit).body)));
+  return fetchMock.mock.calls
+    .filter(([url, init]) => String(url) === buyerPaths.savedSearches && (init as RequestInit | undefined)?.method === "POST")
+    .map(([, init]) => JSON.parse(String((init as RequestInit).body)));
 }
 
 describe("Save this search, on the catalogue", () => {
@@ -30,7 +35,12 @@ describe("Save this search, on the catalogue", () => {
       answers: {
         [SEARCH]: [page],
         [`GET ${buyerPaths.favourites}`]: [noFavourites],
-        [`POST ${buyerPaths.savedSearches}`]: [{ status: 201, body: { savedSearch: savedSearch({ name: "Oak for eight", query: "species=northern-red-oak&seats=8", alerts: false }) } }],
+        [`POST ${buyerPaths.savedSearches}`]: [
+          {
+            status: 201,
+            body: { savedSearch: savedSearch({ name: "Oak for eight", query: "species=northern-red-oak&seats=8", alerts: false }) },
+          },
+        ],
       },
     });
     await wrapper.find('[data-test="save-search-open"]').trigger("click");
@@ -55,7 +65,12 @@ describe("Save this search, on the catalogue", () => {
         [SEARCH]: [page],
         [`GET ${buyerPaths.favourites}`]: [noFavourites],
         [`POST ${buyerPaths.savedSearches}`]: [
-          { status: 409, body: { error: { code: "too_many_saved_searches", message: "You can keep up to 50 saved searches. Delete one you no longer use." } } },
+          {
+            status: 409,
+            body: {
+              error: { code: "too_many_saved_searches", message: "You can keep up to 50 saved searches. Delete one you no longer use." },
+            },
+          },
         ],
       },
     });
@@ -82,7 +97,10 @@ describe("Save this search, on the catalogue", () => {
   });
 
   it("asks anyone not signed in to sign in, and brings them back to the same search with the form open", async () => {
-    const { wrapper, router } = await mountView(BrowseView, { path: "/browse?seats=8&species=black-walnut", answers: { [SEARCH]: [page] } });
+    const { wrapper, router } = await mountView(BrowseView, {
+      path: "/browse?seats=8&species=black-walnut",
+      answers: { [SEARCH]: [page] },
+    });
     await wrapper.find('[data-test="save-search-open"]').trigger("click");
     const link = wrapper.find('[data-test="save-search-sign-in-link"]');
     const next = new URL(link.attributes("href")!, "http://x").searchParams.get("next")!;
@@ -102,7 +120,11 @@ describe("Save this search, on the catalogue", () => {
   });
 
   it("is not offered to a sawyer", async () => {
-    const { wrapper } = await mountView(BrowseView, { path: "/browse?seats=8", session: { account: sawyerAccount }, answers: { [SEARCH]: [page] } });
+    const { wrapper } = await mountView(BrowseView, {
+      path: "/browse?seats=8",
+      session: { account: sawyerAccount },
+      answers: { [SEARCH]: [page] },
+    });
     expect(wrapper.find('[data-test="save-search"]').exists()).toBe(false);
     expect(wrapper.find('[data-test="favourite-toggle"]').exists()).toBe(false);
   });

@@ -26,7 +26,12 @@ afterEach(() => localStorage.removeItem(UNITS_STORAGE_KEY));
 describe("MovementForecast", () => {
   it("shows the EMC of each season and the width change for the first climate", () => {
     const preset = CLIMATE_PRESETS[0]!;
-    const expected = seasonalMovement({ widthMm: oak.averageWidthMm, speciesSlug: oak.speciesSlug, summer: preset.summer, winter: preset.winter });
+    const expected = seasonalMovement({
+      widthMm: oak.averageWidthMm,
+      speciesSlug: oak.speciesSlug,
+      summer: preset.summer,
+      winter: preset.winter,
+    });
     const wrapper = mountForecast();
     expect(wrapper.find('[data-test="movement-summer-emc"]').text()).toContain(`${oneDecimal(expected.summerEmcPct)} %`);
     expect(wrapper.find('[data-test="movement-winter-emc"]').text()).toContain(`${oneDecimal(expected.winterEmcPct)} %`);
@@ -44,7 +49,12 @@ describe("MovementForecast", () => {
     const wrapper = mountForecast([oak, walnut]);
     await wrapper.find(`input[name="movement-climate"][value="${preset.id}"]`).setValue(true);
     await wrapper.find(`input[name="movement-slab"][value="${walnut.id}"]`).setValue(true);
-    const expected = seasonalMovement({ widthMm: walnut.averageWidthMm, speciesSlug: walnut.speciesSlug, summer: preset.summer, winter: preset.winter });
+    const expected = seasonalMovement({
+      widthMm: walnut.averageWidthMm,
+      speciesSlug: walnut.speciesSlug,
+      summer: preset.summer,
+      winter: preset.winter,
+    });
     expect(wrapper.find('[data-test="movement-width-change"]').text()).toContain(`${oneDecimal(expected.widthChangeMm)} mm`);
     expect(wrapper.find('[data-test="movement-summer-emc"]').text()).toContain(`${oneDecimal(expected.summerEmcPct)} %`);
   });

@@ -11,20 +11,38 @@ afterEach(() => {
   document.body.innerHTML = "";
 });
 
-const threads = { status: 200, body: { threads: [threadSummary({ unreadCount: 2 }), threadSummary({ id: "thr_2", unreadCount: 1 }), threadSummary({ id: "thr_3" })] } };
+const threads = {
+  status: 200,
+  body: { threads: [threadSummary({ unreadCount: 2 }), threadSummary({ id: "thr_2", unreadCount: 1 }), threadSummary({ id: "thr_3" })] },
+};
 
 describe("top bar", () => {
   it("gives a buyer the buyer tools and the unread count on Messages and on the phone's menu button", async () => {
-    const { wrapper } = await mountView(TopBar, { path: "/browse", session: { account: buyerAccount }, answers: { [`GET ${buyerPaths.threads}`]: [threads] } });
+    const { wrapper } = await mountView(TopBar, {
+      path: "/browse",
+      session: { account: buyerAccount },
+      answers: { [`GET ${buyerPaths.threads}`]: [threads] },
+    });
     await flushPromises();
-    expect(wrapper.findAll(".topbar__list a").map((a) => a.text().replace(/\s+/g, " ").trim())).toEqual(["Browse", "Favourites", "Saved searches", "Messages 3 unread", "My orders", "My account"]);
+    expect(wrapper.findAll(".topbar__list a").map((a) => a.text().replace(/\s+/g, " ").trim())).toEqual([
+      "Browse",
+      "Favourites",
+      "Saved searches",
+      "Messages 3 unread",
+      "My orders",
+      "My account",
+    ]);
     expect(wrapper.find('[data-test="unread-badge"]').text()).toBe("3 unread");
     expect(wrapper.find('[data-test="menu-unread"]').text()).toContain("3");
     wrapper.unmount();
   });
 
   it("gives a sawyer Messages beside the yard, with no badge when all is read", async () => {
-    const { wrapper } = await mountView(TopBar, { path: "/yard", session: { account: sawyerAccount }, answers: { [`GET ${buyerPaths.threads}`]: [{ status: 200, body: { threads: [threadSummary({ myRole: "sawyer" })] } }] } });
+    const { wrapper } = await mountView(TopBar, {
+      path: "/yard",
+      session: { account: sawyerAccount },
+      answers: { [`GET ${buyerPaths.threads}`]: [{ status: 200, body: { threads: [threadSummary({ myRole: "sawyer" })] } }] },
+    });
     await flushPromises();
     expect(wrapper.findAll(".topbar__list a").map((a) => a.text().trim())).toEqual(["My yard", "Orders", "Messages", "Payouts"]);
     expect(wrapper.find('[data-test="unread-badge"]').exists()).toBe(false);

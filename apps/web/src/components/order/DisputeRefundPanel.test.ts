@@ -7,7 +7,13 @@ import { api } from "../../api/client.ts";
 const orderId = "0d7e7a52-1111-4000-8000-000000000001";
 const order = { id: orderId, currency: "USD", totalMinor: 100_000 } as unknown as Order;
 const state = (refundedMinor: number, refunds: { amountMinor: number; reason: string; createdAt: string }[] = []) => ({
-  orderId, currency: "USD", totalMinor: 100_000, refundedMinor, refundableMinor: 100_000 - refundedMinor, canRefund: refundedMinor < 100_000, refunds,
+  orderId,
+  currency: "USD",
+  totalMinor: 100_000,
+  refundedMinor,
+  refundableMinor: 100_000 - refundedMinor,
+  canRefund: refundedMinor < 100_000,
+  refunds,
 });
 
 afterEach(() => {
@@ -32,7 +38,11 @@ const click = async (selector: string) => {
 describe("DisputeRefundPanel", () => {
   it("starts with what is left, checks the reason, confirms that both parties get an e-mail, then shows the result", async () => {
     const fetchMock = stub([
-      { method: "GET", status: 200, body: state(20_000, [{ amountMinor: 20_000, reason: "A check at one end was not shown.", createdAt: "2026-12-05T10:00:00.000Z" }]) },
+      {
+        method: "GET",
+        status: 200,
+        body: state(20_000, [{ amountMinor: 20_000, reason: "A check at one end was not shown.", createdAt: "2026-12-05T10:00:00.000Z" }]),
+      },
       { method: "POST", status: 200, body: { refundedMinor: 50_000, refundableMinor: 50_000 } },
       { method: "GET", status: 200, body: state(50_000) },
     ]);

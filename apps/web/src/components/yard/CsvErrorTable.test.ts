@@ -27,8 +27,9 @@ describe("CSV import errors", () => {
   });
 
   it("sends the file's text as text/csv and reads the row errors of a 422", async () => {
-    const fetchMock = vi.fn(async () =>
-      new Response(JSON.stringify({ error: { code: "csv_rows_invalid", message: "2 rows need fixing.", rows } }), { status: 422 }),
+    const fetchMock = vi.fn(
+      async () =>
+        new Response(JSON.stringify({ error: { code: "csv_rows_invalid", message: "2 rows need fixing.", rows } }), { status: 422 }),
     );
     const client = createApiClient({ fetch: fetchMock as unknown as typeof fetch, csrfToken: () => "tok" });
     const error = await client.importSlabsCsv("speciesSlug,lengthMm\nblack-walnut,2440\n").catch((caught: unknown) => caught);

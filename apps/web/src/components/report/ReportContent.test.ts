@@ -15,7 +15,10 @@ afterEach(() => {
   document.body.innerHTML = "";
 });
 
-async function mountReport(props: { targetKind: "listing" | "message"; targetId: string; ownerId: string | null; compact?: boolean }, reportAnswer = { status: 201, body: { report: {} } as unknown }) {
+async function mountReport(
+  props: { targetKind: "listing" | "message"; targetId: string; ownerId: string | null; compact?: boolean },
+  reportAnswer = { status: 201, body: { report: {} } as unknown },
+) {
   const requests: { key: string; body: unknown }[] = [];
   api.useFetch((async (url: string, init?: RequestInit) => {
     const key = `${init?.method ?? "GET"} ${String(url).split("?")[0]}`;
@@ -42,7 +45,11 @@ describe("report a listing or a message", () => {
     await wrapper.find('[data-test="report-message"]').trigger("click");
     wrapper.findComponent(ReasonDialog).vm.$emit("confirm", "Asks me to pay by bank transfer outside Grainyard.");
     await flushPromises();
-    expect(requests.find((r) => r.key === `POST ${reportPaths.reports}`)?.body).toEqual({ targetKind: "message", targetId: "msg_1", reason: "Asks me to pay by bank transfer outside Grainyard." });
+    expect(requests.find((r) => r.key === `POST ${reportPaths.reports}`)?.body).toEqual({
+      targetKind: "message",
+      targetId: "msg_1",
+      reason: "Asks me to pay by bank transfer outside Grainyard.",
+    });
     expect(wrapper.text()).toContain("Reported. Thank you.");
   });
 
@@ -52,7 +59,13 @@ describe("report a listing or a message", () => {
   });
 
   it("keeps the dialog open with the API's words on the reason when it is refused", async () => {
-    const { wrapper } = await mountReport({ targetKind: "listing", targetId: "lst_1", ownerId: null }, { status: 422, body: { error: { code: "invalid", message: "Check the reason.", fields: { reason: "Tell us what is wrong, in a few words." } } } });
+    const { wrapper } = await mountReport(
+      { targetKind: "listing", targetId: "lst_1", ownerId: null },
+      {
+        status: 422,
+        body: { error: { code: "invalid", message: "Check the reason.", fields: { reason: "Tell us what is wrong, in a few words." } } },
+      },
+    );
     await wrapper.find('[data-test="report-listing"]').trigger("click");
     wrapper.findComponent(ReasonDialog).vm.$emit("confirm", "x");
     await flushPromises();

@@ -1,0 +1,32 @@
+import type { DataSource } from "typeorm";
+import type { Health } from "@grainyard/contracts";
+import type { Mailer } from "../integrations/mail.ts";
+import type { Payments } from "../integrations/payments.ts";
+import type { PhotoStorage } from "../integrations/storage.ts";
+
+export interface HealthService {
+  /** Each part of the stack as up or down; "degraded" when any part is down. */
+  check(): Promise<Health>;
+}
+
+export function createHealthService(deps: {
+  dataSource: DataSource;
+  storage: PhotoStorage;
+  mailer: Mailer;
+  payments: Payments;
+}): HealthService {
+  return {
+    async check() {
+      const database = deps.dataSource
+        .query("SELECT 1")
+        .then(() => true)
+        .catch(() => false);
+      const [db, storage, mail, payments] = await Promise.all([database, deps.storage.isUp(), deps.mailer.isUp(), deps.payments.isUp()]);
+      const state = (up: boolean) => (up ? "up" : "down") as "up" | "down";
+      return {
+        status: db && storage && mail && payments ? "ok" : "degraded",
+        components: { database: state(db), storage: state(storage), mail: state(mail), payments: state(payments) },
+      };
+    },
+  };
+}

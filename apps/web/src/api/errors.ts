@@ -1,0 +1,47 @@
+/**
+ * Every failed API call becomes an ApiRequestError with status, code, message and per-field messages,
+ * so views can always show a message. Shared UI may import this file (it holds no client).
+ */
+/** Codes the client itself produces when no API answer could be read. */
+export const clientErrorCodes = {
+  offline: "offline",
+  unavailable: "unavailable",
+  unexpectedResponse: "unexpected_response",
+} as const;
+
+export const OFFLINE_MESSAGE = "You seem to be offline. Check your connection and try again.";
+export const UNAVAILABLE_MESSAGE = "Grainyard can't be reached right now. Please try again in a moment.";
+export const UNEXPECTED_MESSAGE = "The server sent an answer we did not understand. Please try again.";
+
+export class ApiRequestError extends Error {
+  readonly status: number;
+  readonly code: string;
+  readonly fields: Record<string, string>;
+  /** The whole `error` object of the answer, for codes that carry more (e.g. CSV row errors). */
+  readonly detail: unknown;
+
+  constructor(status: number, code: string, message: string, fields: Record<string, string> = {}, detail: unknown = undefined) {
+    super(message);
+    this.name = "ApiRequestError";
+    this.status = status;
+    this.code = code;
+    this.fields = fields;
+    this.detail = detail;
+  }
+
+  /** True when no answer came back at all (no network, or the server is down). */
+  get isOffline(): boolean {
+    return this.code === clientErrorCodes.offline;
+  }
+
+  get hasFieldMessages(): boolean {
+    return Object.keys(this.fields).length > 0;
+  }
+}
+
+/** Turns anything thrown into an ApiRequestError so views can always show a message. */
+export function toApiRequestError(error: unknown): ApiRequestError {
+  if (error instanceof ApiRequestError) return error;
+  const message = error instanceof Error && error.message ? error.message : UNEXPECTED_MESSAGE;
+  return new ApiRequestError(0, clientErrorCodes.unexpectedResponse, message);
+}
