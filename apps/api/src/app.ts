@@ -1,5 +1,3 @@
-import { existsSync } from "node:fs";
-import { join } from "node:path";
 import compression from "compression";
 import cookieSession from "cookie-session";
 import express, { type NextFunction, type Request, type Response } from "express";
@@ -46,6 +44,7 @@ import { createDashboardService } from "./services/dashboard-service.ts";
 import { createReportService } from "./services/report-service.ts";
 import { createSettingsService } from "./services/settings-service.ts";
 import { movableClock, testClockRoutes } from "./routes/test-clock-routes.ts";
+import { webApp } from "./web/web-app.ts";
 
 export interface AppDependencies {
   config: AppConfig;
@@ -248,24 +247,8 @@ export function createApp(appDeps: AppDependencies) {
   if (testClock) app.use("/api/_test", testClockRoutes(testClock));
   app.use("/api", apiNotFound);
 
-  // The built web app, with the single-page fallback for its own routes.
-  if (config.webDist && existsSync(join(config.webDist, "index.html"))) {
-    const webDist = config.webDist;
-    // Vite names built scripts, styles and fonts by their content, so a browser may keep them for good;
-    // one that is missing is a 404, never the app's page in its place.
-    app.use(
-      "/assets",
-      express.static(join(webDist, "assets"), { index: false, immutable: true, maxAge: "365d" }),
-      (_req: Request, res: Response) => {
-        res.status(404).type("text/plain").send("Not found");
-      },
-    );
-    app.use(express.static(webDist, { index: false, maxAge: production ? "1h" : 0 }));
-    app.get("/{*path}", (_req, res) => {
-      res.setHeader("cache-control", "no-cache");
-      res.sendFile(join(webDist, "index.html"));
-    });
-  }
+  // robots.txt, the sitemaps, the built web app's files and its pages (public ones rendered on the server).
+  app.use(webApp({ config, logger, dataSource: deps.dataSource }));
 
   app.use(errorHandler(logger));
   // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule.

@@ -38,6 +38,10 @@ const environmentSchema = z.object({
   AUTO_COMPLETE_DAYS: z.coerce.number().int().min(1).max(90).default(14),
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),
   WEB_DIST: z.string().optional(),
+  /** Development only: the web app's source folder; pages are rendered through Vite (hot reload). */
+  WEB_DEV_ROOT: z.string().optional(),
+  /** Development only: the port of Vite's hot-reload socket. */
+  WEB_DEV_HMR_PORT: z.coerce.number().int().min(1).max(65535).optional(),
   LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
   SIGN_IN_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(5),
   SIGN_IN_LIMIT_PER_IP: z.coerce.number().int().min(1).default(30),
@@ -61,6 +65,8 @@ export interface AppConfig {
   checkout: { reservationMinutes: number; taxRateBps: number; autoCompleteDays: number };
   bcryptCost: number;
   webDist?: string;
+  /** Vite in middleware mode instead of the built app (`npm run dev` only). */
+  webDev?: { root: string; hmrPort?: number };
   logLevel: string;
   /** Short-lived cache of repeated catalogue searches (see catalogue-service.ts). */
   catalogueCache: boolean;
@@ -81,6 +87,9 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
   // Cost 12 or more outside tests: weaker hashing is only for fast test runs.
   if (env.NODE_ENV !== "test" && env.BCRYPT_COST < 12) {
     throw new ConfigError("configuration: BCRYPT_COST below 12 is allowed only when NODE_ENV=test.");
+  }
+  if (env.WEB_DEV_ROOT && env.NODE_ENV !== "development") {
+    throw new ConfigError("configuration: WEB_DEV_ROOT (Vite inside the API) is allowed only when NODE_ENV=development.");
   }
   if (env.GRAINYARD_TEST_CLOCK === "1" && env.NODE_ENV !== "test") {
     throw new ConfigError("configuration: GRAINYARD_TEST_CLOCK is allowed only when NODE_ENV=test.");
@@ -124,6 +133,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
     checkout: { reservationMinutes: env.RESERVATION_MINUTES, taxRateBps: env.TAX_RATE_BPS, autoCompleteDays: env.AUTO_COMPLETE_DAYS },
     bcryptCost: env.BCRYPT_COST,
     webDist: env.WEB_DIST,
+    webDev: env.WEB_DEV_ROOT ? { root: env.WEB_DEV_ROOT, hmrPort: env.WEB_DEV_HMR_PORT } : undefined,
     logLevel: env.LOG_LEVEL,
     catalogueCache: env.CATALOGUE_CACHE === "on",
     testClock: env.NODE_ENV === "test" && env.GRAINYARD_TEST_CLOCK === "1",

@@ -11,17 +11,23 @@ declare module "vue-router" {
     roles?: Role[];
     /** Pages for people who are not signed in (signed-in people go to their home). */
     guestOnly?: boolean;
+    /**
+     * Public pages the server renders (as anyone not signed in would see them) and the browser
+     * hydrates; the signed-in parts appear once the session is read. Every other page is sent as
+     * the bare app shell and drawn in the browser.
+     */
+    ssr?: boolean;
   }
 }
 
 export const routes: RouteRecordRaw[] = [
-  { path: "/", name: "home", component: () => import("./views/HomeView.vue"), meta: { title: "Slabs from city trees" } },
-  { path: "/browse", name: "browse", component: () => import("./views/BrowseView.vue"), meta: { title: "Browse slabs" } },
+  { path: "/", name: "home", component: () => import("./views/HomeView.vue"), meta: { title: "Slabs from city trees", ssr: true } },
+  { path: "/browse", name: "browse", component: () => import("./views/BrowseView.vue"), meta: { title: "Browse slabs", ssr: true } },
   {
     path: "/slabs/:listingId",
     name: "slab-page",
     component: () => import("./views/SlabPageView.vue"),
-    meta: { title: "Slab for sale" },
+    meta: { title: "Slab for sale", ssr: true },
   },
   {
     path: "/sign-in",
@@ -209,7 +215,7 @@ export const routes: RouteRecordRaw[] = [
     path: "/:pathMatch(.*)*",
     name: "not-found",
     component: () => import("./views/NotFoundView.vue"),
-    meta: { title: "Page not found" },
+    meta: { title: "Page not found", ssr: true },
   },
 ];
 
@@ -239,6 +245,10 @@ export function createGrainyardRouter(pinia: Pinia, history: RouterHistory = cre
   });
 
   router.beforeEach(async (to) => {
+    // The server renders every page as someone not signed in would see it: it never reads a session.
+    if (import.meta.env.SSR) return true;
+    // Public pages show at once (and hydrate the server's HTML as it is); App.vue reads the session after.
+    if (to.meta.ssr) return true;
     const session = useSessionStore(pinia);
     await session.ensureLoaded();
     // If the session could not be read (offline), let the page render: App shows the offline state.
@@ -252,12 +262,6 @@ export function createGrainyardRouter(pinia: Pinia, history: RouterHistory = cre
     }
     // A wrong role is not redirected: App.vue shows a plain "not for your account" state.
     return true;
-  });
-
-  router.afterEach((to) => {
-    if (typeof document !== "undefined") {
-      document.title = to.meta.title ? `${to.meta.title} · Grainyard` : "Grainyard";
-    }
   });
 
   return router;

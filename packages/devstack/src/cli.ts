@@ -22,7 +22,7 @@ function demoAccountLines(accounts: DemoAccount[]): string[] {
 async function serve(mode: "start" | "dev"): Promise<void> {
   const profile = profileFor("local");
   const started = Date.now();
-  const extraPorts = mode === "dev" ? [{ port: profile.ports.vite, purpose: "Vite dev server" }] : [];
+  const extraPorts = mode === "dev" ? [{ port: profile.ports.vite, purpose: "Vite hot-reload socket" }] : [];
   const stack = await startStack(profile, { fresh: false, extraPorts });
   const children: ManagedProcess[] = [];
   let shuttingDown = false;
@@ -39,14 +39,14 @@ async function serve(mode: "start" | "dev"): Promise<void> {
   process.on("SIGTERM", () => void shutdown(0));
 
   try {
-    const viteUrl = `http://127.0.0.1:${profile.ports.vite}`;
     const appUrl = `http://127.0.0.1:${profile.ports.app}`;
-    const publicUrl = mode === "dev" ? viteUrl : appUrl;
     const environment = stack.apiEnvironment("grainyard", {
       NODE_ENV: "development",
-      PUBLIC_URL: publicUrl,
+      PUBLIC_URL: appUrl,
       WEB_DIST: webDist,
       LOG_LEVEL: "info",
+      // dev: the API renders the pages through Vite in middleware mode (hot reload on the Vite port's socket).
+      ...(mode === "dev" ? { WEB_DEV_ROOT: join(repoRoot, "apps/web"), WEB_DEV_HMR_PORT: String(profile.ports.vite) } : {}),
     });
     writeEnvironmentFile(join(profile.dataDir, "api.env"), environment);
     say("applying migrations and the Lakemont demo data…");
@@ -65,30 +65,23 @@ async function serve(mode: "start" | "dev"): Promise<void> {
         }
       });
     } else {
-      const api = startProcess(tsx, ["watch", "--clear-screen=false", apiEntry], {
+      // tsx reloads the API when its code changes; Vite (inside it) reloads the pages when theirs does.
+      const api = startProcess(tsx, ["watch", "--clear-screen=false", "--exclude", join(repoRoot, "apps/web/**"), apiEntry], {
         cwd: join(repoRoot, "apps/api"),
         env: { ...process.env, ...environment },
       });
       children.push(api);
       await waitForApi(appUrl, api);
-      const vite = startProcess(
-        "pnpm",
-        ["--filter", "@grainyard/web", "exec", "vite", "--host", "127.0.0.1", "--port", String(profile.ports.vite), "--strictPort"],
-        {
-          cwd: repoRoot,
-          env: { ...process.env, GRAINYARD_API_URL: appUrl },
-        },
-      );
-      children.push(vite);
-      await waitUntil(async () => (await fetch(viteUrl)).ok, 60_000, "the Vite dev server");
+      // The first page compiles the render through Vite: ask for it once so the first person does not wait.
+      await waitUntil(async () => (await fetch(`${appUrl}/`)).ok, 60_000, "the first server-rendered page");
     }
 
     banner([
       `Grainyard is running (${((Date.now() - started) / 1000).toFixed(1)} s)`,
       "",
-      `  App:    ${publicUrl}`,
+      `  App:    ${appUrl}`,
       `  Inbox:  ${stack.inboxUrl}   (every e-mail the app sends)`,
-      ...(mode === "start" ? [`  Logs:   ${logFile}`] : [`  API:    ${appUrl}`]),
+      ...(mode === "start" ? [`  Logs:   ${logFile}`] : [`  Hot reload: Vite inside the API (its socket on port ${profile.ports.vite})`]),
       "",
       "Demo accounts (Lakemont):",
       ...demoAccountLines(demoAccounts),

@@ -108,7 +108,9 @@ export async function runTestSuites(stack: RunningStack): Promise<number> {
   results.push(await runVitest("web", "@grainyard/web", {}));
   results.push(await runVitest("payments-fake", "@grainyard/payments-fake", {}));
   results.push(await runVitest("devstack", "@grainyard/devstack", testEnvironment));
-  // API integration: supertest against real MariaDB schemas, real SMTP, real S3 API.
+  // API integration: supertest against real MariaDB schemas, real SMTP, real S3 API; the server-rendered
+  // pages' suite reads the built web app, so it is built first.
+  await buildWebIfStale();
   results.push(await runVitest("api", "@grainyard/api", testEnvironment));
 
   // End-to-end: the built web app served by the API, driven in Debian's Chromium.

@@ -24,10 +24,12 @@ function newestChange(path: string): number {
 }
 
 export const webDist = join(repoRoot, "apps/web/dist");
+/** The last file each build writes: the browser's half, then the server's render. */
+const builtFiles = [join(webDist, "client", "index.html"), join(webDist, "server", "entry-server.js")];
 
-/** Builds the web app with Vite unless the last build is newer than every source file. */
+/** Builds the web app with Vite (both halves) unless the last build is newer than every source file. */
 export async function buildWebIfStale(force = false): Promise<void> {
-  const builtAt = existsSync(join(webDist, "index.html")) ? statSync(join(webDist, "index.html")).mtimeMs : 0;
+  const builtAt = Math.min(...builtFiles.map((file) => (existsSync(file) ? statSync(file).mtimeMs : 0)));
   const changedAt = Math.max(...WEB_SOURCES.map((p) => newestChange(join(repoRoot, p))));
   if (!force && builtAt > changedAt) {
     say("web app is already built and up to date");

@@ -9,12 +9,16 @@ import request from "supertest";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestContext } from "../test-support/test-context.ts";
 
-// A built web app in miniature: the page, and one content-named script larger than the compression threshold.
+// A built web app in miniature (the browser's half only, so every page is the shell): the page
+// template, and one content-named script larger than the compression threshold.
 const webDist = mkdtempSync(join(tmpdir(), "grainyard-web-"));
 const script = `export const rows = ${JSON.stringify(Array.from({ length: 400 }, (_, i) => ({ slab: i, species: "black walnut" })))};`;
-mkdirSync(join(webDist, "assets"));
-writeFileSync(join(webDist, "index.html"), "<!doctype html><title>Grainyard</title><div id=app></div>");
-writeFileSync(join(webDist, "assets", "browse-3f9a1c.js"), script);
+mkdirSync(join(webDist, "client", "assets"), { recursive: true });
+writeFileSync(
+  join(webDist, "client", "index.html"),
+  "<!doctype html><head><!--app-head--></head><div id=app><!--app-html--></div><!--app-state-->",
+);
+writeFileSync(join(webDist, "client", "assets", "browse-3f9a1c.js"), script);
 
 let ctx: Awaited<ReturnType<typeof createTestContext>>;
 
@@ -60,11 +64,21 @@ describe("serving the web app", () => {
     expect(res.text).not.toContain("<!doctype html>");
   });
 
-  it("serves the page for the app's own routes, never cached", async () => {
+  it("serves the page for the app's own routes, never cached, and never the raw template", async () => {
     const res = await request(ctx.app).get("/browse?species=white-oak");
     expect(res.status).toBe(200);
-    expect(res.text).toContain("<div id=app>");
+    expect(res.text).toContain("<div id=app></div>");
+    expect(res.text).not.toContain("<!--app-");
     expect(res.headers["cache-control"]).toBe("no-cache");
+    const template = await request(ctx.app).get("/index.html");
+    expect(template.status).toBe(301);
+    expect(template.headers.location).toBe("/");
+  });
+
+  it("answers a missing file-like address with a plain 404, not a page", async () => {
+    const res = await request(ctx.app).get("/favicon.ico");
+    expect(res.status).toBe(404);
+    expect(res.headers["content-type"]).toMatch(/^text\/plain/);
   });
 
   it("compresses the catalogue's answer once for gzip clients: the same JSON and entity tag either way", async () => {

@@ -44,6 +44,21 @@ const routes: RouteCase[] = [
     expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
   },
   {
+    name: "GET /robots.txt (public)",
+    call: (c) => c.get("/robots.txt"),
+    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+  },
+  {
+    name: "GET /sitemap.xml (public)",
+    call: (c) => c.get("/sitemap.xml"),
+    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+  },
+  {
+    name: "GET /sitemaps/pages.xml (public)",
+    call: (c) => c.get("/sitemaps/pages.xml"),
+    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+  },
+  {
     name: "GET /api/v1/yard",
     call: (c) => c.get("/api/v1/yard"),
     expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },

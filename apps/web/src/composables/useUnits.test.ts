@@ -2,7 +2,7 @@ import { beforeEach, describe, expect, it } from "vitest";
 import { createPinia, setActivePinia } from "pinia";
 import { nextTick } from "vue";
 import { convertLengthText, unitFormatter, useUnits } from "./useUnits.ts";
-import { UNITS_STORAGE_KEY, useUnitsStore } from "../stores/units.ts";
+import { UNITS_STORAGE_KEY, unitsForRequest, useUnitsStore } from "../stores/units.ts";
 
 // Expected values are worked by hand from the exact definitions (1 in = 25.4 mm,
 // 1 lb = 0.45359237 kg; International Yard and Pound Agreement, 1959).
@@ -106,5 +106,15 @@ describe("useUnits and the units store", () => {
     setActivePinia(createPinia());
     localStorage.setItem(UNITS_STORAGE_KEY, "metric");
     expect(useUnitsStore().system).toBe("metric");
+  });
+});
+
+describe("units of a server-rendered page", () => {
+  it("follows the remembered choice, then the browser's first language", () => {
+    expect(unitsForRequest("metric", "en-US,en;q=0.9")).toBe("metric");
+    expect(unitsForRequest(undefined, "en-US,en;q=0.9")).toBe("imperial");
+    expect(unitsForRequest(undefined, "en-CA,fr-CA;q=0.8")).toBe("metric");
+    expect(unitsForRequest("furlongs", "de-DE")).toBe("metric");
+    expect(unitsForRequest(undefined, undefined)).toBe("metric");
   });
 });

@@ -6,6 +6,7 @@ import { createMemoryHistory } from "vue-router";
 import { api } from "../api/client.ts";
 import { createGrainyardRouter } from "../router.ts";
 import { useSessionStore } from "../stores/session.ts";
+import { appPlugins } from "./app-plugins.ts";
 
 export interface StubbedAnswer {
   status: number;
@@ -37,8 +38,10 @@ export async function mountView(
   const router = createGrainyardRouter(pinia, createMemoryHistory());
   await router.push(options.path);
   await router.isReady();
+  // The app reads the session once a public page shows; a unit test starts with it known.
+  await session.ensureLoaded();
 
-  const wrapper = mount(view, { global: { plugins: [pinia, router] }, attachTo: document.body });
+  const wrapper = mount(view, { global: { plugins: appPlugins(pinia, router) }, attachTo: document.body });
   await flushPromises();
   return { wrapper, router, fetchMock, session };
 }

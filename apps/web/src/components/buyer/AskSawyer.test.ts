@@ -4,6 +4,7 @@ import { createPinia, setActivePinia } from "pinia";
 import { createMemoryHistory } from "vue-router";
 import { buyerPaths } from "@grainyard/contracts";
 import { api } from "../../api/client.ts";
+import { appPlugins } from "../../test/app-plugins.ts";
 import { createGrainyardRouter } from "../../router.ts";
 import { useSessionStore } from "../../stores/session.ts";
 import { buyerAccount, sawyerAccount, threadSummary } from "../../test/fixtures.ts";
@@ -29,9 +30,10 @@ async function mountAsk(account: unknown, answers: Record<string, { status: numb
   const router = createGrainyardRouter(pinia, createMemoryHistory());
   await router.push("/slabs/lst_oak");
   await router.isReady();
+  await useSessionStore(pinia).load();
   const wrapper = mount(AskSawyer, {
     props: { listingId: "lst_oak", yardName: "Ridgeback Urban Timber" },
-    global: { plugins: [pinia, router] },
+    global: { plugins: appPlugins(pinia, router) },
   });
   await flushPromises();
   return { wrapper, requests };

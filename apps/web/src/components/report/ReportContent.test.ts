@@ -4,6 +4,7 @@ import { createPinia, setActivePinia } from "pinia";
 import { createMemoryHistory } from "vue-router";
 import { reportPaths } from "@grainyard/contracts";
 import { api } from "../../api/client.ts";
+import { appPlugins } from "../../test/app-plugins.ts";
 import { createGrainyardRouter } from "../../router.ts";
 import { useSessionStore } from "../../stores/session.ts";
 import { buyerAccount } from "../../test/fixtures.ts";
@@ -33,7 +34,7 @@ async function mountReport(
   await router.push("/messages/thr_1");
   await router.isReady();
   await useSessionStore(pinia).load();
-  const wrapper = mount(ReportContent, { props, global: { plugins: [pinia, router] } });
+  const wrapper = mount(ReportContent, { props, global: { plugins: appPlugins(pinia, router) } });
   await flushPromises();
   return { wrapper, requests };
 }
