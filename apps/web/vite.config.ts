@@ -1,6 +1,8 @@
 /// <reference types="vitest/config" />
 import { defineConfig } from "vite";
 import vue from "@vitejs/plugin-vue";
+import { FontaineTransform } from "fontaine";
+import { linuxFontFallbacks } from "./font-fallbacks.ts";
 import { catalogueRouteSize } from "./route-size.ts";
 
 const apiTarget = process.env.GRAINYARD_API_URL ?? "http://127.0.0.1:5080";
@@ -11,7 +13,19 @@ const apiTarget = process.env.GRAINYARD_API_URL ?? "http://127.0.0.1:5080";
  * bundled in, so the API can run it without the web app's node_modules).
  */
 export default defineConfig(({ command, isSsrBuild }) => ({
-  plugins: [vue(), !isSsrBuild && catalogueRouteSize()],
+  plugins: [
+    vue(),
+    // Metric-matched local fallbacks ("IBM Plex Sans fallback", "Fraunces fallback"): text set in them
+    // takes the same room as in the web font, so nothing moves when the fonts arrive.
+    FontaineTransform.vite({
+      fallbacks: {
+        "IBM Plex Sans": ["Arial", "Roboto", "Helvetica Neue"],
+        Fraunces: ["Georgia", "Times New Roman"],
+      },
+    }),
+    linuxFontFallbacks(),
+    !isSsrBuild && catalogueRouteSize(),
+  ],
   server: {
     proxy: {
       "/api": { target: apiTarget, changeOrigin: false },

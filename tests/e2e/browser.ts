@@ -1,7 +1,7 @@
 import { mkdirSync } from "node:fs";
 import { request as httpRequest } from "node:http";
 import { join } from "node:path";
-import { chromium, type Browser, type Page } from "playwright-core";
+import { chromium, type Browser, type Page, type Response } from "playwright-core";
 import { expect } from "vitest";
 
 /** The real stack the test runner started: the app on one port, the mail sink's inbox on another. */
@@ -38,6 +38,17 @@ export function launchChromium(): Promise<Browser> {
         .join(",")}`,
     ],
   });
+}
+
+/**
+ * Opens a public page (rendered on the server) and waits until the browser has taken it over: its
+ * buttons and fields are on screen at once, but only work after hydration (entry-client marks the
+ * app then). Private pages are drawn by the browser, so their elements only appear once they work.
+ */
+export async function openPage(page: Page, path: string): Promise<Response | null> {
+  const response = await page.goto(new URL(path, appUrl).href);
+  await page.waitForSelector("#app[data-ready]", { state: "attached", timeout: 15_000 });
+  return response;
 }
 
 /** A PNG in the screenshot folder: the whole page, or only what is on screen (`fullPage: false`, for dialogs). */

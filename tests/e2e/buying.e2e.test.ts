@@ -14,6 +14,7 @@ import {
   signIn,
   mailsTo,
   mailArrives,
+  openPage,
 } from "./browser.ts";
 
 /** A picture of one part of a long page (the buy panel), beside the full-page ones. */
@@ -54,7 +55,7 @@ describe("buying a slab", () => {
     const problems = watchForPageErrors(page);
     await signIn(page, FERNHILL);
 
-    await page.goto(`${appUrl}/slabs/${listingId}`);
+    await openPage(page, `/slabs/${listingId}`);
     const panel = page.locator('[data-test="buy-panel"]');
     await expect.poll(() => panel.isVisible(), { timeout: 15_000 }).toBe(true);
     await expect.poll(() => page.locator('[data-test="pay-now"]').innerText()).toMatch(/\$\d/);
@@ -171,14 +172,14 @@ describe("buying a slab", () => {
     const other = await waiting.newPage();
     const otherProblems = watchForPageErrors(other);
     await signIn(other, CALLOWAY);
-    await other.goto(`${appUrl}/slabs/${listingId}`);
+    await openPage(other, `/slabs/${listingId}`);
     await expect.poll(() => other.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
 
     const context = await browser.newContext({ viewport: desktop, locale: "en-US" });
     const page = await context.newPage();
     const problems = watchForPageErrors(page);
     await signIn(page, BRANDTS);
-    await page.goto(`${appUrl}/slabs/${listingId}`);
+    await openPage(page, `/slabs/${listingId}`);
     await expect.poll(() => page.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
     await page.locator('[data-test="handover-freight"]').check({ force: true });
     await page.locator('[data-test="delivery-address"]').fill("Ana and Theo Brandt\n31 Orchard Terrace\nLakemont");
@@ -226,7 +227,7 @@ describe("buying a slab", () => {
     const page = await context.newPage();
     const problems = watchForPageErrors(page);
     await signIn(page, CALLOWAY);
-    await page.goto(`${appUrl}/slabs/${listingId}`);
+    await openPage(page, `/slabs/${listingId}`);
     await expect.poll(() => page.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
     await page.locator('[data-test="handover-pickup"]').check({ force: true });
     await page.locator('[data-test="buy"]').click();

@@ -1,6 +1,6 @@
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, watchForPageErrors } from "./browser.ts";
+import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, watchForPageErrors, openPage } from "./browser.ts";
 
 /*
  * A couple building their first dining table look for a slab that seats eight, save the search
@@ -98,7 +98,7 @@ describe("a homeowner's dining table", () => {
     const problems = watchForPageErrors(page);
 
     // Not signed in yet: saving the search asks to sign in and comes back to the same search.
-    await page.goto(`${appUrl}/browse?seats=8`);
+    await openPage(page, `/browse?seats=8`);
     await visible(page, '[data-test="catalogue-card"]');
     await page.locator('[data-test="save-search-open"]').click();
     await visible(page, '[data-test="save-search-sign-in"]');
@@ -114,7 +114,7 @@ describe("a homeowner's dining table", () => {
     await page.getByRole("button", { name: "Cancel" }).click();
 
     // The search from the fit panel: a table for eight.
-    await page.goto(`${appUrl}/browse`);
+    await openPage(page, `/browse`);
     await page.locator("#fit-seats").fill("8");
     await page.locator('[data-test="fit-search"]').click();
     await page.waitForURL(/\/browse\?seats=8$/);
@@ -142,7 +142,7 @@ describe("a homeowner's dining table", () => {
     await shot(page, "slab-page-buyer-1280");
 
     // Back to the search, and save it with e-mail alerts.
-    await page.goto(`${appUrl}/browse?seats=8`);
+    await openPage(page, `/browse?seats=8`);
     await page.locator('[data-test="save-search-open"]').click();
     await expect.poll(() => page.locator('[data-test="save-search-name"]').inputValue()).toBe("Table for 8");
     await page.locator('[data-test="save-search-name"]').fill(SEARCH_NAME);
@@ -242,12 +242,12 @@ describe("a homeowner's dining table", () => {
     const page = await context.newPage();
     const problems = watchForPageErrors(page);
     // Before signing in: the prompts to sign in.
-    await page.goto(`${appUrl}/browse?seats=8`);
+    await openPage(page, `/browse?seats=8`);
     await visible(page, '[data-test="catalogue-card"]');
     await page.locator('[data-test="save-search-open"]').click();
     await visible(page, '[data-test="save-search-sign-in"]');
     await shot(page, "browse-save-sign-in-390");
-    await page.goto(`${appUrl}/slabs/${newListingId}`);
+    await openPage(page, `/slabs/${newListingId}`);
     await visible(page, '[data-test="ask-sign-in"]');
     await shot(page, "slab-page-anonymous-390");
 
@@ -258,7 +258,7 @@ describe("a homeowner's dining table", () => {
     await shot(page, "menu-buyer-390");
     await page.locator('[data-test="menu-toggle"]').click();
 
-    await page.goto(`${appUrl}/browse?seats=8&species=white-oak,northern-red-oak`);
+    await openPage(page, `/browse?seats=8&species=white-oak,northern-red-oak`);
     await visible(page, '[data-test="catalogue-card"]');
     await page.locator('[data-test="save-search-open"]').click();
     await visible(page, '[data-test="save-search-form"]');
@@ -279,7 +279,7 @@ describe("a homeowner's dining table", () => {
     await visible(page, '[data-test="favourites"] [data-test="catalogue-card"]');
     await shot(page, "favourites-390");
 
-    await page.goto(`${appUrl}/slabs/${newListingId}`);
+    await openPage(page, `/slabs/${newListingId}`);
     await visible(page, '[data-test="ask-sawyer"]');
     await shot(page, "slab-page-buyer-390");
     expect(problems).toEqual([]);
@@ -312,7 +312,7 @@ describe("asking the sawyer", () => {
     const buyer = await buyerContext.newPage();
     const buyerProblems = watchForPageErrors(buyer);
     await signIn(buyer, HOMEOWNER, "/account");
-    await buyer.goto(`${appUrl}/slabs/${newListingId}`);
+    await openPage(buyer, `/slabs/${newListingId}`);
     await visible(buyer, '[data-test="ask-sawyer"]');
     await buyer
       .locator('[data-test="ask-body"]')
@@ -380,7 +380,7 @@ describe("asking the sawyer", () => {
 
     // The sawyer's own listing has no "Ask the sawyer" once the page knows who is signed in (the
     // server renders every page as for anyone; the signed-in parts follow in the browser).
-    await sawyer.goto(`${appUrl}/slabs/${newListingId}`);
+    await openPage(sawyer, `/slabs/${newListingId}`);
     await visible(sawyer, '[data-test="slab-weight"]');
     await expect.poll(() => sawyer.locator('[data-test="ask-sawyer"]').count(), { timeout: 10_000 }).toBe(0);
 

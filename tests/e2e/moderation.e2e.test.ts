@@ -1,6 +1,6 @@
 import type { APIRequestContext, Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, watchForPageErrors } from "./browser.ts";
+import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, watchForPageErrors, openPage } from "./browser.ts";
 
 /*
  * The operator desk in Chromium: an admin sends a listing back with a reason, the sawyer fixes it
@@ -163,7 +163,7 @@ describe("moderation desk", () => {
     const buyerContext = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true });
     const buyerPage = await buyerContext.newPage();
     await signIn(buyerPage, { email: "shop@fernhill-furniture.test", password: "fernhill-benches-2026" }, "/account");
-    await buyerPage.goto(`${appUrl}/slabs/${listingId}`);
+    await openPage(buyerPage, `/slabs/${listingId}`);
     await buyerPage.locator('[data-test="report-listing"]').click();
     await buyerPage.locator('[data-test="reason-text"]').fill("The crack looks wider than described.");
     await buyerPage.locator('[data-test="reason-confirm"]').click();

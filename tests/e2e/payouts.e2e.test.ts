@@ -11,6 +11,7 @@ import {
   listingIdOf,
   signIn,
   mailArrives,
+  openPage,
 } from "./browser.ts";
 
 /*
@@ -88,7 +89,7 @@ describe("payouts", () => {
     const buyer = await buyerContext.newPage();
     const buyerProblems = watchForPageErrors(buyer);
     await signIn(buyer, CALLOWAY);
-    await buyer.goto(`${appUrl}/slabs/${listingId}`);
+    await openPage(buyer, `/slabs/${listingId}`);
     await expect.poll(() => buyer.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
     await buyer.locator('[data-test="handover-freight"]').check({ force: true });
     await buyer.locator('[data-test="delivery-address"]').fill("Calloway Interiors\n8 Lantern Quay, studio 3\nLakemont");

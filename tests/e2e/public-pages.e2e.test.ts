@@ -1,6 +1,6 @@
 import type { Browser, BrowserContext, ConsoleMessage, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, desktop, launchChromium, listingIdOf, phone, screenshot, signIn } from "./browser.ts";
+import { appUrl, desktop, launchChromium, listingIdOf, openPage, phone, screenshot, signIn } from "./browser.ts";
 
 /*
  * The public pages as the server renders them: a slab page reads without JavaScript, and with it
@@ -150,5 +150,41 @@ describe("the catalogue and the home page", () => {
       expect(api, path).toEqual(["GET /api/v1/session"]);
       await context.close();
     }
+  });
+});
+
+describe("no layout shift", () => {
+  it("keeps the page still while the fonts, the scripts and the session arrive late", async () => {
+    // Late fonts: the metric-matched fallbacks take the same room. Late scripts and session: the
+    // server's page is already whole, and signed-out is what the server drew.
+    const shifts: Record<string, number> = {};
+    for (const [size, path] of [
+      ["phone", `/slabs/${walnutId}`],
+      ["phone", "/browse"],
+      ["phone", "/"],
+      ["desktop", `/slabs/${walnutId}`],
+      ["desktop", "/browse"],
+    ] as const) {
+      const context = await contextFor(size);
+      const page = await context.newPage();
+      await page.addInitScript(() => {
+        const shifted = window as unknown as { layoutShift: number };
+        shifted.layoutShift = 0;
+        new PerformanceObserver((list) => {
+          for (const entry of list.getEntries() as (PerformanceEntry & { value: number; hadRecentInput: boolean })[])
+            if (!entry.hadRecentInput) shifted.layoutShift += entry.value;
+        }).observe({ type: "layout-shift", buffered: true });
+      });
+      const later = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+      await page.route(/\.woff2$/, async (route) => (await later(1_500), route.continue()));
+      await page.route(/\/assets\/.*\.js$/, async (route) => (await later(300), route.continue()));
+      await page.route(/\/api\/v1\/session$/, async (route) => (await later(800), route.continue()));
+      await openPage(page, path);
+      await page.waitForLoadState("networkidle");
+      await page.evaluate(() => document.fonts.ready);
+      shifts[`${size} ${path}`] = await page.evaluate(() => (window as unknown as { layoutShift: number }).layoutShift);
+      await context.close();
+    }
+    for (const [page, shift] of Object.entries(shifts)) expect(shift, page).toBeLessThanOrEqual(0.05);
   });
 });

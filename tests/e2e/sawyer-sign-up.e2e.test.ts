@@ -1,6 +1,6 @@
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, watchForPageErrors } from "./browser.ts";
+import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, watchForPageErrors, openPage } from "./browser.ts";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -70,7 +70,7 @@ describe("a sawyer joins from a phone", () => {
       const context = await browser.newContext({ viewport });
       const page = await context.newPage();
       const problems = watchForPageErrors(page);
-      await page.goto(`${appUrl}/`);
+      await openPage(page, `/`);
       await expect.poll(() => page.locator("h1").first().isVisible(), { timeout: 15_000 }).toBe(true);
       await screenshot(page, `home-${label}`);
       await page.goto(`${appUrl}/sign-in`);
@@ -81,7 +81,7 @@ describe("a sawyer joins from a phone", () => {
       await expect.poll(() => page.locator('[data-test="yard-home"]').isVisible(), { timeout: 15_000 }).toBe(true);
       expect(await page.locator("body").innerText()).toContain("Ridgeback Urban Timber");
       await screenshot(page, `yard-home-${label}`);
-      const missing = await page.goto(`${appUrl}/no-such-page`);
+      const missing = await openPage(page, `/no-such-page`);
       // A real 404 from the server (search engines and link checkers see it), with the app's page.
       expect(missing?.status()).toBe(404);
       await expect.poll(() => page.locator("body").innerText(), { timeout: 10_000 }).toMatch(/404|couldn.t find/i);

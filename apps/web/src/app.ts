@@ -7,6 +7,7 @@ import "@fontsource/ibm-plex-sans/latin-500.css";
 import "@fontsource/ibm-plex-sans/latin-600.css";
 import "@fontsource/fraunces/latin-600.css";
 import "@fontsource/fraunces/latin-400-italic.css";
+import "virtual:linux-font-fallbacks.css";
 import "./styles/base.css";
 
 import { createApp, createSSRApp } from "vue";

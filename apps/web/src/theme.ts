@@ -28,8 +28,9 @@ export const palette = {
 } as const;
 
 export const fonts = {
-  body: "'IBM Plex Sans', system-ui, -apple-system, 'Segoe UI', sans-serif",
-  display: "'Fraunces', Georgia, 'Times New Roman', serif",
+  // fontaine's metric-matched fallbacks are named here by hand: it only rewrites CSS, not these strings.
+  body: "'IBM Plex Sans', 'IBM Plex Sans fallback', system-ui, -apple-system, 'Segoe UI', sans-serif",
+  display: "'Fraunces', 'Fraunces fallback', Georgia, 'Times New Roman', serif",
   mono: "ui-monospace, 'SFMono-Regular', Menlo, monospace",
 } as const;
 

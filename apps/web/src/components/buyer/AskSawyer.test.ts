@@ -68,7 +68,7 @@ describe("Ask the sawyer", () => {
     expect(requests.find((r) => r.key.startsWith("POST"))?.body).toEqual({ body: "Is it flat?" });
     expect(wrapper.find('[data-test="ask-sent"]').text()).toContain("Sent to Ridgeback Urban Timber");
     expect(wrapper.find('[data-test="ask-open-thread"]').attributes("href")).toBe(`/messages/${thread.id}`);
-  });
+  }, 20_000); // The first mount compiles the slab page on the fly: slow on a busy machine.
 
   it("points to the earlier conversation when the buyer asked before", async () => {
     const { wrapper } = await mountAsk(buyerAccount, {
