@@ -153,6 +153,52 @@ describe("the catalogue and the home page", () => {
   });
 });
 
+describe("the catalogue on a phone", () => {
+  it("shows slab cards on the first screen; filters and the table fit open in a sheet with their count on the button", async () => {
+    const context = await contextFor("phone");
+    const page = await context.newPage();
+    await openPage(page, "/browse?species=black-walnut,white-oak&ready=1");
+    const first = page.locator('[data-test="catalogue-card"]').first();
+    const box = await first.boundingBox();
+    expect(box, "a card is on the page").not.toBeNull();
+    // The card's top and its photo are within the 844 px of the first screen.
+    expect(box!.y).toBeLessThan(phone.height - 200);
+    const photo = await first.locator("img").boundingBox();
+    expect(photo!.y + photo!.height / 2).toBeLessThan(phone.height);
+    // No filter panel in the way: the two filters (species, ready) are counted on the button.
+    expect((await page.locator('[data-test="filters-count"]').innerText()).replace(/\D/g, "")).toBe("2");
+    await screenshot(page, "browse-phone-first-screen-390", { fullPage: false });
+
+    await page.locator('[data-test="filters-toggle"]').click();
+    const sheet = page.locator('[data-test="catalogue-sheet"]');
+    await expect.poll(() => sheet.isVisible()).toBe(true);
+    expect(await sheet.getByRole("checkbox", { name: /White oak/ }).isChecked()).toBe(true);
+    await screenshot(page, "browse-phone-filters-390", { fullPage: false });
+    await page.locator('[data-test="sheet-done"]').click();
+    await expect.poll(() => sheet.isVisible()).toBe(false);
+
+    // The table fit: searched from its own sheet, which closes on the answer.
+    await page.locator('[data-test="fit-toggle"]').click();
+    await page.locator("#fit-seats").fill("8");
+    await page.locator('[data-test="fit-search"]').click();
+    await page.waitForURL(/seats=8/);
+    await expect.poll(() => page.locator('[data-test="fit-toggle"]').innerText()).toContain("Table for 8");
+    await expect.poll(() => sheet.isVisible()).toBe(false);
+    await context.close();
+  });
+
+  it("keeps the filters in a column and the fit above the slabs on a wide screen", async () => {
+    const context = await contextFor("desktop");
+    const page = await context.newPage();
+    await openPage(page, "/browse");
+    expect(await page.locator('[data-test="filters-panel"]').isVisible()).toBe(true);
+    expect(await page.locator('[data-test="fit-panel"]').isVisible()).toBe(true);
+    expect(await page.locator('[data-test="filters-toggle"]').isVisible()).toBe(false);
+    await screenshot(page, "browse-desktop-1280", { fullPage: false });
+    await context.close();
+  });
+});
+
 describe("no layout shift", () => {
   it("keeps the page still while the fonts, the scripts and the session arrive late", async () => {
     // Late fonts: the metric-matched fallbacks take the same room. Late scripts and session: the

@@ -160,7 +160,9 @@ export const catalogueCardSchema = z.object({
   distanceKm: z.number().nullable(),
   /** With a fit search: the margin left over the wanted top, mm. */
   fit: z.object({ spareLengthMm: z.number(), spareWidthMm: z.number(), spareThicknessMm: z.number() }).nullable(),
+  /** The first photo, small (400 px); `photoMediumUrl` is the same at 800 px, for sharp screens. */
   photoUrl: z.string().nullable(),
+  photoMediumUrl: z.string().nullable(),
   photoAlt: z.string().nullable(),
   publishedAt: z.string(),
 });

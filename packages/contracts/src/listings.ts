@@ -110,6 +110,8 @@ export const listingPhotoSchema = z.object({
   width: z.number(),
   height: z.number(),
   smallUrl: z.string(),
+  /** 800 px on the long side: phones and catalogue cards. */
+  mediumUrl: z.string(),
   largeUrl: z.string(),
 });
 export type ListingPhoto = z.infer<typeof listingPhotoSchema>;

@@ -24,7 +24,8 @@ export const yardPaths = {
   logPhotos: (logId: string) => `${API_PREFIX}/yard/logs/${encodeURIComponent(logId)}/photos`,
   logPhoto: (logId: string, photoId: string) =>
     `${API_PREFIX}/yard/logs/${encodeURIComponent(logId)}/photos/${encodeURIComponent(photoId)}`,
-  logPhotoImage: (photoId: string, size: "small" | "large") => `${API_PREFIX}/log-photos/${encodeURIComponent(photoId)}/${size}.webp`,
+  logPhotoImage: (photoId: string, size: "small" | "medium" | "large") =>
+    `${API_PREFIX}/log-photos/${encodeURIComponent(photoId)}/${size}.webp`,
   slabs: `${API_PREFIX}/yard/slabs`,
   slab: (slabId: string) => `${API_PREFIX}/yard/slabs/${encodeURIComponent(slabId)}`,
   slabReadings: (slabId: string) => `${API_PREFIX}/yard/slabs/${encodeURIComponent(slabId)}/readings`,
@@ -39,7 +40,7 @@ export const yardPaths = {
   listingPhotoOrder: (listingId: string) => `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/photo-order`,
   listingPhoto: (listingId: string, photoId: string) =>
     `${API_PREFIX}/yard/listings/${encodeURIComponent(listingId)}/photos/${encodeURIComponent(photoId)}`,
-  photoImage: (photoId: string, size: "small" | "large") => `${API_PREFIX}/photos/${encodeURIComponent(photoId)}/${size}.webp`,
+  photoImage: (photoId: string, size: "small" | "medium" | "large") => `${API_PREFIX}/photos/${encodeURIComponent(photoId)}/${size}.webp`,
   reviewQueue: `${API_PREFIX}/admin/listings`,
   reviewApprove: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/approve`,
   reviewSendBack: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/send-back`,

@@ -248,6 +248,7 @@ export const photoSchema = z.object({
   width: z.number(),
   height: z.number(),
   smallUrl: z.string(),
+  mediumUrl: z.string(),
   largeUrl: z.string(),
 });
 export const logDetailSchema = z.object({ log: logSchema, slabs: z.array(slabSchema), photos: z.array(photoSchema) });

@@ -162,7 +162,7 @@ async function pixelAt(webp: Buffer, x: number, y: number) {
   return { r: data[offset]!, g: data[offset + 1]!, b: data[offset + 2]! };
 }
 
-function sizeNamed(sizes: Awaited<ReturnType<typeof renderDisplaySizes>>["sizes"], name: "small" | "large") {
+function sizeNamed(sizes: Awaited<ReturnType<typeof renderDisplaySizes>>["sizes"], name: "small" | "medium" | "large") {
   const size = sizes.find((entry) => entry.name === name);
   if (!size) throw new Error(`no ${name} size rendered`);
   return size;
@@ -176,6 +176,7 @@ describe("constants", () => {
     expect(MAX_PHOTO_MEGAPIXELS).toBe(40);
     expect(DISPLAY_SIZES.map((size) => [size.name, size.longSide])).toEqual([
       ["small", 400],
+      ["medium", 800],
       ["large", 1600],
     ]);
   });
@@ -198,10 +199,11 @@ describe("a phone JPEG with orientation, GPS, XMP and IPTC", () => {
     expect(await inspectPhoto(await phoneJpegWithLocation())).toEqual({ format: "jpeg", width: 1000, height: 2000, megapixels: 2 });
   });
 
-  it("renders upright sizes fitted inside 400 and 1600 px", async () => {
+  it("renders upright sizes fitted inside 400, 800 and 1600 px", async () => {
     const { sizes } = await renderDisplaySizes(await phoneJpegWithLocation());
     expect(sizes.map(({ name, width, height, contentType }) => ({ name, width, height, contentType }))).toEqual([
       { name: "small", width: 200, height: 400, contentType: "image/webp" },
+      { name: "medium", width: 400, height: 800, contentType: "image/webp" },
       { name: "large", width: 800, height: 1600, contentType: "image/webp" },
     ]);
     // Rotated 90° clockwise, the stored left (red) half is shown on top, the right (blue) below.
@@ -216,7 +218,7 @@ describe("a phone JPEG with orientation, GPS, XMP and IPTC", () => {
 
   it("serves no EXIF, GPS, XMP, IPTC or ICC in any size", async () => {
     const { sizes } = await renderDisplaySizes(await phoneJpegWithLocation());
-    expect(sizes).toHaveLength(2);
+    expect(sizes).toHaveLength(3);
     for (const size of sizes) {
       expect(sniffFormat(size.bytes)).toEqual({ kind: "supported", format: "webp" });
       const metadata = await sharp(size.bytes).metadata();
@@ -281,6 +283,7 @@ describe("other inputs", () => {
     const { sizes } = await renderDisplaySizes(png);
     expect(sizes.map(({ width, height }) => [width, height])).toEqual([
       [400, 200],
+      [800, 400],
       [1600, 800],
     ]);
     expect((await sharp(sizeNamed(sizes, "large").bytes).metadata()).hasAlpha).toBe(true);
@@ -291,6 +294,7 @@ describe("other inputs", () => {
     const { sizes } = await renderDisplaySizes(png);
     expect(sizes.map(({ name, width, height }) => [name, width, height])).toEqual([
       ["small", 300, 200],
+      ["medium", 300, 200],
       ["large", 300, 200],
     ]);
   });
@@ -301,6 +305,7 @@ describe("other inputs", () => {
     const { sizes } = await renderDisplaySizes(webp);
     expect(sizes.map(({ width, height }) => [width, height])).toEqual([
       [200, 400],
+      [400, 800],
       [700, 1400],
     ]);
   });
@@ -430,6 +435,7 @@ describe("HEIC", () => {
         const { sizes } = await renderDisplaySizes(heic);
         expect(sizes.map(({ name, width, height }) => [name, width, height])).toEqual([
           ["small", 400, 267],
+          ["medium", 800, 533],
           ["large", 1200, 800],
         ]);
         for (const size of sizes) {

@@ -22,6 +22,8 @@ const MAX_PHOTO_PIXELS = MAX_PHOTO_MEGAPIXELS * 1_000_000;
 /** The served sizes, each fitted inside a square of `longSide` pixels (never enlarged). */
 export const DISPLAY_SIZES = [
   { name: "small", longSide: 400 },
+  // A phone screen at two or three device pixels per CSS pixel, and catalogue cards on any screen.
+  { name: "medium", longSide: 800 },
   { name: "large", longSide: 1600 },
 ] as const;
 
@@ -296,17 +298,17 @@ function fitInside(longSide: number): ResizeOptions {
 }
 
 /**
- * Renders the served sizes as WebP: upright, fitted inside 400 and 1600 px (never enlarged),
+ * Renders the served sizes as WebP: upright, fitted inside 400, 800 and 1600 px (never enlarged),
  * converted to sRGB, with every piece of metadata removed. Checks the photo first like
  * `inspectPhoto`, so it is safe to call on an unchecked upload.
  */
 export async function renderDisplaySizes(bytes: Buffer): Promise<{ sizes: DisplayImage[] }> {
   const { format } = await inspectPhoto(bytes);
-  const [small, large] = DISPLAY_SIZES;
+  const [small, medium, large] = DISPLAY_SIZES;
   try {
     // Decode once into the large size: for JPEG, libvips shrinks while decoding (a 4000 px photo
     // is decoded at 2000 px), which is most of the saving. The small size is made from the
-    // large one rather than from the original; both encodes then run side by side.
+    // large one rather than from the original, as is the medium; the encodes then run side by side.
     const upright = await openUpright(bytes, format);
     const { data, info } = await upright
       .resize(fitInside(large.longSide))
@@ -316,6 +318,7 @@ export async function renderDisplaySizes(bytes: Buffer): Promise<{ sizes: Displa
     const largeRaw = () => sharp(data, { raw: { width: info.width, height: info.height, channels: info.channels } });
     const sizes = await Promise.all([
       encodeWebp(largeRaw().resize(fitInside(small.longSide)), small.name),
+      encodeWebp(largeRaw().resize(fitInside(medium.longSide)), medium.name),
       encodeWebp(largeRaw(), large.name),
     ]);
     return { sizes };
@@ -323,4 +326,13 @@ export async function renderDisplaySizes(bytes: Buffer): Promise<{ sizes: Displa
     if (error instanceof PhotoRejected) throw error;
     throw rejectionFromSharpError(error, format);
   }
+}
+
+/**
+ * The medium size from a stored large one, for photos uploaded before the medium size existed
+ * (their original stays private and untouched; the large one is already upright, sRGB and bare).
+ */
+export async function mediumFromLarge(large: Buffer): Promise<Buffer> {
+  const medium = DISPLAY_SIZES.find((size) => size.name === "medium")!;
+  return (await encodeWebp(sharp(large, SHARP_INPUT_OPTIONS).resize(fitInside(medium.longSide)), "medium")).bytes;
 }

@@ -32,12 +32,13 @@ export function originalKey(listingId: string, photoId: string): string {
 
 /** Log photos live under their own prefix: `logs/<logId>/<photoId>/original` and `logs/<logId>/<photoId>/<size>.webp`. */
 export function logPhotoKey(logId: string, photoId: string, size: DisplaySizeName | "original"): string {
-  if (size !== "small" && size !== "large" && size !== "original") throw new TypeError(`unknown log photo size ${JSON.stringify(size)}`);
+  if (size !== "small" && size !== "medium" && size !== "large" && size !== "original")
+    throw new TypeError(`unknown log photo size ${JSON.stringify(size)}`);
   return `logs/${keySegment(logId, "logId")}/${keySegment(photoId, "photoId")}/${size === "original" ? "original" : `${size}.webp`}`;
 }
 
 export function displayKey(listingId: string, photoId: string, size: DisplaySizeName): string {
-  if (size !== "small" && size !== "large") throw new TypeError(`unknown display size ${JSON.stringify(size)}`);
+  if (size !== "small" && size !== "medium" && size !== "large") throw new TypeError(`unknown display size ${JSON.stringify(size)}`);
   return `display/${keySegment(listingId, "listingId")}/${keySegment(photoId, "photoId")}/${size}.webp`;
 }
 

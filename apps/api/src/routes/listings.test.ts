@@ -1,4 +1,4 @@
-import { GetObjectCommand, ListObjectsV2Command } from "@aws-sdk/client-s3";
+import { DeleteObjectCommand, GetObjectCommand, ListObjectsV2Command } from "@aws-sdk/client-s3";
 import exifReader from "exif-reader";
 import sharp from "sharp";
 import request from "supertest";
@@ -222,6 +222,7 @@ describe("photos", () => {
     const listed = await storage.client.send(new ListObjectsV2Command({ Bucket: storage.bucket, Prefix: `display/${listing.id}/` }));
     expect(listed.Contents?.map((o) => o.Key).sort()).toEqual([
       `display/${listing.id}/${res.body.photo.id}/large.webp`,
+      `display/${listing.id}/${res.body.photo.id}/medium.webp`,
       `display/${listing.id}/${res.body.photo.id}/small.webp`,
     ]);
     const small = await storage.client.send(
@@ -237,6 +238,36 @@ describe("photos", () => {
     expect((await buyer.get(res.body.photo.smallUrl)).status).toBe(404);
     expect((await otherSawyer.get(res.body.photo.smallUrl)).status).toBe(404);
     expect((await admin.get(res.body.photo.smallUrl)).status).toBe(200);
+    expect((await buyer.get(res.body.photo.mediumUrl)).status).toBe(404);
+  });
+
+  it("serves the medium size of a photo stored before that size existed, made once from its large size", async () => {
+    const slab = await newSlab(sawyer);
+    const listing = (
+      await sawyer.post("/api/v1/yard/listings", { title: "Older photo", slabIds: [slab.id], priceMode: "fixed", rateMinor: 9000 })
+    ).body.listing;
+    const res = await upload(sawyer, listing.id, await phonePhoto());
+    expect(res.body.photo.mediumUrl).toBe(`/api/v1/photos/${res.body.photo.id}/medium.webp`);
+    // As a photo from before the medium size: only small and large in storage.
+    const storage = createPhotoStorage(ctx.config.storage);
+    const mediumKey = `display/${listing.id}/${res.body.photo.id}/medium.webp`;
+    await storage.client.send(new DeleteObjectCommand({ Bucket: storage.bucket, Key: mediumKey }));
+    const served = await sawyer.agent
+      .get(res.body.photo.mediumUrl)
+      .buffer(true)
+      .parse((r, done) => {
+        const chunks: Buffer[] = [];
+        r.on("data", (c: Buffer) => chunks.push(c));
+        r.on("end", () => done(null, Buffer.concat(chunks)));
+      });
+    expect(served.status).toBe(200);
+    expect(served.headers["content-type"]).toBe("image/webp");
+    const meta = await sharp(served.body as Buffer).metadata();
+    expect([meta.format, meta.width, meta.height, meta.exif]).toEqual(["webp", 800, 533, undefined]);
+    // Stored beside the others from now on.
+    const stored = await storage.client.send(new GetObjectCommand({ Bucket: storage.bucket, Key: mediumKey }));
+    expect(Buffer.from(await stored.Body!.transformToByteArray()).equals(served.body as Buffer)).toBe(true);
+    storage.close();
   });
 
   it("refuses files that are not photos by their bytes, and stores nothing for them", async () => {

@@ -28,7 +28,7 @@ export function photoRoutes(photos: PhotoService, logPhotos: LogPhotoService) {
   });
   router.get("/photos/:photoId/:size.webp", async (req, res) => {
     const size = id(req.params.size);
-    if (size !== "small" && size !== "large") throw new NotFound("No such photo size.");
+    if (size !== "small" && size !== "medium" && size !== "large") throw new NotFound("No such photo size.");
     const bytes = await photos.image(req.actor, id(req.params.photoId), size);
     res.setHeader("content-type", "image/webp");
     res.setHeader("cache-control", "private, max-age=300");
@@ -46,7 +46,7 @@ export function photoRoutes(photos: PhotoService, logPhotos: LogPhotoService) {
   });
   router.get("/log-photos/:photoId/:size.webp", async (req, res) => {
     const size = id(req.params.size);
-    if (size !== "small" && size !== "large") throw new NotFound("No such photo size.");
+    if (size !== "small" && size !== "medium" && size !== "large") throw new NotFound("No such photo size.");
     const bytes = await logPhotos.image(req.actor, id(req.params.photoId), size);
     res.setHeader("content-type", "image/webp");
     res.setHeader("cache-control", "private, max-age=300");

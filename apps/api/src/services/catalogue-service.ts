@@ -86,6 +86,7 @@ export function plainCatalogueCard(entry: CatalogueRow): CatalogueCard {
     distanceKm: null,
     fit: null,
     photoUrl: entry.photoId ? yardPaths.photoImage(entry.photoId, "small") : null,
+    photoMediumUrl: entry.photoId ? yardPaths.photoImage(entry.photoId, "medium") : null,
     photoAlt: entry.photoAlt,
     publishedAt: entry.publishedAt.toISOString(),
   };

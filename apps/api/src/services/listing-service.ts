@@ -40,6 +40,7 @@ export function photoView(photo: ListingPhotoEntity): ListingPhoto {
     width: photo.width,
     height: photo.height,
     smallUrl: yardPaths.photoImage(photo.id, "small"),
+    mediumUrl: yardPaths.photoImage(photo.id, "medium"),
     largeUrl: yardPaths.photoImage(photo.id, "large"),
   };
 }

@@ -9,6 +9,7 @@ import {
   displayKey,
   getObjectBytes,
   inspectPhoto,
+  mediumFromLarge,
   logPhotoKey,
   originalKey,
   putObject,
@@ -52,6 +53,7 @@ export function createPhotoService(deps: { dataSource: DataSource; storage: Phot
   const keysOf = (listingId: string, photoId: string) => [
     originalKey(listingId, photoId),
     displayKey(listingId, photoId, "small"),
+    displayKey(listingId, photoId, "medium"),
     displayKey(listingId, photoId, "large"),
   ];
 
@@ -138,11 +140,25 @@ export function createPhotoService(deps: { dataSource: DataSource; storage: Phot
         const isAdmin = actor.kind === "account" && actor.role === "admin";
         if (!isOwner && !isAdmin) throw new NotFound("No such photo.");
       }
-      const bytes = await getObjectBytes(storage.client, storage.bucket, displayKey(photo.listingId, photo.id, size));
+      const bytes = await servedSize(storage, (name) => displayKey(photo.listingId, photo.id, name), size);
       if (!bytes) throw new NotFound("That photo is missing from storage.");
       return bytes;
     },
   };
+}
+
+/**
+ * One served size from storage. Photos uploaded before the medium size existed have none: it is
+ * made once from their large size, stored beside it, and served from then on.
+ */
+async function servedSize(storage: PhotoStorage, keyOf: (size: DisplaySizeName) => string, size: DisplaySizeName): Promise<Buffer | null> {
+  const bytes = await getObjectBytes(storage.client, storage.bucket, keyOf(size));
+  if (bytes || size !== "medium") return bytes;
+  const large = await getObjectBytes(storage.client, storage.bucket, keyOf("large"));
+  if (!large) return null;
+  const medium = await mediumFromLarge(large);
+  await putObject(storage.client, storage.bucket, keyOf("medium"), medium, "image/webp", { private: false });
+  return medium;
 }
 
 export type PhotoService = ReturnType<typeof createPhotoService>;
@@ -184,6 +200,7 @@ export function logPhotoView(photo: LogPhotoEntity): ListingPhoto {
     width: photo.width,
     height: photo.height,
     smallUrl: yardPaths.logPhotoImage(photo.id, "small"),
+    mediumUrl: yardPaths.logPhotoImage(photo.id, "medium"),
     largeUrl: yardPaths.logPhotoImage(photo.id, "large"),
   };
 }
@@ -194,6 +211,7 @@ export function createLogPhotoService(deps: { dataSource: DataSource; storage: P
   const keysOf = (logId: string, photoId: string) => [
     logPhotoKey(logId, photoId, "original"),
     logPhotoKey(logId, photoId, "small"),
+    logPhotoKey(logId, photoId, "medium"),
     logPhotoKey(logId, photoId, "large"),
   ];
 
@@ -280,7 +298,7 @@ export function createLogPhotoService(deps: { dataSource: DataSource; storage: P
           .getCount();
         if (shown === 0) throw new NotFound("No such photo.");
       }
-      const bytes = await getObjectBytes(storage.client, storage.bucket, logPhotoKey(photo.logId, photo.id, size));
+      const bytes = await servedSize(storage, (name) => logPhotoKey(photo.logId, photo.id, name), size);
       if (!bytes) throw new NotFound("That photo is missing from storage.");
       return bytes;
     },

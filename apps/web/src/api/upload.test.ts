@@ -49,7 +49,16 @@ function client() {
   return api;
 }
 
-const photo = { id: "ph_1", position: 0, altText: "Top face", width: 1600, height: 1000, smallUrl: "/s.webp", largeUrl: "/l.webp" };
+const photo = {
+  id: "ph_1",
+  position: 0,
+  altText: "Top face",
+  width: 1600,
+  height: 1000,
+  smallUrl: "/s.webp",
+  mediumUrl: "/m.webp",
+  largeUrl: "/l.webp",
+};
 
 describe("photo upload", () => {
   it("posts the raw bytes with the file's type, the CSRF token and the alt text, reporting progress", async () => {

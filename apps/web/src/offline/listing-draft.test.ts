@@ -78,6 +78,7 @@ function fakeApi() {
         width: 10,
         height: 10,
         smallUrl: `/s/${photoCount}`,
+        mediumUrl: `/m/${photoCount}`,
         largeUrl: `/l/${photoCount}`,
       };
       return { photo };

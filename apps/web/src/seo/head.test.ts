@@ -35,6 +35,7 @@ function walnut(status: string): CatalogueDetail {
           width: 1600,
           height: 1000,
           smallUrl: "/api/v1/photos/p2/small.webp",
+          mediumUrl: "/api/v1/photos/p2/medium.webp",
           largeUrl: "/api/v1/photos/p2/large.webp",
         },
         {
@@ -44,6 +45,7 @@ function walnut(status: string): CatalogueDetail {
           width: 1600,
           height: 1067,
           smallUrl: "/api/v1/photos/p1/small.webp",
+          mediumUrl: "/api/v1/photos/p1/medium.webp",
           largeUrl: "/api/v1/photos/p1/large.webp",
         },
       ],

@@ -50,6 +50,7 @@ export const oakCard: CatalogueCard = {
   distanceKm: null,
   fit: null,
   photoUrl: null,
+  photoMediumUrl: null,
   photoAlt: null,
   publishedAt: "2026-12-02T07:53:11.220Z",
 };

@@ -19,7 +19,12 @@ afterEach(() => {
 
 const SEARCH = `GET ${cataloguePaths.search}`;
 
-const oak: CatalogueCard = { ...oakCard, photoUrl: "/api/v1/photos/p1/small.webp", photoAlt: "Slab 3 of the Fountain Park log, top face" };
+const oak: CatalogueCard = {
+  ...oakCard,
+  photoUrl: "/api/v1/photos/p1/small.webp",
+  photoMediumUrl: "/api/v1/photos/p1/medium.webp",
+  photoAlt: "Slab 3 of the Fountain Park log, top face",
+};
 
 function page(results: CatalogueCard[], extra: Partial<CatalogueResult> = {}): StubbedAnswer {
   return {
