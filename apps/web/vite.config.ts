@@ -2,6 +2,8 @@
 import { defineConfig } from "vite";
 import vue from "@vitejs/plugin-vue";
 import { FontaineTransform } from "fontaine";
+import { VitePWA } from "vite-plugin-pwa";
+import { appShell } from "./app-shell.ts";
 import { linuxFontFallbacks } from "./font-fallbacks.ts";
 import { catalogueRouteSize } from "./route-size.ts";
 
@@ -25,6 +27,51 @@ export default defineConfig(({ command, isSsrBuild }) => ({
     }),
     linuxFontFallbacks(),
     !isSsrBuild && catalogueRouteSize(),
+    !isSsrBuild && appShell(),
+    // The sawyer's installable app: a manifest and a service worker (registered for sawyers, entry-client.ts).
+    !isSsrBuild &&
+      VitePWA({
+        registerType: "autoUpdate",
+        // entry-client registers it (no inline script under script-src 'self').
+        injectRegister: null,
+        manifest: {
+          id: "/",
+          name: "Grainyard — your yard",
+          short_name: "Grainyard",
+          description: "Your slab yard in your pocket: logs, slabs, moisture readings and listings, drafts that survive a lost connection.",
+          start_url: "/yard",
+          scope: "/",
+          display: "standalone",
+          orientation: "portrait",
+          background_color: "#f6f1e8",
+          theme_color: "#3d5a31",
+          categories: ["business", "shopping"],
+          icons: [
+            { src: "/icons/icon-192.png", sizes: "192x192", type: "image/png" },
+            { src: "/icons/icon-512.png", sizes: "512x512", type: "image/png" },
+            { src: "/icons/icon-maskable-512.png", sizes: "512x512", type: "image/png", purpose: "maskable" },
+          ],
+        },
+        workbox: {
+          // The app's own files and the shell; never the page template, never anything from the API
+          // (answers there can be personal: nothing under /api/ is cached, not even photos).
+          globPatterns: ["**/*.{js,css,woff2,svg,png}", "app-shell.html"],
+          globIgnores: ["index.html", ".vite/**"],
+          // Pages come from the server (rendered or the shell, never a cached copy); only without a
+          // connection does the saved shell answer, and the app draws the page.
+          navigateFallback: null,
+          runtimeCaching: [
+            {
+              urlPattern: ({ request }) => request.mode === "navigate",
+              handler: "NetworkOnly",
+              options: { precacheFallback: { fallbackURL: "/app-shell.html" } },
+            },
+          ],
+          cleanupOutdatedCaches: true,
+          clientsClaim: true,
+          skipWaiting: true,
+        },
+      }),
   ],
   server: {
     proxy: {

@@ -3,6 +3,7 @@
  * with (so the first paint is the server's and no query runs again); any other page is the bare
  * shell and is drawn here. The session (who is signed in) is read after either.
  */
+import { watch } from "vue";
 import { createHead } from "@unhead/vue/client";
 import { hydrateQueryCache, useQueryCache } from "@pinia/colada";
 import { createWebHistory } from "vue-router";
@@ -40,6 +41,25 @@ if (state) {
 // The API client asks the session store for the anti-forgery token on every state-changing call.
 const session = useSessionStore(pinia);
 api.useCsrfToken(() => session.csrfToken);
+
+/**
+ * The installable app is the sawyer's: the service worker (the app's files, the shell for when
+ * there is no connection; never an API answer) is registered once a sawyer is signed in, and kept
+ * up to date wherever it already runs.
+ */
+let registered = false;
+function registerServiceWorker() {
+  if (registered || !import.meta.env.PROD || !("serviceWorker" in navigator)) return;
+  registered = true;
+  void import("virtual:pwa-register").then(({ registerSW }) => registerSW({ immediate: true }));
+}
+if (typeof navigator !== "undefined" && navigator.serviceWorker?.controller) registerServiceWorker();
+watch(
+  () => session.role,
+  (role) => {
+    if (role === "sawyer") registerServiceWorker();
+  },
+);
 
 void router.isReady().then(() => {
   const container = document.getElementById("app")!;

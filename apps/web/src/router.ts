@@ -17,6 +17,8 @@ declare module "vue-router" {
      * the bare app shell and drawn in the browser.
      */
     ssr?: boolean;
+    /** Works from this device's own data when there is no connection (the sawyer's listing drafts). */
+    offline?: boolean;
   }
 }
 
@@ -106,13 +108,13 @@ export const routes: RouteRecordRaw[] = [
     path: "/yard/listings/new",
     name: "listing-new",
     component: () => import("./views/ListingFormView.vue"),
-    meta: { title: "New listing", roles: ["sawyer"] },
+    meta: { title: "New listing", roles: ["sawyer"], offline: true },
   },
   {
     path: "/yard/listings/:listingId",
     name: "listing",
     component: () => import("./views/ListingFormView.vue"),
-    meta: { title: "Listing", roles: ["sawyer"] },
+    meta: { title: "Listing", roles: ["sawyer"], offline: true },
   },
   {
     path: "/yard/payouts",
