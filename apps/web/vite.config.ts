@@ -108,5 +108,7 @@ export default defineConfig(({ command, isSsrBuild }) => ({
     environment: "happy-dom",
     include: ["src/**/*.test.ts", "route-size.test.ts"],
     restoreMocks: true,
+    // A test's first navigation compiles its lazy view on the fly; on a busy two-core machine that alone can take seconds.
+    testTimeout: 15_000,
   },
 }));
