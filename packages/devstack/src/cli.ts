@@ -1,5 +1,5 @@
 import { join } from "node:path";
-import { ensureTestTools } from "./chromium.ts";
+import { CHROMIUM, ensureTestTools } from "./chromium.ts";
 import { say, warn } from "./log.ts";
 import { startProcess, tail, type ManagedProcess } from "./processes.ts";
 import { profileFor, repoRoot } from "./profile.ts";
@@ -152,6 +152,7 @@ async function bench(): Promise<void> {
     say("seeding the national-scale catalogue (once; about 25 s)…");
     await runStep("seeding the national-scale catalogue", tsx, ["src/cli/seed-national.ts"], { cwd: api, env });
     await runStep("catalogue search benchmark", tsx, ["../../tests/bench/catalogue-search.ts"], { cwd: api, env });
+    await lighthouseBenchmark(stack);
   } catch (error) {
     warn(error instanceof Error ? error.message : String(error));
     code = 1;
@@ -159,6 +160,34 @@ async function bench(): Promise<void> {
     await stack.stop();
   }
   process.exit(code);
+}
+
+/**
+ * Lighthouse on the demo's public pages (tests/bench/lighthouse.ts): the built app served by the API
+ * on the Lakemont demo data, in its own database on the test profile's app port.
+ */
+async function lighthouseBenchmark(stack: Awaited<ReturnType<typeof startStack>>): Promise<void> {
+  ensureTestTools();
+  const environment = stack.apiEnvironment("grainyard_lighthouse", {
+    NODE_ENV: "test",
+    BCRYPT_COST: "4",
+    LOG_LEVEL: "warn",
+    WEB_DIST: webDist,
+  });
+  say("preparing the demo for Lighthouse (migrations, Lakemont data once, the built app)…");
+  await prepareDatabase(stack, "grainyard_lighthouse", environment);
+  await buildWebIfStale();
+  const logFile = join(stack.profile.dataDir, "api-lighthouse.log");
+  const api = startProcess(tsx, [apiEntry], { cwd: join(repoRoot, "apps/api"), env: { ...process.env, ...environment }, logFile });
+  try {
+    await waitForApi(environment.PUBLIC_URL!, api, logFile);
+    await runStep("Lighthouse benchmark", tsx, ["bench/lighthouse.ts"], {
+      cwd: join(repoRoot, "tests"),
+      env: { ...process.env, APP_URL: environment.PUBLIC_URL!, CHROMIUM_PATH: CHROMIUM },
+    });
+  } finally {
+    await api.stop();
+  }
 }
 
 const mode = process.argv[2];
