@@ -9,8 +9,8 @@ import { createApp } from "vue";
 import { createPinia } from "pinia";
 import App from "./App.vue";
 import { createGrainyardRouter } from "./router.ts";
-import { api } from "./api/client.ts";
 import { useSessionStore } from "./stores/session.ts";
+import { transport } from "./api/http.ts";
 
 const app = createApp(App);
 const pinia = createPinia();
@@ -18,7 +18,7 @@ app.use(pinia);
 
 // The API client asks the session store for the anti-forgery token on every state-changing call.
 const session = useSessionStore(pinia);
-api.useCsrfToken(() => session.csrfToken);
+transport.useCsrfToken(() => session.csrfToken);
 
 app.use(createGrainyardRouter(pinia));
 app.mount("#app");

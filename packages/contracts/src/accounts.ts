@@ -108,15 +108,6 @@ export const sessionSchema = z.object({
 });
 export type SessionState = z.infer<typeof sessionSchema>;
 
-export const userSearchSchema = z.object({
-  query: z.string().trim().max(100).optional(),
-  role: roleSchema.optional(),
-});
-export type UserSearchInput = z.infer<typeof userSearchSchema>;
-
-export const accountListSchema = z.object({ accounts: z.array(accountSchema) });
-export type AccountList = z.infer<typeof accountListSchema>;
-
 /** `{ account }`: the answer of sign-up, own yard and yard update. */
 export const accountEnvelopeSchema = z.object({ account: accountSchema });
 export type AccountEnvelope = z.infer<typeof accountEnvelopeSchema>;

@@ -258,5 +258,3 @@ export const slabDetailSchema = z.object({
   projection: dryingProjectionSchema,
 });
 export const csvImportResultSchema = z.object({ created: z.number() });
-export const csvRowErrorSchema = z.object({ row: z.number(), field: z.string(), message: z.string() });
-export type CsvRowError = z.infer<typeof csvRowErrorSchema>;

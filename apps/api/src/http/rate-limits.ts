@@ -52,5 +52,5 @@ export function createRateLimits(limits: AppConfig["limits"]) {
       handler: limited(resetMessage),
     }),
   ];
-  return { signIn, passwordReset };
+  return { sign_in: signIn, password_reset: passwordReset };
 }

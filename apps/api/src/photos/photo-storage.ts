@@ -14,7 +14,7 @@ import type { DisplaySizeName } from "./photo-processing.ts";
 /** The photo store did not answer or refused the request; the caller may try again later. */
 export class StorageUnavailable extends AppError {
   constructor(message: string, options?: { cause?: unknown }) {
-    super(503, "storage_unavailable", message);
+    super("storage_unavailable", message);
     if (options?.cause !== undefined) this.cause = options.cause;
   }
 }

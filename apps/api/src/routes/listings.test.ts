@@ -327,9 +327,9 @@ describe("review flow", () => {
     expect(submitted.body.listing.status).toBe("in_review");
     expect((await sawyer.patch(`/api/v1/yard/listings/${listing.id}`, { title: "Sneaky change" })).status).toBe(409);
 
-    const queue = (await admin.get("/api/v1/admin/listings")).body.listings.map((l: { id: string }) => l.id);
-    expect(queue).toContain(listing.id);
-    expect((await sawyer.get("/api/v1/admin/listings")).status).toBe(403);
+    const desk = (await admin.get("/api/v1/admin/review-desk")).body.items.map((item: { listing: { id: string } }) => item.listing.id);
+    expect(desk).toContain(listing.id);
+    expect((await sawyer.get("/api/v1/admin/review-desk")).status).toBe(403);
     expect((await admin.post(`/api/v1/admin/listings/${listing.id}/send-back`, {})).status).toBe(422);
     const sentBack = await admin.post(`/api/v1/admin/listings/${listing.id}/send-back`, { reason: "Please add a photo of the end grain." });
     expect(sentBack.body.listing).toMatchObject({ status: "sent_back", reviewNote: "Please add a photo of the end grain." });

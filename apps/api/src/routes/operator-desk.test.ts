@@ -242,10 +242,12 @@ describe("reports and suspension", () => {
       reason: "Rude answer to a question.",
     });
     expect(messageReport.status).toBe(201);
-    expect(messageReport.body.report.excerpt).toBe("Rude words here");
+    // The reporter gets a receipt, never the reported person's details.
+    expect(messageReport.body.report).toEqual({ id: expect.any(String), targetKind: "message", targetId: messageId, status: "open" });
 
     const queue = (await admin.get("/api/v1/admin/reports")).body.reports;
     expect(queue.map((r: { id: string }) => r.id)).toEqual([report.body.report.id, messageReport.body.report.id]);
+    expect(queue[1].excerpt).toBe("Rude words here");
     const dismissed = await admin.post(`/api/v1/admin/reports/${messageReport.body.report.id}/resolve`, {
       resolution: "dismiss",
       note: "Blunt, not abusive.",

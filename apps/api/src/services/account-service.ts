@@ -5,11 +5,10 @@ import type {
   PasswordResetRequestInput,
   SignInInput,
   SignUpInput,
-  UserSearchInput,
   VerifyEmailInput,
   YardProfileUpdateInput,
 } from "@grainyard/contracts";
-import { Brackets, IsNull, type DataSource, type EntityManager } from "typeorm";
+import { IsNull, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, EmailTokenEntity, SessionRecordEntity } from "../entities/index.ts";
 import type { EmailTokenPurpose } from "../entities/email-token.ts";
@@ -264,25 +263,6 @@ export function createAccountService(deps: AccountServiceDependencies) {
         }
       });
       return toAccount(await accounts().findOneByOrFail({ id: yard.id }));
-    },
-
-    /** Admin search over accounts by e-mail, name or yard. */
-    async searchAccounts(actor: Actor, input: UserSearchInput): Promise<Account[]> {
-      requireRole(actor, "admin");
-      const query = accounts().createQueryBuilder("account").orderBy("account.created_at", "DESC").limit(100);
-      if (input.role) query.andWhere("account.role = :role", { role: input.role });
-      if (input.query) {
-        const like = `%${input.query.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-        query.andWhere(
-          new Brackets((where) => {
-            where
-              .where("account.email LIKE :like", { like })
-              .orWhere("account.display_name LIKE :like", { like })
-              .orWhere("account.yard_name LIKE :like", { like });
-          }),
-        );
-      }
-      return (await query.getMany()).map(toAccount);
     },
   };
 }

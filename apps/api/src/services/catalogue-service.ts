@@ -1,7 +1,7 @@
 import { createHash, createHmac, timingSafeEqual } from "node:crypto";
 import { gzipSync } from "node:zlib";
 import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult, Place } from "@grainyard/contracts";
-import { yardPaths } from "@grainyard/contracts";
+import { listingEndpoints, pathOf } from "@grainyard/contracts";
 import {
   KILN_DRIED_TARGET_BAND,
   NIOSH_LOAD_CONSTANT_KG,
@@ -85,7 +85,7 @@ export function plainCatalogueCard(entry: CatalogueRow): CatalogueCard {
     yardName: entry.yardName,
     distanceKm: null,
     fit: null,
-    photoUrl: entry.photoId ? yardPaths.photoImage(entry.photoId, "small") : null,
+    photoUrl: entry.photoId ? pathOf(listingEndpoints.listingPhotoImage, { photoId: entry.photoId, size: "small" }) : null,
     photoAlt: entry.photoAlt,
     publishedAt: entry.publishedAt.toISOString(),
   };

@@ -10,7 +10,7 @@ import type {
   ReviewDeskItem,
   SendBackInput,
 } from "@grainyard/contracts";
-import { listingInputSchema, yardPaths } from "@grainyard/contracts";
+import { listingEndpoints, listingInputSchema, pathOf } from "@grainyard/contracts";
 import { NIOSH_LOAD_CONSTANT_KG, plausibilityWarnings, type FeeSettings } from "@grainyard/slab-math";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
@@ -39,8 +39,8 @@ export function photoView(photo: ListingPhotoEntity): ListingPhoto {
     altText: photo.altText,
     width: photo.width,
     height: photo.height,
-    smallUrl: yardPaths.photoImage(photo.id, "small"),
-    largeUrl: yardPaths.photoImage(photo.id, "large"),
+    smallUrl: pathOf(listingEndpoints.listingPhotoImage, { photoId: photo.id, size: "small" }),
+    largeUrl: pathOf(listingEndpoints.listingPhotoImage, { photoId: photo.id, size: "large" }),
   };
 }
 
@@ -332,15 +332,6 @@ export function createListingService(deps: ListingServiceDependencies) {
         await changed(manager, listingId);
         return view(manager, await manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId }));
       });
-    },
-
-    /** Admin: listings waiting for review, oldest first. */
-    async reviewQueue(actor: Actor): Promise<Listing[]> {
-      requireRole(actor, "admin");
-      const listings = await dataSource
-        .getRepository(ListingEntity)
-        .find({ where: { status: "in_review" }, order: { submittedAt: "ASC" } });
-      return Promise.all(listings.map((l) => view(dataSource.manager, l)));
     },
 
     /** Admin: the review desk — each waiting listing with plausibility warnings and what changed since its last review. */

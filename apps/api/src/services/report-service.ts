@@ -1,5 +1,5 @@
 import { randomUUID } from "node:crypto";
-import type { Report, ReportInput, ReportResolveInput, reportStatuses } from "@grainyard/contracts";
+import type { Report, ReportInput, ReportReceipt, ReportResolveInput, reportStatuses } from "@grainyard/contracts";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, ContentReportEntity, ListingEntity, MessageEntity, MessageThreadEntity } from "../entities/index.ts";
@@ -78,7 +78,7 @@ export function createReportService(deps: {
 
   return {
     /** Anyone signed in reports a listing they can see, or a message in a thread they are part of. */
-    async create(actor: Actor, input: ReportInput): Promise<Report> {
+    async create(actor: Actor, input: ReportInput): Promise<ReportReceipt> {
       const signedIn = requireSignedIn(actor);
       let listingId: string | null;
       let reportedAccountId: string;
@@ -117,7 +117,8 @@ export function createReportService(deps: {
         resolvedAt: null,
         createdAt: now(),
       });
-      return (await views([await dataSource.getRepository(ContentReportEntity).findOneByOrFail({ id })]))[0]!;
+      // The reporter gets a receipt only: who was reported (and their e-mail) is for the admins.
+      return { id, targetKind: input.targetKind, targetId: input.targetId, status: "open" };
     },
 
     /** Admin queue: open reports oldest first, or resolved ones newest first. */

@@ -1,7 +1,8 @@
 import { ref, shallowRef } from "vue";
 import type { CatalogueCard, CatalogueResult } from "@grainyard/contracts";
-import { api, toApiRequestError, type ApiRequestError } from "../api/client.ts";
 import { searchQuery, type CatalogueFilters } from "../utils/catalogue-filters.ts";
+import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
+import { catalogueApi } from "../api/catalogue.ts";
 
 const CATALOGUE_PAGE_SIZE = 24;
 
@@ -30,7 +31,7 @@ export function useCatalogueSearch(pageSize = CATALOGUE_PAGE_SIZE) {
     error.value = null;
     moreError.value = null;
     try {
-      const page = await api.searchCatalogue(searchQuery(filters, null, pageSize), mine.signal);
+      const page = await catalogueApi.searchCatalogue({ query: searchQuery(filters, null, pageSize) }, { signal: mine.signal });
       if (controller !== mine) return;
       answer.value = page;
       results.value = page.results;
@@ -52,7 +53,7 @@ export function useCatalogueSearch(pageSize = CATALOGUE_PAGE_SIZE) {
     loadingMore.value = true;
     moreError.value = null;
     try {
-      const page = await api.searchCatalogue(searchQuery(current, cursor, pageSize), mine.signal);
+      const page = await catalogueApi.searchCatalogue({ query: searchQuery(current, cursor, pageSize) }, { signal: mine.signal });
       if (controller !== mine) return;
       // The count and the town come with every page; keep the newest.
       answer.value = page;
@@ -61,7 +62,7 @@ export function useCatalogueSearch(pageSize = CATALOGUE_PAGE_SIZE) {
     } catch (caught) {
       if (mine.signal.aborted) return;
       const failure = toApiRequestError(caught);
-      if (failure.code === "bad_cursor") {
+      if (failure.is("bad_cursor")) {
         await search(current);
         return;
       }

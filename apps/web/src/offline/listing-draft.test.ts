@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { effectScope, nextTick } from "vue";
 import type { Listing, ListingInput, ListingPhoto } from "@grainyard/contracts";
-import { ApiRequestError } from "../api/client.ts";
+import { ApiRequestError } from "../api/errors.ts";
 import { createMemoryDraftStorage } from "./draft-store.ts";
 import { NEW_LISTING_KEY, newListingDraft, syncListingDraft, type ListingDraftFields, type ListingSyncApi } from "./listing-draft.ts";
 import { useListingDraft } from "../composables/useListingDraft.ts";

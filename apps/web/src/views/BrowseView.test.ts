@@ -1,8 +1,8 @@
 import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { cataloguePaths, type CatalogueCard, type CatalogueResult } from "@grainyard/contracts";
+import { catalogueEndpoints, type CatalogueCard, type CatalogueResult } from "@grainyard/contracts";
 import { topLengthForSeats } from "@grainyard/slab-math";
-import { api } from "../api/client.ts";
+import { transport } from "../api/http.ts";
 import { mountView, type StubbedAnswer } from "../test/mount-view.ts";
 import BrowseView from "./BrowseView.vue";
 import { UNITS_STORAGE_KEY } from "../stores/units.ts";
@@ -12,12 +12,12 @@ import { oakCard } from "../test/fixtures.ts";
 beforeEach(() => localStorage.setItem(UNITS_STORAGE_KEY, "metric"));
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   localStorage.removeItem(UNITS_STORAGE_KEY);
   document.body.innerHTML = "";
 });
 
-const SEARCH = `GET ${cataloguePaths.search}`;
+const SEARCH = `GET ${catalogueEndpoints.searchCatalogue.path}`;
 
 const oak: CatalogueCard = { ...oakCard, photoUrl: "/api/v1/photos/p1/small.webp", photoAlt: "Slab 3 of the Fountain Park log, top face" };
 
@@ -32,7 +32,7 @@ function page(results: CatalogueCard[], extra: Partial<CatalogueResult> = {}): S
 function searches(fetchMock: { mock: { calls: unknown[][] } }): URLSearchParams[] {
   return fetchMock.mock.calls
     .map(([url]) => String(url))
-    .filter((url) => url.startsWith(cataloguePaths.search))
+    .filter((url) => url.startsWith(catalogueEndpoints.searchCatalogue.path))
     .map((url) => new URLSearchParams(url.split("?")[1] ?? ""));
 }
 

@@ -1,12 +1,12 @@
 import { afterEach, describe, expect, it } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { apiPaths, CSRF_HEADER } from "@grainyard/contracts";
+import { accountEndpoints, CSRF_HEADER } from "@grainyard/contracts";
 import SignUpView from "./SignUpView.vue";
 import { mountView, noteFor, typeInto } from "../test/mount-view.ts";
-import { api } from "../api/client.ts";
+import { transport } from "../api/http.ts";
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
@@ -78,7 +78,7 @@ describe("SignUpView", () => {
     const { wrapper } = await mountView(SignUpView, {
       path: "/join?role=buyer",
       answers: {
-        [`POST ${apiPaths.accounts}`]: [
+        [`POST ${accountEndpoints.signUp.path}`]: [
           {
             status: 422,
             body: {
@@ -104,7 +104,7 @@ describe("SignUpView", () => {
     const { wrapper } = await mountView(SignUpView, {
       path: "/join?role=buyer",
       answers: {
-        [`POST ${apiPaths.accounts}`]: [
+        [`POST ${accountEndpoints.signUp.path}`]: [
           { status: 409, body: { error: { code: "conflict", message: "An account already uses that e-mail." } } },
         ],
       },
@@ -119,7 +119,7 @@ describe("SignUpView", () => {
   it("sends the sawyer's sign-up with the CSRF token and shows 'check your inbox'", async () => {
     const { wrapper, fetchMock } = await mountView(SignUpView, {
       path: "/join?role=sawyer",
-      answers: { [`POST ${apiPaths.accounts}`]: [{ status: 201, body: { account: newSawyer } }] },
+      answers: { [`POST ${accountEndpoints.signUp.path}`]: [{ status: 201, body: { account: newSawyer } }] },
     });
     await typeInto(wrapper, "displayName", "Wren Halloway");
     await typeInto(wrapper, "email", "  Wren@CobbleLane.example ");
