@@ -26,5 +26,7 @@ export default defineConfig({
     environment: "happy-dom",
     include: ["src/**/*.test.ts", "route-size.test.ts"],
     restoreMocks: true,
+    // Mounting a whole view with its router takes a few seconds on a busy 2-core machine.
+    testTimeout: 20_000,
   },
 });

@@ -1,3 +1,4 @@
+import escapeHtml from "escape-html";
 import { randomUUID } from "node:crypto";
 import { mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { createServer, type IncomingMessage, type ServerResponse } from "node:http";
@@ -21,9 +22,6 @@ export interface RunningMailSink {
   inboxUrl: string;
   stop(): Promise<void>;
 }
-
-const escapeHtml = (value: string) =>
-  value.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 
 function readMessages(dir: string): StoredMessage[] {
   return readdirSync(dir)

@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { SlabMathError } from "./errors.ts";
-import { feeBreakdown, refundShares, roundHalfUp, slabPrice } from "./money.ts";
+import { feeBreakdown, formatMoney, minorToInput, parseMoneyInput, refundShares, roundHalfUp, slabPrice } from "./money.ts";
 
 // Money rules are Grainyard's own specification (integer minor units, basis points, half-up once);
 // the expected values below are worked by hand.
@@ -195,5 +195,65 @@ describe("refundShares (largest remainder / Hamilton apportionment)", () => {
     expect(() => refundShares({ a: 10, b: 5 }, 16)).toThrow(SlabMathError);
     expect(() => refundShares({ a: 10 }, -1)).toThrow(SlabMathError);
     expect(() => refundShares({ a: 10.5 }, 1)).toThrow(SlabMathError);
+  });
+});
+
+describe("formatMoney", () => {
+  // Reference: ICU through Intl.NumberFormat formatting the exact decimal string (ECMA-402
+  // "Intl.NumberFormat v3" takes a decimal string without converting it to a binary float).
+  const reference = (minor: number, currency: string) => {
+    const sign = minor < 0 ? "−" : "";
+    const abs = Math.abs(minor);
+    const decimal = `${Math.floor(abs / 100)}.${String(abs % 100).padStart(2, "0")}`;
+    const text = new Intl.NumberFormat("en", { style: "currency", currency, currencyDisplay: "narrowSymbol" }).format(
+      decimal as unknown as number,
+    );
+    return sign + text;
+  };
+  it("matches ICU's exact decimal formatting, cent for cent", () => {
+    for (const [minor, currency] of [
+      [0, "USD"],
+      [1, "USD"],
+      [1234, "USD"],
+      [123_456_789, "CAD"],
+      [-500, "USD"],
+      [199_999, "EUR"],
+    ] as const) {
+      expect(formatMoney(minor, currency)).toBe(reference(minor, currency));
+    }
+    expect(formatMoney(1234, "USD")).toBe("$12.34");
+    expect(formatMoney(123_456_789, "CAD")).toBe("$1,234,567.89");
+    expect(formatMoney(-500, "USD")).toBe("−$5.00");
+  });
+  it("is exact where dividing by 100 as a float is not", () => {
+    // 9 007 199 254 740 991 / 100 as a binary float formats as …409.90: the last cent is lost.
+    expect(formatMoney(Number.MAX_SAFE_INTEGER, "USD")).toBe("$90,071,992,547,409.91");
+    fc.assert(
+      fc.property(fc.integer({ min: -1e12, max: 1e12 }), (minor) => {
+        expect(formatMoney(minor, "USD")).toBe(reference(minor, "USD"));
+      }),
+      { numRuns: 300 },
+    );
+  });
+  it("refuses a fraction of a cent", () => {
+    expect(() => formatMoney(12.5, "USD")).toThrow(SlabMathError);
+  });
+});
+
+describe("parseMoneyInput and minorToInput", () => {
+  it("reads what people type into whole cents, from the text itself", () => {
+    expect(parseMoneyInput("12.5")).toEqual({ ok: true, minor: 1250 });
+    expect(parseMoneyInput("$1 200")).toEqual({ ok: true, minor: 120_000 });
+    expect(parseMoneyInput("0,07")).toEqual({ ok: true, minor: 7 });
+    expect(parseMoneyInput("CAD 19.99")).toEqual({ ok: true, minor: 1999 });
+    expect(parseMoneyInput("twelve")).toEqual({ ok: false, message: "Type the price like 12.50." });
+    expect(parseMoneyInput(" ")).toEqual({ ok: false, message: "Give the price." });
+  });
+  it("round-trips: an amount put back into the input reads as itself", () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: 999_999_999 }), (minor) => {
+        expect(parseMoneyInput(minorToInput(minor))).toEqual({ ok: true, minor });
+      }),
+    );
   });
 });

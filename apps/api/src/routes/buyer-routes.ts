@@ -1,11 +1,9 @@
+import escapeHtml from "escape-html";
 import type { buyerEndpoints } from "@grainyard/contracts";
 import { AppError } from "../errors.ts";
 import type { FileReply, Handlers } from "../http/endpoints.ts";
 import type { FavouriteService } from "../services/favourite-service.ts";
 import type { SavedSearchService } from "../services/saved-search-service.ts";
-
-const escapeHtml = (s: string) =>
-  s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 
 /** The one HTML answer of the API: what a person sees after following an e-mail's unsubscribe link. */
 function htmlPage(status: number, heading: string, text: string): FileReply {

@@ -124,7 +124,7 @@ describe("moderation desk", () => {
     expect(item.lastReview).toMatchObject({ decision: "sent_back", reason: "Say which end has the crack." });
     expect(item.changes).toEqual([
       { field: "title", label: "Title", before: "Cherry top first try", after: "Cherry top, crack at the north end" },
-      { field: "price", label: "Price", before: "fixed: 900.00 USD", after: "fixed: 850.00 USD" },
+      { field: "price", label: "Price", before: "fixed: $900.00 USD", after: "fixed: $850.00 USD" },
     ]);
 
     const approved = await admin.post(`/api/v1/admin/listings/${listingId}/approve`);

@@ -1,5 +1,5 @@
 import type { FeeSettings } from "@grainyard/slab-math";
-import { formatBasisPoints, formatMoney } from "../utils/money.ts";
+import { formatBasisPoints, formatMoney } from "@grainyard/slab-math";
 
 /**
  * FEE PREVIEW ONLY, while the fees in force have not arrived (say, no signal in the yard): the

@@ -6,7 +6,7 @@
  * the next sync carries on from there.
  */
 import type { Listing, ListingInput, ListingPhoto } from "@grainyard/contracts";
-import { minorToInput } from "../utils/money.ts";
+import { minorToInput } from "@grainyard/slab-math";
 import { ApiRequestError, clientErrorCodes, toApiRequestError } from "../api/errors.ts";
 
 export interface ListingDraftFields {

@@ -14,7 +14,7 @@ import {
   type PayoutStatus,
   type SawyerBalance,
 } from "@grainyard/contracts";
-import { formatMoney, minorToInput, parseMoneyInput } from "./money.ts";
+import { formatMoney, minorToInput, parseMoneyInput } from "@grainyard/slab-math";
 import { hasErrorCode } from "../api/errors.ts";
 
 export { payoutAccountStateLabels, payoutStatusLabels };
