@@ -5,6 +5,7 @@ export * from "./paths.ts";
 export * from "./yard.ts";
 export * from "./listings.ts";
 export * from "./catalogue.ts";
+export * from "./order-lifecycle.ts";
 export * from "./orders.ts";
 export * from "./buyer-tools.ts";
 export * from "./admin.ts";
