@@ -12,7 +12,7 @@ import { requireCsrfToken } from "./http/csrf.ts";
 import { sessionOf } from "./http/context.ts";
 import { createRateLimits } from "./http/rate-limits.ts";
 import type { Mailer } from "./integrations/mail.ts";
-import type { Payments } from "./integrations/payments.ts";
+import type { PaymentsPort } from "./integrations/payments.ts";
 import type { PhotoStorage } from "./integrations/storage.ts";
 import type { Logger } from "./logger.ts";
 import { accountRoutes } from "./routes/account-routes.ts";
@@ -25,6 +25,7 @@ import { catalogueRoutes, catalogueSearch, catalogueSearchPath } from "./routes/
 import { orderRoutes, paymentWebhookRoute } from "./routes/order-routes.ts";
 import { createCheckoutService } from "./services/checkout-service.ts";
 import { createOrderService } from "./services/order-service.ts";
+import { createRefundService } from "./services/refund-service.ts";
 import { createAccountService, SESSION_DAYS } from "./services/account-service.ts";
 import { createCatalogueService } from "./services/catalogue-service.ts";
 import { createInventoryCsv } from "./services/inventory-csv.ts";
@@ -52,7 +53,7 @@ export interface AppDependencies {
   dataSource: DataSource;
   mailer: Mailer;
   storage: PhotoStorage;
-  payments: Payments;
+  payments: PaymentsPort;
   logger: Logger;
   now?: () => Date;
 }
@@ -119,10 +120,13 @@ export function createApp(appDeps: AppDependencies) {
   // Admin-editable settings (fees, reservation minutes, tax, hold days) from the database, with the env values as defaults.
   const settings = createSettingsService({ dataSource: deps.dataSource, config, now: deps.now });
   void settings.ensureFresh().catch((error) => logger.error({ err: error }, "could not read marketplace settings"));
+  // Every refund (late payments, cancellations, disputes) goes through one service.
+  const refunds = createRefundService({ dataSource: deps.dataSource, payments: deps.payments, log: logger, now: deps.now });
   // The payment provider's webhook needs its raw body for the signature: before the JSON parser.
   const checkout = createCheckoutService({
     dataSource: deps.dataSource,
     payments: deps.payments,
+    refunds,
     mailer: deps.mailer,
     // Reservation minutes and tax come from the settings table, read fresh per request.
     config: {
@@ -139,6 +143,7 @@ export function createApp(appDeps: AppDependencies) {
   const payouts = createPayoutService({
     dataSource: deps.dataSource,
     payments: deps.payments,
+    refunds,
     mailer: deps.mailer,
     config,
     holdDays: () => settings.current().holdDays,
@@ -147,14 +152,14 @@ export function createApp(appDeps: AppDependencies) {
   });
   const orders = createOrderService({
     dataSource: deps.dataSource,
-    payments: deps.payments,
+    refunds,
     mailer: deps.mailer,
     config,
     log: logger,
     now: deps.now,
     onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
   });
-  app.use("/api/v1", paymentWebhookRoute(checkout, deps.payments, config.payments.webhookSecret));
+  app.use("/api/v1", paymentWebhookRoute(checkout, deps.payments));
   app.use(express.json({ limit: "100kb" }));
 
   const listings = createListingService({

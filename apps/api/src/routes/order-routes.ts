@@ -1,5 +1,4 @@
 import express, { Router, type Request, type Response } from "express";
-import type Stripe from "stripe";
 import {
   cancellationInputSchema,
   checkoutInputSchema,
@@ -8,7 +7,7 @@ import {
   shipmentInputSchema,
 } from "@grainyard/contracts";
 import { parse } from "../http/context.ts";
-import type { Payments } from "../integrations/payments.ts";
+import { WebhookNotVerified, type PaymentEvent, type PaymentsPort } from "../integrations/payments.ts";
 import type { CheckoutService } from "../services/checkout-service.ts";
 import type { OrderService } from "../services/order-service.ts";
 
@@ -50,20 +49,24 @@ export function orderRoutes(checkout: CheckoutService, orders: OrderService) {
 }
 
 /**
- * The provider's webhook: the raw body (mounted before the JSON parser), the signature checked
- * with the official SDK, then handled once per event id. Outside the anti-forgery check: it is
- * not a browser, and the signature is its proof.
+ * The provider's webhook: the raw body (mounted before the JSON parser), verified by the payments
+ * port into one of our payment events, then handled once per event id. Outside the anti-forgery
+ * check: it is not a browser, and the signature is its proof.
  */
-export function paymentWebhookRoute(checkout: CheckoutService, payments: Payments, webhookSecret: string) {
+export function paymentWebhookRoute(checkout: CheckoutService, payments: PaymentsPort) {
   const router = Router();
   router.post("/payments/webhook", express.raw({ type: () => true, limit: "1mb" }), async (req: Request, res: Response) => {
-    const signature = req.get("stripe-signature");
-    let event: Stripe.Event;
+    let event: PaymentEvent | null;
     try {
-      if (!signature || !Buffer.isBuffer(req.body)) throw new Error("missing signature");
-      event = payments.sdk.webhooks.constructEvent(req.body, signature, webhookSecret);
-    } catch {
+      event = payments.verifyWebhook(Buffer.isBuffer(req.body) ? req.body : Buffer.alloc(0), req.get(payments.webhookSignatureHeader));
+    } catch (error) {
+      if (!(error instanceof WebhookNotVerified)) throw error;
       res.status(400).json({ error: { code: "bad_signature", message: "The webhook signature did not verify." } });
+      return;
+    }
+    // Genuine, but nothing Grainyard acts on.
+    if (!event) {
+      res.json({ received: true, outcome: "ignored" });
       return;
     }
     const outcome = await checkout.handleEvent(event);
