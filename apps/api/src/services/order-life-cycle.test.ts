@@ -1,6 +1,9 @@
+import express from "express";
+import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { LedgerEntryEntity, ListingEntity, OrderRefundEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, ServiceUnavailable } from "../errors.ts";
+import { paymentWebhookRoute } from "../routes/order-routes.ts";
 import { createServiceHarness, type ServiceHarness } from "../test-support/service-harness.ts";
 
 /*
@@ -102,6 +105,28 @@ describe("paying", () => {
     }
     expect(await listingStatus(listingId)).toBe("live");
     expect(await h.checkout.ordersOfListing(listingId)).toEqual([]);
+  });
+
+  it("the webhook route verifies through the port: a signed event is handled once; an unsigned or altered one is refused and changes nothing", async () => {
+    const sawyer = await h.person("sawyer");
+    const buyer = await h.person("buyer");
+    const listingId = await h.liveListing(sawyer, 35_000);
+    const { order } = await h.checkout.checkout(buyer, listingId, { handover: "pickup" });
+    const paid = h.payments.pay((await h.orderOf(order.id)).checkoutSessionId!);
+    const app = express().use(paymentWebhookRoute(h.checkout, h.payments));
+    const post = (body: Buffer, signature?: string) => {
+      const req = request(app).post("/payments/webhook").set("content-type", "application/json");
+      // As text: a Buffer with a JSON content type would be re-encoded by supertest.
+      return (signature ? req.set(h.payments.webhookSignatureHeader, signature) : req).send(body.toString("utf8"));
+    };
+    const { body, signature } = h.payments.signed(paid);
+    expect((await post(body)).status).toBe(400);
+    const altered = Buffer.from(body.toString().replace(order.id, "00000000-0000-0000-0000-000000000000"));
+    expect((await post(altered, signature)).status).toBe(400);
+    expect((await h.orderOf(order.id)).status).toBe("awaiting_payment");
+    expect((await post(body, signature)).body).toEqual({ received: true, outcome: "handled" });
+    expect((await post(body, signature)).body).toEqual({ received: true, outcome: "duplicate" });
+    expect((await h.orderOf(order.id)).status).toBe("paid");
   });
 
   it("handles each event once: a repeated checkout_completed records one sale", async () => {
