@@ -12,7 +12,7 @@ import { apiNotFound, errorHandler } from "./http/errors.ts";
 import { sessionOf } from "./http/context.ts";
 import { createRateLimits } from "./http/rate-limits.ts";
 import type { Mailer } from "./integrations/mail.ts";
-import type { Payments } from "./integrations/payments.ts";
+import type { PaymentsPort } from "./integrations/payments.ts";
 import type { PhotoStorage } from "./integrations/storage.ts";
 import type { Logger } from "./logger.ts";
 import { accountHandlers } from "./routes/account-routes.ts";
@@ -24,6 +24,7 @@ import { catalogueHandlers } from "./routes/catalogue-routes.ts";
 import { orderHandlers } from "./routes/order-routes.ts";
 import { createCheckoutService } from "./services/checkout-service.ts";
 import { createOrderService } from "./services/order-service.ts";
+import { createRefundService } from "./services/refund-service.ts";
 import { createAccountService, SESSION_DAYS } from "./services/account-service.ts";
 import { createCatalogueService } from "./services/catalogue-service.ts";
 import { createInventoryCsv } from "./services/inventory-csv.ts";
@@ -52,7 +53,7 @@ export interface AppDependencies {
   dataSource: DataSource;
   mailer: Mailer;
   storage: PhotoStorage;
-  payments: Payments;
+  payments: PaymentsPort;
   logger: Logger;
   now?: () => Date;
 }
@@ -103,9 +104,12 @@ export function createApp(appDeps: AppDependencies) {
   void settings.ensureFresh().catch((error) => logger.error({ err: error }, "could not read marketplace settings"));
   const onListingChanged = (manager: Parameters<typeof catalogue.refreshEntry>[0], listingId: string) =>
     catalogue.refreshEntry(manager, listingId);
+  // Every refund (late payments, cancellations, disputes) goes through one service.
+  const refunds = createRefundService({ dataSource: deps.dataSource, payments: deps.payments, log: logger, now: deps.now });
   const checkout = createCheckoutService({
     dataSource: deps.dataSource,
     payments: deps.payments,
+    refunds,
     mailer: deps.mailer,
     // Reservation minutes and tax come from the settings table, read fresh per request.
     config: {
@@ -122,6 +126,7 @@ export function createApp(appDeps: AppDependencies) {
   const payouts = createPayoutService({
     dataSource: deps.dataSource,
     payments: deps.payments,
+    refunds,
     mailer: deps.mailer,
     config,
     holdDays: () => settings.current().holdDays,
@@ -130,7 +135,7 @@ export function createApp(appDeps: AppDependencies) {
   });
   const orders = createOrderService({
     dataSource: deps.dataSource,
-    payments: deps.payments,
+    refunds,
     mailer: deps.mailer,
     config,
     log: logger,
@@ -205,7 +210,7 @@ export function createApp(appDeps: AppDependencies) {
     listings: listingHandlers(listings, photos),
     review: reviewHandlers(listings),
     catalogue: catalogueHandlers(catalogue, settings),
-    orders: orderHandlers(checkout, orders, deps.payments, config.payments.webhookSecret),
+    orders: orderHandlers(checkout, orders, deps.payments),
     buyer: buyerHandlers(savedSearches, favourites),
     messages: messageHandlers(messages),
     reports: reportHandlers(reports),

@@ -1,4 +1,5 @@
 import escape from "escape-html";
+import type { OrderSlabSnapshot } from "@grainyard/contracts";
 import { formatMoney } from "@grainyard/slab-math";
 import type { OutgoingMail } from "./integrations/mail.ts";
 
@@ -84,14 +85,14 @@ interface OrderForMail {
   processingFeeMinor: number;
   handover: "pickup" | "freight";
   deliveryAddress: string | null;
-  slabSnapshot: Record<string, unknown>[];
+  slabSnapshot: OrderSlabSnapshot[];
 }
 
 function slabLines(order: OrderForMail): string[] {
-  return order.slabSnapshot.map((slab, index) => {
-    const figures = slab.figures as { boardFeet: number; weightHighKg: number } | undefined;
-    return `Slab ${index + 1}: ${String(slab.lengthMm)} × ${Math.round(Number((slab.figures as { averageWidthMm?: number } | undefined)?.averageWidthMm ?? 0))} × ${String(slab.thicknessMm)} mm, ${figures ? figures.boardFeet.toFixed(1) : "?"} board feet, up to ${figures ? Math.round(figures.weightHighKg) : "?"} kg`;
-  });
+  return order.slabSnapshot.map(
+    ({ lengthMm, thicknessMm, figures }, index) =>
+      `Slab ${index + 1}: ${lengthMm} × ${Math.round(figures.averageWidthMm)} × ${thicknessMm} mm, ${figures.boardFeet.toFixed(1)} board feet, up to ${Math.round(figures.weightHighKg)} kg`,
+  );
 }
 
 export function orderPaidBuyerMail(

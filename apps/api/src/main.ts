@@ -2,7 +2,7 @@ import { loadConfig, ConfigError } from "./config.ts";
 import { createApp } from "./app.ts";
 import { createDataSource } from "./db/data-source.ts";
 import { createMailer } from "./integrations/mail.ts";
-import { createPayments } from "./integrations/payments.ts";
+import { createPayments } from "./integrations/payments-stripe.ts";
 import { createPhotoStorage } from "./integrations/storage.ts";
 import { createLogger } from "./logger.ts";
 

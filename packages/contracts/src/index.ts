@@ -7,6 +7,7 @@ export * from "./health.ts";
 export * from "./yard.ts";
 export * from "./listings.ts";
 export * from "./catalogue.ts";
+export * from "./order-lifecycle.ts";
 export * from "./orders.ts";
 export * from "./buyer-tools.ts";
 export * from "./admin.ts";

@@ -39,3 +39,7 @@ migrations.push(Payouts1764748800000);
 // Covering sort indexes for the catalogue search (ids from one index, then only the rows shown), and yard by yard for the nearest-first walk.
 import { CatalogueSortIndexes1764759600000 } from "./1764759600000-catalogue-sort-indexes.ts";
 migrations.push(CatalogueSortIndexes1764759600000);
+
+// One record for every refund (cancellations and payments for slabs sold elsewhere too), keyed by the provider's idempotency key.
+import { OneRefundRecord1764770400000 } from "./1764770400000-one-refund-record.ts";
+migrations.push(OneRefundRecord1764770400000);

@@ -1,18 +1,12 @@
 import type { orderEndpoints } from "@grainyard/contracts";
-import type Stripe from "stripe";
 import { AppError } from "../errors.ts";
 import type { Handlers } from "../http/endpoints.ts";
-import type { Payments } from "../integrations/payments.ts";
+import { WebhookNotVerified, type PaymentEvent, type PaymentsPort } from "../integrations/payments.ts";
 import type { CheckoutService } from "../services/checkout-service.ts";
 import type { OrderService } from "../services/order-service.ts";
 
 /** Buying: the quote, checkout, the buyer's and sawyer's orders and every step after payment. */
-export function orderHandlers(
-  checkout: CheckoutService,
-  orders: OrderService,
-  payments: Payments,
-  webhookSecret: string,
-): Handlers<typeof orderEndpoints> {
+export function orderHandlers(checkout: CheckoutService, orders: OrderService, payments: PaymentsPort): Handlers<typeof orderEndpoints> {
   return {
     getCheckoutQuote: async ({ params }) => ({ quote: await checkout.quote(params.listingId) }),
     checkout: ({ actor, params, body }) => checkout.checkout(actor, params.listingId, body),
@@ -25,18 +19,19 @@ export function orderHandlers(
     confirmReceipt: async ({ actor, params }) => ({ order: await orders.confirmReceipt(actor, params.orderId) }),
     cancelOrder: async ({ actor, params, body }) => ({ order: await orders.cancel(actor, params.orderId, body) }),
     /**
-     * The provider's webhook: the raw body, the signature checked with the official SDK, then
-     * handled once per event id. Its row needs no anti-forgery token: the signature is its proof.
+     * The provider's webhook: the raw body, verified by the payments port into one of our payment
+     * events, then handled once per event id. Its row needs no anti-forgery token: the signature is its proof.
      */
     paymentWebhook: async ({ req, body }) => {
-      const signature = req.get("stripe-signature");
-      let event: Stripe.Event;
+      let event: PaymentEvent | null;
       try {
-        if (!signature || !Buffer.isBuffer(body)) throw new Error("missing signature");
-        event = payments.sdk.webhooks.constructEvent(body, signature, webhookSecret);
-      } catch {
+        event = payments.verifyWebhook(Buffer.isBuffer(body) ? body : Buffer.alloc(0), req.get(payments.webhookSignatureHeader));
+      } catch (error) {
+        if (!(error instanceof WebhookNotVerified)) throw error;
         throw new AppError("bad_signature", "The webhook signature did not verify.");
       }
+      // Genuine, but nothing Grainyard acts on.
+      if (!event) return { received: true, outcome: "ignored" };
       return { received: true, outcome: await checkout.handleEvent(event) };
     },
   };

@@ -3,7 +3,7 @@ import sharp from "sharp";
 import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import type { PaymentsFakeApp } from "@grainyard/payments-fake";
-import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
+import { LedgerEntryEntity, ListingEntity, OrderEntity, OrderRefundEntity } from "../entities/index.ts";
 import {
   expectLedgerBalanced,
   listenForWebhooks,
@@ -323,6 +323,17 @@ describe("cancelling before hand-over", () => {
     expect(order.refundId).toMatch(/^re_/);
     expect(order.cancelledAt).not.toBeNull();
     expect(order.refundedAt).not.toBeNull();
+    // One refund recorded, keyed by the order, by the buyer who cancelled.
+    expect(await ctx.dataSource.getRepository(OrderRefundEntity).findBy({ orderId })).toMatchObject([
+      {
+        kind: "cancellation",
+        amountMinor: 157_500,
+        idempotencyKey: `refund-${orderId}`,
+        providerRefundId: order.refundId,
+        createdBy: buyer.account.id,
+        reason: "Our dining room plans changed.",
+      },
+    ]);
 
     // The provider refunded exactly the total paid (price 1 500.00 + 5 % tax 75.00), once.
     const intent = fake.store.get(order.paymentIntentId!)!;

@@ -7,7 +7,7 @@ import { createApp } from "../app.ts";
 import { createDataSource } from "../db/data-source.ts";
 import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
 import { createMailer } from "../integrations/mail.ts";
-import { createPayments } from "../integrations/payments.ts";
+import { createPayments } from "../integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
 import { expectLedgerBalanced, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";

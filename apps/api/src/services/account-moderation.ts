@@ -1,5 +1,5 @@
-import type { AdminUser, AdminUserSearchInput, RestoreInput, SuspendInput } from "@grainyard/contracts";
-import { Brackets, IsNull, type DataSource, type EntityManager } from "typeorm";
+import { transitionFrom, type AdminUser, type AdminUserSearchInput, type RestoreInput, type SuspendInput } from "@grainyard/contracts";
+import { Brackets, In, IsNull, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, ListingEntity, OrderEntity, SessionRecordEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, NotFound } from "../errors.ts";
@@ -103,10 +103,14 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
 
     // Slabs they reserved as a buyer go back on sale, as the reservation sweep does: the order
     // expires only if it is still waiting for payment, and the listing returns only if it is still reserved.
-    const open = await manager.getRepository(OrderEntity).find({ where: { buyerId: accountId, status: "awaiting_payment" } });
+    const open = await manager
+      .getRepository(OrderEntity)
+      .find({ where: { buyerId: accountId, status: In(transitionFrom("expireReservation")) } });
     const released: string[] = [];
     for (const order of open) {
-      const expired = await manager.getRepository(OrderEntity).update({ id: order.id, status: "awaiting_payment" }, { status: "expired" });
+      const expired = await manager
+        .getRepository(OrderEntity)
+        .update({ id: order.id, status: In(transitionFrom("expireReservation")) }, { status: "expired" });
       if (expired.affected !== 1) continue;
       released.push(order.id);
       await manager.getRepository(ListingEntity).update({ id: order.listingId, status: "reserved" }, { status: "live" });

@@ -8,7 +8,7 @@ import { loadConfig, type AppConfig } from "../config.ts";
 import { createDataSource } from "../db/data-source.ts";
 import { AccountEntity } from "../entities/index.ts";
 import { createMailer } from "../integrations/mail.ts";
-import { createPayments } from "../integrations/payments.ts";
+import { createPayments } from "../integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
 import { hashPassword } from "../services/passwords.ts";
@@ -35,10 +35,10 @@ export function testClock(): TestClock {
   return { now: () => new Date(Date.now() + offset), advance: (ms) => (offset += ms) };
 }
 
-export async function createTestContext(options: { environment?: Record<string, string>; clock?: TestClock } = {}) {
-  const environment = { ...stackEnvironment(), ...options.environment };
+/** A throwaway database on the test stack's MariaDB, built by the migrations; `drop` removes it. */
+export async function createTestDatabase(environment: Record<string, string | undefined> = {}) {
   const database = `grainyard_t_${randomBytes(5).toString("hex")}`;
-  const config: AppConfig = loadConfig({ ...environment, DATABASE_NAME: database });
+  const config: AppConfig = loadConfig({ ...stackEnvironment(), ...environment, DATABASE_NAME: database });
   const server = await mysql.createConnection({
     host: config.database.host,
     port: config.database.port,
@@ -47,10 +47,21 @@ export async function createTestContext(options: { environment?: Record<string, 
   });
   await server.query(`CREATE DATABASE \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
   await server.end();
-
   const dataSource: DataSource = createDataSource(config.database);
   await dataSource.initialize();
   await dataSource.runMigrations({ transaction: "each" });
+  return {
+    config,
+    dataSource,
+    async drop() {
+      await dataSource.query(`DROP DATABASE \`${database}\``);
+      await dataSource.destroy();
+    },
+  };
+}
+
+export async function createTestContext(options: { environment?: Record<string, string>; clock?: TestClock } = {}) {
+  const { config, dataSource, drop } = await createTestDatabase(options.environment);
   const logLines: string[] = [];
   const logger = createLogger("info", { write: (line: string) => void logLines.push(line) });
   const mailer = createMailer(config.mail);
@@ -96,8 +107,7 @@ export async function createTestContext(options: { environment?: Record<string, 
     async close() {
       mailer.close();
       storage.close();
-      await dataSource.query(`DROP DATABASE \`${database}\``);
-      await dataSource.destroy();
+      await drop();
     },
   };
 }
