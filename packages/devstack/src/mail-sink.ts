@@ -135,7 +135,9 @@ export async function startMailSink(options: { dir: string; smtpPort: number; in
     smtp: { host: "127.0.0.1", port: options.smtpPort },
     inboxUrl: `http://127.0.0.1:${options.inboxPort}`,
     async stop() {
-      await new Promise<void>((r) => inbox.close(() => r()));
+      const closed = new Promise<void>((r) => inbox.close(() => r()));
+      inbox.closeAllConnections(); // an open browser tab keeps a connection alive
+      await closed;
       await new Promise<void>((r) => smtp.close(() => r()));
     },
   };
