@@ -43,7 +43,7 @@ describe("SignInView", () => {
       answers: { [`POST ${accountEndpoints.getSession.path}`]: [{ status: 200, body: { account: sawyer, csrfToken: "after-sign-in" } }] },
     });
     await fillAndSubmit(wrapper);
-    await vi.waitFor(() => expect(router.currentRoute.value.path).toBe("/yard"));
+    await vi.waitFor(() => expect(router.currentRoute.value.path).toBe("/yard"), { timeout: 10_000 });
     expect(session.csrfToken).toBe("after-sign-in");
     expect(session.isSawyer).toBe(true);
   });
@@ -54,7 +54,7 @@ describe("SignInView", () => {
       answers: { [`POST ${accountEndpoints.getSession.path}`]: [{ status: 200, body: { account: sawyer, csrfToken: "t" } }] },
     });
     await fillAndSubmit(first.wrapper);
-    await vi.waitFor(() => expect(first.router.currentRoute.value.fullPath).toBe("/yard?tab=logs"));
+    await vi.waitFor(() => expect(first.router.currentRoute.value.fullPath).toBe("/yard?tab=logs"), { timeout: 10_000 });
     first.wrapper.unmount();
 
     const second = await mountView(SignInView, {
@@ -62,7 +62,7 @@ describe("SignInView", () => {
       answers: { [`POST ${accountEndpoints.getSession.path}`]: [{ status: 200, body: { account: sawyer, csrfToken: "t" } }] },
     });
     await fillAndSubmit(second.wrapper);
-    await vi.waitFor(() => expect(second.router.currentRoute.value.fullPath).toBe("/yard"));
+    await vi.waitFor(() => expect(second.router.currentRoute.value.fullPath).toBe("/yard"), { timeout: 10_000 });
   });
 
   it("shows the API's message for wrong credentials and for too many tries", async () => {
