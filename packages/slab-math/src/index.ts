@@ -32,6 +32,7 @@ export {
   feeBreakdown,
   slabPrice,
   refundShares,
+  taxOn,
   formatMoney,
   formatBasisPoints,
   parseMoneyInput,

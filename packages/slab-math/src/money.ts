@@ -166,6 +166,18 @@ export function refundShares<K extends string>(parts: Record<K, number>, refundM
   return shares;
 }
 
+/**
+ * Sales tax on an amount at a rate in basis points (825 = 8.25 %), half-up to the minor unit once,
+ * with exact integer arithmetic.
+ *
+ * @throws SlabMathError on non-integer or negative money, or a rate outside 0–10 000 bps.
+ */
+export function taxOn(amountMinor: number, rateBps: number): number {
+  const amount = requireNonNegativeInteger(amountMinor, "amountMinor");
+  const rate = requireNonNegativeInteger(rateBps, "rateBps", BASIS_POINTS_PER_WHOLE);
+  return Number(divideRoundHalfUp(BigInt(amount) * BigInt(rate), BigInt(BASIS_POINTS_PER_WHOLE)));
+}
+
 // ---- Money as text ----
 
 const currencyFormats = new Map<string, Intl.NumberFormat>();

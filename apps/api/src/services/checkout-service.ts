@@ -1,5 +1,5 @@
 import { randomUUID } from "node:crypto";
-import { roundHalfUp } from "@grainyard/slab-math";
+import { taxOn } from "@grainyard/slab-math";
 import { In, LessThan, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, LedgerEntryEntity, ListingEntity, ListingSlabEntity, OrderEntity, PaymentEventEntity } from "../entities/index.ts";
@@ -40,12 +40,12 @@ export interface CheckoutInput {
 }
 
 /**
- * Price, tax and total of a listing: tax at the configured rate on the price, rounded half-up once
- * (slab-math's money rule); the platform and processing fees were split by slab-math when the
+ * Price, tax and total of a listing: tax at the configured rate on the price (slab-math's taxOn,
+ * half-up once); the platform and processing fees were split by slab-math when the
  * listing was priced and are taken from the sawyer's share, not added for the buyer.
  */
 function quoteFor(listing: Pick<ListingEntity, "priceMinor" | "currency">, checkout: Pick<AppConfig["checkout"], "taxRateBps">) {
-  const taxMinor = roundHalfUp((listing.priceMinor * checkout.taxRateBps) / 10_000);
+  const taxMinor = taxOn(listing.priceMinor, checkout.taxRateBps);
   return {
     currency: listing.currency,
     priceMinor: listing.priceMinor,

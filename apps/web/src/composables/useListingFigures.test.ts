@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import type { Slab } from "@grainyard/contracts";
 import { listingPreview } from "./useListingFigures.ts";
+import { NIOSH_LOAD_CONSTANT_KG } from "@grainyard/slab-math";
 import { FEE_PREVIEW_SETTINGS } from "../constants/fee-preview.ts";
 
 function slab(boardFeet: number, volumeM3: number, weightLowKg: number, weightHighKg: number): Slab {
@@ -33,7 +34,7 @@ function slab(boardFeet: number, volumeM3: number, weightLowKg: number, weightHi
       weightLowKg,
       weightHighKg,
       weightAtMoisturePct: 8,
-      heavyLift: weightHighKg > 23,
+      heavyLift: weightHighKg > NIOSH_LOAD_CONSTANT_KG,
       handling: "two_people",
     },
     lastMoisturePct: 8,
