@@ -32,6 +32,7 @@ import { createListingService } from "./services/listing-service.ts";
 import { createYardService } from "./services/yard-service.ts";
 import { buyerHandlers } from "./routes/buyer-routes.ts";
 import { messageHandlers } from "./routes/message-routes.ts";
+import { createDomainEvents } from "./events.ts";
 import { createHealthService } from "./services/health-service.ts";
 import { createFavouriteService } from "./services/favourite-service.ts";
 import { createMessageService } from "./services/message-service.ts";
@@ -102,8 +103,7 @@ export function createApp(appDeps: AppDependencies) {
   // Admin-editable settings (fees, reservation minutes, tax, hold days) from the database, with the env values as defaults.
   const settings = createSettingsService({ dataSource: deps.dataSource, config, now: deps.now });
   void settings.ensureFresh().catch((error) => logger.error({ err: error }, "could not read marketplace settings"));
-  const onListingChanged = (manager: Parameters<typeof catalogue.refreshEntry>[0], listingId: string) =>
-    catalogue.refreshEntry(manager, listingId);
+  const events = createDomainEvents();
   // Every refund (late payments, cancellations, disputes) goes through one service.
   const refunds = createRefundService({ dataSource: deps.dataSource, payments: deps.payments, log: logger, now: deps.now });
   const checkout = createCheckoutService({
@@ -120,7 +120,7 @@ export function createApp(appDeps: AppDependencies) {
     },
     log: logger,
     now: deps.now,
-    onListingChanged,
+    events,
     onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
   });
   const payouts = createPayoutService({
@@ -140,7 +140,7 @@ export function createApp(appDeps: AppDependencies) {
     config,
     log: logger,
     now: deps.now,
-    onListingChanged,
+    events,
   });
   const listings = createListingService({
     dataSource: deps.dataSource,
@@ -148,8 +148,7 @@ export function createApp(appDeps: AppDependencies) {
     config,
     log: logger,
     now: deps.now,
-    onListingChanged,
-    onListingLive: (listingId) => savedSearches.onListingLive(listingId),
+    events,
     settings,
   });
   const accounts = createAccountService({
@@ -158,11 +157,11 @@ export function createApp(appDeps: AppDependencies) {
     config,
     log: logger,
     now: deps.now,
-    onYardChanged: (manager, sawyerId) => listings.refreshAllOfSawyer(manager, sawyerId),
+    events,
   });
   const yard = createYardService({
     dataSource: deps.dataSource,
-    onSlabFiguresChanged: (manager, slabIds) => listings.refreshListingsOfSlabs(manager, slabIds),
+    events,
   });
   const inventoryCsv = createInventoryCsv({ dataSource: deps.dataSource, yard });
   const photos = createPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
@@ -184,7 +183,7 @@ export function createApp(appDeps: AppDependencies) {
     config,
     log: logger,
     now: deps.now,
-    onListingChanged,
+    events,
   });
   const reports = createReportService({
     dataSource: deps.dataSource,
@@ -193,7 +192,7 @@ export function createApp(appDeps: AppDependencies) {
     log: logger,
     moderation,
     now: deps.now,
-    onListingChanged,
+    events,
   });
   const dashboard = createDashboardService({
     dataSource: deps.dataSource,
@@ -201,6 +200,12 @@ export function createApp(appDeps: AppDependencies) {
     openReports: () => reports.openCount(),
     suspendedUsers: () => moderation.suspendedCount(),
   });
+
+  // Who acts on what: the catalogue follows listings, listings follow yards and slabs, alerts follow new live listings.
+  events.on("listingChanged", ({ manager, listingId }) => catalogue.refreshEntry(manager, listingId));
+  events.on("yardChanged", ({ manager, sawyerId }) => listings.refreshAllOfSawyer(manager, sawyerId));
+  events.on("slabFiguresChanged", ({ manager, slabIds }) => listings.refreshListingsOfSlabs(manager, slabIds));
+  events.on("listingLive", ({ listingId }) => savedSearches.onListingLive(listingId));
 
   // Every API route comes from the endpoint table in packages/contracts, with one handler per row.
   const handlers: { [D in keyof typeof endpointTable]?: Handlers<(typeof endpointTable)[D]> } = {

@@ -82,7 +82,10 @@ describe("feeBreakdown", () => {
     );
   });
 
-  it("property: a larger subtotal never yields a smaller platform fee or net", () => {
+  // Each fee is rounded on its own, so one more cent of subtotal can round both fees up by a cent:
+  // the net may then drop by one cent (fast-check found 10 017 → 10 018 at 8.34 %), never more, and
+  // the platform fee never drops.
+  it("property: a larger subtotal never yields a smaller platform fee, nor a net smaller by more than a cent", () => {
     fc.assert(
       fc.property(
         fc.integer({ min: 10_000, max: 10_000_000 }),
@@ -93,7 +96,7 @@ describe("feeBreakdown", () => {
           const smaller = feeBreakdown(subtotal, settings);
           const larger = feeBreakdown(subtotal + extra, settings);
           expect(larger.platformFeeMinor).toBeGreaterThanOrEqual(smaller.platformFeeMinor);
-          expect(larger.sawyerNetMinor).toBeGreaterThanOrEqual(smaller.sawyerNetMinor);
+          expect(larger.sawyerNetMinor).toBeGreaterThanOrEqual(smaller.sawyerNetMinor - 1);
         },
       ),
     );

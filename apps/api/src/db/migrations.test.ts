@@ -47,6 +47,7 @@ describe("migrations", () => {
       "content_report",
       "email_token",
       "favourite",
+      "job_lease",
       "ledger_entry",
       "listing",
       "listing_photo",

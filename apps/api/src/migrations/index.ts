@@ -43,3 +43,7 @@ migrations.push(CatalogueSortIndexes1764759600000);
 // One record for every refund (cancellations and payments for slabs sold elsewhere too), keyed by the provider's idempotency key.
 import { OneRefundRecord1764770400000 } from "./1764770400000-one-refund-record.ts";
 migrations.push(OneRefundRecord1764770400000);
+
+// A lease per scheduled job, so several API instances run each job once.
+import { JobLeases1764781200000 } from "./1764781200000-job-leases.ts";
+migrations.push(JobLeases1764781200000);

@@ -20,6 +20,7 @@ import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
 import { decoyPasswordCheck, hashPassword, isCommonPassword, passwordMatches } from "./passwords.ts";
 import { findPlace } from "./places.ts";
 import { newToken, tokenHash } from "./tokens.ts";
+import type { DomainEventBus } from "../events.ts";
 
 export const SESSION_DAYS = 14;
 const VERIFY_HOURS = 48;
@@ -32,7 +33,8 @@ export interface AccountServiceDependencies {
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
   /** Called inside the transaction after a yard's name or town changed. */
-  onYardChanged?: (manager: EntityManager, sawyerId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
 }
 
 /** Where a pickup town lies, from the places dataset; nulls when the town is not found. */
@@ -250,7 +252,7 @@ export function createAccountService(deps: AccountServiceDependencies) {
         await manager
           .getRepository(AccountEntity)
           .update({ id: yard.id }, { ...input, ...(input.pickupTown !== undefined ? pickupPosition(input.pickupTown) : {}) });
-        await deps.onYardChanged?.(manager, yard.id);
+        await deps.events?.emitSerial("yardChanged", { manager, sawyerId: yard.id });
         // An admin changing someone's yard is an admin action: audited in the same transaction.
         if (signedIn.role === "admin") {
           const before = Object.fromEntries(Object.keys(input).map((key) => [key, yard[key as keyof typeof yard] ?? null]));

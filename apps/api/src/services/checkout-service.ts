@@ -21,6 +21,7 @@ import {
   type Order,
   type OrderTransitionName,
 } from "@grainyard/contracts";
+import type { DomainEventBus } from "../events.ts";
 
 /** A new order waits for the provider; a paid order moves on through hand-over (see contracts' order-lifecycle.ts). */
 const OPEN_PAYMENT = "awaiting_payment" as const;
@@ -63,13 +64,15 @@ export function createCheckoutService(deps: {
   config: Pick<AppConfig, "publicUrl" | "checkout">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
   /** A connected (payout) account changed at the provider; true when it is one of ours. */
   onAccountUpdated?: (account: PayoutAccountStatus, manager: EntityManager) => Promise<boolean>;
 }) {
   const { dataSource, payments, config } = deps;
   const now = deps.now ?? (() => new Date());
-  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
+  const changed = (manager: EntityManager, listingId: string) =>
+    deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
 
   async function view(order: OrderEntity, actor: Actor): Promise<Order> {
     const parties = await partiesOf(dataSource, [order]);
