@@ -64,6 +64,8 @@ async function shutdown(signal: string) {
   logger.info({ signal }, "shutting down");
   server.close();
   server.closeAllConnections();
+  // E-mails handed to background work (reset links, confirmations) still go out.
+  await app.background.settled();
   mailer.close();
   storage.close();
   await dataSource.destroy().catch(() => undefined);

@@ -39,3 +39,7 @@ migrations.push(Payouts1764748800000);
 // Covering sort indexes for the catalogue search (ids from one index, then only the rows shown), and yard by yard for the nearest-first walk.
 import { CatalogueSortIndexes1764759600000 } from "./1764759600000-catalogue-sort-indexes.ts";
 migrations.push(CatalogueSortIndexes1764759600000);
+
+// The shared store of the sign-in and reset limits (rate-limiter-flexible), counted alike by every API instance.
+import { RateLimits1764770400000 } from "./1764770400000-rate-limits.ts";
+migrations.push(RateLimits1764770400000);

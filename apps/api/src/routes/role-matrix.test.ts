@@ -105,7 +105,7 @@ const samples: Record<EndpointKey, Sample> = {
         password: "matrix-password-ok",
         displayName: "Matrix",
       }),
-    allowed: { anonymous: 201, buyer: 409, sawyer: 409, otherSawyer: 409, admin: 409 },
+    allowed: { anonymous: 202, buyer: 409, sawyer: 409, otherSawyer: 409, admin: 409 },
   },
   "accounts.verifyEmail": { call: (c) => c.post("/api/v1/email-verification", { token: "a".repeat(43) }), allowed: 422 },
   // Every seeded test account is verified already.
