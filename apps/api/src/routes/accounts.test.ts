@@ -131,6 +131,22 @@ describe("sign-up", () => {
     expect(await mailTo(existing.email)).toHaveLength(1);
   });
 
+  it("refuses display names with line breaks or control characters, and makes no account", async () => {
+    const client = await ctx.client();
+    for (const displayName of ["Ana\r\nBcc: everyone@lakemont.test", "Ana\u0000", "\u202Eadmin"]) {
+      const email = unique("ctrl");
+      const res = await client.post("/api/v1/accounts", { role: "buyer", email, password: "long-enough-pass-7", displayName });
+      expect(res.status).toBe(422);
+      expect(res.body.error.fields.displayName).toMatch(/no line breaks or control characters/);
+      await ctx.settled();
+      expect(await ctx.dataSource.getRepository(AccountEntity).countBy({ email })).toBe(0);
+    }
+    const sawyer = await ctx.signedInClient("sawyer");
+    const renamed = await sawyer.patch(`/api/v1/yards/${sawyer.account.id}`, { yardName: "Mill\nTwo" });
+    expect(renamed.status).toBe(422);
+    expect(renamed.body.error.fields.yardName).toMatch(/control characters/);
+  });
+
   it("answers 400 with the JSON error shape for a malformed body", async () => {
     const client = await ctx.client();
     const res = await client.agent

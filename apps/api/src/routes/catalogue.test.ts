@@ -243,6 +243,13 @@ describe("catalogue search", () => {
     const town = await search("near=Atlantis-under-the-sea");
     expect(town.status).toBe(422);
     expect(town.body.error.code).toBe("unknown_place");
+    // No letters of any script: not a town's name (an emoji used to match some far-away place).
+    for (const near of ["🌲", "🌲🏙️", "1234", "!!", "  ·  "]) {
+      const res = await search(`near=${encodeURIComponent(near)}`);
+      expect(res.status, near).toBe(422);
+      expect(res.body.error.fields.near, near).toMatch(/town's name/);
+    }
+    expect((await search("near=")).status).toBe(200);
     const first = await search("limit=2");
     const cursor = first.body.nextCursor as string;
     const [payload] = cursor.split(".");
