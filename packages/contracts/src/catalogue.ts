@@ -151,8 +151,12 @@ export const catalogueCardSchema = z.object({
   thicknessMm: z.number(),
   boardFeet: z.number(),
   volumeM3: z.number(),
+  /** The whole set (one slab: the slab), central estimate, kg. */
   weightKg: z.number(),
-  weightHighKg: z.number(),
+  /** The whole set, high end, kg: never below `heaviestSlabHighKg`. */
+  totalWeightHighKg: z.number(),
+  /** The heaviest single slab, high end, kg: the lifting advice's weight. */
+  heaviestSlabHighKg: z.number(),
   moisturePct: z.number().nullable(),
   ready: z.boolean(),
   priceMinor: z.number(),

@@ -43,3 +43,7 @@ migrations.push(CatalogueSortIndexes1764759600000);
 // The shared store of the sign-in and reset limits (rate-limiter-flexible), counted alike by every API instance.
 import { RateLimits1764770400000 } from "./1764770400000-rate-limits.ts";
 migrations.push(RateLimits1764770400000);
+
+// The catalogue's set weights named apart: the whole set's high end beside the heaviest slab's.
+import { CatalogueSetWeights1764781200000 } from "./1764781200000-catalogue-set-weights.ts";
+migrations.push(CatalogueSetWeights1764781200000);
