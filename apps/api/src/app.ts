@@ -34,6 +34,7 @@ import { buyerHandlers } from "./routes/buyer-routes.ts";
 import { messageHandlers } from "./routes/message-routes.ts";
 import { createDomainEvents } from "./events.ts";
 import { createHealthService } from "./services/health-service.ts";
+import { createBackgroundWork } from "./services/background-work.ts";
 import { createFavouriteService } from "./services/favourite-service.ts";
 import { createMessageService } from "./services/message-service.ts";
 import { createSavedSearchService } from "./services/saved-search-service.ts";
@@ -151,11 +152,17 @@ export function createApp(appDeps: AppDependencies) {
     events,
     settings,
   });
+  // Sign-in and reset limits in MariaDB, shared by every API instance (rate-limiter-flexible).
+  const rateLimits = createRateLimits({ limits: config.limits, dataSource: deps.dataSource, log: logger });
+  // E-mails that must not sit on the request's path (their timing would tell whether an address has an account).
+  const background = createBackgroundWork(logger);
   const accounts = createAccountService({
     dataSource: deps.dataSource,
     mailer: deps.mailer,
     config,
     log: logger,
+    background,
+    notices: rateLimits.notices,
     now: deps.now,
     events,
   });
@@ -232,7 +239,7 @@ export function createApp(appDeps: AppDependencies) {
       csv_text: express.text({ type: ["text/csv", "text/plain", "application/csv", "application/vnd.ms-excel"], limit: "2mb" }),
       provider_event: express.raw({ type: () => true, limit: "1mb" }),
     },
-    limits: createRateLimits(config.limits),
+    limits: rateLimits.steps,
     // Tests check every answer and error code against the table, so a drift fails loudly.
     strict: config.environment === "test",
   };
@@ -296,6 +303,7 @@ export function createApp(appDeps: AppDependencies) {
   }
 
   app.use(errorHandler(logger));
-  // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule.
-  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings });
+  // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule,
+  // and the background work a graceful stop (and a test) waits for.
+  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings, background });
 }

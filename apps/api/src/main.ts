@@ -62,6 +62,8 @@ async function shutdown(signal: string) {
   await jobs.stop();
   await Promise.race([closed, new Promise((resolve) => setTimeout(resolve, 10_000).unref())]);
   server.closeAllConnections();
+  // E-mails handed to background work (reset links, confirmations) still go out.
+  await app.background.settled();
   mailer.close();
   storage.close();
   await dataSource.destroy().catch(() => undefined);

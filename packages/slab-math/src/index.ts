@@ -21,6 +21,7 @@ export {
   NIOSH_LOAD_CONSTANT_KG,
   DENSITY_VARIATION_FRACTION,
   slabWeight,
+  setWeight,
   handlingAdvice,
   type HandlingAdvice,
   type SlabWeight,

@@ -63,6 +63,7 @@ describe("migrations", () => {
       "payout",
       "payout_account",
       "payout_line",
+      "rate_limit",
       "saved_search",
       "saved_search_match",
       "schema_migration",
