@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createApp } from "../app.ts";
 import { createDataSource } from "../db/data-source.ts";
 import { createMailer } from "../integrations/mail.ts";
-import { createPayments } from "../integrations/payments.ts";
+import { createPayments } from "../integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
 import { browserClient, createTestContext, mailTo, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
