@@ -34,6 +34,7 @@ export {
   slabPrice,
   refundShares,
   taxOn,
+  USUAL_FEES,
   formatMoney,
   formatBasisPoints,
   parseMoneyInput,

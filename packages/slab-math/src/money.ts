@@ -32,6 +32,13 @@ export interface FeeSettings {
   processingFixedMinor: number;
 }
 
+/**
+ * Grainyard's usual fees, until an admin sets others: a 10 % platform fee, and card processing at
+ * 2.9 % + 0.30 (a typical card-processing price; common practice). The API starts its settings from
+ * these; the listing form previews with them when the fees in force cannot be fetched.
+ */
+export const USUAL_FEES: Readonly<FeeSettings> = Object.freeze({ platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 });
+
 /** Result of {@link feeBreakdown}: three integers that sum to the subtotal exactly. */
 export interface FeeBreakdown {
   platformFeeMinor: number;

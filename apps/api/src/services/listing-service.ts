@@ -24,7 +24,7 @@ import { recordAudit } from "./audit-log.ts";
 import { changesBetween, snapshotOf, type ReviewSnapshot } from "./review-snapshot.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { DEFAULT_WEIGHT_MOISTURE_PCT, computeListingFigures } from "./figures.ts";
-import { DEFAULT_FEE_SETTINGS } from "./marketplace-settings.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 import { HOLDING_STATUSES, toSlab } from "./yard-service.ts";
 import type { DomainEventBus } from "../events.ts";
 
@@ -150,7 +150,7 @@ export function createListingService(deps: ListingServiceDependencies) {
       priceMode: listing.priceMode,
       rateMinor: listing.rateMinor,
       slabs,
-      fees: deps.settings?.fees() ?? DEFAULT_FEE_SETTINGS,
+      fees: deps.settings?.fees() ?? USUAL_FEES,
     });
   }
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import type { Slab } from "@grainyard/contracts";
 import { listingPreview } from "./useListingFigures.ts";
 import { NIOSH_LOAD_CONSTANT_KG } from "@grainyard/slab-math";
-import { FEE_PREVIEW_SETTINGS } from "../constants/fee-preview.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 
 function slab(boardFeet: number, volumeM3: number, weightLowKg: number, weightHighKg: number): Slab {
   return {
@@ -47,7 +47,7 @@ function slab(boardFeet: number, volumeM3: number, weightLowKg: number, weightHi
 
 describe("listing live figures", () => {
   it("uses Grainyard's preview fees: 10 % platform, 2.9 % + 0.30 processing", () => {
-    expect(FEE_PREVIEW_SETTINGS).toEqual({ platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 });
+    expect(USUAL_FEES).toEqual({ platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 });
   });
 
   it("prices a set per board foot over its total, then splits fees and the sawyer's net", () => {
