@@ -7,10 +7,30 @@ import vue from "eslint-plugin-vue";
 import globals from "globals";
 import tseslint from "typescript-eslint";
 
+/** The card-payment provider's SDK stays behind the payments port. */
+const providerSdk = {
+  paths: [
+    {
+      name: "stripe",
+      message:
+        "The payment provider's SDK stays in apps/api/src/integrations/: use the payments port (PaymentsPort in integrations/payments.ts) and its domain events and errors.",
+    },
+  ],
+  patterns: [
+    {
+      group: ["stripe/*"],
+      message:
+        "The payment provider's SDK stays in apps/api/src/integrations/: use the payments port (PaymentsPort in integrations/payments.ts).",
+    },
+  ],
+};
+
 /** Import bans that keep the layers of ARCHITECTURE.md. */
 const boundaries = {
+  api: providerSdk,
   routes: {
-    paths: [{ name: "typeorm", message: "Routes stay thin: database work belongs in a service." }],
+    paths: [{ name: "typeorm", message: "Routes stay thin: database work belongs in a service." }, ...providerSdk.paths],
+    patterns: providerSdk.patterns,
   },
   sharedUi: {
     patterns: [
@@ -78,6 +98,12 @@ export default tseslint.config(
     // The payments stand-in reads the provider's loosely typed, form-encoded bodies as they come.
     files: ["apps/payments-fake/src/**/*.ts"],
     rules: { "@typescript-eslint/no-explicit-any": "off" },
+  },
+  {
+    // Tests that drive the payments fake may use the SDK's own helpers (signing webhooks, say).
+    files: ["apps/api/src/**/*.ts"],
+    ignores: ["apps/api/src/integrations/**", "apps/api/src/test-support/**", "**/*.test.ts"],
+    rules: { "no-restricted-imports": ["error", boundaries.api] },
   },
   {
     files: ["apps/api/src/routes/**/*.ts"],

@@ -108,7 +108,7 @@ export default defineConfig(({ command, isSsrBuild }) => ({
     environment: "happy-dom",
     include: ["src/**/*.test.ts", "route-size.test.ts"],
     restoreMocks: true,
-    // A test's first navigation compiles its lazy view on the fly; on a busy two-core machine that alone can take seconds.
-    testTimeout: 15_000,
+    // Mounting a whole view with its router takes a few seconds on a busy 2-core machine.
+    testTimeout: 20_000,
   },
 }));

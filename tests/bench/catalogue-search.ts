@@ -18,7 +18,7 @@ import { createApp } from "../../apps/api/src/app.ts";
 import { loadConfig } from "../../apps/api/src/config.ts";
 import { createDataSource } from "../../apps/api/src/db/data-source.ts";
 import { createMailer } from "../../apps/api/src/integrations/mail.ts";
-import { createPayments } from "../../apps/api/src/integrations/payments.ts";
+import { createPayments } from "../../apps/api/src/integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../../apps/api/src/integrations/storage.ts";
 import { createLogger } from "../../apps/api/src/logger.ts";
 import { createCatalogueService } from "../../apps/api/src/services/catalogue-service.ts";

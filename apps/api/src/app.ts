@@ -3,47 +3,50 @@ import cookieSession from "cookie-session";
 import express, { type NextFunction, type Request, type Response } from "express";
 import helmet from "helmet";
 import type { DataSource } from "typeorm";
+import { endpointTable } from "@grainyard/contracts";
 import type { AppConfig } from "./config.ts";
 import { accessLog } from "./http/access-log.ts";
 import { apiNotFound, errorHandler } from "./http/errors.ts";
-import { requireCsrfToken } from "./http/csrf.ts";
 import { sessionOf } from "./http/context.ts";
 import { createRateLimits } from "./http/rate-limits.ts";
 import type { Mailer } from "./integrations/mail.ts";
-import type { Payments } from "./integrations/payments.ts";
+import type { PaymentsPort } from "./integrations/payments.ts";
 import type { PhotoStorage } from "./integrations/storage.ts";
 import type { Logger } from "./logger.ts";
-import { accountRoutes } from "./routes/account-routes.ts";
-import { healthRoutes } from "./routes/health-routes.ts";
-import { listingRoutes } from "./routes/listing-routes.ts";
-import { photoRoutes } from "./routes/photo-routes.ts";
+import { accountHandlers } from "./routes/account-routes.ts";
+import { healthHandlers } from "./routes/health-routes.ts";
+import { listingHandlers, reviewHandlers } from "./routes/listing-routes.ts";
 import { createLogPhotoService, createPhotoService } from "./services/photo-service.ts";
-import { yardRoutes } from "./routes/yard-routes.ts";
-import { catalogueRoutes, catalogueSearch, catalogueSearchPath } from "./routes/catalogue-routes.ts";
-import { orderRoutes, paymentWebhookRoute } from "./routes/order-routes.ts";
+import { yardHandlers } from "./routes/yard-routes.ts";
+import { catalogueHandlers } from "./routes/catalogue-routes.ts";
+import { orderHandlers } from "./routes/order-routes.ts";
 import { createCheckoutService } from "./services/checkout-service.ts";
 import { createOrderService } from "./services/order-service.ts";
+import { createRefundService } from "./services/refund-service.ts";
 import { createAccountService, SESSION_DAYS } from "./services/account-service.ts";
 import { createCatalogueService } from "./services/catalogue-service.ts";
 import { createInventoryCsv } from "./services/inventory-csv.ts";
 import { createListingService } from "./services/listing-service.ts";
 import { createYardService } from "./services/yard-service.ts";
-import { favouriteRoutes } from "./routes/favourite-routes.ts";
-import { messageRoutes } from "./routes/message-routes.ts";
-import { savedSearchRoutes } from "./routes/saved-search-routes.ts";
+import { buyerHandlers } from "./routes/buyer-routes.ts";
+import { messageHandlers } from "./routes/message-routes.ts";
+import { createDomainEvents } from "./events.ts";
 import { createHealthService } from "./services/health-service.ts";
+import { createBackgroundWork } from "./services/background-work.ts";
 import { createFavouriteService } from "./services/favourite-service.ts";
 import { createMessageService } from "./services/message-service.ts";
 import { createSavedSearchService } from "./services/saved-search-service.ts";
-import { adminRoutes } from "./routes/admin-routes.ts";
-import { payoutRoutes } from "./routes/payout-routes.ts";
+import { adminHandlers, reportHandlers } from "./routes/admin-routes.ts";
+import { payoutHandlers } from "./routes/payout-routes.ts";
 import { createPayoutService } from "./services/payout-service.ts";
 import { createAccountModeration } from "./services/account-moderation.ts";
 import { createAuditService } from "./services/audit-log.ts";
 import { createDashboardService } from "./services/dashboard-service.ts";
 import { createReportService } from "./services/report-service.ts";
 import { createSettingsService } from "./services/settings-service.ts";
-import { movableClock, testClockRoutes } from "./routes/test-clock-routes.ts";
+import { movableClock, testClockHandlers } from "./routes/test-clock-routes.ts";
+import { mountEndpoints, rowsOf, type Handlers, type MountOptions } from "./http/endpoints.ts";
+import { MAX_PHOTO_BYTES } from "./photos/index.ts";
 import { webApp } from "./web/web-app.ts";
 
 export interface AppDependencies {
@@ -51,7 +54,7 @@ export interface AppDependencies {
   dataSource: DataSource;
   mailer: Mailer;
   storage: PhotoStorage;
-  payments: Payments;
+  payments: PaymentsPort;
   logger: Logger;
   now?: () => Date;
 }
@@ -92,36 +95,21 @@ export function createApp(appDeps: AppDependencies) {
     }),
   );
 
-  // The catalogue search is the busiest route and the same for everyone: it answers before the
-  // session, the anti-forgery check and the acting-user lookup (it never needs them).
   const catalogue = createCatalogueService({
     dataSource: deps.dataSource,
     cursorSecret: config.sessionSecret,
     cache: config.catalogueCache,
   });
-  app.get(catalogueSearchPath, catalogueSearch(catalogue));
-  // Everything else that is text (JSON, the web app's HTML, scripts and styles, CSV) goes out
-  // compressed to clients that take it; photos are already compressed and pass through.
-  app.use(compression());
-
-  app.use(
-    cookieSession({
-      name: "grainyard_session",
-      keys: [config.sessionSecret],
-      signed: true,
-      httpOnly: true,
-      sameSite: "lax",
-      secure: production,
-      maxAge: SESSION_DAYS * 86400_000,
-    }),
-  );
   // Admin-editable settings (fees, reservation minutes, tax, hold days) from the database, with the env values as defaults.
   const settings = createSettingsService({ dataSource: deps.dataSource, config, now: deps.now });
   void settings.ensureFresh().catch((error) => logger.error({ err: error }, "could not read marketplace settings"));
-  // The payment provider's webhook needs its raw body for the signature: before the JSON parser.
+  const events = createDomainEvents();
+  // Every refund (late payments, cancellations, disputes) goes through one service.
+  const refunds = createRefundService({ dataSource: deps.dataSource, payments: deps.payments, log: logger, now: deps.now });
   const checkout = createCheckoutService({
     dataSource: deps.dataSource,
     payments: deps.payments,
+    refunds,
     mailer: deps.mailer,
     // Reservation minutes and tax come from the settings table, read fresh per request.
     config: {
@@ -132,12 +120,13 @@ export function createApp(appDeps: AppDependencies) {
     },
     log: logger,
     now: deps.now,
-    onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
+    events,
     onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
   });
   const payouts = createPayoutService({
     dataSource: deps.dataSource,
     payments: deps.payments,
+    refunds,
     mailer: deps.mailer,
     config,
     holdDays: () => settings.current().holdDays,
@@ -146,37 +135,39 @@ export function createApp(appDeps: AppDependencies) {
   });
   const orders = createOrderService({
     dataSource: deps.dataSource,
-    payments: deps.payments,
+    refunds,
     mailer: deps.mailer,
     config,
     log: logger,
     now: deps.now,
-    onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
+    events,
   });
-  app.use("/api/v1", paymentWebhookRoute(checkout, deps.payments, config.payments.webhookSecret));
-  app.use(express.json({ limit: "100kb" }));
-
   const listings = createListingService({
     dataSource: deps.dataSource,
     mailer: deps.mailer,
     config,
     log: logger,
     now: deps.now,
-    onListingChanged: (manager, listingId) => catalogue.refreshEntry(manager, listingId),
-    onListingLive: (listingId) => savedSearches.onListingLive(listingId),
+    events,
     settings,
   });
+  // Sign-in and reset limits in MariaDB, shared by every API instance (rate-limiter-flexible).
+  const rateLimits = createRateLimits({ limits: config.limits, dataSource: deps.dataSource, log: logger });
+  // E-mails that must not sit on the request's path (their timing would tell whether an address has an account).
+  const background = createBackgroundWork(logger);
   const accounts = createAccountService({
     dataSource: deps.dataSource,
     mailer: deps.mailer,
     config,
     log: logger,
+    background,
+    notices: rateLimits.notices,
     now: deps.now,
-    onYardChanged: (manager, sawyerId) => listings.refreshAllOfSawyer(manager, sawyerId),
+    events,
   });
   const yard = createYardService({
     dataSource: deps.dataSource,
-    onSlabFiguresChanged: (manager, slabIds) => listings.refreshListingsOfSlabs(manager, slabIds),
+    events,
   });
   const inventoryCsv = createInventoryCsv({ dataSource: deps.dataSource, yard });
   const photos = createPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
@@ -191,8 +182,6 @@ export function createApp(appDeps: AppDependencies) {
   });
   const favourites = createFavouriteService({ dataSource: deps.dataSource, now: deps.now });
   const messages = createMessageService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
-  const refreshCatalogue = (manager: Parameters<typeof catalogue.refreshEntry>[0], listingId: string) =>
-    catalogue.refreshEntry(manager, listingId);
   const audit = createAuditService({ dataSource: deps.dataSource });
   const moderation = createAccountModeration({
     dataSource: deps.dataSource,
@@ -200,7 +189,7 @@ export function createApp(appDeps: AppDependencies) {
     config,
     log: logger,
     now: deps.now,
-    onListingChanged: refreshCatalogue,
+    events,
   });
   const reports = createReportService({
     dataSource: deps.dataSource,
@@ -209,7 +198,7 @@ export function createApp(appDeps: AppDependencies) {
     log: logger,
     moderation,
     now: deps.now,
-    onListingChanged: refreshCatalogue,
+    events,
   });
   const dashboard = createDashboardService({
     dataSource: deps.dataSource,
@@ -218,6 +207,63 @@ export function createApp(appDeps: AppDependencies) {
     suspendedUsers: () => moderation.suspendedCount(),
   });
 
+  // Who acts on what: the catalogue follows listings, listings follow yards and slabs, alerts follow new live listings.
+  events.on("listingChanged", ({ manager, listingId }) => catalogue.refreshEntry(manager, listingId));
+  events.on("yardChanged", ({ manager, sawyerId }) => listings.refreshAllOfSawyer(manager, sawyerId));
+  events.on("slabFiguresChanged", ({ manager, slabIds }) => listings.refreshListingsOfSlabs(manager, slabIds));
+  events.on("listingLive", ({ listingId }) => savedSearches.onListingLive(listingId));
+
+  // Every API route comes from the endpoint table in packages/contracts, with one handler per row.
+  const handlers: { [D in keyof typeof endpointTable]?: Handlers<(typeof endpointTable)[D]> } = {
+    health: healthHandlers(createHealthService(deps)),
+    accounts: accountHandlers(accounts),
+    yard: yardHandlers(yard, inventoryCsv, logPhotos),
+    listings: listingHandlers(listings, photos),
+    review: reviewHandlers(listings),
+    catalogue: catalogueHandlers(catalogue, settings),
+    orders: orderHandlers(checkout, orders, deps.payments),
+    buyer: buyerHandlers(savedSearches, favourites),
+    messages: messageHandlers(messages),
+    reports: reportHandlers(reports),
+    admin: adminHandlers({ audit, reports, moderation, settings, dashboard }),
+    payouts: payoutHandlers(payouts),
+    // The end-to-end suite's clock exists only on that stack; elsewhere its rows are not mounted (404).
+    testClock: testClock ? testClockHandlers(testClock) : undefined,
+  };
+  const rows = rowsOf(endpointTable, handlers);
+  const mountOptions: MountOptions = {
+    bodyReaders: {
+      json: express.json({ limit: "100kb" }),
+      photo_bytes: express.raw({ type: () => true, limit: MAX_PHOTO_BYTES }),
+      csv_text: express.text({ type: ["text/csv", "text/plain", "application/csv", "application/vnd.ms-excel"], limit: "2mb" }),
+      provider_event: express.raw({ type: () => true, limit: "1mb" }),
+    },
+    limits: rateLimits.steps,
+    // Tests check every answer and error code against the table, so a drift fails loudly.
+    strict: config.environment === "test",
+  };
+
+  // The catalogue search is the busiest route and the same for everyone: its row (like the health
+  // check's) answers before the session, the anti-forgery check and the acting-user lookup.
+  mountEndpoints(
+    app,
+    rows.filter((row) => row.spec.sessionFree),
+    mountOptions,
+  );
+  // Everything else that is text (JSON, the web app's HTML, scripts and styles, CSV) goes out
+  // compressed to clients that take it; photos are already compressed and pass through.
+  app.use(compression());
+  app.use(
+    cookieSession({
+      name: "grainyard_session",
+      keys: [config.sessionSecret],
+      signed: true,
+      httpOnly: true,
+      sameSite: "lax",
+      secure: production,
+      maxAge: SESSION_DAYS * 86400_000,
+    }),
+  );
   // Who is acting: read once per request from the session key in the cookie.
   app.use(async (req: Request, _res: Response, next: NextFunction) => {
     try {
@@ -229,28 +275,18 @@ export function createApp(appDeps: AppDependencies) {
       next(error);
     }
   });
-
-  app.use("/api", healthRoutes(createHealthService(deps)));
-  // Read-only routes first (no anti-forgery check needed): fewer routers to walk past.
-  app.use("/api/v1", catalogueRoutes(catalogue, settings));
-  app.use(
-    "/api/v1",
-    requireCsrfToken,
-    accountRoutes(accounts, createRateLimits(config.limits)),
-    yardRoutes(yard, inventoryCsv, logPhotos),
-    listingRoutes(listings),
-    photoRoutes(photos, logPhotos),
-    orderRoutes(checkout, orders),
+  mountEndpoints(
+    app,
+    rows.filter((row) => !row.spec.sessionFree),
+    mountOptions,
   );
-  app.use("/api/v1", requireCsrfToken, savedSearchRoutes(savedSearches), favouriteRoutes(favourites), messageRoutes(messages));
-  app.use("/api/v1", requireCsrfToken, adminRoutes({ listings, audit, reports, moderation, settings, dashboard }), payoutRoutes(payouts));
-  if (testClock) app.use("/api/_test", testClockRoutes(testClock));
   app.use("/api", apiNotFound);
 
   // robots.txt, the sitemaps, the built web app's files and its pages (public ones rendered on the server).
   app.use(webApp({ config, logger, dataSource: deps.dataSource }));
 
   app.use(errorHandler(logger));
-  // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule.
-  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings });
+  // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule,
+  // and the background work a graceful stop (and a test) waits for.
+  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings, background });
 }

@@ -1,11 +1,16 @@
+import { errorCatalogue, type ErrorCode, type ErrorCodeWithStatus } from "@grainyard/contracts";
+
 /**
- * Typed errors thrown by services. One error middleware turns them into
- * `{ error: { code, message, fields? } }` with the status each carries.
+ * Typed errors thrown by services. Each takes only codes of the error catalogue in
+ * packages/contracts whose status matches its own (a typo or a wrong status is a type error), and
+ * one error middleware turns them into `{ error: { code, message, fields? } }` with that status.
  */
 export class AppError extends Error {
+  readonly status: number;
+  /** What went wrong underneath (keys, driver text), for the log only: never part of an answer. */
+  internal?: string;
   constructor(
-    readonly status: number,
-    readonly code: string,
+    readonly code: ErrorCode,
     message: string,
     readonly fields?: Record<string, string>,
     /** More detail for the client, merged into the error object (e.g. CSV row errors). */
@@ -13,46 +18,48 @@ export class AppError extends Error {
   ) {
     super(message);
     this.name = new.target.name;
+    this.status = errorCatalogue[code].status;
   }
 }
 
 export class Invalid extends AppError {
-  constructor(message: string, fields?: Record<string, string>, code = "invalid_input") {
-    super(422, code, message, fields);
+  declare readonly code: ErrorCodeWithStatus<422>;
+  constructor(message: string, fields?: Record<string, string>, code: ErrorCodeWithStatus<422> = "invalid_input") {
+    super(code, message, fields);
   }
 }
 export class ServiceUnavailable extends AppError {
-  constructor(message: string, code = "unavailable") {
-    super(503, code, message);
+  constructor(message: string, code: ErrorCodeWithStatus<503> = "unavailable") {
+    super(code, message);
   }
 }
 export class Unauthorized extends AppError {
-  constructor(message = "Sign in to do that.", code = "not_signed_in") {
-    super(401, code, message);
+  constructor(message = "Sign in to do that.", code: ErrorCodeWithStatus<401> = "not_signed_in") {
+    super(code, message);
   }
 }
 export class Forbidden extends AppError {
-  constructor(message = "Your account cannot do that.", code = "forbidden") {
-    super(403, code, message);
+  constructor(message = "Your account cannot do that.", code: ErrorCodeWithStatus<403> = "forbidden") {
+    super(code, message);
   }
 }
 export class NotFound extends AppError {
-  constructor(message = "We could not find that.", code = "not_found") {
-    super(404, code, message);
+  constructor(message = "We could not find that.") {
+    super("not_found", message);
   }
 }
 export class Conflict extends AppError {
-  constructor(message: string, code = "conflict") {
-    super(409, code, message);
+  constructor(message: string, code: ErrorCodeWithStatus<409>) {
+    super(code, message);
   }
 }
 export class Gone extends AppError {
-  constructor(message: string, code = "gone") {
-    super(410, code, message);
+  constructor(message: string, code: ErrorCodeWithStatus<410>) {
+    super(code, message);
   }
 }
 export class TooManyRequests extends AppError {
   constructor(message: string) {
-    super(429, "too_many_requests", message);
+    super("too_many_requests", message);
   }
 }

@@ -1,8 +1,10 @@
+import escape from "escape-html";
+import type { OrderSlabSnapshot } from "@grainyard/contracts";
+import { formatMoney } from "@grainyard/slab-math";
 import type { OutgoingMail } from "./integrations/mail.ts";
 
 /** The words of every e-mail Grainyard sends, in one place. Plain text first; the HTML mirrors it. */
 export function layout(paragraphs: string[], action?: { label: string; url: string }): { text: string; html: string } {
-  const escape = (s: string) => s.replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c]!);
   const text = [...paragraphs, ...(action ? [`${action.label}: ${action.url}`] : []), "", "— Grainyard, slabs from city trees"].join(
     "\n\n",
   );
@@ -44,6 +46,40 @@ export function passwordResetMail(to: string, displayName: string, link: string)
   };
 }
 
+/** To the owner of an address someone tried to join with (the join answers the same either way). */
+export function joinAttemptMail(to: string, displayName: string, signInLink: string, resetLink: string): OutgoingMail {
+  return {
+    to,
+    subject: "Someone tried to join Grainyard with your e-mail",
+    ...layout(
+      [
+        `Hello ${displayName},`,
+        "Someone just tried to make a new Grainyard account with this e-mail address. It already belongs to your account, so no new account was made and nothing about yours changed.",
+        `If it was you, sign in instead: ${signInLink}`,
+        "Forgot your password? Choose a new one with the button below. If it was not you, you need do nothing.",
+      ],
+      { label: "Choose a new password", url: resetLink },
+    ),
+  };
+}
+
+/** To the owner of an account that many wrong passwords were tried on. */
+export function signInAttemptsMail(to: string, displayName: string, failures: number, resetLink: string): OutgoingMail {
+  return {
+    to,
+    subject: "Wrong passwords were tried on your Grainyard account",
+    ...layout(
+      [
+        `Hello ${displayName},`,
+        `In the last 15 minutes, ${failures} sign-ins to your Grainyard account failed with a wrong password.`,
+        "Your account is not locked: you can sign in as usual. Each wrong try is now slowed down, and an address that keeps guessing is turned away.",
+        "If these were not you, your password held. To be safe you may choose a new, longer one that you use nowhere else.",
+      ],
+      { label: "Choose a new password", url: resetLink },
+    ),
+  };
+}
+
 export function listingApprovedMail(to: string, displayName: string, title: string, link: string): OutgoingMail {
   return {
     to,
@@ -71,8 +107,6 @@ export function listingSentBackMail(to: string, displayName: string, title: stri
   };
 }
 
-const moneyText = (minor: number, currency: string) => new Intl.NumberFormat("en", { style: "currency", currency }).format(minor / 100);
-
 interface OrderForMail {
   id: string;
   title: string;
@@ -85,14 +119,14 @@ interface OrderForMail {
   processingFeeMinor: number;
   handover: "pickup" | "freight";
   deliveryAddress: string | null;
-  slabSnapshot: Record<string, unknown>[];
+  slabSnapshot: OrderSlabSnapshot[];
 }
 
 function slabLines(order: OrderForMail): string[] {
-  return order.slabSnapshot.map((slab, index) => {
-    const figures = slab.figures as { boardFeet: number; weightHighKg: number } | undefined;
-    return `Slab ${index + 1}: ${String(slab.lengthMm)} × ${Math.round(Number((slab.figures as { averageWidthMm?: number } | undefined)?.averageWidthMm ?? 0))} × ${String(slab.thicknessMm)} mm, ${figures ? figures.boardFeet.toFixed(1) : "?"} board feet, up to ${figures ? Math.round(figures.weightHighKg) : "?"} kg`;
-  });
+  return order.slabSnapshot.map(
+    ({ lengthMm, thicknessMm, figures }, index) =>
+      `Slab ${index + 1}: ${lengthMm} × ${Math.round(figures.averageWidthMm)} × ${thicknessMm} mm, ${figures.boardFeet.toFixed(1)} board feet, up to ${Math.round(figures.weightHighKg)} kg`,
+  );
 }
 
 export function orderPaidBuyerMail(
@@ -114,7 +148,7 @@ export function orderPaidBuyerMail(
         `Thank you: your payment for "${order.title}" from ${sawyer.yardName ?? "the yard"} is confirmed.`,
         `Receipt for order ${order.id.slice(0, 8).toUpperCase()}:`,
         ...slabLines(order),
-        `Price ${moneyText(order.priceMinor, order.currency)} · tax ${moneyText(order.taxMinor, order.currency)} · total paid ${moneyText(order.totalMinor, order.currency)}.`,
+        `Price ${formatMoney(order.priceMinor, order.currency)} · tax ${formatMoney(order.taxMinor, order.currency)} · total paid ${formatMoney(order.totalMinor, order.currency)}.`,
         handover,
         "Slabs are heavy: lift with two people or a machine, secure the load, and keep to local load and vehicle limits.",
       ],
@@ -136,7 +170,7 @@ export function orderPaidSawyerMail(
       [
         `Hello ${sawyer.displayName},`,
         `${buyer.displayName} bought "${order.title}" and the payment is confirmed.`,
-        `Price ${moneyText(order.priceMinor, order.currency)} − platform fee ${moneyText(order.platformFeeMinor, order.currency)} − card processing ${moneyText(order.processingFeeMinor, order.currency)} = your net ${moneyText(order.sawyerNetMinor, order.currency)}.`,
+        `Price ${formatMoney(order.priceMinor, order.currency)} − platform fee ${formatMoney(order.platformFeeMinor, order.currency)} − card processing ${formatMoney(order.processingFeeMinor, order.currency)} = your net ${formatMoney(order.sawyerNetMinor, order.currency)}.`,
         order.handover === "pickup"
           ? "The buyer collects from your yard: propose pickup times from the order page."
           : `Freight to: ${order.deliveryAddress ?? ""}. Add the carrier and tracking reference on the order page.`,
@@ -283,15 +317,15 @@ export function orderStepMail(
             : `${parties.buyerName} confirmed receiving ${title}. The order is complete.`,
         role === "buyer"
           ? "Enjoy the build. Wood dust is a recognised carcinogen: work with dust extraction and a fitted respirator, and read the safety data sheet of any finish."
-          : `Your net for this sale: ${moneyText(order.sawyerNetMinor, order.currency)}.`,
+          : `Your net for this sale: ${formatMoney(order.sawyerNetMinor, order.currency)}.`,
       ];
       break;
     case "cancelled": {
       const who = order.cancelledBy === role ? "You" : order.cancelledBy === "sawyer" ? yard : parties.buyerName;
       const refund =
         order.status === "refunded"
-          ? `The full payment of ${moneyText(order.totalMinor, order.currency)} has been refunded to the card.`
-          : `The full payment of ${moneyText(order.totalMinor, order.currency)} is being refunded to the card.`;
+          ? `The full payment of ${formatMoney(order.totalMinor, order.currency)} has been refunded to the card.`
+          : `The full payment of ${formatMoney(order.totalMinor, order.currency)} is being refunded to the card.`;
       subject = `Cancelled and refunded: ${order.title}`;
       lines = [
         hello,
@@ -308,13 +342,6 @@ export function orderStepMail(
 }
 
 // ---- Buyer tools: saved-search alerts and message notices ----
-
-function escapeHtmlText(s: string): string {
-  return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
-}
-function priceText(minor: number, currency: string): string {
-  return new Intl.NumberFormat("en", { style: "currency", currency }).format(minor / 100);
-}
 
 export interface AlertMailItem {
   title: string;
@@ -335,7 +362,8 @@ export function savedSearchAlertMail(
 ): OutgoingMail {
   const count = items.length === 1 ? "A new slab matches" : `${items.length} new slabs match`;
   const intro = `${count} your saved search "${searchName}":`;
-  const line = (item: AlertMailItem) => `${item.title} — ${priceText(item.priceMinor, item.currency)}${item.town ? `, ${item.town}` : ""}`;
+  const line = (item: AlertMailItem) =>
+    `${item.title} — ${formatMoney(item.priceMinor, item.currency)}${item.town ? `, ${item.town}` : ""}`;
   const footer = "— Grainyard, slabs from city trees";
   const text = [
     `Hello ${displayName},`,
@@ -346,11 +374,11 @@ export function savedSearchAlertMail(
     "",
     footer,
   ].join("\n\n");
-  const html = `<div style="font-family:Georgia,serif;color:#2b241c;max-width:560px"><p>${escapeHtmlText(`Hello ${displayName},`)}</p><p>${escapeHtmlText(intro)}</p><ul>${items
-    .map((item) => `<li><a href="${escapeHtmlText(item.url)}">${escapeHtmlText(line(item))}</a></li>`)
+  const html = `<div style="font-family:Georgia,serif;color:#2b241c;max-width:560px"><p>${escape(`Hello ${displayName},`)}</p><p>${escape(intro)}</p><ul>${items
+    .map((item) => `<li><a href="${escape(item.url)}">${escape(line(item))}</a></li>`)
     .join(
       "",
-    )}</ul><p><a href="${escapeHtmlText(searchUrl)}" style="background:#6b3f1d;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">See everything that matches</a></p><p style="font-size:13px;color:#6d6256">We send at most one of these a day. <a href="${escapeHtmlText(unsubscribeUrl)}">Stop alerts for “${escapeHtmlText(searchName)}”</a>.</p><p style="font-size:13px;color:#6d6256">${footer}</p></div>`;
+    )}</ul><p><a href="${escape(searchUrl)}" style="background:#6b3f1d;color:#fff;padding:10px 16px;border-radius:6px;text-decoration:none">See everything that matches</a></p><p style="font-size:13px;color:#6d6256">We send at most one of these a day. <a href="${escape(unsubscribeUrl)}">Stop alerts for “${escape(searchName)}”</a>.</p><p style="font-size:13px;color:#6d6256">${footer}</p></div>`;
   return {
     to,
     subject: items.length === 1 ? `New slab for "${searchName}": ${items[0]!.title}` : `${items.length} new slabs for "${searchName}"`,
@@ -383,8 +411,6 @@ export function messageNoticeMail(
   };
 }
 
-const payoutMoney = (minor: number, currency: string) => new Intl.NumberFormat("en", { style: "currency", currency }).format(minor / 100);
-
 /** A payout went out to the sawyer's payout account. */
 export function payoutSentMail(
   sawyer: { email: string; displayName: string },
@@ -394,11 +420,11 @@ export function payoutSentMail(
 ): OutgoingMail {
   return {
     to: sawyer.email,
-    subject: `Grainyard sent you ${payoutMoney(payout.amountMinor, payout.currency)}`,
+    subject: `Grainyard sent you ${formatMoney(payout.amountMinor, payout.currency)}`,
     ...layout(
       [
         `Hello ${sawyer.displayName},`,
-        `We sent ${payoutMoney(payout.amountMinor, payout.currency)} to your payout account, for ${orderCount === 1 ? "one order" : `${orderCount} orders`}.`,
+        `We sent ${formatMoney(payout.amountMinor, payout.currency)} to your payout account, for ${orderCount === 1 ? "one order" : `${orderCount} orders`}.`,
         "Your payouts page has the statement of the orders it covers; it can take a few working days to reach your bank.",
       ],
       { label: "See the statement", url: link },
@@ -415,7 +441,7 @@ export function disputeRefundMail(
   reason: string,
   link: string,
 ): OutgoingMail {
-  const amount = payoutMoney(amountMinor, order.currency);
+  const amount = formatMoney(amountMinor, order.currency);
   const whole = amountMinor === order.totalMinor;
   return {
     to: person.email,

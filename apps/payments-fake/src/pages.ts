@@ -1,6 +1,6 @@
+import escapeHtml from "escape-html";
 /** The fake's own hosted pages: plain, clearly marked as a test-mode stand-in. */
-const escape = (value: unknown) =>
-  String(value ?? "").replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
+const escape = (value: unknown) => escapeHtml(String(value ?? ""));
 
 function page(title: string, body: string): string {
   return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>${escape(title)}</title>

@@ -15,8 +15,8 @@ import { createPinia } from "pinia";
 import { PiniaColada, PiniaColadaSSRNoGc } from "@pinia/colada";
 import type { RouterHistory } from "vue-router";
 import App from "./App.vue";
-import type { ApiClient } from "./api/client.ts";
-import { API_CLIENT } from "./queries/api.ts";
+import type { Transport } from "./api/http.ts";
+import { API_TRANSPORT } from "./queries/api.ts";
 import { createGrainyardRouter } from "./router.ts";
 import { SITE } from "./seo/site.ts";
 import type { SiteInfo } from "./ssr/state.ts";
@@ -25,7 +25,8 @@ export interface AppOptions {
   /** Server-rendered (or about to hydrate server HTML) rather than a plain browser mount. */
   ssr: boolean;
   history: RouterHistory;
-  api: ApiClient;
+  /** How this app instance reaches the API (the server gives each render its own). */
+  transport: Transport;
   site: SiteInfo;
 }
 
@@ -44,7 +45,7 @@ export function createGrainyardApp(options: AppOptions) {
   });
   const router = createGrainyardRouter(pinia, options.history);
   app.use(router);
-  app.provide(API_CLIENT, options.api);
+  app.provide(API_TRANSPORT, options.transport);
   app.provide(SITE, options.site);
   return { app, pinia, router };
 }

@@ -7,7 +7,7 @@ import { watch } from "vue";
 import { createHead } from "@unhead/vue/client";
 import { hydrateQueryCache, useQueryCache } from "@pinia/colada";
 import { createWebHistory } from "vue-router";
-import { api } from "./api/client.ts";
+import { transport } from "./api/http.ts";
 import { createGrainyardApp } from "./app.ts";
 import { useSessionStore } from "./stores/session.ts";
 import { STATE_ELEMENT_ID, parsePageState, type PageState } from "./ssr/state.ts";
@@ -27,7 +27,7 @@ const state = readPageState();
 const { app, pinia, router } = createGrainyardApp({
   ssr: state !== null,
   history: createWebHistory(),
-  api,
+  transport,
   site: state?.site ?? { origin: window.location.origin },
 });
 app.use(createHead());
@@ -40,7 +40,7 @@ if (state) {
 
 // The API client asks the session store for the anti-forgery token on every state-changing call.
 const session = useSessionStore(pinia);
-api.useCsrfToken(() => session.csrfToken);
+transport.useCsrfToken(() => session.csrfToken);
 
 /**
  * The installable app is the sawyer's: the service worker (the app's files, the shell for when

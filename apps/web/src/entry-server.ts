@@ -11,7 +11,7 @@ import { createMemoryHistory } from "vue-router";
 import { createHead, transformHtmlTemplate } from "@unhead/vue/server";
 import { setup as setupCssRender } from "@css-render/vue3-ssr";
 import { serializeQueryCache, useQueryCache } from "@pinia/colada";
-import { createApiClient } from "./api/client.ts";
+import { createTransport } from "./api/http.ts";
 import { createGrainyardApp } from "./app.ts";
 import { useUnitsStore, unitsForRequest } from "./stores/units.ts";
 import { pageStateElement } from "./ssr/state.ts";
@@ -46,7 +46,7 @@ export async function render(request: RenderRequest): Promise<RenderResult> {
   const { app, pinia, router } = createGrainyardApp({
     ssr: true,
     history: createMemoryHistory(),
-    api: createApiClient({ fetch: request.fetch }),
+    transport: createTransport({ fetch: request.fetch }),
     site,
   });
   useUnitsStore(pinia).system = unitsForRequest(request.preferences.units, request.preferences.acceptLanguage);

@@ -1,18 +1,18 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { createPinia } from "pinia";
 import { createMemoryHistory } from "vue-router";
-import { api } from "./api/client.ts";
+import { transport } from "./api/http.ts";
 import { createGrainyardRouter, safeNextPath } from "./router.ts";
 import { useSessionStore } from "./stores/session.ts";
 
-afterEach(() => api.useFetch(undefined));
+afterEach(() => transport.useFetch(undefined));
 
 function routerWithSession(account: unknown, fails = false) {
   const fetchMock = vi.fn(async () => {
     if (fails) throw new TypeError("Failed to fetch");
     return new Response(JSON.stringify({ account, csrfToken: "t" }), { status: 200 });
   });
-  api.useFetch(fetchMock as unknown as typeof fetch);
+  transport.useFetch(fetchMock as unknown as typeof fetch);
   const pinia = createPinia();
   return { router: createGrainyardRouter(pinia, createMemoryHistory()), session: useSessionStore(pinia) };
 }

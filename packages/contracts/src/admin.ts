@@ -1,7 +1,6 @@
 import { z } from "zod";
 import { accountSchema, roleSchema } from "./accounts.ts";
 import { listingSchema } from "./listings.ts";
-import { API_PREFIX, reportPaths } from "./paths.ts";
 
 /*
  * The operator desk: moderation, the audit log, reports, suspension, marketplace settings, users
@@ -119,6 +118,11 @@ export const reportSchema = z.object({
 export type Report = z.infer<typeof reportSchema>;
 export const reportListSchema = z.object({ reports: z.array(reportSchema) });
 export const reportEnvelopeSchema = z.object({ report: reportSchema });
+/** What the person who filed a report gets back: never the reported person's details. */
+export const reportReceiptSchema = z.object({
+  report: z.object({ id: z.string(), targetKind: z.enum(reportTargetKinds), targetId: z.string(), status: z.literal("open") }),
+});
+export type ReportReceipt = z.infer<typeof reportReceiptSchema>["report"];
 export const reportQuerySchema = z.object({ status: z.enum(reportStatuses).optional() });
 
 // Suspension and users.
@@ -196,24 +200,3 @@ export const dashboardSchema = z.object({
   suspendedUsers: z.number(),
 });
 export type Dashboard = z.infer<typeof dashboardSchema>;
-
-/**
- * The operator desk's paths (admin only, except filing a report). Kept here rather than in
- * paths.ts so the shared web client, and with it the catalogue's bundle, carries none of them.
- */
-export const adminPaths = {
-  reviewDesk: `${API_PREFIX}/admin/review-desk`,
-  reviewReject: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/reject`,
-  reviewHistory: (listingId: string) => `${API_PREFIX}/admin/listings/${encodeURIComponent(listingId)}/reviews`,
-  audit: `${API_PREFIX}/admin/audit`,
-  auditCsv: `${API_PREFIX}/admin/audit.csv`,
-  reports: reportPaths.reports,
-  adminReports: `${API_PREFIX}/admin/reports`,
-  adminReportResolve: (reportId: string) => `${API_PREFIX}/admin/reports/${encodeURIComponent(reportId)}/resolve`,
-  users: `${API_PREFIX}/admin/users`,
-  user: (accountId: string) => `${API_PREFIX}/admin/users/${encodeURIComponent(accountId)}`,
-  userSuspend: (accountId: string) => `${API_PREFIX}/admin/users/${encodeURIComponent(accountId)}/suspend`,
-  userRestore: (accountId: string) => `${API_PREFIX}/admin/users/${encodeURIComponent(accountId)}/restore`,
-  settings: `${API_PREFIX}/admin/settings`,
-  dashboard: `${API_PREFIX}/admin/dashboard`,
-} as const;

@@ -1,4 +1,6 @@
 import { z } from "zod";
+import { orderStatuses } from "./order-lifecycle.ts";
+import { slabSchema } from "./yard.ts";
 
 /** Buying a slab: the handover choice, and the order as the buyer (or the sawyer) sees it. */
 export const checkoutInputSchema = z
@@ -11,19 +13,6 @@ export const checkoutInputSchema = z
       context.addIssue({ code: "custom", path: ["deliveryAddress"], message: "Where should the freight go?" });
   });
 export type CheckoutInput = z.infer<typeof checkoutInputSchema>;
-
-export const orderStatusLabels = {
-  awaiting_payment: "Payment being confirmed",
-  paid: "Paid",
-  ready_for_pickup: "Ready for pickup",
-  shipped: "Shipped",
-  handed_over: "Handed over",
-  completed: "Completed",
-  cancelled: "Cancelled",
-  payment_failed: "Payment did not go through",
-  expired: "Reservation ran out",
-  refunded: "Refunded",
-} as const;
 
 /** A pickup window, ISO instants. */
 export const pickupWindowSchema = z.object({ startsAt: z.string(), endsAt: z.string() });
@@ -86,9 +75,19 @@ export const checkoutQuoteSchema = z.object({
 });
 export type CheckoutQuote = z.infer<typeof checkoutQuoteSchema>["quote"];
 
+/**
+ * One slab of an order as it was when the order was made (the figures the buyer agreed to): the
+ * slab as the yard showed it then. The API writes each order's snapshot through this schema and
+ * the web reads it with the same type. It is the yard's slab schema, so a field added to
+ * `slabSchema` later must be optional (or have a default), or the snapshots stored before it stop
+ * reading: orders.test.ts keeps a snapshot as stored to prove it.
+ */
+export const orderSlabSnapshotSchema = slabSchema;
+export type OrderSlabSnapshot = z.infer<typeof orderSlabSnapshotSchema>;
+
 export const orderSchema = z.object({
   id: z.string(),
-  status: z.enum(Object.keys(orderStatusLabels) as [keyof typeof orderStatusLabels, ...(keyof typeof orderStatusLabels)[]]),
+  status: z.enum(orderStatuses),
   listingId: z.string(),
   title: z.string(),
   currency: z.string(),
@@ -99,7 +98,7 @@ export const orderSchema = z.object({
   deliveryAddress: z.string().nullable(),
   reservedUntil: z.string(),
   paidAt: z.string().nullable(),
-  slabs: z.array(z.record(z.string(), z.unknown())),
+  slabs: z.array(orderSlabSnapshotSchema),
   sawyerShare: z.object({ platformFeeMinor: z.number(), processingFeeMinor: z.number(), sawyerNetMinor: z.number() }).nullable(),
   createdAt: z.string(),
   /** Whether the one looking is the buyer or the sawyer of this order (admins: neither). */

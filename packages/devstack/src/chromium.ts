@@ -1,6 +1,6 @@
 import { existsSync } from "node:fs";
-import { spawnSync } from "node:child_process";
-import { say, StackError } from "./log.ts";
+import { aptInstall, needsRoot } from "./apt.ts";
+import { StackError } from "./log.ts";
 
 export const CHROMIUM = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
 
@@ -14,21 +14,15 @@ const TEST_TOOLS = [
   { binary: "/usr/bin/heif-enc", debianPackage: "libheif-examples" },
 ];
 
-export function ensureTestTools(): void {
+export async function ensureTestTools(signal?: AbortSignal): Promise<void> {
   const missing = TEST_TOOLS.filter((tool) => !existsSync(tool.binary));
   if (missing.length === 0) return;
   const packages = missing.map((tool) => tool.debianPackage);
-  if (process.getuid?.() !== 0)
-    throw new StackError(`missing for the tests: ${packages.join(", ")} — run \`apt-get install -y ${packages.join(" ")}\` once as root.`);
-  say(`installing Debian's ${packages.join(" and ")} for the tests (about a minute, once)…`);
-  const result = spawnSync(
-    "sh",
-    ["-c", `export DEBIAN_FRONTEND=noninteractive; apt-get update -qq && apt-get install -y -qq ${packages.join(" ")} >/dev/null`],
-    { stdio: ["ignore", "inherit", "inherit"] },
-  );
+  if (process.getuid?.() !== 0) throw needsRoot(packages, "for the tests");
+  await aptInstall(packages, { why: "for the tests", signal });
   const stillMissing = missing.filter((tool) => !existsSync(tool.binary));
-  if (result.status !== 0 || stillMissing.length)
+  if (stillMissing.length)
     throw new StackError(
-      `apt-get could not install ${stillMissing.map((t) => t.debianPackage).join(", ") || packages.join(", ")} (exit ${result.status}).`,
+      `apt-get installed ${packages.join(", ")}, but ${stillMissing.map((t) => t.binary).join(" and ")} is still missing: check \`dpkg -L ${stillMissing[0]!.debianPackage}\`.`,
     );
 }

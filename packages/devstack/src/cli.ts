@@ -1,14 +1,15 @@
 import { join } from "node:path";
+import { colourEnvironment } from "../tools.mjs";
+import { apiEntry, prepareDatabase, startApi, tsx, waitForApi, type DemoAccount } from "./api-process.ts";
 import { CHROMIUM, ensureTestTools } from "./chromium.ts";
-import { say, warn } from "./log.ts";
-import { startProcess, tail, type ManagedProcess } from "./processes.ts";
-import { profileFor, repoRoot } from "./profile.ts";
-import { startStack, writeEnvironmentFile } from "./stack.ts";
-import { runTestSuites } from "./test-run.ts";
-import { apiEntry, prepareDatabase, tsx, waitForApi, type DemoAccount } from "./api-process.ts";
-import { runStep } from "./processes.ts";
-import { buildWebIfStale, webDist } from "./web-build.ts";
+import { Lifecycle } from "./lifecycle.ts";
+import { say } from "./log.ts";
 import { waitUntil } from "./ports.ts";
+import { nodeWithTsx, runStep, startProcess, tail } from "./processes.ts";
+import { profileFor, repoRoot } from "./profile.ts";
+import { startStack, writeEnvironmentFile, type RunningStack } from "./stack.ts";
+import { printSummary, runTestSuites, summaryExitCode } from "./test-run.ts";
+import { buildWebIfStale, webDist } from "./web-build.ts";
 
 function banner(lines: string[]) {
   const width = Math.max(...lines.map((l) => l.length)) + 2;
@@ -19,155 +20,129 @@ function demoAccountLines(accounts: DemoAccount[]): string[] {
   return accounts.map((a) => `  ${a.role.padEnd(6)} ${a.email.padEnd(32)} ${a.password.padEnd(26)} ${a.name}`);
 }
 
-async function serve(mode: "start" | "dev"): Promise<void> {
+/** Starts the test profile's services and registers their stop. */
+async function testServices(lifecycle: Lifecycle, fresh: boolean): Promise<RunningStack> {
+  const stack = await startStack(profileFor("test"), {
+    fresh,
+    signal: lifecycle.signal,
+    track: (name, stop) => lifecycle.onStop(name, stop, 90_000),
+  });
+  return stack;
+}
+
+async function serve(lifecycle: Lifecycle, mode: "start" | "dev"): Promise<"running"> {
   const profile = profileFor("local");
   const started = Date.now();
   const extraPorts = mode === "dev" ? [{ port: profile.ports.vite, purpose: "Vite hot-reload socket" }] : [];
-  const stack = await startStack(profile, { fresh: false, extraPorts });
-  const children: ManagedProcess[] = [];
-  let shuttingDown = false;
-  const shutdown = async (code: number) => {
-    if (shuttingDown) return;
-    shuttingDown = true;
-    say("stopping…");
-    for (const child of children.reverse()) await child.stop();
-    await stack.stop();
-    say("stopped cleanly");
-    process.exit(code);
-  };
-  process.on("SIGINT", () => void shutdown(0));
-  process.on("SIGTERM", () => void shutdown(0));
+  const stack = await startStack(profile, {
+    fresh: false,
+    extraPorts,
+    signal: lifecycle.signal,
+    track: (name, stop) => lifecycle.onStop(name, stop, 90_000),
+  });
 
-  try {
-    const appUrl = `http://127.0.0.1:${profile.ports.app}`;
-    const environment = stack.apiEnvironment("grainyard", {
-      NODE_ENV: "development",
-      PUBLIC_URL: appUrl,
-      WEB_DIST: webDist,
-      LOG_LEVEL: "info",
-      // dev: the API renders the pages through Vite in middleware mode (hot reload on the Vite port's socket).
-      ...(mode === "dev" ? { WEB_DEV_ROOT: join(repoRoot, "apps/web"), WEB_DEV_HMR_PORT: String(profile.ports.vite) } : {}),
+  const appUrl = `http://127.0.0.1:${profile.ports.app}`;
+  const environment = stack.apiEnvironment("grainyard", {
+    NODE_ENV: "development",
+    PUBLIC_URL: appUrl,
+    WEB_DIST: webDist,
+    LOG_LEVEL: "info",
+    // dev: the API renders the pages through Vite in middleware mode (hot reload on the Vite port's socket).
+    ...(mode === "dev" ? { WEB_DEV_ROOT: join(repoRoot, "apps/web"), WEB_DEV_HMR_PORT: String(profile.ports.vite) } : {}),
+  });
+  writeEnvironmentFile(join(profile.dataDir, "api.env"), environment);
+  const demoAccounts = await prepareDatabase(stack, "grainyard", environment, { signal: lifecycle.signal });
+
+  const logFile = join(profile.dataDir, "api.log");
+  if (mode === "start") {
+    await buildWebIfStale(lifecycle.signal);
+    const api = startApi(environment, logFile);
+    lifecycle.onStop("the API", () => api.stop());
+    await waitForApi(appUrl, api, logFile, lifecycle.signal);
+    void api.exited.then((code) =>
+      lifecycle.fail(`the API stopped unexpectedly (exit ${code}); the end of its log (${logFile}):\n${tail(logFile, 15)}`),
+    );
+  } else {
+    // tsx reloads the API when its code changes; Vite (inside it) reloads the pages when theirs does.
+    const api = startProcess(tsx, ["watch", "--clear-screen=false", "--exclude", join(repoRoot, "apps/web/**"), apiEntry], {
+      cwd: join(repoRoot, "apps/api"),
+      env: { ...process.env, ...environment },
     });
-    writeEnvironmentFile(join(profile.dataDir, "api.env"), environment);
-    say("applying migrations and the Lakemont demo data…");
-    const demoAccounts = await prepareDatabase(stack, "grainyard", environment);
-
-    const logFile = join(profile.dataDir, "api.log");
-    if (mode === "start") {
-      await buildWebIfStale();
-      const api = startProcess(tsx, [apiEntry], { cwd: join(repoRoot, "apps/api"), env: { ...process.env, ...environment }, logFile });
-      children.push(api);
-      await waitForApi(appUrl, api, logFile);
-      void api.exited.then((code) => {
-        if (!shuttingDown) {
-          warn(`the API stopped unexpectedly (exit ${code}); last log line: ${tail(logFile, 1)}`);
-          void shutdown(1);
-        }
-      });
-    } else {
-      // tsx reloads the API when its code changes; Vite (inside it) reloads the pages when theirs does.
-      const api = startProcess(tsx, ["watch", "--clear-screen=false", "--exclude", join(repoRoot, "apps/web/**"), apiEntry], {
-        cwd: join(repoRoot, "apps/api"),
-        env: { ...process.env, ...environment },
-      });
-      children.push(api);
-      await waitForApi(appUrl, api);
-      // The first page compiles the render through Vite: ask for it once so the first person does not wait.
-      await waitUntil(async () => (await fetch(`${appUrl}/`)).ok, 60_000, "the first server-rendered page");
-    }
-
-    banner([
-      `Grainyard is running (${((Date.now() - started) / 1000).toFixed(1)} s)`,
-      "",
-      `  App:    ${appUrl}`,
-      `  Inbox:  ${stack.inboxUrl}   (every e-mail the app sends)`,
-      ...(mode === "start" ? [`  Logs:   ${logFile}`] : [`  Hot reload: Vite inside the API (its socket on port ${profile.ports.vite})`]),
-      "",
-      "Demo accounts (Lakemont):",
-      ...demoAccountLines(demoAccounts),
-      "",
-      "Press Ctrl-C to stop.",
-    ]);
-  } catch (error) {
-    warn(error instanceof Error ? error.message : String(error));
-    await shutdown(1);
+    lifecycle.onStop("the API (tsx watch)", () => api.stop());
+    await waitForApi(appUrl, api, undefined, lifecycle.signal);
+    // The first page compiles the render through Vite: ask for it once so the first person does not wait.
+    await waitUntil(async () => (await fetch(`${appUrl}/`)).ok, 60_000, "the first server-rendered page", lifecycle.signal);
   }
+
+  banner([
+    `Grainyard is running (${((Date.now() - started) / 1000).toFixed(1)} s)`,
+    "",
+    `  App:    ${appUrl}`,
+    `  Inbox:  ${stack.inboxUrl}   (every e-mail the app sends)`,
+    ...(mode === "start" ? [`  Logs:   ${logFile}`] : [`  Hot reload: Vite inside the API (its socket on port ${profile.ports.vite})`]),
+    "",
+    "Demo accounts (Lakemont):",
+    ...demoAccountLines(demoAccounts),
+    "",
+    "Press Ctrl-C to stop.",
+  ]);
+  return "running";
 }
 
-async function test(): Promise<void> {
-  const profile = profileFor("test");
-  ensureTestTools();
-  const stack = await startStack(profile, { fresh: true });
-  let exitCode: number;
-  const stop = async () => {
-    await stack.stop();
-  };
-  process.on("SIGINT", () => void stop().then(() => process.exit(130)));
-  process.on("SIGTERM", () => void stop().then(() => process.exit(143)));
-  try {
-    exitCode = await runTestSuites(stack);
-  } catch (error) {
-    warn(error instanceof Error ? error.message : String(error));
-    exitCode = 1;
-  } finally {
-    await stack.stop();
-  }
-  process.exit(exitCode);
+async function test(lifecycle: Lifecycle): Promise<number> {
+  await ensureTestTools(lifecycle.signal);
+  const stack = await testServices(lifecycle, true);
+  const results = await runTestSuites(stack, lifecycle.signal);
+  // The summary comes after the services have stopped, so that `Total: …` is the last line.
+  lifecycle.setEpilogue(() => printSummary(results));
+  return summaryExitCode(results);
 }
 
 /** The test profile's services alone, for running one suite by hand (see DEVELOPERS.md). */
-async function services(): Promise<void> {
-  const profile = profileFor("test");
-  const stack = await startStack(profile, { fresh: false });
+async function services(lifecycle: Lifecycle): Promise<"running"> {
+  const stack = await testServices(lifecycle, false);
   const environment = stack.apiEnvironment("grainyard_unused", {
     NODE_ENV: "test",
     BCRYPT_COST: "4",
     LOG_LEVEL: "silent",
     GRAINYARD_TEST_STACK: "1",
   });
-  const file = join(profile.dataDir, "test.env");
+  const file = join(stack.profile.dataDir, "test.env");
   writeEnvironmentFile(file, environment);
   say(`test services are up; in another shell: set -a; . ${file}; set +a; pnpm --filter @grainyard/api test`);
-  const stop = () => void stack.stop().then(() => process.exit(0));
-  process.on("SIGINT", stop);
-  process.on("SIGTERM", stop);
+  return "running";
 }
 
 /**
- * `npm run bench`: slab-math and photo benchmarks, then the catalogue search benchmark against a
- * national-scale catalogue (seeded once into its own database on the test profile's MariaDB).
+ * `npm run bench`: slab-math and photo benchmarks, the catalogue search benchmark against a
+ * national-scale catalogue (seeded once into its own database on the test profile's MariaDB), then
+ * Lighthouse on the demo's public pages.
  */
-async function bench(): Promise<void> {
-  const profile = profileFor("test");
-  const stack = await startStack(profile, { fresh: false });
-  let code = 0;
-  try {
-    const environment = stack.apiEnvironment("grainyard_bench", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "silent" });
-    const env = { ...process.env, ...environment };
-    const api = join(repoRoot, "apps/api");
-    await runStep("slab-math benchmark", "pnpm", ["--filter", "@grainyard/slab-math", "bench"], { cwd: repoRoot });
-    await runStep("photo benchmark", tsx, ["bench/photo-pipeline.ts"], { cwd: api, env });
-    stack.mariadb.createDatabase("grainyard_bench");
-    await runStep("migrating the benchmark database", tsx, ["src/cli/migrate.ts"], { cwd: api, env });
-    say("seeding the national-scale catalogue (once; about 25 s)…");
-    await runStep("seeding the national-scale catalogue", tsx, ["src/cli/seed-national.ts"], { cwd: api, env });
-    await runStep("catalogue search benchmark", tsx, ["../../tests/bench/catalogue-search.ts"], { cwd: api, env });
-    await lighthouseBenchmark(stack);
-  } catch (error) {
-    warn(error instanceof Error ? error.message : String(error));
-    code = 1;
-  } finally {
-    await stack.stop();
-  }
-  process.exit(code);
+async function bench(lifecycle: Lifecycle): Promise<number> {
+  const stack = await testServices(lifecycle, false);
+  const { signal } = lifecycle;
+  const environment = stack.apiEnvironment("grainyard_bench", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "silent" });
+  const env = { ...process.env, ...environment };
+  const cwd = join(repoRoot, "apps/api");
+  const step = (name: string, script: string) => runStep(name, ...nodeWithTsx(script), { cwd, env, signal });
+  await runStep("slab-math benchmark", "pnpm", ["--filter", "@grainyard/slab-math", "bench"], { cwd: repoRoot, signal });
+  await step("photo benchmark", "bench/photo-pipeline.ts");
+  await stack.mariadb.createDatabase("grainyard_bench");
+  await step("migrating the benchmark database", "src/cli/migrate.ts");
+  say("seeding the national-scale catalogue (once; about 25 s)…");
+  await step("seeding the national-scale catalogue", "src/cli/seed-national.ts");
+  await step("catalogue search benchmark", "../../tests/bench/catalogue-search.ts");
+  await lighthouseBenchmark(stack, lifecycle);
+  return 0;
 }
 
 /**
  * Lighthouse on the demo's public pages (tests/bench/lighthouse.ts): the built app served by the API
  * on the Lakemont demo data, in its own database on the test profile's app port.
  */
-async function lighthouseBenchmark(stack: Awaited<ReturnType<typeof startStack>>): Promise<void> {
-  ensureTestTools();
+async function lighthouseBenchmark(stack: RunningStack, lifecycle: Lifecycle): Promise<void> {
+  const { signal } = lifecycle;
+  await ensureTestTools(signal);
   const environment = stack.apiEnvironment("grainyard_lighthouse", {
     NODE_ENV: "test",
     BCRYPT_COST: "4",
@@ -175,32 +150,39 @@ async function lighthouseBenchmark(stack: Awaited<ReturnType<typeof startStack>>
     WEB_DIST: webDist,
   });
   say("preparing the demo for Lighthouse (migrations, Lakemont data once, the built app)…");
-  await prepareDatabase(stack, "grainyard_lighthouse", environment);
-  await buildWebIfStale();
+  await prepareDatabase(stack, "grainyard_lighthouse", environment, { signal });
+  await buildWebIfStale(signal);
   const logFile = join(stack.profile.dataDir, "api-lighthouse.log");
-  const api = startProcess(tsx, [apiEntry], { cwd: join(repoRoot, "apps/api"), env: { ...process.env, ...environment }, logFile });
+  const api = startApi(environment, logFile);
   try {
-    await waitForApi(environment.PUBLIC_URL!, api, logFile);
-    await runStep("Lighthouse benchmark", tsx, ["bench/lighthouse.ts"], {
+    await waitForApi(environment.PUBLIC_URL!, api, logFile, signal);
+    await runStep("Lighthouse benchmark", ...nodeWithTsx("bench/lighthouse.ts"), {
       cwd: join(repoRoot, "tests"),
       env: { ...process.env, APP_URL: environment.PUBLIC_URL!, CHROMIUM_PATH: CHROMIUM },
+      signal,
     });
   } finally {
     await api.stop();
   }
 }
 
-const mode = process.argv[2];
-try {
-  if (mode === "start" || mode === "dev") await serve(mode);
-  else if (mode === "test") await test();
-  else if (mode === "services") await services();
-  else if (mode === "bench") await bench();
-  else {
-    warn(`unknown mode "${mode}"; use start, dev or test`);
-    process.exit(2);
-  }
-} catch (error) {
-  process.stderr.write(`[grainyard] ✗ ${error instanceof Error ? error.message : String(error)}\n`);
-  process.exit(1);
+// Children (pnpm, vitest, the API, apt…) inherit these: no escape codes in CI logs or files.
+const colours = colourEnvironment(process.env, Boolean(process.stdout.isTTY));
+if (colours.FORCE_COLOR === undefined) delete process.env.FORCE_COLOR;
+if (colours.NO_COLOR !== undefined) process.env.NO_COLOR = colours.NO_COLOR;
+
+const jobs: Record<string, [signalExitCode: number, job: (lifecycle: Lifecycle) => Promise<number | "running">]> = {
+  start: [0, (lifecycle) => serve(lifecycle, "start")],
+  dev: [0, (lifecycle) => serve(lifecycle, "dev")],
+  test: [130, test],
+  services: [0, services],
+  bench: [130, bench],
+};
+const mode = process.argv[2] ?? "start";
+const job = jobs[mode];
+if (!job) {
+  process.stderr.write(`[grainyard] ✗ unknown mode "${mode}"; use ${Object.keys(jobs).join(", ")}\n`);
+  process.exit(2);
 }
+const lifecycle = new Lifecycle(job[0]);
+await lifecycle.run(() => job[1](lifecycle));

@@ -1,3 +1,4 @@
+import escapeHtml from "escape-html";
 import { randomUUID } from "node:crypto";
 import { mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { createServer, type IncomingMessage, type ServerResponse } from "node:http";
@@ -21,9 +22,6 @@ export interface RunningMailSink {
   inboxUrl: string;
   stop(): Promise<void>;
 }
-
-const escapeHtml = (value: string) =>
-  value.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 
 function readMessages(dir: string): StoredMessage[] {
   return readdirSync(dir)
@@ -137,7 +135,9 @@ export async function startMailSink(options: { dir: string; smtpPort: number; in
     smtp: { host: "127.0.0.1", port: options.smtpPort },
     inboxUrl: `http://127.0.0.1:${options.inboxPort}`,
     async stop() {
-      await new Promise<void>((r) => inbox.close(() => r()));
+      const closed = new Promise<void>((r) => inbox.close(() => r()));
+      inbox.closeAllConnections(); // an open browser tab keeps a connection alive
+      await closed;
       await new Promise<void>((r) => smtp.close(() => r()));
     },
   };

@@ -1,7 +1,9 @@
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
-import { existsSync, mkdirSync, openSync, readFileSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, openSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
-import { say, StackError } from "./log.ts";
+import { relevantOutput, runTool } from "../tools.mjs";
+import { aptInstall, needsRoot } from "./apt.ts";
+import { say, StackError, ToolFailure, warn } from "./log.ts";
 import { waitUntil } from "./ports.ts";
 
 interface DatabaseEndpoint {
@@ -13,35 +15,115 @@ interface DatabaseEndpoint {
 }
 
 const SERVER_BINARY_CANDIDATES = ["/usr/sbin/mariadbd", "/usr/bin/mariadbd"];
+const CLIENT_TOOLS = ["mariadb", "mariadb-admin", "mariadb-install-db"];
 
-function findServerBinary(): string | null {
-  for (const candidate of SERVER_BINARY_CANDIDATES) if (existsSync(candidate)) return candidate;
-  const which = spawnSync("sh", ["-c", "command -v mariadbd"], { encoding: "utf8" });
+function onPath(name: string): string | null {
+  const which = spawnSync("sh", ["-c", `command -v ${name}`], { encoding: "utf8" });
   return which.status === 0 && which.stdout.trim() ? which.stdout.trim() : null;
 }
 
-/** Installs Debian's mariadb-server when `mariadbd` is missing. Never starts the system service. */
-function ensureMariadbInstalled(): string {
+function findServerBinary(): string | null {
+  for (const candidate of SERVER_BINARY_CANDIDATES) if (existsSync(candidate)) return candidate;
+  return onPath("mariadbd");
+}
+
+/** Installs Debian's mariadb-server and mariadb-client when missing. Never starts the system service. */
+async function ensureMariadbInstalled(signal?: AbortSignal): Promise<string> {
   const found = findServerBinary();
-  if (found) return found;
-  if (process.getuid?.() !== 0) {
-    throw new StackError("MariaDB is not installed and this is not root: run `apt-get install -y mariadb-server` once, then start again.");
-  }
-  say("installing Debian's mariadb-server (about a minute, once)…");
-  // policy-rc.d answering 101 keeps apt from starting the system instance; we only run our own.
-  const script = [
-    "set -e",
-    "export DEBIAN_FRONTEND=noninteractive",
-    "created_policy=0",
-    "if [ ! -e /usr/sbin/policy-rc.d ]; then printf '#!/bin/sh\\nexit 101\\n' > /usr/sbin/policy-rc.d; chmod +x /usr/sbin/policy-rc.d; created_policy=1; fi",
-    "apt-get update -qq",
-    "apt-get install -y -qq mariadb-server mariadb-client >/dev/null",
-    'if [ "$created_policy" = 1 ]; then rm -f /usr/sbin/policy-rc.d; fi',
-  ].join("\n");
-  const result = spawnSync("sh", ["-c", script], { stdio: ["ignore", "inherit", "inherit"] });
+  if (found && CLIENT_TOOLS.every((tool) => onPath(tool))) return found;
+  const packages = ["mariadb-server", "mariadb-client"];
+  if (process.getuid?.() !== 0) throw needsRoot(packages, "for the local database");
+  await aptInstall(packages, { why: "for the local database", noServiceStart: true, signal });
   const installed = findServerBinary();
-  if (result.status !== 0 || !installed) throw new StackError(`apt-get could not install mariadb-server (exit ${result.status}).`);
+  if (!installed)
+    throw new StackError(
+      "apt-get installed mariadb-server, but no mariadbd was found: run `dpkg -L mariadb-server | grep bin/` to see where it went.",
+    );
   return installed;
+}
+
+/**
+ * The private instance's my.cnf. Everything is local and by address: the server listens on
+ * 127.0.0.1 only and never looks names up (skip-name-resolve), the app connects over TCP to
+ * 127.0.0.1, and the runner's own client tools (root) talk through the socket file.
+ */
+export function mariadbConfig(options: { dir: string; port: number; runAsRoot: boolean }): string {
+  const { dir, port } = options;
+  return [
+    "# Written by Grainyard's stack runner on each start (packages/devstack/src/mariadb.ts).",
+    "[mysqld]",
+    `datadir=${join(dir, "data")}`,
+    `socket=${join(dir, "mariadb.sock")}`,
+    `pid-file=${join(dir, "mariadb.pid")}`,
+    `log-error=${join(dir, "error.log")}`,
+    `port=${port}`,
+    "bind-address=127.0.0.1",
+    ...(options.runAsRoot ? ["user=root"] : []),
+    "character-set-server=utf8mb4",
+    "collation-server=utf8mb4_unicode_ci",
+    "skip-name-resolve",
+    "skip-log-bin",
+    // Room for the national-scale benchmark catalogue (100 000 rows: about 190 MB of rows and
+    // indexes) to stay in memory, as a production server's would; MariaDB takes it as needed.
+    "innodb_buffer_pool_size=512M",
+    "innodb_log_file_size=48M",
+    "max_connections=200",
+    "[client]",
+    // The socket only, whatever MYSQL_HOST or a user's ~/.my.cnf says: no host name to look up.
+    `socket=${join(dir, "mariadb.sock")}`,
+    "protocol=socket",
+    `port=${port}`,
+    "",
+  ].join("\n");
+}
+
+/**
+ * mariadb-install-db's arguments. `--force` is the tool's own switch for a host whose name does not
+ * resolve (a minimal image with no /etc/hosts): it skips the resolveip check that otherwise refuses
+ * to run. `--skip-name-resolve` keeps host names out of the grant tables.
+ */
+export function installDbArguments(configFile: string, runAsRoot: boolean): string[] {
+  return [
+    `--defaults-file=${configFile}`, // must come first
+    "--auth-root-authentication-method=socket",
+    "--skip-test-db",
+    "--force",
+    "--skip-name-resolve",
+    ...(runAsRoot ? ["--user=root"] : []),
+  ];
+}
+
+/** What to do when MariaDB's own output shows why it failed. */
+export function mariadbAdvice(output: string, dataDir: string, port: number): string {
+  if (/Address already in use|Bind on TCP\/IP port/i.test(output))
+    return `Port ${port} on 127.0.0.1 was taken after the check: stop whatever uses it, or choose other ports with GRAINYARD_PORT_BASE / GRAINYARD_TEST_PORT_BASE.`;
+  if (/Unable to lock|Can't lock aria|lock .*ibdata1/i.test(output))
+    return `Another MariaDB is using ${dataDir}: stop it (\`ps -e | grep mariadbd\`), then run the command again.`;
+  if (/No space left|errno: 28/i.test(output)) return "The disk is full: free some space, then run the command again.";
+  if (/Permission denied|errno: 13/i.test(output))
+    return `MariaDB may not write to ${dataDir}: run as the owner of the project folder (or root), then run the command again.`;
+  return `Read MariaDB's messages above; if the data folder is damaged, delete ${dataDir} (this loses the local data) and run the command again.`;
+}
+
+function isAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** mariadb-admin with the instance's config (root over the socket); resolves with its output. */
+function admin(configFile: string, args: string[], timeoutMs: number): Promise<{ output: string }> {
+  return runTool({
+    label: `mariadb-admin ${args.at(-1)}`,
+    command: "mariadb-admin",
+    args: [`--defaults-file=${configFile}`, "--user=root", ...args],
+    announce: false,
+    quietMs: Number.POSITIVE_INFINITY,
+    timeoutMs,
+  });
 }
 
 /**
@@ -54,20 +136,28 @@ export async function stopLeftoverMariadb(dir: string): Promise<void> {
   if (!existsSync(pidFile) || !existsSync(configFile)) return;
   const pid = Number(readFileSync(pidFile, "utf8").trim());
   if (!pid || !isAlive(pid)) return;
+  // Only ours: the pid may have been reused since.
+  const commandLine = existsSync(`/proc/${pid}/cmdline`) ? readFileSync(`/proc/${pid}/cmdline`, "utf8") : "";
+  if (!commandLine.includes(configFile)) return;
   say(`a MariaDB from an earlier run is still up (pid ${pid}); shutting it down first…`);
-  spawnSync("mariadb-admin", [`--defaults-file=${configFile}`, "--user=root", "shutdown"], { encoding: "utf8", timeout: 15_000 });
-  try {
-    await waitUntil(async () => !isAlive(pid), 20_000, "the earlier MariaDB shutdown");
-  } catch {
-    process.kill(pid, "SIGTERM");
-    await waitUntil(async () => !isAlive(pid), 20_000, "the earlier MariaDB shutdown");
-  }
+  const goneWithin = async (ms: number) => {
+    const deadline = Date.now() + ms;
+    while (isAlive(pid) && Date.now() < deadline) await new Promise((r) => setTimeout(r, 100));
+    return !isAlive(pid);
+  };
+  await admin(configFile, ["shutdown"], 15_000).catch(() => undefined);
+  if (await goneWithin(20_000)) return;
+  process.kill(pid, "SIGTERM");
+  if (await goneWithin(20_000)) return;
+  process.kill(pid, "SIGKILL");
+  warn(`the earlier MariaDB (pid ${pid}) did not stop; it was killed, and this start recovers its data.`);
+  await goneWithin(10_000);
 }
 
 export interface RunningMariadb {
   endpoint: Omit<DatabaseEndpoint, "database">;
   socket: string;
-  createDatabase(name: string): void;
+  createDatabase(name: string): Promise<void>;
   stop(): Promise<void>;
 }
 
@@ -75,136 +165,178 @@ function sqlString(value: string): string {
   return `'${value.replace(/\\/g, "\\\\").replace(/'/g, "\\'")}'`;
 }
 
+/** The error log's lines written since `fromByte`: what this start of the server said. */
+function errorLogSince(errorLog: string, fromByte: number): string {
+  if (!existsSync(errorLog)) return "(MariaDB wrote no error log)";
+  return readFileSync(errorLog).subarray(fromByte).toString("utf8");
+}
+
+function serverReport(headline: string, log: string, errorLog: string, advice: string): string {
+  const errors = log.split("\n").filter((line) => /\[ERROR\]/.test(line));
+  const shown = relevantOutput(errors.length ? [...errors, ...log.split("\n").slice(-5)].join("\n") : log, 30);
+  return [
+    `[grainyard] ✗ ${headline}`,
+    ...shown.map((line) => `[grainyard]   │ ${line}`),
+    `[grainyard]   whole log: ${errorLog}`,
+    `[grainyard]   What to do: ${advice}`,
+  ].join("\n");
+}
+
 /**
  * Runs a private MariaDB instance: config, data, socket and logs under `dir`, bound to
- * 127.0.0.1 on `port`. Shut down cleanly with mariadb-admin, never killed.
+ * 127.0.0.1 on `port`. Shut down cleanly (mariadb-admin, then SIGTERM), never killed.
  */
-export async function startMariadb(options: { dir: string; port: number; appPassword: string }): Promise<RunningMariadb> {
-  const serverBinary = ensureMariadbInstalled();
-  const { dir, port } = options;
+export async function startMariadb(options: {
+  dir: string;
+  port: number;
+  appPassword: string;
+  signal?: AbortSignal;
+  /** Told how to stop the server as soon as it is spawned, before it answers (a Ctrl-C may come in between). */
+  track?: (name: string, stop: () => Promise<void>) => void;
+}): Promise<RunningMariadb> {
+  const serverBinary = await ensureMariadbInstalled(options.signal);
+  const { dir, port, signal } = options;
   const dataDir = join(dir, "data");
   const socket = join(dir, "mariadb.sock");
-  const pidFile = join(dir, "mariadb.pid");
   const errorLog = join(dir, "error.log");
   const configFile = join(dir, "my.cnf");
   mkdirSync(dir, { recursive: true });
   const runAsRoot = process.getuid?.() === 0;
-  writeFileSync(
-    configFile,
-    [
-      "[mysqld]",
-      `datadir=${dataDir}`,
-      `socket=${socket}`,
-      `pid-file=${pidFile}`,
-      `log-error=${errorLog}`,
-      `port=${port}`,
-      "bind-address=127.0.0.1",
-      ...(runAsRoot ? ["user=root"] : []),
-      "character-set-server=utf8mb4",
-      "collation-server=utf8mb4_unicode_ci",
-      "skip-name-resolve",
-      "skip-log-bin",
-      // Room for the national-scale benchmark catalogue (100 000 rows: about 190 MB of rows and
-      // indexes) to stay in memory, as a production server's would; MariaDB takes it as needed.
-      "innodb_buffer_pool_size=512M",
-      "innodb_log_file_size=48M",
-      "max_connections=200",
-      "[client]",
-      `socket=${socket}`,
-      `port=${port}`,
-      "",
-    ].join("\n"),
-  );
-
-  const admin = (args: string[]) =>
-    spawnSync("mariadb-admin", [`--defaults-file=${configFile}`, "--user=root", ...args], { encoding: "utf8", timeout: 15_000 });
+  writeFileSync(configFile, mariadbConfig({ dir, port, runAsRoot }));
 
   if (!existsSync(join(dataDir, "mysql"))) {
-    say("initialising a private MariaDB data folder…");
-    const init = spawnSync(
-      "mariadb-install-db",
-      [
-        `--defaults-file=${configFile}`,
-        "--auth-root-authentication-method=socket",
-        "--skip-test-db",
-        ...(runAsRoot ? ["--user=root"] : []),
-      ],
-      { encoding: "utf8" },
-    );
-    if (init.status !== 0) {
-      throw new StackError(`MariaDB could not initialise its data folder ${dataDir}: ${lastLine(init.stderr || init.stdout)}`);
-    }
+    // Made in a folder of its own and renamed when complete: an interrupted initialisation
+    // (Ctrl-C) leaves no half-made data folder behind for the next start to trip over.
+    const making = `${dataDir}.initialising`;
+    rmSync(making, { recursive: true, force: true });
+    await runTool({
+      label: "initialising a private MariaDB data folder (mariadb-install-db)",
+      command: "mariadb-install-db",
+      args: [...installDbArguments(configFile, runAsRoot), `--datadir=${making}`],
+      advice: (output) => mariadbAdvice(output, dataDir, port),
+      signal,
+    });
+    rmSync(dataDir, { recursive: true, force: true });
+    renameSync(making, dataDir);
   }
 
+  const logStart = existsSync(errorLog) ? statSync(errorLog).size : 0;
   const logFd = openSync(join(dir, "mariadbd.out"), "a");
   // Own process group, so a Ctrl-C in the terminal leaves the shutdown to us (clean, not killed).
   const server: ChildProcess = spawn(serverBinary, [`--defaults-file=${configFile}`], { detached: true, stdio: ["ignore", logFd, logFd] });
   let exited: number | null = null;
-  server.on("exit", (code) => (exited = code ?? -1));
+  const exit = new Promise<void>((resolvePromise) =>
+    server.on("exit", (code, exitSignal) => {
+      exited = code ?? (exitSignal ? 128 : -1);
+      resolvePromise();
+    }),
+  );
+  const pid = server.pid;
+
+  const ping = () =>
+    admin(configFile, ["--connect-timeout=1", "ping"], 5_000).then(
+      () => true,
+      () => false,
+    );
+  const exitWithin = async (ms: number): Promise<boolean> => {
+    let timer: NodeJS.Timeout | undefined;
+    await Promise.race([exit, new Promise((r) => (timer = setTimeout(r, ms)))]);
+    clearTimeout(timer);
+    return exited !== null;
+  };
+  let ready = false;
+
+  let startGaveUp = false;
+  /**
+   * Stops the server and waits for it to end; runs once. A shutdown request (SIGTERM or
+   * mariadb-admin) that reaches mariadbd 10.11 while it is still starting can leave it hung for
+   * good, so a server interrupted while starting is first let finish starting, then shut down.
+   */
+  const shutDown = async (): Promise<void> => {
+    const deadline = startGaveUp ? 0 : Date.now() + 30_000;
+    while (exited === null && !ready && Date.now() < deadline) {
+      ready = await ping();
+      if (!ready) await new Promise((r) => setTimeout(r, 100));
+    }
+    if (exited !== null) return;
+    let adminSaid: string | undefined;
+    if (ready)
+      await admin(configFile, ["shutdown"], 20_000).catch((error: unknown) => {
+        adminSaid = (error instanceof ToolFailure ? error.output.trim() : String(error)) || "nothing";
+      });
+    if (!ready || adminSaid !== undefined) server.kill("SIGTERM");
+    if (await exitWithin(60_000)) return;
+    // Hung: nothing else ends it. InnoDB is crash-safe; the next start recovers the data.
+    server.kill("SIGKILL");
+    await exitWithin(10_000);
+    throw new StackError(
+      `MariaDB (pid ${pid}) did not stop within 60 s of its shutdown${adminSaid ? ` (mariadb-admin said: ${adminSaid})` : ""}; it was killed, and its next start recovers the data.`,
+    );
+  };
+  let stopping: Promise<void> | undefined;
+  const stopServer = (): Promise<void> => (stopping ??= shutDown());
+  options.track?.(`MariaDB (pid ${pid})`, stopServer);
+
   try {
     await waitUntil(
       async () => {
-        if (exited !== null) throw new StackError(`MariaDB stopped while starting (exit ${exited}): ${lastErrorLine(errorLog)}`);
-        return admin(["--connect-timeout=1", "ping"]).status === 0;
+        if (exited !== null) {
+          const log = errorLogSince(errorLog, logStart);
+          throw new StackError(
+            serverReport(`MariaDB stopped while starting (exit ${exited})`, log, errorLog, mariadbAdvice(log, dataDir, port)),
+          );
+        }
+        ready = await ping();
+        return ready;
       },
       30_000,
       "MariaDB",
+      signal,
     );
   } catch (error) {
-    if (exited === null) server.kill("SIGTERM");
-    if (error instanceof StackError && exited !== null)
-      throw new StackError(`MariaDB stopped while starting (exit ${exited}): ${lastErrorLine(errorLog)}`);
+    const timedOut = error instanceof StackError && !error.message.includes("\n");
+    startGaveUp = timedOut; // already waited 30 s for it to answer
+    await stopServer().catch(() => undefined);
+    if (timedOut) {
+      const log = errorLogSince(errorLog, logStart);
+      throw new StackError(serverReport(`MariaDB did not answer within 30 s`, log, errorLog, mariadbAdvice(log, dataDir, port)));
+    }
     throw error;
   }
 
-  const rootSql = (sql: string) => {
-    const result = spawnSync("mariadb", [`--defaults-file=${configFile}`, "--user=root", "--batch", "-e", sql], { encoding: "utf8" });
-    if (result.status !== 0) throw new StackError(`MariaDB refused a set-up statement: ${lastLine(result.stderr)}`);
+  const rootSql = async (sql: string) => {
+    await runTool({
+      label: "a set-up statement for MariaDB",
+      command: "mariadb",
+      args: [`--defaults-file=${configFile}`, "--user=root", "--batch", "-e", sql],
+      announce: false,
+      quietMs: Number.POSITIVE_INFINITY,
+      advice: () =>
+        `MariaDB refused the statement; read its message above, then run the command again (deleting ${dataDir} starts from empty).`,
+    });
   };
-  // The app connects over TCP as its own user, with rights on the grainyard* databases only.
-  rootSql(
-    [
-      `CREATE USER IF NOT EXISTS 'grainyard'@'127.0.0.1' IDENTIFIED BY ${sqlString(options.appPassword)};`,
-      `ALTER USER 'grainyard'@'127.0.0.1' IDENTIFIED BY ${sqlString(options.appPassword)};`,
-      "GRANT ALL PRIVILEGES ON `grainyard%`.* TO 'grainyard'@'127.0.0.1';",
-      "FLUSH PRIVILEGES;",
-    ].join(" "),
-  );
+  try {
+    // The app connects over TCP to 127.0.0.1 as its own user, with rights on the grainyard* databases only.
+    await rootSql(
+      [
+        `CREATE USER IF NOT EXISTS 'grainyard'@'127.0.0.1' IDENTIFIED BY ${sqlString(options.appPassword)};`,
+        `ALTER USER 'grainyard'@'127.0.0.1' IDENTIFIED BY ${sqlString(options.appPassword)};`,
+        "GRANT ALL PRIVILEGES ON `grainyard%`.* TO 'grainyard'@'127.0.0.1';",
+        "FLUSH PRIVILEGES;",
+      ].join(" "),
+    );
+  } catch (error) {
+    await stopServer().catch(() => undefined);
+    throw error;
+  }
 
   return {
     endpoint: { host: "127.0.0.1", port, user: "grainyard", password: options.appPassword },
     socket,
-    createDatabase(name: string) {
+    async createDatabase(name: string) {
       if (!/^grainyard[a-z0-9_]*$/.test(name)) throw new StackError(`refusing to create database "${name}".`);
-      rootSql(`CREATE DATABASE IF NOT EXISTS \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`);
+      await rootSql(`CREATE DATABASE IF NOT EXISTS \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`);
     },
-    async stop() {
-      if (exited !== null) return;
-      const pid = server.pid;
-      const result = admin(["shutdown"]);
-      if (result.status !== 0 && pid) process.kill(pid, "SIGTERM");
-      await waitUntil(async () => exited !== null, 30_000, "MariaDB shutdown").catch(() => undefined);
-    },
+    stop: stopServer,
   };
-}
-
-function isAlive(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch {
-    return false;
-  }
-}
-
-function lastLine(text: string | undefined): string {
-  const lines = (text ?? "").trim().split("\n").filter(Boolean);
-  return lines.at(-1) ?? "no message";
-}
-
-function lastErrorLine(errorLog: string): string {
-  if (!existsSync(errorLog)) return "no error log was written";
-  const lines = readFileSync(errorLog, "utf8").trim().split("\n");
-  const errors = lines.filter((line) => /\[ERROR\]/.test(line));
-  return (errors.at(-1) ?? lines.at(-1) ?? "no message").replace(/^.*\[ERROR\]\s*/, "");
 }

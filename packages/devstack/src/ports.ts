@@ -1,5 +1,5 @@
 import { createServer } from "node:net";
-import { StackError } from "./log.ts";
+import { Interrupted, StackError } from "./log.ts";
 
 /** Resolves when nothing listens on 127.0.0.1:port; tells which port and what for when one is taken. */
 export async function assertPortFree(port: number, purpose: string): Promise<void> {
@@ -18,10 +18,11 @@ export async function assertPortFree(port: number, purpose: string): Promise<voi
   });
 }
 
-/** Polls `probe` until it returns true or the time runs out. */
-export async function waitUntil(probe: () => Promise<boolean>, timeoutMs: number, what: string): Promise<void> {
+/** Polls `probe` until it returns true or the time runs out; gives up at once when `signal` aborts. */
+export async function waitUntil(probe: () => Promise<boolean>, timeoutMs: number, what: string, signal?: AbortSignal): Promise<void> {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
+    if (signal?.aborted) throw new Interrupted(`waiting for ${what}`);
     // A probe that throws StackError means "give up now" (the process died); other errors mean "not yet".
     const ready = await probe().catch((error: unknown) => {
       if (error instanceof StackError) throw error;

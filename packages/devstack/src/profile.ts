@@ -34,9 +34,14 @@ function baseFromEnv(name: string, fallback: number): number {
   return value;
 }
 
+/** GRAINYARD_DATA_DIR moves the profile's data folder (the devstack's own tests run stacks in a temporary one). */
+function dataDirFor(fallback: string): string {
+  return process.env.GRAINYARD_DATA_DIR ? resolve(process.env.GRAINYARD_DATA_DIR) : resolve(repoRoot, fallback);
+}
+
 export function profileFor(name: Profile["name"]): Profile {
   if (name === "local") {
-    return { name, dataDir: resolve(repoRoot, ".data/local"), ports: portsFrom(baseFromEnv("GRAINYARD_PORT_BASE", 5080)) };
+    return { name, dataDir: dataDirFor(".data/local"), ports: portsFrom(baseFromEnv("GRAINYARD_PORT_BASE", 5080)) };
   }
-  return { name, dataDir: resolve(repoRoot, ".data/test"), ports: portsFrom(baseFromEnv("GRAINYARD_TEST_PORT_BASE", 6080)) };
+  return { name, dataDir: dataDirFor(".data/test"), ports: portsFrom(baseFromEnv("GRAINYARD_TEST_PORT_BASE", 6080)) };
 }

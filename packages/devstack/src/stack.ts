@@ -1,14 +1,14 @@
 import { randomBytes } from "node:crypto";
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import type { Server } from "node:http";
-import { join } from "node:path";
+import { join, relative } from "node:path";
 import { createPaymentsFakeApp } from "@grainyard/payments-fake";
-import { say } from "./log.ts";
+import { say, StackError } from "./log.ts";
 import { startMailSink } from "./mail-sink.ts";
 import { startMariadb, stopLeftoverMariadb, type RunningMariadb } from "./mariadb.ts";
 import { startObjectStorage } from "./object-storage.ts";
 import { assertPortFree } from "./ports.ts";
-import type { Profile } from "./profile.ts";
+import { repoRoot, type Profile } from "./profile.ts";
 
 interface Secrets {
   sessionSecret: string;
@@ -49,10 +49,21 @@ export interface RunningStack {
  */
 export async function startStack(
   profile: Profile,
-  options: { fresh: boolean; extraPorts?: { port: number; purpose: string }[] },
+  options: {
+    fresh: boolean;
+    extraPorts?: { port: number; purpose: string }[];
+    signal?: AbortSignal;
+    /** Registers how to stop a child process the moment it exists (see Lifecycle.onStop). */
+    track?: (name: string, stop: () => Promise<void>) => void;
+  },
 ): Promise<RunningStack> {
   await stopLeftoverMariadb(join(profile.dataDir, "mariadb"));
-  if (options.fresh) rmSync(profile.dataDir, { recursive: true, force: true });
+  if (options.fresh) {
+    const outside = relative(profile.dataDir, repoRoot);
+    if (profile.dataDir === "/" || outside === "" || !outside.startsWith(".."))
+      throw new StackError(`refusing to wipe ${profile.dataDir} for a fresh start: point GRAINYARD_DATA_DIR at a folder of its own.`);
+    rmSync(profile.dataDir, { recursive: true, force: true });
+  }
   mkdirSync(profile.dataDir, { recursive: true });
   const { ports } = profile;
   const wanted = [
@@ -67,10 +78,17 @@ export async function startStack(
   for (const { port, purpose } of wanted) await assertPortFree(port, purpose);
 
   const secrets = secretsFor(profile.dataDir);
+  // Each service is stopped once, whoever asks first: the runner's lifecycle (told through
+  // `track`, with the service's name) or this stack's own stop.
   const stoppers: (() => Promise<void>)[] = [];
+  const add = (name: string, stop: () => Promise<void>) => {
+    let stopping: Promise<void> | undefined;
+    const once = () => (stopping ??= stop());
+    stoppers.push(once);
+    options.track?.(name, once);
+  };
   const stopAll = async () => {
-    for (const stop of stoppers.reverse()) await stop().catch(() => undefined);
-    stoppers.length = 0;
+    for (const stop of [...stoppers].reverse()) await stop().catch(() => undefined);
   };
   try {
     say(`starting MariaDB on 127.0.0.1:${ports.mariadb}…`);
@@ -78,15 +96,17 @@ export async function startStack(
       dir: join(profile.dataDir, "mariadb"),
       port: ports.mariadb,
       appPassword: secrets.databasePassword,
+      signal: options.signal,
+      track: options.track,
     });
-    stoppers.push(() => mariadb.stop());
+    stoppers.push(() => mariadb.stop()); // tracked by startMariadb itself, from its spawn
 
     const appOrigins = [`http://127.0.0.1:${ports.app}`, `http://127.0.0.1:${ports.vite}`];
     const storage = await startObjectStorage({ dir: join(profile.dataDir, "s3"), port: ports.s3, allowedOrigins: appOrigins });
-    stoppers.push(() => storage.stop());
+    add("the S3 fake", () => storage.stop());
 
     const mail = await startMailSink({ dir: join(profile.dataDir, "mail"), smtpPort: ports.smtp, inboxPort: ports.inbox });
-    stoppers.push(() => mail.stop());
+    add("the mail sink", () => mail.stop());
 
     const paymentsApp = createPaymentsFakeApp({
       stateFile: join(profile.dataDir, "payments-fake", "state.json"),
@@ -99,7 +119,8 @@ export async function startStack(
       const server = paymentsApp.listen(ports.payments, "127.0.0.1", () => resolvePromise(server));
       server.once("error", reject);
     });
-    stoppers.push(
+    add(
+      "the payments fake",
       () =>
         new Promise<void>((r) => {
           paymentsApp.webhooks.stop();

@@ -1,15 +1,15 @@
 import { existsSync, mkdirSync, readFileSync, rmSync } from "node:fs";
 import { join } from "node:path";
 import { CHROMIUM } from "./chromium.ts";
-import { say, warn } from "./log.ts";
+import { reportFailure } from "./lifecycle.ts";
+import { Interrupted, say, warn } from "./log.ts";
 import { startProcess, tail, type ManagedProcess } from "./processes.ts";
 import { repoRoot } from "./profile.ts";
 import type { RunningStack } from "./stack.ts";
 import { buildWebIfStale } from "./web-build.ts";
-import { apiEntry, prepareDatabase, tsx, waitForApi } from "./api-process.ts";
-import { spawn } from "node:child_process";
+import { prepareDatabase, startApi, waitForApi } from "./api-process.ts";
 
-interface SuiteResult {
+export interface SuiteResult {
   name: string;
   passed: number;
   failed: number;
@@ -20,19 +20,37 @@ interface SuiteResult {
 
 const resultsDir = join(repoRoot, "test-results");
 
+/**
+ * Runs a suite's command in its own process group with the runner's colour settings (see
+ * colourEnvironment: no escape codes in CI logs or files). Stopping the runner stops the suite.
+ */
+async function runSuiteCommand(args: string[], environment: Record<string, string>, signal: AbortSignal): Promise<number> {
+  if (signal.aborted) throw new Interrupted("the test suites");
+  const suite = startProcess("pnpm", args, { cwd: repoRoot, env: { ...process.env, ...environment } });
+  const onAbort = () => void suite.stop();
+  signal.addEventListener("abort", onAbort, { once: true });
+  const exitCode = await suite.exited;
+  signal.removeEventListener("abort", onAbort);
+  if (signal.aborted) {
+    await suite.stop();
+    throw new Interrupted("the test suites");
+  }
+  return exitCode;
+}
+
 /** Runs one package's vitest suite with a JSON report, so the runner can add up the counts. */
 async function runVitest(
   name: string,
   packageName: string,
   environment: Record<string, string>,
+  signal: AbortSignal,
   extraArgs: string[] = [],
 ): Promise<SuiteResult> {
   const report = join(resultsDir, `${name}.json`);
   rmSync(report, { force: true });
   const started = Date.now();
   say(`suite ${name}…`);
-  const child = spawn(
-    "pnpm",
+  const exitCode = await runSuiteCommand(
     [
       "--filter",
       packageName,
@@ -44,13 +62,9 @@ async function runVitest(
       "--reporter=json",
       `--outputFile.json=${report}`,
     ],
-    {
-      cwd: repoRoot,
-      env: { ...process.env, ...environment, FORCE_COLOR: process.env.CI ? "0" : "1" },
-      stdio: ["ignore", "inherit", "inherit"],
-    },
+    environment,
+    signal,
   );
-  const exitCode = await new Promise<number>((resolvePromise) => child.on("exit", (code) => resolvePromise(code ?? 1)));
   const seconds = (Date.now() - started) / 1000;
   if (!existsSync(report)) return { name, passed: 0, failed: 1, skipped: 0, exitCode: exitCode || 1, seconds };
   const json = JSON.parse(readFileSync(report, "utf8")) as {
@@ -72,15 +86,10 @@ async function runVitest(
 }
 
 /** Lint and format checks (type checks, ESLint, Prettier, knip): one "test" that passes or fails. */
-async function runLint(): Promise<SuiteResult> {
+async function runLint(signal: AbortSignal): Promise<SuiteResult> {
   const started = Date.now();
   say("lint (type checks, ESLint, Prettier, knip)…");
-  const child = spawn("pnpm", ["lint"], {
-    cwd: repoRoot,
-    env: { ...process.env, FORCE_COLOR: process.env.CI ? "0" : "1" },
-    stdio: ["ignore", "inherit", "inherit"],
-  });
-  const exitCode = await new Promise<number>((resolvePromise) => child.on("exit", (code) => resolvePromise(code ?? 1)));
+  const exitCode = await runSuiteCommand(["lint"], {}, signal);
   return {
     name: "lint",
     passed: exitCode === 0 ? 1 : 0,
@@ -91,7 +100,7 @@ async function runLint(): Promise<SuiteResult> {
   };
 }
 
-export async function runTestSuites(stack: RunningStack): Promise<number> {
+export async function runTestSuites(stack: RunningStack, signal: AbortSignal): Promise<SuiteResult[]> {
   mkdirSync(resultsDir, { recursive: true });
   const results: SuiteResult[] = [];
   const testEnvironment = stack.apiEnvironment("grainyard_unused", {
@@ -101,17 +110,17 @@ export async function runTestSuites(stack: RunningStack): Promise<number> {
     GRAINYARD_TEST_STACK: "1",
   });
 
-  results.push(await runLint());
+  results.push(await runLint(signal));
   // Unit suites (no services).
-  results.push(await runVitest("slab-math", "@grainyard/slab-math", {}));
-  results.push(await runVitest("contracts", "@grainyard/contracts", {}));
-  results.push(await runVitest("web", "@grainyard/web", {}));
-  results.push(await runVitest("payments-fake", "@grainyard/payments-fake", {}));
-  results.push(await runVitest("devstack", "@grainyard/devstack", testEnvironment));
+  results.push(await runVitest("slab-math", "@grainyard/slab-math", {}, signal));
+  results.push(await runVitest("contracts", "@grainyard/contracts", {}, signal));
+  results.push(await runVitest("web", "@grainyard/web", {}, signal));
+  results.push(await runVitest("payments-fake", "@grainyard/payments-fake", {}, signal));
+  results.push(await runVitest("devstack", "@grainyard/devstack", testEnvironment, signal));
   // API integration: supertest against real MariaDB schemas, real SMTP, real S3 API; the server-rendered
   // pages' suite reads the built web app, so it is built first.
-  await buildWebIfStale();
-  results.push(await runVitest("api", "@grainyard/api", testEnvironment));
+  await buildWebIfStale(signal);
+  results.push(await runVitest("api", "@grainyard/api", testEnvironment, signal));
 
   // End-to-end: the built web app served by the API, driven in Debian's Chromium.
   // GRAINYARD_TEST_CLOCK: the e2e suite may move the API's clock forward (hold periods); only ever with NODE_ENV=test.
@@ -125,14 +134,10 @@ export async function runTestSuites(stack: RunningStack): Promise<number> {
   let api: ManagedProcess | undefined;
   const apiLog = join(stack.profile.dataDir, "api-e2e.log");
   try {
-    await prepareDatabase(stack, "grainyard_e2e", e2eEnvironment);
-    await buildWebIfStale();
-    api = startProcess(tsx, [apiEntry], {
-      cwd: join(repoRoot, "apps/api"),
-      env: { ...process.env, ...e2eEnvironment },
-      logFile: apiLog,
-    });
-    await waitForApi(e2eEnvironment.PUBLIC_URL!, api, apiLog);
+    await prepareDatabase(stack, "grainyard_e2e", e2eEnvironment, { signal });
+    await buildWebIfStale(signal);
+    api = startApi(e2eEnvironment, apiLog);
+    await waitForApi(e2eEnvironment.PUBLIC_URL!, api, apiLog, signal);
     results.push(
       await runVitest(
         "e2e",
@@ -143,17 +148,31 @@ export async function runTestSuites(stack: RunningStack): Promise<number> {
           CHROMIUM_PATH: CHROMIUM,
           SCREENSHOT_DIR: join(resultsDir, "screenshots"),
         },
+        signal,
         ["--config", "vitest.e2e.config.ts"],
       ),
     );
   } catch (error) {
-    warn(`end-to-end set-up failed: ${error instanceof Error ? error.message : String(error)}`);
+    if (error instanceof Interrupted) throw error;
+    warn("end-to-end set-up failed:");
+    reportFailure(error);
     if (existsSync(apiLog)) warn(`API log tail:\n${tail(apiLog, 15)}`);
     results.push({ name: "e2e", passed: 0, failed: 1, skipped: 0, exitCode: 1, seconds: 0 });
   } finally {
     await api?.stop();
   }
 
+  return results;
+}
+
+/** 1 when any suite failed, ran no test, or exited non-zero. */
+export function summaryExitCode(results: SuiteResult[]): number {
+  const failed = results.some((r) => r.failed > 0 || r.exitCode !== 0 || (r.passed === 0 && r.failed === 0));
+  return failed ? 1 : 0;
+}
+
+/** The summary table and the last line, `Total: N passed, N failed, N skipped`. */
+export function printSummary(results: SuiteResult[]): void {
   process.stdout.write("\nSuite results\n");
   for (const r of results) {
     const flag = r.failed || r.exitCode ? "FAIL" : r.passed === 0 ? "EMPTY" : "ok";
@@ -167,5 +186,4 @@ export async function runTestSuites(stack: RunningStack): Promise<number> {
   const empty = results.filter((r) => r.passed === 0 && r.failed === 0);
   if (empty.length) warn(`suites that ran no test: ${empty.map((r) => r.name).join(", ")}`);
   process.stdout.write(`\nTotal: ${passed} passed, ${failed} failed, ${skipped} skipped\n`);
-  return failed > 0 || empty.length > 0 || results.some((r) => r.exitCode !== 0) ? 1 : 0;
 }

@@ -28,13 +28,17 @@ export const webDist = join(repoRoot, "apps/web/dist");
 const builtFiles = [join(webDist, "client", "index.html"), join(webDist, "server", "entry-server.js")];
 
 /** Builds the web app with Vite (both halves) unless the last build is newer than every source file. */
-export async function buildWebIfStale(force = false): Promise<void> {
+export async function buildWebIfStale(signal?: AbortSignal, force = false): Promise<void> {
   const builtAt = Math.min(...builtFiles.map((file) => (existsSync(file) ? statSync(file).mtimeMs : 0)));
   const changedAt = Math.max(...WEB_SOURCES.map((p) => newestChange(join(repoRoot, p))));
   if (!force && builtAt > changedAt) {
     say("web app is already built and up to date");
     return;
   }
-  say("building the web app (vite build)…");
-  await runStep("building the web app", "pnpm", ["--filter", "@grainyard/web", "build"], { cwd: repoRoot, quiet: true });
+  await runStep("building the web app (vite build)", "pnpm", ["--filter", "@grainyard/web", "build"], {
+    cwd: repoRoot,
+    quiet: true,
+    signal,
+    advice: () => "Fix the build error above in apps/web (or packages it imports), then run the command again.",
+  });
 }

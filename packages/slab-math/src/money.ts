@@ -32,6 +32,13 @@ export interface FeeSettings {
   processingFixedMinor: number;
 }
 
+/**
+ * Grainyard's usual fees, until an admin sets others: a 10 % platform fee, and card processing at
+ * 2.9 % + 0.30 (a typical card-processing price; common practice). The API starts its settings from
+ * these; the listing form previews with them when the fees in force cannot be fetched.
+ */
+export const USUAL_FEES: Readonly<FeeSettings> = Object.freeze({ platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 });
+
 /** Result of {@link feeBreakdown}: three integers that sum to the subtotal exactly. */
 export interface FeeBreakdown {
   platformFeeMinor: number;
@@ -164,4 +171,65 @@ export function refundShares<K extends string>(parts: Record<K, number>, refundM
   remainders.sort((a, b) => (a.remainder === b.remainder ? a.index - b.index : a.remainder > b.remainder ? -1 : 1));
   for (let i = 0; i < refundMinor - given; i++) shares[remainders[i]!.key] += 1;
   return shares;
+}
+
+/**
+ * Sales tax on an amount at a rate in basis points (825 = 8.25 %), half-up to the minor unit once,
+ * with exact integer arithmetic.
+ *
+ * @throws SlabMathError on non-integer or negative money, or a rate outside 0–10 000 bps.
+ */
+export function taxOn(amountMinor: number, rateBps: number): number {
+  const amount = requireNonNegativeInteger(amountMinor, "amountMinor");
+  const rate = requireNonNegativeInteger(rateBps, "rateBps", BASIS_POINTS_PER_WHOLE);
+  return Number(divideRoundHalfUp(BigInt(amount) * BigInt(rate), BigInt(BASIS_POINTS_PER_WHOLE)));
+}
+
+// ---- Money as text ----
+
+const currencyFormats = new Map<string, Intl.NumberFormat>();
+
+/**
+ * An amount of minor units as people read it: 1234 USD → "$12.34", −500 → "−$5.00". Exact: the
+ * whole units are formatted by Intl (grouping, symbol) and the cents put in as digits, so no float
+ * division ever touches money. Every currency Grainyard takes has two decimals.
+ */
+export function formatMoney(minor: number, currency: string): string {
+  const amount = requireNumberInRange(minor, "minor", -Number.MAX_SAFE_INTEGER, Number.MAX_SAFE_INTEGER);
+  if (!Number.isInteger(amount)) throw new SlabMathError("not_integer", "minor", "Money is a whole number of minor units.");
+  let format = currencyFormats.get(currency);
+  if (!format) {
+    format = new Intl.NumberFormat("en", { style: "currency", currency, currencyDisplay: "narrowSymbol" });
+    currencyFormats.set(currency, format);
+  }
+  const sign = amount < 0 ? "−" : "";
+  const whole = Math.floor(Math.abs(amount) / 100);
+  const cents = Math.abs(amount) % 100;
+  return sign + format.format(whole).replace(/\.00$/, `.${String(cents).padStart(2, "0")}`);
+}
+
+/** Basis points as a percentage: 290 → "2.9 %", 1000 → "10 %". */
+export function formatBasisPoints(basisPoints: number): string {
+  return `${(basisPoints / 100).toLocaleString("en", { maximumFractionDigits: 2 })} %`;
+}
+
+export type ParsedMoney = { ok: true; minor: number } | { ok: false; message: string };
+
+/** "12.50", "12,5", "1 200", "$12" → integer minor units, read from the text itself (no float); anything else says what to type. */
+export function parseMoneyInput(text: string): ParsedMoney {
+  const cleaned = text
+    .trim()
+    .replace(/^[$€£]|\s/g, "")
+    .replace(/^(CAD|USD|EUR|GBP)/i, "");
+  if (cleaned === "") return { ok: false, message: "Give the price." };
+  const match = /^(\d{1,9})(?:[.,](\d{1,2}))?$/.exec(cleaned);
+  if (!match) return { ok: false, message: "Type the price like 12.50." };
+  const whole = Number(match[1]);
+  const cents = match[2] ? Number(match[2].padEnd(2, "0")) : 0;
+  return { ok: true, minor: whole * 100 + cents };
+}
+
+/** 1250 → "12.50", for putting a stored amount back into an input. */
+export function minorToInput(minor: number): string {
+  return `${Math.floor(minor / 100)}.${String(minor % 100).padStart(2, "0")}`;
 }

@@ -69,3 +69,8 @@ import { PayoutLineEntity } from "./payout-line.ts";
 import { PayoutEntity } from "./payout.ts";
 export { OrderRefundEntity, PayoutAccountEntity, PayoutEntity, PayoutLineEntity };
 entities.push(PayoutAccountEntity, PayoutEntity, PayoutLineEntity, OrderRefundEntity);
+
+// Scheduled jobs: one lease per job, so several API instances run each job once.
+import { JobLeaseEntity } from "./job-lease.ts";
+export { JobLeaseEntity };
+entities.push(JobLeaseEntity);

@@ -1,13 +1,12 @@
-import type { orderStatusLabels } from "@grainyard/contracts";
+import type { OrderSlabSnapshot, OrderStatus } from "@grainyard/contracts";
 import { Column, CreateDateColumn, Entity, Index, PrimaryColumn, UpdateDateColumn } from "typeorm";
 
 const money = { to: (v: number) => v, from: (v: string | number) => Number(v) };
 
-export type OrderStatus = keyof typeof orderStatusLabels;
-
 /**
  * A buyer's order for one listing. Everything the buyer agreed to — the slabs' figures, the price,
- * the fees, tax and the handover choice — is a snapshot taken when the order was made.
+ * the fees, tax and the handover choice — is a snapshot taken when the order was made. Its status
+ * moves only by the transitions of contracts' order-lifecycle.ts (the services' conditional updates).
  */
 @Entity({ name: "buyer_order" })
 @Index("idx_buyer_order_buyer", ["buyerId", "createdAt"])
@@ -34,10 +33,9 @@ export class OrderEntity {
   @Column({ type: "varchar", length: 120 })
   title: string;
 
-  /** The slabs and their figures as they were when the order was made. */
+  /** The slabs and their figures as they were when the order was made (written through contracts' `orderSlabSnapshotSchema`). */
   @Column({ name: "slab_snapshot", type: "simple-json" })
-  // eslint-disable-next-line @typescript-eslint/no-explicit-any
-  slabSnapshot: any[];
+  slabSnapshot: OrderSlabSnapshot[];
 
   @Column({ type: "char", length: 3 })
   currency: string;

@@ -55,7 +55,7 @@ export type PhotoRejectionCode =
 export class PhotoRejected extends AppError {
   declare readonly code: PhotoRejectionCode;
   constructor(code: PhotoRejectionCode, message: string) {
-    super(code === "too_large_file" ? 413 : 422, code, message);
+    super(code, message);
   }
 }
 

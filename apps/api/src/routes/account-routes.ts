@@ -1,18 +1,10 @@
-import { Router } from "express";
-import {
-  passwordResetRequestSchema,
-  passwordResetSchema,
-  signInSchema,
-  signUpSchema,
-  userSearchSchema,
-  verifyEmailSchema,
-  yardProfileUpdateSchema,
-} from "@grainyard/contracts";
-import type { RequestHandler } from "express";
-import { newToken } from "../services/tokens.ts";
-import type { AccountService } from "../services/account-service.ts";
-import { parse, sessionOf } from "../http/context.ts";
+import type { accountEndpoints } from "@grainyard/contracts";
 import type { Request } from "express";
+import { sessionOf } from "../http/context.ts";
+import { signInAttemptOf } from "../http/rate-limits.ts";
+import type { Handlers } from "../http/endpoints.ts";
+import type { AccountService } from "../services/account-service.ts";
+import { newToken } from "../services/tokens.ts";
 
 /** The session's anti-forgery token, created on first use. */
 function csrfTokenFor(req: Request): string {
@@ -24,63 +16,40 @@ function csrfTokenFor(req: Request): string {
   return session.csrf;
 }
 
-/** Routes stay thin: parse with the shared schema, take the actor, call one service function. */
-export function accountRoutes(accounts: AccountService, limits: { signIn: RequestHandler[]; passwordReset: RequestHandler[] }) {
-  const router = Router();
-
-  router.get("/session", async (req, res) => {
-    res.json({ account: await accounts.currentAccount(req.actor), csrfToken: csrfTokenFor(req) });
-  });
-
-  router.post("/session", ...limits.signIn, async (req, res) => {
-    const input = parse(signInSchema, req.body);
-    const { account, sessionKey } = await accounts.signIn(input);
-    // A fresh anti-forgery token with every new session.
-    req.session = { key: sessionKey, csrf: newToken() };
-    res.json({ account, csrfToken: sessionOf(req).csrf });
-  });
-
-  router.delete("/session", async (req, res) => {
-    await accounts.signOut(req.actor);
-    req.session = { csrf: newToken() };
-    res.json({ account: null, csrfToken: sessionOf(req).csrf });
-  });
-
-  router.post("/accounts", async (req, res) => {
-    const account = await accounts.signUp(req.actor, parse(signUpSchema, req.body));
-    res.status(201).json({ account });
-  });
-
-  router.post("/email-verification", async (req, res) => {
-    res.json(await accounts.verifyEmail(parse(verifyEmailSchema, req.body)));
-  });
-
-  router.post("/email-verification/resend", async (req, res) => {
-    await accounts.resendVerification(req.actor);
-    res.status(202).json({ sent: true });
-  });
-
-  router.post("/password-reset-requests", ...limits.passwordReset, async (req, res) => {
-    await accounts.requestPasswordReset(parse(passwordResetRequestSchema, req.body));
-    res.status(202).json({ message: "If that address has a Grainyard account, a reset link is on its way." });
-  });
-
-  router.post("/password-resets", async (req, res) => {
-    await accounts.resetPassword(parse(passwordResetSchema, req.body));
-    res.json({ reset: true });
-  });
-
-  router.get("/yard", async (req, res) => {
-    res.json({ account: await accounts.ownYard(req.actor) });
-  });
-
-  router.patch("/yards/:sawyerId", async (req, res) => {
-    res.json({ account: await accounts.updateYard(req.actor, String(req.params.sawyerId), parse(yardProfileUpdateSchema, req.body)) });
-  });
-
-  router.get("/admin/accounts", async (req, res) => {
-    res.json({ accounts: await accounts.searchAccounts(req.actor, parse(userSearchSchema, req.query)) });
-  });
-
-  return router;
+/** Sign-in, sign-up, e-mail confirmation, password reset and the yard profile: each calls one service function. */
+export function accountHandlers(accounts: AccountService): Handlers<typeof accountEndpoints> {
+  return {
+    getSession: async ({ actor, req }) => ({ account: await accounts.currentAccount(actor), csrfToken: csrfTokenFor(req) }),
+    signIn: async ({ body, req }) => {
+      const { account, sessionKey } = await accounts.signIn(body, signInAttemptOf(req));
+      // A fresh anti-forgery token with every new session.
+      req.session = { key: sessionKey, csrf: newToken() };
+      return { account, csrfToken: sessionOf(req).csrf! };
+    },
+    signOut: async ({ actor, req }) => {
+      await accounts.signOut(actor);
+      req.session = { csrf: newToken() };
+      return { account: null, csrfToken: sessionOf(req).csrf! };
+    },
+    signUp: async ({ actor, body }) => {
+      // The same answer whether or not the address has an account already (its owner gets an e-mail).
+      await accounts.signUp(actor, body);
+      return { message: "Check your inbox: we sent a link to confirm your address." };
+    },
+    verifyEmail: ({ body }) => accounts.verifyEmail(body),
+    resendVerification: async ({ actor }) => {
+      await accounts.resendVerification(actor);
+      return { sent: true };
+    },
+    requestPasswordReset: ({ body }) => {
+      accounts.requestPasswordReset(body);
+      return { message: "If that address has a Grainyard account, a reset link is on its way." };
+    },
+    resetPassword: async ({ body }) => {
+      await accounts.resetPassword(body);
+      return { reset: true };
+    },
+    getOwnYard: async ({ actor }) => ({ account: await accounts.ownYard(actor) }),
+    updateYard: async ({ actor, params, body }) => ({ account: await accounts.updateYard(actor, params.sawyerId, body) }),
+  };
 }

@@ -4,7 +4,7 @@ import sharp from "sharp";
 import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { signatureHeader, type PaymentsFakeApp } from "@grainyard/payments-fake";
-import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
+import { LedgerEntryEntity, ListingEntity, OrderEntity, OrderRefundEntity } from "../entities/index.ts";
 import {
   expectLedgerBalanced,
   listenForWebhooks,
@@ -160,10 +160,13 @@ describe("buying a slab", () => {
     });
     fake.webhooks.options.copies = 3;
     fake.webhooks.options.shuffle = true;
+    const answeredBefore = fake.webhooks.deliveredCopies();
     try {
       await pay(body.checkoutUrl, "4242424242424242");
       await until(async () => (await orderOf(body.order.id)).status === "paid");
-      await new Promise((r) => setTimeout(r, 300)); // let the copies land
+      await fake.webhooks.settled();
+      // Every copy was delivered and answered, so the ledger below saw all three.
+      expect(fake.webhooks.deliveredCopies() - answeredBefore).toBeGreaterThanOrEqual(3);
     } finally {
       fake.webhooks.options.copies = 1;
       fake.webhooks.options.shuffle = false;
@@ -171,6 +174,56 @@ describe("buying a slab", () => {
     const entries = await ctx.dataSource.getRepository(LedgerEntryEntity).findBy({ orderId: body.order.id });
     expect(entries.filter((e) => e.account === "provider_clearing")).toHaveLength(1);
     await ledgerSumsToZero();
+  });
+
+  it("a payment that lands after the hold ran out and the slab was sold to someone else goes straight back, in full, once", async () => {
+    const listingId = await liveListing(45_000);
+    const late = await ctx.signedInClient("buyer");
+    const first = (await late.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" })).body;
+    // The first buyer pays, but the provider's webhook does not reach us yet.
+    fake.webhooks.options.url = undefined;
+    expect((await pay(first.checkoutUrl, "4242 4242 4242 4242")).status).toBe(303);
+    // Their hold runs out meanwhile, and a second buyer buys the slab.
+    clock.advance(16 * 60_000);
+    try {
+      const app = ctx.app as unknown as { checkout: { sweepExpiredReservations(): Promise<number> } };
+      expect(await app.checkout.sweepExpiredReservations()).toBeGreaterThanOrEqual(1);
+    } finally {
+      clock.advance(-16 * 60_000);
+    }
+    expect((await orderOf(first.order.id)).status).toBe("expired");
+    fake.webhooks.options.url = webhookUrl;
+    const winner = await ctx.signedInClient("buyer");
+    const second = (await winner.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" })).body;
+    await pay(second.checkoutUrl, "4242 4242 4242 4242");
+    await until(async () => (await orderOf(second.order.id)).status === "paid");
+
+    // Now the first payment's event arrives (the provider retries it): refunded, never sold twice.
+    fake.webhooks.resendAll();
+    await until(async () => (await orderOf(first.order.id)).status === "refunded");
+    const lateOrder = await orderOf(first.order.id);
+    expect(lateOrder.refundedAt).not.toBeNull();
+    const refunds = fake.store.all("refund").filter((r) => r.payment_intent === lateOrder.paymentIntentId);
+    expect(refunds.map((r) => r.amount)).toEqual([lateOrder.totalMinor]);
+    await until(async () => (await orderOf(first.order.id)).refundId === refunds[0]!.id);
+    expect(await listingStatus(listingId)).toBe("sold");
+    expect(await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId: first.order.id })).toBe(0);
+    const recorded = await ctx.dataSource.getRepository(OrderRefundEntity).findBy({ orderId: first.order.id });
+    expect(recorded).toMatchObject([{ kind: "sold_elsewhere", amountMinor: lateOrder.totalMinor, providerRefundId: refunds[0]!.id }]);
+
+    // Every event once more: still one refund.
+    const paidEvent = fake.store.state.events
+      .map((id) => fake.store.get(id)!)
+      .find(
+        (e) =>
+          e.type === "checkout.session.completed" &&
+          (e.data as { object: { metadata: Record<string, string> } }).object.metadata.order_id === first.order.id,
+      )!;
+    const answered = () => fake.webhooks.attempts.filter((a) => a.eventId === paidEvent.id && a.status === 200).length;
+    const before = answered();
+    fake.webhooks.resendAll();
+    await until(async () => answered() > before);
+    expect(fake.store.all("refund").filter((r) => r.payment_intent === lateOrder.paymentIntentId)).toHaveLength(1);
   });
 
   it("refuses an unsigned or tampered webhook and changes nothing", async () => {

@@ -52,16 +52,13 @@ describe("no web route changes a role", () => {
     async function callAll(client: BrowserClient, targetId: string) {
       let answered = 0;
       for (const route of routes) {
-        if (route.method === "DELETE" && route.path === "/session") continue; // would sign the caller out
-        const path = route.path.replace(/:[A-Za-z]+/g, targetId);
-        for (const prefix of ["/api/v1", "/api"]) {
-          const url = `${prefix}${path}`;
-          const agent = client.agent;
-          const method = route.method.toLowerCase() as "get" | "post" | "patch" | "put" | "delete";
-          if (!["get", "post", "patch", "put", "delete"].includes(method)) continue;
-          const res = await agent[method](url).set("x-csrf-token", client.csrfToken).send(asks);
-          if (res.status !== 404) answered += 1;
-        }
+        if (route.method === "DELETE" && route.path === "/api/v1/session") continue; // would sign the caller out
+        if (!route.path.startsWith("/api")) continue;
+        const url = route.path.replace(/:[A-Za-z]+/g, targetId);
+        const method = route.method.toLowerCase() as "get" | "post" | "patch" | "put" | "delete";
+        if (!["get", "post", "patch", "put", "delete"].includes(method)) continue;
+        const res = await client.agent[method](url).set("x-csrf-token", client.csrfToken).send(asks);
+        if (res.status !== 404) answered += 1;
       }
       return answered;
     }

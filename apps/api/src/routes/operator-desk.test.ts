@@ -124,7 +124,7 @@ describe("moderation desk", () => {
     expect(item.lastReview).toMatchObject({ decision: "sent_back", reason: "Say which end has the crack." });
     expect(item.changes).toEqual([
       { field: "title", label: "Title", before: "Cherry top first try", after: "Cherry top, crack at the north end" },
-      { field: "price", label: "Price", before: "fixed: 900.00 USD", after: "fixed: 850.00 USD" },
+      { field: "price", label: "Price", before: "fixed: $900.00 USD", after: "fixed: $850.00 USD" },
     ]);
 
     const approved = await admin.post(`/api/v1/admin/listings/${listingId}/approve`);
@@ -242,10 +242,12 @@ describe("reports and suspension", () => {
       reason: "Rude answer to a question.",
     });
     expect(messageReport.status).toBe(201);
-    expect(messageReport.body.report.excerpt).toBe("Rude words here");
+    // The reporter gets a receipt, never the reported person's details.
+    expect(messageReport.body.report).toEqual({ id: expect.any(String), targetKind: "message", targetId: messageId, status: "open" });
 
     const queue = (await admin.get("/api/v1/admin/reports")).body.reports;
     expect(queue.map((r: { id: string }) => r.id)).toEqual([report.body.report.id, messageReport.body.report.id]);
+    expect(queue[1].excerpt).toBe("Rude words here");
     const dismissed = await admin.post(`/api/v1/admin/reports/${messageReport.body.report.id}/resolve`, {
       resolution: "dismiss",
       note: "Blunt, not abusive.",

@@ -1,73 +1,38 @@
-import express, { Router, type Request, type Response } from "express";
-import type Stripe from "stripe";
-import {
-  cancellationInputSchema,
-  checkoutInputSchema,
-  chooseWindowInputSchema,
-  pickupWindowsInputSchema,
-  shipmentInputSchema,
-} from "@grainyard/contracts";
-import { parse } from "../http/context.ts";
-import type { Payments } from "../integrations/payments.ts";
+import type { orderEndpoints } from "@grainyard/contracts";
+import { AppError } from "../errors.ts";
+import type { Handlers } from "../http/endpoints.ts";
+import { WebhookNotVerified, type PaymentEvent, type PaymentsPort } from "../integrations/payments.ts";
 import type { CheckoutService } from "../services/checkout-service.ts";
 import type { OrderService } from "../services/order-service.ts";
 
 /** Buying: the quote, checkout, the buyer's and sawyer's orders and every step after payment. */
-export function orderRoutes(checkout: CheckoutService, orders: OrderService) {
-  const router = Router();
-  const id = (req: Request) => String(req.params.orderId);
-  router.get("/listings/:listingId/checkout-quote", async (req, res) => {
-    res.json({ quote: await checkout.quote(String(req.params.listingId)) });
-  });
-  router.post("/listings/:listingId/checkout", async (req, res) => {
-    res.status(201).json(await checkout.checkout(req.actor, String(req.params.listingId), parse(checkoutInputSchema, req.body)));
-  });
-  router.get("/orders", async (req, res) => {
-    res.json({ orders: await orders.listOwn(req.actor) });
-  });
-  router.get("/orders/:orderId", async (req, res) => {
-    res.json({ order: await orders.get(req.actor, id(req)) });
-  });
-  router.post("/orders/:orderId/pickup-windows", async (req, res) => {
-    res.json({ order: await orders.proposePickupWindows(req.actor, id(req), parse(pickupWindowsInputSchema, req.body)) });
-  });
-  router.post("/orders/:orderId/pickup-choice", async (req, res) => {
-    res.json({ order: await orders.choosePickupWindow(req.actor, id(req), parse(chooseWindowInputSchema, req.body)) });
-  });
-  router.post("/orders/:orderId/shipment", async (req, res) => {
-    res.json({ order: await orders.markShipped(req.actor, id(req), parse(shipmentInputSchema, req.body)) });
-  });
-  router.post("/orders/:orderId/handed-over", async (req, res) => {
-    res.json({ order: await orders.markHandedOver(req.actor, id(req)) });
-  });
-  router.post("/orders/:orderId/completion", async (req, res) => {
-    res.json({ order: await orders.confirmReceipt(req.actor, id(req)) });
-  });
-  router.post("/orders/:orderId/cancellation", async (req, res) => {
-    res.json({ order: await orders.cancel(req.actor, id(req), parse(cancellationInputSchema, req.body)) });
-  });
-  return router;
-}
-
-/**
- * The provider's webhook: the raw body (mounted before the JSON parser), the signature checked
- * with the official SDK, then handled once per event id. Outside the anti-forgery check: it is
- * not a browser, and the signature is its proof.
- */
-export function paymentWebhookRoute(checkout: CheckoutService, payments: Payments, webhookSecret: string) {
-  const router = Router();
-  router.post("/payments/webhook", express.raw({ type: () => true, limit: "1mb" }), async (req: Request, res: Response) => {
-    const signature = req.get("stripe-signature");
-    let event: Stripe.Event;
-    try {
-      if (!signature || !Buffer.isBuffer(req.body)) throw new Error("missing signature");
-      event = payments.sdk.webhooks.constructEvent(req.body, signature, webhookSecret);
-    } catch {
-      res.status(400).json({ error: { code: "bad_signature", message: "The webhook signature did not verify." } });
-      return;
-    }
-    const outcome = await checkout.handleEvent(event);
-    res.json({ received: true, outcome });
-  });
-  return router;
+export function orderHandlers(checkout: CheckoutService, orders: OrderService, payments: PaymentsPort): Handlers<typeof orderEndpoints> {
+  return {
+    getCheckoutQuote: async ({ params }) => ({ quote: await checkout.quote(params.listingId) }),
+    checkout: ({ actor, params, body }) => checkout.checkout(actor, params.listingId, body),
+    listOrders: async ({ actor }) => ({ orders: await orders.listOwn(actor) }),
+    getOrder: async ({ actor, params }) => ({ order: await orders.get(actor, params.orderId) }),
+    proposePickupWindows: async ({ actor, params, body }) => ({ order: await orders.proposePickupWindows(actor, params.orderId, body) }),
+    choosePickupWindow: async ({ actor, params, body }) => ({ order: await orders.choosePickupWindow(actor, params.orderId, body) }),
+    markShipped: async ({ actor, params, body }) => ({ order: await orders.markShipped(actor, params.orderId, body) }),
+    markHandedOver: async ({ actor, params }) => ({ order: await orders.markHandedOver(actor, params.orderId) }),
+    confirmReceipt: async ({ actor, params }) => ({ order: await orders.confirmReceipt(actor, params.orderId) }),
+    cancelOrder: async ({ actor, params, body }) => ({ order: await orders.cancel(actor, params.orderId, body) }),
+    /**
+     * The provider's webhook: the raw body, verified by the payments port into one of our payment
+     * events, then handled once per event id. Its row needs no anti-forgery token: the signature is its proof.
+     */
+    paymentWebhook: async ({ req, body }) => {
+      let event: PaymentEvent | null;
+      try {
+        event = payments.verifyWebhook(Buffer.isBuffer(body) ? body : Buffer.alloc(0), req.get(payments.webhookSignatureHeader));
+      } catch (error) {
+        if (!(error instanceof WebhookNotVerified)) throw error;
+        throw new AppError("bad_signature", "The webhook signature did not verify.");
+      }
+      // Genuine, but nothing Grainyard acts on.
+      if (!event) return { received: true, outcome: "ignored" };
+      return { received: true, outcome: await checkout.handleEvent(event) };
+    },
+  };
 }

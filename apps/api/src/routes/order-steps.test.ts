@@ -3,7 +3,7 @@ import sharp from "sharp";
 import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import type { PaymentsFakeApp } from "@grainyard/payments-fake";
-import { LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
+import { LedgerEntryEntity, ListingEntity, OrderEntity, OrderRefundEntity } from "../entities/index.ts";
 import {
   expectLedgerBalanced,
   listenForWebhooks,
@@ -306,8 +306,11 @@ describe("cancelling before hand-over", () => {
     fake.webhooks.options.shuffle = true;
     let res;
     try {
+      const answeredBefore = fake.webhooks.deliveredCopies();
       res = await buyer.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "Our dining room plans changed." });
-      await new Promise((r) => setTimeout(r, 400)); // let the copies of charge.refunded land
+      await fake.webhooks.settled();
+      // The three copies of the refund's event were all delivered and answered.
+      expect(fake.webhooks.deliveredCopies() - answeredBefore).toBeGreaterThanOrEqual(3);
     } finally {
       fake.webhooks.options.copies = 1;
       fake.webhooks.options.shuffle = false;
@@ -323,6 +326,17 @@ describe("cancelling before hand-over", () => {
     expect(order.refundId).toMatch(/^re_/);
     expect(order.cancelledAt).not.toBeNull();
     expect(order.refundedAt).not.toBeNull();
+    // One refund recorded, keyed by the order, by the buyer who cancelled.
+    expect(await ctx.dataSource.getRepository(OrderRefundEntity).findBy({ orderId })).toMatchObject([
+      {
+        kind: "cancellation",
+        amountMinor: 157_500,
+        idempotencyKey: `refund-${orderId}`,
+        providerRefundId: order.refundId,
+        createdBy: buyer.account.id,
+        reason: "Our dining room plans changed.",
+      },
+    ]);
 
     // The provider refunded exactly the total paid (price 1 500.00 + 5 % tax 75.00), once.
     const intent = fake.store.get(order.paymentIntentId!)!;
@@ -342,8 +356,10 @@ describe("cancelling before hand-over", () => {
     for (const total of byAccount.values()) expect(total).toBe(0);
 
     // A resend of every webhook (the provider's retry) changes nothing.
+    const answeredBeforeResend = fake.webhooks.deliveredCopies();
     fake.webhooks.resendAll();
-    await new Promise((r) => setTimeout(r, 300));
+    await fake.webhooks.settled();
+    expect(fake.webhooks.deliveredCopies()).toBeGreaterThan(answeredBeforeResend);
     expect(await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId })).toBe(entries.length);
     expect((await buyer.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "Again" })).status).toBe(409);
 

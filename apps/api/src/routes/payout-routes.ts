@@ -1,50 +1,25 @@
-import { Router } from "express";
-import { disputeRefundSchema, payoutApprovalSchema, payoutBatchSchema, payoutListQuerySchema } from "@grainyard/contracts";
-import { parse } from "../http/context.ts";
+import type { payoutEndpoints } from "@grainyard/contracts";
+import type { Handlers } from "../http/endpoints.ts";
 import type { PayoutService } from "../services/payout-service.ts";
 
 /** Paying sawyers: their payout account, balance and statement; the admin's payouts and dispute refunds. */
-export function payoutRoutes(payouts: PayoutService) {
-  const router = Router();
-  const id = (value: string | string[] | undefined) => String(value);
-
-  router.get("/yard/payouts", async (req, res) => {
-    res.json(await payouts.mine(req.actor));
-  });
-  router.post("/yard/payouts/account", async (req, res) => {
-    res.json(await payouts.onboardingLink(req.actor));
-  });
-  router.post("/yard/payouts/account/refresh", async (req, res) => {
-    res.json(await payouts.refreshAccount(req.actor));
-  });
-  router.get("/yard/payouts/statement.csv", async (req, res) => {
-    const csv = await payouts.statementCsv(req.actor);
-    res.type("text/csv").attachment("grainyard-statement.csv").send(csv);
-  });
-  router.get("/yard/payouts/:payoutId", async (req, res) => {
-    res.json({ payout: await payouts.one(req.actor, id(req.params.payoutId), "yard") });
-  });
-
-  router.get("/admin/payouts/due", async (req, res) => {
-    res.json(await payouts.due(req.actor));
-  });
-  router.post("/admin/payouts/batch", async (req, res) => {
-    res.json(await payouts.approveBatch(req.actor, parse(payoutBatchSchema, req.body)));
-  });
-  router.post("/admin/payouts", async (req, res) => {
-    res.json({ payout: await payouts.approve(req.actor, parse(payoutApprovalSchema, req.body)) });
-  });
-  router.get("/admin/payouts", async (req, res) => {
-    res.json({ payouts: await payouts.list(req.actor, parse(payoutListQuerySchema, req.query)) });
-  });
-  router.get("/admin/payouts/:payoutId", async (req, res) => {
-    res.json({ payout: await payouts.one(req.actor, id(req.params.payoutId), "desk") });
-  });
-  router.get("/admin/orders/:orderId/refund", async (req, res) => {
-    res.json(await payouts.refundState(req.actor, id(req.params.orderId)));
-  });
-  router.post("/admin/orders/:orderId/refund", async (req, res) => {
-    res.json(await payouts.disputeRefund(req.actor, id(req.params.orderId), parse(disputeRefundSchema, req.body)));
-  });
-  return router;
+export function payoutHandlers(payouts: PayoutService): Handlers<typeof payoutEndpoints> {
+  return {
+    myPayouts: ({ actor }) => payouts.mine(actor),
+    startPayoutSetup: ({ actor }) => payouts.onboardingLink(actor),
+    refreshPayoutAccount: ({ actor }) => payouts.refreshAccount(actor),
+    statementCsv: async ({ actor }) => ({
+      body: await payouts.statementCsv(actor),
+      contentType: "text/csv; charset=utf-8",
+      filename: "grainyard-statement.csv",
+    }),
+    myPayout: async ({ actor, params }) => ({ payout: await payouts.one(actor, params.payoutId, "yard") }),
+    payoutsDue: ({ actor }) => payouts.due(actor),
+    approvePayoutBatch: ({ actor, body }) => payouts.approveBatch(actor, body),
+    approvePayout: async ({ actor, body }) => ({ payout: await payouts.approve(actor, body) }),
+    listPayouts: async ({ actor, query }) => ({ payouts: await payouts.list(actor, query) }),
+    getPayout: async ({ actor, params }) => ({ payout: await payouts.one(actor, params.payoutId, "desk") }),
+    disputeRefundState: ({ actor, params }) => payouts.refundState(actor, params.orderId),
+    disputeRefund: ({ actor, params, body }) => payouts.disputeRefund(actor, params.orderId, body),
+  };
 }

@@ -5,7 +5,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import type { PaymentsFakeApp } from "@grainyard/payments-fake";
 import { feeBreakdown } from "@grainyard/slab-math";
 import { OrderEntity, PayoutAccountEntity } from "../entities/index.ts";
-import { createPayments } from "../integrations/payments.ts";
+import { createPayments } from "../integrations/payments-stripe.ts";
 import {
   expectLedgerBalanced,
   listenForWebhooks,
@@ -293,10 +293,14 @@ describe("payouts to sawyers", () => {
     expect(await balanceOf(sawyer)).toMatchObject({ availableMinor: 0, paidMinor: netOf(70_000) }); // on its way
     // Suppose the first call had reached the provider and only its answer was lost: the same key was used.
     const accountId = await providerAccountOf(sawyer.account.id);
-    await createPayments(ctx.config.payments).sdk.transfers.create(
-      { amount: netOf(70_000), currency: "usd", destination: accountId, metadata: { payout_id: open!.id } },
-      { idempotencyKey: `payout-${open!.id}` },
-    );
+    await createPayments(ctx.config.payments).transfer({
+      amountMinor: netOf(70_000),
+      currency: "USD",
+      accountId,
+      payoutId: open!.id,
+      sawyerId: sawyer.account.id,
+      idempotencyKey: `payout-${open!.id}`,
+    });
     const again = await admin.post("/api/v1/admin/payouts", { sawyerId: sawyer.account.id, currency: "USD", dueKey: due!.dueKey });
     expect(again.body.payout).toMatchObject({ id: open!.id, status: "sent" });
     expect(transfersTo(accountId)).toHaveLength(1);

@@ -1,380 +1,374 @@
 import { randomUUID } from "node:crypto";
 import sharp from "sharp";
-import { OrderEntity } from "../entities/index.ts";
+import { everyEndpoint, mayCall, pathOf, type EndpointKey, type EndpointSpec, type Role } from "@grainyard/contracts";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createTestContext, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { OrderEntity } from "../entities/index.ts";
 import { unsubscribeToken } from "../services/saved-search-service.ts";
+import { createTestContext, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /**
- * Who may do what, route by route: anonymous, buyer, sawyer (acting on their own yard),
- * other sawyer (acting on someone else's), admin. Grow this table with every new route.
+ * Who may do what, endpoint by endpoint, generated from the endpoint table in packages/contracts:
+ * `samples` must hold one call for every row (the type checker refuses a row without one), and each
+ * actor's expected status comes from the row itself — 401 for anonymous and 403 for a role the row
+ * does not allow — or, for the actors it allows, from the sample (ownership and state decide those:
+ * "sawyer" owns the things in `ids`, "otherSawyer" does not). Samples run in the order written.
  */
 type ActorName = "anonymous" | "buyer" | "sawyer" | "otherSawyer" | "admin";
-/** Things owned by "sawyer": a log, a slab cut from it, a draft listing of that slab with one photo. */
+/** Sawyer runs last, so a sample that ends something (a delete, a withdrawal) is seen by the others first. */
+const ACTOR_ORDER: ActorName[] = ["anonymous", "buyer", "otherSawyer", "admin", "sawyer"];
+const ROLE_OF: Record<ActorName, Role | undefined> = {
+  anonymous: undefined,
+  buyer: "buyer",
+  sawyer: "sawyer",
+  otherSawyer: "sawyer",
+  admin: "admin",
+};
+
+/** Things owned by "sawyer", made in beforeAll. */
 interface Ids {
   sawyerId: string;
   logId: string;
+  /** A log with no slabs, for the delete. */
+  spareLogId: string;
+  logPhotoId: string;
+  spareLogPhotoId: string;
   slabId: string;
+  spareSlabId: string;
+  readingId: string;
+  /** A draft listing of slabId with two photos (photoId, sparePhotoId). */
   listingId: string;
+  photoId: string;
+  sparePhotoId: string;
   photoUrl: string;
+  /** A draft listing with no photo. */
+  bareListingId: string;
   /** A buyer nobody signs in as: the admin suspends and restores it. */
   spareBuyerId: string;
+  /** A live listing of "sawyer", a thread "buyer" started on it, two saved searches of "buyer". */
+  liveListingId: string;
+  threadId: string;
+  savedSearchId: string;
+  spareSavedSearchId: string;
+  unsubscribeToken: string;
+  /** Two paid pickup orders of "buyer" for "sawyer"'s draft listing. */
+  pickupOrderId: string;
+  orderToCancelId: string;
+  windowStart: string;
+  windowEnd: string;
 }
 
-interface RouteCase {
-  name: string;
+interface Sample {
   call: (client: BrowserClient, ids: Ids) => Promise<{ status: number }>;
-  expected: Record<ActorName, number>;
+  /** The status of each actor the row allows; a number for all of them; the row's success status when not given. */
+  allowed?: number | Partial<Record<ActorName, number>>;
+  /** Calls with a freshly signed-in client of the actor's role (signing out must not end the others' sessions). */
+  freshClient?: true;
 }
 
-/** An admin route: anonymous 401, every other non-admin 403, the admin gets `adminStatus`. */
-function adminOnly(name: string, call: RouteCase["call"], adminStatus = 200): RouteCase[] {
-  return [{ name, call, expected: { anonymous: 401, buyer: 403, sawyer: 403, otherSawyer: 403, admin: adminStatus } }];
-}
+const none = "00000000-0000-4000-8000-000000000000";
+const phonePhoto = () =>
+  sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a5a32" } })
+    .jpeg()
+    .toBuffer();
+const sendPhoto = async (c: BrowserClient, path: string) =>
+  c.agent
+    .post(path)
+    .set("x-csrf-token", c.csrfToken)
+    .set("content-type", "image/jpeg")
+    .send(await phonePhoto());
+const slabBody = (logId: string, sequenceInLog: number) => ({
+  logId,
+  sequenceInLog,
+  speciesSlug: "northern-red-oak",
+  lengthMm: 2000,
+  thicknessMm: 50,
+  widthStationsMm: [500, 480],
+  liveEdge: "one",
+  surfacing: "rough_sawn",
+  dryingMethod: "air",
+});
 
-const routes: RouteCase[] = [
-  {
-    name: "GET /api/v1/session",
-    call: (c) => c.get("/api/v1/session"),
-    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+const samples: Record<EndpointKey, Sample> = {
+  "health.health": { call: (c) => c.get("/api/health") },
+
+  "accounts.getSession": { call: (c) => c.get("/api/v1/session") },
+  "accounts.signIn": {
+    call: (c) => c.post("/api/v1/session", { email: `nobody-${randomUUID()}@lakemont.test`, password: "not-the-password" }),
+    allowed: 401,
   },
-  {
-    name: "GET /api/v1/marketplace/fees (public)",
-    call: (c) => c.get("/api/v1/marketplace/fees"),
-    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
-  },
-  {
-    name: "GET /robots.txt (public)",
-    call: (c) => c.get("/robots.txt"),
-    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
-  },
-  {
-    name: "GET /sitemap.xml (public)",
-    call: (c) => c.get("/sitemap.xml"),
-    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
-  },
-  {
-    name: "GET /sitemaps/pages.xml (public)",
-    call: (c) => c.get("/sitemaps/pages.xml"),
-    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
-  },
-  {
-    name: "GET /api/v1/yard",
-    call: (c) => c.get("/api/v1/yard"),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
-  },
-  {
-    name: "PATCH /api/v1/yards/:sawyerId",
-    call: (c, ids) => c.patch(`/api/v1/yards/${ids.sawyerId}`, { pickupTown: "Northshore" }),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 200 },
-  },
-  {
-    name: "GET /api/v1/admin/accounts",
-    call: (c) => c.get("/api/v1/admin/accounts"),
-    expected: { anonymous: 401, buyer: 403, sawyer: 403, otherSawyer: 403, admin: 200 },
-  },
-  {
-    name: "POST /api/v1/email-verification/resend",
-    // Every seeded test account is verified already: signed-in people get 409, anonymous 401.
-    call: (c) => c.post("/api/v1/email-verification/resend"),
-    expected: { anonymous: 401, buyer: 409, sawyer: 409, otherSawyer: 409, admin: 409 },
-  },
-  {
-    name: "POST /api/v1/accounts (while signed in)",
+  "accounts.signOut": { call: (c) => c.delete("/api/v1/session"), freshClient: true },
+  "accounts.signUp": {
     call: (c) =>
       c.post("/api/v1/accounts", {
         role: "buyer",
-        email: `m-${Math.random().toString(36).slice(2)}@lakemont.test`,
+        email: `m-${randomUUID().slice(0, 8)}@lakemont.test`,
         password: "matrix-password-ok",
         displayName: "Matrix",
       }),
-    expected: { anonymous: 201, buyer: 409, sawyer: 409, otherSawyer: 409, admin: 409 },
+    allowed: { anonymous: 202, buyer: 409, sawyer: 409, otherSawyer: 409, admin: 409 },
   },
-  {
-    name: "GET /api/v1/yard/logs",
-    call: (c) => c.get("/api/v1/yard/logs"),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  "accounts.verifyEmail": { call: (c) => c.post("/api/v1/email-verification", { token: "a".repeat(43) }), allowed: 422 },
+  // Every seeded test account is verified already.
+  "accounts.resendVerification": { call: (c) => c.post("/api/v1/email-verification/resend"), allowed: 409 },
+  "accounts.requestPasswordReset": {
+    call: (c) => c.post("/api/v1/password-reset-requests", { email: `nobody-${randomUUID()}@lakemont.test` }),
   },
-  {
-    name: "GET /api/v1/yard/logs/:logId",
-    call: (c, ids) => c.get(`/api/v1/yard/logs/${ids.logId}`),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  "accounts.resetPassword": {
+    call: (c) => c.post("/api/v1/password-resets", { token: "a".repeat(43), password: "matrix-new-password" }),
+    allowed: 422,
   },
-  {
-    name: "PATCH /api/v1/yard/logs/:logId",
+  "accounts.getOwnYard": { call: (c) => c.get("/api/v1/yard") },
+  "accounts.updateYard": {
+    call: (c, ids) => c.patch(`/api/v1/yards/${ids.sawyerId}`, { pickupTown: "Northshore" }),
+    allowed: { sawyer: 200, otherSawyer: 403, admin: 200 },
+  },
+
+  "yard.listLogs": { call: (c) => c.get("/api/v1/yard/logs") },
+  "yard.createLog": {
+    call: (c) =>
+      c.post("/api/v1/yard/logs", { speciesSlug: "white-oak", siteTown: "Lakemont", siteKind: "street", fellingReason: "pests" }),
+  },
+  "yard.getLog": { call: (c, ids) => c.get(`/api/v1/yard/logs/${ids.logId}`), allowed: { sawyer: 200, otherSawyer: 403 } },
+  "yard.updateLog": {
     call: (c, ids) => c.patch(`/api/v1/yard/logs/${ids.logId}`, { notes: "Checked by the matrix" }),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+    allowed: { sawyer: 200, otherSawyer: 403 },
   },
-  {
-    name: "POST /api/v1/yard/logs/:logId/readings",
+  "yard.deleteLog": { call: (c, ids) => c.delete(`/api/v1/yard/logs/${ids.spareLogId}`), allowed: { sawyer: 204, otherSawyer: 403 } },
+  "yard.recordLogReadings": {
     call: (c, ids) =>
       c.post(`/api/v1/yard/logs/${ids.logId}/readings`, { readOn: "2025-06-01", moistureContentPct: 18, method: "pin_meter" }),
-    expected: { anonymous: 401, buyer: 403, sawyer: 201, otherSawyer: 403, admin: 403 },
+    allowed: { sawyer: 201, otherSawyer: 403 },
   },
-  {
-    name: "GET /api/v1/yard/slabs/:slabId",
-    call: (c, ids) => c.get(`/api/v1/yard/slabs/${ids.slabId}`),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  "yard.uploadLogPhoto": {
+    call: (c, ids) => sendPhoto(c, `/api/v1/yard/logs/${ids.logId}/photos`),
+    allowed: { sawyer: 201, otherSawyer: 403 },
   },
-  {
-    name: "PATCH /api/v1/yard/slabs/:slabId",
+  // The log has a live slab, so its photos are public.
+  "yard.logPhotoImage": { call: (c, ids) => c.get(`/api/v1/log-photos/${ids.logPhotoId}/small.webp`) },
+  "yard.deleteLogPhoto": {
+    call: (c, ids) => c.delete(`/api/v1/yard/logs/${ids.logId}/photos/${ids.spareLogPhotoId}`),
+    allowed: { sawyer: 204, otherSawyer: 403 },
+  },
+  "yard.exportSlabsCsv": { call: (c) => c.get("/api/v1/yard/slabs.csv") },
+  "yard.importSlabsCsv": {
+    call: (c) => c.agent.post("/api/v1/yard/slabs/import").set("x-csrf-token", c.csrfToken).set("content-type", "text/csv").send(""),
+    allowed: 422,
+  },
+  "yard.listSlabs": { call: (c) => c.get("/api/v1/yard/slabs") },
+  "yard.createSlab": { call: (c, ids) => c.post("/api/v1/yard/slabs", slabBody(ids.logId, 9)), allowed: { sawyer: 201, otherSawyer: 403 } },
+  "yard.getSlab": { call: (c, ids) => c.get(`/api/v1/yard/slabs/${ids.slabId}`), allowed: { sawyer: 200, otherSawyer: 403 } },
+  "yard.updateSlab": {
     call: (c, ids) => c.patch(`/api/v1/yard/slabs/${ids.slabId}`, { notes: "Checked by the matrix" }),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+    allowed: { sawyer: 200, otherSawyer: 403 },
   },
-  {
-    name: "POST /api/v1/yard/slabs/:slabId/readings",
+  "yard.addReading": {
     call: (c, ids) =>
       c.post(`/api/v1/yard/slabs/${ids.slabId}/readings`, { readOn: "2025-07-01", moistureContentPct: 15, method: "pin_meter" }),
-    expected: { anonymous: 401, buyer: 403, sawyer: 201, otherSawyer: 403, admin: 403 },
+    allowed: { sawyer: 201, otherSawyer: 403 },
   },
-  {
-    name: "GET /api/v1/yard/slabs.csv",
-    call: (c) => c.get("/api/v1/yard/slabs.csv"),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  "yard.deleteReading": {
+    call: (c, ids) => c.delete(`/api/v1/yard/readings/${ids.readingId}`),
+    allowed: { sawyer: 204, otherSawyer: 403 },
   },
-  {
-    name: "GET /api/v1/yard/listings/:listingId",
+  "yard.deleteSlab": { call: (c, ids) => c.delete(`/api/v1/yard/slabs/${ids.spareSlabId}`), allowed: { sawyer: 204, otherSawyer: 403 } },
+
+  "listings.listOwnListings": { call: (c) => c.get("/api/v1/yard/listings") },
+  "listings.createListing": { call: (c) => c.post("/api/v1/yard/listings", {}), allowed: 422 },
+  "listings.getOwnListing": {
     call: (c, ids) => c.get(`/api/v1/yard/listings/${ids.listingId}`),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 200 },
+    allowed: { sawyer: 200, otherSawyer: 403, admin: 200 },
   },
-  {
-    name: "PATCH /api/v1/yard/listings/:listingId",
+  "listings.updateListing": {
     call: (c, ids) => c.patch(`/api/v1/yard/listings/${ids.listingId}`, { description: "Checked by the matrix" }),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+    allowed: { sawyer: 200, otherSawyer: 403 },
   },
-  {
-    name: "GET /api/v1/photos/:photoId/small.webp (listing not live)",
+  "listings.submitListing": {
+    call: (c, ids) => c.post(`/api/v1/yard/listings/${ids.bareListingId}/submit`),
+    allowed: { sawyer: 422, otherSawyer: 403 },
+  },
+  "listings.setPhotoAltText": {
+    call: (c, ids) => c.patch(`/api/v1/yard/listings/${ids.listingId}/photos/${ids.photoId}`, { altText: "The whole slab from above" }),
+    allowed: { sawyer: 200, otherSawyer: 403 },
+  },
+  "listings.setPhotoOrder": {
+    call: (c, ids) =>
+      c.agent
+        .put(`/api/v1/yard/listings/${ids.listingId}/photo-order`)
+        .set("x-csrf-token", c.csrfToken)
+        .send({ photoIds: [ids.sparePhotoId, ids.photoId] }),
+    allowed: { sawyer: 200, otherSawyer: 403 },
+  },
+  "listings.deleteListingPhoto": {
+    call: (c, ids) => c.delete(`/api/v1/yard/listings/${ids.listingId}/photos/${ids.sparePhotoId}`),
+    allowed: { sawyer: 204, otherSawyer: 403 },
+  },
+  "listings.uploadListingPhoto": {
+    call: (c, ids) => sendPhoto(c, `/api/v1/yard/listings/${ids.listingId}/photos`),
+    allowed: { sawyer: 201, otherSawyer: 403 },
+  },
+  // The listing is a draft: its photos are for its sawyer and the admins.
+  "listings.listingPhotoImage": {
     call: (c, ids) => c.get(ids.photoUrl),
-    expected: { anonymous: 404, buyer: 404, sawyer: 200, otherSawyer: 404, admin: 200 },
+    allowed: { anonymous: 404, buyer: 404, sawyer: 200, otherSawyer: 404, admin: 200 },
   },
-  {
-    name: "GET /api/v1/admin/listings",
-    call: (c) => c.get("/api/v1/admin/listings"),
-    expected: { anonymous: 401, buyer: 403, sawyer: 403, otherSawyer: 403, admin: 200 },
+
+  "review.reviewDesk": { call: (c) => c.get("/api/v1/admin/review-desk") },
+  "review.reviewHistory": { call: (c, ids) => c.get(`/api/v1/admin/listings/${ids.listingId}/reviews`) },
+  "review.approveListing": { call: (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/approve`), allowed: 409 },
+  "review.sendBackListing": {
+    call: (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/send-back`, { reason: "Matrix asks for a photo of the end grain." }),
+    allowed: 409,
   },
-  {
-    name: "POST /api/v1/admin/listings/:listingId/approve (a draft)",
-    call: (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/approve`),
-    expected: { anonymous: 401, buyer: 403, sawyer: 403, otherSawyer: 403, admin: 409 },
+  "review.rejectListing": {
+    call: (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/reject`, { reason: "Matrix says no." }),
+    allowed: 409,
   },
-  // Operator desk (operator-desk.test.ts has the behaviour).
-  ...adminOnly("GET /api/v1/admin/review-desk", (c) => c.get("/api/v1/admin/review-desk")),
-  ...adminOnly("GET /api/v1/admin/listings/:listingId/reviews", (c, ids) => c.get(`/api/v1/admin/listings/${ids.listingId}/reviews`)),
-  ...adminOnly(
-    "POST /api/v1/admin/listings/:listingId/reject (a draft)",
-    (c, ids) => c.post(`/api/v1/admin/listings/${ids.listingId}/reject`, { reason: "Matrix says no." }),
-    409,
-  ),
-  ...adminOnly("GET /api/v1/admin/audit", (c) => c.get("/api/v1/admin/audit")),
-  ...adminOnly("GET /api/v1/admin/audit.csv", (c) => c.get("/api/v1/admin/audit.csv")),
-  ...adminOnly("GET /api/v1/admin/reports", (c) => c.get("/api/v1/admin/reports")),
-  ...adminOnly(
-    "POST /api/v1/admin/reports/:reportId/resolve (unknown report)",
-    (c) =>
-      c.post("/api/v1/admin/reports/00000000-0000-4000-8000-000000000000/resolve", { resolution: "dismiss", note: "Matrix resolves." }),
-    404,
-  ),
-  ...adminOnly("GET /api/v1/admin/users", (c) => c.get("/api/v1/admin/users")),
-  ...adminOnly("GET /api/v1/admin/users/:accountId", (c, ids) => c.get(`/api/v1/admin/users/${ids.sawyerId}`)),
-  ...adminOnly("POST /api/v1/admin/users/:accountId/suspend (a spare buyer)", (c, ids) =>
-    c.post(`/api/v1/admin/users/${ids.spareBuyerId}/suspend`, { reason: "Matrix suspends." }),
-  ),
-  ...adminOnly("POST /api/v1/admin/users/:accountId/restore (the spare buyer)", (c, ids) =>
-    c.post(`/api/v1/admin/users/${ids.spareBuyerId}/restore`, { reason: "Matrix restores." }),
-  ),
-  ...adminOnly("GET /api/v1/admin/settings", (c) => c.get("/api/v1/admin/settings")),
-  ...adminOnly("PATCH /api/v1/admin/settings", (c) =>
-    c.patch("/api/v1/admin/settings", { holdDays: 7, reason: "Matrix keeps seven days." }),
-  ),
-  ...adminOnly("GET /api/v1/admin/dashboard", (c) => c.get("/api/v1/admin/dashboard")),
-  // Payouts and dispute refunds (payouts.test.ts has the behaviour).
-  {
-    name: "GET /api/v1/yard/payouts",
-    call: (c) => c.get("/api/v1/yard/payouts"),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+
+  "catalogue.searchCatalogue": { call: (c) => c.get("/api/v1/catalogue?species=northern-red-oak") },
+  "catalogue.getCatalogueListing": { call: (c, ids) => c.get(`/api/v1/catalogue/${ids.liveListingId}`) },
+  "catalogue.findPlaces": { call: (c) => c.get("/api/v1/places?query=Lake") },
+  "catalogue.getMarketplaceFees": { call: (c) => c.get("/api/v1/marketplace/fees") },
+
+  "buyer.listSavedSearches": { call: (c) => c.get("/api/v1/saved-searches") },
+  "buyer.saveSearch": { call: (c) => c.post("/api/v1/saved-searches", { name: "Matrix walnut", query: "species=black-walnut" }) },
+  "buyer.updateSavedSearch": {
+    call: (c, ids) => c.patch(`/api/v1/saved-searches/${ids.savedSearchId}`, { name: "Renamed by the matrix" }),
   },
-  {
-    name: "POST /api/v1/yard/payouts/account",
-    call: (c) => c.post("/api/v1/yard/payouts/account"),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  "buyer.deleteSavedSearch": { call: (c, ids) => c.delete(`/api/v1/saved-searches/${ids.spareSavedSearchId}`) },
+  "buyer.unsubscribeSavedSearch": {
+    call: (c, ids) => c.get(`/api/v1/saved-searches/unsubscribe?token=${encodeURIComponent(ids.unsubscribeToken)}`),
   },
-  {
-    name: "POST /api/v1/yard/payouts/account/refresh",
-    call: (c) => c.post("/api/v1/yard/payouts/account/refresh"),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  "buyer.addFavourite": {
+    call: (c, ids) => c.agent.put(`/api/v1/favourites/${ids.liveListingId}`).set("x-csrf-token", c.csrfToken),
   },
-  {
-    name: "GET /api/v1/yard/payouts/statement.csv",
-    call: (c) => c.get("/api/v1/yard/payouts/statement.csv"),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 200, admin: 403 },
+  "buyer.listFavourites": { call: (c) => c.get("/api/v1/favourites") },
+  "buyer.removeFavourite": { call: (c, ids) => c.delete(`/api/v1/favourites/${ids.liveListingId}`) },
+
+  "messages.askAboutListing": {
+    call: (c, ids) => c.post(`/api/v1/listings/${ids.liveListingId}/messages`, { body: "Asked by the matrix" }),
+    allowed: { buyer: 201, sawyer: 403, otherSawyer: 201 },
   },
-  {
-    name: "GET /api/v1/yard/payouts/:payoutId (unknown)",
-    call: (c) => c.get(`/api/v1/yard/payouts/${randomUUID()}`),
-    expected: { anonymous: 401, buyer: 403, sawyer: 404, otherSawyer: 404, admin: 403 },
+  "messages.listThreads": { call: (c) => c.get("/api/v1/threads") },
+  "messages.getThread": {
+    call: (c, ids) => c.get(`/api/v1/threads/${ids.threadId}`),
+    allowed: { buyer: 200, sawyer: 200, otherSawyer: 403, admin: 200 },
   },
-  ...adminOnly("GET /api/v1/admin/payouts/due", (c) => c.get("/api/v1/admin/payouts/due")),
-  ...adminOnly(
-    "POST /api/v1/admin/payouts (a sawyer with no payout account)",
-    (c) => c.post("/api/v1/admin/payouts", { sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }),
-    409,
-  ),
-  ...adminOnly("POST /api/v1/admin/payouts/batch", (c) =>
-    c.post("/api/v1/admin/payouts/batch", { payouts: [{ sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }] }),
-  ),
-  ...adminOnly("GET /api/v1/admin/payouts", (c) => c.get("/api/v1/admin/payouts")),
-  ...adminOnly("GET /api/v1/admin/payouts/:payoutId (unknown)", (c) => c.get(`/api/v1/admin/payouts/${randomUUID()}`), 404),
-  ...adminOnly(
-    "GET /api/v1/admin/orders/:orderId/refund (unknown order)",
-    (c) => c.get(`/api/v1/admin/orders/${randomUUID()}/refund`),
-    404,
-  ),
-  ...adminOnly(
-    "POST /api/v1/admin/orders/:orderId/refund (unknown order)",
-    (c) => c.post(`/api/v1/admin/orders/${randomUUID()}/refund`, { amountMinor: 100, reason: "Matrix refunds." }),
-    404,
-  ),
-  {
-    name: "POST /api/v1/yard/listings/:listingId/withdraw (last: it ends the draft)",
-    call: (c, ids) => c.post(`/api/v1/yard/listings/${ids.listingId}/withdraw`),
-    expected: { anonymous: 401, buyer: 403, otherSawyer: 403, admin: 403, sawyer: 200 },
+  "messages.replyInThread": {
+    call: (c, ids) => c.post(`/api/v1/threads/${ids.threadId}/messages`, { body: "Answered in the matrix" }),
+    allowed: { buyer: 201, sawyer: 201, otherSawyer: 403 },
   },
-  // Buyer tools (buyer-tools.test.ts has the behaviour); they use buyerToolIds, set up at the end of beforeAll.
-  {
-    name: "GET /api/v1/saved-searches",
-    call: (c) => c.get("/api/v1/saved-searches"),
-    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+
+  "reports.fileReport": {
+    call: (c, ids) => c.post("/api/v1/reports", { targetKind: "listing", targetId: ids.liveListingId, reason: "Reported by the matrix." }),
+    allowed: { buyer: 201, sawyer: 422, otherSawyer: 201, admin: 201 },
   },
-  {
-    name: "POST /api/v1/saved-searches",
-    call: (c) => c.post("/api/v1/saved-searches", { name: "Matrix walnut", query: "species=black-walnut" }),
-    expected: { anonymous: 401, buyer: 201, sawyer: 403, otherSawyer: 403, admin: 403 },
+
+  "admin.searchAudit": { call: (c) => c.get("/api/v1/admin/audit") },
+  "admin.exportAuditCsv": { call: (c) => c.get("/api/v1/admin/audit.csv") },
+  "admin.listReports": { call: (c) => c.get("/api/v1/admin/reports") },
+  "admin.resolveReport": {
+    call: (c) => c.post(`/api/v1/admin/reports/${none}/resolve`, { resolution: "dismiss", note: "Matrix resolves." }),
+    allowed: 404,
   },
-  {
-    name: "PATCH /api/v1/saved-searches/:savedSearchId (the buyer's)",
-    call: (c) => c.patch(`/api/v1/saved-searches/${buyerToolIds.savedSearchId}`, { name: "Renamed by the matrix" }),
-    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+  "admin.searchUsers": { call: (c) => c.get("/api/v1/admin/users") },
+  "admin.getUser": { call: (c, ids) => c.get(`/api/v1/admin/users/${ids.sawyerId}`) },
+  "admin.suspendUser": { call: (c, ids) => c.post(`/api/v1/admin/users/${ids.spareBuyerId}/suspend`, { reason: "Matrix suspends." }) },
+  "admin.restoreUser": { call: (c, ids) => c.post(`/api/v1/admin/users/${ids.spareBuyerId}/restore`, { reason: "Matrix restores." }) },
+  "admin.getSettings": { call: (c) => c.get("/api/v1/admin/settings") },
+  "admin.updateSettings": { call: (c) => c.patch("/api/v1/admin/settings", { holdDays: 7, reason: "Matrix keeps seven days." }) },
+  "admin.getDashboard": { call: (c) => c.get("/api/v1/admin/dashboard") },
+
+  "payouts.myPayouts": { call: (c) => c.get("/api/v1/yard/payouts") },
+  "payouts.startPayoutSetup": { call: (c) => c.post("/api/v1/yard/payouts/account") },
+  "payouts.refreshPayoutAccount": { call: (c) => c.post("/api/v1/yard/payouts/account/refresh") },
+  "payouts.statementCsv": { call: (c) => c.get("/api/v1/yard/payouts/statement.csv") },
+  "payouts.myPayout": { call: (c) => c.get(`/api/v1/yard/payouts/${randomUUID()}`), allowed: 404 },
+  "payouts.payoutsDue": { call: (c) => c.get("/api/v1/admin/payouts/due") },
+  // A sawyer with no payout account.
+  "payouts.approvePayout": {
+    call: (c) => c.post("/api/v1/admin/payouts", { sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }),
+    allowed: 409,
   },
-  {
-    name: "DELETE /api/v1/saved-searches/:savedSearchId (the buyer's spare one)",
-    call: (c) => c.delete(`/api/v1/saved-searches/${buyerToolIds.spareSavedSearchId}`),
-    expected: { anonymous: 401, buyer: 204, sawyer: 403, otherSawyer: 403, admin: 403 },
+  "payouts.approvePayoutBatch": {
+    call: (c) => c.post("/api/v1/admin/payouts/batch", { payouts: [{ sawyerId: randomUUID(), currency: "USD", dueKey: "matrix" }] }),
   },
-  {
-    name: "GET /api/v1/saved-searches/unsubscribe?token= (no sign-in needed)",
-    call: (c) => c.get(`/api/v1/saved-searches/unsubscribe?token=${encodeURIComponent(buyerToolIds.unsubscribeToken)}`),
-    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
+  "payouts.listPayouts": { call: (c) => c.get("/api/v1/admin/payouts") },
+  "payouts.getPayout": { call: (c) => c.get(`/api/v1/admin/payouts/${randomUUID()}`), allowed: 404 },
+  "payouts.disputeRefundState": { call: (c) => c.get(`/api/v1/admin/orders/${randomUUID()}/refund`), allowed: 404 },
+  "payouts.disputeRefund": {
+    call: (c) => c.post(`/api/v1/admin/orders/${randomUUID()}/refund`, { amountMinor: 100, reason: "Matrix refunds." }),
+    allowed: 404,
   },
-  {
-    name: "PUT /api/v1/favourites/:listingId (live)",
-    call: (c) => c.agent.put(`/api/v1/favourites/${buyerToolIds.liveListingId}`).set("x-csrf-token", c.csrfToken),
-    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+
+  // Orders: the steps run in order (windows → choice → hand-over → completion); the second order is cancelled.
+  "orders.getCheckoutQuote": { call: (c, ids) => c.get(`/api/v1/listings/${ids.liveListingId}/checkout-quote`) },
+  "orders.checkout": { call: (c, ids) => c.post(`/api/v1/listings/${ids.listingId}/checkout`, { handover: "pickup" }), allowed: 409 },
+  "orders.listOrders": { call: (c) => c.get("/api/v1/orders") },
+  "orders.getOrder": {
+    call: (c, ids) => c.get(`/api/v1/orders/${ids.pickupOrderId}`),
+    allowed: { buyer: 200, sawyer: 200, otherSawyer: 403, admin: 200 },
   },
-  {
-    name: "GET /api/v1/favourites",
-    call: (c) => c.get("/api/v1/favourites"),
-    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
-  },
-  {
-    name: "DELETE /api/v1/favourites/:listingId",
-    call: (c) => c.delete(`/api/v1/favourites/${buyerToolIds.liveListingId}`),
-    expected: { anonymous: 401, buyer: 204, sawyer: 403, otherSawyer: 403, admin: 403 },
-  },
-  {
-    name: "POST /api/v1/listings/:listingId/messages (sawyer's live listing)",
-    call: (c) => c.post(`/api/v1/listings/${buyerToolIds.liveListingId}/messages`, { body: "Asked by the matrix" }),
-    expected: { anonymous: 401, buyer: 201, sawyer: 403, otherSawyer: 201, admin: 403 },
-  },
-  {
-    name: "POST /api/v1/reports (sawyer's live listing)",
-    call: (c) =>
-      c.post("/api/v1/reports", { targetKind: "listing", targetId: buyerToolIds.liveListingId, reason: "Reported by the matrix." }),
-    expected: { anonymous: 401, buyer: 201, sawyer: 422, otherSawyer: 201, admin: 201 },
-  },
-  {
-    name: "GET /api/v1/threads",
-    call: (c) => c.get("/api/v1/threads"),
-    expected: { anonymous: 401, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
-  },
-  {
-    name: "GET /api/v1/threads/:threadId (buyer with sawyer)",
-    call: (c) => c.get(`/api/v1/threads/${buyerToolIds.threadId}`),
-    expected: { anonymous: 401, buyer: 200, sawyer: 200, otherSawyer: 403, admin: 200 },
-  },
-  {
-    name: "POST /api/v1/threads/:threadId/messages (buyer with sawyer)",
-    call: (c) => c.post(`/api/v1/threads/${buyerToolIds.threadId}/messages`, { body: "Answered in the matrix" }),
-    expected: { anonymous: 401, buyer: 201, sawyer: 201, otherSawyer: 403, admin: 403 },
-  },
-  // Orders (order-steps.test.ts and checkout.test.ts have the behaviour): "buyer" bought two of
-  // "sawyer"'s listings (orderIds, made straight in the database as paid pickup orders). The steps
-  // run in order: windows → choice → hand-over → completion; the second order is cancelled.
-  {
-    name: "GET /api/v1/listings/:listingId/checkout-quote (live)",
-    call: (c) => c.get(`/api/v1/listings/${buyerToolIds.liveListingId}/checkout-quote`),
-    expected: { anonymous: 200, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
-  },
-  {
-    name: "POST /api/v1/listings/:listingId/checkout (a draft: not for sale)",
-    call: (c, ids) => c.post(`/api/v1/listings/${ids.listingId}/checkout`, { handover: "pickup" }),
-    expected: { anonymous: 401, buyer: 409, sawyer: 403, otherSawyer: 403, admin: 403 },
-  },
-  {
-    name: "GET /api/v1/orders",
-    call: (c) => c.get("/api/v1/orders"),
-    expected: { anonymous: 401, buyer: 200, sawyer: 200, otherSawyer: 200, admin: 200 },
-  },
-  {
-    name: "GET /api/v1/orders/:orderId",
-    call: (c) => c.get(`/api/v1/orders/${orderIds.pickup}`),
-    expected: { anonymous: 401, buyer: 200, sawyer: 200, otherSawyer: 403, admin: 200 },
-  },
-  {
-    name: "POST /api/v1/orders/:orderId/pickup-windows",
-    call: (c) =>
-      c.post(`/api/v1/orders/${orderIds.pickup}/pickup-windows`, {
-        windows: [{ startsAt: orderIds.windowStart, endsAt: orderIds.windowEnd }],
+  "orders.proposePickupWindows": {
+    call: (c, ids) =>
+      c.post(`/api/v1/orders/${ids.pickupOrderId}/pickup-windows`, {
+        windows: [{ startsAt: ids.windowStart, endsAt: ids.windowEnd }],
         pickupAddress: "Matrix yard gate",
       }),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+    allowed: { sawyer: 200, otherSawyer: 403 },
   },
-  {
-    name: "POST /api/v1/orders/:orderId/pickup-choice",
-    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/pickup-choice`, { startsAt: orderIds.windowStart }),
-    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+  "orders.choosePickupWindow": {
+    call: (c, ids) => c.post(`/api/v1/orders/${ids.pickupOrderId}/pickup-choice`, { startsAt: ids.windowStart }),
   },
-  {
-    name: "POST /api/v1/orders/:orderId/shipment (a pickup order: 409 for its sawyer)",
-    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/shipment`, { carrier: "Matrix Freight", trackingReference: "MTX-1" }),
-    expected: { anonymous: 401, buyer: 403, sawyer: 409, otherSawyer: 403, admin: 403 },
+  // A pickup order cannot be shipped: 409 for its own sawyer.
+  "orders.markShipped": {
+    call: (c, ids) => c.post(`/api/v1/orders/${ids.pickupOrderId}/shipment`, { carrier: "Matrix Freight", trackingReference: "MTX-1" }),
+    allowed: { sawyer: 409, otherSawyer: 403 },
   },
-  {
-    name: "POST /api/v1/orders/:orderId/handed-over",
-    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/handed-over`),
-    expected: { anonymous: 401, buyer: 403, sawyer: 200, otherSawyer: 403, admin: 403 },
+  "orders.markHandedOver": {
+    call: (c, ids) => c.post(`/api/v1/orders/${ids.pickupOrderId}/handed-over`),
+    allowed: { sawyer: 200, otherSawyer: 403 },
   },
-  {
-    name: "POST /api/v1/orders/:orderId/completion",
-    call: (c) => c.post(`/api/v1/orders/${orderIds.pickup}/completion`),
-    expected: { anonymous: 401, buyer: 200, sawyer: 403, otherSawyer: 403, admin: 403 },
+  "orders.confirmReceipt": { call: (c, ids) => c.post(`/api/v1/orders/${ids.pickupOrderId}/completion`) },
+  // The buyer cancels first (200); the sawyer then finds it cancelled already (409).
+  "orders.cancelOrder": {
+    call: (c, ids) => c.post(`/api/v1/orders/${ids.orderToCancelId}/cancellation`, { reason: "Matrix cancels" }),
+    allowed: { buyer: 200, sawyer: 409, otherSawyer: 403 },
   },
-  {
-    // The buyer cancels first (200); the sawyer then finds it cancelled already (409).
-    name: "POST /api/v1/orders/:orderId/cancellation",
-    call: (c) => c.post(`/api/v1/orders/${orderIds.toCancel}/cancellation`, { reason: "Matrix cancels" }),
-    expected: { anonymous: 401, buyer: 200, sawyer: 409, otherSawyer: 403, admin: 403 },
+  // No signature: refused whoever sends it.
+  "orders.paymentWebhook": { call: (c) => c.post("/api/v1/payments/webhook", { id: "evt_matrix" }), allowed: 400 },
+
+  // The yard's draft listing ends last.
+  "listings.withdrawListing": {
+    call: (c, ids) => c.post(`/api/v1/yard/listings/${ids.listingId}/withdraw`),
+    allowed: { sawyer: 200, otherSawyer: 403 },
   },
-];
+
+  // The movable clock exists only on the end-to-end stack: not here.
+  "testClock.getTestClock": { call: (c) => c.get("/api/_test/clock"), allowed: 404 },
+  "testClock.moveTestClock": { call: (c) => c.post("/api/_test/clock", { advanceDays: 1 }), allowed: 404 },
+};
+
+const specOf = new Map(everyEndpoint().map(({ key, spec }) => [key, spec]));
+
+/** The status `actor` must get from the row `spec` with this sample. */
+function expectedStatus(spec: EndpointSpec, sample: Sample, actor: ActorName): number {
+  const role = ROLE_OF[actor];
+  if (!mayCall(spec.access, role)) return role ? 403 : 401;
+  const allowed = typeof sample.allowed === "number" ? sample.allowed : sample.allowed?.[actor];
+  return allowed ?? spec.status ?? 200;
+}
 
 let ctx: TestContext;
-const orderIds = { pickup: "", toCancel: "", windowStart: "", windowEnd: "" };
 const clients = {} as Record<ActorName, BrowserClient>;
-const ids: Ids = { sawyerId: "", logId: "", slabId: "", listingId: "", photoUrl: "", spareBuyerId: "" };
-/** Buyer tools: a live listing of "sawyer", a thread "buyer" started on it, two saved searches of "buyer". */
-const buyerToolIds = { liveListingId: "", threadId: "", savedSearchId: "", spareSavedSearchId: "", unsubscribeToken: "" };
+const ids = {} as Ids;
+
+async function freshClientFor(actor: ActorName): Promise<BrowserClient> {
+  const role = ROLE_OF[actor];
+  return role ? ctx.signedInClient(role) : ctx.client();
+}
 
 beforeAll(async () => {
-  ctx = await createTestContext();
+  ctx = await createTestContext({ environment: { SIGN_IN_LIMIT_PER_IP: "1000", RESET_LIMIT_PER_IP: "1000" } });
   clients.anonymous = await ctx.client();
   clients.buyer = await ctx.signedInClient("buyer");
   const sawyer = await ctx.signedInClient("sawyer");
@@ -383,80 +377,53 @@ beforeAll(async () => {
   clients.otherSawyer = await ctx.signedInClient("sawyer");
   clients.admin = await ctx.signedInClient("admin");
   ids.spareBuyerId = (await ctx.createAccount("buyer")).id;
-  ids.logId = (
-    await sawyer.post("/api/v1/yard/logs", {
-      speciesSlug: "northern-red-oak",
-      siteTown: "Lakemont",
-      siteKind: "street",
-      fellingReason: "pests",
-    })
-  ).body.log.id;
-  ids.slabId = (
-    await sawyer.post("/api/v1/yard/slabs", {
-      logId: ids.logId,
-      sequenceInLog: 1,
-      speciesSlug: "northern-red-oak",
-      lengthMm: 2000,
-      thicknessMm: 50,
-      widthStationsMm: [500, 480],
-      liveEdge: "one",
-      surfacing: "rough_sawn",
-      dryingMethod: "air",
-    })
-  ).body.slab.id;
+  const log = { speciesSlug: "northern-red-oak", siteTown: "Lakemont", siteKind: "street", fellingReason: "pests" };
+  ids.logId = (await sawyer.post("/api/v1/yard/logs", log)).body.log.id;
+  ids.spareLogId = (await sawyer.post("/api/v1/yard/logs", log)).body.log.id;
+  ids.logPhotoId = (await sendPhoto(sawyer, `/api/v1/yard/logs/${ids.logId}/photos`)).body.photo.id;
+  ids.spareLogPhotoId = (await sendPhoto(sawyer, `/api/v1/yard/logs/${ids.logId}/photos`)).body.photo.id;
+  ids.slabId = (await sawyer.post("/api/v1/yard/slabs", slabBody(ids.logId, 1))).body.slab.id;
+  ids.spareSlabId = (await sawyer.post("/api/v1/yard/slabs", slabBody(ids.logId, 3))).body.slab.id;
+  ids.readingId = (
+    await sawyer.post(`/api/v1/yard/slabs/${ids.slabId}/readings`, { readOn: "2025-05-01", moistureContentPct: 22, method: "pin_meter" })
+  ).body.reading.id;
   ids.listingId = (
     await sawyer.post("/api/v1/yard/listings", { title: "Matrix oak", slabIds: [ids.slabId], priceMode: "fixed", rateMinor: 20_000 })
   ).body.listing.id;
-  const photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a5a32" } })
-    .jpeg()
-    .toBuffer();
-  const uploaded = await sawyer.agent
-    .post(`/api/v1/yard/listings/${ids.listingId}/photos`)
-    .set("x-csrf-token", sawyer.csrfToken)
-    .set("content-type", "image/jpeg")
-    .send(photo);
+  const uploaded = await sendPhoto(sawyer, `/api/v1/yard/listings/${ids.listingId}/photos`);
+  ids.photoId = uploaded.body.photo.id;
   ids.photoUrl = uploaded.body.photo.smallUrl;
-  // Buyer tools: a second slab listed, submitted and approved, so it is live.
-  const liveSlab = (
-    await sawyer.post("/api/v1/yard/slabs", {
-      logId: ids.logId,
-      sequenceInLog: 2,
-      speciesSlug: "northern-red-oak",
-      lengthMm: 2000,
-      thicknessMm: 50,
-      widthStationsMm: [500, 480],
-      liveEdge: "one",
-      surfacing: "rough_sawn",
-      dryingMethod: "air",
-    })
-  ).body.slab.id;
-  buyerToolIds.liveListingId = (
+  ids.sparePhotoId = (await sendPhoto(sawyer, `/api/v1/yard/listings/${ids.listingId}/photos`)).body.photo.id;
+  const bareSlab = (await sawyer.post("/api/v1/yard/slabs", slabBody(ids.logId, 4))).body.slab.id;
+  ids.bareListingId = (
+    await sawyer.post("/api/v1/yard/listings", { title: "Matrix bare oak", slabIds: [bareSlab], priceMode: "fixed", rateMinor: 20_000 })
+  ).body.listing.id;
+
+  // A second slab listed, submitted and approved, so it is live.
+  const liveSlab = (await sawyer.post("/api/v1/yard/slabs", slabBody(ids.logId, 2))).body.slab.id;
+  ids.liveListingId = (
     await sawyer.post("/api/v1/yard/listings", { title: "Matrix live oak", slabIds: [liveSlab], priceMode: "fixed", rateMinor: 20_000 })
   ).body.listing.id;
-  await sawyer.agent
-    .post(`/api/v1/yard/listings/${buyerToolIds.liveListingId}/photos`)
-    .set("x-csrf-token", sawyer.csrfToken)
-    .set("content-type", "image/jpeg")
-    .send(photo);
-  await sawyer.post(`/api/v1/yard/listings/${buyerToolIds.liveListingId}/submit`);
-  if ((await clients.admin.post(`/api/v1/admin/listings/${buyerToolIds.liveListingId}/approve`)).status !== 200)
+  await sendPhoto(sawyer, `/api/v1/yard/listings/${ids.liveListingId}/photos`);
+  await sawyer.post(`/api/v1/yard/listings/${ids.liveListingId}/submit`);
+  if ((await clients.admin.post(`/api/v1/admin/listings/${ids.liveListingId}/approve`)).status !== 200)
     throw new Error("matrix: the live listing was not approved");
-  buyerToolIds.threadId = (
-    await clients.buyer.post(`/api/v1/listings/${buyerToolIds.liveListingId}/messages`, { body: "Matrix question" })
-  ).body.thread.id;
-  buyerToolIds.savedSearchId = (
+  ids.threadId = (await clients.buyer.post(`/api/v1/listings/${ids.liveListingId}/messages`, { body: "Matrix question" })).body.thread.id;
+  ids.savedSearchId = (
     await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix oak", query: "species=northern-red-oak" })
   ).body.savedSearch.id;
-  buyerToolIds.spareSavedSearchId = (
+  ids.spareSavedSearchId = (
     await clients.buyer.post("/api/v1/saved-searches", { name: "Matrix spare", query: "species=white-oak" })
   ).body.savedSearch.id;
-  buyerToolIds.unsubscribeToken = unsubscribeToken(ctx.config.sessionSecret, buyerToolIds.savedSearchId);
+  ids.unsubscribeToken = unsubscribeToken(ctx.config.sessionSecret, ids.savedSearchId);
+
   // Two paid pickup orders of "buyer" for "sawyer"'s draft listing (the money side is checkout.test.ts's).
   const buyerId = ((await clients.buyer.get("/api/v1/session")).body.account as { id: string }).id;
-  for (const key of ["pickup", "toCancel"] as const) {
-    orderIds[key] = randomUUID();
+  ids.pickupOrderId = randomUUID();
+  ids.orderToCancelId = randomUUID();
+  for (const id of [ids.pickupOrderId, ids.orderToCancelId]) {
     await ctx.dataSource.getRepository(OrderEntity).insert({
-      id: orderIds[key],
+      id,
       buyerId,
       sawyerId: ids.sawyerId,
       listingId: ids.listingId,
@@ -479,17 +446,24 @@ beforeAll(async () => {
       paidAt: new Date(),
     });
   }
-  orderIds.windowStart = new Date(Date.now() + 2 * 86_400_000).toISOString();
-  orderIds.windowEnd = new Date(Date.now() + 2 * 86_400_000 + 7_200_000).toISOString();
-});
+  ids.windowStart = new Date(Date.now() + 2 * 86_400_000).toISOString();
+  ids.windowEnd = new Date(Date.now() + 2 * 86_400_000 + 7_200_000).toISOString();
+}, 60_000);
 afterAll(async () => ctx?.close());
 
-describe("role and ownership matrix", () => {
-  for (const route of routes) {
-    for (const actor of Object.keys(route.expected) as ActorName[]) {
-      it(`${route.name} as ${actor} → ${route.expected[actor]}`, async () => {
-        const res = await route.call(clients[actor], ids);
-        expect(res.status).toBe(route.expected[actor]);
+describe("role and ownership matrix, from the endpoint table", () => {
+  it("has a sample for every row and no sample without a row", () => {
+    expect(new Set(Object.keys(samples))).toEqual(new Set(specOf.keys()));
+  });
+
+  for (const [key, sample] of Object.entries(samples) as [EndpointKey, Sample][]) {
+    const spec = specOf.get(key)!;
+    for (const actor of ACTOR_ORDER) {
+      const status = expectedStatus(spec, sample, actor);
+      it(`${key} (${spec.method} ${spec.path}) as ${actor} → ${status}`, async () => {
+        const client = sample.freshClient ? await freshClientFor(actor) : clients[actor];
+        const res = await sample.call(client, ids);
+        expect(res.status).toBe(status);
       });
     }
   }
@@ -501,11 +475,98 @@ describe("role and ownership matrix", () => {
     expect((await clients.sawyer.get("/api/v1/yard")).body.account.yardName).toBe("Renamed Yard");
   });
 
-  it("admin search finds accounts by yard name and filters by role", async () => {
-    const res = await clients.admin.get("/api/v1/admin/accounts?query=Renamed&role=sawyer");
+  it("the desk's people search finds a sawyer by yard name and filters by role", async () => {
+    const res = await clients.admin.get("/api/v1/admin/users?query=Renamed&role=sawyer");
     expect(res.status).toBe(200);
-    expect(res.body.accounts.map((a: { id: string }) => a.id)).toEqual([ids.sawyerId]);
-    const bad = await clients.admin.get("/api/v1/admin/accounts?role=wizard");
-    expect(bad.status).toBe(422);
+    expect(res.body.users.map((u: { account: { id: string } }) => u.account.id)).toEqual([ids.sawyerId]);
+    expect((await clients.admin.get("/api/v1/admin/users?role=wizard")).status).toBe(422);
+  });
+
+  it("every route the app answers is a row of the table, and every row's path fills in", () => {
+    const registered = registeredRoutes(ctx.app);
+    const rows = new Set(everyEndpoint().map(({ spec }) => `${spec.method} ${spec.path}`));
+    const outside = registered.filter((r) => r.path.startsWith("/api") && !rows.has(`${r.method} ${r.path}`));
+    expect(outside).toEqual([]);
+    // Outside the end-to-end stack, every row but the test clock's is mounted.
+    const mounted = new Set(registered.map((r) => `${r.method} ${r.path}`));
+    const missing = everyEndpoint().filter(({ spec }) => !spec.testOnly && !mounted.has(`${spec.method} ${spec.path}`));
+    expect(missing).toEqual([]);
+    expect(pathOf(specOf.get("listings.setPhotoAltText")!, { listingId: "a b", photoId: "c/d" })).toBe(
+      "/api/v1/yard/listings/a%20b/photos/c%2Fd",
+    );
   });
 });
+
+/**
+ * Who is asking is checked before what they sent: a caller the row does not allow gets 401/403
+ * even with input that fails the row's schemas, so field names and rules never reach them. Each
+ * row with a JSON body or a query schema gets input that fails it (a JSON array for the body, every
+ * query field given twice); an actor the row allows gets 422 for the same input, which shows the
+ * input really is invalid.
+ */
+describe("the role check comes before validation, on every row with input", () => {
+  const invalidCall = (spec: EndpointSpec) => {
+    const path = pathOf(spec, Object.fromEntries((spec.path.match(/:(\w+)/g) ?? []).map((name) => [name.slice(1), none])));
+    const shape = spec.query ? ((spec.query as unknown as { shape?: Record<string, unknown> }).shape ?? {}) : null;
+    const query = shape
+      ? Object.keys(shape)
+          .flatMap((key) => [`${key}=%00`, `${key}=%00`])
+          .join("&")
+      : "";
+    const method = spec.method.toLowerCase() as "get" | "post" | "patch" | "put" | "delete";
+    return (client: BrowserClient) => {
+      const req = client.agent[method](query ? `${path}?${query}` : path).set("x-csrf-token", client.csrfToken);
+      return typeof spec.body === "object" ? req.send([]) : req;
+    };
+  };
+  const rows = everyEndpoint().filter(
+    ({ spec }) => spec.access !== "anyone" && !spec.testOnly && (typeof spec.body === "object" || spec.query !== undefined),
+  );
+
+  it("covers every admin row that takes input", () => {
+    const adminRows = rows.filter(({ spec }) => Array.isArray(spec.access) && spec.access.length === 1 && spec.access[0] === "admin");
+    expect(adminRows.map(({ key }) => key)).toEqual(
+      expect.arrayContaining([
+        "admin.resolveReport",
+        "admin.suspendUser",
+        "admin.restoreUser",
+        "admin.updateSettings",
+        "admin.searchAudit",
+      ]),
+    );
+  });
+
+  for (const { key, spec } of rows) {
+    const call = invalidCall(spec);
+    const refused = ACTOR_ORDER.filter((actor) => !mayCall(spec.access, ROLE_OF[actor]));
+    const allowed = ACTOR_ORDER.find((actor) => mayCall(spec.access, ROLE_OF[actor]))!;
+    it(`${key}: ${refused.join(", ")} → 401/403 with invalid input; ${allowed} → 422`, async () => {
+      for (const actor of refused) {
+        const res = await call(clients[actor]);
+        expect(res.status, actor).toBe(ROLE_OF[actor] ? 403 : 401);
+        expect(res.body.error.fields, actor).toBeUndefined();
+      }
+      const res = await call(clients[allowed]);
+      expect(res.status, `${allowed} with the same input`).toBe(422);
+    });
+  }
+});
+
+/** Every method + path the Express app answers (nested routers included). */
+function registeredRoutes(app: unknown): { method: string; path: string }[] {
+  const found: { method: string; path: string }[] = [];
+  const walk = (stack: unknown[]) => {
+    for (const layer of stack as {
+      route?: { path: string | string[]; methods: Record<string, boolean> };
+      handle?: { stack?: unknown[] };
+    }[]) {
+      if (layer.route) {
+        for (const path of ([] as string[]).concat(layer.route.path)) {
+          for (const method of Object.keys(layer.route.methods)) found.push({ method: method.toUpperCase(), path });
+        }
+      } else if (layer.handle?.stack) walk(layer.handle.stack);
+    }
+  };
+  walk((app as { router: { stack: unknown[] } }).router.stack);
+  return found;
+}

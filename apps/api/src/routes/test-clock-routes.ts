@@ -1,6 +1,5 @@
-import { Router } from "express";
-import { z } from "zod";
-import { parse } from "../http/context.ts";
+import type { testClockEndpoints } from "@grainyard/contracts";
+import type { Handlers } from "../http/endpoints.ts";
 
 /**
  * A clock the end-to-end suite can move forward (hold periods, automatic completion), so a test
@@ -28,27 +27,14 @@ export function movableClock(base: () => Date = () => new Date()): MovableClock 
   };
 }
 
-const clockMoveSchema = z.union([
-  z.object({
-    advanceDays: z
-      .number({ error: "Give the days to move forward." })
-      .positive("Move the clock forward only.")
-      .max(365, "At most 365 days at a time."),
-  }),
-  z.object({ reset: z.literal(true) }),
-]);
-
-export function testClockRoutes(clock: MovableClock) {
-  const router = Router();
+export function testClockHandlers(clock: MovableClock): Handlers<typeof testClockEndpoints> {
   const state = () => ({ now: clock.now().toISOString(), offsetDays: clock.offsetMs() / 86_400_000 });
-  router.get("/clock", (_req, res) => {
-    res.json(state());
-  });
-  router.post("/clock", (req, res) => {
-    const move = parse(clockMoveSchema, req.body);
-    if ("reset" in move) clock.reset();
-    else clock.advance(Math.round(move.advanceDays * 86_400_000));
-    res.json(state());
-  });
-  return router;
+  return {
+    getTestClock: () => state(),
+    moveTestClock: ({ body }) => {
+      if ("reset" in body) clock.reset();
+      else clock.advance(Math.round(body.advanceDays * 86_400_000));
+      return state();
+    },
+  };
 }

@@ -1,74 +1,49 @@
-import express, { Router } from "express";
-import { logInputSchema, logUpdateSchema, moistureReadingInputSchema, slabInputSchema, slabUpdateSchema } from "@grainyard/contracts";
-import { parse } from "../http/context.ts";
+import type { yardEndpoints } from "@grainyard/contracts";
+import { NotFound } from "../errors.ts";
+import type { Handlers } from "../http/endpoints.ts";
 import type { InventoryCsv } from "../services/inventory-csv.ts";
 import type { LogPhotoService } from "../services/photo-service.ts";
 import type { YardService } from "../services/yard-service.ts";
 
-/** The sawyer's own yard: logs, slabs, moisture readings, CSV in and out. */
-export function yardRoutes(yard: YardService, csv: InventoryCsv, logPhotos: LogPhotoService) {
-  const router = Router();
-  const id = (value: string | string[] | undefined) => String(value);
+/** The sizes every stored photo has. */
+export function displaySize(size: string): "small" | "medium" | "large" {
+  if (size !== "small" && size !== "medium" && size !== "large") throw new NotFound("No such photo size.");
+  return size;
+}
 
-  router.get("/yard/logs", async (req, res) => {
-    res.json({ logs: await yard.listLogs(req.actor) });
-  });
-  router.post("/yard/logs", async (req, res) => {
-    res.status(201).json({ log: await yard.createLog(req.actor, parse(logInputSchema, req.body)) });
-  });
-  router.get("/yard/logs/:logId", async (req, res) => {
-    const detail = await yard.getLog(req.actor, id(req.params.logId));
-    res.json({ ...detail, photos: await logPhotos.list(detail.log.id) });
-  });
-  router.patch("/yard/logs/:logId", async (req, res) => {
-    res.json({ log: await yard.updateLog(req.actor, id(req.params.logId), parse(logUpdateSchema, req.body)) });
-  });
-  router.delete("/yard/logs/:logId", async (req, res) => {
-    await yard.deleteLog(req.actor, id(req.params.logId));
-    res.status(204).end();
-  });
-  router.post("/yard/logs/:logId/readings", async (req, res) => {
-    res.status(201).json(await yard.addReadingToLog(req.actor, id(req.params.logId), parse(moistureReadingInputSchema, req.body)));
-  });
-
-  router.get("/yard/slabs.csv", async (req, res) => {
-    const text = await csv.exportSlabs(req.actor);
-    res.setHeader("content-type", "text/csv; charset=utf-8");
-    res.setHeader("content-disposition", 'attachment; filename="grainyard-slabs.csv"');
-    res.send(text);
-  });
-  router.post(
-    "/yard/slabs/import",
-    express.text({ type: ["text/csv", "text/plain", "application/csv", "application/vnd.ms-excel"], limit: "2mb" }),
-    async (req, res) => {
-      const text = typeof req.body === "string" ? req.body : "";
-      res.status(201).json(await csv.importSlabs(req.actor, text));
+/** The sawyer's own yard: logs, slabs, moisture readings, log photos, CSV in and out. */
+export function yardHandlers(yard: YardService, csv: InventoryCsv, logPhotos: LogPhotoService): Handlers<typeof yardEndpoints> {
+  return {
+    listLogs: async ({ actor }) => ({ logs: await yard.listLogs(actor) }),
+    createLog: async ({ actor, body }) => ({ log: await yard.createLog(actor, body) }),
+    getLog: async ({ actor, params }) => {
+      const detail = await yard.getLog(actor, params.logId);
+      return { ...detail, photos: await logPhotos.list(detail.log.id) };
     },
-  );
-
-  router.get("/yard/slabs", async (req, res) => {
-    res.json({ slabs: await yard.listSlabs(req.actor) });
-  });
-  router.post("/yard/slabs", async (req, res) => {
-    res.status(201).json({ slab: await yard.createSlab(req.actor, parse(slabInputSchema, req.body)) });
-  });
-  router.get("/yard/slabs/:slabId", async (req, res) => {
-    res.json(await yard.getSlab(req.actor, id(req.params.slabId)));
-  });
-  router.patch("/yard/slabs/:slabId", async (req, res) => {
-    res.json({ slab: await yard.updateSlab(req.actor, id(req.params.slabId), parse(slabUpdateSchema, req.body)) });
-  });
-  router.delete("/yard/slabs/:slabId", async (req, res) => {
-    await yard.deleteSlab(req.actor, id(req.params.slabId));
-    res.status(204).end();
-  });
-  router.post("/yard/slabs/:slabId/readings", async (req, res) => {
-    res.status(201).json({ reading: await yard.addReading(req.actor, id(req.params.slabId), parse(moistureReadingInputSchema, req.body)) });
-  });
-  router.delete("/yard/readings/:readingId", async (req, res) => {
-    await yard.deleteReading(req.actor, id(req.params.readingId));
-    res.status(204).end();
-  });
-
-  return router;
+    updateLog: async ({ actor, params, body }) => ({ log: await yard.updateLog(actor, params.logId, body) }),
+    deleteLog: ({ actor, params }) => yard.deleteLog(actor, params.logId),
+    recordLogReadings: ({ actor, params, body }) => yard.addReadingToLog(actor, params.logId, body),
+    uploadLogPhoto: async ({ actor, params, query, body }) => ({
+      photo: await logPhotos.upload(actor, params.logId, body, query.altText ?? ""),
+    }),
+    deleteLogPhoto: ({ actor, params }) => logPhotos.remove(actor, params.logId, params.photoId),
+    logPhotoImage: async ({ actor, params }) => ({
+      body: await logPhotos.image(actor, params.photoId, displaySize(params.size)),
+      contentType: "image/webp",
+      cacheControl: "private, max-age=300",
+    }),
+    exportSlabsCsv: async ({ actor }) => ({
+      body: await csv.exportSlabs(actor),
+      contentType: "text/csv; charset=utf-8",
+      filename: "grainyard-slabs.csv",
+    }),
+    importSlabsCsv: ({ actor, body }) => csv.importSlabs(actor, body),
+    listSlabs: async ({ actor }) => ({ slabs: await yard.listSlabs(actor) }),
+    createSlab: async ({ actor, body }) => ({ slab: await yard.createSlab(actor, body) }),
+    getSlab: ({ actor, params }) => yard.getSlab(actor, params.slabId),
+    updateSlab: async ({ actor, params, body }) => ({ slab: await yard.updateSlab(actor, params.slabId, body) }),
+    deleteSlab: ({ actor, params }) => yard.deleteSlab(actor, params.slabId),
+    addReading: async ({ actor, params, body }) => ({ reading: await yard.addReading(actor, params.slabId, body) }),
+    deleteReading: ({ actor, params }) => yard.deleteReading(actor, params.readingId),
+  };
 }

@@ -2,7 +2,7 @@ import { randomUUID } from "node:crypto";
 import type { DataSource, EntityManager } from "typeorm";
 import { AccountEntity, ListingEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
 import { computeListingFigures, computeSlabFigures } from "../services/figures.ts";
-import { DEFAULT_FEE_SETTINGS } from "../services/marketplace-settings.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 import { slabPicture } from "./slab-picture.ts";
 
 /**
@@ -273,7 +273,7 @@ async function addLog(
       priceMode: demoListing.priceMode,
       rateMinor: demoListing.rateMinor,
       slabs: demoListing.slabs.map((n) => figuresBySequence.get(n)!),
-      fees: DEFAULT_FEE_SETTINGS,
+      fees: USUAL_FEES,
     });
     const at = new Date();
     await manager.getRepository(ListingEntity).insert({

@@ -1,5 +1,5 @@
-import type { AdminUser, AdminUserSearchInput, RestoreInput, SuspendInput } from "@grainyard/contracts";
-import { Brackets, IsNull, type DataSource, type EntityManager } from "typeorm";
+import { transitionFrom, type AdminUser, type AdminUserSearchInput, type RestoreInput, type SuspendInput } from "@grainyard/contracts";
+import { Brackets, In, IsNull, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, ListingEntity, OrderEntity, SessionRecordEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, NotFound } from "../errors.ts";
@@ -8,6 +8,7 @@ import { accountRestoredMail, accountSuspendedMail } from "../mail-templates-ope
 import { requireRole, type Actor, type SignedInActor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
 import { toAccount } from "./account-service.ts";
+import type { DomainEventBus } from "../events.ts";
 
 export interface AccountModerationDependencies {
   dataSource: DataSource;
@@ -16,7 +17,8 @@ export interface AccountModerationDependencies {
   log: { error(object: object, message: string): void };
   now?: () => Date;
   /** The catalogue's refresh, called inside the transaction for every listing whose state changed. */
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
 }
 
 /**
@@ -27,7 +29,8 @@ export interface AccountModerationDependencies {
 export function createAccountModeration(deps: AccountModerationDependencies) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
-  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
+  const changed = (manager: EntityManager, listingId: string) =>
+    deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
 
   async function sendSafely(build: () => Parameters<Mailer["send"]>[0], accountId: string) {
     try {
@@ -103,10 +106,14 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
 
     // Slabs they reserved as a buyer go back on sale, as the reservation sweep does: the order
     // expires only if it is still waiting for payment, and the listing returns only if it is still reserved.
-    const open = await manager.getRepository(OrderEntity).find({ where: { buyerId: accountId, status: "awaiting_payment" } });
+    const open = await manager
+      .getRepository(OrderEntity)
+      .find({ where: { buyerId: accountId, status: In(transitionFrom("expireReservation")) } });
     const released: string[] = [];
     for (const order of open) {
-      const expired = await manager.getRepository(OrderEntity).update({ id: order.id, status: "awaiting_payment" }, { status: "expired" });
+      const expired = await manager
+        .getRepository(OrderEntity)
+        .update({ id: order.id, status: In(transitionFrom("expireReservation")) }, { status: "expired" });
       if (expired.affected !== 1) continue;
       released.push(order.id);
       await manager.getRepository(ListingEntity).update({ id: order.listingId, status: "reserved" }, { status: "live" });

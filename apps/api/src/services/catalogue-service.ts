@@ -1,7 +1,7 @@
 import { createHash, createHmac, timingSafeEqual } from "node:crypto";
 import { gzipSync } from "node:zlib";
 import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult, Place } from "@grainyard/contracts";
-import { yardPaths } from "@grainyard/contracts";
+import { listingEndpoints, pathOf } from "@grainyard/contracts";
 import {
   KILN_DRIED_TARGET_BAND,
   NIOSH_LOAD_CONSTANT_KG,
@@ -28,7 +28,7 @@ import { Invalid, NotFound } from "../errors.ts";
 import type { Actor } from "./actor.ts";
 import { photoView } from "./listing-service.ts";
 import { logPhotoView } from "./photo-service.ts";
-import { withFigureErrors } from "./figures.ts";
+import { cardWeights, withFigureErrors } from "./figures.ts";
 import { findPlace } from "./places.ts";
 import { toLog, toSlab } from "./yard-service.ts";
 import { nearestFirst, type YardDistance } from "./nearest-first.ts";
@@ -71,7 +71,8 @@ export function plainCatalogueCard(entry: CatalogueRow): CatalogueCard {
     boardFeet: entry.boardFeet,
     volumeM3: entry.volumeM3,
     weightKg: entry.weightKg,
-    weightHighKg: entry.weightHighKg,
+    totalWeightHighKg: entry.totalWeightHighKg,
+    heaviestSlabHighKg: entry.heaviestSlabHighKg,
     moisturePct: entry.moisturePct,
     ready: entry.ready,
     priceMinor: entry.priceMinor,
@@ -85,8 +86,8 @@ export function plainCatalogueCard(entry: CatalogueRow): CatalogueCard {
     yardName: entry.yardName,
     distanceKm: null,
     fit: null,
-    photoUrl: entry.photoId ? yardPaths.photoImage(entry.photoId, "small") : null,
-    photoMediumUrl: entry.photoId ? yardPaths.photoImage(entry.photoId, "medium") : null,
+    photoUrl: entry.photoId ? pathOf(listingEndpoints.listingPhotoImage, { photoId: entry.photoId, size: "small" }) : null,
+    photoMediumUrl: entry.photoId ? pathOf(listingEndpoints.listingPhotoImage, { photoId: entry.photoId, size: "medium" }) : null,
     photoAlt: entry.photoAlt,
     publishedAt: entry.publishedAt.toISOString(),
   };
@@ -314,8 +315,8 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         currency: listing.currency,
         boardFeet: listing.boardFeet,
         volumeM3: listing.volumeM3,
-        weightKg: listing.weightKg,
-        weightHighKg: Math.max(...slabs.map((s) => s.weightHighKg)),
+        // The set's total and its heaviest slab, named apart and from the same slab-math call.
+        ...cardWeights(slabs),
         // Both edges live only when every slab has both; any live edge at all counts as one.
         liveEdge: edges.size === 1 && edges.has("both") ? "both" : edges.has("both") || edges.has("one") ? "one" : "none",
         featureBits: slabs.map((s) => featureBits(s.features)).reduce((a, b) => a | b, 0),

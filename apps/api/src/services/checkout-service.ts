@@ -1,22 +1,39 @@
 import { randomUUID } from "node:crypto";
-import type Stripe from "stripe";
-import { roundHalfUp } from "@grainyard/slab-math";
+import { taxOn } from "@grainyard/slab-math";
 import { In, LessThan, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, LedgerEntryEntity, ListingEntity, ListingSlabEntity, OrderEntity, PaymentEventEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound, ServiceUnavailable } from "../errors.ts";
 import { retryOnLockConflict } from "../db/lock-conflicts.ts";
 import type { Mailer } from "../integrations/mail.ts";
-import type { Payments } from "../integrations/payments.ts";
+import type { PaymentEvent, PayoutAccountStatus, PaymentsPort } from "../integrations/payments.ts";
 import { orderPaidBuyerMail, orderPaidSawyerMail } from "../mail-templates.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { toSlab } from "./yard-service.ts";
 import { saleEntries } from "./ledger.ts";
-import { orderView, partiesOf, recordRefund } from "./order-service.ts";
-import type { CheckoutQuote, Order } from "@grainyard/contracts";
+import { orderView, partiesOf } from "./order-service.ts";
+import type { RefundService } from "./refund-service.ts";
+import {
+  orderSlabSnapshotSchema,
+  orderTransitions,
+  transitionFrom,
+  type CheckoutQuote,
+  type Order,
+  type OrderTransitionName,
+} from "@grainyard/contracts";
+import type { DomainEventBus } from "../events.ts";
 
-/** Orders waiting for the provider; a paid order moves on through hand-over. */
+/** A new order waits for the provider; a paid order moves on through hand-over (see contracts' order-lifecycle.ts). */
 const OPEN_PAYMENT = "awaiting_payment" as const;
+
+/**
+ * Whether an INSERT … IGNORE added its row. On MariaDB, TypeORM adds RETURNING and answers the
+ * returned rows (none when the row was a duplicate); other drivers answer a result header.
+ */
+function insertedARow(raw: unknown): boolean {
+  if (Array.isArray(raw)) return raw.length > 0;
+  return (raw as { affectedRows?: number }).affectedRows !== 0;
+}
 
 export interface CheckoutInput {
   handover: "pickup" | "freight";
@@ -24,12 +41,12 @@ export interface CheckoutInput {
 }
 
 /**
- * Price, tax and total of a listing: tax at the configured rate on the price, rounded half-up once
- * (slab-math's money rule); the platform and processing fees were split by slab-math when the
+ * Price, tax and total of a listing: tax at the configured rate on the price (slab-math's taxOn,
+ * half-up once); the platform and processing fees were split by slab-math when the
  * listing was priced and are taken from the sawyer's share, not added for the buyer.
  */
 function quoteFor(listing: Pick<ListingEntity, "priceMinor" | "currency">, checkout: Pick<AppConfig["checkout"], "taxRateBps">) {
-  const taxMinor = roundHalfUp((listing.priceMinor * checkout.taxRateBps) / 10_000);
+  const taxMinor = taxOn(listing.priceMinor, checkout.taxRateBps);
   return {
     currency: listing.currency,
     priceMinor: listing.priceMinor,
@@ -41,18 +58,21 @@ function quoteFor(listing: Pick<ListingEntity, "priceMinor" | "currency">, check
 
 export function createCheckoutService(deps: {
   dataSource: DataSource;
-  payments: Payments;
+  payments: PaymentsPort;
+  refunds: RefundService;
   mailer: Mailer;
   config: Pick<AppConfig, "publicUrl" | "checkout">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
   /** A connected (payout) account changed at the provider; true when it is one of ours. */
-  onAccountUpdated?: (account: Stripe.Account, manager: EntityManager) => Promise<boolean>;
+  onAccountUpdated?: (account: PayoutAccountStatus, manager: EntityManager) => Promise<boolean>;
 }) {
   const { dataSource, payments, config } = deps;
   const now = deps.now ?? (() => new Date());
-  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
+  const changed = (manager: EntityManager, listingId: string) =>
+    deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
 
   async function view(order: OrderEntity, actor: Actor): Promise<Order> {
     const parties = await partiesOf(dataSource, [order]);
@@ -60,8 +80,14 @@ export function createCheckoutService(deps: {
   }
 
   /** Puts a reserved listing back on sale (only if this order still holds it). */
-  async function release(manager: EntityManager, order: OrderEntity, status: OrderEntity["status"]) {
-    const updated = await manager.getRepository(OrderEntity).update({ id: order.id, status: OPEN_PAYMENT }, { status });
+  async function release(
+    manager: EntityManager,
+    order: Pick<OrderEntity, "id" | "listingId">,
+    transition: Extract<OrderTransitionName, "expireReservation" | "failPayment" | "dropUnopenedCheckout">,
+  ) {
+    const updated = await manager
+      .getRepository(OrderEntity)
+      .update({ id: order.id, status: In(transitionFrom(transition)) }, { status: orderTransitions[transition].to });
     if (updated.affected !== 1) return false;
     await manager.getRepository(ListingEntity).update({ id: order.listingId, status: "reserved" }, { status: "live" });
     await changed(manager, order.listingId);
@@ -136,7 +162,7 @@ export function createCheckoutService(deps: {
           listingId,
           status: OPEN_PAYMENT,
           title: listing.title,
-          slabSnapshot: links.map((l) => toSlab(l.slab!, listingId) as unknown as Record<string, unknown>),
+          slabSnapshot: orderSlabSnapshotSchema.array().parse(links.map((l) => toSlab(l.slab!, listingId))),
           currency: listing.currency,
           priceMinor: listing.priceMinor,
           platformFeeMinor: listing.platformFeeMinor,
@@ -157,116 +183,94 @@ export function createCheckoutService(deps: {
         return entity;
       });
 
-      let session: Stripe.Checkout.Session;
+      let checkout: { checkoutId: string; url: string };
       try {
-        const lineItems: Stripe.Checkout.SessionCreateParams.LineItem[] = [
-          {
-            quantity: 1,
-            price_data: { currency: order.currency.toLowerCase(), unit_amount: order.priceMinor, product_data: { name: order.title } },
-          },
-        ];
-        if (order.taxMinor > 0)
-          lineItems.push({
-            quantity: 1,
-            price_data: { currency: order.currency.toLowerCase(), unit_amount: order.taxMinor, product_data: { name: "Tax" } },
-          });
-        session = await payments.sdk.checkout.sessions.create(
-          {
-            mode: "payment",
-            line_items: lineItems,
-            success_url: `${config.publicUrl}/orders/${order.id}?paid=1`,
-            cancel_url: `${config.publicUrl}/orders/${order.id}?cancelled=1`,
-            client_reference_id: order.id,
-            metadata: { order_id: order.id, listing_id: listingId },
-            payment_intent_data: { metadata: { order_id: order.id } },
-            expires_at: Math.floor(order.reservedUntil.getTime() / 1000) + 60,
-          },
-          { idempotencyKey: `checkout-${order.id}` },
-        );
+        checkout = await payments.startCheckout({
+          orderId: order.id,
+          listingId,
+          currency: order.currency,
+          lines: [
+            { name: order.title, amountMinor: order.priceMinor },
+            ...(order.taxMinor > 0 ? [{ name: "Tax", amountMinor: order.taxMinor }] : []),
+          ],
+          successUrl: `${config.publicUrl}/orders/${order.id}?paid=1`,
+          cancelUrl: `${config.publicUrl}/orders/${order.id}?cancelled=1`,
+          // The page stays open a minute past the hold, so a buyer mid-payment is not cut off.
+          expiresAt: new Date(order.reservedUntil.getTime() + 60_000),
+          idempotencyKey: `checkout-${order.id}`,
+        });
       } catch (error) {
         deps.log.error({ err: error, orderId: order.id }, "could not open checkout");
-        await dataSource.transaction((manager) => release(manager, order, "cancelled"));
+        await dataSource.transaction((manager) => release(manager, order, "dropUnopenedCheckout"));
         throw new ServiceUnavailable(
           "Card payments are not available right now, so nothing was reserved. Please try again in a few minutes.",
           "payments_unavailable",
         );
       }
-      await dataSource.getRepository(OrderEntity).update({ id: order.id }, { checkoutSessionId: session.id, checkoutUrl: session.url });
+      await dataSource
+        .getRepository(OrderEntity)
+        .update({ id: order.id }, { checkoutSessionId: checkout.checkoutId, checkoutUrl: checkout.url });
       const saved = await dataSource.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
-      return { order: await view(saved, actor), checkoutUrl: session.url! };
+      return { order: await view(saved, actor), checkoutUrl: checkout.url };
     },
 
     /**
-     * A provider event, already verified. Handled once per event id (stored in the same
-     * transaction), so duplicates and retries change nothing; out-of-order events are judged by
-     * the order's current state.
+     * A payment event, already verified by the payments port. Handled once per event id (stored
+     * in the same transaction), so duplicates and retries change nothing; out-of-order events are
+     * judged by the order's current state.
      */
-    async handleEvent(event: Stripe.Event): Promise<"handled" | "duplicate" | "ignored"> {
+    async handleEvent(event: PaymentEvent): Promise<"handled" | "duplicate" | "ignored"> {
       let paidOrder: OrderEntity | null = null;
       const outcome = await dataSource.transaction(async (manager) => {
         const inserted = await manager
           .createQueryBuilder()
           .insert()
           .into(PaymentEventEntity)
-          .values({ id: event.id, type: event.type, payload: JSON.stringify(event) })
+          .values({ id: event.eventId, type: event.kind, payload: JSON.stringify(event) })
           .orIgnore()
           .execute();
-        if ((inserted.raw as { affectedRows?: number }).affectedRows === 0) return "duplicate" as const;
+        if (!insertedARow(inserted.raw)) return "duplicate" as const;
         // A sawyer's payout account changed at the provider (set-up finished, say).
-        if (event.type === "account.updated")
-          return (await deps.onAccountUpdated?.(event.data.object as Stripe.Account, manager))
-            ? ("handled" as const)
-            : ("ignored" as const);
-        const object = event.data.object as { id: string; metadata?: Record<string, string>; payment_intent?: string | null };
-        const orderId = object.metadata?.order_id;
-        if (!orderId) return "ignored" as const;
-        const order = await manager.getRepository(OrderEntity).findOne({ where: { id: orderId }, lock: { mode: "pessimistic_write" } });
+        if (event.kind === "payout_account_updated")
+          return (await deps.onAccountUpdated?.(event.account, manager)) ? ("handled" as const) : ("ignored" as const);
+        const order = await manager
+          .getRepository(OrderEntity)
+          .findOne({ where: { id: event.orderId }, lock: { mode: "pessimistic_write" } });
         if (!order) return "ignored" as const;
-        switch (event.type) {
-          case "checkout.session.completed": {
-            if (order.status !== OPEN_PAYMENT && order.status !== "payment_failed" && order.status !== "expired") return "ignored" as const;
+        switch (event.kind) {
+          case "checkout_completed": {
+            if (!transitionFrom("confirmPayment").includes(order.status)) return "ignored" as const;
             // Paid after the reservation lapsed and someone else bought it: the money goes back.
             const listing = await manager
               .getRepository(ListingEntity)
               .findOne({ where: { id: order.listingId }, lock: { mode: "pessimistic_write" } });
             const stillOurs = order.status === OPEN_PAYMENT ? listing?.status === "reserved" : listing?.status === "live";
-            if (!stillOurs) {
-              await manager
-                .getRepository(OrderEntity)
-                .update({ id: order.id }, { status: "refunded", paymentIntentId: object.payment_intent ?? null });
-              if (object.payment_intent)
-                await payments.sdk.refunds.create(
-                  { payment_intent: object.payment_intent, metadata: { order_id: order.id, reason: "sold_elsewhere" } },
-                  { idempotencyKey: `late-${order.id}` },
-                );
-              return "handled" as const;
-            }
+            if (!stillOurs) return (await deps.refunds.refundLatePayment(manager, order, event.paymentId)) ? "handled" : "ignored";
             await manager
               .getRepository(OrderEntity)
-              .update({ id: order.id }, { status: "paid", paidAt: now(), paymentIntentId: object.payment_intent ?? null });
+              .update(
+                { id: order.id, status: In(transitionFrom("confirmPayment")) },
+                { status: "paid", paidAt: now(), paymentIntentId: event.paymentId },
+              );
             await manager.getRepository(ListingEntity).update({ id: order.listingId }, { status: "sold" });
-            await manager.getRepository(LedgerEntryEntity).insert(saleEntries(order, "payment", event.id));
+            await manager.getRepository(LedgerEntryEntity).insert(saleEntries(order, "payment", event.eventId));
             await changed(manager, order.listingId);
             paidOrder = await manager.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
             return "handled" as const;
           }
-          case "charge.refunded":
+          case "payment_refunded":
             // Our own refund of a cancelled order (the API may have recorded it already: then nothing changes).
-            return (await recordRefund(manager, order.id, null, event.id, now())) ? ("handled" as const) : ("ignored" as const);
-          case "checkout.session.expired":
-            return (await release(manager, order, "expired")) ? ("handled" as const) : ("ignored" as const);
-          case "payment_intent.payment_failed":
-            return (await release(manager, order, "payment_failed")) ? ("handled" as const) : ("ignored" as const);
-          default:
-            return "ignored" as const;
+            return (await deps.refunds.settleFromProvider(manager, order.id, event.eventId)) ? ("handled" as const) : ("ignored" as const);
+          case "checkout_expired":
+            return (await release(manager, order, "expireReservation")) ? ("handled" as const) : ("ignored" as const);
+          case "payment_failed":
+            return (await release(manager, order, "failPayment")) ? ("handled" as const) : ("ignored" as const);
         }
       });
-      if (event.type === "payment_intent.payment_failed" && outcome === "handled") {
+      if (event.kind === "payment_failed" && outcome === "handled") {
         // The hosted page would let the buyer try another card; the slab is free again, so close it.
-        const order = await dataSource
-          .getRepository(OrderEntity)
-          .findOneBy({ id: (event.data.object as { metadata?: Record<string, string> }).metadata?.order_id ?? "" });
-        if (order?.checkoutSessionId) await payments.sdk.checkout.sessions.expire(order.checkoutSessionId).catch(() => undefined);
+        const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: event.orderId });
+        if (order?.checkoutSessionId) await payments.expireCheckout(order.checkoutSessionId).catch(() => undefined);
       }
       if (paidOrder) await mailPaid(paidOrder);
       return outcome;
@@ -279,13 +283,13 @@ export function createCheckoutService(deps: {
     async sweepExpiredReservations(): Promise<number> {
       const due = await dataSource
         .getRepository(OrderEntity)
-        .find({ where: { status: OPEN_PAYMENT, reservedUntil: LessThan(now()) }, take: 200 });
+        .find({ where: { status: In(transitionFrom("expireReservation")), reservedUntil: LessThan(now()) }, take: 200 });
       let released = 0;
       for (const order of due) {
-        const done = await retryOnLockConflict(() => dataSource.transaction((manager) => release(manager, order, "expired")));
+        const done = await retryOnLockConflict(() => dataSource.transaction((manager) => release(manager, order, "expireReservation")));
         if (done) {
           released += 1;
-          if (order.checkoutSessionId) await payments.sdk.checkout.sessions.expire(order.checkoutSessionId).catch(() => undefined);
+          if (order.checkoutSessionId) await payments.expireCheckout(order.checkoutSessionId).catch(() => undefined);
         }
       }
       return released;

@@ -1,7 +1,7 @@
 import type { DataSource } from "typeorm";
 import type { Health } from "@grainyard/contracts";
 import type { Mailer } from "../integrations/mail.ts";
-import type { Payments } from "../integrations/payments.ts";
+import type { PaymentsPort } from "../integrations/payments.ts";
 import type { PhotoStorage } from "../integrations/storage.ts";
 
 export interface HealthService {
@@ -13,7 +13,7 @@ export function createHealthService(deps: {
   dataSource: DataSource;
   storage: PhotoStorage;
   mailer: Mailer;
-  payments: Payments;
+  payments: Pick<PaymentsPort, "isUp">;
 }): HealthService {
   return {
     async check() {

@@ -184,7 +184,6 @@ export function createInventoryCsv(deps: { dataSource: DataSource; yard: YardSer
       }
       if (errors.length) {
         throw new AppError(
-          422,
           "csv_rows_invalid",
           `${new Set(errors.map((e) => e.row)).size} row(s) need fixing; nothing was saved.`,
           undefined,

@@ -1,3 +1,4 @@
+import { refundShares } from "@grainyard/slab-math";
 import type { LedgerEntryEntity, OrderEntity } from "../entities/index.ts";
 
 type Figures = Pick<
@@ -25,4 +26,31 @@ export function saleEntries(order: Figures, kind: string, sourceId: string | nul
 /** A full refund undoes the sale entry by entry: every account back to where it was, still summing to zero. */
 export function reversalEntries(order: Figures, sourceId: string | null): Partial<LedgerEntryEntity>[] {
   return saleEntries(order, "refund", sourceId).map((e) => ({ ...e, amountMinor: -(e.amountMinor as number) }));
+}
+
+/**
+ * A part (or all) of what the buyer paid going back for a dispute: the provider pays it out, and
+ * tax, platform fee, card processing and the sawyer's share each give back their part in
+ * proportion (slab-math's `refundShares`, so the parts add up to the amount exactly).
+ */
+export function disputeRefundEntries(
+  order: Figures,
+  amountMinor: number,
+  sourceId: string,
+): { entries: Partial<LedgerEntryEntity>[]; shares: Record<"tax" | "platformFee" | "processing" | "sawyerNet", number> } {
+  const shares = refundShares(
+    { tax: order.taxMinor, platformFee: order.platformFeeMinor, processing: order.processingFeeMinor, sawyerNet: order.sawyerNetMinor },
+    amountMinor,
+  );
+  const entries = [
+    { account: "provider_clearing", amountMinor: -amountMinor },
+    { account: "tax_payable", amountMinor: shares.tax },
+    { account: "platform_fees", amountMinor: shares.platformFee },
+    { account: "processing_fees", amountMinor: shares.processing },
+    { account: `sawyer:${order.sawyerId}`, amountMinor: shares.sawyerNet },
+  ].filter((e) => e.amountMinor !== 0);
+  return {
+    entries: entries.map((e) => ({ ...e, orderId: order.id, currency: order.currency, kind: "dispute_refund", providerEventId: sourceId })),
+    shares,
+  };
 }

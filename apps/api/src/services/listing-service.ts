@@ -10,7 +10,7 @@ import type {
   ReviewDeskItem,
   SendBackInput,
 } from "@grainyard/contracts";
-import { listingInputSchema, yardPaths } from "@grainyard/contracts";
+import { listingEndpoints, listingInputSchema, pathOf } from "@grainyard/contracts";
 import { NIOSH_LOAD_CONSTANT_KG, plausibilityWarnings, type FeeSettings } from "@grainyard/slab-math";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
@@ -24,8 +24,9 @@ import { recordAudit } from "./audit-log.ts";
 import { changesBetween, snapshotOf, type ReviewSnapshot } from "./review-snapshot.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { DEFAULT_WEIGHT_MOISTURE_PCT, computeListingFigures } from "./figures.ts";
-import { DEFAULT_FEE_SETTINGS } from "./marketplace-settings.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 import { HOLDING_STATUSES, toSlab } from "./yard-service.ts";
+import type { DomainEventBus } from "../events.ts";
 
 /** States in which the sawyer may still change the listing. */
 const EDITABLE: ListingStatus[] = ["draft", "sent_back"];
@@ -39,9 +40,9 @@ export function photoView(photo: ListingPhotoEntity): ListingPhoto {
     altText: photo.altText,
     width: photo.width,
     height: photo.height,
-    smallUrl: yardPaths.photoImage(photo.id, "small"),
-    mediumUrl: yardPaths.photoImage(photo.id, "medium"),
-    largeUrl: yardPaths.photoImage(photo.id, "large"),
+    smallUrl: pathOf(listingEndpoints.listingPhotoImage, { photoId: photo.id, size: "small" }),
+    mediumUrl: pathOf(listingEndpoints.listingPhotoImage, { photoId: photo.id, size: "medium" }),
+    largeUrl: pathOf(listingEndpoints.listingPhotoImage, { photoId: photo.id, size: "large" }),
   };
 }
 
@@ -52,9 +53,9 @@ export interface ListingServiceDependencies {
   log: { error(object: object, message: string): void };
   now?: () => Date;
   /** Called inside the transaction whenever a listing's status or figures change (keeps the catalogue in step). */
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
   /** Called after the approval committed, once a listing is live (saved-search alerts); must not throw. */
-  onListingLive?: (listingId: string) => Promise<void>;
   /** The marketplace's fee settings (admin-editable, from the database); the defaults when absent. */
   settings?: { fees(): FeeSettings };
 }
@@ -62,7 +63,8 @@ export interface ListingServiceDependencies {
 export function createListingService(deps: ListingServiceDependencies) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
-  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
+  const changed = (manager: EntityManager, listingId: string) =>
+    deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
 
   async function slabsOf(manager: EntityManager, listingId: string): Promise<SlabEntity[]> {
     const links = await manager
@@ -149,7 +151,7 @@ export function createListingService(deps: ListingServiceDependencies) {
       priceMode: listing.priceMode,
       rateMinor: listing.rateMinor,
       slabs,
-      fees: deps.settings?.fees() ?? DEFAULT_FEE_SETTINGS,
+      fees: deps.settings?.fees() ?? USUAL_FEES,
     });
   }
 
@@ -335,15 +337,6 @@ export function createListingService(deps: ListingServiceDependencies) {
       });
     },
 
-    /** Admin: listings waiting for review, oldest first. */
-    async reviewQueue(actor: Actor): Promise<Listing[]> {
-      requireRole(actor, "admin");
-      const listings = await dataSource
-        .getRepository(ListingEntity)
-        .find({ where: { status: "in_review" }, order: { submittedAt: "ASC" } });
-      return Promise.all(listings.map((l) => view(dataSource.manager, l)));
-    },
-
     /** Admin: the review desk — each waiting listing with plausibility warnings and what changed since its last review. */
     async reviewDesk(actor: Actor): Promise<ReviewDeskItem[]> {
       requireRole(actor, "admin");
@@ -391,7 +384,7 @@ export function createListingService(deps: ListingServiceDependencies) {
     async approve(actor: Actor, listingId: string): Promise<Listing> {
       const listing = await decide(actor, listingId, "approved", null);
       await mailSawyer(listing, (to, name, link) => listingApprovedMail(to, name, listing.title, link));
-      await deps.onListingLive?.(listing.id);
+      await deps.events?.emit("listingLive", { listingId: listing.id });
       return view(dataSource.manager, listing);
     },
 

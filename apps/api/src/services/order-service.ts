@@ -1,37 +1,39 @@
 import {
+  canMakeTransition,
+  orderStatusesIn,
   orderStatusLabels,
+  orderTransitions,
+  transitionFrom,
   type CancellationInput,
   type ChooseWindowInput,
   type Order,
+  type OrderStatus,
+  type OrderTransitionName,
   type PickupWindowsInput,
   type ShipmentInput,
 } from "@grainyard/contracts";
 import { retryOnLockConflict } from "../db/lock-conflicts.ts";
 import { In, LessThan, Not, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
-import { AccountEntity, LedgerEntryEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
-import type { OrderStatus } from "../entities/order.ts";
+import { AccountEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import type { Mailer, OutgoingMail } from "../integrations/mail.ts";
-import type { Payments } from "../integrations/payments.ts";
 import { orderStepMail, type OrderStep } from "../mail-templates.ts";
 import { requireSignedIn, type Actor } from "./actor.ts";
-import { reversalEntries } from "./ledger.ts";
 import { timeZoneAt } from "./places.ts";
+import type { RefundService } from "./refund-service.ts";
+import type { DomainEventBus } from "../events.ts";
 
 /**
  * An order after payment: the sawyer readies it (pickup windows, or freight with a tracking
  * reference), hands it over, and the buyer confirms receipt (or it completes by itself some days
  * after hand-over). Before hand-over either side may cancel: the buyer gets a full refund through
  * the provider and the slab goes back on sale. Every step is a conditional update on the current
- * status, so two clicks, two tabs or two API instances can never move an order twice.
+ * status (its "from" statuses and who may make it come from contracts' order-lifecycle.ts), so two
+ * clicks, two tabs or two API instances can never move an order twice.
  */
 
 const DAY_MS = 86_400_000;
-/** Statuses an order may be cancelled from: paid, not yet on its way or handed over. */
-const CANCELLABLE: OrderStatus[] = ["paid", "ready_for_pickup"];
-/** Orders a sawyer sees in their list: a sale happened (not just a reservation that lapsed). */
-const SAWYER_VISIBLE: OrderStatus[] = ["paid", "ready_for_pickup", "shipped", "handed_over", "completed", "cancelled", "refunded"];
 
 export interface Parties {
   buyerName: string;
@@ -46,20 +48,22 @@ export interface Parties {
 
 const iso = (date: Date | null) => date?.toISOString() ?? null;
 
+/** The steps the one looking may take now, each the life-cycle transition it makes. */
+const actionTransitions: [Order["actions"][number], OrderTransitionName][] = [
+  ["propose_pickup_windows", "proposePickupWindows"],
+  ["mark_shipped", "markShipped"],
+  ["mark_handed_over", "markHandedOver"],
+  ["choose_pickup_window", "choosePickupWindow"],
+  ["confirm_receipt", "confirmReceipt"],
+  ["cancel", "cancel"],
+];
+
 function actionsFor(order: OrderEntity, viewerIs: Order["viewerIs"]): Order["actions"] {
-  const actions: Order["actions"] = [];
-  if (viewerIs === "sawyer") {
-    if (order.handover === "pickup" && (order.status === "paid" || order.status === "ready_for_pickup"))
-      actions.push("propose_pickup_windows");
-    if (order.handover === "freight" && order.status === "paid") actions.push("mark_shipped");
-    if (order.status === "ready_for_pickup" || order.status === "shipped") actions.push("mark_handed_over");
-  }
-  if (viewerIs === "buyer") {
-    if (order.status === "ready_for_pickup" && (order.pickupWindows?.length ?? 0) > 0) actions.push("choose_pickup_window");
-    if (order.status === "handed_over") actions.push("confirm_receipt");
-  }
-  if ((viewerIs === "buyer" || viewerIs === "sawyer") && CANCELLABLE.includes(order.status)) actions.push("cancel");
-  return actions;
+  if (viewerIs === "other") return [];
+  return actionTransitions
+    .filter(([, transition]) => canMakeTransition(transition, order, viewerIs))
+    .filter(([action]) => action !== "choose_pickup_window" || (order.pickupWindows?.length ?? 0) > 0)
+    .map(([action]) => action);
 }
 
 /** The order as this actor sees it: fees and the sawyer's net only for the sawyer and admins. */
@@ -147,39 +151,17 @@ export async function partiesOf(manager: EntityManager | DataSource, orders: Ord
   );
 }
 
-/**
- * A cancelled order's refund went through (the provider answered, or its `charge.refunded`
- * webhook came first): cancelled → refunded once, with the sale reversed in the ledger. Whichever
- * of the two arrives second changes nothing.
- */
-export async function recordRefund(
-  manager: EntityManager,
-  orderId: string,
-  refundId: string | null,
-  sourceId: string,
-  at: Date,
-): Promise<boolean> {
-  const updated = await manager
-    .getRepository(OrderEntity)
-    .update({ id: orderId, status: "cancelled" }, { status: "refunded", refundedAt: at, ...(refundId ? { refundId } : {}) });
-  if (updated.affected !== 1) return false;
-  const order = await manager.getRepository(OrderEntity).findOneByOrFail({ id: orderId });
-  // An order cancelled before its sale reached the ledger has nothing to reverse.
-  const sold = await manager.getRepository(LedgerEntryEntity).countBy({ orderId, kind: "payment" });
-  if (sold > 0) await manager.getRepository(LedgerEntryEntity).insert(reversalEntries(order, sourceId));
-  return true;
-}
-
 export function createOrderService(deps: {
   dataSource: DataSource;
-  payments: Payments;
+  refunds: RefundService;
   mailer: Mailer;
   config: Pick<AppConfig, "publicUrl" | "checkout">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
 }) {
-  const { dataSource, payments, config } = deps;
+  const { dataSource, config } = deps;
   const now = deps.now ?? (() => new Date());
   const orders = () => dataSource.getRepository(OrderEntity);
 
@@ -205,16 +187,22 @@ export function createOrderService(deps: {
     return new Conflict(`This order is ${orderStatusLabels[status].toLowerCase()}, so it cannot ${doing} now.`, "order_state");
   }
 
-  /** One step: a conditional update from the allowed statuses; anything else is a 409 naming the current state. */
+  /**
+   * One step: the life-cycle transition as a conditional update from its allowed statuses to its
+   * status; anything else is a 409 naming the current state.
+   */
   async function step(
     order: OrderEntity,
-    from: OrderStatus[],
+    transition: OrderTransitionName,
     changes: Partial<OrderEntity>,
     doing: string,
     manager: EntityManager = dataSource.manager,
   ): Promise<OrderEntity> {
+    const from = transitionFrom(transition);
     if (!from.includes(order.status)) throw wrongState(order.status, doing);
-    const updated = await manager.getRepository(OrderEntity).update({ id: order.id, status: In(from) }, changes);
+    const updated = await manager
+      .getRepository(OrderEntity)
+      .update({ id: order.id, status: In(from) }, { ...changes, status: orderTransitions[transition].to });
     if (updated.affected !== 1) {
       const current = await manager.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
       throw wrongState(current.status, doing);
@@ -256,29 +244,6 @@ export function createOrderService(deps: {
     }
   }
 
-  /** Asks the provider for the full refund (idempotent on the order), then records it. False if the provider could not be reached. */
-  async function refund(order: OrderEntity): Promise<boolean> {
-    if (!order.paymentIntentId) {
-      deps.log.error({ orderId: order.id }, "cancelled order has no payment to refund");
-      return false;
-    }
-    try {
-      const made = await payments.sdk.refunds.create(
-        {
-          payment_intent: order.paymentIntentId,
-          reason: "requested_by_customer",
-          metadata: { order_id: order.id, cancelled_by: order.cancelledBy ?? "" },
-        },
-        { idempotencyKey: `refund-${order.id}` },
-      );
-      await dataSource.transaction((manager) => recordRefund(manager, order.id, made.id, made.id, now()));
-      return true;
-    } catch (error) {
-      deps.log.error({ err: error, orderId: order.id }, "refund not made yet; the sweep tries again");
-      return false;
-    }
-  }
-
   return {
     get: async (actor: Actor, orderId: string): Promise<Order> => {
       const signedIn = requireSignedIn(actor);
@@ -296,7 +261,7 @@ export function createOrderService(deps: {
         signedIn.role === "admin"
           ? {}
           : signedIn.role === "sawyer"
-            ? { sawyerId: signedIn.accountId, status: In(SAWYER_VISIBLE) }
+            ? { sawyerId: signedIn.accountId, status: In(orderStatusesIn("sold")) }
             : { buyerId: signedIn.accountId };
       const list = await orders().find({ where, order: { createdAt: "DESC" }, take: 100 });
       const parties = await partiesOf(dataSource, list);
@@ -325,9 +290,8 @@ export function createOrderService(deps: {
       if (Object.keys(fields).length) throw new Invalid("Some pickup windows need a change.", fields);
       const updated = await step(
         order,
-        ["paid", "ready_for_pickup"],
+        "proposePickupWindows",
         {
-          status: "ready_for_pickup",
           pickupWindows: windows.map((w) => ({ startsAt: w.startsAt.toISOString(), endsAt: w.endsAt.toISOString() })),
           pickupAddress: input.pickupAddress,
           readyForPickupAt: order.readyForPickupAt ?? at,
@@ -344,14 +308,14 @@ export function createOrderService(deps: {
     /** The buyer picks one of the proposed windows. */
     async choosePickupWindow(actor: Actor, orderId: string, input: ChooseWindowInput): Promise<Order> {
       const order = await orderFor(actor, orderId, "buyer");
-      if (order.status !== "ready_for_pickup") throw wrongState(order.status, "have a pickup window chosen");
+      if (!transitionFrom("choosePickupWindow").includes(order.status)) throw wrongState(order.status, "have a pickup window chosen");
       const wanted = Date.parse(input.startsAt);
       const window = (order.pickupWindows ?? []).find((w) => Date.parse(w.startsAt) === wanted);
       if (!window)
         throw new Invalid("Choose one of the windows the sawyer proposed.", { startsAt: "That is not one of the proposed windows." });
       const updated = await step(
         order,
-        ["ready_for_pickup"],
+        "choosePickupWindow",
         { pickupStartsAt: new Date(window.startsAt), pickupEndsAt: new Date(window.endsAt), pickupChosenAt: now() },
         "have a pickup window chosen",
       );
@@ -366,8 +330,8 @@ export function createOrderService(deps: {
         throw new Conflict("This order is collected at the yard: propose pickup windows instead.", "order_state");
       const updated = await step(
         order,
-        ["paid"],
-        { status: "shipped", carrier: input.carrier, trackingReference: input.trackingReference, shippedAt: now() },
+        "markShipped",
+        { carrier: input.carrier, trackingReference: input.trackingReference, shippedAt: now() },
         "be marked as shipped",
       );
       await mailBoth(updated, "shipped");
@@ -377,12 +341,7 @@ export function createOrderService(deps: {
     /** The slab left the sawyer's hands: collected at the yard, or delivered by the carrier. */
     async markHandedOver(actor: Actor, orderId: string): Promise<Order> {
       const order = await orderFor(actor, orderId, "sawyer");
-      const updated = await step(
-        order,
-        ["ready_for_pickup", "shipped"],
-        { status: "handed_over", handedOverAt: now() },
-        "be marked as handed over",
-      );
+      const updated = await step(order, "markHandedOver", { handedOverAt: now() }, "be marked as handed over");
       await mailBoth(updated, "handed_over");
       return present(updated, actor);
     },
@@ -390,12 +349,7 @@ export function createOrderService(deps: {
     /** The buyer has the slab and says so. */
     async confirmReceipt(actor: Actor, orderId: string): Promise<Order> {
       const order = await orderFor(actor, orderId, "buyer");
-      const updated = await step(
-        order,
-        ["handed_over"],
-        { status: "completed", completedAt: now(), completedBy: "buyer" },
-        "be confirmed as received",
-      );
+      const updated = await step(order, "confirmReceipt", { completedAt: now(), completedBy: "buyer" }, "be confirmed as received");
       await mailBoth(updated, "completed");
       return present(updated, actor);
     },
@@ -411,16 +365,16 @@ export function createOrderService(deps: {
       const cancelled = await dataSource.transaction(async (manager) => {
         const updated = await step(
           order,
-          CANCELLABLE,
-          { status: "cancelled", cancelledAt: now(), cancelledBy: by, cancelReason: input.reason },
+          "cancel",
+          { cancelledAt: now(), cancelledBy: by, cancelReason: input.reason },
           "be cancelled",
           manager,
         );
         await manager.getRepository(ListingEntity).update({ id: order.listingId, status: "sold" }, { status: "live" });
-        await deps.onListingChanged?.(manager, order.listingId);
+        await deps.events?.emitSerial("listingChanged", { manager, listingId: order.listingId });
         return updated;
       });
-      await refund(cancelled);
+      await deps.refunds.refundCancelledOrder(cancelled);
       await mailBoth(cancelled, "cancelled");
       return present(await orders().findOneByOrFail({ id: orderId }), actor);
     },
@@ -431,11 +385,15 @@ export function createOrderService(deps: {
      */
     async completeDueOrders(): Promise<number> {
       const cutoff = new Date(now().getTime() - config.checkout.autoCompleteDays * DAY_MS);
-      const due = await orders().find({ where: { status: "handed_over", handedOverAt: LessThan(cutoff) }, take: 200 });
+      const from = transitionFrom("completeAutomatically");
+      const due = await orders().find({ where: { status: In(from), handedOverAt: LessThan(cutoff) }, take: 200 });
       let completed = 0;
       for (const order of due) {
         const updated = await retryOnLockConflict(() =>
-          orders().update({ id: order.id, status: "handed_over" }, { status: "completed", completedAt: now(), completedBy: "automatic" }),
+          orders().update(
+            { id: order.id, status: In(from) },
+            { status: orderTransitions.completeAutomatically.to, completedAt: now(), completedBy: "automatic" },
+          ),
         );
         if (updated?.affected !== 1) continue;
         completed += 1;
@@ -446,9 +404,12 @@ export function createOrderService(deps: {
 
     /** Cancelled orders whose refund did not go through (provider unreachable) are tried again. */
     async retryPendingRefunds(): Promise<number> {
-      const pending = await orders().find({ where: { status: "cancelled", paymentIntentId: Not("") }, take: 50 });
+      const pending = await orders().find({
+        where: { status: In(transitionFrom("recordCancellationRefund")), paymentIntentId: Not("") },
+        take: 50,
+      });
       let done = 0;
-      for (const order of pending) if (order.paymentIntentId && (await refund(order))) done += 1;
+      for (const order of pending) if (order.paymentIntentId && (await deps.refunds.refundCancelledOrder(order))) done += 1;
       return done;
     },
   };

@@ -13,10 +13,8 @@ import type {
   SawyerPayouts,
   PayoutAccountState,
 } from "@grainyard/contracts";
-import { disputeRefundSchema, payoutApprovalSchema, payoutBatchSchema } from "@grainyard/contracts";
-import { refundShares } from "@grainyard/slab-math";
+import { disputeRefundSchema, isOrderStatusIn, payoutApprovalSchema, payoutBatchSchema, type OrderStatus } from "@grainyard/contracts";
 import { stringify } from "csv-stringify/sync";
-import type Stripe from "stripe";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import {
@@ -28,20 +26,15 @@ import {
   PayoutEntity,
   PayoutLineEntity,
 } from "../entities/index.ts";
-import { AppError, Conflict, Invalid, NotFound, ServiceUnavailable } from "../errors.ts";
+import { AppError, Conflict, NotFound, ServiceUnavailable } from "../errors.ts";
 import type { Mailer } from "../integrations/mail.ts";
-import type { Payments } from "../integrations/payments.ts";
+import { PaymentsError, PaymentsUnavailable, type PaymentsPort, type PayoutAccountStatus } from "../integrations/payments.ts";
 import { disputeRefundMail, payoutSentMail } from "../mail-templates.ts";
 import { requireRole, type Actor, type SignedInActor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
+import type { RefundService } from "./refund-service.ts";
 
 const DAY_MS = 24 * 3600_000;
-/** Orders whose money has moved to the sawyer's side and can be paid once the hold is over. */
-const HANDED_OVER = ["handed_over", "completed"];
-/** Orders whose money is settled one way or the other (refunds after an earlier payout are taken back at once). */
-const SETTLED = ["refunded", "cancelled"];
-/** Orders an admin may refund for a dispute: paid and not settled yet. */
-const REFUNDABLE = ["paid", "ready_for_pickup", "shipped", "handed_over", "completed"];
 
 /** What Grainyard still owes a sawyer for one order: the ledger's sawyer entries for it (sale, refunds, payouts), and whether it can be paid now. */
 interface OrderOwed {
@@ -67,9 +60,19 @@ function providerMessage(error: unknown): string {
   return message.slice(0, 480);
 }
 
+/**
+ * Whether an order's money can be paid to the sawyer now: settled one way or the other (a refund
+ * after an earlier payout is taken back at once), or handed over and past the hold.
+ */
+function releasedToSawyer(status: OrderStatus, handedOverAt: Date | null, holdMs: number, at: Date): boolean {
+  if (isOrderStatusIn("settled", status)) return true;
+  return isOrderStatusIn("handedOver", status) && handedOverAt !== null && handedOverAt.getTime() + holdMs <= at.getTime();
+}
+
 export function createPayoutService(deps: {
   dataSource: DataSource;
-  payments: Payments;
+  payments: PaymentsPort;
+  refunds: RefundService;
   mailer: Mailer;
   config: Pick<AppConfig, "publicUrl">;
   /** Hold days after hand-over (an admin setting). */
@@ -95,7 +98,7 @@ export function createPayoutService(deps: {
       orderId: string;
       currency: string;
       owed: string | number;
-      status: string;
+      status: OrderStatus;
       handedOverAt: Date | null;
       title: string;
       inFlight: string | number;
@@ -104,9 +107,7 @@ export function createPayoutService(deps: {
     return rows
       .map((row) => {
         const handedOverAt = row.handedOverAt ? new Date(row.handedOverAt) : null;
-        const released =
-          SETTLED.includes(row.status) ||
-          (HANDED_OVER.includes(row.status) && handedOverAt !== null && handedOverAt.getTime() + holdMs <= at.getTime());
+        const released = releasedToSawyer(row.status, handedOverAt, holdMs, at);
         return {
           orderId: row.orderId,
           currency: row.currency,
@@ -207,32 +208,32 @@ export function createPayoutService(deps: {
     const payout = await dataSource.getRepository(PayoutEntity).findOneByOrFail({ id: payoutId });
     if (payout.status !== "sending") return payout;
     const account = await dataSource.getRepository(PayoutAccountEntity).findOneBy({ sawyerId: payout.sawyerId });
-    let transfer: Stripe.Transfer | null = null;
+    let transfer: { transferId: string } | null = null;
     let failure: string | null = null;
-    try {
-      if (!account) throw new Error("The sawyer has no payout account.");
-      transfer = await payments.sdk.transfers.create(
-        {
-          amount: payout.amountMinor,
-          currency: payout.currency.toLowerCase(),
-          destination: account.providerAccountId,
-          metadata: { payout_id: payout.id, sawyer_id: payout.sawyerId },
-        },
-        { idempotencyKey: `payout-${payout.id}` },
-      );
-    } catch (error) {
-      const type = (error as { type?: string }).type;
-      // A provider that cannot be reached leaves the attempt open: approving again retries it with the same key.
-      if (type === "StripeConnectionError" || type === "StripeAPIError")
-        throw new ServiceUnavailable("The payment provider is not answering; the payout was not sent. Try again in a minute.");
-      failure = providerMessage(error);
+    if (!account) failure = "The sawyer has no payout account.";
+    else {
+      try {
+        transfer = await payments.transfer({
+          amountMinor: payout.amountMinor,
+          currency: payout.currency,
+          accountId: account.providerAccountId,
+          payoutId: payout.id,
+          sawyerId: payout.sawyerId,
+          idempotencyKey: `payout-${payout.id}`,
+        });
+      } catch (error) {
+        // A provider that cannot be reached leaves the attempt open: approving again retries it with the same key.
+        if (error instanceof PaymentsUnavailable)
+          throw new ServiceUnavailable("The payment provider is not answering; the payout was not sent. Try again in a minute.");
+        failure = providerMessage(error);
+      }
     }
     const at = now();
     await dataSource.transaction(async (manager) => {
       if (transfer) {
         const updated = await manager
           .getRepository(PayoutEntity)
-          .update({ id: payout.id, status: "sending" }, { status: "sent", transferId: transfer.id, sentAt: at });
+          .update({ id: payout.id, status: "sending" }, { status: "sent", transferId: transfer.transferId, sentAt: at });
         if (updated.affected !== 1) return;
         // One pair of entries per order: the sawyer's balance for it goes down, the money leaves the provider account.
         const lines = await manager.getRepository(PayoutLineEntity).findBy({ payoutId: payout.id });
@@ -244,7 +245,7 @@ export function createPayoutService(deps: {
               amountMinor: line.amountMinor,
               currency: payout.currency,
               kind: "payout",
-              providerEventId: transfer!.id,
+              providerEventId: transfer!.transferId,
             },
             {
               orderId: line.orderId,
@@ -252,7 +253,7 @@ export function createPayoutService(deps: {
               amountMinor: -line.amountMinor,
               currency: payout.currency,
               kind: "payout",
-              providerEventId: transfer!.id,
+              providerEventId: transfer!.transferId,
             },
           ]),
         );
@@ -396,28 +397,28 @@ export function createPayoutService(deps: {
       try {
         let account = await dataSource.getRepository(PayoutAccountEntity).findOneBy({ sawyerId: sawyer.accountId });
         if (!account) {
-          const created = await payments.sdk.accounts.create(
-            { type: "express", email: me.email, business_profile: { name: me.yardName ?? me.displayName }, metadata: { sawyer_id: me.id } },
-            { idempotencyKey: `payout-account-${me.id}` },
-          );
+          const created = await payments.createPayoutAccount({
+            sawyerId: me.id,
+            email: me.email,
+            businessName: me.yardName ?? me.displayName,
+            idempotencyKey: `payout-account-${me.id}`,
+          });
           await dataSource
             .createQueryBuilder()
             .insert()
             .into(PayoutAccountEntity)
-            .values({ sawyerId: me.id, providerAccountId: created.id, payoutsEnabled: false, detailsSubmitted: false })
+            .values({ sawyerId: me.id, providerAccountId: created.accountId, payoutsEnabled: false, detailsSubmitted: false })
             .orIgnore()
             .execute();
           account = await dataSource.getRepository(PayoutAccountEntity).findOneByOrFail({ sawyerId: me.id });
         }
-        const link = await payments.sdk.accountLinks.create({
-          account: account.providerAccountId,
-          type: "account_onboarding",
-          return_url: `${config.publicUrl}/yard/payouts?setup=returned`,
-          refresh_url: `${config.publicUrl}/yard/payouts?setup=again`,
+        return await payments.onboardingLink({
+          accountId: account.providerAccountId,
+          returnUrl: `${config.publicUrl}/yard/payouts?setup=returned`,
+          refreshUrl: `${config.publicUrl}/yard/payouts?setup=again`,
         });
-        return { url: link.url };
       } catch (error) {
-        if (error instanceof AppError) throw error;
+        if (!(error instanceof PaymentsError)) throw error;
         deps.log.error({ err: error }, "payout account set-up failed");
         throw new ServiceUnavailable("The payment provider is not answering, so payout set-up cannot start. Try again in a minute.");
       }
@@ -428,26 +429,24 @@ export function createPayoutService(deps: {
       const sawyer = requireRole(actor, "sawyer");
       const account = await dataSource.getRepository(PayoutAccountEntity).findOneBy({ sawyerId: sawyer.accountId });
       if (!account) throw new NotFound("There is no payout account to check yet. Start the set-up first.");
+      let remote: PayoutAccountStatus;
       try {
-        const remote = await payments.sdk.accounts.retrieve(account.providerAccountId);
-        await this.recordAccount(remote);
+        remote = await payments.payoutAccount(account.providerAccountId);
       } catch (error) {
-        if (error instanceof AppError) throw error;
+        if (!(error instanceof PaymentsError)) throw error;
         throw new ServiceUnavailable("The payment provider is not answering; try again in a minute.");
       }
+      await this.recordAccount(remote);
       return this.mine(actor);
     },
 
-    /** The provider's word on an account (from `account.updated` or a retrieve). */
-    async recordAccount(
-      remote: Pick<Stripe.Account, "id" | "payouts_enabled" | "details_submitted">,
-      manager: EntityManager = dataSource.manager,
-    ): Promise<boolean> {
+    /** The provider's word on an account (from its `payout_account_updated` event or a fresh read). */
+    async recordAccount(remote: PayoutAccountStatus, manager: EntityManager = dataSource.manager): Promise<boolean> {
       const updated = await manager
         .getRepository(PayoutAccountEntity)
         .update(
-          { providerAccountId: remote.id },
-          { payoutsEnabled: !!remote.payouts_enabled, detailsSubmitted: !!remote.details_submitted },
+          { providerAccountId: remote.accountId },
+          { payoutsEnabled: remote.payoutsEnabled, detailsSubmitted: remote.detailsSubmitted },
         );
       return (updated.affected ?? 0) > 0;
     },
@@ -572,7 +571,9 @@ export function createPayoutService(deps: {
       requireRole(actor, "admin");
       const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: orderId });
       if (!order) throw new NotFound("No order with that id.");
-      const refunds = await dataSource.getRepository(OrderRefundEntity).find({ where: { orderId }, order: { createdAt: "ASC" } });
+      const refunds = await dataSource
+        .getRepository(OrderRefundEntity)
+        .find({ where: { orderId, kind: "dispute" }, order: { createdAt: "ASC" } });
       const refundedMinor = refunds.reduce((sum, r) => sum + r.amountMinor, 0);
       const refundableMinor = Math.max(0, order.totalMinor - refundedMinor);
       return {
@@ -581,103 +582,47 @@ export function createPayoutService(deps: {
         totalMinor: order.totalMinor,
         refundedMinor,
         refundableMinor,
-        canRefund: REFUNDABLE.includes(order.status) && !!order.paymentIntentId && refundableMinor > 0,
+        canRefund: isOrderStatusIn("refundable", order.status) && !!order.paymentIntentId && refundableMinor > 0,
         refunds: refunds.map((r) => ({ amountMinor: r.amountMinor, reason: r.reason, createdAt: r.createdAt.toISOString() })),
       };
     },
 
     /**
      * An admin's refund on a disputed order: all or part of what the buyer paid, through the
-     * provider (idempotent per request), split in the ledger across tax, platform fee, processing
-     * and the sawyer's share in proportion (slab-math's refundShares), with the reason mailed to
-     * both parties and written in the audit log.
+     * refund service (the provider idempotent per request; the ledger split across tax, platform
+     * fee, processing and the sawyer's share in proportion), with the reason mailed to both
+     * parties and written in the audit log.
      */
     async disputeRefund(actor: Actor, orderId: string, input: DisputeRefund): Promise<{ refundedMinor: number; refundableMinor: number }> {
       const admin = requireRole(actor, "admin");
       const { amountMinor, reason } = disputeRefundSchema.parse(input);
       const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: orderId });
       if (!order) throw new NotFound("No order with that id.");
-      if (!REFUNDABLE.includes(order.status) || !order.paymentIntentId) {
+      if (!isOrderStatusIn("refundable", order.status) || !order.paymentIntentId) {
         throw new Conflict(
           "Only a paid order can be refunded for a dispute (cancelled and refunded orders are settled already).",
           "order_not_refundable",
         );
       }
-      const refundId = randomUUID();
       const at = now();
-      // Reserve the amount first, so two admins at once cannot refund more than was paid.
-      const before = await dataSource.transaction(async (manager) => {
-        const locked = await manager.getRepository(OrderEntity).findOne({ where: { id: orderId }, lock: { mode: "pessimistic_write" } });
-        const given = (await manager.getRepository(OrderRefundEntity).sum("amountMinor", { orderId })) ?? 0;
-        const refundable = locked!.totalMinor - Number(given);
-        if (amountMinor > refundable)
-          throw new Invalid(`At most ${(refundable / 100).toFixed(2)} ${locked!.currency} can still be refunded on this order.`, {
-            amountMinor: "More than is left to refund.",
-          });
-        await manager
-          .getRepository(OrderRefundEntity)
-          .insert({ id: refundId, orderId, amountMinor, reason, providerRefundId: null, createdBy: admin.accountId, createdAt: at });
-        return Number(given);
-      });
-      let providerRefund: Stripe.Refund;
-      try {
-        providerRefund = await payments.sdk.refunds.create(
-          { payment_intent: order.paymentIntentId, amount: amountMinor, metadata: { order_id: order.id, dispute_refund_id: refundId } },
-          { idempotencyKey: `dispute-${refundId}` },
-        );
-      } catch (error) {
-        // Nothing was refunded: take the reservation back, so the amount can be refunded later.
-        await dataSource.getRepository(OrderRefundEntity).delete({ id: refundId });
-        const type = (error as { type?: string }).type;
-        if (type === "StripeConnectionError" || type === "StripeAPIError")
-          throw new ServiceUnavailable("The payment provider is not answering; nothing was refunded. Try again in a minute.");
-        throw new Conflict(`The payment provider refused the refund: ${providerMessage(error)}`, "refund_refused");
-      }
-      await dataSource.transaction(async (manager) => {
-        await manager.getRepository(OrderRefundEntity).update({ id: refundId }, { providerRefundId: providerRefund.id });
-        const shares = refundShares(
-          {
-            tax: order.taxMinor,
-            platformFee: order.platformFeeMinor,
-            processing: order.processingFeeMinor,
-            sawyerNet: order.sawyerNetMinor,
-          },
-          amountMinor,
-        );
-        const entries = [
-          { account: "provider_clearing", amountMinor: -amountMinor },
-          { account: "tax_payable", amountMinor: shares.tax },
-          { account: "platform_fees", amountMinor: shares.platformFee },
-          { account: "processing_fees", amountMinor: shares.processing },
-          { account: sawyerAccount(order.sawyerId), amountMinor: shares.sawyerNet },
-        ].filter((e) => e.amountMinor !== 0);
-        await manager.getRepository(LedgerEntryEntity).insert(
-          entries.map((e) => ({
-            ...e,
-            orderId: order.id,
-            currency: order.currency,
-            kind: "dispute_refund",
-            providerEventId: providerRefund.id,
-          })),
-        );
-        if (before + amountMinor === order.totalMinor)
-          await manager
-            .getRepository(OrderEntity)
-            .update({ id: order.id }, { status: "refunded", refundedAt: at, refundId: providerRefund.id });
-        await recordAudit(
-          manager,
-          admin,
-          {
-            action: "order.dispute_refund",
-            targetKind: "order",
-            targetId: order.id,
-            before: { refundedMinor: before },
-            after: { refundedMinor: before + amountMinor, refundId: providerRefund.id, shares },
-            reason,
-          },
-          at,
-        );
-      });
+      const result = await deps.refunds.refundDispute(
+        order,
+        { amountMinor, reason, adminId: admin.accountId },
+        (manager, { refundedBefore, refundId, shares }) =>
+          recordAudit(
+            manager,
+            admin,
+            {
+              action: "order.dispute_refund",
+              targetKind: "order",
+              targetId: order.id,
+              before: { refundedMinor: refundedBefore },
+              after: { refundedMinor: refundedBefore + amountMinor, refundId, shares },
+              reason,
+            },
+            at,
+          ),
+      );
       try {
         const people = await dataSource.getRepository(AccountEntity).findBy({ id: In([order.buyerId, order.sawyerId]) });
         for (const person of people) {
@@ -695,7 +640,7 @@ export function createPayoutService(deps: {
       } catch (error) {
         deps.log.error({ err: error, orderId }, "could not send the dispute refund e-mails");
       }
-      return { refundedMinor: before + amountMinor, refundableMinor: order.totalMinor - before - amountMinor };
+      return result;
     },
   };
 }

@@ -1,5 +1,5 @@
 import { randomUUID } from "node:crypto";
-import { MAX_PHOTOS_PER_LISTING, yardPaths, type ListingPhoto } from "@grainyard/contracts";
+import { MAX_PHOTOS_PER_LISTING, pathOf, yardEndpoints, type ListingPhoto } from "@grainyard/contracts";
 import type { DataSource, EntityManager } from "typeorm";
 import { ListingEntity, ListingPhotoEntity, ListingSlabEntity, LogPhotoEntity, YardLogEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
@@ -199,9 +199,9 @@ export function logPhotoView(photo: LogPhotoEntity): ListingPhoto {
     altText: photo.altText,
     width: photo.width,
     height: photo.height,
-    smallUrl: yardPaths.logPhotoImage(photo.id, "small"),
-    mediumUrl: yardPaths.logPhotoImage(photo.id, "medium"),
-    largeUrl: yardPaths.logPhotoImage(photo.id, "large"),
+    smallUrl: pathOf(yardEndpoints.logPhotoImage, { photoId: photo.id, size: "small" }),
+    mediumUrl: pathOf(yardEndpoints.logPhotoImage, { photoId: photo.id, size: "medium" }),
+    largeUrl: pathOf(yardEndpoints.logPhotoImage, { photoId: photo.id, size: "large" }),
   };
 }
 

@@ -1,5 +1,5 @@
 import { randomUUID } from "node:crypto";
-import type { Report, ReportInput, ReportResolveInput, reportStatuses } from "@grainyard/contracts";
+import type { Report, ReportInput, ReportReceipt, ReportResolveInput, reportStatuses } from "@grainyard/contracts";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, ContentReportEntity, ListingEntity, MessageEntity, MessageThreadEntity } from "../entities/index.ts";
@@ -9,6 +9,7 @@ import { accountSuspendedMail, listingTakenDownMail } from "../mail-templates-op
 import type { AccountModeration } from "./account-moderation.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
+import type { DomainEventBus } from "../events.ts";
 
 /** Listings an admin may take down after a report (a reserved or sold slab is mid-sale: handled as an order dispute). */
 const TAKE_DOWN_FROM = ["draft", "in_review", "sent_back", "live", "suspended"] as const;
@@ -20,11 +21,13 @@ export function createReportService(deps: {
   log: { error(object: object, message: string): void };
   moderation: AccountModeration;
   now?: () => Date;
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
 }) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
-  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
+  const changed = (manager: EntityManager, listingId: string) =>
+    deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
 
   async function sendSafely(build: () => Parameters<Mailer["send"]>[0] | null) {
     try {
@@ -78,7 +81,7 @@ export function createReportService(deps: {
 
   return {
     /** Anyone signed in reports a listing they can see, or a message in a thread they are part of. */
-    async create(actor: Actor, input: ReportInput): Promise<Report> {
+    async create(actor: Actor, input: ReportInput): Promise<ReportReceipt> {
       const signedIn = requireSignedIn(actor);
       let listingId: string | null;
       let reportedAccountId: string;
@@ -117,7 +120,8 @@ export function createReportService(deps: {
         resolvedAt: null,
         createdAt: now(),
       });
-      return (await views([await dataSource.getRepository(ContentReportEntity).findOneByOrFail({ id })]))[0]!;
+      // The reporter gets a receipt only: who was reported (and their e-mail) is for the admins.
+      return { id, targetKind: input.targetKind, targetId: input.targetId, status: "open" };
     },
 
     /** Admin queue: open reports oldest first, or resolved ones newest first. */

@@ -44,7 +44,7 @@ describe("review snapshot and changes", () => {
       slabs: [{ ...slab, lastMoisturePct: 7, widthStationsMm: [600, 590] }],
     } as unknown as Listing;
     expect(changesBetween(snapshotOf(listing), snapshotOf(after))).toEqual([
-      { field: "price", label: "Price", before: "fixed: 900.00 USD", after: "fixed: 850.00 USD" },
+      { field: "price", label: "Price", before: "fixed: $900.00 USD", after: "fixed: $850.00 USD" },
       { field: "freight", label: "Freight", before: "no", after: "yes" },
       { field: "slabs.0.widths", label: "Slab widths", before: "600, 580 mm", after: "600, 590 mm" },
       { field: "slabs.0.moisture", label: "Slab moisture", before: "8 % on 2026-10-01", after: "7 % on 2026-10-01" },

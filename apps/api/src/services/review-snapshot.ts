@@ -1,3 +1,4 @@
+import { formatMoney } from "@grainyard/slab-math";
 import type { Listing, ReviewChange } from "@grainyard/contracts";
 
 /**
@@ -6,7 +7,7 @@ import type { Listing, ReviewChange } from "@grainyard/contracts";
  */
 export type ReviewSnapshot = Record<string, { label: string; value: string }>;
 
-const money = (minor: number, currency: string) => `${(minor / 100).toFixed(2)} ${currency}`;
+const money = (minor: number, currency: string) => `${formatMoney(minor, currency)} ${currency}`;
 const yesNo = (value: boolean) => (value ? "yes" : "no");
 const list = (values: readonly (string | number)[]) => (values.length ? values.join(", ") : "none");
 

@@ -1,6 +1,6 @@
 import { createHmac, randomUUID, timingSafeEqual } from "node:crypto";
 import type { CatalogueQueryParsed, SavedSearch, SavedSearchInput, SavedSearchUpdate } from "@grainyard/contracts";
-import { buyerPaths, catalogueQuerySchema, fieldMessages, savedSearchIgnoredKeys, savedSearchInputSchema } from "@grainyard/contracts";
+import { buyerEndpoints, catalogueQuerySchema, fieldMessages, savedSearchIgnoredKeys, savedSearchInputSchema } from "@grainyard/contracts";
 import { In, IsNull, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, CatalogueEntryEntity, SavedSearchEntity, SavedSearchMatchEntity } from "../entities/index.ts";
@@ -179,7 +179,7 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
             url: `${config.publicUrl}/slabs/${entry.listingId}`,
           })),
           `${config.publicUrl}/browse${search.query ? `?${search.query}` : ""}`,
-          `${config.publicUrl}${buyerPaths.savedSearchUnsubscribe}?token=${encodeURIComponent(unsubscribeToken(config.sessionSecret, search.id))}`,
+          `${config.publicUrl}${buyerEndpoints.unsubscribeSavedSearch.path}?token=${encodeURIComponent(unsubscribeToken(config.sessionSecret, search.id))}`,
         ),
       );
       return true;

@@ -1,4 +1,5 @@
 import { randomBytes, randomUUID } from "node:crypto";
+import { Agent } from "node:http";
 import { CSRF_HEADER, type Role } from "@grainyard/contracts";
 import mysql from "mysql2/promise";
 import request from "supertest";
@@ -8,7 +9,7 @@ import { loadConfig, type AppConfig } from "../config.ts";
 import { createDataSource } from "../db/data-source.ts";
 import { AccountEntity } from "../entities/index.ts";
 import { createMailer } from "../integrations/mail.ts";
-import { createPayments } from "../integrations/payments.ts";
+import { createPayments } from "../integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
 import { hashPassword } from "../services/passwords.ts";
@@ -35,10 +36,10 @@ export function testClock(): TestClock {
   return { now: () => new Date(Date.now() + offset), advance: (ms) => (offset += ms) };
 }
 
-export async function createTestContext(options: { environment?: Record<string, string>; clock?: TestClock } = {}) {
-  const environment = { ...stackEnvironment(), ...options.environment };
+/** A throwaway database on the test stack's MariaDB, built by the migrations; `drop` removes it. */
+export async function createTestDatabase(environment: Record<string, string | undefined> = {}) {
   const database = `grainyard_t_${randomBytes(5).toString("hex")}`;
-  const config: AppConfig = loadConfig({ ...environment, DATABASE_NAME: database });
+  const config: AppConfig = loadConfig({ ...stackEnvironment(), ...environment, DATABASE_NAME: database });
   const server = await mysql.createConnection({
     host: config.database.host,
     port: config.database.port,
@@ -47,10 +48,21 @@ export async function createTestContext(options: { environment?: Record<string, 
   });
   await server.query(`CREATE DATABASE \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
   await server.end();
-
   const dataSource: DataSource = createDataSource(config.database);
   await dataSource.initialize();
   await dataSource.runMigrations({ transaction: "each" });
+  return {
+    config,
+    dataSource,
+    async drop() {
+      await dataSource.query(`DROP DATABASE \`${database}\``);
+      await dataSource.destroy();
+    },
+  };
+}
+
+export async function createTestContext(options: { environment?: Record<string, string>; clock?: TestClock } = {}) {
+  const { config, dataSource, drop } = await createTestDatabase(options.environment);
   const logLines: string[] = [];
   const logger = createLogger("info", { write: (line: string) => void logLines.push(line) });
   const mailer = createMailer(config.mail);
@@ -82,10 +94,16 @@ export async function createTestContext(options: { environment?: Record<string, 
       });
       return { id, email, password };
     },
-    /** A browser-like client: keeps cookies and sends the anti-forgery header on changes. */
-    async client() {
-      return browserClient(app);
+    /**
+     * A browser-like client: keeps cookies and sends the anti-forgery header on changes. `from`
+     * gives it its own loopback address (127.0.0.2, 127.0.0.3…): its connections leave from there,
+     * so the API sees two clients as two addresses, through the socket, with no proxy header.
+     */
+    async client(options: ClientOptions = {}) {
+      return browserClient(app, options);
     },
+    /** Waits for the e-mails and other background work the requests so far started. */
+    settled: () => app.background.settled(),
     async signedInClient(role: Role, overrides: Partial<AccountEntity> & { password?: string } = {}) {
       const account = await this.createAccount(role, overrides);
       const client = await browserClient(app);
@@ -96,16 +114,25 @@ export async function createTestContext(options: { environment?: Record<string, 
     async close() {
       mailer.close();
       storage.close();
-      await dataSource.query(`DROP DATABASE \`${database}\``);
-      await dataSource.destroy();
+      await drop();
     },
   };
 }
 
 export type TestContext = Awaited<ReturnType<typeof createTestContext>>;
 
-export async function browserClient(app: Parameters<typeof request.agent>[0]) {
+export interface ClientOptions {
+  /** The loopback address the client's connections leave from (127.0.0.0/8 only). */
+  from?: string;
+}
+
+export async function browserClient(app: Parameters<typeof request.agent>[0], options: ClientOptions = {}) {
   const agent = request.agent(app);
+  if (options.from) {
+    if (!/^127\.\d{1,3}\.\d{1,3}\.\d{1,3}$/.test(options.from)) throw new Error(`test clients stay on loopback, not ${options.from}`);
+    const socketAgent = new Agent({ localAddress: options.from });
+    agent.use((req: { agent(agent: Agent): unknown }) => void req.agent(socketAgent));
+  }
   let csrfToken = (await agent.get("/api/v1/session").expect(200)).body.csrfToken as string;
   const remember = (res: request.Response) => {
     if (typeof res.body?.csrfToken === "string") csrfToken = res.body.csrfToken;

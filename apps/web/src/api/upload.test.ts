@@ -1,6 +1,8 @@
-import { describe, expect, it } from "vitest";
-import { CSRF_HEADER, yardPaths } from "@grainyard/contracts";
-import { ApiRequestError, createApiClient } from "./client.ts";
+import { afterEach, describe, expect, it } from "vitest";
+import { CSRF_HEADER, listingEndpoints, pathOf } from "@grainyard/contracts";
+import { ApiRequestError } from "./errors.ts";
+import { transport } from "./http.ts";
+import { listingsApi } from "./listings.ts";
 
 /** Just enough of XMLHttpRequest to drive an upload by hand. */
 class FakeXhr {
@@ -43,10 +45,15 @@ class FakeXhr {
   }
 }
 
+afterEach(() => {
+  transport.useXhr(undefined);
+  transport.useCsrfToken(() => null);
+});
+
 function client() {
-  const api = createApiClient({ csrfToken: () => "tok-9" });
-  api.useXhr(() => new FakeXhr() as unknown as XMLHttpRequest);
-  return api;
+  transport.useCsrfToken(() => "tok-9");
+  transport.useXhr(() => new FakeXhr() as unknown as XMLHttpRequest);
+  return listingsApi;
 }
 
 const photo = {
@@ -65,10 +72,13 @@ describe("photo upload", () => {
     const api = client();
     const file = new File(["jpeg bytes"], "slab.jpg", { type: "image/jpeg" });
     const seen: number[] = [];
-    const pending = api.uploadListingPhoto("lst 1", file, { altText: "Top face", onProgress: (fraction) => seen.push(fraction) });
+    const pending = api.uploadListingPhoto(
+      { listingId: "lst 1", body: file, query: { altText: "Top face" } },
+      { onProgress: (fraction) => seen.push(fraction) },
+    );
     const xhr = FakeXhr.last!;
     expect(xhr.method).toBe("POST");
-    expect(xhr.url).toBe(`${yardPaths.listingPhotos("lst 1")}?altText=Top+face`);
+    expect(xhr.url).toBe(`${pathOf(listingEndpoints.uploadListingPhoto, { listingId: "lst 1" })}?altText=Top+face`);
     expect(xhr.headers["content-type"]).toBe("image/jpeg");
     expect(xhr.headers[CSRF_HEADER]).toBe("tok-9");
     expect(xhr.body).toBe(file);
@@ -81,16 +91,16 @@ describe("photo upload", () => {
 
   it("sends application/octet-stream when the file has no type", async () => {
     const api = client();
-    const pending = api.uploadListingPhoto("lst_1", new Blob(["?"]));
+    const pending = api.uploadListingPhoto({ listingId: "lst_1", body: new Blob(["?"]) });
     expect(FakeXhr.last!.headers["content-type"]).toBe("application/octet-stream");
-    expect(FakeXhr.last!.url).toBe(yardPaths.listingPhotos("lst_1"));
+    expect(FakeXhr.last!.url).toBe(pathOf(listingEndpoints.uploadListingPhoto, { listingId: "lst_1" }));
     FakeXhr.last!.answer(201, { photo });
     await pending;
   });
 
   it("turns the API's refusal into an error with its message", async () => {
     const api = client();
-    const pending = api.uploadListingPhoto("lst_1", new File(["x"], "notes.txt", { type: "text/plain" }));
+    const pending = api.uploadListingPhoto({ listingId: "lst_1", body: new File(["x"], "notes.txt", { type: "text/plain" }) });
     FakeXhr.last!.answer(415, { error: { code: "not_an_image", message: "That file is not a photo." } });
     const error = await pending.catch((caught: unknown) => caught);
     expect(error).toBeInstanceOf(ApiRequestError);
@@ -100,7 +110,7 @@ describe("photo upload", () => {
 
   it("says 'offline' when the connection drops", async () => {
     const api = client();
-    const pending = api.uploadListingPhoto("lst_1", new File(["x"], "a.jpg", { type: "image/jpeg" }));
+    const pending = api.uploadListingPhoto({ listingId: "lst_1", body: new File(["x"], "a.jpg", { type: "image/jpeg" }) });
     FakeXhr.last!.onerror?.();
     const error = await pending.catch((caught: unknown) => caught);
     expect((error as ApiRequestError).code).toBe("offline");

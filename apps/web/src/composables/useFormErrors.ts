@@ -1,6 +1,6 @@
 import { reactive, ref } from "vue";
 import { fieldMessages } from "@grainyard/contracts";
-import { toApiRequestError, type ApiRequestError } from "../api/client.ts";
+import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
 
 /** Anything with zod's safeParse: the contracts' schemas. */
 interface Validator<T> {

@@ -1,6 +1,6 @@
 import { computed, getCurrentScope, onScopeDispose, reactive, ref, toRaw, watch } from "vue";
 import { MAX_PHOTOS_PER_LISTING, type Listing, type ListingInput } from "@grainyard/contracts";
-import { api as defaultApi } from "../api/client.ts";
+import { listingsApi } from "../api/listings.ts";
 import { draftStorage, type DraftStorage } from "../offline/draft-store.ts";
 import {
   NEW_LISTING_KEY,
@@ -15,6 +15,24 @@ import {
   type ListingSyncApi,
   type SyncResult,
 } from "../offline/listing-draft.ts";
+
+/** The sync's calls, through the listings client. */
+const defaultApi: ListingSyncApi = {
+  createListing: (input) => listingsApi.createListing({ body: input }),
+  updateListing: (listingId, input) => listingsApi.updateListing({ listingId, body: input }),
+  uploadListingPhoto: (listingId, file, options = {}) =>
+    listingsApi.uploadListingPhoto(
+      { listingId, body: file, query: { altText: options.altText?.trim() || undefined } },
+      { onProgress: options.onProgress, signal: options.signal },
+    ),
+  updatePhotoAltText: async (listingId, photoId, altText) => {
+    await listingsApi.setPhotoAltText({ listingId, photoId, body: { altText } });
+  },
+  setPhotoOrder: async (listingId, photoIds) => {
+    await listingsApi.setPhotoOrder({ listingId, body: { photoIds } });
+  },
+  deletePhoto: (listingId, photoId) => listingsApi.deleteListingPhoto({ listingId, photoId }),
+};
 
 export type DraftSyncState = "local" | "queued" | "syncing" | "synced" | "incomplete" | "failed";
 

@@ -1,5 +1,5 @@
 import { ref, shallowRef } from "vue";
-import { toApiRequestError, type ApiRequestError } from "../api/client.ts";
+import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
 
 /**
  * One piece of remote data with its loading and error state, and a `run` to load or retry.

@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { effectScope, nextTick } from "vue";
 import type { Listing, ListingInput, ListingPhoto } from "@grainyard/contracts";
-import { ApiRequestError } from "../api/client.ts";
+import { ApiRequestError } from "../api/errors.ts";
 import { createMemoryDraftStorage } from "./draft-store.ts";
 import { NEW_LISTING_KEY, newListingDraft, syncListingDraft, type ListingDraftFields, type ListingSyncApi } from "./listing-draft.ts";
 import { useListingDraft } from "../composables/useListingDraft.ts";
@@ -309,7 +309,7 @@ describe("useListingDraft", () => {
 
     fake.setOnline(true);
     drafts.onOnline();
-    await vi.waitFor(() => expect(drafts.state.value).toBe("synced"));
+    await vi.waitFor(() => expect(drafts.state.value).toBe("synced"), { timeout: 10_000 });
     expect(drafts.stateText.value).toBe("Synced");
     expect(fake.calls).toEqual(["create Walnut slab", "upload lst_1 first alt=", "order lst_1 ph_1"]);
     // Everything reached the server: nothing is left on the phone.
@@ -345,7 +345,7 @@ describe("useListingDraft", () => {
     await drafts.start(listing("lst_5", { slabs: [] }));
     expect(drafts.state.value).toBe("synced");
     drafts.addPhotos([photoFile("fresh")]);
-    await vi.waitFor(() => expect(fake.calls).toContain("upload lst_5 fresh alt="));
+    await vi.waitFor(() => expect(fake.calls).toContain("upload lst_5 fresh alt="), { timeout: 10_000 });
     expect(fake.calls.some((call) => call.startsWith("update"))).toBe(false);
   });
 

@@ -6,8 +6,8 @@
  * the next sync carries on from there.
  */
 import type { Listing, ListingInput, ListingPhoto } from "@grainyard/contracts";
-import { ApiRequestError, clientErrorCodes, toApiRequestError, type PhotoUploadOptions } from "../api/client.ts";
-import { minorToInput } from "../utils/money.ts";
+import { minorToInput } from "@grainyard/slab-math";
+import { ApiRequestError, clientErrorCodes, toApiRequestError } from "../api/errors.ts";
 
 export interface ListingDraftFields {
   title: string;
@@ -131,7 +131,14 @@ export function hasPendingWork(draft: ListingDraft): boolean {
   );
 }
 
-/** The API calls a sync needs (the real client, or a fake in tests). */
+/** How one photo upload goes: its description, progress (0–1) and a way to stop it. */
+interface PhotoUploadOptions {
+  altText?: string;
+  onProgress?: (fraction: number) => void;
+  signal?: AbortSignal;
+}
+
+/** The API calls a sync needs (the listings client, or a fake in tests). */
 export interface ListingSyncApi {
   createListing(input: ListingInput): Promise<{ listing: Listing }>;
   updateListing(listingId: string, input: ListingInput): Promise<{ listing: Listing }>;

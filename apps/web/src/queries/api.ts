@@ -1,15 +1,26 @@
 /**
- * Which API client the queries use. The browser uses the app's one client (same-origin cookies,
- * the anti-forgery token); the server's render gives each request its own client that reaches the
- * API over loopback without anyone's cookies, so a rendered page is always the anonymous one.
- * Only files in this folder call the client; views and components use the queries.
+ * Which transport the queries' API clients use. The browser uses the app's one transport
+ * (same-origin cookies, the anti-forgery token); the server's render gives each request its own
+ * transport that reaches the API over loopback without anyone's cookies, so a rendered page is
+ * always the anonymous one. Only files in this folder call the clients this way; views and
+ * components use the queries.
  */
 import { inject, type InjectionKey } from "vue";
-import { api, type ApiClient } from "../api/client.ts";
+import type { EndpointSpec } from "@grainyard/contracts";
+import { clientFor, transport, type ClientMethod, type Transport } from "../api/http.ts";
 
-export const API_CLIENT: InjectionKey<ApiClient> = Symbol("grainyard-api-client");
+export const API_TRANSPORT: InjectionKey<Transport> = Symbol("grainyard-api-transport");
 
-/** The client for this app instance (call in setup, where inject works). */
-export function useApiClient(): ApiClient {
-  return inject(API_CLIENT, api);
+type Client<T extends Record<string, EndpointSpec>> = { [K in keyof T]: ClientMethod<T[K]> };
+
+const clients = new WeakMap<Transport, Map<object, unknown>>();
+
+/** The derived client of one domain table over this app instance's transport (call in setup, where inject works). */
+export function useClient<T extends Record<string, EndpointSpec>>(table: T): Client<T> {
+  const via = inject(API_TRANSPORT, transport);
+  let byTable = clients.get(via);
+  if (!byTable) clients.set(via, (byTable = new Map()));
+  let client = byTable.get(table) as Client<T> | undefined;
+  if (!client) byTable.set(table, (client = clientFor(table, via)));
+  return client;
 }

@@ -4,26 +4,26 @@
  */
 import { toValue, type MaybeRefOrGetter } from "vue";
 import { useMutation } from "@pinia/colada";
-import type { MessagePosted, SavedSearch, SavedSearchInput } from "@grainyard/contracts";
+import { buyerEndpoints, messageEndpoints, type MessagePosted, type SavedSearch, type SavedSearchInput } from "@grainyard/contracts";
 import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
-import { useApiClient } from "./api.ts";
+import { useClient } from "./api.ts";
 
 export function useAskAboutListing(listingId: MaybeRefOrGetter<string>) {
-  const client = useApiClient();
+  const client = useClient(messageEndpoints);
   return useMutation<MessagePosted, string, ApiRequestError>({
     mutation: (body) =>
-      client.askAboutListing(toValue(listingId), body).catch((error: unknown) => {
+      client.askAboutListing({ listingId: toValue(listingId), body: { body } }).catch((error: unknown) => {
         throw toApiRequestError(error);
       }),
   });
 }
 
 export function useSaveSearch() {
-  const client = useApiClient();
+  const client = useClient(buyerEndpoints);
   return useMutation<SavedSearch, SavedSearchInput, ApiRequestError>({
     mutation: (input) =>
       client
-        .saveSearch(input)
+        .saveSearch({ body: input })
         .then((answer) => answer.savedSearch)
         .catch((error: unknown) => {
           throw toApiRequestError(error);

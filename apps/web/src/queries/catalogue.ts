@@ -6,10 +6,10 @@
  */
 import { computed, toValue, type MaybeRefOrGetter } from "vue";
 import { useInfiniteQuery, useQuery } from "@pinia/colada";
-import type { CatalogueCard, CatalogueDetail, CatalogueResult, Place } from "@grainyard/contracts";
+import { catalogueEndpoints, type CatalogueCard, type CatalogueDetail, type CatalogueResult, type Place } from "@grainyard/contracts";
 import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
 import { searchQuery, type CatalogueFilters } from "../utils/catalogue-filters.ts";
-import { useApiClient } from "./api.ts";
+import { useClient } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
 /** A catalogue search in the API's words (mm, minor units, comma lists), as the URL carries it. */
@@ -26,15 +26,17 @@ const SEARCH_FRESH_MS = 30_000;
  * search again from the top. The filters may change; each set is its own cache entry.
  */
 export function useCatalogueSearch(filters: MaybeRefOrGetter<CatalogueFilters>, pageSize = CATALOGUE_PAGE_SIZE) {
-  const client = useApiClient();
+  const client = useClient(catalogueEndpoints);
   const query = computed<CatalogueQuery>(() => searchQuery(toValue(filters), null, pageSize));
 
   const search = useInfiniteQuery<CatalogueResult, ApiRequestError, string | null>({
     key: () => queryKeys.catalogue.search(query.value),
     query: ({ pageParam, signal }) =>
-      client.searchCatalogue(pageParam ? { ...query.value, cursor: pageParam } : query.value, signal).catch((error: unknown) => {
-        throw toApiRequestError(error);
-      }),
+      client
+        .searchCatalogue({ query: pageParam ? { ...query.value, cursor: pageParam } : query.value }, { signal })
+        .catch((error: unknown) => {
+          throw toApiRequestError(error);
+        }),
     initialPageParam: null,
     getNextPageParam: (lastPage) => lastPage.nextCursor,
     staleTime: SEARCH_FRESH_MS,
@@ -76,11 +78,11 @@ export function useCatalogueSearch(filters: MaybeRefOrGetter<CatalogueFilters>, 
 
 /** Everything a buyer sees on a slab page. A 404 answer is kept as the page's error (not found). */
 export function useSlabListing(listingId: MaybeRefOrGetter<string>) {
-  const client = useApiClient();
+  const client = useClient(catalogueEndpoints);
   return useQuery<CatalogueDetail, ApiRequestError>({
     key: () => queryKeys.catalogue.listing(toValue(listingId)),
     query: ({ signal }) =>
-      client.getCatalogueListing(toValue(listingId), signal).catch((error: unknown) => {
+      client.getCatalogueListing({ listingId: toValue(listingId) }, { signal }).catch((error: unknown) => {
         throw toApiRequestError(error);
       }),
   });
@@ -88,10 +90,10 @@ export function useSlabListing(listingId: MaybeRefOrGetter<string>) {
 
 /** A few live slabs of the same species (under a sold slab). Runs only while `enabled` says so. */
 export function useSimilarSlabs(speciesSlug: MaybeRefOrGetter<string | null>, excludeListingId: MaybeRefOrGetter<string>) {
-  const client = useApiClient();
+  const client = useClient(catalogueEndpoints);
   const query = useQuery<CatalogueResult, ApiRequestError>({
     key: () => queryKeys.catalogue.similar(toValue(speciesSlug) ?? ""),
-    query: ({ signal }) => client.searchCatalogue({ species: toValue(speciesSlug) ?? "", limit: "5" }, signal),
+    query: ({ signal }) => client.searchCatalogue({ query: { species: toValue(speciesSlug) ?? "", limit: "5" } }, { signal }),
     enabled: () => Boolean(toValue(speciesSlug)),
   });
   const cards = computed(() =>
@@ -102,11 +104,11 @@ export function useSimilarSlabs(speciesSlug: MaybeRefOrGetter<string | null>, ex
 
 /** Towns whose name starts with the text (two letters or more), for "pickup near". */
 export function usePlaceSearch(text: MaybeRefOrGetter<string>) {
-  const client = useApiClient();
+  const client = useClient(catalogueEndpoints);
   const query = useQuery<{ places: Place[] }, ApiRequestError>({
     key: () => queryKeys.catalogue.places(toValue(text)),
     query: ({ signal }) =>
-      client.findPlaces(toValue(text), signal).catch((error: unknown) => {
+      client.findPlaces({ query: { query: toValue(text) } }, { signal }).catch((error: unknown) => {
         throw toApiRequestError(error);
       }),
     enabled: () => toValue(text).trim().length >= 2,

@@ -4,19 +4,19 @@
  */
 import { toValue, type MaybeRefOrGetter } from "vue";
 import { useMutation, useQuery } from "@pinia/colada";
-import type { CheckoutInput, CheckoutQuote } from "@grainyard/contracts";
+import { orderEndpoints, type CheckoutInput, type CheckoutQuote } from "@grainyard/contracts";
 import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
-import { useApiClient } from "./api.ts";
+import { useClient } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
 /** The price, tax and total a buyer pays now for one listing. */
 export function useCheckoutQuote(listingId: MaybeRefOrGetter<string>, enabled: MaybeRefOrGetter<boolean> = true) {
-  const client = useApiClient();
+  const client = useClient(orderEndpoints);
   return useQuery<CheckoutQuote, ApiRequestError>({
     key: () => queryKeys.checkout.quote(toValue(listingId)),
     query: ({ signal }) =>
       client
-        .getCheckoutQuote(toValue(listingId), signal)
+        .getCheckoutQuote({ listingId: toValue(listingId) }, { signal })
         .then((answer) => answer.quote)
         .catch((error: unknown) => {
           throw toApiRequestError(error);
@@ -27,10 +27,10 @@ export function useCheckoutQuote(listingId: MaybeRefOrGetter<string>, enabled: M
 
 /** Reserves the listing and answers the payment page's address (the caller goes there). */
 export function useCheckout(listingId: MaybeRefOrGetter<string>) {
-  const client = useApiClient();
+  const client = useClient(orderEndpoints);
   return useMutation<{ checkoutUrl: string }, CheckoutInput, ApiRequestError>({
     mutation: (input) =>
-      client.checkout(toValue(listingId), input).catch((error: unknown) => {
+      client.checkout({ listingId: toValue(listingId), body: input }).catch((error: unknown) => {
         throw toApiRequestError(error);
       }),
   });

@@ -1,8 +1,8 @@
 /** "Report this listing / message": tells the admins what is wrong (signed-in people only). */
 import { useMutation } from "@pinia/colada";
-import { reportPaths } from "@grainyard/contracts";
+import { reportEndpoints } from "@grainyard/contracts";
 import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
-import { useApiClient } from "./api.ts";
+import { useClient } from "./api.ts";
 
 export interface ReportInput {
   targetKind: "listing" | "message";
@@ -11,12 +11,15 @@ export interface ReportInput {
 }
 
 export function useReportContent() {
-  const client = useApiClient();
+  const client = useClient(reportEndpoints);
   return useMutation<void, ReportInput, ApiRequestError>({
-    // No answer body needed: the page only says thank you.
+    // The receipt is not shown: the page only says thank you.
     mutation: (input) =>
-      client.request<void>("POST", reportPaths.reports, { body: input }).catch((error: unknown) => {
-        throw toApiRequestError(error);
-      }),
+      client.fileReport({ body: input }).then(
+        () => undefined,
+        (error: unknown) => {
+          throw toApiRequestError(error);
+        },
+      ),
   });
 }

@@ -6,8 +6,7 @@
  */
 import type { CatalogueDetail } from "@grainyard/contracts";
 import { unitFormatter } from "../composables/useUnits.ts";
-import { minorToInput } from "../utils/money.ts";
-import { formatMoney } from "../utils/money.ts";
+import { formatMoney, minorToInput } from "@grainyard/slab-math";
 import { botanicalName, speciesName } from "../utils/yard.ts";
 import { absoluteUrl } from "./site.ts";
 import type { SiteInfo } from "../ssr/state.ts";

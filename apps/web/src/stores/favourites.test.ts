@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { buyerPaths, cataloguePaths } from "@grainyard/contracts";
-import { api } from "../api/client.ts";
+import { pathOf, catalogueEndpoints, buyerEndpoints } from "@grainyard/contracts";
+import { transport } from "../api/http.ts";
 import { mountView, type StubbedAnswer } from "../test/mount-view.ts";
 import { buyerAccount, oakCard } from "../test/fixtures.ts";
 import BrowseView from "../views/BrowseView.vue";
@@ -9,7 +9,7 @@ import FavouritesView from "../views/FavouritesView.vue";
 import { useFavouritesStore } from "./favourites.ts";
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
@@ -17,8 +17,8 @@ const page: StubbedAnswer = {
   status: 200,
   body: { results: [oakCard], total: 1, totalIsAtLeast: false, nextCursor: null, near: null, fitTop: null },
 };
-const put = `PUT ${buyerPaths.favourite(oakCard.listingId)}`;
-const del = `DELETE ${buyerPaths.favourite(oakCard.listingId)}`;
+const put = `PUT ${pathOf(buyerEndpoints.addFavourite, { listingId: oakCard.listingId })}`;
+const del = `DELETE ${pathOf(buyerEndpoints.addFavourite, { listingId: oakCard.listingId })}`;
 
 /** A promise the test settles by hand, to look at the heart while the request is on its way. */
 function deferred() {
@@ -33,8 +33,8 @@ describe("favourites", () => {
       path: "/browse",
       session: { account: buyerAccount },
       answers: {
-        [`GET ${cataloguePaths.search}`]: [page],
-        [`GET ${buyerPaths.favourites}`]: [{ status: 200, body: { favourites: [] } }],
+        [`GET ${catalogueEndpoints.searchCatalogue.path}`]: [page],
+        [`GET ${buyerEndpoints.listFavourites.path}`]: [{ status: 200, body: { favourites: [] } }],
         [put]: [{ status: 200, body: { favourite: { listingId: oakCard.listingId, createdAt: "2026-12-02T10:00:00.000Z" } } }],
         [del]: [{ status: 204 }],
       },
@@ -48,7 +48,8 @@ describe("favourites", () => {
     expect(heart().attributes("aria-pressed")).toBe("true");
     expect(
       fetchMock.mock.calls.some(
-        ([url, init]) => String(url) === buyerPaths.favourite(oakCard.listingId) && (init as RequestInit).method === "PUT",
+        ([url, init]) =>
+          String(url) === pathOf(buyerEndpoints.addFavourite, { listingId: oakCard.listingId }) && (init as RequestInit).method === "PUT",
       ),
     ).toBe(true);
     // The click did not open the slab page (the heart sits on the card's link).
@@ -64,8 +65,8 @@ describe("favourites", () => {
       path: "/browse",
       session: { account: buyerAccount },
       answers: {
-        [`GET ${cataloguePaths.search}`]: [page],
-        [`GET ${buyerPaths.favourites}`]: [{ status: 200, body: { favourites: [] } }],
+        [`GET ${catalogueEndpoints.searchCatalogue.path}`]: [page],
+        [`GET ${buyerEndpoints.listFavourites.path}`]: [{ status: 200, body: { favourites: [] } }],
         [put]: [{ status: 404, body: { error: { code: "not_found", message: "That slab is not for sale here." } } }],
       },
     });
@@ -81,12 +82,15 @@ describe("favourites", () => {
     const { session } = await mountView(BrowseView, {
       path: "/browse",
       session: { account: buyerAccount },
-      answers: { [`GET ${cataloguePaths.search}`]: [page], [`GET ${buyerPaths.favourites}`]: [{ status: 200, body: { favourites: [] } }] },
+      answers: {
+        [`GET ${catalogueEndpoints.searchCatalogue.path}`]: [page],
+        [`GET ${buyerEndpoints.listFavourites.path}`]: [{ status: 200, body: { favourites: [] } }],
+      },
     });
     expect(session.isBuyer).toBe(true);
     const store = useFavouritesStore();
     let puts = 0;
-    api.useFetch((async (url: string, init?: RequestInit) => {
+    transport.useFetch((async (url: string, init?: RequestInit) => {
       if (init?.method === "PUT") {
         puts++;
         const answer = await slow.promise;
@@ -106,7 +110,7 @@ describe("favourites", () => {
   it("sends an anonymous person to sign in and back to the same page", async () => {
     const { wrapper, router } = await mountView(BrowseView, {
       path: "/browse?seats=8",
-      answers: { [`GET ${cataloguePaths.search}`]: [page] },
+      answers: { [`GET ${catalogueEndpoints.searchCatalogue.path}`]: [page] },
     });
     await wrapper.find('[data-test="favourite-toggle"]').trigger("click");
     // The sign-in page loads on demand: wait for the navigation to finish.
@@ -118,7 +122,10 @@ describe("favourites", () => {
     const { wrapper } = await mountView(FavouritesView, {
       path: "/favourites",
       session: { account: buyerAccount },
-      answers: { [`GET ${buyerPaths.favourites}`]: [{ status: 200, body: { favourites: [oakCard] } }], [del]: [{ status: 204 }] },
+      answers: {
+        [`GET ${buyerEndpoints.listFavourites.path}`]: [{ status: 200, body: { favourites: [oakCard] } }],
+        [del]: [{ status: 204 }],
+      },
     });
     expect(wrapper.findAll('[data-test="catalogue-card"]')).toHaveLength(1);
     expect(wrapper.find('[data-test="favourite-toggle"]').attributes("aria-pressed")).toBe("true");
@@ -132,7 +139,7 @@ describe("favourites", () => {
     const { wrapper } = await mountView(FavouritesView, {
       path: "/favourites",
       session: { account: buyerAccount },
-      answers: { [`GET ${buyerPaths.favourites}`]: [{ status: 200, body: { favourites: [] } }] },
+      answers: { [`GET ${buyerEndpoints.listFavourites.path}`]: [{ status: 200, body: { favourites: [] } }] },
     });
     expect(wrapper.find('[data-test="favourites-empty"]').text()).toContain("Tap the heart");
   });

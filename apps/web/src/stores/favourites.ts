@@ -1,8 +1,9 @@
 import { defineStore } from "pinia";
 import { computed, ref, shallowRef, watch } from "vue";
 import type { CatalogueCard } from "@grainyard/contracts";
-import { api, toApiRequestError, type ApiRequestError } from "../api/client.ts";
 import { useSessionStore } from "./session.ts";
+import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
+import { buyerApi } from "../api/buyer.ts";
 
 type LoadStatus = "idle" | "loading" | "ready" | "error";
 
@@ -45,7 +46,7 @@ export const useFavouritesStore = defineStore("favourites", () => {
     if (loading) return loading;
     status.value = "loading";
     loadError.value = null;
-    loading = api
+    loading = buyerApi
       .listFavourites()
       .then(({ favourites }) => {
         cards.value = favourites;
@@ -85,8 +86,8 @@ export const useFavouritesStore = defineStore("favourites", () => {
     setId(listingId, on);
     setPending(listingId, true);
     try {
-      if (on) await api.addFavourite(listingId);
-      else await api.removeFavourite(listingId);
+      if (on) await buyerApi.addFavourite({ listingId });
+      else await buyerApi.removeFavourite({ listingId });
       if (on && card && !cards.value.some((c) => c.listingId === listingId)) cards.value = [card, ...cards.value];
       if (!on) cards.value = cards.value.filter((c) => c.listingId !== listingId);
       return on;

@@ -1,8 +1,9 @@
 import { defineStore } from "pinia";
 import { computed, ref, shallowRef, watch } from "vue";
 import type { ThreadSummary } from "@grainyard/contracts";
-import { api, toApiRequestError, type ApiRequestError } from "../api/client.ts";
 import { useSessionStore } from "./session.ts";
+import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
+import { messagesApi } from "../api/messages.ts";
 
 /** How often the top bar asks for new messages while someone is signed in (ms). */
 export const INBOX_POLL_MS = 30_000;
@@ -22,7 +23,7 @@ export const useInboxStore = defineStore("inbox", () => {
   function refresh(): Promise<void> {
     if (!hasInbox.value) return Promise.resolve();
     if (pending) return pending;
-    pending = api
+    pending = messagesApi
       .listThreads()
       .then((answer) => {
         threads.value = answer.threads;

@@ -1,7 +1,8 @@
 import { defineStore } from "pinia";
 import { computed, ref } from "vue";
 import type { Account, Role, SessionState, SignInInput } from "@grainyard/contracts";
-import { api, toApiRequestError, type ApiRequestError } from "../api/client.ts";
+import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
+import { accountsApi } from "../api/accounts.ts";
 
 /** Where each role lands after signing in. */
 export const roleHome: Record<Role, string> = {
@@ -37,7 +38,7 @@ export const useSessionStore = defineStore("session", () => {
   function load(): Promise<void> {
     if (pending) return pending;
     status.value = "loading";
-    pending = api
+    pending = accountsApi
       .getSession()
       .then(apply)
       .catch((error: unknown) => {
@@ -57,12 +58,12 @@ export const useSessionStore = defineStore("session", () => {
   }
 
   async function signIn(input: SignInInput): Promise<Account | null> {
-    apply(await api.signIn(input));
+    apply(await accountsApi.signIn({ body: input }));
     return account.value;
   }
 
   async function signOut(): Promise<void> {
-    apply(await api.signOut());
+    apply(await accountsApi.signOut());
   }
 
   /** After the API returns a changed account (e.g. the yard profile), keep the store in step. */

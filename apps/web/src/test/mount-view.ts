@@ -1,9 +1,9 @@
 import { mount, flushPromises } from "@vue/test-utils";
+import { transport } from "../api/http.ts";
 import { createPinia, setActivePinia } from "pinia";
 import { vi } from "vitest";
 import type { Component } from "vue";
 import { createMemoryHistory } from "vue-router";
-import { api } from "../api/client.ts";
 import { createGrainyardRouter } from "../router.ts";
 import { useSessionStore } from "../stores/session.ts";
 import { appPlugins } from "./app-plugins.ts";
@@ -29,12 +29,12 @@ export async function mountView(
     if (!next) return new Response(JSON.stringify({ account: options.session?.account ?? null, csrfToken: "test-token" }), { status: 200 });
     return new Response(next.body === undefined ? null : JSON.stringify(next.body), { status: next.status });
   });
-  api.useFetch(fetchMock as unknown as typeof fetch);
+  transport.useFetch(fetchMock as unknown as typeof fetch);
 
   const pinia = createPinia();
   setActivePinia(pinia);
   const session = useSessionStore(pinia);
-  api.useCsrfToken(() => session.csrfToken);
+  transport.useCsrfToken(() => session.csrfToken);
   const router = createGrainyardRouter(pinia, createMemoryHistory());
   await router.push(options.path);
   await router.isReady();

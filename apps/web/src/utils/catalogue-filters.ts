@@ -14,7 +14,7 @@ import type { LocationQuery, LocationQueryRaw } from "vue-router";
 import { catalogueSortLabels, catalogueSorts, liveEdges, setKinds, slabFeatures, yardLabels } from "@grainyard/contracts";
 import type { UnitFormatter } from "../composables/useUnits.ts";
 import { speciesName } from "./yard.ts";
-import { minorToInput } from "./money.ts";
+import { minorToInput } from "@grainyard/slab-math";
 
 export type CatalogueSort = (typeof catalogueSorts)[number];
 type LiveEdgeChoice = (typeof liveEdges)[number];

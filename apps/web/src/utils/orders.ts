@@ -1,4 +1,4 @@
-import { orderStatusLabels, type Order } from "@grainyard/contracts";
+import { orderStatusLabels, type Order, type OrderSlabSnapshot } from "@grainyard/contracts";
 import { speciesName } from "./yard.ts";
 
 export { orderStatusLabels };
@@ -21,7 +21,7 @@ export function stampLabel(iso: string | null): string {
   return iso ? `${day.format(new Date(iso))}, ${time.format(new Date(iso))}` : "";
 }
 
-/** The slab as it was when ordered (the order's own snapshot). */
+/** The slab as it was when ordered (the order's own snapshot), with the figures the order page shows. */
 export interface SnapshotSlab {
   id: string;
   speciesSlug: string;
@@ -31,27 +31,23 @@ export interface SnapshotSlab {
   averageWidthMm: number;
   boardFeet: number;
   weightHighKg: number;
-  handling: "one_person" | "two_people" | "mechanical_aid";
+  handling: OrderSlabSnapshot["figures"]["handling"];
   species: string;
 }
 
 export function snapshotSlabs(order: Pick<Order, "slabs">): SnapshotSlab[] {
-  return order.slabs.map((raw, index) => {
-    const figures = (raw.figures ?? {}) as Record<string, unknown>;
-    const speciesSlug = String(raw.speciesSlug ?? "");
-    return {
-      id: String(raw.id ?? index),
-      speciesSlug,
-      sequenceInLog: typeof raw.sequenceInLog === "number" ? raw.sequenceInLog : null,
-      lengthMm: Number(raw.lengthMm ?? 0),
-      thicknessMm: Number(raw.thicknessMm ?? 0),
-      averageWidthMm: Number(figures.averageWidthMm ?? 0),
-      boardFeet: Number(figures.boardFeet ?? 0),
-      weightHighKg: Number(figures.weightHighKg ?? 0),
-      handling: (figures.handling as SnapshotSlab["handling"]) ?? "two_people",
-      species: speciesSlug ? speciesName(speciesSlug) : "Slab",
-    };
-  });
+  return order.slabs.map(({ id, speciesSlug, sequenceInLog, lengthMm, thicknessMm, figures }) => ({
+    id,
+    speciesSlug,
+    sequenceInLog,
+    lengthMm,
+    thicknessMm,
+    averageWidthMm: figures.averageWidthMm,
+    boardFeet: figures.boardFeet,
+    weightHighKg: figures.weightHighKg,
+    handling: figures.handling,
+    species: speciesSlug ? speciesName(speciesSlug) : "Slab",
+  }));
 }
 
 /** The heaviest handling any one slab needs (each slab is lifted on its own). */

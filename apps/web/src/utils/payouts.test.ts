@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { PayoutBatchResult, PayoutDue } from "@grainyard/contracts";
-import { ApiRequestError } from "../api/client.ts";
+import { ApiRequestError } from "../api/errors.ts";
 import {
   accountCard,
   balanceIsEmpty,

@@ -14,8 +14,8 @@ import {
   type PayoutStatus,
   type SawyerBalance,
 } from "@grainyard/contracts";
-import { ApiRequestError } from "../api/client.ts";
-import { formatMoney, minorToInput, parseMoneyInput } from "./money.ts";
+import { formatMoney, minorToInput, parseMoneyInput } from "@grainyard/slab-math";
+import { hasErrorCode } from "../api/errors.ts";
 
 export { payoutAccountStateLabels, payoutStatusLabels };
 
@@ -153,7 +153,7 @@ export function batchRows(result: PayoutBatchResult, dues: PayoutDue[]): BatchRo
 
 /** A payout answered 409 payout_changed: the list is stale and must be loaded again before approving. */
 export function isStaleDue(error: unknown): boolean {
-  return error instanceof ApiRequestError && error.status === 409 && error.code === "payout_changed";
+  return hasErrorCode(error, "payout_changed");
 }
 
 export const STALE_MESSAGE =

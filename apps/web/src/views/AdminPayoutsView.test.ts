@@ -1,9 +1,9 @@
 import { afterEach, describe, expect, it } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { payoutPaths } from "@grainyard/contracts";
+import { payoutEndpoints } from "@grainyard/contracts";
 import AdminPayoutsView from "./AdminPayoutsView.vue";
 import { mountView } from "../test/mount-view.ts";
-import { api } from "../api/client.ts";
+import { transport } from "../api/http.ts";
 
 const admin = {
   id: "acc_9",
@@ -51,7 +51,7 @@ const sentPayout = {
 };
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
@@ -67,15 +67,15 @@ describe("AdminPayoutsView", () => {
       path: "/admin/payouts",
       session: { account: admin },
       answers: {
-        [`GET ${payoutPaths.due}`]: [
+        [`GET ${payoutEndpoints.payoutsDue.path}`]: [
           { status: 200, body: { due: [dueItem(226_200, "k1")], holdDays: 7 } },
           { status: 200, body: { due: [], holdDays: 7 } },
         ],
-        [`GET ${payoutPaths.list}`]: [
+        [`GET ${payoutEndpoints.listPayouts.path}`]: [
           { status: 200, body: { payouts: [] } },
           { status: 200, body: { payouts: [sentPayout] } },
         ],
-        [`POST ${payoutPaths.approve}`]: [{ status: 200, body: { payout: sentPayout } }],
+        [`POST ${payoutEndpoints.approvePayout.path}`]: [{ status: 200, body: { payout: sentPayout } }],
       },
     });
     expect(wrapper.find('[data-test="due-amount"]').text()).toBe("$2,262.00");
@@ -98,12 +98,12 @@ describe("AdminPayoutsView", () => {
       path: "/admin/payouts",
       session: { account: admin },
       answers: {
-        [`GET ${payoutPaths.due}`]: [
+        [`GET ${payoutEndpoints.payoutsDue.path}`]: [
           { status: 200, body: { due: [dueItem(226_200, "k1")], holdDays: 7 } },
           { status: 200, body: { due: [dueItem(180_000, "k2")], holdDays: 7 } },
         ],
-        [`GET ${payoutPaths.list}`]: [{ status: 200, body: { payouts: [] } }],
-        [`POST ${payoutPaths.approve}`]: [
+        [`GET ${payoutEndpoints.listPayouts.path}`]: [{ status: 200, body: { payouts: [] } }],
+        [`POST ${payoutEndpoints.approvePayout.path}`]: [
           { status: 409, body: { error: { code: "payout_changed", message: "This payout changed since the list was loaded." } } },
         ],
       },
@@ -125,15 +125,15 @@ describe("AdminPayoutsView", () => {
       path: "/admin/payouts",
       session: { account: admin },
       answers: {
-        [`GET ${payoutPaths.due}`]: [
+        [`GET ${payoutEndpoints.payoutsDue.path}`]: [
           { status: 200, body: { due: [dueItem(226_200, "k1"), other], holdDays: 7 } },
           { status: 200, body: { due: [], holdDays: 7 } },
         ],
-        [`GET ${payoutPaths.list}`]: [
+        [`GET ${payoutEndpoints.listPayouts.path}`]: [
           { status: 200, body: { payouts: [] } },
           { status: 200, body: { payouts: [] } },
         ],
-        [`POST ${payoutPaths.batch}`]: [
+        [`POST ${payoutEndpoints.approvePayoutBatch.path}`]: [
           {
             status: 200,
             body: {

@@ -1,8 +1,8 @@
 import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { cataloguePaths, type CatalogueCard, type CatalogueResult } from "@grainyard/contracts";
+import { catalogueEndpoints, type CatalogueCard, type CatalogueResult } from "@grainyard/contracts";
 import { topLengthForSeats } from "@grainyard/slab-math";
-import { api } from "../api/client.ts";
+import { transport } from "../api/http.ts";
 import { mountView, type StubbedAnswer } from "../test/mount-view.ts";
 import BrowseView from "./BrowseView.vue";
 import { UNITS_STORAGE_KEY } from "../stores/units.ts";
@@ -12,12 +12,12 @@ import { oakCard } from "../test/fixtures.ts";
 beforeEach(() => localStorage.setItem(UNITS_STORAGE_KEY, "metric"));
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   localStorage.removeItem(UNITS_STORAGE_KEY);
   document.body.innerHTML = "";
 });
 
-const SEARCH = `GET ${cataloguePaths.search}`;
+const SEARCH = `GET ${catalogueEndpoints.searchCatalogue.path}`;
 
 const oak: CatalogueCard = {
   ...oakCard,
@@ -37,7 +37,7 @@ function page(results: CatalogueCard[], extra: Partial<CatalogueResult> = {}): S
 function searches(fetchMock: { mock: { calls: unknown[][] } }): URLSearchParams[] {
   return fetchMock.mock.calls
     .map(([url]) => String(url))
-    .filter((url) => url.startsWith(cataloguePaths.search))
+    .filter((url) => url.startsWith(catalogueEndpoints.searchCatalogue.path))
     .map((url) => new URLSearchParams(url.split("?")[1] ?? ""));
 }
 
@@ -165,5 +165,25 @@ describe("BrowseView: the catalogue", () => {
     });
     expect(wrapper.find('[data-test="filter-problem"]').text()).toContain('We could not find the town "Nowhere".');
     expect(wrapper.find("#filter-near-note").text()).toBe("Choose a town from the list.");
+  });
+
+  it("names a set's weight as the whole set's, with its heaviest slab under it, and judges the lift on that slab", async () => {
+    // A slab and an offcut: 60 kg + 5 kg central, highs 66 and 5.5 kg (slab-math's ±10 %).
+    const pair: CatalogueCard = {
+      ...oak,
+      listingId: "lst_pair",
+      setKind: "sequential",
+      slabCount: 2,
+      weightKg: 65,
+      totalWeightHighKg: 71.5,
+      heaviestSlabHighKg: 66,
+    };
+    const { wrapper } = await mountView(BrowseView, { path: "/browse", answers: { [SEARCH]: [page([oak, pair])] } });
+    const [single, set] = wrapper.findAll('[data-test="catalogue-card"]');
+    expect(single!.text()).toContain("up to 138 kg");
+    expect(set!.text()).toContain("up to 72 kg in all");
+    expect(set!.text()).toContain("heaviest slab up to 66 kg");
+    expect(set!.text()).not.toContain("65 kg");
+    expect(set!.find(".catalogue-card__lift").text()).toMatch(/machine/i);
   });
 });

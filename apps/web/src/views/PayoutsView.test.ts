@@ -1,8 +1,8 @@
 import { afterEach, describe, expect, it } from "vitest";
-import { payoutPaths } from "@grainyard/contracts";
+import { payoutEndpoints } from "@grainyard/contracts";
 import PayoutsView from "./PayoutsView.vue";
 import { mountView } from "../test/mount-view.ts";
-import { api } from "../api/client.ts";
+import { transport } from "../api/http.ts";
 
 const sawyer = {
   id: "acc_2",
@@ -24,7 +24,7 @@ const page = (state: "none" | "unfinished" | "ready", over: object = {}) => ({
 });
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
@@ -33,7 +33,7 @@ describe("PayoutsView", () => {
     const { wrapper } = await mountView(PayoutsView, {
       path: "/yard/payouts",
       session: { account: sawyer },
-      answers: { [`GET ${payoutPaths.mine}`]: [{ status: 200, body: page("none") }] },
+      answers: { [`GET ${payoutEndpoints.myPayouts.path}`]: [{ status: 200, body: page("none") }] },
     });
     expect(wrapper.find('[data-test="account-state"]').text()).toBe("Not set up");
     expect(wrapper.find('[data-test="blocked-reason"]').text()).toContain("Set up a payout account");
@@ -41,16 +41,18 @@ describe("PayoutsView", () => {
     expect(wrapper.text()).toContain("No earnings yet");
     expect(wrapper.text()).toContain("No payouts yet");
     expect(wrapper.find('[data-test="hold-explanation"]').text()).toContain("7 days");
-    expect(wrapper.find('[data-test="statement-csv"]').attributes("href")).toBe(payoutPaths.statement);
+    expect(wrapper.find('[data-test="statement-csv"]').attributes("href")).toBe(payoutEndpoints.statementCsv.path);
   });
 
   it("back from the hosted set-up, asks the API to check with the provider (not the redirect) and says it is ready", async () => {
     const { wrapper, fetchMock, router } = await mountView(PayoutsView, {
       path: "/yard/payouts?setup=returned",
       session: { account: sawyer },
-      answers: { [`POST ${payoutPaths.refreshAccount}`]: [{ status: 200, body: page("ready") }] },
+      answers: { [`POST ${payoutEndpoints.refreshPayoutAccount.path}`]: [{ status: 200, body: page("ready") }] },
     });
-    expect(fetchMock.mock.calls.some(([url, init]) => String(url) === payoutPaths.refreshAccount && init?.method === "POST")).toBe(true);
+    expect(
+      fetchMock.mock.calls.some(([url, init]) => String(url) === payoutEndpoints.refreshPayoutAccount.path && init?.method === "POST"),
+    ).toBe(true);
     expect(wrapper.find('[data-test="setup-confirmed"]').exists()).toBe(true);
     expect(wrapper.find('[data-test="account-state"]').text()).toBe("Ready to receive money");
     expect(wrapper.find('[data-test="start-setup"]').exists()).toBe(false);
@@ -79,7 +81,7 @@ describe("PayoutsView", () => {
       path: "/yard/payouts",
       session: { account: sawyer },
       answers: {
-        [`GET ${payoutPaths.mine}`]: [
+        [`GET ${payoutEndpoints.myPayouts.path}`]: [
           {
             status: 200,
             body: page("ready", {
@@ -101,7 +103,9 @@ describe("PayoutsView", () => {
       path: "/yard/payouts",
       session: { account: sawyer },
       answers: {
-        [`GET ${payoutPaths.mine}`]: [{ status: 503, body: { error: { code: "unavailable", message: "Grainyard is resting." } } }],
+        [`GET ${payoutEndpoints.myPayouts.path}`]: [
+          { status: 503, body: { error: { code: "unavailable", message: "Grainyard is resting." } } },
+        ],
       },
     });
     expect(wrapper.text()).toContain("We couldn't load your payouts");

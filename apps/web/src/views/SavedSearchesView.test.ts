@@ -1,7 +1,7 @@
 import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { buyerPaths, cataloguePaths } from "@grainyard/contracts";
-import { api } from "../api/client.ts";
+import { catalogueEndpoints, buyerEndpoints } from "@grainyard/contracts";
+import { transport } from "../api/http.ts";
 import { mountView } from "../test/mount-view.ts";
 import { buyerAccount, savedSearch } from "../test/fixtures.ts";
 import { UNITS_STORAGE_KEY } from "../stores/units.ts";
@@ -9,13 +9,13 @@ import SavedSearchesView from "./SavedSearchesView.vue";
 
 beforeEach(() => localStorage.setItem(UNITS_STORAGE_KEY, "metric"));
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   localStorage.removeItem(UNITS_STORAGE_KEY);
   document.body.innerHTML = "";
 });
 
-const LIST = `GET ${buyerPaths.savedSearches}`;
-const one = `${buyerPaths.savedSearches}/ss_1`;
+const LIST = `GET ${buyerEndpoints.listSavedSearches.path}`;
+const one = `${buyerEndpoints.listSavedSearches.path}/ss_1`;
 const dining = savedSearch({
   query: "species=black-walnut&lengthMin=2000&seats=8",
   name: "Dining walnut",
@@ -63,7 +63,7 @@ describe("Saved searches page", () => {
       session: { account: buyerAccount },
       answers: {
         [LIST]: [{ status: 200, body: { savedSearches: [savedSearch({ query: "near=demo%3Anorthshore&radiusKm=30" })] } }],
-        [`GET ${cataloguePaths.search}`]: [
+        [`GET ${catalogueEndpoints.searchCatalogue.path}`]: [
           {
             status: 200,
             body: {
@@ -80,7 +80,7 @@ describe("Saved searches page", () => {
     });
     await flushPromises();
     expect(wrapper.findAll(".saved__word").map((w) => w.text())).toEqual(["Within 30 km of Northshore"]);
-    const asked = fetchMock.mock.calls.map(([url]) => String(url)).find((url) => url.startsWith(cataloguePaths.search))!;
+    const asked = fetchMock.mock.calls.map(([url]) => String(url)).find((url) => url.startsWith(catalogueEndpoints.searchCatalogue.path))!;
     expect(new URLSearchParams(asked.split("?")[1]).get("near")).toBe("demo:northshore");
   });
 

@@ -1,9 +1,9 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { apiPaths } from "@grainyard/contracts";
+import { accountEndpoints } from "@grainyard/contracts";
 import SignInView from "./SignInView.vue";
 import { mountView, noteFor, typeInto } from "../test/mount-view.ts";
-import { api } from "../api/client.ts";
+import { transport } from "../api/http.ts";
 
 const sawyer = {
   id: "acc_2",
@@ -17,7 +17,7 @@ const sawyer = {
 };
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
@@ -40,10 +40,10 @@ describe("SignInView", () => {
   it("sends a sawyer to the yard and keeps the fresh CSRF token", async () => {
     const { wrapper, router, session } = await mountView(SignInView, {
       path: "/sign-in",
-      answers: { [`POST ${apiPaths.session}`]: [{ status: 200, body: { account: sawyer, csrfToken: "after-sign-in" } }] },
+      answers: { [`POST ${accountEndpoints.getSession.path}`]: [{ status: 200, body: { account: sawyer, csrfToken: "after-sign-in" } }] },
     });
     await fillAndSubmit(wrapper);
-    await vi.waitFor(() => expect(router.currentRoute.value.path).toBe("/yard"));
+    await vi.waitFor(() => expect(router.currentRoute.value.path).toBe("/yard"), { timeout: 10_000 });
     expect(session.csrfToken).toBe("after-sign-in");
     expect(session.isSawyer).toBe(true);
   });
@@ -51,25 +51,25 @@ describe("SignInView", () => {
   it("follows ?next= inside the app, but never to another site", async () => {
     const first = await mountView(SignInView, {
       path: "/sign-in?next=/yard%3Ftab%3Dlogs",
-      answers: { [`POST ${apiPaths.session}`]: [{ status: 200, body: { account: sawyer, csrfToken: "t" } }] },
+      answers: { [`POST ${accountEndpoints.getSession.path}`]: [{ status: 200, body: { account: sawyer, csrfToken: "t" } }] },
     });
     await fillAndSubmit(first.wrapper);
-    await vi.waitFor(() => expect(first.router.currentRoute.value.fullPath).toBe("/yard?tab=logs"));
+    await vi.waitFor(() => expect(first.router.currentRoute.value.fullPath).toBe("/yard?tab=logs"), { timeout: 10_000 });
     first.wrapper.unmount();
 
     const second = await mountView(SignInView, {
       path: "/sign-in?next=//elsewhere.example/phish",
-      answers: { [`POST ${apiPaths.session}`]: [{ status: 200, body: { account: sawyer, csrfToken: "t" } }] },
+      answers: { [`POST ${accountEndpoints.getSession.path}`]: [{ status: 200, body: { account: sawyer, csrfToken: "t" } }] },
     });
     await fillAndSubmit(second.wrapper);
-    await vi.waitFor(() => expect(second.router.currentRoute.value.fullPath).toBe("/yard"));
+    await vi.waitFor(() => expect(second.router.currentRoute.value.fullPath).toBe("/yard"), { timeout: 10_000 });
   });
 
   it("shows the API's message for wrong credentials and for too many tries", async () => {
     const { wrapper } = await mountView(SignInView, {
       path: "/sign-in",
       answers: {
-        [`POST ${apiPaths.session}`]: [
+        [`POST ${accountEndpoints.getSession.path}`]: [
           { status: 401, body: { error: { code: "not_signed_in", message: "That e-mail and password don't match." } } },
           { status: 429, body: { error: { code: "too_many_requests", message: "Too many tries. Wait a few minutes." } } },
         ],
@@ -85,7 +85,7 @@ describe("SignInView", () => {
     const { wrapper, router } = await mountView(SignInView, {
       path: "/sign-in",
       answers: {
-        [`POST ${apiPaths.session}`]: [
+        [`POST ${accountEndpoints.getSession.path}`]: [
           { status: 403, body: { error: { code: "account_suspended", message: "This account is suspended, so it cannot sign in." } } },
         ],
       },

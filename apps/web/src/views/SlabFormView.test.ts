@@ -1,9 +1,9 @@
 import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { yardPaths } from "@grainyard/contracts";
+import { yardEndpoints } from "@grainyard/contracts";
 import SlabFormView from "./SlabFormView.vue";
 import { mountView, noteFor, typeInto } from "../test/mount-view.ts";
-import { api } from "../api/client.ts";
+import { transport } from "../api/http.ts";
 import { createMemoryDraftStorage, useDraftStorage } from "../offline/draft-store.ts";
 import { UNITS_STORAGE_KEY } from "../stores/units.ts";
 
@@ -23,7 +23,7 @@ beforeEach(() => {
   useDraftStorage(createMemoryDraftStorage());
 });
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   useDraftStorage(null);
   localStorage.clear();
   document.body.innerHTML = "";
@@ -45,7 +45,7 @@ async function open() {
   return mountView(SlabFormView, {
     path: "/yard/slabs/new",
     session: { account: sawyer },
-    answers: { [`GET ${yardPaths.logs}`]: [{ status: 200, body: { logs: [] } }] },
+    answers: { [`GET ${yardEndpoints.listLogs.path}`]: [{ status: 200, body: { logs: [] } }] },
   });
 }
 

@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { buyerPaths, type Message } from "@grainyard/contracts";
-import { api } from "../api/client.ts";
+import { pathOf, messageEndpoints, type Message } from "@grainyard/contracts";
+import { transport } from "../api/http.ts";
 import { mountView, type StubbedAnswer } from "../test/mount-view.ts";
 import { sawyerAccount, threadSummary } from "../test/fixtures.ts";
 import { THREAD_POLL_MS } from "../utils/messages.ts";
@@ -9,7 +9,7 @@ import ThreadView from "./ThreadView.vue";
 
 afterEach(() => {
   vi.useRealTimers();
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
@@ -34,8 +34,8 @@ const answer: Message = {
   readAt: null,
 };
 const detail = (messages: Message[]): StubbedAnswer => ({ status: 200, body: { thread: asSawyer, messages } });
-const GET = `GET ${buyerPaths.thread("thr_1")}`;
-const POST = `POST ${buyerPaths.threadMessages("thr_1")}`;
+const GET = `GET ${pathOf(messageEndpoints.getThread, { threadId: "thr_1" })}`;
+const POST = `POST ${pathOf(messageEndpoints.replyInThread, { threadId: "thr_1" })}`;
 
 describe("a conversation", () => {
   it("shows the messages with the other person and the listing, and sends a reply", async () => {
@@ -58,7 +58,8 @@ describe("a conversation", () => {
     await flushPromises();
 
     const posted = fetchMock.mock.calls.find(
-      ([url, init]) => String(url) === buyerPaths.threadMessages("thr_1") && (init as RequestInit).method === "POST",
+      ([url, init]) =>
+        String(url) === pathOf(messageEndpoints.replyInThread, { threadId: "thr_1" }) && (init as RequestInit).method === "POST",
     );
     expect(JSON.parse(String((posted![1] as RequestInit).body))).toEqual({ body: "Yes: flattened both faces." });
     const bubbles = wrapper.findAll('[data-test="message"]');

@@ -2,8 +2,8 @@ import { afterEach, describe, expect, it } from "vitest";
 import { flushPromises, mount } from "@vue/test-utils";
 import { createPinia, setActivePinia } from "pinia";
 import { createMemoryHistory } from "vue-router";
-import { buyerPaths } from "@grainyard/contracts";
-import { api } from "../../api/client.ts";
+import { pathOf, messageEndpoints } from "@grainyard/contracts";
+import { transport } from "../../api/http.ts";
 import { appPlugins } from "../../test/app-plugins.ts";
 import { createGrainyardRouter } from "../../router.ts";
 import { useSessionStore } from "../../stores/session.ts";
@@ -11,13 +11,13 @@ import { buyerAccount, sawyerAccount, threadSummary } from "../../test/fixtures.
 import AskSawyer from "./AskSawyer.vue";
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
 async function mountAsk(account: unknown, answers: Record<string, { status: number; body?: unknown }>) {
   const requests: { key: string; body: unknown }[] = [];
-  api.useFetch((async (url: string, init?: RequestInit) => {
+  transport.useFetch((async (url: string, init?: RequestInit) => {
     const key = `${init?.method ?? "GET"} ${String(url).split("?")[0]}`;
     requests.push({ key, body: init?.body ? JSON.parse(String(init.body)) : undefined });
     const answer = answers[key];
@@ -26,7 +26,7 @@ async function mountAsk(account: unknown, answers: Record<string, { status: numb
   }) as unknown as typeof fetch);
   const pinia = createPinia();
   setActivePinia(pinia);
-  api.useCsrfToken(() => useSessionStore(pinia).csrfToken);
+  transport.useCsrfToken(() => useSessionStore(pinia).csrfToken);
   const router = createGrainyardRouter(pinia, createMemoryHistory());
   await router.push("/slabs/lst_oak");
   await router.isReady();
@@ -43,8 +43,8 @@ describe("Ask the sawyer", () => {
   it("sends a buyer's question and links the conversation", async () => {
     const thread = threadSummary({ lastMessage: null });
     const { wrapper, requests } = await mountAsk(buyerAccount, {
-      [`GET ${buyerPaths.threads}`]: { status: 200, body: { threads: [] } },
-      [`POST ${buyerPaths.listingMessages("lst_oak")}`]: {
+      [`GET ${messageEndpoints.listThreads.path}`]: { status: 200, body: { threads: [] } },
+      [`POST ${pathOf(messageEndpoints.askAboutListing, { listingId: "lst_oak" })}`]: {
         status: 201,
         body: {
           thread,
@@ -72,15 +72,15 @@ describe("Ask the sawyer", () => {
 
   it("points to the earlier conversation when the buyer asked before", async () => {
     const { wrapper } = await mountAsk(buyerAccount, {
-      [`GET ${buyerPaths.threads}`]: { status: 200, body: { threads: [threadSummary({ id: "thr_old" })] } },
+      [`GET ${messageEndpoints.listThreads.path}`]: { status: 200, body: { threads: [threadSummary({ id: "thr_old" })] } },
     });
     expect(wrapper.find('[data-test="ask-open-thread"]').attributes("href")).toBe("/messages/thr_old");
   });
 
   it("shows the API's reason and keeps the question when it is refused", async () => {
     const { wrapper } = await mountAsk(buyerAccount, {
-      [`GET ${buyerPaths.threads}`]: { status: 200, body: { threads: [] } },
-      [`POST ${buyerPaths.listingMessages("lst_oak")}`]: {
+      [`GET ${messageEndpoints.listThreads.path}`]: { status: 200, body: { threads: [] } },
+      [`POST ${pathOf(messageEndpoints.askAboutListing, { listingId: "lst_oak" })}`]: {
         status: 404,
         body: { error: { code: "not_found", message: "That slab is not for sale here." } },
       },

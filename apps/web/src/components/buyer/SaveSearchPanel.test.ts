@@ -1,7 +1,7 @@
 import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { buyerPaths, cataloguePaths } from "@grainyard/contracts";
-import { api } from "../../api/client.ts";
+import { catalogueEndpoints, buyerEndpoints } from "@grainyard/contracts";
+import { transport } from "../../api/http.ts";
 import { mountView, type StubbedAnswer } from "../../test/mount-view.ts";
 import { buyerAccount, oakCard, sawyerAccount, savedSearch } from "../../test/fixtures.ts";
 import { UNITS_STORAGE_KEY } from "../../stores/units.ts";
@@ -9,12 +9,12 @@ import BrowseView from "../../views/BrowseView.vue";
 
 beforeEach(() => localStorage.setItem(UNITS_STORAGE_KEY, "metric"));
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   localStorage.removeItem(UNITS_STORAGE_KEY);
   document.body.innerHTML = "";
 });
 
-const SEARCH = `GET ${cataloguePaths.search}`;
+const SEARCH = `GET ${catalogueEndpoints.searchCatalogue.path}`;
 const page: StubbedAnswer = {
   status: 200,
   body: { results: [oakCard], total: 1, totalIsAtLeast: false, nextCursor: null, near: null, fitTop: null },
@@ -23,7 +23,7 @@ const noFavourites: StubbedAnswer = { status: 200, body: { favourites: [] } };
 
 function posted(fetchMock: { mock: { calls: unknown[][] } }) {
   return fetchMock.mock.calls
-    .filter(([url, init]) => String(url) === buyerPaths.savedSearches && (init as RequestInit | undefined)?.method === "POST")
+    .filter(([url, init]) => String(url) === buyerEndpoints.listSavedSearches.path && (init as RequestInit | undefined)?.method === "POST")
     .map(([, init]) => JSON.parse(String((init as RequestInit).body)));
 }
 
@@ -34,8 +34,8 @@ describe("Save this search, on the catalogue", () => {
       session: { account: buyerAccount },
       answers: {
         [SEARCH]: [page],
-        [`GET ${buyerPaths.favourites}`]: [noFavourites],
-        [`POST ${buyerPaths.savedSearches}`]: [
+        [`GET ${buyerEndpoints.listFavourites.path}`]: [noFavourites],
+        [`POST ${buyerEndpoints.listSavedSearches.path}`]: [
           {
             status: 201,
             body: { savedSearch: savedSearch({ name: "Oak for eight", query: "species=northern-red-oak&seats=8", alerts: false }) },
@@ -63,8 +63,8 @@ describe("Save this search, on the catalogue", () => {
       session: { account: buyerAccount },
       answers: {
         [SEARCH]: [page],
-        [`GET ${buyerPaths.favourites}`]: [noFavourites],
-        [`POST ${buyerPaths.savedSearches}`]: [
+        [`GET ${buyerEndpoints.listFavourites.path}`]: [noFavourites],
+        [`POST ${buyerEndpoints.listSavedSearches.path}`]: [
           {
             status: 409,
             body: {
@@ -86,7 +86,7 @@ describe("Save this search, on the catalogue", () => {
     const { wrapper, fetchMock } = await mountView(BrowseView, {
       path: "/browse?seats=8",
       session: { account: buyerAccount },
-      answers: { [SEARCH]: [page], [`GET ${buyerPaths.favourites}`]: [noFavourites] },
+      answers: { [SEARCH]: [page], [`GET ${buyerEndpoints.listFavourites.path}`]: [noFavourites] },
     });
     await wrapper.find('[data-test="save-search-open"]').trigger("click");
     await wrapper.find('[data-test="save-search-name"]').setValue("   ");
@@ -112,7 +112,7 @@ describe("Save this search, on the catalogue", () => {
     const { wrapper, router } = await mountView(BrowseView, {
       path: "/browse?seats=8&save=1",
       session: { account: buyerAccount },
-      answers: { [SEARCH]: [page], [`GET ${buyerPaths.favourites}`]: [noFavourites] },
+      answers: { [SEARCH]: [page], [`GET ${buyerEndpoints.listFavourites.path}`]: [noFavourites] },
     });
     await flushPromises();
     expect(wrapper.find('[data-test="save-search-form"]').exists()).toBe(true);

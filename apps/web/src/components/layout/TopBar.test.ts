@@ -1,13 +1,13 @@
 import { afterEach, describe, expect, it } from "vitest";
 import { flushPromises } from "@vue/test-utils";
-import { buyerPaths } from "@grainyard/contracts";
-import { api } from "../../api/client.ts";
+import { messageEndpoints } from "@grainyard/contracts";
+import { transport } from "../../api/http.ts";
 import { mountView } from "../../test/mount-view.ts";
 import { buyerAccount, sawyerAccount, threadSummary } from "../../test/fixtures.ts";
 import TopBar from "./TopBar.vue";
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
@@ -21,7 +21,7 @@ describe("top bar", () => {
     const { wrapper } = await mountView(TopBar, {
       path: "/browse",
       session: { account: buyerAccount },
-      answers: { [`GET ${buyerPaths.threads}`]: [threads] },
+      answers: { [`GET ${messageEndpoints.listThreads.path}`]: [threads] },
     });
     await flushPromises();
     expect(wrapper.findAll(".topbar__list a").map((a) => a.text().replace(/\s+/g, " ").trim())).toEqual([
@@ -41,7 +41,9 @@ describe("top bar", () => {
     const { wrapper } = await mountView(TopBar, {
       path: "/yard",
       session: { account: sawyerAccount },
-      answers: { [`GET ${buyerPaths.threads}`]: [{ status: 200, body: { threads: [threadSummary({ myRole: "sawyer" })] } }] },
+      answers: {
+        [`GET ${messageEndpoints.listThreads.path}`]: [{ status: 200, body: { threads: [threadSummary({ myRole: "sawyer" })] } }],
+      },
     });
     await flushPromises();
     expect(wrapper.findAll(".topbar__list a").map((a) => a.text().trim())).toEqual(["My yard", "Orders", "Messages", "Payouts"]);
@@ -52,7 +54,7 @@ describe("top bar", () => {
   it("asks for no messages for someone not signed in", async () => {
     const { wrapper, fetchMock } = await mountView(TopBar, { path: "/" });
     await flushPromises();
-    expect(fetchMock.mock.calls.some(([url]) => String(url).startsWith(buyerPaths.threads))).toBe(false);
+    expect(fetchMock.mock.calls.some(([url]) => String(url).startsWith(messageEndpoints.listThreads.path))).toBe(false);
     expect(wrapper.find('[data-test="nav-messages"]').exists()).toBe(false);
     wrapper.unmount();
   });

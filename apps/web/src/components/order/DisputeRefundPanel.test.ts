@@ -1,8 +1,8 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { flushPromises, mount } from "@vue/test-utils";
-import { payoutPaths, type Order } from "@grainyard/contracts";
+import { payoutEndpoints, pathOf, type Order } from "@grainyard/contracts";
 import DisputeRefundPanel from "./DisputeRefundPanel.vue";
-import { api } from "../../api/client.ts";
+import { transport } from "../../api/http.ts";
 
 const orderId = "0d7e7a52-1111-4000-8000-000000000001";
 const order = { id: orderId, currency: "USD", totalMinor: 100_000 } as unknown as Order;
@@ -17,7 +17,7 @@ const state = (refundedMinor: number, refunds: { amountMinor: number; reason: st
 });
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
@@ -27,7 +27,7 @@ function stub(answers: { method: string; status: number; body: unknown }[]) {
     const [next] = answers.splice(index, 1);
     return new Response(JSON.stringify(next!.body), { status: next!.status });
   });
-  api.useFetch(fetchMock as unknown as typeof fetch);
+  transport.useFetch(fetchMock as unknown as typeof fetch);
   return fetchMock;
 }
 const click = async (selector: string) => {
@@ -68,7 +68,7 @@ describe("DisputeRefundPanel", () => {
 
     await click('[data-test="confirm"]');
     const post = fetchMock.mock.calls.find(([, init]) => init?.method === "POST")!;
-    expect(String(post[0])).toBe(payoutPaths.disputeRefund(orderId));
+    expect(String(post[0])).toBe(pathOf(payoutEndpoints.disputeRefund, { orderId }));
     expect(JSON.parse(String(post[1]!.body))).toEqual({ amountMinor: 30_000, reason: "The slab arrived with a split along one edge." });
     expect(wrapper.find('[data-test="refund-result"]').text()).toMatch(/\$500\.00 of \$1,000\.00.*\$500\.00 is left.*e-mailed/);
     expect(wrapper.emitted("refunded")).toHaveLength(1);

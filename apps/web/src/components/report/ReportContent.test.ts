@@ -2,8 +2,8 @@ import { afterEach, describe, expect, it } from "vitest";
 import { flushPromises, mount } from "@vue/test-utils";
 import { createPinia, setActivePinia } from "pinia";
 import { createMemoryHistory } from "vue-router";
-import { reportPaths } from "@grainyard/contracts";
-import { api } from "../../api/client.ts";
+import { reportEndpoints } from "@grainyard/contracts";
+import { transport } from "../../api/http.ts";
 import { appPlugins } from "../../test/app-plugins.ts";
 import { createGrainyardRouter } from "../../router.ts";
 import { useSessionStore } from "../../stores/session.ts";
@@ -12,24 +12,28 @@ import ReasonDialog from "../admin/ReasonDialog.vue";
 import ReportContent from "./ReportContent.vue";
 
 afterEach(() => {
-  api.useFetch(undefined);
+  transport.useFetch(undefined);
   document.body.innerHTML = "";
 });
 
 async function mountReport(
   props: { targetKind: "listing" | "message"; targetId: string; ownerId: string | null; compact?: boolean },
-  reportAnswer = { status: 201, body: { report: {} } as unknown },
+  reportAnswer = {
+    status: 201,
+    body: { report: { id: "rep_1", targetKind: props.targetKind, targetId: props.targetId, status: "open" } } as unknown,
+  },
 ) {
   const requests: { key: string; body: unknown }[] = [];
-  api.useFetch((async (url: string, init?: RequestInit) => {
+  transport.useFetch((async (url: string, init?: RequestInit) => {
     const key = `${init?.method ?? "GET"} ${String(url).split("?")[0]}`;
     requests.push({ key, body: init?.body ? JSON.parse(String(init.body)) : undefined });
-    if (key === `POST ${reportPaths.reports}`) return new Response(JSON.stringify(reportAnswer.body), { status: reportAnswer.status });
+    if (key === `POST ${reportEndpoints.fileReport.path}`)
+      return new Response(JSON.stringify(reportAnswer.body), { status: reportAnswer.status });
     return new Response(JSON.stringify({ account: buyerAccount, csrfToken: "t" }), { status: 200 });
   }) as unknown as typeof fetch);
   const pinia = createPinia();
   setActivePinia(pinia);
-  api.useCsrfToken(() => useSessionStore(pinia).csrfToken);
+  transport.useCsrfToken(() => useSessionStore(pinia).csrfToken);
   const router = createGrainyardRouter(pinia, createMemoryHistory());
   await router.push("/messages/thr_1");
   await router.isReady();
@@ -46,7 +50,7 @@ describe("report a listing or a message", () => {
     await wrapper.find('[data-test="report-message"]').trigger("click");
     wrapper.findComponent(ReasonDialog).vm.$emit("confirm", "Asks me to pay by bank transfer outside Grainyard.");
     await flushPromises();
-    expect(requests.find((r) => r.key === `POST ${reportPaths.reports}`)?.body).toEqual({
+    expect(requests.find((r) => r.key === `POST ${reportEndpoints.fileReport.path}`)?.body).toEqual({
       targetKind: "message",
       targetId: "msg_1",
       reason: "Asks me to pay by bank transfer outside Grainyard.",

@@ -1,11 +1,15 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { mount } from "@vue/test-utils";
-import { yardPaths } from "@grainyard/contracts";
+import { yardEndpoints } from "@grainyard/contracts";
 import CsvErrorTable from "./CsvErrorTable.vue";
-import { CsvImportError, createApiClient } from "../../api/client.ts";
+import { errorDetail, toApiRequestError } from "../../api/errors.ts";
+import { transport } from "../../api/http.ts";
+import { yardApi } from "../../api/yard.ts";
 
 afterEach(() => {
   document.body.innerHTML = "";
+  transport.useFetch(undefined);
+  transport.useCsrfToken(() => null);
 });
 
 const rows = [
@@ -31,13 +35,15 @@ describe("CSV import errors", () => {
       async () =>
         new Response(JSON.stringify({ error: { code: "csv_rows_invalid", message: "2 rows need fixing.", rows } }), { status: 422 }),
     );
-    const client = createApiClient({ fetch: fetchMock as unknown as typeof fetch, csrfToken: () => "tok" });
-    const error = await client.importSlabsCsv("speciesSlug,lengthMm\nblack-walnut,2440\n").catch((caught: unknown) => caught);
-    expect(error).toBeInstanceOf(CsvImportError);
-    expect((error as CsvImportError).rows).toEqual(rows);
-    expect((error as CsvImportError).message).toBe("2 rows need fixing.");
+    transport.useFetch(fetchMock as unknown as typeof fetch);
+    transport.useCsrfToken(() => "tok");
+    const error = toApiRequestError(
+      await yardApi.importSlabsCsv({ body: "speciesSlug,lengthMm\nblack-walnut,2440\n" }).catch((caught: unknown) => caught),
+    );
+    expect(errorDetail(error, "csv_rows_invalid")?.rows).toEqual(rows);
+    expect(error.message).toBe("2 rows need fixing.");
     const [url, init] = fetchMock.mock.calls[0] as unknown as [string, RequestInit];
-    expect(url).toBe(yardPaths.slabsImport);
+    expect(url).toBe(yardEndpoints.importSlabsCsv.path);
     expect(init.method).toBe("POST");
     expect((init.headers as Record<string, string>)["content-type"]).toBe("text/csv");
     expect((init.headers as Record<string, string>)["x-csrf-token"]).toBe("tok");
@@ -46,7 +52,7 @@ describe("CSV import errors", () => {
 
   it("answers the number of slabs created", async () => {
     const fetchMock = vi.fn(async () => new Response(JSON.stringify({ created: 7 }), { status: 201 }));
-    const client = createApiClient({ fetch: fetchMock as unknown as typeof fetch });
-    await expect(client.importSlabsCsv("a,b\n")).resolves.toEqual({ created: 7 });
+    transport.useFetch(fetchMock as unknown as typeof fetch);
+    await expect(yardApi.importSlabsCsv({ body: "a,b\n" })).resolves.toEqual({ created: 7 });
   });
 });

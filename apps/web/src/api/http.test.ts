@@ -1,6 +1,9 @@
-import { describe, expect, it, vi } from "vitest";
-import { CSRF_HEADER, apiPaths } from "@grainyard/contracts";
-import { ApiRequestError, OFFLINE_MESSAGE, createApiClient } from "./client.ts";
+import { afterEach, describe, expect, it, vi } from "vitest";
+import { CSRF_HEADER, accountEndpoints, adminEndpoints, pathOf } from "@grainyard/contracts";
+import { accountsApi } from "./accounts.ts";
+import { adminApi } from "./admin.ts";
+import { ApiRequestError, OFFLINE_MESSAGE, errorDetail, hasErrorCode } from "./errors.ts";
+import { transport, urlOf } from "./http.ts";
 
 const account = {
   id: "acc_1",
@@ -17,9 +20,16 @@ function json(status: number, body: unknown): Response {
   return new Response(JSON.stringify(body), { status, headers: { "content-type": "application/json" } });
 }
 
+afterEach(() => {
+  transport.useFetch(undefined);
+  transport.useCsrfToken(() => null);
+});
+
 function setup(responder: () => Response | Promise<Response>, token: string | null = "tok-123") {
   const fetchMock = vi.fn(async (_url: string | URL | Request, _init?: RequestInit) => responder());
-  const client = createApiClient({ fetch: fetchMock as unknown as typeof fetch, csrfToken: () => token });
+  transport.useFetch(fetchMock as unknown as typeof fetch);
+  transport.useCsrfToken(() => token);
+  const client = { ...accountsApi, ...adminApi };
   const call = (index = 0) => {
     const [url, init] = fetchMock.mock.calls[index] ?? [];
     return { url: String(url), init: init ?? {}, headers: (init?.headers ?? {}) as Record<string, string> };
@@ -37,13 +47,13 @@ async function caught(promise: Promise<unknown>): Promise<ApiRequestError> {
   throw new Error("expected the request to fail");
 }
 
-describe("api client: requests", () => {
+describe("api transport: requests", () => {
   it("adds the CSRF token, a JSON body and same-origin credentials to a POST", async () => {
     const { client, call } = setup(() => json(200, { account, csrfToken: "fresh" }));
-    const state = await client.signIn({ email: account.email, password: "correct horse battery" });
+    const state = await client.signIn({ body: { email: account.email, password: "correct horse battery" } });
 
     const { url, init, headers } = call();
-    expect(url).toBe(apiPaths.session);
+    expect(url).toBe(accountEndpoints.signIn.path);
     expect(init.method).toBe("POST");
     expect(init.credentials).toBe("same-origin");
     expect(headers[CSRF_HEADER]).toBe("tok-123");
@@ -56,10 +66,10 @@ describe("api client: requests", () => {
   it("adds the CSRF token to DELETE and PATCH as well", async () => {
     const { client, call } = setup(() => json(200, { account, csrfToken: "x" }));
     await client.signOut().catch(() => undefined);
-    await client.updateYard("acc_1", { pickupTown: "Northshore" });
+    await client.updateYard({ sawyerId: "acc_1", body: { pickupTown: "Northshore" } });
     expect(call(0).init.method).toBe("DELETE");
     expect(call(0).headers[CSRF_HEADER]).toBe("tok-123");
-    expect(call(1).url).toBe(apiPaths.yardById("acc_1"));
+    expect(call(1).url).toBe(pathOf(accountEndpoints.updateYard, { sawyerId: "acc_1" }));
     expect(call(1).init.method).toBe("PATCH");
     expect(call(1).headers[CSRF_HEADER]).toBe("tok-123");
   });
@@ -74,26 +84,33 @@ describe("api client: requests", () => {
 
   it("uses the newest token the provider gives", async () => {
     let token = "first";
-    const fetchMock = vi.fn(async () => json(202, {}));
-    const client = createApiClient({ fetch: fetchMock as unknown as typeof fetch, csrfToken: () => token });
-    await client.resendVerification();
+    const fetchMock = vi.fn(async () => json(202, { sent: true }));
+    transport.useFetch(fetchMock as unknown as typeof fetch);
+    transport.useCsrfToken(() => token);
+    await accountsApi.resendVerification();
     token = "second";
-    await client.resendVerification();
+    await accountsApi.resendVerification();
     const headers = fetchMock.mock.calls.map((args) => ((args as unknown[])[1] as RequestInit).headers as Record<string, string>);
     expect(headers.map((h) => h[CSRF_HEADER])).toEqual(["first", "second"]);
   });
 
-  it("builds the admin search query and leaves out empty filters", async () => {
-    const { client, call } = setup(() => json(200, { accounts: [account] }));
-    const list = await client.listAccounts({ query: "  cobble ", role: "sawyer" });
-    expect(call(0).url).toBe(`${apiPaths.adminAccounts}?query=cobble&role=sawyer`);
-    expect(list.accounts).toHaveLength(1);
-    await client.listAccounts({ query: "" });
-    expect(call(1).url).toBe(apiPaths.adminAccounts);
+  it("builds the query and leaves out empty filters", async () => {
+    const { client, call } = setup(() => json(200, { users: [] }));
+    await client.searchUsers({ query: { query: "cobble", role: "sawyer", suspended: undefined } });
+    expect(call(0).url).toBe(`${adminEndpoints.searchUsers.path}?query=cobble&role=sawyer`);
+    await client.searchUsers({ query: { query: "" } });
+    expect(call(1).url).toBe(adminEndpoints.searchUsers.path);
+  });
+
+  it("fills in and encodes path parameters, and gives file rows as addresses", () => {
+    expect(urlOf(accountEndpoints.updateYard, { sawyerId: "a b/c" })).toBe("/api/v1/yards/a%20b%2Fc");
+    expect(adminApi.exportAuditCsv({ query: { action: "listing.approved", cursor: "" } })).toBe(
+      "/api/v1/admin/audit.csv?action=listing.approved",
+    );
   });
 });
 
-describe("api client: errors", () => {
+describe("api transport: errors", () => {
   it("parses a 422 answer into status, code, message and field messages", async () => {
     const { client } = setup(() =>
       json(422, {
@@ -104,7 +121,9 @@ describe("api client: errors", () => {
         },
       }),
     );
-    const error = await caught(client.signUp({ role: "buyer", email: "a@b.example", password: "password123", displayName: "Ada" }));
+    const error = await caught(
+      client.signUp({ body: { role: "buyer", email: "a@b.example", password: "password123", displayName: "Ada" } }),
+    );
     expect(error.status).toBe(422);
     expect(error.code).toBe("invalid_input");
     expect(error.message).toBe("Check the highlighted fields.");
@@ -118,10 +137,10 @@ describe("api client: errors", () => {
       json(429, { error: { code: "too_many_requests", message: "Too many tries. Wait 10 minutes." } }),
     ];
     const { client } = setup(() => answers.shift()!);
-    const wrong = await caught(client.signIn({ email: "a@b.example", password: "nope" }));
+    const wrong = await caught(client.signIn({ body: { email: "a@b.example", password: "nope" } }));
     expect([wrong.status, wrong.code, wrong.message]).toEqual([401, "not_signed_in", "That e-mail and password do not match."]);
     expect(wrong.fields).toEqual({});
-    const slow = await caught(client.signIn({ email: "a@b.example", password: "nope" }));
+    const slow = await caught(client.signIn({ body: { email: "a@b.example", password: "nope" } }));
     expect([slow.status, slow.code, slow.message]).toEqual([429, "too_many_requests", "Too many tries. Wait 10 minutes."]);
   });
 
@@ -150,8 +169,22 @@ describe("api client: errors", () => {
     expect(error.code).toBe("unexpected_response");
   });
 
-  it("accepts a 202 answer with no body", async () => {
-    const { client } = setup(() => new Response(null, { status: 202 }));
-    await expect(client.requestPasswordReset({ email: "a@b.example" })).resolves.toBeUndefined();
+  it("accepts a 204 answer with no body where the row has no answer", async () => {
+    const { call } = setup(() => new Response(null, { status: 204 }));
+    const { buyerApi } = await import("./buyer.ts");
+    await expect(buyerApi.removeFavourite({ listingId: "lst_1" })).resolves.toBeUndefined();
+    expect(call().init.method).toBe("DELETE");
+    expect(call().init.body).toBeUndefined();
+  });
+
+  it("narrows on catalogue codes and reads the detail a code carries", async () => {
+    const rows = [{ row: 2, field: "thicknessMm", message: "Too thin." }];
+    const { client } = setup(() => json(422, { error: { code: "csv_rows_invalid", message: "1 row needs fixing.", rows } }));
+    const error = await caught(client.signIn({ body: { email: "a@b.example", password: "x" } }));
+    expect(hasErrorCode(error, "csv_rows_invalid")).toBe(true);
+    expect(hasErrorCode(error, "bad_cursor")).toBe(false);
+    expect(errorDetail(error, "csv_rows_invalid")).toEqual({ rows });
+    const other = new ApiRequestError(422, "csv_rows_invalid", "x", {}, { code: "csv_rows_invalid", message: "x", rows: "not rows" });
+    expect(errorDetail(other, "csv_rows_invalid")).toBeNull();
   });
 });

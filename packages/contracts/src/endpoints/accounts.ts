@@ -1,0 +1,106 @@
+import { z } from "zod";
+import {
+  accountEnvelopeSchema,
+  emailVerifiedSchema,
+  passwordResetRequestSchema,
+  passwordResetSchema,
+  sessionSchema,
+  signInSchema,
+  signUpSchema,
+  verifyEmailSchema,
+  yardProfileUpdateSchema,
+} from "../accounts.ts";
+import { endpoint } from "../endpoint.ts";
+import { API_PREFIX } from "./prefix.ts";
+
+/** Sign-in, sign-up, e-mail confirmation, password reset and the sawyer's yard profile. */
+export const accountEndpoints = {
+  getSession: endpoint({
+    method: "GET",
+    path: `${API_PREFIX}/session`,
+    summary: "The signed-in account (or null) and the anti-forgery token.",
+    access: "anyone",
+    answer: sessionSchema,
+  }),
+  signIn: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/session`,
+    summary: "Sign in with e-mail and password.",
+    access: "anyone",
+    body: signInSchema,
+    answer: sessionSchema,
+    limit: "sign_in",
+    errors: ["wrong_credentials", "account_suspended"],
+  }),
+  signOut: endpoint({
+    method: "DELETE",
+    path: `${API_PREFIX}/session`,
+    summary: "Sign out; a fresh anti-forgery token.",
+    access: "anyone",
+    answer: sessionSchema,
+  }),
+  signUp: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/accounts`,
+    summary:
+      "Make a buyer or sawyer account (admins come only from the command line); the same answer whether or not the address has one already.",
+    access: "anyone",
+    body: signUpSchema,
+    answer: z.object({ message: z.string() }),
+    status: 202,
+    errors: ["already_signed_in"],
+  }),
+  verifyEmail: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/email-verification`,
+    summary: "Confirm an e-mail address with the token from the e-mail.",
+    access: "anyone",
+    body: verifyEmailSchema,
+    answer: emailVerifiedSchema,
+    errors: ["link_invalid", "link_used", "link_expired"],
+  }),
+  resendVerification: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/email-verification/resend`,
+    summary: "Send the confirmation e-mail again.",
+    access: "signed_in",
+    answer: z.object({ sent: z.literal(true) }),
+    status: 202,
+    errors: ["already_verified"],
+  }),
+  requestPasswordReset: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/password-reset-requests`,
+    summary: "E-mail a reset link (the same answer whether or not the address has an account).",
+    access: "anyone",
+    body: passwordResetRequestSchema,
+    answer: z.object({ message: z.string() }),
+    status: 202,
+    limit: "password_reset",
+  }),
+  resetPassword: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/password-resets`,
+    summary: "Choose a new password with the token from the reset e-mail.",
+    access: "anyone",
+    body: passwordResetSchema,
+    answer: z.object({ reset: z.literal(true) }),
+    errors: ["link_invalid", "link_used", "link_expired"],
+  }),
+  getOwnYard: endpoint({
+    method: "GET",
+    path: `${API_PREFIX}/yard`,
+    summary: "The signed-in sawyer's yard profile.",
+    access: ["sawyer"],
+    answer: accountEnvelopeSchema,
+  }),
+  updateYard: endpoint({
+    method: "PATCH",
+    path: `${API_PREFIX}/yards/:sawyerId`,
+    summary: "Change a yard's profile (its own sawyer, or an admin).",
+    access: ["sawyer", "admin"],
+    body: yardProfileUpdateSchema,
+    answer: accountEnvelopeSchema,
+    errors: ["unknown_place"],
+  }),
+} as const;
