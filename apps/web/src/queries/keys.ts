@@ -16,6 +16,25 @@ export const queryKeys = {
     similar: (speciesSlug: string) => ["catalogue", "similar", speciesSlug] as const,
     places: (text: string) => ["catalogue", "places", text.trim().toLowerCase()] as const,
   },
+  messages: {
+    all: ["messages"] as const,
+    /** The reader's conversations (the account is part of the key: another person never sees them). */
+    threads: (accountId: string) => ["messages", "threads", accountId] as const,
+    thread: (threadId: string) => ["messages", "thread", threadId] as const,
+  },
+  buyer: {
+    all: ["buyer"] as const,
+    savedSearches: ["buyer", "saved-searches"] as const,
+  },
+  admin: {
+    all: ["admin"] as const,
+    dashboard: ["admin", "dashboard"] as const,
+    settings: ["admin", "settings"] as const,
+  },
+  payouts: {
+    all: ["payouts"] as const,
+    due: ["payouts", "due"] as const,
+  },
   checkout: {
     /** The price with tax for one listing (the same for everyone). */
     quote: (listingId: string) => ["checkout", "quote", listingId] as const,
