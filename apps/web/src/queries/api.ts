@@ -8,6 +8,7 @@
 import { inject, type InjectionKey } from "vue";
 import type { EndpointSpec } from "@grainyard/contracts";
 import { clientFor, transport, type ClientMethod, type Transport } from "../api/http.ts";
+import { toApiRequestError } from "../api/errors.ts";
 
 export const API_TRANSPORT: InjectionKey<Transport> = Symbol("grainyard-api-transport");
 
@@ -23,4 +24,9 @@ export function useClient<T extends Record<string, EndpointSpec>>(table: T): Cli
   let client = byTable.get(table) as Client<T> | undefined;
   if (!client) byTable.set(table, (client = clientFor(table, via)));
   return client;
+}
+
+/** For a query's or mutation's `.catch`: every failure reaches the view as an ApiRequestError. */
+export function rethrow(error: unknown): never {
+  throw toApiRequestError(error);
 }

@@ -30,6 +30,9 @@ export const queryKeys = {
     all: ["admin"] as const,
     dashboard: ["admin", "dashboard"] as const,
     settings: ["admin", "settings"] as const,
+    reports: (status: string) => ["admin", "reports", status] as const,
+    users: (filters: Record<string, string | undefined>) => ["admin", "users", filters] as const,
+    reviewDesk: ["admin", "review-desk"] as const,
   },
   payouts: {
     all: ["payouts"] as const,

@@ -6,18 +6,14 @@
 import { computed, toValue, type MaybeRefOrGetter } from "vue";
 import { useMutation, useQuery, useQueryCache } from "@pinia/colada";
 import { messageEndpoints, type MessagePosted, type ThreadDetail, type ThreadSummary } from "@grainyard/contracts";
-import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
+import type { ApiRequestError } from "../api/errors.ts";
 import { useSessionStore } from "../stores/session.ts";
-import { useClient } from "./api.ts";
+import { rethrow, useClient } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 import { usePolledQuery } from "./polling.ts";
 
 /** How often the top bar asks for new messages while someone is signed in (ms). */
 export const INBOX_POLL_MS = 30_000;
-
-const rethrow = (error: unknown): never => {
-  throw toApiRequestError(error);
-};
 
 function newestFirst(threads: ThreadSummary[]): ThreadSummary[] {
   return [...threads].sort((a, b) => b.lastMessageAt.localeCompare(a.lastMessageAt));

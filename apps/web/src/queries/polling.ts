@@ -10,7 +10,11 @@ export function usePolledQuery(refetch: () => Promise<unknown>, intervalMs: numb
   const visibility = useDocumentVisibility();
   const poll = useTimeoutPoll(
     async () => {
-      await refetch();
+      try {
+        await refetch();
+      } catch {
+        // The query shows its own error; polling carries on (a throw would end VueUse's loop).
+      }
     },
     intervalMs,
     { immediate: false },

@@ -1,0 +1,154 @@
+/**
+ * The admin desk's data: the dashboard, payouts due, reports, the people search, the review desk
+ * and the marketplace settings. Each decision is a mutation that marks what it changed as stale,
+ * so every list that shows it asks again.
+ */
+import { toValue, type MaybeRefOrGetter } from "vue";
+import { useMutation, useQuery, useQueryCache } from "@pinia/colada";
+import {
+  adminEndpoints,
+  payoutEndpoints,
+  reviewEndpoints,
+  type AdminUser,
+  type Answer,
+  type Dashboard,
+  type MarketplaceSettings,
+  type Report,
+  type ReviewDeskItem,
+  type reportStatuses,
+} from "@grainyard/contracts";
+import type { ApiRequestError } from "../api/errors.ts";
+import { rethrow, useClient } from "./api.ts";
+import { queryKeys } from "./keys.ts";
+
+export function useDashboard() {
+  const client = useClient(adminEndpoints);
+  return useQuery<Dashboard, ApiRequestError>({
+    key: queryKeys.admin.dashboard,
+    query: ({ signal }) =>
+      client
+        .getDashboard(undefined, { signal })
+        .then((answer) => answer.dashboard)
+        .catch(rethrow),
+  });
+}
+
+export function usePayoutsDue() {
+  const client = useClient(payoutEndpoints);
+  return useQuery<Answer<typeof payoutEndpoints.payoutsDue>, ApiRequestError>({
+    key: queryKeys.payouts.due,
+    query: ({ signal }) => client.payoutsDue(undefined, { signal }).catch(rethrow),
+  });
+}
+
+export type ReportStatus = (typeof reportStatuses)[number];
+
+export function useReports(status: MaybeRefOrGetter<ReportStatus>) {
+  const client = useClient(adminEndpoints);
+  return useQuery<Report[], ApiRequestError>({
+    key: () => queryKeys.admin.reports(toValue(status)),
+    query: ({ signal }) =>
+      client
+        .listReports({ query: { status: toValue(status) } }, { signal })
+        .then((answer) => answer.reports)
+        .catch(rethrow),
+  });
+}
+
+export function useResolveReport() {
+  const client = useClient(adminEndpoints);
+  const cache = useQueryCache();
+  return useMutation({
+    mutation: (input: { reportId: string; resolution: "dismiss" | "take_down" | "suspend"; note: string }) =>
+      client.resolveReport({ reportId: input.reportId, body: { resolution: input.resolution, note: input.note } }).catch(rethrow),
+    // A take-down or suspension changes the dashboard, the people list and the catalogue too.
+    onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.all }),
+  });
+}
+
+export interface UserFilters {
+  query?: string;
+  role?: "buyer" | "sawyer" | "admin";
+  suspended?: "yes" | "no";
+}
+
+export function useUserSearch(filters: MaybeRefOrGetter<UserFilters>) {
+  const client = useClient(adminEndpoints);
+  return useQuery<AdminUser[], ApiRequestError>({
+    key: () => queryKeys.admin.users({ ...toValue(filters) }),
+    query: ({ signal }) =>
+      client
+        .searchUsers({ query: toValue(filters) }, { signal })
+        .then((list) => list.users)
+        .catch(rethrow),
+    // The last list stays (marked as updating) while a new search is on its way.
+    placeholderData: (previous) => previous,
+  });
+}
+
+export function useSuspendOrRestore() {
+  const client = useClient(adminEndpoints);
+  const cache = useQueryCache();
+  return useMutation({
+    mutation: (input: { accountId: string; action: "suspend" | "restore"; reason: string }) =>
+      (input.action === "suspend"
+        ? client.suspendUser({ accountId: input.accountId, body: { reason: input.reason } })
+        : client.restoreUser({ accountId: input.accountId, body: { reason: input.reason } })
+      ).catch(rethrow),
+    onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.dashboard }),
+  });
+}
+
+export function useReviewDesk() {
+  const client = useClient(reviewEndpoints);
+  return useQuery<ReviewDeskItem[], ApiRequestError>({
+    key: queryKeys.admin.reviewDesk,
+    query: ({ signal }) =>
+      client
+        .reviewDesk(undefined, { signal })
+        .then((answer) => answer.items)
+        .catch(rethrow),
+  });
+}
+
+/** Approve, send back or reject a listing. The desk keeps showing the decided row until it is asked again. */
+export function useReviewDecision() {
+  const client = useClient(reviewEndpoints);
+  const cache = useQueryCache();
+  return useMutation({
+    mutation: (input: { listingId: string; decision: "approved" | "sent_back" | "rejected"; reason?: string }) => {
+      const { listingId, reason = "" } = input;
+      const call =
+        input.decision === "approved"
+          ? client.approveListing({ listingId })
+          : input.decision === "sent_back"
+            ? client.sendBackListing({ listingId, body: { reason } })
+            : client.rejectListing({ listingId, body: { reason } });
+      return call.then(() => undefined).catch(rethrow);
+    },
+    // An approval puts a slab in the catalogue. The open desk is only marked stale: its decided rows stay
+    // on screen with their decision, and the next visit asks again.
+    onSettled: () => {
+      void cache.invalidateQueries({ key: queryKeys.admin.reviewDesk }, false);
+      void cache.invalidateQueries({ key: queryKeys.admin.dashboard });
+      void cache.invalidateQueries({ key: queryKeys.catalogue.all });
+    },
+  });
+}
+
+export function useMarketplaceSettings() {
+  const client = useClient(adminEndpoints);
+  return useQuery<Answer<typeof adminEndpoints.getSettings>, ApiRequestError>({
+    key: queryKeys.admin.settings,
+    query: ({ signal }) => client.getSettings(undefined, { signal }).catch(rethrow),
+  });
+}
+
+export function useUpdateSettings() {
+  const client = useClient(adminEndpoints);
+  const cache = useQueryCache();
+  return useMutation({
+    mutation: (body: Partial<MarketplaceSettings> & { reason: string }) => client.updateSettings({ body }).catch(rethrow),
+    onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.settings }),
+  });
+}
