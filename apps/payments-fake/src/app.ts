@@ -1,5 +1,5 @@
 import express, { type NextFunction, type Request, type Response } from "express";
-import { checkoutPage, messagePage, onboardingPage } from "./pages.ts";
+import { checkoutPage, expiredPage, messagePage, onboardingPage } from "./pages.ts";
 import { newId, nowSeconds, Store, type ProviderObject } from "./store.ts";
 import { WebhookSender, type DeliveryOptions } from "./webhooks.ts";
 
@@ -344,21 +344,14 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     const session = store.get(String(req.params.id), "checkout.session");
     if (!session) return res.status(404).type("html").send(messagePage("Not found", "There is no payment with this address."));
     if (session.status === "complete") return res.redirect(303, successUrl(session));
-    if (session.status !== "open" || (session.expires_at as number) <= nowSeconds()) {
-      return res
-        .status(410)
-        .type("html")
-        .send(messagePage("This payment page has expired", "Go back to the shop and start the purchase again."));
-    }
+    if (!isPayable(session)) return res.status(410).type("html").send(expiredPage(session));
     res.type("html").send(checkoutPage(session));
   });
   app.post("/pay/:id", (req, res) => {
     const session = store.get(String(req.params.id), "checkout.session");
-    if (!session || session.status !== "open")
-      return res
-        .status(410)
-        .type("html")
-        .send(messagePage("This payment page has expired", "Go back to the shop and start the purchase again."));
+    if (!session) return res.status(404).type("html").send(messagePage("Not found", "There is no payment with this address."));
+    if (session.status === "complete") return res.redirect(303, successUrl(session));
+    if (!isPayable(session)) return res.status(410).type("html").send(expiredPage(session));
     const card = String((req.body as Record<string, unknown>).card ?? "").replace(/\D/g, "");
     const rule = TEST_CARDS[card];
     if (!rule)
@@ -447,6 +440,10 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
   function publicSession(session: ProviderObject) {
     const { display_items: _items, payment_intent_data: _data, ...rest } = session;
     return rest;
+  }
+  /** Open and not past its expiry: a declined card leaves it open, so the buyer can try another. */
+  function isPayable(session: ProviderObject): boolean {
+    return session.status === "open" && (session.expires_at as number) > nowSeconds();
   }
   function successUrl(session: ProviderObject): string {
     return String(session.success_url).replace("{CHECKOUT_SESSION_ID}", session.id);

@@ -12,6 +12,7 @@ h1{font-size:1.25rem;margin:.2rem 0 1rem}label{display:block;font-weight:600;mar
 input{width:100%;box-sizing:border-box;font:inherit;padding:.7rem;border:1px solid #9aa5b3;border-radius:6px}
 .row{display:grid;grid-template-columns:1fr 1fr;gap:.75rem}
 button{margin-top:1.1rem;width:100%;min-height:48px;font:inherit;font-weight:700;border:0;border-radius:8px;background:#20606b;color:#fff;cursor:pointer}
+a.button{display:block;text-align:center;padding:.8rem;border-radius:8px;background:#20606b;color:#fff;font-weight:700;text-decoration:none}
 .quiet{background:none;color:#20606b;text-decoration:underline;min-height:auto;margin-top:.75rem}
 .error{background:#fdecea;border:1px solid #e3a49c;color:#8a1f11;border-radius:6px;padding:.6rem .8rem}
 .items{border-top:1px solid #e3e7ec;margin-top:.75rem;padding-top:.5rem}
@@ -50,6 +51,17 @@ export function checkoutPage(session: Record<string, any>, error?: string): stri
 
 export function messagePage(title: string, text: string): string {
   return page(title, `<h1>${escape(title)}</h1><p>${escape(text)}</p>`);
+}
+
+/** A page past its time: says so and leads back to the shop (the session's cancel URL), never a dead end. */
+export function expiredPage(session: Record<string, any>): string {
+  const back = session.cancel_url ? String(session.cancel_url) : null;
+  return page(
+    "This payment page has expired",
+    `<h1>This payment page has expired</h1>
+    <p>Nothing was charged. The time to pay on this page has run out; start the purchase again from the shop.</p>
+    ${back ? `<p><a class="button" href="${escape(back)}" data-test="back-to-shop">Back to the shop</a></p>` : ""}`,
+  );
 }
 
 export function onboardingPage(account: Record<string, any>, returnUrl: string, refreshUrl: string): string {
