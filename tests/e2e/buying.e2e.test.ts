@@ -198,7 +198,7 @@ describe("buying a slab", () => {
     await screenshot(page, "payment-page-declined-1280");
     // The same page takes another card; the buyer first steps out to the order, then comes back.
     expect(await page.locator('[data-test="pay"]').isVisible()).toBe(true);
-    await page.getByRole("button", { name: "Cancel and go back" }).click();
+    await page.locator('[data-test="leave"]').click();
     await expect
       .poll(() => page.locator('[data-test="payment-pending"]').innerText(), { timeout: 15_000 })
       .toMatch(/You left the payment page/);

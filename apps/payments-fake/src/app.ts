@@ -355,7 +355,10 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     const card = String((req.body as Record<string, unknown>).card ?? "").replace(/\D/g, "");
     const rule = TEST_CARDS[card];
     if (!rule)
-      return res.status(402).type("html").send(checkoutPage(session, "Use one of the test cards listed below — no real card works here."));
+      return res
+        .status(402)
+        .type("html")
+        .send(checkoutPage(session, "Use one of the test cards listed below: this is a local test page, and no real card works here."));
     const intent = paymentIntentFor(session);
     if (rule.outcome === "declined") {
       intent.status = "requires_payment_method";
@@ -365,7 +368,7 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
       return res
         .status(402)
         .type("html")
-        .send(checkoutPage(session, `${rule.message} Try another card, or cancel.`));
+        .send(checkoutPage(session, `${rule.message} Nothing was charged. Try another card below, or leave without paying.`));
     }
     intent.status = "succeeded";
     intent.amount_received = intent.amount;
