@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { windowText } from "./mail-templates.ts";
+import { orderStepMail, payoutSentMail, windowText } from "./mail-templates.ts";
 import { timeZoneAt } from "./services/places.ts";
 
 describe("pickup times in e-mails", () => {
@@ -15,5 +15,53 @@ describe("pickup times in e-mails", () => {
     expect(windowText("2026-12-05T14:00:00.000Z", "2026-12-05T16:00:00.000Z", "America/Detroit")).toBe("Sat, 5 Dec 2026, 09:00–11:00 EST");
     expect(windowText("2026-07-04T14:00:00.000Z", "2026-07-04T15:30:00.000Z", "America/Detroit")).toBe("Sat, 4 Jul 2026, 10:00–11:30 EDT");
     expect(windowText("2026-12-05T14:00:00.000Z", "2026-12-05T16:00:00.000Z")).toBe("Sat, 5 Dec 2026, 14:00–16:00 UTC");
+  });
+});
+
+describe("counts in e-mails", () => {
+  const order = {
+    id: "o1",
+    title: "Black cherry top",
+    currency: "USD",
+    priceMinor: 30_000,
+    taxMinor: 0,
+    totalMinor: 30_000,
+    sawyerNetMinor: 27_000,
+    platformFeeMinor: 2_000,
+    processingFeeMinor: 1_000,
+    handover: "pickup" as const,
+    deliveryAddress: null,
+    slabSnapshot: [],
+    pickupWindows: null,
+    pickupAddress: null,
+    pickupStartsAt: null,
+    pickupEndsAt: null,
+    carrier: null,
+    trackingReference: null,
+    handedOverAt: new Date("2026-12-05T15:00:00Z"),
+    completedBy: "automatic" as const,
+    cancelledBy: null,
+    cancelReason: null,
+    status: "handed_over",
+  };
+  const parties = { buyerName: "Ana and Theo Brandt", yardName: "Cobble Lane Slabworks", pickupTown: "Lakemont", yardTimeZone: "UTC" };
+  const buyer = { email: "ana.theo@lakemont-home.test", displayName: "Ana and Theo Brandt" };
+
+  it("says 1 day and 14 days, never 1 days", () => {
+    expect(orderStepMail(buyer, "buyer", "handed_over", order, parties, "http://x/o1", 1).text).toContain(
+      "by itself 1 day after hand-over",
+    );
+    expect(orderStepMail(buyer, "buyer", "handed_over", order, parties, "http://x/o1", 14).text).toContain(
+      "by itself 14 days after hand-over",
+    );
+    expect(orderStepMail(buyer, "buyer", "completed", { ...order, status: "completed" }, parties, "http://x/o1", 1).text).toContain(
+      "1 day has passed since hand-over",
+    );
+  });
+
+  it("counts the orders of a payout", () => {
+    const sawyer = { email: "hello@cobblelane-slabs.test", displayName: "Cobble Lane Slabworks" };
+    expect(payoutSentMail(sawyer, { amountMinor: 27_000, currency: "USD" }, 1, "http://x").text).toContain("for 1 order.");
+    expect(payoutSentMail(sawyer, { amountMinor: 54_000, currency: "USD" }, 2, "http://x").text).toContain("for 2 orders.");
   });
 });

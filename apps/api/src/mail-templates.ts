@@ -1,5 +1,5 @@
 import escape from "escape-html";
-import type { OrderSlabSnapshot } from "@grainyard/contracts";
+import { countOf, type OrderSlabSnapshot } from "@grainyard/contracts";
 import { formatMoney } from "@grainyard/slab-math";
 import type { OutgoingMail } from "./integrations/mail.ts";
 
@@ -298,12 +298,12 @@ export function orderStepMail(
           ? [
               hello,
               `${yard} marked ${title} as handed over to you.`,
-              `Please confirm on the order page that you have it and it is as described. If we hear nothing, the order completes by itself ${autoCompleteDays} days after hand-over.`,
+              `Please confirm on the order page that you have it and it is as described. If we hear nothing, the order completes by itself ${countOf(autoCompleteDays, "day", "days")} after hand-over.`,
             ]
           : [
               hello,
               `You marked ${title} as handed over to ${parties.buyerName}.`,
-              `The order completes when the buyer confirms, or by itself ${autoCompleteDays} days after hand-over.`,
+              `The order completes when the buyer confirms, or by itself ${countOf(autoCompleteDays, "day", "days")} after hand-over.`,
             ];
       break;
     case "completed":
@@ -311,7 +311,7 @@ export function orderStepMail(
       lines = [
         hello,
         order.completedBy === "automatic"
-          ? `${title} is complete: ${autoCompleteDays} days have passed since hand-over.`
+          ? `${title} is complete: ${countOf(autoCompleteDays, "day has", "days have")} passed since hand-over.`
           : role === "buyer"
             ? `Thank you for confirming that you have ${title}. The order is complete.`
             : `${parties.buyerName} confirmed receiving ${title}. The order is complete.`,
@@ -424,7 +424,7 @@ export function payoutSentMail(
     ...layout(
       [
         `Hello ${sawyer.displayName},`,
-        `We sent ${formatMoney(payout.amountMinor, payout.currency)} to your payout account, for ${orderCount === 1 ? "one order" : `${orderCount} orders`}.`,
+        `We sent ${formatMoney(payout.amountMinor, payout.currency)} to your payout account, for ${countOf(orderCount, "order", "orders")}.`,
         "Your payouts page has the statement of the orders it covers; it can take a few working days to reach your bank.",
       ],
       { label: "See the statement", url: link },

@@ -161,7 +161,10 @@ describe("hosted checkout and test cards", () => {
       metadata: { order_id: "order-1" },
     });
     const pageHtml = await (await fetch(session.url!)).text();
-    expect(pageHtml).toContain("TEST MODE");
+    // Grainyard's own page, marked as a local test page where no card is charged.
+    expect(pageHtml).toContain("Local test page");
+    expect(pageHtml).toContain("No card is charged");
+    expect(pageHtml).not.toMatch(/TEST MODE/i);
     expect(pageHtml).toContain("$485.00");
     const res = await pay(session.id, "4242 4242 4242 4242");
     expect(res.status).toBe(303);
@@ -199,12 +202,42 @@ describe("hosted checkout and test cards", () => {
     expect(failure.last_payment_error?.code).toBe("insufficient_funds");
   });
 
-  it("expires an open session once, with an event; its page then says so", async () => {
+  it("after a declined card, another card in the same session pays", async () => {
+    const session = await newSession();
+    const declined = await pay(session.id, "4000 0000 0000 0002");
+    expect(declined.status).toBe(402);
+    const again = await declined.text();
+    // The answer is the same page again, ready for another card.
+    expect(again).toContain("Try another card");
+    expect(again).toContain(`action="/pay/${session.id}"`);
+    const paid = await pay(session.id, "4242 4242 4242 4242");
+    expect(paid.status).toBe(303);
+    const done = await sdk.checkout.sessions.retrieve(session.id);
+    expect(done).toMatchObject({ status: "complete", payment_status: "paid" });
+    // One payment intent carried both tries: the decline first, then the success.
+    const intent = await sdk.paymentIntents.retrieve(String(done.payment_intent));
+    expect(intent).toMatchObject({ status: "succeeded", amount_received: 48_500, last_payment_error: null });
+    await waitFor(() => events("checkout.session.completed").some((e) => (e.data.object as Stripe.Checkout.Session).id === session.id));
+    // A paid page sends the buyer on to the success URL rather than taking a second payment.
+    expect((await pay(session.id, "4242 4242 4242 4242")).headers.get("location")).toContain("/orders/o1");
+  });
+
+  it("expires an open session once, with an event; its page then says so and links back to the shop", async () => {
     const session = await newSession();
     const expired = await sdk.checkout.sessions.expire(session.id);
     expect(expired.status).toBe("expired");
     await expect(sdk.checkout.sessions.expire(session.id)).rejects.toMatchObject({ statusCode: 400 });
-    expect((await fetch(session.url!)).status).toBe(410);
+    const page = await fetch(session.url!);
+    expect(page.status).toBe(410);
+    const expiredHtml = await page.text();
+    expect(expiredHtml).toMatch(/href="http:\/\/127\.0\.0\.1:5080\/slabs\/l1"[^>]*data-test="back-to-shop"/);
+    expect(expiredHtml).toContain("Local test page");
+    expect((await pay(session.id, "4242 4242 4242 4242")).status).toBe(410);
+    // Past its time (still "open" in the store): the same page, and no payment taken.
+    const late = await newSession({ expires_at: Math.floor(Date.now() / 1000) - 5 });
+    expect((await fetch(late.url!)).status).toBe(410);
+    expect((await pay(late.id, "4242 4242 4242 4242")).status).toBe(410);
+    expect((await sdk.checkout.sessions.retrieve(late.id)).payment_status).toBe("unpaid");
     await waitFor(() => events("checkout.session.expired").some((e) => (e.data.object as Stripe.Checkout.Session).id === session.id));
   });
 

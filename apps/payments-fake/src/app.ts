@@ -1,5 +1,5 @@
 import express, { type NextFunction, type Request, type Response } from "express";
-import { checkoutPage, messagePage, onboardingPage } from "./pages.ts";
+import { checkoutPage, expiredPage, messagePage, onboardingPage } from "./pages.ts";
 import { newId, nowSeconds, Store, type ProviderObject } from "./store.ts";
 import { WebhookSender, type DeliveryOptions } from "./webhooks.ts";
 
@@ -344,25 +344,21 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
     const session = store.get(String(req.params.id), "checkout.session");
     if (!session) return res.status(404).type("html").send(messagePage("Not found", "There is no payment with this address."));
     if (session.status === "complete") return res.redirect(303, successUrl(session));
-    if (session.status !== "open" || (session.expires_at as number) <= nowSeconds()) {
-      return res
-        .status(410)
-        .type("html")
-        .send(messagePage("This payment page has expired", "Go back to the shop and start the purchase again."));
-    }
+    if (!isPayable(session)) return res.status(410).type("html").send(expiredPage(session));
     res.type("html").send(checkoutPage(session));
   });
   app.post("/pay/:id", (req, res) => {
     const session = store.get(String(req.params.id), "checkout.session");
-    if (!session || session.status !== "open")
-      return res
-        .status(410)
-        .type("html")
-        .send(messagePage("This payment page has expired", "Go back to the shop and start the purchase again."));
+    if (!session) return res.status(404).type("html").send(messagePage("Not found", "There is no payment with this address."));
+    if (session.status === "complete") return res.redirect(303, successUrl(session));
+    if (!isPayable(session)) return res.status(410).type("html").send(expiredPage(session));
     const card = String((req.body as Record<string, unknown>).card ?? "").replace(/\D/g, "");
     const rule = TEST_CARDS[card];
     if (!rule)
-      return res.status(402).type("html").send(checkoutPage(session, "Use one of the test cards listed below — no real card works here."));
+      return res
+        .status(402)
+        .type("html")
+        .send(checkoutPage(session, "Use one of the test cards listed below: this is a local test page, and no real card works here."));
     const intent = paymentIntentFor(session);
     if (rule.outcome === "declined") {
       intent.status = "requires_payment_method";
@@ -372,7 +368,7 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
       return res
         .status(402)
         .type("html")
-        .send(checkoutPage(session, `${rule.message} Try another card, or cancel.`));
+        .send(checkoutPage(session, `${rule.message} Nothing was charged. Try another card below, or leave without paying.`));
     }
     intent.status = "succeeded";
     intent.amount_received = intent.amount;
@@ -447,6 +443,10 @@ export function createPaymentsFakeApp(options: PaymentsFakeOptions) {
   function publicSession(session: ProviderObject) {
     const { display_items: _items, payment_intent_data: _data, ...rest } = session;
     return rest;
+  }
+  /** Open and not past its expiry: a declined card leaves it open, so the buyer can try another. */
+  function isPayable(session: ProviderObject): boolean {
+    return session.status === "open" && (session.expires_at as number) > nowSeconds();
   }
   function successUrl(session: ProviderObject): string {
     return String(session.success_url).replace("{CHECKOUT_SESSION_ID}", session.id);

@@ -5,6 +5,8 @@ export * from "./endpoints/index.ts";
 export * from "./accounts.ts";
 export * from "./health.ts";
 export * from "./yard.ts";
+export * from "./slab-labels.ts";
+export * from "./plurals.ts";
 export * from "./listings.ts";
 export * from "./catalogue.ts";
 export * from "./order-lifecycle.ts";

@@ -5,7 +5,9 @@
  * the web reads the same sets to draw an order.
  *
  * In short: "Buy" makes an order awaiting payment (the slab held); the provider's word makes it
- * paid (or payment_failed / expired, the slab back on sale). A pickup order becomes ready for
+ * paid, or expired when the hold runs out (the slab back on sale). A declined card changes nothing:
+ * the buyer may try another card on the same page while the hold lasts. (payment_failed is kept
+ * for orders stored before that rule; no transition leads there now.) A pickup order becomes ready for
  * pickup when the sawyer proposes windows, a freight order shipped; either is then handed over and
  * completed (by the buyer, or by itself some days later). Before hand-over either side may cancel;
  * the refund then makes it refunded. An admin may refund a paid order for a dispute.
@@ -81,8 +83,6 @@ export const orderTransitions = {
   confirmPayment: { from: sets.paymentMayArrive, to: "paid", by: ["system"] },
   /** The payment arrived after the slab was sold to someone else: the money goes straight back. */
   refundLatePayment: { from: sets.paymentMayArrive, to: "refunded", by: ["system"] },
-  /** The provider refused the card; the slab goes back on sale. */
-  failPayment: { from: sets.awaitingPayment, to: "payment_failed", by: ["system"] },
   /** The hold ran out (the sweep, the provider's expiry), or an admin suspended the buyer. */
   expireReservation: { from: sets.awaitingPayment, to: "expired", by: ["system", "admin"] },
   /** The provider could not be reached to open the payment page, so nothing stays reserved. */

@@ -97,6 +97,8 @@ export const orderSchema = z.object({
   handover: z.enum(["pickup", "freight"]),
   deliveryAddress: z.string().nullable(),
   reservedUntil: z.string(),
+  /** The provider's payment page, for the buyer while the order awaits payment (a declined card may be retried there). */
+  paymentPageUrl: z.string().nullable(),
   paidAt: z.string().nullable(),
   slabs: z.array(orderSlabSnapshotSchema),
   sawyerShare: z.object({ platformFeeMinor: z.number(), processingFeeMinor: z.number(), sawyerNetMinor: z.number() }).nullable(),

@@ -46,6 +46,17 @@ const wholeMillimetres = (label: string, min: number, max: number) =>
     .min(min, `The ${label} must be at least ${min} mm.`)
     .max(max, `The ${label} must be at most ${max} mm.`);
 
+/**
+ * A slab measurement in millimetres as entered: fractions allowed, kept to six decimals (the
+ * stored scale), which is exact for millimetre entries and for inches down to 1/64″.
+ */
+const exactMillimetres = (label: string, min: number, max: number) =>
+  z
+    .number({ error: `Give the ${label} in millimetres.` })
+    .min(min, `The ${label} must be at least ${min} mm.`)
+    .max(max, `The ${label} must be at most ${max} mm.`)
+    .transform((mm) => Math.round(mm * 1_000_000) / 1_000_000);
+
 export const speciesSlugSchema = z
   .string({ error: "Choose the species." })
   .trim()
@@ -105,10 +116,10 @@ const slabFields = {
   logId: z.string().uuid("Choose one of your logs.").nullable(),
   sequenceInLog: z.number().int("Use a whole number.").min(1, "Slabs are numbered from 1.").max(200).nullable(),
   speciesSlug: speciesSlugSchema,
-  lengthMm: wholeMillimetres("length", 200, 12_000),
-  thicknessMm: wholeMillimetres("thickness", 10, 600),
+  lengthMm: exactMillimetres("length", 200, 12_000),
+  thicknessMm: exactMillimetres("thickness", 10, 600),
   widthStationsMm: z
-    .array(wholeMillimetres("width", 50, 3_000), { error: "Measure the width at two or more points." })
+    .array(exactMillimetres("width", 50, 3_000), { error: "Measure the width at two or more points." })
     .min(2, "Measure the width at two or more points along the slab.")
     .max(25, "Twenty-five width measurements are plenty."),
   liveEdge: z.enum(liveEdges, { error: "Choose the edges." }),

@@ -2,6 +2,7 @@ import convert from "convert-units";
 import { describe, expect, it } from "vitest";
 import { SlabMathError } from "./errors.ts";
 import { boardFeet, slabGeometry } from "./geometry.ts";
+import { parseInches } from "./units.ts";
 
 describe("boardFeet — NHLA rule: 1 board foot = 144 in³ (1 in × 12 in × 1 ft)", () => {
   it("NHLA definition: 1 in × 12 in × 12 in is exactly 1 bf", () => {
@@ -68,6 +69,22 @@ describe("slabGeometry", () => {
     const result = slabGeometry({ lengthMm: 3048, thicknessMm: 50.8, widthStationsMm: [508, 508] });
     expect(result.boardFeet).toBeCloseTo(boardFeet(2, 20, 10), 9);
     expect(result.boardFeet).toBeCloseTo(100 / 3, 9);
+  });
+
+  it("a slab entered in inches, 2¼″ × 25″ × 96½″, is the sawyer's hand figure of 37.7 bf when kept as entered", () => {
+    // Hand calculation with the NHLA rule (board feet = T × W × L in inches / 144):
+    // 2.25 × 25 × 96.5 / 144 = 5428.125 / 144 = 37.6953… → 37.7 bf. 1 in = 25.4 mm exactly (NIST SP 811, B.8).
+    const asEntered = {
+      lengthMm: parseInches("96 1/2"),
+      thicknessMm: parseInches("2 1/4"),
+      widthStationsMm: [parseInches("25"), parseInches("25")],
+    };
+    const result = slabGeometry(asEntered);
+    expect(result.boardFeet).toBeCloseTo((2.25 * 25 * 96.5) / 144, 9);
+    expect(result.boardFeet.toFixed(1)).toBe("37.7");
+    // Rounded to whole millimetres (57 mm, 2451 mm) the same slab came out 37.6 bf: the defect this guards against.
+    const rounded = slabGeometry({ lengthMm: 2451, thicknessMm: 57, widthStationsMm: [635, 635] });
+    expect(rounded.boardFeet.toFixed(1)).toBe("37.6");
   });
 
   it("accepts a station of 0 (a pointed end) but not an all-zero slab", () => {

@@ -8,6 +8,8 @@ import { YardLogEntity } from "./yard-log.ts";
  * board feet, widths, weight) are a cache that the slab service recomputes with slab-math on
  * every write that changes their inputs.
  */
+const exactMillimetres = { to: (value: number) => value, from: (value: string | number) => Number(value) };
+
 @Entity({ name: "slab" })
 @Index("idx_slab_sawyer", ["sawyerId", "createdAt"])
 @Index("idx_slab_log", ["logId", "sequenceInLog"])
@@ -35,10 +37,15 @@ export class SlabEntity {
   @Column({ name: "species_slug", type: "varchar", length: 64 })
   speciesSlug: string;
 
-  @Column({ name: "length_mm", type: "int" })
+  /**
+   * Length and thickness exactly as entered: millimetres to six decimals, which hold any entry in
+   * millimetres (612.5) or in inches down to 1/64″ (2¼″ = 57.15 mm) without rounding, so board feet
+   * and price match a hand calculation in either unit system. DECIMAL comes back as text: read as a number.
+   */
+  @Column({ name: "length_mm", type: "decimal", precision: 12, scale: 6, transformer: exactMillimetres })
   lengthMm: number;
 
-  @Column({ name: "thickness_mm", type: "int" })
+  @Column({ name: "thickness_mm", type: "decimal", precision: 12, scale: 6, transformer: exactMillimetres })
   thicknessMm: number;
 
   @Column({ name: "width_stations_mm", type: "simple-json" })
@@ -87,10 +94,10 @@ export class SlabEntity {
   @Column({ name: "average_width_mm", type: "double" })
   averageWidthMm: number;
 
-  @Column({ name: "min_width_mm", type: "int" })
+  @Column({ name: "min_width_mm", type: "double" })
   minWidthMm: number;
 
-  @Column({ name: "max_width_mm", type: "int" })
+  @Column({ name: "max_width_mm", type: "double" })
   maxWidthMm: number;
 
   @Column({ name: "weight_kg", type: "double" })

@@ -55,3 +55,7 @@ migrations.push(RateLimits1764792000000);
 // The catalogue's set weights named apart: the whole set's high end beside the heaviest slab's.
 import { CatalogueSetWeights1764802800000 } from "./1764802800000-catalogue-set-weights.ts";
 migrations.push(CatalogueSetWeights1764802800000);
+
+// A slab's length and thickness as entered (millimetres to six decimals), so 2¼″ stays 57.15 mm.
+import { SlabMeasurementsAsEntered1764986400000 } from "./1764986400000-slab-measurements-as-entered.ts";
+migrations.push(SlabMeasurementsAsEntered1764986400000);

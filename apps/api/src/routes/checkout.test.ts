@@ -4,7 +4,7 @@ import sharp from "sharp";
 import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { signatureHeader, type PaymentsFakeApp } from "@grainyard/payments-fake";
-import { LedgerEntryEntity, ListingEntity, OrderEntity, OrderRefundEntity } from "../entities/index.ts";
+import { LedgerEntryEntity, ListingEntity, OrderEntity, OrderRefundEntity, PaymentEventEntity } from "../entities/index.ts";
 import {
   expectLedgerBalanced,
   listenForWebhooks,
@@ -255,16 +255,58 @@ describe("buying a slab", () => {
     expect(await listingStatus(listingId)).toBe("reserved");
   });
 
-  it("a declined card releases the slab for others", async () => {
+  it("a declined card is not the end: the page stays open, the slab stays held, and another card in the same session pays", async () => {
     const listingId = await liveListing(70_000);
     const buyer = await ctx.signedInClient("buyer");
     const { body } = await buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" });
     const declined = await pay(body.checkoutUrl, "4000 0000 0000 0002");
     expect(declined.status).toBe(402);
-    await until(async () => (await orderOf(body.order.id)).status === "payment_failed");
-    expect(await listingStatus(listingId)).toBe("live");
+    expect(await declined.text()).toMatch(/declined[\s\S]*Try another card/);
+    // The provider's payment_failed event reached the API and was handled (recorded once) …
+    await fake.webhooks.settled();
+    const recorded = await ctx.dataSource.getRepository(PaymentEventEntity).findBy({ type: "payment_failed" });
+    expect(recorded.some((event) => JSON.parse(event.payload).orderId === body.order.id)).toBe(true);
+    // … and changed nothing: the order still awaits payment, the slab is held, the page is open.
+    expect((await orderOf(body.order.id)).status).toBe("awaiting_payment");
+    expect(await listingStatus(listingId)).toBe("reserved");
+    const sessionId = (await orderOf(body.order.id)).checkoutSessionId!;
+    expect(fake.store.get(sessionId)?.status).toBe("open");
+    // The buyer's order offers the way back to that same page; another buyer meets the hold.
+    expect((await buyer.get(`/api/v1/orders/${body.order.id}`)).body.order.paymentPageUrl).toBe(body.checkoutUrl);
     const another = await ctx.signedInClient("buyer");
-    expect((await another.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" })).status).toBe(201);
+    expect((await another.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" })).status).toBe(409);
+
+    const paid = await pay(body.checkoutUrl, "4242 4242 4242 4242");
+    expect(paid.status).toBe(303);
+    await until(async () => (await orderOf(body.order.id)).status === "paid");
+    expect(await listingStatus(listingId)).toBe("sold");
+    expect((await buyer.get(`/api/v1/orders/${body.order.id}`)).body.order.paymentPageUrl).toBeNull();
+    await ledgerSumsToZero();
+  });
+
+  it("a payment page whose time ran out says so and links back to the order (expired, so the web offers the slab again)", async () => {
+    const listingId = await liveListing(33_000);
+    const buyer = await ctx.signedInClient("buyer");
+    const { body } = await buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" });
+    await pay(body.checkoutUrl, "4000 0000 0000 0002");
+    clock.advance(16 * 60_000);
+    try {
+      const app = ctx.app as unknown as { checkout: { sweepExpiredReservations(): Promise<number> } };
+      expect(await app.checkout.sweepExpiredReservations()).toBeGreaterThanOrEqual(1);
+    } finally {
+      clock.advance(-16 * 60_000);
+    }
+    expect((await orderOf(body.order.id)).status).toBe("expired");
+    expect(await listingStatus(listingId)).toBe("live");
+    const page = await fetch(body.checkoutUrl);
+    expect(page.status).toBe(410);
+    const html = await page.text();
+    expect(html).toContain("This payment page has expired");
+    const back = /href="([^"]+)"[^>]*data-test="back-to-shop"/.exec(html)?.[1];
+    expect(back).toMatch(new RegExp(`/orders/${body.order.id}\\?cancelled=1$`));
+    // A card tried on the expired page changes nothing.
+    expect((await pay(body.checkoutUrl, "4242 4242 4242 4242")).status).toBe(410);
+    expect((await orderOf(body.order.id)).status).toBe("expired");
   });
 
   it("releases a reservation whose time ran out (the sweep), and a second sweep changes nothing", async () => {

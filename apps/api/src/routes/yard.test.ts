@@ -107,6 +107,28 @@ describe("slabs and their figures", () => {
     expect(stored.weightKg).not.toBe(1);
   });
 
+  it("keeps measurements as entered: 2¼″ × 25″ × 96½″ stays 57.15 × 635 × 2451.1 mm and is the hand figure, 37.7 bf, priced like it", async () => {
+    // Hand calculation (NHLA rule, 1 bf = 144 in³): 2.25 × 25 × 96.5 / 144 = 37.6953 bf; at $28.00/bf that is $1,055.47.
+    // 1 in = 25.4 mm exactly (NIST SP 811, B.8), so the entry in millimetres is 57.15, 635 and 2451.1.
+    const res = await sawyer.post("/api/v1/yard/slabs", slabInput({ thicknessMm: 57.15, lengthMm: 2451.1, widthStationsMm: [635, 635] }));
+    expect(res.status).toBe(201);
+    expect(res.body.slab).toMatchObject({ thicknessMm: 57.15, lengthMm: 2451.1, widthStationsMm: [635, 635] });
+    expect(res.body.slab.figures.boardFeet).toBeCloseTo((2.25 * 25 * 96.5) / 144, 6);
+    expect(res.body.slab.figures.boardFeet.toFixed(1)).toBe("37.7");
+    // Read back from MariaDB, not only from the answer.
+    const stored = await ctx.dataSource.getRepository(SlabEntity).findOneByOrFail({ id: res.body.slab.id });
+    expect([stored.thicknessMm, stored.lengthMm]).toEqual([57.15, 2451.1]);
+    expect((await sawyer.get(`/api/v1/yard/slabs/${res.body.slab.id}`)).body.slab.thicknessMm).toBe(57.15);
+    const listing = await sawyer.post("/api/v1/yard/listings", {
+      title: "Hand-checked white oak",
+      slabIds: [res.body.slab.id],
+      priceMode: "per_board_foot",
+      rateMinor: 2_800,
+    });
+    expect(listing.status).toBe(201);
+    expect(listing.body.listing.figures.priceMinor).toBe(105_547);
+  });
+
   it("weighs white oak at 12 % MC like the Wood Handbook's density (Table 5-3a: SG 0.68 at 12 %), within 5 %", async () => {
     const res = await sawyer.post("/api/v1/yard/slabs", slabInput());
     const { figures } = res.body.slab;

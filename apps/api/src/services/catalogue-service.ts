@@ -301,10 +301,11 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         speciesSlug: slabs[0]!.speciesSlug,
         setKind: listing.setKind,
         slabCount: slabs.length,
-        lengthMm: Math.min(...slabs.map((s) => s.lengthMm)),
-        thicknessMm: Math.min(...slabs.map((s) => s.thicknessMm)),
+        // The catalogue filters in whole millimetres: each figure rounded down (a slab never claims more than it has).
+        lengthMm: Math.floor(Math.min(...slabs.map((s) => s.lengthMm))),
+        thicknessMm: Math.floor(Math.min(...slabs.map((s) => s.thicknessMm))),
         averageWidthMm: Math.round(Math.min(...slabs.map((s) => s.averageWidthMm))),
-        minWidthMm: Math.min(...slabs.map((s) => s.minWidthMm)),
+        minWidthMm: Math.floor(Math.min(...slabs.map((s) => s.minWidthMm))),
         ...usableTop(slabs),
         moisturePct: allRead ? Math.max(...(moistures as number[])) : null,
         ready:

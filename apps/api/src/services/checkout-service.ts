@@ -83,7 +83,7 @@ export function createCheckoutService(deps: {
   async function release(
     manager: EntityManager,
     order: Pick<OrderEntity, "id" | "listingId">,
-    transition: Extract<OrderTransitionName, "expireReservation" | "failPayment" | "dropUnopenedCheckout">,
+    transition: Extract<OrderTransitionName, "expireReservation" | "dropUnopenedCheckout">,
   ) {
     const updated = await manager
       .getRepository(OrderEntity)
@@ -264,14 +264,12 @@ export function createCheckoutService(deps: {
           case "checkout_expired":
             return (await release(manager, order, "expireReservation")) ? ("handled" as const) : ("ignored" as const);
           case "payment_failed":
-            return (await release(manager, order, "failPayment")) ? ("handled" as const) : ("ignored" as const);
+            // A declined card is not the end: the hosted page lets the buyer try another card in the
+            // same session, so the order keeps its hold until the reservation runs out (the sweep, or
+            // the provider's expiry of the page) or a payment arrives. The event is recorded above.
+            return order.status === OPEN_PAYMENT ? ("handled" as const) : ("ignored" as const);
         }
       });
-      if (event.kind === "payment_failed" && outcome === "handled") {
-        // The hosted page would let the buyer try another card; the slab is free again, so close it.
-        const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: event.orderId });
-        if (order?.checkoutSessionId) await payments.expireCheckout(order.checkoutSessionId).catch(() => undefined);
-      }
       if (paidOrder) await mailPaid(paidOrder);
       return outcome;
     },

@@ -89,26 +89,36 @@ describe("a paid order, step by step", () => {
 });
 
 describe("paying", () => {
-  it("a declined card frees the slab and closes the hosted page; the provider down at Buy leaves nothing reserved", async () => {
+  it("a declined card keeps the hold and the hosted page open for another card; the provider down at Buy leaves nothing reserved", async () => {
     const sawyer = await h.person("sawyer");
     const buyer = await h.person("buyer");
     const listingId = await h.liveListing(sawyer, 30_000);
     const { order } = await h.checkout.checkout(buyer, listingId, { handover: "pickup" });
     const checkoutId = (await h.orderOf(order.id)).checkoutSessionId!;
     expect(h.payments.checkouts.get(checkoutId)).toMatchObject({ amountMinor: 31_500, currency: "USD", status: "open" });
-    expect(await h.checkout.handleEvent(h.payments.decline(checkoutId))).toBe("handled");
-    expect((await h.orderOf(order.id)).status).toBe("payment_failed");
-    expect(await listingStatus(listingId)).toBe("live");
-    expect(h.payments.checkouts.get(checkoutId)!.status).toBe("expired");
+    const declined = h.payments.decline(checkoutId);
+    expect(await h.checkout.handleEvent(declined)).toBe("handled");
+    expect(await h.checkout.handleEvent(declined)).toBe("duplicate");
+    expect((await h.orderOf(order.id)).status).toBe("awaiting_payment");
+    expect(await listingStatus(listingId)).toBe("reserved");
+    expect(h.payments.checkouts.get(checkoutId)!.status).toBe("open");
+    // The second card goes through on the same page.
+    expect(await h.checkout.handleEvent(h.payments.pay(checkoutId))).toBe("handled");
+    expect((await h.orderOf(order.id)).status).toBe("paid");
+    expect(await listingStatus(listingId)).toBe("sold");
+    // A decline reported after the payment changes nothing.
+    expect(await h.checkout.handleEvent({ ...declined, eventId: "evt_late_decline" })).toBe("ignored");
+    expect((await h.orderOf(order.id)).status).toBe("paid");
 
+    const other = await h.liveListing(sawyer, 30_000);
     h.payments.down = true;
     try {
-      await expect(h.checkout.checkout(buyer, listingId, { handover: "pickup" })).rejects.toBeInstanceOf(ServiceUnavailable);
+      await expect(h.checkout.checkout(buyer, other, { handover: "pickup" })).rejects.toBeInstanceOf(ServiceUnavailable);
     } finally {
       h.payments.down = false;
     }
-    expect(await listingStatus(listingId)).toBe("live");
-    expect(await h.checkout.ordersOfListing(listingId)).toEqual([]);
+    expect(await listingStatus(other)).toBe("live");
+    expect(await h.checkout.ordersOfListing(other)).toEqual([]);
   });
 
   it("the webhook route verifies through the port: a signed event is handled once; an unsigned or altered one is refused and changes nothing", async () => {

@@ -89,6 +89,7 @@ export function orderView(order: OrderEntity, actor: Actor, parties: Parties | u
     handover: order.handover,
     deliveryAddress: order.deliveryAddress,
     reservedUntil: order.reservedUntil.toISOString(),
+    paymentPageUrl: viewerIs === "buyer" && order.status === "awaiting_payment" ? order.checkoutUrl : null,
     paidAt: iso(order.paidAt),
     slabs: order.slabSnapshot,
     sawyerShare: seesShare

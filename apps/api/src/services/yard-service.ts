@@ -8,6 +8,7 @@ import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { computeSlabFigures, dryingStateOf, projectionView, slabFiguresView } from "./figures.ts";
 import type { DomainEventBus } from "../events.ts";
+import { countOf } from "@grainyard/contracts";
 
 /** Listing states in which a slab's measurements are locked (a reviewer or buyer relies on them). */
 const LOCKING_STATUSES = ["in_review", "live", "reserved", "sold"] as const;
@@ -213,7 +214,8 @@ export function createYardService(deps: YardServiceDependencies) {
       await dataSource.transaction(async (manager) => {
         await ownLog(manager, sawyer.accountId, logId);
         const slabCount = await manager.getRepository(SlabEntity).countBy({ logId });
-        if (slabCount > 0) throw new Conflict(`This log still has ${slabCount} slab(s). Delete or move them first.`, "log_has_slabs");
+        if (slabCount > 0)
+          throw new Conflict(`This log still has ${countOf(slabCount, "slab", "slabs")}. Delete or move them first.`, "log_has_slabs");
         await manager.getRepository(YardLogEntity).delete({ id: logId });
       });
     },

@@ -56,6 +56,7 @@ describe("unitFormatter: reading what was typed", () => {
   it("reads millimetres as whole millimetres", () => {
     expect(metric.parseLength("612")).toEqual({ ok: true, mm: 612 });
     expect(metric.parseLength("612,6")).toEqual({ ok: true, mm: 613 });
+    expect(metric.parseLength("612,6", "width", { exact: true })).toEqual({ ok: true, mm: 612.6 });
     expect(metric.parseLength("")).toEqual({ ok: "empty" });
     expect(metric.parseLength("six hundred", "width")).toEqual({ ok: false, message: "Type the width in millimetres, like 612." });
   });
@@ -65,6 +66,10 @@ describe("unitFormatter: reading what was typed", () => {
     expect(imperial.parseLength("24 1/8")).toEqual({ ok: true, mm: 613 });
     expect(imperial.parseLength("24-1/8″")).toEqual({ ok: true, mm: 613 });
     expect(imperial.parseLength("2.25")).toEqual({ ok: true, mm: 57 });
+    // A slab's measurements are kept as entered: 2 1/4″ is 57.15 mm (25.4 mm to the inch, exact by definition).
+    expect(imperial.parseLength("2 1/4", "thickness", { exact: true })).toEqual({ ok: true, mm: 57.15 });
+    expect(imperial.parseLength("96 1/2", "length", { exact: true })).toEqual({ ok: true, mm: 2451.1 });
+    expect(imperial.parseLength("24 1/64", "width", { exact: true })).toEqual({ ok: true, mm: 609.996875 });
     const wrong = imperial.parseLength("2 1/", "thickness");
     expect(wrong.ok).toBe(false);
   });
@@ -77,7 +82,9 @@ describe("unitFormatter: reading what was typed", () => {
 
   it("rewrites typed lengths when the units change, and leaves unreadable text alone", () => {
     expect(convertLengthText("2438.4", "metric", "imperial")).toBe("96");
-    expect(convertLengthText("2 1/4", "imperial", "metric")).toBe("57");
+    // Exactly, so switching back and forth loses nothing: 2 1/4″ is 57.15 mm and 57.15 mm is 2 1/4″.
+    expect(convertLengthText("2 1/4", "imperial", "metric")).toBe("57.15");
+    expect(convertLengthText("57.15", "metric", "imperial")).toBe("2 1/4");
     expect(convertLengthText("abc", "metric", "imperial")).toBe("abc");
   });
 });

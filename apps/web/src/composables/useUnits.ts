@@ -14,6 +14,8 @@ const whole = new Intl.NumberFormat("en", { maximumFractionDigits: 0 });
 const oneDecimal = new Intl.NumberFormat("en", { minimumFractionDigits: 1, maximumFractionDigits: 1 });
 const twoDecimals = new Intl.NumberFormat("en", { minimumFractionDigits: 2, maximumFractionDigits: 2 });
 const threeDecimals = new Intl.NumberFormat("en", { minimumFractionDigits: 3, maximumFractionDigits: 3 });
+/** Millimetres kept to six decimals: exact for what people type, free of binary noise (2.25 × 25.4). */
+const asEntered = (mm: number) => Math.round(mm * 1_000_000) / 1_000_000;
 
 export type ParsedLength = { ok: true; mm: number } | { ok: false; message: string } | { ok: "empty" };
 
@@ -76,15 +78,18 @@ export function unitFormatter(system: UnitSystem) {
   }
 
   /**
-   * Reads a typed length in the person's units as whole millimetres (what the API stores).
+   * Reads a typed length in the person's units as whole millimetres, or with `exact` (a slab's
+   * measurements, which the API stores as entered) to six decimals: 2 1/4″ is 57.15 mm, not 57, so
+   * board feet and price match a hand calculation.
    * Metric: "612" or "612.5"; imperial: "24", "24 1/8", "24-1/8", "24.125" (slab-math parseInches).
    */
-  function parseLength(text: string, label = "length"): ParsedLength {
+  function parseLength(text: string, label = "length", options: { exact?: boolean } = {}): ParsedLength {
+    const toMm = options.exact ? asEntered : Math.round;
     const trimmed = text.trim();
     if (trimmed === "") return { ok: "empty" };
     if (imperial) {
       try {
-        return { ok: true, mm: Math.round(parseInches(trimmed, label)) };
+        return { ok: true, mm: toMm(parseInches(trimmed, label)) };
       } catch (error) {
         if (error instanceof SlabMathError) return { ok: false, message: `Type the ${label} in inches, like 24 1/8 or 24.125.` };
         throw error;
@@ -94,7 +99,7 @@ export function unitFormatter(system: UnitSystem) {
     if (!Number.isFinite(value) || !/^\d+(?:[.,]\d+)?$/.test(trimmed)) {
       return { ok: false, message: `Type the ${label} in millimetres, like 612.` };
     }
-    return { ok: true, mm: Math.round(value) };
+    return { ok: true, mm: toMm(value) };
   }
 
   return {
@@ -132,6 +137,6 @@ export function useUnits() {
 /** Rewrites a typed length when the person switches units (an unreadable entry is left alone). */
 export function convertLengthText(text: string, from: UnitSystem, to: UnitSystem): string {
   if (from === to) return text;
-  const parsed = unitFormatter(from).parseLength(text);
+  const parsed = unitFormatter(from).parseLength(text, "length", { exact: true });
   return parsed.ok === true ? unitFormatter(to).lengthToInput(parsed.mm) : text;
 }

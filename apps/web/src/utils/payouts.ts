@@ -13,6 +13,7 @@ import {
   type PayoutDue,
   type PayoutStatus,
   type SawyerBalance,
+  countOf,
 } from "@grainyard/contracts";
 import { formatMoney, minorToInput, parseMoneyInput } from "@grainyard/slab-math";
 import { hasErrorCode } from "../api/errors.ts";
@@ -55,7 +56,7 @@ export function accountCard(state: PayoutAccountState): AccountCard {
 
 /** How long money waits after hand-over, in plain words. */
 export function holdExplanation(holdDays: number): string {
-  const days = holdDays === 1 ? "1 day" : `${holdDays} days`;
+  const days = countOf(holdDays, "day", "days");
   return `Money from a sale stays pending until the slab is handed over to the buyer, then for ${days} more, in case something went wrong on the way. After that it is available, and a Grainyard admin approves the payout.`;
 }
 

@@ -1,5 +1,5 @@
 import { findSpeciesBySlug } from "@grainyard/slab-math";
-import type { DryingProjectionView, DryingState, Log, Slab } from "@grainyard/contracts";
+import type { DryingProjectionView, DryingState, ListingStatus, Log, Slab } from "@grainyard/contracts";
 import { formatDate } from "./format.ts";
 
 /** "Black walnut"; an unknown slug is shown as it came. */
@@ -17,6 +17,26 @@ export const dryingStateLabels: Record<DryingState, string> = {
   ready: "Ready",
   over_dried: "Below 6 %",
 };
+
+/** Listings whose slabs are no longer on offer: sold, or held while a buyer pays. */
+const notOnOffer: readonly ListingStatus[] = ["sold", "reserved"];
+
+/** Dry enough and still the sawyer's to sell (not sold, not held for a buyer). */
+export function isReadyToSell(slab: Pick<Slab, "dryingState">, listingStatus: ListingStatus | null | undefined): boolean {
+  return slab.dryingState === "ready" && !(listingStatus && notOnOffer.includes(listingStatus));
+}
+
+/** The yard's stock in three counts: every slab, those ready to sell, those sold. */
+export function yardStock(
+  slabs: readonly Pick<Slab, "id" | "dryingState">[],
+  listingStatusOf: (slabId: string) => ListingStatus | null | undefined,
+): { total: number; readyToSell: number; sold: number } {
+  return {
+    total: slabs.length,
+    readyToSell: slabs.filter((slab) => isReadyToSell(slab, listingStatusOf(slab.id))).length,
+    sold: slabs.filter((slab) => listingStatusOf(slab.id) === "sold").length,
+  };
+}
 
 /** Plain words for every projection status the API gives. */
 export function projectionSentence(projection: DryingProjectionView): string {

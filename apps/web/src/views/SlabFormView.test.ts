@@ -129,7 +129,7 @@ describe("SlabFormView", () => {
     expect(wrapper.find('[data-test="live-board-feet"]').text()).toBe("—");
   });
 
-  it("reads inches when the sawyer works in imperial and sends whole millimetres", async () => {
+  it("reads inches when the sawyer works in imperial and sends the millimetres exactly as entered", async () => {
     localStorage.setItem(UNITS_STORAGE_KEY, "imperial");
     const { wrapper, fetchMock } = await open();
     await typeInto(wrapper, "lengthMm", "96");
@@ -152,9 +152,9 @@ describe("SlabFormView", () => {
     // 96 in = 2438.4 mm; 2 1/4 in = 57.15 mm; 24 1/8 in = 612.775 mm; 23.5 in = 596.9 mm
     expect(body).toMatchObject({
       speciesSlug: "white-oak",
-      lengthMm: 2438,
-      thicknessMm: 57,
-      widthStationsMm: [610, 613, 597],
+      lengthMm: 2438.4,
+      thicknessMm: 57.15,
+      widthStationsMm: [609.6, 612.775, 596.9],
       liveEdge: "both",
       surfacing: "flattened",
       dryingMethod: "kiln",
