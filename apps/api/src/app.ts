@@ -43,6 +43,8 @@ import { createAccountModeration } from "./services/account-moderation.ts";
 import { createAuditService } from "./services/audit-log.ts";
 import { createDashboardService } from "./services/dashboard-service.ts";
 import { createReportService } from "./services/report-service.ts";
+import { createOrderReviewService } from "./services/order-review-service.ts";
+import { orderReviewHandlers } from "./routes/order-review-routes.ts";
 import { createSettingsService } from "./services/settings-service.ts";
 import { movableClock, testClockHandlers } from "./routes/test-clock-routes.ts";
 import { mountEndpoints, rowsOf, type Handlers, type MountOptions } from "./http/endpoints.ts";
@@ -186,12 +188,21 @@ export function createApp(appDeps: AppDependencies) {
     now: deps.now,
     onListingChanged,
   });
+  const orderReviews = createOrderReviewService({
+    dataSource: deps.dataSource,
+    mailer: deps.mailer,
+    config,
+    log: logger,
+    now: deps.now,
+    onYardRatingChanged: (manager, sawyerId) => catalogue.refreshYardRating(manager, sawyerId),
+  });
   const reports = createReportService({
     dataSource: deps.dataSource,
     mailer: deps.mailer,
     config,
     log: logger,
     moderation,
+    reviews: orderReviews,
     now: deps.now,
     onListingChanged,
   });
@@ -211,6 +222,7 @@ export function createApp(appDeps: AppDependencies) {
     review: reviewHandlers(listings),
     catalogue: catalogueHandlers(catalogue, settings),
     orders: orderHandlers(checkout, orders, deps.payments),
+    orderReviews: orderReviewHandlers(orderReviews),
     buyer: buyerHandlers(savedSearches, favourites),
     messages: messageHandlers(messages),
     reports: reportHandlers(reports),

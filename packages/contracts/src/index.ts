@@ -12,3 +12,4 @@ export * from "./orders.ts";
 export * from "./buyer-tools.ts";
 export * from "./admin.ts";
 export * from "./payouts.ts";
+export * from "./order-reviews.ts";

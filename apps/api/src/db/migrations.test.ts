@@ -58,6 +58,7 @@ describe("migrations", () => {
       "message_thread",
       "moisture_reading",
       "order_refund",
+      "order_review",
       "payment_event",
       "payout",
       "payout_account",

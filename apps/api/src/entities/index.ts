@@ -69,3 +69,8 @@ import { PayoutLineEntity } from "./payout-line.ts";
 import { PayoutEntity } from "./payout.ts";
 export { OrderRefundEntity, PayoutAccountEntity, PayoutEntity, PayoutLineEntity };
 entities.push(PayoutAccountEntity, PayoutEntity, PayoutLineEntity, OrderRefundEntity);
+
+// Reviews of completed orders.
+import { OrderReviewEntity } from "./order-review.ts";
+export { OrderReviewEntity };
+entities.push(OrderReviewEntity);

@@ -43,3 +43,7 @@ migrations.push(CatalogueSortIndexes1764759600000);
 // One record for every refund (cancellations and payments for slabs sold elsewhere too), keyed by the provider's idempotency key.
 import { OneRefundRecord1764770400000 } from "./1764770400000-one-refund-record.ts";
 migrations.push(OneRefundRecord1764770400000);
+
+// Reviews of completed orders, and the yard's rating on each catalogue row.
+import { OrderReviews1764781200000 } from "./1764781200000-order-reviews.ts";
+migrations.push(OrderReviews1764781200000);

@@ -47,6 +47,8 @@ export type CatalogueRow = Pick<
   | "pickup"
   | "town"
   | "yardName"
+  | "yardReviewCount"
+  | "yardRatingTotal"
   | "latitude"
   | "longitude"
   | "photoId"
@@ -83,6 +85,8 @@ const ROW_COLUMNS = [
   "pickup",
   "town",
   "yard_name",
+  "yard_review_count",
+  "yard_rating_total",
   "latitude",
   "longitude",
   "photo_id",
@@ -125,6 +129,8 @@ export function catalogueRowFromSql(raw: Record<string, unknown>): CatalogueRow 
     pickup: Boolean(number(raw.pickup)),
     town: nullableText(raw.town),
     yardName: nullableText(raw.yard_name),
+    yardReviewCount: number(raw.yard_review_count),
+    yardRatingTotal: number(raw.yard_rating_total),
     latitude: nullableNumber(raw.latitude),
     longitude: nullableNumber(raw.longitude),
     photoId: nullableText(raw.photo_id),

@@ -47,6 +47,7 @@ export const oakCard: CatalogueCard = {
   pickup: true,
   town: "East Lakemont",
   yardName: "Cobble Lane Slabworks",
+  yardRating: { average: 4.7, count: 6 },
   distanceKm: null,
   fit: null,
   photoUrl: null,

@@ -5,6 +5,7 @@ import { buyerEndpoints, messageEndpoints } from "./buyer-tools.ts";
 import { catalogueEndpoints } from "./catalogue.ts";
 import { listingEndpoints, reviewEndpoints } from "./listings.ts";
 import { orderEndpoints } from "./orders.ts";
+import { orderReviewEndpoints } from "./order-reviews.ts";
 import { payoutEndpoints } from "./payouts.ts";
 import { healthEndpoints, testClockEndpoints } from "./system.ts";
 import { yardEndpoints } from "./yard.ts";
@@ -16,6 +17,7 @@ export { buyerEndpoints, messageEndpoints } from "./buyer-tools.ts";
 export { catalogueEndpoints, placeQuerySchema } from "./catalogue.ts";
 export { listingEndpoints, reviewEndpoints } from "./listings.ts";
 export { orderEndpoints } from "./orders.ts";
+export { orderReviewEndpoints } from "./order-reviews.ts";
 export { payoutEndpoints } from "./payouts.ts";
 export { healthEndpoints, testClockEndpoints, testClockSchema } from "./system.ts";
 export { yardEndpoints } from "./yard.ts";
@@ -32,6 +34,7 @@ export const endpointTable = {
   review: reviewEndpoints,
   catalogue: catalogueEndpoints,
   orders: orderEndpoints,
+  orderReviews: orderReviewEndpoints,
   buyer: buyerEndpoints,
   messages: messageEndpoints,
   reports: reportEndpoints,
