@@ -46,6 +46,17 @@ export async function screenshot(page: Page, name: string, options: { fullPage?:
   await page.screenshot({ path: join(screenshotDir, `${name}.png`), fullPage: options.fullPage ?? true });
 }
 
+/**
+ * Waits until the page is still: two frames painted and every CSS transition and animation (a
+ * dialog fading in, a sheet sliding) finished. A condition, not a guess at how long they take.
+ */
+export async function settled(page: Page): Promise<void> {
+  await page.evaluate(async () => {
+    await new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve)));
+    await Promise.all(document.getAnimations().map((animation) => animation.finished.catch(() => undefined)));
+  });
+}
+
 /** The newest message the mail sink received for an address, waiting a little for delivery. */
 export async function newestMailTo(address: string): Promise<{ subject: string; text: string }> {
   const deadline = Date.now() + 10_000;

@@ -1,6 +1,6 @@
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, watchForPageErrors } from "./browser.ts";
+import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, settled, watchForPageErrors } from "./browser.ts";
 
 /*
  * A couple building their first dining table look for a slab that seats eight, save the search
@@ -39,7 +39,7 @@ async function shot(page: Page, name: string) {
   const sideways = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
   expect(sideways, `${name} scrolls sideways by ${sideways}px`).toBeLessThanOrEqual(0);
   await page.evaluate(() => window.scrollTo(0, 0));
-  await page.waitForTimeout(150);
+  await settled(page);
   await screenshot(page, name);
 }
 
@@ -270,7 +270,7 @@ describe("a homeowner's dining table", () => {
     // Deleting asks first; "Keep it" keeps it.
     await page.locator('[data-test="saved-search"] [data-test="delete"]').first().click();
     await visible(page, '[data-test="confirm-dialog"]');
-    await page.waitForTimeout(400); // the dialog fades in
+    await settled(page); // the dialog has faded in
     await shot(page, "saved-search-delete-390");
     await page.getByRole("button", { name: "Keep it" }).click();
     await expect.poll(() => page.locator('[data-test="saved-search"]').count()).toBe(1);

@@ -1,6 +1,6 @@
 import type { APIRequestContext, Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, watchForPageErrors } from "./browser.ts";
+import { appUrl, desktop, launchChromium, newestMailTo, phone, screenshot, settled, watchForPageErrors } from "./browser.ts";
 
 /*
  * The operator desk in Chromium: an admin sends a listing back with a reason, the sawyer fixes it
@@ -103,7 +103,8 @@ describe("moderation desk", () => {
     listingId = await submitListing(sawyerPage, FIRST_TITLE, 3);
 
     // The admin at a desk: the listing waits with a plausibility warning; sent back with a reason.
-    const adminContext = await browser.newContext({ viewport: desktop, locale: "en-GB" });
+    // Reduced motion: the dashboard's charts draw at once, so the screenshot needs no waiting on them.
+    const adminContext = await browser.newContext({ viewport: desktop, locale: "en-GB", reducedMotion: "reduce" });
     const adminPage = await adminContext.newPage();
     const adminProblems = watchForPageErrors(adminPage);
     await signIn(adminPage, ADMIN, "/admin");
@@ -197,7 +198,7 @@ describe("moderation desk", () => {
           .poll(() => page.locator(`section[aria-labelledby="${panel}"]`).locator("canvas, .charts__empty").count(), { timeout: 15_000 })
           .toBe(1);
       }
-      await page.waitForTimeout(600); // chart animations settle
+      await settled(page);
       await fitsTheScreen(page, viewport.width);
       await screenshot(page, `admin-dashboard-${size}`);
 

@@ -7,6 +7,7 @@ import {
   launchChromium,
   phone,
   screenshot,
+  settled,
   watchForPageErrors,
   listingIdOf,
   signIn,
@@ -46,7 +47,7 @@ async function bothSizes(page: Page, name: string, finish: { width: number; heig
   ] as const) {
     await page.setViewportSize(size);
     if (!dialog) await page.evaluate(() => window.scrollTo(0, 0));
-    await page.waitForTimeout(200);
+    await settled(page);
     await screenshot(page, `${name}-${suffix}`, { fullPage: !dialog });
   }
   await page.setViewportSize(finish);

@@ -141,7 +141,25 @@ describe("a sawyer's yard from a phone", () => {
     await expect.poll(() => page.locator('[data-test="live-price"]').innerText()).toMatch(/\d/);
     // The take-home preview uses the fees in force, and says which.
     await expect.poll(() => page.locator('[data-test="fee-note"]').innerText()).toMatch(/today's fees: \d+(\.\d+)? % to Grainyard/);
-    await page.waitForTimeout(1200); // the draft is written to IndexedDB a moment after typing
+    // The draft is written to IndexedDB a moment after typing: wait until it holds the title.
+    await expect
+      .poll(() =>
+        page.evaluate(
+          () =>
+            new Promise<string>((resolve) => {
+              const open = indexedDB.open("grainyard-drafts");
+              open.onsuccess = () => {
+                const db = open.result;
+                if (!db.objectStoreNames.contains("drafts")) return resolve("");
+                const all = db.transaction("drafts").objectStore("drafts").getAll();
+                all.onsuccess = () => resolve(JSON.stringify(all.result));
+                all.onerror = () => resolve("");
+              };
+              open.onerror = () => resolve("");
+            }),
+        ),
+      )
+      .toContain("Black walnut sequential pair, Northshore");
     await page.reload();
     await expect.poll(() => page.getByLabel("Title").inputValue(), { timeout: 10_000 }).toBe("Black walnut sequential pair, Northshore");
 

@@ -32,7 +32,9 @@ import { createListingService } from "./services/listing-service.ts";
 import { createYardService } from "./services/yard-service.ts";
 import { buyerHandlers } from "./routes/buyer-routes.ts";
 import { messageHandlers } from "./routes/message-routes.ts";
+import { createDomainEvents } from "./events.ts";
 import { createHealthService } from "./services/health-service.ts";
+import { createBackgroundWork } from "./services/background-work.ts";
 import { createFavouriteService } from "./services/favourite-service.ts";
 import { createMessageService } from "./services/message-service.ts";
 import { createSavedSearchService } from "./services/saved-search-service.ts";
@@ -104,8 +106,7 @@ export function createApp(appDeps: AppDependencies) {
   // Admin-editable settings (fees, reservation minutes, tax, hold days) from the database, with the env values as defaults.
   const settings = createSettingsService({ dataSource: deps.dataSource, config, now: deps.now });
   void settings.ensureFresh().catch((error) => logger.error({ err: error }, "could not read marketplace settings"));
-  const onListingChanged = (manager: Parameters<typeof catalogue.refreshEntry>[0], listingId: string) =>
-    catalogue.refreshEntry(manager, listingId);
+  const events = createDomainEvents();
   // Every refund (late payments, cancellations, disputes) goes through one service.
   const refunds = createRefundService({ dataSource: deps.dataSource, payments: deps.payments, log: logger, now: deps.now });
   const checkout = createCheckoutService({
@@ -122,7 +123,7 @@ export function createApp(appDeps: AppDependencies) {
     },
     log: logger,
     now: deps.now,
-    onListingChanged,
+    events,
     onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
   });
   const payouts = createPayoutService({
@@ -142,7 +143,7 @@ export function createApp(appDeps: AppDependencies) {
     config,
     log: logger,
     now: deps.now,
-    onListingChanged,
+    events,
   });
   const listings = createListingService({
     dataSource: deps.dataSource,
@@ -150,21 +151,26 @@ export function createApp(appDeps: AppDependencies) {
     config,
     log: logger,
     now: deps.now,
-    onListingChanged,
-    onListingLive: (listingId) => savedSearches.onListingLive(listingId),
+    events,
     settings,
   });
+  // Sign-in and reset limits in MariaDB, shared by every API instance (rate-limiter-flexible).
+  const rateLimits = createRateLimits({ limits: config.limits, dataSource: deps.dataSource, log: logger });
+  // E-mails that must not sit on the request's path (their timing would tell whether an address has an account).
+  const background = createBackgroundWork(logger);
   const accounts = createAccountService({
     dataSource: deps.dataSource,
     mailer: deps.mailer,
     config,
     log: logger,
+    background,
+    notices: rateLimits.notices,
     now: deps.now,
-    onYardChanged: (manager, sawyerId) => listings.refreshAllOfSawyer(manager, sawyerId),
+    events,
   });
   const yard = createYardService({
     dataSource: deps.dataSource,
-    onSlabFiguresChanged: (manager, slabIds) => listings.refreshListingsOfSlabs(manager, slabIds),
+    events,
   });
   const inventoryCsv = createInventoryCsv({ dataSource: deps.dataSource, yard });
   const photos = createPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
@@ -186,7 +192,7 @@ export function createApp(appDeps: AppDependencies) {
     config,
     log: logger,
     now: deps.now,
-    onListingChanged,
+    events,
   });
   const orderReviews = createOrderReviewService({
     dataSource: deps.dataSource,
@@ -194,7 +200,7 @@ export function createApp(appDeps: AppDependencies) {
     config,
     log: logger,
     now: deps.now,
-    onYardRatingChanged: (manager, sawyerId) => catalogue.refreshYardRating(manager, sawyerId),
+    events,
   });
   const reports = createReportService({
     dataSource: deps.dataSource,
@@ -204,7 +210,7 @@ export function createApp(appDeps: AppDependencies) {
     moderation,
     reviews: orderReviews,
     now: deps.now,
-    onListingChanged,
+    events,
   });
   const dashboard = createDashboardService({
     dataSource: deps.dataSource,
@@ -212,6 +218,13 @@ export function createApp(appDeps: AppDependencies) {
     openReports: () => reports.openCount(),
     suspendedUsers: () => moderation.suspendedCount(),
   });
+
+  // Who acts on what: the catalogue follows listings, listings follow yards and slabs, alerts follow new live listings.
+  events.on("listingChanged", ({ manager, listingId }) => catalogue.refreshEntry(manager, listingId));
+  events.on("yardChanged", ({ manager, sawyerId }) => listings.refreshAllOfSawyer(manager, sawyerId));
+  events.on("slabFiguresChanged", ({ manager, slabIds }) => listings.refreshListingsOfSlabs(manager, slabIds));
+  events.on("listingLive", ({ listingId }) => savedSearches.onListingLive(listingId));
+  events.on("yardRatingChanged", ({ manager, sawyerId }) => catalogue.refreshYardRating(manager, sawyerId));
 
   // Every API route comes from the endpoint table in packages/contracts, with one handler per row.
   const handlers: { [D in keyof typeof endpointTable]?: Handlers<(typeof endpointTable)[D]> } = {
@@ -239,7 +252,7 @@ export function createApp(appDeps: AppDependencies) {
       csv_text: express.text({ type: ["text/csv", "text/plain", "application/csv", "application/vnd.ms-excel"], limit: "2mb" }),
       provider_event: express.raw({ type: () => true, limit: "1mb" }),
     },
-    limits: createRateLimits(config.limits),
+    limits: rateLimits.steps,
     // Tests check every answer and error code against the table, so a drift fails loudly.
     strict: config.environment === "test",
   };
@@ -303,6 +316,7 @@ export function createApp(appDeps: AppDependencies) {
   }
 
   app.use(errorHandler(logger));
-  // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule.
-  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings });
+  // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule,
+  // and the background work a graceful stop (and a test) waits for.
+  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings, background });
 }

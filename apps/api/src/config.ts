@@ -39,8 +39,14 @@ const environmentSchema = z.object({
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),
   WEB_DIST: z.string().optional(),
   LOG_LEVEL: z.enum(["fatal", "error", "warn", "info", "debug", "trace", "silent"]).default("info"),
+  /** Failed sign-ins for one account from one address (15 minutes) before that address gets 429 for that account. */
   SIGN_IN_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(5),
+  /** Failed sign-ins from one address across accounts (15 minutes) before that address gets 429. */
   SIGN_IN_LIMIT_PER_IP: z.coerce.number().int().min(1).default(30),
+  /** Failed sign-ins for one account from all addresses (15 minutes) after which its tries slow down and its owner is warned. */
+  SIGN_IN_SLOW_AFTER: z.coerce.number().int().min(1).default(10),
+  /** The first slow-down, ms; it doubles with each further failure, up to 8 times this. */
+  SIGN_IN_SLOWDOWN_MS: z.coerce.number().int().min(0).max(10_000).default(1000),
   RESET_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(3),
   RESET_LIMIT_PER_IP: z.coerce.number().int().min(1).default(20),
   CATALOGUE_CACHE: z.enum(["on", "off"]).default("on"),
@@ -66,7 +72,18 @@ export interface AppConfig {
   catalogueCache: boolean;
   /** A movable clock with POST /api/_test/clock: only ever true when NODE_ENV=test. */
   testClock: boolean;
-  limits: { signInPerAccount: number; signInPerIp: number; resetPerAccount: number; resetPerIp: number; windowMs: number };
+  limits: {
+    /** Failed sign-ins per account and address pair before 429 (that address, that account only). */
+    signInPerPair: number;
+    /** Failed sign-ins per address across accounts before 429. */
+    signInPerIp: number;
+    /** Failed sign-ins per account (any address) after which its tries slow down and the owner is e-mailed. */
+    signInSlowAfter: number;
+    signInSlowdownMs: number;
+    resetPerAccount: number;
+    resetPerIp: number;
+    windowMs: number;
+  };
 }
 
 export class ConfigError extends Error {}
@@ -128,8 +145,10 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
     catalogueCache: env.CATALOGUE_CACHE === "on",
     testClock: env.NODE_ENV === "test" && env.GRAINYARD_TEST_CLOCK === "1",
     limits: {
-      signInPerAccount: env.SIGN_IN_LIMIT_PER_ACCOUNT,
+      signInPerPair: env.SIGN_IN_LIMIT_PER_ACCOUNT,
       signInPerIp: env.SIGN_IN_LIMIT_PER_IP,
+      signInSlowAfter: env.SIGN_IN_SLOW_AFTER,
+      signInSlowdownMs: env.SIGN_IN_SLOWDOWN_MS,
       resetPerAccount: env.RESET_LIMIT_PER_ACCOUNT,
       resetPerIp: env.RESET_LIMIT_PER_IP,
       windowMs: 15 * 60 * 1000,

@@ -7,6 +7,8 @@ import { errorCatalogue, type ErrorCode, type ErrorCodeWithStatus } from "@grain
  */
 export class AppError extends Error {
   readonly status: number;
+  /** What went wrong underneath (keys, driver text), for the log only: never part of an answer. */
+  internal?: string;
   constructor(
     readonly code: ErrorCode,
     message: string,

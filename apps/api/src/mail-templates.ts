@@ -46,6 +46,40 @@ export function passwordResetMail(to: string, displayName: string, link: string)
   };
 }
 
+/** To the owner of an address someone tried to join with (the join answers the same either way). */
+export function joinAttemptMail(to: string, displayName: string, signInLink: string, resetLink: string): OutgoingMail {
+  return {
+    to,
+    subject: "Someone tried to join Grainyard with your e-mail",
+    ...layout(
+      [
+        `Hello ${displayName},`,
+        "Someone just tried to make a new Grainyard account with this e-mail address. It already belongs to your account, so no new account was made and nothing about yours changed.",
+        `If it was you, sign in instead: ${signInLink}`,
+        "Forgot your password? Choose a new one with the button below. If it was not you, you need do nothing.",
+      ],
+      { label: "Choose a new password", url: resetLink },
+    ),
+  };
+}
+
+/** To the owner of an account that many wrong passwords were tried on. */
+export function signInAttemptsMail(to: string, displayName: string, failures: number, resetLink: string): OutgoingMail {
+  return {
+    to,
+    subject: "Wrong passwords were tried on your Grainyard account",
+    ...layout(
+      [
+        `Hello ${displayName},`,
+        `In the last 15 minutes, ${failures} sign-ins to your Grainyard account failed with a wrong password.`,
+        "Your account is not locked: you can sign in as usual. Each wrong try is now slowed down, and an address that keeps guessing is turned away.",
+        "If these were not you, your password held. To be safe you may choose a new, longer one that you use nowhere else.",
+      ],
+      { label: "Choose a new password", url: resetLink },
+    ),
+  };
+}
+
 export function listingApprovedMail(to: string, displayName: string, title: string, link: string): OutgoingMail {
   return {
     to,

@@ -4,6 +4,7 @@ import { createDataSource } from "./db/data-source.ts";
 import { createMailer } from "./integrations/mail.ts";
 import { createPayments } from "./integrations/payments-stripe.ts";
 import { createPhotoStorage } from "./integrations/storage.ts";
+import { createJobRunner } from "./jobs/job-runner.ts";
 import { createLogger } from "./logger.ts";
 
 let config;
@@ -37,33 +38,32 @@ server.on("error", (error: NodeJS.ErrnoException) => {
   process.exit(1);
 });
 
-// Reservations whose time ran out go back on sale; safe with several instances (conditional updates).
-const sweep = setInterval(() => {
-  app.checkout.sweepExpiredReservations().catch((error: unknown) => logger.error({ err: error }, "reservation sweep failed"));
-}, 30_000);
-sweep.unref();
-
-// Orders handed over AUTO_COMPLETE_DAYS ago complete by themselves, and refunds the provider could
-// not take at cancellation are tried again; both conditional updates, safe with several instances.
-const orderSweep = setInterval(() => {
-  app.orders.completeDueOrders().catch((error: unknown) => logger.error({ err: error }, "order completion sweep failed"));
-  app.orders.retryPendingRefunds().catch((error: unknown) => logger.error({ err: error }, "refund retry sweep failed"));
-}, 5 * 60_000);
-orderSweep.unref();
-
-// Saved-search alerts held back by the once-a-day rule go out when their day is up.
-const alerts = setInterval(() => {
-  app.savedSearches.processPendingAlerts().catch((error: unknown) => logger.error({ err: error }, "saved-search alerts failed"));
-}, 10 * 60_000);
-alerts.unref();
+// Scheduled work, once per period across however many API instances run (a lease per job in MariaDB).
+const jobs = createJobRunner({ dataSource, logger });
+jobs.start([
+  // Reservations whose time ran out go back on sale.
+  { name: "reservation-sweep", everyMs: 30_000, run: () => app.checkout.sweepExpiredReservations().then(() => undefined) },
+  // Orders handed over AUTO_COMPLETE_DAYS ago complete by themselves.
+  { name: "order-completion", everyMs: 5 * 60_000, run: () => app.orders.completeDueOrders().then(() => undefined) },
+  // Refunds the provider could not take at cancellation are tried again.
+  { name: "refund-retries", everyMs: 5 * 60_000, run: () => app.orders.retryPendingRefunds().then(() => undefined) },
+  // Saved-search alerts held back by the once-a-day rule go out when their day is up.
+  { name: "saved-search-alerts", everyMs: 10 * 60_000, run: () => app.savedSearches.processPendingAlerts().then(() => undefined) },
+]);
 
 let stopping = false;
 async function shutdown(signal: string) {
   if (stopping) return;
   stopping = true;
   logger.info({ signal }, "shutting down");
-  server.close();
+  // No new connections; requests in flight finish (idle keep-alive connections close now).
+  const closed = new Promise<void>((resolve) => server.close(() => resolve()));
+  server.closeIdleConnections();
+  await jobs.stop();
+  await Promise.race([closed, new Promise((resolve) => setTimeout(resolve, 10_000).unref())]);
   server.closeAllConnections();
+  // E-mails handed to background work (reset links, confirmations) still go out.
+  await app.background.settled();
   mailer.close();
   storage.close();
   await dataSource.destroy().catch(() => undefined);

@@ -311,6 +311,23 @@ describe("webhook delivery", () => {
     );
     expect(ids.size).toBe(1); // the same event id each time
   });
+
+  it("says when every copy has had its answer, and how many were answered 2xx", async () => {
+    fake.webhooks.options.copies = 3;
+    try {
+      const session = await newSession();
+      failNext = 1; // one copy fails once and is retried
+      await sdk.checkout.sessions.expire(session.id);
+      await fake.webhooks.settled();
+      const event = events("checkout.session.expired").find((e) => (e.data.object as Stripe.Checkout.Session).id === session.id)!;
+      expect(fake.webhooks.deliveredCopies(event.id)).toBe(3);
+      expect(fake.webhooks.attempts.filter((a) => a.eventId === event.id).map((a) => a.status)).toContain(500);
+      // Nothing in flight: settled answers at once.
+      await fake.webhooks.settled();
+    } finally {
+      fake.webhooks.options.copies = 1;
+    }
+  });
 });
 
 describe("restarts", () => {

@@ -40,6 +40,8 @@ export class WebhookSender {
   private batch: Pending[] = [];
   private flushScheduled = false;
   readonly attempts: { eventId: string; status: number | "network_error" }[] = [];
+  private inFlight = 0;
+  private idleWaiters: (() => void)[] = [];
 
   constructor(
     private readonly store: Store,
@@ -75,9 +77,20 @@ export class WebhookSender {
     this.batch = [];
     if (this.options.shuffle) batch.sort(() => Math.random() - 0.5);
     for (const pending of batch) void this.deliver(pending);
+    this.wakeIfIdle();
   }
 
   private async deliver(pending: Pending): Promise<void> {
+    this.inFlight += 1;
+    try {
+      await this.deliverOnce(pending);
+    } finally {
+      this.inFlight -= 1;
+      this.wakeIfIdle();
+    }
+  }
+
+  private async deliverOnce(pending: Pending): Promise<void> {
     const url = this.options.url;
     if (!url) return;
     const event = this.store.get(pending.eventId);
@@ -109,6 +122,31 @@ export class WebhookSender {
       timer.unref();
       this.timers.add(timer);
     }
+  }
+
+  private idle(): boolean {
+    return this.inFlight === 0 && this.batch.length === 0 && !this.flushScheduled && this.timers.size === 0;
+  }
+
+  private wakeIfIdle(): void {
+    if (!this.idle()) return;
+    for (const wake of this.idleWaiters.splice(0)) wake();
+  }
+
+  /**
+   * Resolves once nothing is queued, in flight or waiting to be retried: every copy of every
+   * event emitted so far has had its answer. Tests wait on this instead of a fixed time.
+   */
+  settled(): Promise<void> {
+    if (this.idle()) return Promise.resolve();
+    return new Promise((resolve) => this.idleWaiters.push(resolve));
+  }
+
+  /** How many copies of the event (of every event, without an id) the receiver answered with 2xx. */
+  deliveredCopies(eventId?: string): number {
+    return this.attempts.filter(
+      (a) => (eventId === undefined || a.eventId === eventId) && typeof a.status === "number" && a.status < 300 && a.status >= 200,
+    ).length;
   }
 
   /** Resends every stored event (a test helper, like the provider's "resend" button). */

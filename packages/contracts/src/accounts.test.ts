@@ -64,3 +64,37 @@ describe("update schemas leave out what was not sent", async () => {
     expect(listingUpdateSchema.parse({ title: "Walnut pair" })).toEqual({ title: "Walnut pair" });
   });
 });
+
+describe("names other people see", () => {
+  const buyer = (displayName: string) =>
+    signUpSchema.safeParse({ role: "buyer", email: "n@lakemont.test", password: "long-enough-pass", displayName });
+
+  it("refuse line breaks, control characters and direction overrides", () => {
+    for (const name of [
+      "Ana\r\nBcc: all@lakemont.test",
+      "Ana\nBrandt",
+      "Ana\u0000",
+      "Ana\tB",
+      "Ana\u0007",
+      "Ana\u2028B",
+      "\u202EtnardB anA",
+      "Ana\u2066B\u2069",
+    ]) {
+      const result = buyer(name);
+      expect(result.success, JSON.stringify(name)).toBe(false);
+      if (!result.success) expect(fieldMessages(result.error).displayName).toMatch(/no line breaks or control characters/);
+    }
+  });
+
+  it("take names in any script, with accents, apostrophes and emoji", () => {
+    for (const name of ["Zoë O'Neill", "Łucja Wąs", "Юлия", "山田 花子", "Ana 🌳", "Renée-Marie"])
+      expect(buyer(name).success, name).toBe(true);
+  });
+
+  it("apply to the yard name and the pickup town too; a town needs a letter", () => {
+    expect(yardProfileUpdateSchema.safeParse({ yardName: "Mill\r\nTwo" }).success).toBe(false);
+    expect(yardProfileUpdateSchema.safeParse({ pickupTown: "Lake\u0000mont" }).success).toBe(false);
+    expect(yardProfileUpdateSchema.safeParse({ pickupTown: "🌲🌲" }).success).toBe(false);
+    expect(yardProfileUpdateSchema.safeParse({ pickupTown: "Lakemont", yardName: "Ridgeback Urban Timber" }).success).toBe(true);
+  });
+});

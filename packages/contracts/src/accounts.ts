@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { hasLetter, isPrintableLine, UNPRINTABLE_MESSAGE } from "./common.ts";
 
 export const roles = ["buyer", "sawyer", "admin"] as const;
 export const roleSchema = z.enum(roles);
@@ -22,23 +23,28 @@ export const newPasswordSchema = z
   .min(PASSWORD_MIN_LENGTH, `Use at least ${PASSWORD_MIN_LENGTH} characters.`)
   .max(PASSWORD_MAX_LENGTH, `Use at most ${PASSWORD_MAX_LENGTH} characters.`);
 
+// Names other people see: one line of ordinary text (no CR/LF, control characters or direction overrides).
 const displayNameSchema = z
   .string({ error: "Tell us your name." })
   .trim()
   .min(1, "Tell us your name.")
-  .max(80, "Keep your name under 80 characters.");
+  .max(80, "Keep your name under 80 characters.")
+  .refine(isPrintableLine, UNPRINTABLE_MESSAGE);
 
 export const yardNameSchema = z
   .string({ error: "Give your yard a name." })
   .trim()
   .min(2, "Give your yard a name of at least 2 characters.")
-  .max(80, "Keep the yard name under 80 characters.");
+  .max(80, "Keep the yard name under 80 characters.")
+  .refine(isPrintableLine, UNPRINTABLE_MESSAGE);
 
 export const pickupTownSchema = z
   .string({ error: "Say which town buyers collect from." })
   .trim()
   .min(2, "Say which town buyers collect from.")
-  .max(80, "Keep the town under 80 characters.");
+  .max(80, "Keep the town under 80 characters.")
+  .refine(isPrintableLine, UNPRINTABLE_MESSAGE)
+  .refine(hasLetter, "Give the town's name in letters.");
 
 const buyerSignUpSchema = z.object({
   role: z.literal("buyer"),

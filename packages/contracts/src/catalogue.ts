@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { hasLetter } from "./common.ts";
 import { yardRatingSchema } from "./order-reviews.ts";
 import { liveEdges, slabFeatures } from "./yard.ts";
 import { currencies, listingFiguresSchema, listingPhotoSchema, setKinds } from "./listings.ts";
@@ -73,7 +74,13 @@ export const catalogueQuerySchema = z
     liveEdge: list(liveEdges, "edge choice").optional(),
     features: list(slabFeatures, "feature").optional(),
     sets: list(["single", "sequential", "bookmatched"] as const, "set kind").optional(),
-    near: z.string().trim().max(120).optional(),
+    // A town's name has letters of some script; digits, punctuation or emoji alone match no place.
+    near: z
+      .string()
+      .trim()
+      .max(120)
+      .refine((text) => text === "" || hasLetter(text), "Type a town's name.")
+      .optional(),
     radiusKm: z.coerce
       .number({ error: "The distance must be a number of kilometres." })
       .min(1, "Search at least 1 km around.")
@@ -145,8 +152,12 @@ export const catalogueCardSchema = z.object({
   thicknessMm: z.number(),
   boardFeet: z.number(),
   volumeM3: z.number(),
+  /** The whole set (one slab: the slab), central estimate, kg. */
   weightKg: z.number(),
-  weightHighKg: z.number(),
+  /** The whole set, high end, kg: never below `heaviestSlabHighKg`. */
+  totalWeightHighKg: z.number(),
+  /** The heaviest single slab, high end, kg: the lifting advice's weight. */
+  heaviestSlabHighKg: z.number(),
   moisturePct: z.number().nullable(),
   ready: z.boolean(),
   priceMinor: z.number(),

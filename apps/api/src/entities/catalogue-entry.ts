@@ -116,11 +116,17 @@ export class CatalogueEntryEntity {
   @Column({ name: "volume_m3", type: "double" })
   volumeM3: number;
 
+  /** The whole set, central estimate (slab-math setWeight). */
   @Column({ name: "weight_kg", type: "double" })
   weightKg: number;
 
-  @Column({ name: "weight_high_kg", type: "double" })
-  weightHighKg: number;
+  /** The whole set, high end: never below the heaviest slab's. */
+  @Column({ name: "total_weight_high_kg", type: "double" })
+  totalWeightHighKg: number;
+
+  /** The heaviest single slab, high end: what the lifting advice is judged on. */
+  @Column({ name: "heaviest_slab_high_kg", type: "double" })
+  heaviestSlabHighKg: number;
 
   @Column({ name: "live_edge", type: "varchar", length: 8 })
   liveEdge: "both" | "one" | "none";

@@ -70,6 +70,11 @@ import { PayoutEntity } from "./payout.ts";
 export { OrderRefundEntity, PayoutAccountEntity, PayoutEntity, PayoutLineEntity };
 entities.push(PayoutAccountEntity, PayoutEntity, PayoutLineEntity, OrderRefundEntity);
 
+// Scheduled jobs: one lease per job, so several API instances run each job once.
+import { JobLeaseEntity } from "./job-lease.ts";
+export { JobLeaseEntity };
+entities.push(JobLeaseEntity);
+
 // Reviews of completed orders.
 import { OrderReviewEntity } from "./order-review.ts";
 export { OrderReviewEntity };

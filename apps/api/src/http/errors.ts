@@ -9,11 +9,35 @@ export const apiNotFound: RequestHandler = (req, res) => {
     .json({ error: { code: "not_found", message: `There is no ${req.method} ${req.originalUrl.split("?")[0]} in the Grainyard API.` } });
 };
 
+/** Errors of the database connection (not of a query): the database is down or out of reach, not a bug. */
+const CONNECTION_ERRORS = new Set([
+  "ECONNREFUSED",
+  "ECONNRESET",
+  "ETIMEDOUT",
+  "EPIPE",
+  "EHOSTUNREACH",
+  "ENOTFOUND",
+  "PROTOCOL_CONNECTION_LOST",
+  "PROTOCOL_SEQUENCE_TIMEOUT",
+  "ER_CON_COUNT_ERROR",
+]);
+function isDatabaseDown(error: unknown): boolean {
+  const { code, fatal, driverError } = error as { code?: string; fatal?: boolean; driverError?: { code?: string; fatal?: boolean } };
+  // mysql2 marks errors that ended the connection as fatal (a query on a connection that was closed under it).
+  return (
+    CONNECTION_ERRORS.has(code ?? "") || CONNECTION_ERRORS.has(driverError?.code ?? "") || fatal === true || driverError?.fatal === true
+  );
+}
+
 /** Maps every error to `{ error: { code, message, fields? } }`; internals never leave the server (they go to the log). */
 export const errorHandler =
   (logger: Logger): ErrorRequestHandler =>
   (error, req, res, _next) => {
+    const where = { id: req.id, method: req.method, url: req.originalUrl };
     if (error instanceof AppError) {
+      // A part underneath is down: what it said (keys, driver text) is for the log only.
+      if (error.status >= 500)
+        logger.warn({ err: error.cause ?? error, detail: error.internal, code: error.code, req: where }, "answered 5xx");
       res
         .status(error.status)
         .json({ error: { ...error.details, code: error.code, message: error.message, ...(error.fields ? { fields: error.fields } : {}) } });
@@ -40,6 +64,11 @@ export const errorHandler =
       res.status(bodyError.status).json({ error: { code: "malformed_request", message: "The request could not be read." } });
       return;
     }
-    logger.error({ err: error, req: { id: req.id, method: req.method, url: req.originalUrl } }, "unhandled error");
+    if (isDatabaseDown(error)) {
+      logger.error({ err: error, req: where }, "database unavailable");
+      res.status(503).json({ error: { code: "unavailable", message: "Grainyard is having a short break. Please try again in a moment." } });
+      return;
+    }
+    logger.error({ err: error, req: where }, "unhandled error");
     res.status(500).json({ error: { code: "internal", message: "Something went wrong on our side. Please try again in a moment." } });
   };

@@ -44,6 +44,18 @@ migrations.push(CatalogueSortIndexes1764759600000);
 import { OneRefundRecord1764770400000 } from "./1764770400000-one-refund-record.ts";
 migrations.push(OneRefundRecord1764770400000);
 
+// A lease per scheduled job, so several API instances run each job once.
+import { JobLeases1764781200000 } from "./1764781200000-job-leases.ts";
+migrations.push(JobLeases1764781200000);
+
+// The shared store of the sign-in and reset limits (rate-limiter-flexible), counted alike by every API instance.
+import { RateLimits1764792000000 } from "./1764792000000-rate-limits.ts";
+migrations.push(RateLimits1764792000000);
+
+// The catalogue's set weights named apart: the whole set's high end beside the heaviest slab's.
+import { CatalogueSetWeights1764802800000 } from "./1764802800000-catalogue-set-weights.ts";
+migrations.push(CatalogueSetWeights1764802800000);
+
 // Reviews of completed orders, and the yard's rating on each catalogue row.
-import { OrderReviews1764781200000 } from "./1764781200000-order-reviews.ts";
-migrations.push(OrderReviews1764781200000);
+import { OrderReviews1764813600000 } from "./1764813600000-order-reviews.ts";
+migrations.push(OrderReviews1764813600000);

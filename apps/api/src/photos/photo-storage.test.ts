@@ -79,7 +79,7 @@ describe("against the S3 fake", () => {
 });
 
 describe("when storage is down", () => {
-  it("every call fails with StorageUnavailable and a clear message", async () => {
+  it("every call fails with StorageUnavailable: a plain message for the answer, the key and the cause for the log", async () => {
     const key = displayKey("listing", "photo", "small");
     for (const call of [
       () => putObject(closedPort.client, closedPort.bucket, key, Buffer.from("webp"), "image/webp", { private: false }),
@@ -94,8 +94,9 @@ describe("when storage is down", () => {
       const unavailable = error as StorageUnavailable;
       expect(unavailable.code).toBe("storage_unavailable");
       expect(unavailable.status).toBe(503);
-      expect(unavailable.message).toMatch(/^Photo storage is unavailable: could not (store|read|delete) /);
-      expect(unavailable.message).toContain("ECONNREFUSED");
+      expect(unavailable.message).toBe("Photo storage is not answering just now. Please try again in a moment.");
+      expect(unavailable.internal).toMatch(/^could not (store|read|delete) /);
+      expect(unavailable.internal).toContain("ECONNREFUSED");
     }
   });
 });

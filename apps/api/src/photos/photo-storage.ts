@@ -11,10 +11,14 @@ import { DeleteObjectsCommand, GetObjectCommand, PutObjectCommand, type S3Client
 import { AppError } from "../errors.ts";
 import type { DisplaySizeName } from "./photo-processing.ts";
 
-/** The photo store did not answer or refused the request; the caller may try again later. */
+/**
+ * The photo store did not answer or refused the request; the caller may try again later. The
+ * answer says only that; the key, the action and the store's or driver's words go to the log.
+ */
 export class StorageUnavailable extends AppError {
-  constructor(message: string, options?: { cause?: unknown }) {
-    super("storage_unavailable", message);
+  constructor(internal: string, options?: { cause?: unknown }) {
+    super("storage_unavailable", "Photo storage is not answering just now. Please try again in a moment.");
+    this.internal = internal;
     if (options?.cause !== undefined) this.cause = options.cause;
   }
 }
@@ -69,10 +73,7 @@ function describeCause(error: unknown): string {
 }
 
 function unavailable(action: string, error: unknown): StorageUnavailable {
-  return new StorageUnavailable(
-    `Photo storage is unavailable: could not ${action} (${describeCause(error)}). Please try again in a moment.`,
-    { cause: error },
-  );
+  return new StorageUnavailable(`could not ${action} (${describeCause(error)})`, { cause: error });
 }
 
 /** Stores `bytes` under `key`. Originals must be private. */
@@ -137,7 +138,6 @@ export async function deleteObjects(client: S3Client, bucket: string, keys: stri
       throw unavailable(`delete ${batch.length} photo object(s)`, error);
     }
     // DeleteObjects answers 200 even when single keys fail; those failures are listed in Errors.
-    if (failed.length)
-      throw new StorageUnavailable(`Photo storage is unavailable: could not delete ${failed.join(", ")}. Please try again in a moment.`);
+    if (failed.length) throw new StorageUnavailable(`could not delete ${failed.join(", ")}`);
   }
 }

@@ -1,6 +1,7 @@
 import type { accountEndpoints } from "@grainyard/contracts";
 import type { Request } from "express";
 import { sessionOf } from "../http/context.ts";
+import { signInAttemptOf } from "../http/rate-limits.ts";
 import type { Handlers } from "../http/endpoints.ts";
 import type { AccountService } from "../services/account-service.ts";
 import { newToken } from "../services/tokens.ts";
@@ -20,7 +21,7 @@ export function accountHandlers(accounts: AccountService): Handlers<typeof accou
   return {
     getSession: async ({ actor, req }) => ({ account: await accounts.currentAccount(actor), csrfToken: csrfTokenFor(req) }),
     signIn: async ({ body, req }) => {
-      const { account, sessionKey } = await accounts.signIn(body);
+      const { account, sessionKey } = await accounts.signIn(body, signInAttemptOf(req));
       // A fresh anti-forgery token with every new session.
       req.session = { key: sessionKey, csrf: newToken() };
       return { account, csrfToken: sessionOf(req).csrf! };
@@ -30,14 +31,18 @@ export function accountHandlers(accounts: AccountService): Handlers<typeof accou
       req.session = { csrf: newToken() };
       return { account: null, csrfToken: sessionOf(req).csrf! };
     },
-    signUp: async ({ actor, body }) => ({ account: await accounts.signUp(actor, body) }),
+    signUp: async ({ actor, body }) => {
+      // The same answer whether or not the address has an account already (its owner gets an e-mail).
+      await accounts.signUp(actor, body);
+      return { message: "Check your inbox: we sent a link to confirm your address." };
+    },
     verifyEmail: ({ body }) => accounts.verifyEmail(body),
     resendVerification: async ({ actor }) => {
       await accounts.resendVerification(actor);
       return { sent: true };
     },
-    requestPasswordReset: async ({ body }) => {
-      await accounts.requestPasswordReset(body);
+    requestPasswordReset: ({ body }) => {
+      accounts.requestPasswordReset(body);
       return { message: "If that address has a Grainyard account, a reset link is on its way." };
     },
     resetPassword: async ({ body }) => {

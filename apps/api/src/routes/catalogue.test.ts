@@ -243,6 +243,13 @@ describe("catalogue search", () => {
     const town = await search("near=Atlantis-under-the-sea");
     expect(town.status).toBe(422);
     expect(town.body.error.code).toBe("unknown_place");
+    // No letters of any script: not a town's name (an emoji used to match some far-away place).
+    for (const near of ["🌲", "🌲🏙️", "1234", "!!", "  ·  "]) {
+      const res = await search(`near=${encodeURIComponent(near)}`);
+      expect(res.status, near).toBe(422);
+      expect(res.body.error.fields.near, near).toMatch(/town's name/);
+    }
+    expect((await search("near=")).status).toBe(200);
     const first = await search("limit=2");
     const cursor = first.body.nextCursor as string;
     const [payload] = cursor.split(".");
@@ -374,5 +381,30 @@ describe("places", () => {
     expect(toronto.latitude).toBeCloseTo(43.7, 0);
     expect(toronto.longitude).toBeCloseTo(-79.4, 0);
     expect((await request(ctx.app).get("/api/v1/places?query=")).status).toBe(422);
+  });
+});
+
+describe("a set's weights", () => {
+  it("names the whole set's weight and its heaviest slab's apart, from slab-math, so the total is never below the heaviest slab", async () => {
+    const sawyer = await sawyerIn("Lakemont");
+    // A long, wide slab with an offcut under a tenth of its weight: the central total is below the big slab's high end.
+    const id = await liveListing(
+      sawyer,
+      "walnut with offcut",
+      [slab("black-walnut", 2400, 76, [700, 700]), slab("black-walnut", 600, 25, [150, 150])],
+      { setKind: "sequential" },
+    );
+    const card = (await search("sets=sequential").expect(200)).body.results.find((c: { listingId: string }) => c.listingId === id);
+    const detail = (await request(ctx.app).get(`/api/v1/catalogue/${id}`).expect(200)).body;
+    const slabs = detail.slabs.map((s: { figures: { weightKg: number; weightHighKg: number } }) => s.figures);
+    const sum = (values: number[]) => values.reduce((a, b) => a + b, 0);
+    expect(card.weightKg).toBeCloseTo(sum(slabs.map((s: { weightKg: number }) => s.weightKg)), 6);
+    expect(card.totalWeightHighKg).toBeCloseTo(sum(slabs.map((s: { weightHighKg: number }) => s.weightHighKg)), 6);
+    expect(card.heaviestSlabHighKg).toBeCloseTo(Math.max(...slabs.map((s: { weightHighKg: number }) => s.weightHighKg)), 6);
+    expect(card.weightKg).toBeLessThan(card.heaviestSlabHighKg); // the case the audit saw on a card
+    expect(card.totalWeightHighKg).toBeGreaterThanOrEqual(card.heaviestSlabHighKg);
+    // The slab page's figures are the same set total.
+    expect(detail.listing.figures.weightHighKg).toBeCloseTo(card.totalWeightHighKg, 6);
+    expect(detail.listing.figures.weightKg).toBeCloseTo(card.weightKg, 6);
   });
 });

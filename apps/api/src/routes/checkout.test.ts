@@ -160,10 +160,13 @@ describe("buying a slab", () => {
     });
     fake.webhooks.options.copies = 3;
     fake.webhooks.options.shuffle = true;
+    const answeredBefore = fake.webhooks.deliveredCopies();
     try {
       await pay(body.checkoutUrl, "4242424242424242");
       await until(async () => (await orderOf(body.order.id)).status === "paid");
-      await new Promise((r) => setTimeout(r, 300)); // let the copies land
+      await fake.webhooks.settled();
+      // Every copy was delivered and answered, so the ledger below saw all three.
+      expect(fake.webhooks.deliveredCopies() - answeredBefore).toBeGreaterThanOrEqual(3);
     } finally {
       fake.webhooks.options.copies = 1;
       fake.webhooks.options.shuffle = false;

@@ -1,6 +1,8 @@
+import { connect, createServer, type AddressInfo, type Socket } from "node:net";
+import { setTimeout as sleep } from "node:timers/promises";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { createTestContext, type TestContext } from "../test-support/test-context.ts";
+import { createTestContext, stackEnvironment, type TestContext } from "../test-support/test-context.ts";
 
 let healthy: TestContext;
 let broken: TestContext;
@@ -38,4 +40,72 @@ describe("security headers", () => {
     expect(policy).not.toMatch(/https?:\/\//);
     expect(res.headers["x-content-type-options"]).toBe("nosniff");
   });
+});
+
+/**
+ * A TCP relay between the API and the test stack's MariaDB: cutting it is the database going
+ * away for this API alone (the shared MariaDB keeps running), and reopening it on the same port is
+ * the database coming back.
+ */
+async function databaseRelay(host: string, port: number) {
+  const sockets = new Set<Socket>();
+  const server = createServer((client) => {
+    const upstream = connect(port, host);
+    for (const socket of [client, upstream]) {
+      sockets.add(socket);
+      socket.on("close", () => sockets.delete(socket));
+      socket.on("error", () => socket.destroy());
+    }
+    client.pipe(upstream).pipe(client);
+  });
+  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
+  const relayPort = (server.address() as AddressInfo).port;
+  return {
+    port: relayPort,
+    /** Refuses new connections and drops the open ones. */
+    async cut() {
+      const closed = new Promise<void>((resolve) => server.close(() => resolve()));
+      for (const socket of sockets) socket.destroy();
+      await closed;
+    },
+    async restore() {
+      await new Promise<void>((resolve) => server.listen(relayPort, "127.0.0.1", resolve));
+    },
+  };
+}
+
+describe("/api/health with the database down", () => {
+  it("answers 503 naming the database, never 500, for 15 s; other routes answer 503 too; all is well once it is back", async () => {
+    const stack = stackEnvironment();
+    const relay = await databaseRelay(stack.DATABASE_HOST ?? "127.0.0.1", Number(stack.DATABASE_PORT));
+    const ctx = await createTestContext({ environment: { DATABASE_PORT: String(relay.port) } });
+    try {
+      expect((await request(ctx.app).get("/api/health")).status).toBe(200);
+      const signedIn = await ctx.signedInClient("buyer");
+      await relay.cut();
+      const seen = new Map<number, number>();
+      const started = Date.now();
+      // 15 s of asking, paced at 4 a second: past the settings refresh (5 s) and the pool's reconnect attempts.
+      while (Date.now() - started < 15_000) {
+        const health = await request(ctx.app).get("/api/health");
+        seen.set(health.status, (seen.get(health.status) ?? 0) + 1);
+        expect(health.status).toBe(503);
+        expect(health.body.components.database).toBe("down");
+        // A signed-in page needs the acting user from the database: 503 with a plain message, not 500.
+        const page = await signedIn.get("/api/v1/session");
+        expect(page.status).toBe(503);
+        expect(page.body.error.code).toBe("unavailable");
+        expect(JSON.stringify(page.body)).not.toMatch(/ECONN|127\.0\.0\.1|SELECT|mysql|at .*\.ts/i);
+        await sleep(250);
+      }
+      expect([...seen.keys()]).toEqual([503]);
+      expect(seen.get(503)).toBeGreaterThan(20);
+      await relay.restore();
+      await expect.poll(async () => (await request(ctx.app).get("/api/health")).status, { timeout: 15_000 }).toBe(200);
+      expect((await signedIn.get("/api/v1/session")).body.account.email).toBe(signedIn.account.email);
+    } finally {
+      await relay.restore().catch(() => undefined);
+      await ctx.close();
+    }
+  }, 60_000);
 });

@@ -276,8 +276,36 @@ describe("photos", () => {
       ).body.listing;
       const res = await upload(client, listing.id, await phonePhoto());
       expect(res.status).toBe(503);
-      expect(res.body.error.code).toBe("storage_unavailable");
+      expect(res.body).toEqual({
+        error: { code: "storage_unavailable", message: "Photo storage is not answering just now. Please try again in a moment." },
+      });
       expect(await down.dataSource.getRepository(ListingPhotoEntity).countBy({ listingId: listing.id })).toBe(0);
+
+      // A log photo the same way: no key, no driver or stack text in the answer; all of it in the log.
+      const log = (
+        await client.post("/api/v1/yard/logs", {
+          speciesSlug: "white-oak",
+          siteTown: "Lakemont",
+          siteKind: "street",
+          fellingReason: "storm",
+        })
+      ).body.log;
+      const logPhoto = await client.agent
+        .post(`/api/v1/yard/logs/${log.id}/photos`)
+        .set("x-csrf-token", client.csrfToken)
+        .set("content-type", "image/jpeg")
+        .send(await phonePhoto());
+      expect(logPhoto.status).toBe(503);
+      for (const answer of [res, logPhoto]) {
+        const text = JSON.stringify(answer.body) + JSON.stringify(answer.headers);
+        expect(text).not.toMatch(/originals\/|display\/|logs\/|ECONNREFUSED|AbortError|TimeoutError|Error:|127\.0\.0\.1:9|\.ts:\d/);
+        expect(text).not.toContain(listing.id);
+        expect(text).not.toContain(log.id);
+      }
+      const logged = down.logLines.join("\n");
+      expect(logged).toContain(`could not store originals/${listing.id}/`);
+      expect(logged).toContain(`could not store logs/${log.id}/`);
+      expect(logged).toMatch(/ECONNREFUSED/);
     } finally {
       await down.close();
     }

@@ -306,8 +306,11 @@ describe("cancelling before hand-over", () => {
     fake.webhooks.options.shuffle = true;
     let res;
     try {
+      const answeredBefore = fake.webhooks.deliveredCopies();
       res = await buyer.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "Our dining room plans changed." });
-      await new Promise((r) => setTimeout(r, 400)); // let the copies of charge.refunded land
+      await fake.webhooks.settled();
+      // The three copies of the refund's event were all delivered and answered.
+      expect(fake.webhooks.deliveredCopies() - answeredBefore).toBeGreaterThanOrEqual(3);
     } finally {
       fake.webhooks.options.copies = 1;
       fake.webhooks.options.shuffle = false;
@@ -353,8 +356,10 @@ describe("cancelling before hand-over", () => {
     for (const total of byAccount.values()) expect(total).toBe(0);
 
     // A resend of every webhook (the provider's retry) changes nothing.
+    const answeredBeforeResend = fake.webhooks.deliveredCopies();
     fake.webhooks.resendAll();
-    await new Promise((r) => setTimeout(r, 300));
+    await fake.webhooks.settled();
+    expect(fake.webhooks.deliveredCopies()).toBeGreaterThan(answeredBeforeResend);
     expect(await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId })).toBe(entries.length);
     expect((await buyer.post(`/api/v1/orders/${orderId}/cancellation`, { reason: "Again" })).status).toBe(409);
 

@@ -116,7 +116,7 @@ const samples: Record<EndpointKey, Sample> = {
         password: "matrix-password-ok",
         displayName: "Matrix",
       }),
-    allowed: { anonymous: 201, buyer: 409, sawyer: 409, otherSawyer: 409, admin: 409 },
+    allowed: { anonymous: 202, buyer: 409, sawyer: 409, otherSawyer: 409, admin: 409 },
   },
   "accounts.verifyEmail": { call: (c) => c.post("/api/v1/email-verification", { token: "a".repeat(43) }), allowed: 422 },
   // Every seeded test account is verified already.
@@ -540,6 +540,61 @@ describe("role and ownership matrix, from the endpoint table", () => {
       "/api/v1/yard/listings/a%20b/photos/c%2Fd",
     );
   });
+});
+
+/**
+ * Who is asking is checked before what they sent: a caller the row does not allow gets 401/403
+ * even with input that fails the row's schemas, so field names and rules never reach them. Each
+ * row with a JSON body or a query schema gets input that fails it (a JSON array for the body, every
+ * query field given twice); an actor the row allows gets 422 for the same input, which shows the
+ * input really is invalid.
+ */
+describe("the role check comes before validation, on every row with input", () => {
+  const invalidCall = (spec: EndpointSpec) => {
+    const path = pathOf(spec, Object.fromEntries((spec.path.match(/:(\w+)/g) ?? []).map((name) => [name.slice(1), none])));
+    const shape = spec.query ? ((spec.query as unknown as { shape?: Record<string, unknown> }).shape ?? {}) : null;
+    const query = shape
+      ? Object.keys(shape)
+          .flatMap((key) => [`${key}=%00`, `${key}=%00`])
+          .join("&")
+      : "";
+    const method = spec.method.toLowerCase() as "get" | "post" | "patch" | "put" | "delete";
+    return (client: BrowserClient) => {
+      const req = client.agent[method](query ? `${path}?${query}` : path).set("x-csrf-token", client.csrfToken);
+      return typeof spec.body === "object" ? req.send([]) : req;
+    };
+  };
+  const rows = everyEndpoint().filter(
+    ({ spec }) => spec.access !== "anyone" && !spec.testOnly && (typeof spec.body === "object" || spec.query !== undefined),
+  );
+
+  it("covers every admin row that takes input", () => {
+    const adminRows = rows.filter(({ spec }) => Array.isArray(spec.access) && spec.access.length === 1 && spec.access[0] === "admin");
+    expect(adminRows.map(({ key }) => key)).toEqual(
+      expect.arrayContaining([
+        "admin.resolveReport",
+        "admin.suspendUser",
+        "admin.restoreUser",
+        "admin.updateSettings",
+        "admin.searchAudit",
+      ]),
+    );
+  });
+
+  for (const { key, spec } of rows) {
+    const call = invalidCall(spec);
+    const refused = ACTOR_ORDER.filter((actor) => !mayCall(spec.access, ROLE_OF[actor]));
+    const allowed = ACTOR_ORDER.find((actor) => mayCall(spec.access, ROLE_OF[actor]))!;
+    it(`${key}: ${refused.join(", ")} → 401/403 with invalid input; ${allowed} → 422`, async () => {
+      for (const actor of refused) {
+        const res = await call(clients[actor]);
+        expect(res.status, actor).toBe(ROLE_OF[actor] ? 403 : 401);
+        expect(res.body.error.fields, actor).toBeUndefined();
+      }
+      const res = await call(clients[allowed]);
+      expect(res.status, `${allowed} with the same input`).toBe(422);
+    });
+  }
 });
 
 /** Every method + path the Express app answers (nested routers included). */

@@ -143,8 +143,10 @@ describe("the API restarting between payment and webhook", () => {
     await until(async () => (await mailTo(buyer.account.email)).some((m) => /^Your order/.test(m.subject)));
 
     // Every event resent once more (a provider retry after a lost answer): still one sale, one e-mail.
+    const answeredBeforeResend = fake.webhooks.deliveredCopies(event.id);
     fake.webhooks.resendAll();
-    await new Promise((r) => setTimeout(r, 500));
+    await fake.webhooks.settled();
+    expect(fake.webhooks.deliveredCopies(event.id)).toBe(answeredBeforeResend + 1);
     expect(await ctx.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId, account: "provider_clearing" })).toBe(1);
     expect((await mailTo(buyer.account.email)).filter((m) => /^Your order/.test(m.subject))).toHaveLength(1);
     expect((await mailTo(sawyer.account.email)).filter((m) => /^Sold/.test(m.subject))).toHaveLength(1);
@@ -192,7 +194,8 @@ describe("the API restarting between payment and webhook", () => {
       fake.webhooks.resendAll();
       fake.webhooks.options.url = second;
       await until(async () => (await ctx.dataSource.getRepository(OrderEntity).findOneByOrFail({ id: body.order.id })).status === "paid");
-      await new Promise((r) => setTimeout(r, 500));
+      // Every copy to both instances had its answer before the counts below.
+      await fake.webhooks.settled();
     } finally {
       fake.webhooks.options.copies = 1;
       fake.webhooks.options.url = second;

@@ -75,6 +75,23 @@ describe("logs", () => {
     expect(refused.status).toBe(409);
     expect(refused.body.error.code).toBe("log_has_slabs");
   });
+
+  it("refuses felling and milling dates in the future (a new log and a change alike), and takes today", async () => {
+    const before = (await sawyer.get("/api/v1/yard/logs")).body.logs.length;
+    for (const dates of [{ felledOn: "9999-12-31" }, { milledOn: "9999-12-31" }, { felledOn: "2024-03-02", milledOn: "2999-01-01" }]) {
+      const res = await sawyer.post("/api/v1/yard/logs", { ...logInput, ...dates });
+      expect(res.status, JSON.stringify(dates)).toBe(422);
+      expect(Object.values(res.body.error.fields).join(" ")).toMatch(/cannot be in the future/);
+    }
+    expect((await sawyer.get("/api/v1/yard/logs")).body.logs.length).toBe(before);
+    const log = (await sawyer.post("/api/v1/yard/logs", { ...logInput, felledOn: "2024-03-02" })).body.log;
+    const later = await sawyer.patch(`/api/v1/yard/logs/${log.id}`, { felledOn: "9999-12-31" });
+    expect(later.status).toBe(422);
+    expect(later.body.error.fields.felledOn).toMatch(/future/);
+    expect((await sawyer.get(`/api/v1/yard/logs/${log.id}`)).body.log.felledOn).toBe("2024-03-02");
+    const today = new Date().toISOString().slice(0, 10);
+    expect((await sawyer.patch(`/api/v1/yard/logs/${log.id}`, { milledOn: today })).status).toBe(200);
+  });
 });
 
 describe("slabs and their figures", () => {
@@ -189,6 +206,13 @@ describe("moisture readings", () => {
     });
     expect(bad.status).toBe(422);
     expect(Object.keys(bad.body.error.fields).sort()).toEqual(["method", "moistureContentPct", "readOn"]);
+    const ahead = await sawyer.post(`/api/v1/yard/slabs/${slab.id}/readings`, {
+      readOn: "2999-06-01",
+      moistureContentPct: 12,
+      method: "pin_meter",
+    });
+    expect(ahead.status).toBe(422);
+    expect(ahead.body.error.fields.readOn).toMatch(/future/);
   });
 
   it("records one reading for every slab of a log at once", async () => {

@@ -10,7 +10,7 @@ import {
   YardLogEntity,
 } from "../entities/index.ts";
 import { computeListingFigures, computeSlabFigures } from "../services/figures.ts";
-import { DEFAULT_FEE_SETTINGS } from "../services/marketplace-settings.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 import { lakemontStock } from "./lakemont-stock.ts";
 import { slabPhoto } from "./slab-photo.ts";
 
@@ -429,7 +429,7 @@ async function addLog(manager: EntityManager, sawyerId: string, demo: DemoLog, p
       priceMode: demoListing.priceMode,
       rateMinor: demoListing.rateMinor,
       slabs: demoListing.slabs.map((n) => figuresBySequence.get(n)!),
-      fees: DEFAULT_FEE_SETTINGS,
+      fees: USUAL_FEES,
     });
     const at = new Date(now.getTime() - (demoListing.daysAgo ?? 0) * DAY);
     const submitted = demoListing.status !== "draft";

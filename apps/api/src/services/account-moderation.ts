@@ -8,6 +8,7 @@ import { accountRestoredMail, accountSuspendedMail } from "../mail-templates-ope
 import { requireRole, type Actor, type SignedInActor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
 import { toAccount } from "./account-service.ts";
+import type { DomainEventBus } from "../events.ts";
 
 export interface AccountModerationDependencies {
   dataSource: DataSource;
@@ -16,7 +17,8 @@ export interface AccountModerationDependencies {
   log: { error(object: object, message: string): void };
   now?: () => Date;
   /** The catalogue's refresh, called inside the transaction for every listing whose state changed. */
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
 }
 
 /**
@@ -27,7 +29,8 @@ export interface AccountModerationDependencies {
 export function createAccountModeration(deps: AccountModerationDependencies) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
-  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
+  const changed = (manager: EntityManager, listingId: string) =>
+    deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
 
   async function sendSafely(build: () => Parameters<Mailer["send"]>[0], accountId: string) {
     try {

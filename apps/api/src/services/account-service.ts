@@ -15,24 +15,43 @@ import type { EmailTokenPurpose } from "../entities/email-token.ts";
 import { Conflict, Forbidden, Gone, Invalid, NotFound, Unauthorized } from "../errors.ts";
 import { recordAudit } from "./audit-log.ts";
 import type { Mailer } from "../integrations/mail.ts";
-import { passwordResetMail, verificationMail } from "../mail-templates.ts";
+import { joinAttemptMail, passwordResetMail, signInAttemptsMail, verificationMail } from "../mail-templates.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
+import type { BackgroundWork } from "./background-work.ts";
 import { decoyPasswordCheck, hashPassword, isCommonPassword, passwordMatches } from "./passwords.ts";
 import { findPlace } from "./places.ts";
 import { newToken, tokenHash } from "./tokens.ts";
+import type { DomainEventBus } from "../events.ts";
 
 export const SESSION_DAYS = 14;
 const VERIFY_HOURS = 48;
 const RESET_HOURS = 1;
+
+/** The outcome of one sign-in try, told to the sign-in limit that admitted it (see http/rate-limits.ts). */
+export interface SignInAttempt {
+  /** The password was right: the try is handed back, and the address becomes known to the account. */
+  succeeded(): Promise<void>;
+  /** A wrong password: it stays counted; `hammered` once the account's failures reach the slow-down point. */
+  failed(): Promise<{ failures: number; hammered: boolean }>;
+}
+
+/** Whether to e-mail an owner about something happening to their account: at most once an hour per account and kind. */
+export interface OwnerNotices {
+  firstInAWhile(kind: "sign_in_attempts" | "join_attempt", email: string): Promise<boolean>;
+}
 
 export interface AccountServiceDependencies {
   dataSource: DataSource;
   mailer: Mailer;
   config: Pick<AppConfig, "bcryptCost" | "publicUrl">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
+  /** E-mails whose timing must not depend on whether an address has an account go out after the answer. */
+  background: BackgroundWork;
+  notices: OwnerNotices;
   now?: () => Date;
   /** Called inside the transaction after a yard's name or town changed. */
-  onYardChanged?: (manager: EntityManager, sawyerId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
 }
 
 /** Where a pickup town lies, from the places dataset; nulls when the town is not found. */
@@ -54,10 +73,16 @@ export function toAccount(entity: AccountEntity): Account {
   };
 }
 
+/** MariaDB's duplicate-key error (the unique index on the account's e-mail). */
+function isDuplicateKey(error: unknown): boolean {
+  const driverError = (error as { driverError?: { code?: string; errno?: number } }).driverError;
+  return driverError?.code === "ER_DUP_ENTRY" || driverError?.errno === 1062;
+}
+
 const COMMON_PASSWORD_MESSAGE = "That password is on a list of common passwords. Choose one that is harder to guess.";
 
 export function createAccountService(deps: AccountServiceDependencies) {
-  const { dataSource, mailer, config, log } = deps;
+  const { dataSource, mailer, config, log, background, notices } = deps;
   const now = deps.now ?? (() => new Date());
   const accounts = () => dataSource.getRepository(AccountEntity);
 
@@ -97,47 +122,80 @@ export function createAccountService(deps: AccountServiceDependencies) {
   }
 
   return {
-    /** Creates a buyer or sawyer account (never an admin) and mails a confirmation link. */
-    async signUp(actor: Actor, input: SignUpInput): Promise<Account> {
+    /**
+     * Makes a buyer or sawyer account (never an admin) and mails a confirmation link. The request
+     * checks the input and hashes the password, then hands the rest to background work, so an
+     * address that has an account already gets the same answer in the same time; the unique index
+     * decides (no check-then-insert race), and that address's owner gets an e-mail saying someone
+     * tried to join with it instead of a confirmation link.
+     */
+    async signUp(actor: Actor, input: SignUpInput): Promise<void> {
       if (actor.kind === "account")
         throw new Conflict("You are already signed in. Sign out to create another account.", "already_signed_in");
       if ((input.role as string) === "admin") throw new Forbidden("Admin accounts cannot be created here.");
       if (isCommonPassword(input.password)) throw new Invalid(COMMON_PASSWORD_MESSAGE, { password: COMMON_PASSWORD_MESSAGE });
       const passwordHash = await hashPassword(input.password, config.bcryptCost);
-      const { account, token } = await dataSource.transaction(async (manager) => {
-        const repository = manager.getRepository(AccountEntity);
-        if (await repository.exists({ where: { email: input.email } })) {
-          throw new Conflict("An account with this e-mail already exists. Sign in, or reset your password.", "email_taken");
+      background.run("sign_up", async () => {
+        let created: { account: AccountEntity; token: string } | null;
+        try {
+          created = await dataSource.transaction(async (manager) => {
+            const repository = manager.getRepository(AccountEntity);
+            const entity = repository.create({
+              id: randomUUID(),
+              email: input.email,
+              passwordHash,
+              role: input.role,
+              displayName: input.displayName,
+              yardName: input.role === "sawyer" ? input.yardName : null,
+              pickupTown: input.role === "sawyer" ? input.pickupTown : null,
+              ...pickupPosition(input.role === "sawyer" ? input.pickupTown : null),
+              emailVerifiedAt: null,
+            });
+            await repository.insert(entity);
+            return { account: entity, token: await issueToken(manager, entity.id, "verify_email", VERIFY_HOURS) };
+          });
+        } catch (error) {
+          if (!isDuplicateKey(error)) throw error;
+          created = null;
         }
-        const entity = repository.create({
-          id: randomUUID(),
-          email: input.email,
-          passwordHash,
-          role: input.role,
-          displayName: input.displayName,
-          yardName: input.role === "sawyer" ? input.yardName : null,
-          pickupTown: input.role === "sawyer" ? input.pickupTown : null,
-          ...pickupPosition(input.role === "sawyer" ? input.pickupTown : null),
-          emailVerifiedAt: null,
-        });
-        await repository.insert(entity);
-        const saved = await repository.findOneByOrFail({ id: entity.id });
-        return { account: saved, token: await issueToken(manager, saved.id, "verify_email", VERIFY_HOURS) };
+        if (!created) {
+          if (!(await notices.firstInAWhile("join_attempt", input.email))) return;
+          const owner = await accounts().findOneBy({ email: input.email });
+          if (owner)
+            await mailer.send(
+              joinAttemptMail(owner.email, owner.displayName, `${config.publicUrl}/sign-in`, `${config.publicUrl}/forgot-password`),
+            );
+          return;
+        }
+        const { account, token } = created;
+        log.info({ accountId: account.id, role: account.role }, "account created");
+        await mailer.send(verificationMail(account.email, account.displayName, `${config.publicUrl}/verify-email?token=${token}`));
       });
-      await sendSafely("verify_email", () =>
-        mailer.send(verificationMail(account.email, account.displayName, `${config.publicUrl}/verify-email?token=${token}`)),
-      );
-      log.info({ accountId: account.id, role: account.role }, "account created");
-      return toAccount(account);
     },
 
-    /** Checks the password and opens a session; returns the session key for the cookie. */
-    async signIn(input: SignInInput): Promise<{ account: Account; sessionKey: string }> {
+    /**
+     * Checks the password and opens a session; returns the session key for the cookie. `attempt` is
+     * the try the sign-in limit admitted: told whether the password was right, and when an account
+     * is being hammered its owner is e-mailed (after the answer, so its timing tells nothing).
+     */
+    async signIn(input: SignInInput, attempt?: SignInAttempt): Promise<{ account: Account; sessionKey: string }> {
       const entity = await accounts().findOne({ where: { email: input.email } });
       const matches = entity
         ? await passwordMatches(input.password, entity.passwordHash)
         : await decoyPasswordCheck(input.password, config.bcryptCost);
-      if (!entity || !matches) throw new Unauthorized("That e-mail and password do not match an account.", "wrong_credentials");
+      if (!entity || !matches) {
+        const outcome = await attempt?.failed();
+        if (entity && outcome?.hammered) {
+          const { failures } = outcome;
+          background.run("sign_in_warning", async () => {
+            if (!(await notices.firstInAWhile("sign_in_attempts", entity.email))) return;
+            log.info({ accountId: entity.id, failures }, "wrong passwords tried on an account; owner warned");
+            await mailer.send(signInAttemptsMail(entity.email, entity.displayName, failures, `${config.publicUrl}/forgot-password`));
+          });
+        }
+        throw new Unauthorized("That e-mail and password do not match an account.", "wrong_credentials");
+      }
+      await attempt?.succeeded();
       if (entity.suspendedAt)
         throw new Forbidden(
           "This account is suspended, so it cannot sign in. Reply to the e-mail we sent you to talk to us about it.",
@@ -199,14 +257,18 @@ export function createAccountService(deps: AccountServiceDependencies) {
       );
     },
 
-    /** Answers the same whether or not the address has an account; mails a link only when it does. */
-    async requestPasswordReset(input: PasswordResetRequestInput): Promise<void> {
-      const account = await accounts().findOne({ where: { email: input.email } });
-      if (!account) return;
-      const token = await dataSource.transaction((manager) => issueToken(manager, account.id, "reset_password", RESET_HOURS));
-      await sendSafely("reset_password", () =>
-        mailer.send(passwordResetMail(account.email, account.displayName, `${config.publicUrl}/reset-password?token=${token}`)),
-      );
+    /**
+     * Answers the same, after the same work, whether or not the address has an account: the request
+     * only hands the lookup, the link and the e-mail to background work, so its answer time says
+     * nothing about the account. A link is mailed only when there is one.
+     */
+    requestPasswordReset(input: PasswordResetRequestInput): void {
+      background.run("reset_password", async () => {
+        const account = await accounts().findOne({ where: { email: input.email } });
+        if (!account) return;
+        const token = await dataSource.transaction((manager) => issueToken(manager, account.id, "reset_password", RESET_HOURS));
+        await mailer.send(passwordResetMail(account.email, account.displayName, `${config.publicUrl}/reset-password?token=${token}`));
+      });
     },
 
     /** Sets a new password from a mailed token, ends every open session and spends other reset links. */
@@ -250,7 +312,7 @@ export function createAccountService(deps: AccountServiceDependencies) {
         await manager
           .getRepository(AccountEntity)
           .update({ id: yard.id }, { ...input, ...(input.pickupTown !== undefined ? pickupPosition(input.pickupTown) : {}) });
-        await deps.onYardChanged?.(manager, yard.id);
+        await deps.events?.emitSerial("yardChanged", { manager, sawyerId: yard.id });
         // An admin changing someone's yard is an admin action: audited in the same transaction.
         if (signedIn.role === "admin") {
           const before = Object.fromEntries(Object.keys(input).map((key) => [key, yard[key as keyof typeof yard] ?? null]));

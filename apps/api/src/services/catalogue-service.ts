@@ -30,7 +30,7 @@ import { Invalid, NotFound } from "../errors.ts";
 import type { Actor } from "./actor.ts";
 import { photoView } from "./listing-service.ts";
 import { logPhotoView } from "./photo-service.ts";
-import { withFigureErrors } from "./figures.ts";
+import { cardWeights, withFigureErrors } from "./figures.ts";
 import { findPlace } from "./places.ts";
 import { toLog, toSlab } from "./yard-service.ts";
 import { nearestFirst, type YardDistance } from "./nearest-first.ts";
@@ -74,7 +74,8 @@ export function plainCatalogueCard(entry: CatalogueRow): CatalogueCard {
     boardFeet: entry.boardFeet,
     volumeM3: entry.volumeM3,
     weightKg: entry.weightKg,
-    weightHighKg: entry.weightHighKg,
+    totalWeightHighKg: entry.totalWeightHighKg,
+    heaviestSlabHighKg: entry.heaviestSlabHighKg,
     moisturePct: entry.moisturePct,
     ready: entry.ready,
     priceMinor: entry.priceMinor,
@@ -322,8 +323,8 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         currency: listing.currency,
         boardFeet: listing.boardFeet,
         volumeM3: listing.volumeM3,
-        weightKg: listing.weightKg,
-        weightHighKg: Math.max(...slabs.map((s) => s.weightHighKg)),
+        // The set's total and its heaviest slab, named apart and from the same slab-math call.
+        ...cardWeights(slabs),
         // Both edges live only when every slab has both; any live edge at all counts as one.
         liveEdge: edges.size === 1 && edges.has("both") ? "both" : edges.has("both") || edges.has("one") ? "one" : "none",
         featureBits: slabs.map((s) => featureBits(s.features)).reduce((a, b) => a | b, 0),

@@ -40,7 +40,8 @@ export type CatalogueRow = Pick<
   | "boardFeet"
   | "volumeM3"
   | "weightKg"
-  | "weightHighKg"
+  | "totalWeightHighKg"
+  | "heaviestSlabHighKg"
   | "liveEdge"
   | "featureBits"
   | "freight"
@@ -78,7 +79,8 @@ const ROW_COLUMNS = [
   "board_feet",
   "volume_m3",
   "weight_kg",
-  "weight_high_kg",
+  "total_weight_high_kg",
+  "heaviest_slab_high_kg",
   "live_edge",
   "feature_bits",
   "freight",
@@ -122,7 +124,8 @@ export function catalogueRowFromSql(raw: Record<string, unknown>): CatalogueRow 
     boardFeet: number(raw.board_feet),
     volumeM3: number(raw.volume_m3),
     weightKg: number(raw.weight_kg),
-    weightHighKg: number(raw.weight_high_kg),
+    totalWeightHighKg: number(raw.total_weight_high_kg),
+    heaviestSlabHighKg: number(raw.heaviest_slab_high_kg),
     liveEdge: raw.live_edge as CatalogueRow["liveEdge"],
     featureBits: number(raw.feature_bits),
     freight: Boolean(number(raw.freight)),

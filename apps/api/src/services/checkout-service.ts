@@ -1,5 +1,5 @@
 import { randomUUID } from "node:crypto";
-import { roundHalfUp } from "@grainyard/slab-math";
+import { taxOn } from "@grainyard/slab-math";
 import { In, LessThan, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, LedgerEntryEntity, ListingEntity, ListingSlabEntity, OrderEntity, PaymentEventEntity } from "../entities/index.ts";
@@ -21,6 +21,7 @@ import {
   type Order,
   type OrderTransitionName,
 } from "@grainyard/contracts";
+import type { DomainEventBus } from "../events.ts";
 
 /** A new order waits for the provider; a paid order moves on through hand-over (see contracts' order-lifecycle.ts). */
 const OPEN_PAYMENT = "awaiting_payment" as const;
@@ -40,12 +41,12 @@ export interface CheckoutInput {
 }
 
 /**
- * Price, tax and total of a listing: tax at the configured rate on the price, rounded half-up once
- * (slab-math's money rule); the platform and processing fees were split by slab-math when the
+ * Price, tax and total of a listing: tax at the configured rate on the price (slab-math's taxOn,
+ * half-up once); the platform and processing fees were split by slab-math when the
  * listing was priced and are taken from the sawyer's share, not added for the buyer.
  */
 function quoteFor(listing: Pick<ListingEntity, "priceMinor" | "currency">, checkout: Pick<AppConfig["checkout"], "taxRateBps">) {
-  const taxMinor = roundHalfUp((listing.priceMinor * checkout.taxRateBps) / 10_000);
+  const taxMinor = taxOn(listing.priceMinor, checkout.taxRateBps);
   return {
     currency: listing.currency,
     priceMinor: listing.priceMinor,
@@ -63,13 +64,15 @@ export function createCheckoutService(deps: {
   config: Pick<AppConfig, "publicUrl" | "checkout">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
   /** A connected (payout) account changed at the provider; true when it is one of ours. */
   onAccountUpdated?: (account: PayoutAccountStatus, manager: EntityManager) => Promise<boolean>;
 }) {
   const { dataSource, payments, config } = deps;
   const now = deps.now ?? (() => new Date());
-  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
+  const changed = (manager: EntityManager, listingId: string) =>
+    deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
 
   async function view(order: OrderEntity, actor: Actor): Promise<Order> {
     const parties = await partiesOf(dataSource, [order]);

@@ -8,6 +8,7 @@ import {
   handlingAdvice,
   slabGeometry,
   slabPrice,
+  setWeight,
   slabWeight,
   type FeeSettings,
   type PriceMode,
@@ -115,16 +116,24 @@ export function computeListingFigures(input: ListingFigureInput) {
     const volumeM3 = input.slabs.reduce((sum, s) => sum + s.volumeM3, 0);
     const price = slabPrice({ mode: input.priceMode, rateMinor: input.rateMinor, boardFeet, volumeM3 });
     const fees = feeBreakdown(price.priceMinor, input.fees);
+    // The listing's weight is its whole set's (each end of the range summed); the heaviest slab is the catalogue's to name.
+    const weight = setWeight(input.slabs.map((s) => ({ kg: s.weightKg, lowKg: s.weightLowKg, highKg: s.weightHighKg })));
     return {
       boardFeet,
       volumeM3,
-      weightKg: input.slabs.reduce((sum, s) => sum + s.weightKg, 0),
-      weightLowKg: input.slabs.reduce((sum, s) => sum + s.weightLowKg, 0),
-      weightHighKg: input.slabs.reduce((sum, s) => sum + s.weightHighKg, 0),
+      weightKg: weight.totalKg,
+      weightLowKg: weight.totalLowKg,
+      weightHighKg: weight.totalHighKg,
       priceMinor: price.priceMinor,
       platformFeeMinor: fees.platformFeeMinor,
       processingFeeMinor: fees.processingFeeMinor,
       sawyerNetMinor: fees.sawyerNetMinor,
     };
   });
+}
+
+/** A catalogue card's weights: the whole set's (central and high end) and its heaviest slab's high end, from one slab-math call. */
+export function cardWeights(slabs: readonly { weightKg: number; weightLowKg: number; weightHighKg: number }[]) {
+  const weight = setWeight(slabs.map((s) => ({ kg: s.weightKg, lowKg: s.weightLowKg, highKg: s.weightHighKg })));
+  return { weightKg: weight.totalKg, totalWeightHighKg: weight.totalHighKg, heaviestSlabHighKg: weight.heaviestSlabHighKg };
 }

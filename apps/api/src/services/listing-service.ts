@@ -24,8 +24,9 @@ import { recordAudit } from "./audit-log.ts";
 import { changesBetween, snapshotOf, type ReviewSnapshot } from "./review-snapshot.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { DEFAULT_WEIGHT_MOISTURE_PCT, computeListingFigures } from "./figures.ts";
-import { DEFAULT_FEE_SETTINGS } from "./marketplace-settings.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 import { HOLDING_STATUSES, toSlab } from "./yard-service.ts";
+import type { DomainEventBus } from "../events.ts";
 
 /** States in which the sawyer may still change the listing. */
 const EDITABLE: ListingStatus[] = ["draft", "sent_back"];
@@ -51,9 +52,9 @@ export interface ListingServiceDependencies {
   log: { error(object: object, message: string): void };
   now?: () => Date;
   /** Called inside the transaction whenever a listing's status or figures change (keeps the catalogue in step). */
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
   /** Called after the approval committed, once a listing is live (saved-search alerts); must not throw. */
-  onListingLive?: (listingId: string) => Promise<void>;
   /** The marketplace's fee settings (admin-editable, from the database); the defaults when absent. */
   settings?: { fees(): FeeSettings };
 }
@@ -61,7 +62,8 @@ export interface ListingServiceDependencies {
 export function createListingService(deps: ListingServiceDependencies) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
-  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
+  const changed = (manager: EntityManager, listingId: string) =>
+    deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
 
   async function slabsOf(manager: EntityManager, listingId: string): Promise<SlabEntity[]> {
     const links = await manager
@@ -148,7 +150,7 @@ export function createListingService(deps: ListingServiceDependencies) {
       priceMode: listing.priceMode,
       rateMinor: listing.rateMinor,
       slabs,
-      fees: deps.settings?.fees() ?? DEFAULT_FEE_SETTINGS,
+      fees: deps.settings?.fees() ?? USUAL_FEES,
     });
   }
 
@@ -381,7 +383,7 @@ export function createListingService(deps: ListingServiceDependencies) {
     async approve(actor: Actor, listingId: string): Promise<Listing> {
       const listing = await decide(actor, listingId, "approved", null);
       await mailSawyer(listing, (to, name, link) => listingApprovedMail(to, name, listing.title, link));
-      await deps.onListingLive?.(listing.id);
+      await deps.events?.emit("listingLive", { listingId: listing.id });
       return view(dataSource.manager, listing);
     },
 

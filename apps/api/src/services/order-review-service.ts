@@ -20,13 +20,14 @@ import { Conflict, Forbidden, NotFound } from "../errors.ts";
 import type { Mailer, OutgoingMail } from "../integrations/mail.ts";
 import { reviewAnsweredMail, reviewHiddenMail, reviewWrittenMail } from "../mail-templates-reviews.ts";
 import { requireRole, requireSignedIn, type Actor, type SignedInActor } from "./actor.ts";
+import type { DomainEventBus } from "../events.ts";
 import { recordAudit } from "./audit-log.ts";
 import { NO_REVIEWS, yardRatingTotals } from "./yard-rating.ts";
 
 /*
  * Reviews of completed orders (see contracts' order-reviews.ts for the rules in words). Every
  * change is a conditional update on the review's state, inside a transaction that also brings
- * the yard's rating on its catalogue rows up to date (`onYardRatingChanged`), so two tabs or two
+ * the yard's rating on its catalogue rows up to date (the `yardRatingChanged` event), so two tabs or two
  * API instances can never write two reviews, answer twice or edit after the days are over.
  */
 
@@ -76,12 +77,13 @@ export function createOrderReviewService(deps: {
   config: Pick<AppConfig, "publicUrl">;
   log: { error(object: object, message: string): void };
   now?: () => Date;
-  /** The yard's visible reviews changed: bring its rating on its catalogue rows up to date (same transaction). */
-  onYardRatingChanged?: (manager: EntityManager, sawyerId: string) => Promise<void>;
+  /** Where the service announces that a yard's visible reviews changed (the catalogue follows, in the same transaction). */
+  events?: DomainEventBus;
 }) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
-  const ratingChanged = (manager: EntityManager, sawyerId: string) => deps.onYardRatingChanged?.(manager, sawyerId) ?? Promise.resolve();
+  const ratingChanged = (manager: EntityManager, sawyerId: string) =>
+    deps.events?.emitSerial("yardRatingChanged", { manager, sawyerId }) ?? Promise.resolve();
   const orderLink = (orderId: string) => `${deps.config.publicUrl}/orders/${orderId}`;
 
   async function sendSafely(mail: OutgoingMail | null) {

@@ -22,6 +22,7 @@ import { orderStepMail, type OrderStep } from "../mail-templates.ts";
 import { requireSignedIn, type Actor } from "./actor.ts";
 import { timeZoneAt } from "./places.ts";
 import type { RefundService } from "./refund-service.ts";
+import type { DomainEventBus } from "../events.ts";
 
 /**
  * An order after payment: the sawyer readies it (pickup windows, or freight with a tracking
@@ -157,7 +158,8 @@ export function createOrderService(deps: {
   config: Pick<AppConfig, "publicUrl" | "checkout">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
 }) {
   const { dataSource, config } = deps;
   const now = deps.now ?? (() => new Date());
@@ -369,7 +371,7 @@ export function createOrderService(deps: {
           manager,
         );
         await manager.getRepository(ListingEntity).update({ id: order.listingId, status: "sold" }, { status: "live" });
-        await deps.onListingChanged?.(manager, order.listingId);
+        await deps.events?.emitSerial("listingChanged", { manager, listingId: order.listingId });
         return updated;
       });
       await deps.refunds.refundCancelledOrder(cancelled);

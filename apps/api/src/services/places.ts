@@ -33,12 +33,13 @@ const DEMO_PLACES: Place[] = [
 ];
 const DEMO_POPULATION = 250_000;
 
+/** A name as it is matched: accents off, lower case, letters and digits of any script kept, everything else a space. */
 const fold = (text: string) =>
   text
     .normalize("NFD")
     .replace(/[\u0300-\u036f]/g, "")
     .toLowerCase()
-    .replace(/[^a-z0-9]+/g, " ")
+    .replace(/[^\p{L}\p{M}\p{N}]+/gu, " ")
     .trim();
 
 let index: IndexedPlace[] | null = null;
@@ -109,6 +110,8 @@ export function findPlace(text: string): Place | null {
   const direct = byId!.get(trimmed);
   if (direct) return strip(direct);
   const [namePart, regionPart] = trimmed.split(",").map((part) => fold(part ?? ""));
+  // Nothing left to match (emoji, punctuation): no town, rather than whichever place has an empty key.
+  if (!namePart) return null;
   const first = (byName!.get(namePart ?? "") ?? []).find((place) => !regionPart || fold(place.region).includes(regionPart));
   return first ? strip(first) : null;
 }

@@ -16,6 +16,7 @@ import { accountSuspendedMail, listingTakenDownMail } from "../mail-templates-op
 import type { AccountModeration } from "./account-moderation.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
+import type { DomainEventBus } from "../events.ts";
 import type { OrderReviewService } from "./order-review-service.ts";
 
 /** Listings an admin may take down after a report (a reserved or sold slab is mid-sale: handled as an order dispute). */
@@ -30,11 +31,13 @@ export function createReportService(deps: {
   /** Hiding a reported review (inside the resolution's transaction), and telling its buyer. */
   reviews: Pick<OrderReviewService, "hideWith" | "mailHidden">;
   now?: () => Date;
-  onListingChanged?: (manager: EntityManager, listingId: string) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
 }) {
   const { dataSource } = deps;
   const now = deps.now ?? (() => new Date());
-  const changed = (manager: EntityManager, listingId: string) => deps.onListingChanged?.(manager, listingId) ?? Promise.resolve();
+  const changed = (manager: EntityManager, listingId: string) =>
+    deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
 
   async function sendSafely(build: () => Parameters<Mailer["send"]>[0] | null) {
     try {

@@ -7,7 +7,7 @@ import { MarketplaceSettingEntity } from "../entities/index.ts";
 import { Invalid } from "../errors.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
-import { DEFAULT_FEE_SETTINGS } from "./marketplace-settings.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 
 /** Days a sawyer's money is held after hand-over before a payout (common practice for marketplaces). */
 const DEFAULT_HOLD_DAYS = 7;
@@ -15,9 +15,9 @@ const DEFAULT_HOLD_DAYS = 7;
 /** The defaults when an admin has set nothing: the fee constants and the env values of before. */
 function defaultMarketplaceSettings(config: Pick<AppConfig, "checkout">): MarketplaceSettings {
   return {
-    platformFeeBps: DEFAULT_FEE_SETTINGS.platformFeeBps,
-    processingFeeBps: DEFAULT_FEE_SETTINGS.processingFeeBps,
-    processingFixedMinor: DEFAULT_FEE_SETTINGS.processingFixedMinor,
+    platformFeeBps: USUAL_FEES.platformFeeBps,
+    processingFeeBps: USUAL_FEES.processingFeeBps,
+    processingFixedMinor: USUAL_FEES.processingFixedMinor,
     holdDays: DEFAULT_HOLD_DAYS,
     reservationMinutes: config.checkout.reservationMinutes,
     taxRateBps: config.checkout.taxRateBps,

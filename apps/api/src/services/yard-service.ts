@@ -7,6 +7,7 @@ import { type ListingEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntit
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import { computeSlabFigures, dryingStateOf, projectionView, slabFiguresView } from "./figures.ts";
+import type { DomainEventBus } from "../events.ts";
 
 /** Listing states in which a slab's measurements are locked (a reviewer or buyer relies on them). */
 const LOCKING_STATUSES = ["in_review", "live", "reserved", "sold"] as const;
@@ -76,7 +77,8 @@ function toReading(entity: MoistureReadingEntity): MoistureReading {
 export interface YardServiceDependencies {
   dataSource: DataSource;
   /** Called inside the transaction whenever a slab's figures change, so listings stay in step. */
-  onSlabFiguresChanged?: (manager: EntityManager, slabIds: string[]) => Promise<void>;
+  /** Where the service announces what changed (the catalogue and alerts listen). */
+  events?: DomainEventBus;
 }
 
 export function createYardService(deps: YardServiceDependencies) {
@@ -131,7 +133,7 @@ export function createYardService(deps: YardServiceDependencies) {
   async function refreshFigures(manager: EntityManager, slab: SlabEntity): Promise<void> {
     Object.assign(slab, computeSlabFigures(slab));
     await manager.getRepository(SlabEntity).save(slab);
-    await deps.onSlabFiguresChanged?.(manager, [slab.id]);
+    await deps.events?.emitSerial("slabFiguresChanged", { manager, slabIds: [slab.id] });
   }
 
   async function refreshLastReading(manager: EntityManager, slab: SlabEntity): Promise<void> {

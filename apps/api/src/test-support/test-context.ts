@@ -1,4 +1,5 @@
 import { randomBytes, randomUUID } from "node:crypto";
+import { Agent } from "node:http";
 import { CSRF_HEADER, type Role } from "@grainyard/contracts";
 import mysql from "mysql2/promise";
 import request from "supertest";
@@ -93,10 +94,16 @@ export async function createTestContext(options: { environment?: Record<string, 
       });
       return { id, email, password };
     },
-    /** A browser-like client: keeps cookies and sends the anti-forgery header on changes. */
-    async client() {
-      return browserClient(app);
+    /**
+     * A browser-like client: keeps cookies and sends the anti-forgery header on changes. `from`
+     * gives it its own loopback address (127.0.0.2, 127.0.0.3…): its connections leave from there,
+     * so the API sees two clients as two addresses, through the socket, with no proxy header.
+     */
+    async client(options: ClientOptions = {}) {
+      return browserClient(app, options);
     },
+    /** Waits for the e-mails and other background work the requests so far started. */
+    settled: () => app.background.settled(),
     async signedInClient(role: Role, overrides: Partial<AccountEntity> & { password?: string } = {}) {
       const account = await this.createAccount(role, overrides);
       const client = await browserClient(app);
@@ -114,8 +121,18 @@ export async function createTestContext(options: { environment?: Record<string, 
 
 export type TestContext = Awaited<ReturnType<typeof createTestContext>>;
 
-export async function browserClient(app: Parameters<typeof request.agent>[0]) {
+export interface ClientOptions {
+  /** The loopback address the client's connections leave from (127.0.0.0/8 only). */
+  from?: string;
+}
+
+export async function browserClient(app: Parameters<typeof request.agent>[0], options: ClientOptions = {}) {
   const agent = request.agent(app);
+  if (options.from) {
+    if (!/^127\.\d{1,3}\.\d{1,3}\.\d{1,3}$/.test(options.from)) throw new Error(`test clients stay on loopback, not ${options.from}`);
+    const socketAgent = new Agent({ localAddress: options.from });
+    agent.use((req: { agent(agent: Agent): unknown }) => void req.agent(socketAgent));
+  }
   let csrfToken = (await agent.get("/api/v1/session").expect(200)).body.csrfToken as string;
   const remember = (res: request.Response) => {
     if (typeof res.body?.csrfToken === "string") csrfToken = res.body.csrfToken;

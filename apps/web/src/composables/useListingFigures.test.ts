@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
 import type { Slab } from "@grainyard/contracts";
 import { listingPreview } from "./useListingFigures.ts";
-import { FEE_PREVIEW_SETTINGS } from "../constants/fee-preview.ts";
+import { NIOSH_LOAD_CONSTANT_KG } from "@grainyard/slab-math";
+import { USUAL_FEES } from "@grainyard/slab-math";
 
 function slab(boardFeet: number, volumeM3: number, weightLowKg: number, weightHighKg: number): Slab {
   return {
@@ -33,7 +34,7 @@ function slab(boardFeet: number, volumeM3: number, weightLowKg: number, weightHi
       weightLowKg,
       weightHighKg,
       weightAtMoisturePct: 8,
-      heavyLift: weightHighKg > 23,
+      heavyLift: weightHighKg > NIOSH_LOAD_CONSTANT_KG,
       handling: "two_people",
     },
     lastMoisturePct: 8,
@@ -46,7 +47,7 @@ function slab(boardFeet: number, volumeM3: number, weightLowKg: number, weightHi
 
 describe("listing live figures", () => {
   it("uses Grainyard's preview fees: 10 % platform, 2.9 % + 0.30 processing", () => {
-    expect(FEE_PREVIEW_SETTINGS).toEqual({ platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 });
+    expect(USUAL_FEES).toEqual({ platformFeeBps: 1000, processingFeeBps: 290, processingFixedMinor: 30 });
   });
 
   it("prices a set per board foot over its total, then splits fees and the sawyer's net", () => {

@@ -1,6 +1,6 @@
 import { SlabMathError, feeBreakdown, slabPrice, type FeeBreakdown, type FeeSettings, type PriceMode } from "@grainyard/slab-math";
 import type { Slab } from "@grainyard/contracts";
-import { FEE_PREVIEW_SETTINGS } from "../constants/fee-preview.ts";
+import { USUAL_FEES } from "@grainyard/slab-math";
 
 export interface ListingPreview {
   slabCount: number;
@@ -26,7 +26,7 @@ export function listingPreview(
   slabs: readonly Slab[],
   priceMode: PriceMode | "",
   rateMinor: number | null,
-  fees: FeeSettings = FEE_PREVIEW_SETTINGS,
+  fees: FeeSettings = USUAL_FEES,
 ): ListingPreview {
   const totals = slabs.reduce(
     (sum, slab) => ({

@@ -161,4 +161,24 @@ describe("BrowseView: the catalogue", () => {
     expect(wrapper.find('[data-test="filter-problem"]').text()).toContain('We could not find the town "Nowhere".');
     expect(wrapper.find("#filter-near-note").text()).toBe("Choose a town from the list.");
   });
+
+  it("names a set's weight as the whole set's, with its heaviest slab under it, and judges the lift on that slab", async () => {
+    // A slab and an offcut: 60 kg + 5 kg central, highs 66 and 5.5 kg (slab-math's ±10 %).
+    const pair: CatalogueCard = {
+      ...oak,
+      listingId: "lst_pair",
+      setKind: "sequential",
+      slabCount: 2,
+      weightKg: 65,
+      totalWeightHighKg: 71.5,
+      heaviestSlabHighKg: 66,
+    };
+    const { wrapper } = await mountView(BrowseView, { path: "/browse", answers: { [SEARCH]: [page([oak, pair])] } });
+    const [single, set] = wrapper.findAll('[data-test="catalogue-card"]');
+    expect(single!.text()).toContain("up to 138 kg");
+    expect(set!.text()).toContain("up to 72 kg in all");
+    expect(set!.text()).toContain("heaviest slab up to 66 kg");
+    expect(set!.text()).not.toContain("65 kg");
+    expect(set!.find(".catalogue-card__lift").text()).toMatch(/machine/i);
+  });
 });

@@ -10,17 +10,6 @@ afterEach(() => {
   document.body.innerHTML = "";
 });
 
-const newSawyer = {
-  id: "acc_9",
-  email: "wren@cobblelane.example",
-  displayName: "Wren Halloway",
-  role: "sawyer",
-  emailVerified: false,
-  yardName: "Cobble Lane Slabworks",
-  pickupTown: "Lakemont",
-  createdAt: "2025-03-02T10:00:00.000Z",
-};
-
 async function submit(wrapper: Awaited<ReturnType<typeof mountView>>["wrapper"]) {
   await wrapper.find("form").trigger("submit");
   await flushPromises();
@@ -100,12 +89,15 @@ describe("SignUpView", () => {
     expect(wrapper.find('[role="alert"]').text()).toContain("Check the highlighted fields.");
   });
 
-  it("shows a 409 (e-mail taken) beside the e-mail field", async () => {
+  it("shows a 409 (signed in already) beside the e-mail field", async () => {
     const { wrapper } = await mountView(SignUpView, {
       path: "/join?role=buyer",
       answers: {
         [`POST ${accountEndpoints.signUp.path}`]: [
-          { status: 409, body: { error: { code: "conflict", message: "An account already uses that e-mail." } } },
+          {
+            status: 409,
+            body: { error: { code: "already_signed_in", message: "You are already signed in. Sign out to create another account." } },
+          },
         ],
       },
     });
@@ -113,13 +105,17 @@ describe("SignUpView", () => {
     await typeInto(wrapper, "email", "ada@example.org");
     await typeInto(wrapper, "password", "a long enough phrase");
     await submit(wrapper);
-    expect(noteFor(wrapper, "email")).toBe("An account already uses that e-mail.");
+    expect(noteFor(wrapper, "email")).toBe("You are already signed in. Sign out to create another account.");
   });
 
   it("sends the sawyer's sign-up with the CSRF token and shows 'check your inbox'", async () => {
     const { wrapper, fetchMock } = await mountView(SignUpView, {
       path: "/join?role=sawyer",
-      answers: { [`POST ${accountEndpoints.signUp.path}`]: [{ status: 201, body: { account: newSawyer } }] },
+      answers: {
+        [`POST ${accountEndpoints.signUp.path}`]: [
+          { status: 202, body: { message: "Check your inbox: we sent a link to confirm your address." } },
+        ],
+      },
     });
     await typeInto(wrapper, "displayName", "Wren Halloway");
     await typeInto(wrapper, "email", "  Wren@CobbleLane.example ");

@@ -42,12 +42,13 @@ export const accountEndpoints = {
   signUp: endpoint({
     method: "POST",
     path: `${API_PREFIX}/accounts`,
-    summary: "Make a buyer or sawyer account (admins come only from the command line).",
+    summary:
+      "Make a buyer or sawyer account (admins come only from the command line); the same answer whether or not the address has one already.",
     access: "anyone",
     body: signUpSchema,
-    answer: accountEnvelopeSchema,
-    status: 201,
-    errors: ["already_signed_in", "email_taken"],
+    answer: z.object({ message: z.string() }),
+    status: 202,
+    errors: ["already_signed_in"],
   }),
   verifyEmail: endpoint({
     method: "POST",

@@ -5,8 +5,8 @@ import type { MigrationInterface, QueryRunner } from "typeorm";
  * hiding), and each catalogue row's copy of its yard's visible reviews (count and sum of ratings)
  * for the rating on catalogue cards. Existing catalogue rows start at no reviews: there were none.
  */
-export class OrderReviews1764781200000 implements MigrationInterface {
-  name = "OrderReviews1764781200000";
+export class OrderReviews1764813600000 implements MigrationInterface {
+  name = "OrderReviews1764813600000";
 
   async up(queryRunner: QueryRunner): Promise<void> {
     await queryRunner.query(
