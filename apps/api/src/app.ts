@@ -46,6 +46,8 @@ import { createAuditService } from "./services/audit-log.ts";
 import { createDashboardService } from "./services/dashboard-service.ts";
 import { createReportService } from "./services/report-service.ts";
 import { createOrderReviewService } from "./services/order-review-service.ts";
+import { createYardPageService } from "./services/yard-page-service.ts";
+import { yardPageHandlers } from "./routes/yard-page-routes.ts";
 import { orderReviewHandlers } from "./routes/order-review-routes.ts";
 import { createSettingsService } from "./services/settings-service.ts";
 import { movableClock, testClockHandlers } from "./routes/test-clock-routes.ts";
@@ -236,6 +238,7 @@ export function createApp(appDeps: AppDependencies) {
     catalogue: catalogueHandlers(catalogue, settings),
     orders: orderHandlers(checkout, orders, deps.payments),
     orderReviews: orderReviewHandlers(orderReviews),
+    yardPages: yardPageHandlers(createYardPageService({ dataSource: deps.dataSource })),
     buyer: buyerHandlers(savedSearches, favourites),
     messages: messageHandlers(messages),
     reports: reportHandlers(reports),

@@ -169,6 +169,8 @@ export const catalogueCardSchema = z.object({
   pickup: z.boolean(),
   town: z.string().nullable(),
   yardName: z.string().nullable(),
+  /** The address of the yard's public page (`/yards/<slug>`). */
+  yardSlug: z.string().nullable(),
   /** The yard's rating from its buyers' reviews (mean to one decimal, and how many); null before its first review. */
   yardRating: z.object({ average: z.number(), count: z.number() }).nullable(),
   distanceKm: z.number().nullable(),
@@ -240,6 +242,8 @@ export const catalogueDetailSchema = z.object({
     /** The sawyer's account id: their yard's reviews are at `orderReviews.yardReviews`. */
     id: z.string(),
     name: z.string().nullable(),
+    /** The address of the yard's public page (`/yards/<slug>`). */
+    slug: z.string().nullable(),
     town: z.string().nullable(),
     latitude: z.number().nullable(),
     longitude: z.number().nullable(),

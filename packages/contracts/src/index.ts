@@ -13,3 +13,4 @@ export * from "./buyer-tools.ts";
 export * from "./admin.ts";
 export * from "./payouts.ts";
 export * from "./order-reviews.ts";
+export * from "./yard-pages.ts";

@@ -2,6 +2,7 @@ import { HeadObjectCommand } from "@aws-sdk/client-s3";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { displayKey } from "../photos/photo-storage.ts";
+import { createYardPageService } from "../services/yard-page-service.ts";
 import { createTestDatabase } from "../test-support/test-context.ts";
 import { describeSeed, seedDemo, type DemoSeedSummary } from "./demo-seed.ts";
 
@@ -28,7 +29,7 @@ beforeAll(async () => {
   db = await createTestDatabase();
   first = await seedDemo(db.dataSource, db.config);
   console.log(`first run: ${describeSeed(first)}`);
-}, 300_000);
+}, 600_000);
 afterAll(async () => {
   await db?.drop();
 });
@@ -94,6 +95,17 @@ describe("the living demo seed", () => {
       (await db.dataSource.query("SELECT DATEDIFF(MAX(created_at), MIN(created_at)) AS days FROM buyer_order")) as { days: number }[]
     )[0]!;
     expect(Number(spread.days)).toBeGreaterThan(30);
+  });
+
+  it("gives each demo yard a public page with its sales and rating", async () => {
+    const pages = createYardPageService({ dataSource: db.dataSource });
+    const ridgeback = await pages.page("ridgeback-urban-timber");
+    expect(ridgeback.yard.slabsSold).toBeGreaterThan(0);
+    expect(ridgeback.yard.rating.count).toBeGreaterThan(0);
+    expect(ridgeback.liveSlabs.length).toBeGreaterThan(3);
+    expect(ridgeback.dryingLogs.length).toBeGreaterThan(0);
+    const slugs = (await db.dataSource.query("SELECT yard_slug FROM account WHERE role = 'sawyer'")) as { yard_slug: string | null }[];
+    expect(slugs.filter((row) => row.yard_slug)).toHaveLength(10);
   });
 
   it("adds nothing the second time", { timeout: 120_000 }, async () => {

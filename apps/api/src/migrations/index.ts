@@ -59,3 +59,7 @@ migrations.push(CatalogueSetWeights1764802800000);
 // Reviews of completed orders, and the yard's rating on each catalogue row.
 import { OrderReviews1764813600000 } from "./1764813600000-order-reviews.ts";
 migrations.push(OrderReviews1764813600000);
+
+// Public yard pages: each yard's page address (slug) and its story; catalogue rows keep the slug for the cards' link.
+import { YardPages1764824400000 } from "./1764824400000-yard-pages.ts";
+migrations.push(YardPages1764824400000);

@@ -363,6 +363,13 @@ const samples: Record<EndpointKey, Sample> = {
     allowed: { sawyer: 201, otherSawyer: 403 },
   },
   "orderReviews.yardReviews": { call: (c, ids) => c.get(`/api/v1/yards/${ids.sawyerId}/reviews`), allowed: { otherBuyer: 200 } },
+  "yardPages.getYardPage": {
+    call: async (c, ids) => {
+      const [yard] = (await ctx.dataSource.query("SELECT yard_slug FROM account WHERE id = ?", [ids.sawyerId])) as { yard_slug: string }[];
+      return c.get(`/api/v1/yard-pages/${yard!.yard_slug}`);
+    },
+    allowed: { otherBuyer: 200 },
+  },
   "orderReviews.listReviews": { call: (c) => c.get("/api/v1/admin/order-reviews") },
   "orderReviews.hideReview": {
     call: async (c, ids) => c.post(`/api/v1/admin/order-reviews/${await reviewIdOf(ids)}/hide`, { reason: "Matrix hides it." }),

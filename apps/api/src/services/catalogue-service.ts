@@ -87,6 +87,7 @@ export function plainCatalogueCard(entry: CatalogueRow): CatalogueCard {
     pickup: entry.pickup,
     town: entry.town,
     yardName: entry.yardName,
+    yardSlug: entry.yardSlug,
     yardRating:
       entry.yardReviewCount > 0
         ? { average: averageRating(entry.yardRatingTotal, entry.yardReviewCount)!, count: entry.yardReviewCount }
@@ -332,6 +333,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         pickup: listing.pickup,
         town: sawyer?.pickupTown ?? null,
         yardName: sawyer?.yardName ?? null,
+        yardSlug: sawyer?.yardSlug ?? null,
         yardReviewCount: rating.count,
         yardRatingTotal: rating.ratingTotal,
         latitude: sawyer?.pickupLatitude ?? null,
@@ -538,6 +540,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         yard: {
           id: listing.sawyerId,
           name: sawyer?.yardName ?? null,
+          slug: sawyer?.yardSlug ?? null,
           town: sawyer?.pickupTown ?? null,
           latitude: sawyer?.pickupLatitude ?? null,
           longitude: sawyer?.pickupLongitude ?? null,

@@ -48,6 +48,7 @@ export type CatalogueRow = Pick<
   | "pickup"
   | "town"
   | "yardName"
+  | "yardSlug"
   | "yardReviewCount"
   | "yardRatingTotal"
   | "latitude"
@@ -87,6 +88,7 @@ const ROW_COLUMNS = [
   "pickup",
   "town",
   "yard_name",
+  "yard_slug",
   "yard_review_count",
   "yard_rating_total",
   "latitude",
@@ -132,6 +134,7 @@ export function catalogueRowFromSql(raw: Record<string, unknown>): CatalogueRow 
     pickup: Boolean(number(raw.pickup)),
     town: nullableText(raw.town),
     yardName: nullableText(raw.yard_name),
+    yardSlug: nullableText(raw.yard_slug),
     yardReviewCount: number(raw.yard_review_count),
     yardRatingTotal: number(raw.yard_rating_total),
     latitude: nullableNumber(raw.latitude),

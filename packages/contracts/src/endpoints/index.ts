@@ -9,6 +9,7 @@ import { orderReviewEndpoints } from "./order-reviews.ts";
 import { payoutEndpoints } from "./payouts.ts";
 import { healthEndpoints, testClockEndpoints } from "./system.ts";
 import { yardEndpoints } from "./yard.ts";
+import { yardPageEndpoints } from "./yard-pages.ts";
 
 export { API_PREFIX } from "./prefix.ts";
 export { accountEndpoints } from "./accounts.ts";
@@ -21,6 +22,7 @@ export { orderReviewEndpoints } from "./order-reviews.ts";
 export { payoutEndpoints } from "./payouts.ts";
 export { healthEndpoints, testClockEndpoints, testClockSchema } from "./system.ts";
 export { yardEndpoints } from "./yard.ts";
+export { yardPageEndpoints } from "./yard-pages.ts";
 
 /**
  * The whole endpoint table, by domain. The API mounts every route from it and the role matrix
@@ -35,6 +37,7 @@ export const endpointTable = {
   catalogue: catalogueEndpoints,
   orders: orderEndpoints,
   orderReviews: orderReviewEndpoints,
+  yardPages: yardPageEndpoints,
   buyer: buyerEndpoints,
   messages: messageEndpoints,
   reports: reportEndpoints,
