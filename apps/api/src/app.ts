@@ -43,6 +43,10 @@ import { createAccountModeration } from "./services/account-moderation.ts";
 import { createAuditService } from "./services/audit-log.ts";
 import { createDashboardService } from "./services/dashboard-service.ts";
 import { createReportService } from "./services/report-service.ts";
+import { createOrderReviewService } from "./services/order-review-service.ts";
+import { createYardPageService } from "./services/yard-page-service.ts";
+import { yardPageHandlers } from "./routes/yard-page-routes.ts";
+import { orderReviewHandlers } from "./routes/order-review-routes.ts";
 import { createSettingsService } from "./services/settings-service.ts";
 import { movableClock, testClockHandlers } from "./routes/test-clock-routes.ts";
 import { mountEndpoints, rowsOf, type Handlers, type MountOptions } from "./http/endpoints.ts";
@@ -191,12 +195,21 @@ export function createApp(appDeps: AppDependencies) {
     now: deps.now,
     events,
   });
+  const orderReviews = createOrderReviewService({
+    dataSource: deps.dataSource,
+    mailer: deps.mailer,
+    config,
+    log: logger,
+    now: deps.now,
+    events,
+  });
   const reports = createReportService({
     dataSource: deps.dataSource,
     mailer: deps.mailer,
     config,
     log: logger,
     moderation,
+    reviews: orderReviews,
     now: deps.now,
     events,
   });
@@ -212,6 +225,7 @@ export function createApp(appDeps: AppDependencies) {
   events.on("yardChanged", ({ manager, sawyerId }) => listings.refreshAllOfSawyer(manager, sawyerId));
   events.on("slabFiguresChanged", ({ manager, slabIds }) => listings.refreshListingsOfSlabs(manager, slabIds));
   events.on("listingLive", ({ listingId }) => savedSearches.onListingLive(listingId));
+  events.on("yardRatingChanged", ({ manager, sawyerId }) => catalogue.refreshYardRating(manager, sawyerId));
 
   // Every API route comes from the endpoint table in packages/contracts, with one handler per row.
   const handlers: { [D in keyof typeof endpointTable]?: Handlers<(typeof endpointTable)[D]> } = {
@@ -222,6 +236,8 @@ export function createApp(appDeps: AppDependencies) {
     review: reviewHandlers(listings),
     catalogue: catalogueHandlers(catalogue, settings),
     orders: orderHandlers(checkout, orders, deps.payments),
+    orderReviews: orderReviewHandlers(orderReviews),
+    yardPages: yardPageHandlers(createYardPageService({ dataSource: deps.dataSource })),
     buyer: buyerHandlers(savedSearches, favourites),
     messages: messageHandlers(messages),
     reports: reportHandlers(reports),

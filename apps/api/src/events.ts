@@ -15,6 +15,8 @@ interface DomainEvents {
   yardChanged: { manager: EntityManager; sawyerId: string };
   /** Slabs' computed figures changed: the listings that hold them follow. */
   slabFiguresChanged: { manager: EntityManager; slabIds: string[] };
+  /** A yard's visible reviews changed: its rating on its catalogue rows follows. */
+  yardRatingChanged: { manager: EntityManager; sawyerId: string };
 }
 
 export type DomainEventBus = Emittery<DomainEvents>;

@@ -1,5 +1,5 @@
 import escape from "escape-html";
-import { countOf, type OrderSlabSnapshot } from "@grainyard/contracts";
+import { countOf, REVIEW_EDIT_DAYS, type OrderSlabSnapshot } from "@grainyard/contracts";
 import { formatMoney } from "@grainyard/slab-math";
 import type { OutgoingMail } from "./integrations/mail.ts";
 
@@ -318,6 +318,9 @@ export function orderStepMail(
         role === "buyer"
           ? "Enjoy the build. Wood dust is a recognised carcinogen: work with dust extraction and a fitted respirator, and read the safety data sheet of any finish."
           : `Your net for this sale: ${formatMoney(order.sawyerNetMinor, order.currency)}.`,
+        ...(role === "buyer"
+          ? [`Tell other buyers how it went: review the order on its page (you can change your review for ${REVIEW_EDIT_DAYS} days).`]
+          : []),
       ];
       break;
     case "cancelled": {

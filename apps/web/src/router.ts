@@ -190,6 +190,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "Reports", roles: ["admin"] },
   },
   {
+    path: "/admin/buyer-reviews",
+    name: "admin-buyer-reviews",
+    component: () => import("./views/AdminBuyerReviewsView.vue"),
+    meta: { title: "Buyer reviews", roles: ["admin"] },
+  },
+  {
     path: "/admin/users",
     name: "admin-users",
     component: () => import("./views/AdminUsersView.vue"),

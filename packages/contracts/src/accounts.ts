@@ -89,8 +89,14 @@ export type PasswordResetRequestInput = z.infer<typeof passwordResetRequestSchem
 export const passwordResetSchema = z.object({ token: tokenSchema, password: newPasswordSchema });
 export type PasswordResetInput = z.infer<typeof passwordResetSchema>;
 
+/** What a sawyer tells buyers on the yard's public page (paragraphs allowed). */
+export const yardStorySchema = z
+  .string({ error: "Tell buyers about your yard in words." })
+  .trim()
+  .max(2000, "Keep the story under 2000 characters.");
+
 export const yardProfileUpdateSchema = z
-  .object({ yardName: yardNameSchema, pickupTown: pickupTownSchema })
+  .object({ yardName: yardNameSchema, pickupTown: pickupTownSchema, yardStory: yardStorySchema })
   .partial()
   .refine((value) => Object.keys(value).length > 0, "Change at least one field.");
 export type YardProfileUpdateInput = z.infer<typeof yardProfileUpdateSchema>;
@@ -103,6 +109,9 @@ export const accountSchema = z.object({
   role: roleSchema,
   emailVerified: z.boolean(),
   yardName: z.string().nullable(),
+  /** The address of the yard's public page (`/yards/<slug>`). */
+  yardSlug: z.string().nullable(),
+  yardStory: z.string().nullable(),
   pickupTown: z.string().nullable(),
   createdAt: z.string(),
 });

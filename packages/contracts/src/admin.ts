@@ -80,13 +80,14 @@ export const auditPageSchema = z.object({ entries: z.array(auditEntrySchema), ne
 export type AuditPage = z.infer<typeof auditPageSchema>;
 
 // Reports.
-export const reportTargetKinds = ["listing", "message"] as const;
-export const reportStatuses = ["open", "dismissed", "listing_taken_down", "user_suspended"] as const;
+export const reportTargetKinds = ["listing", "message", "review"] as const;
+export const reportStatuses = ["open", "dismissed", "listing_taken_down", "user_suspended", "review_hidden"] as const;
 export const reportStatusLabels: Record<(typeof reportStatuses)[number], string> = {
   open: "Open",
   dismissed: "Dismissed",
   listing_taken_down: "Listing taken down",
   user_suspended: "User suspended",
+  review_hidden: "Review hidden",
 };
 export const reportInputSchema = z.object({
   targetKind: z.enum(reportTargetKinds, { error: "Choose what you are reporting." }),
@@ -94,7 +95,8 @@ export const reportInputSchema = z.object({
   reason: reasonField("Tell us what is wrong, in a few words."),
 });
 export type ReportInput = z.infer<typeof reportInputSchema>;
-export const reportResolutions = ["dismiss", "take_down", "suspend"] as const;
+/** `take_down` is for a listing, `hide_review` for a review; `dismiss` and `suspend` for anything. */
+export const reportResolutions = ["dismiss", "take_down", "suspend", "hide_review"] as const;
 export const reportResolveSchema = z.object({
   resolution: z.enum(reportResolutions, { error: "Choose how to resolve the report." }),
   note: reasonField("Say why, in a few words (kept in the audit log)."),
@@ -105,7 +107,7 @@ export const reportSchema = z.object({
   targetKind: z.enum(reportTargetKinds),
   targetId: z.string(),
   listingId: z.string().nullable(),
-  /** The listing's title or the message's words, for the admin to judge. */
+  /** The listing's title, the message's words or the review's, for the admin to judge. */
   excerpt: z.string(),
   reason: z.string(),
   status: z.enum(reportStatuses),

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { hasLetter } from "./common.ts";
+import { yardRatingSchema } from "./order-reviews.ts";
 import { liveEdges, slabFeatures } from "./yard.ts";
 import { currencies, listingFiguresSchema, listingPhotoSchema, setKinds } from "./listings.ts";
 import { moistureReadingSchema, photoSchema, slabSchema, logSchema } from "./yard.ts";
@@ -168,6 +169,10 @@ export const catalogueCardSchema = z.object({
   pickup: z.boolean(),
   town: z.string().nullable(),
   yardName: z.string().nullable(),
+  /** The address of the yard's public page (`/yards/<slug>`). */
+  yardSlug: z.string().nullable(),
+  /** The yard's rating from its buyers' reviews (mean to one decimal, and how many); null before its first review. */
+  yardRating: z.object({ average: z.number(), count: z.number() }).nullable(),
   distanceKm: z.number().nullable(),
   /** With a fit search: the margin left over the wanted top, mm. */
   fit: z.object({ spareLengthMm: z.number(), spareWidthMm: z.number(), spareThicknessMm: z.number() }).nullable(),
@@ -236,10 +241,15 @@ export const catalogueDetailSchema = z.object({
     z.object({ id: z.string(), sequenceInLog: z.number().nullable(), listingId: z.string().nullable(), status: z.string() }),
   ),
   yard: z.object({
+    /** The sawyer's account id: their yard's reviews are at `orderReviews.yardReviews`. */
+    id: z.string(),
     name: z.string().nullable(),
+    /** The address of the yard's public page (`/yards/<slug>`). */
+    slug: z.string().nullable(),
     town: z.string().nullable(),
     latitude: z.number().nullable(),
     longitude: z.number().nullable(),
+    rating: yardRatingSchema,
   }),
 });
 export type CatalogueDetail = z.infer<typeof catalogueDetailSchema>;

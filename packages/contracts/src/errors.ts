@@ -91,6 +91,13 @@ export const errorCatalogue = {
   payout_changed: entry(409, "What is due changed since the desk was loaded."),
   order_not_refundable: entry(409, "The order cannot be refunded (nothing left, or not paid)."),
   refund_refused: entry(409, "The payment provider refused the refund."),
+
+  // Reviews of completed orders.
+  review_exists: entry(409, "The order has its review already (one per order)."),
+  review_edit_closed: entry(409, "The review can no longer be changed (its days for changes are over, or it is hidden)."),
+  review_answered: entry(409, "The sawyer has answered this review already (once per review)."),
+  review_hidden: entry(409, "The review is hidden by an admin."),
+  review_not_hidden: entry(409, "The review is not hidden."),
 } as const;
 
 export type ErrorCode = keyof typeof errorCatalogue;

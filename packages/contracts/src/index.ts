@@ -14,3 +14,5 @@ export * from "./orders.ts";
 export * from "./buyer-tools.ts";
 export * from "./admin.ts";
 export * from "./payouts.ts";
+export * from "./order-reviews.ts";
+export * from "./yard-pages.ts";

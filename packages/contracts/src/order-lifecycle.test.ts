@@ -113,6 +113,8 @@ describe("the named sets of statuses", () => {
     expect(orderStatusSets.refundable).toEqual(["paid", "ready_for_pickup", "shipped", "handed_over", "completed"]);
     expect(orderStatusSets.settled).toEqual(["cancelled", "refunded"]);
     expect(orderStatusSets.handedOver).toEqual(["handed_over", "completed"]);
+    // Only a completed order may be reviewed: not one still with the carrier, nor one refunded.
+    expect(orderStatusSets.reviewable).toEqual(["completed"]);
     expect(isOrderStatusIn("sold", "awaiting_payment")).toBe(false);
     expect(isOrderStatusIn("sold", "expired")).toBe(false);
     expect(isOrderStatusIn("sold", "refunded")).toBe(true);

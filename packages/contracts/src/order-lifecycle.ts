@@ -62,6 +62,8 @@ export const orderStatusSets = {
   settled: ["cancelled", "refunded"],
   /** A sale happened (not just a hold that lapsed): what a sawyer sees in their orders. */
   sold: ["paid", "ready_for_pickup", "shipped", "handed_over", "completed", "cancelled", "refunded"],
+  /** Completed: its buyer may review it (once; see order-reviews.ts). */
+  reviewable: ["completed"],
   /** Nothing is left for the buyer or the sawyer to do. */
   ended: ["completed", "cancelled", "refunded", "payment_failed", "expired"],
 } as const satisfies Record<string, readonly OrderStatus[]>;

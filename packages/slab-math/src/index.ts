@@ -123,3 +123,5 @@ export {
   type PlausibilityWarning,
 } from "./plausibility.ts";
 export { EARTH_MEAN_RADIUS_KM, greatCircleKm, type Position } from "./geodesy.ts";
+export { RATING_SCALE, averageRating, ratingSummary, type RatingSummary, type RatingTotals } from "./ratings.ts";
+export { median } from "./statistics.ts";

@@ -1,11 +1,8 @@
-import { seedLakemontYards } from "../seed/lakemont-yard.ts";
-import { withDemoPhotos } from "./demo-photos.ts";
-import { seedLakemont } from "../seed/lakemont.ts";
+import { describeSeed, seedDemo } from "./demo-seed.ts";
 import { runCli } from "./run-cli.ts";
 
-// `pnpm --filter @grainyard/api seed`: adds the Lakemont demo accounts that are missing.
+// `pnpm --filter @grainyard/api seed`: adds whatever of the Lakemont demo is missing.
 await runCli("seed", async (dataSource, config) => {
-  const { created } = await seedLakemont(dataSource, config.bcryptCost);
-  const { logs } = await withDemoPhotos(dataSource, config, (options) => seedLakemontYards(dataSource, options));
-  console.log(created || logs ? `seed: added ${created} demo accounts and ${logs} demo logs` : "seed: the demo data is already there");
+  const summary = await seedDemo(dataSource, config);
+  console.log(summary.accounts || summary.logs ? `seed: ${describeSeed(summary)}` : "seed: the demo data is already there");
 });

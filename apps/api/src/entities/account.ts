@@ -1,8 +1,9 @@
-import { Column, CreateDateColumn, Entity, PrimaryColumn, UpdateDateColumn } from "typeorm";
+import { Column, CreateDateColumn, Entity, Index, PrimaryColumn, UpdateDateColumn } from "typeorm";
 import type { Role } from "@grainyard/contracts";
 
 /** A person who signs in: a buyer, a sawyer (with a yard) or an admin. */
 @Entity({ name: "account" })
+@Index("uq_account_yard_slug", ["yardSlug"], { unique: true })
 export class AccountEntity {
   @PrimaryColumn({ type: "char", length: 36 })
   id: string;
@@ -21,6 +22,14 @@ export class AccountEntity {
 
   @Column({ name: "yard_name", type: "varchar", length: 80, nullable: true })
   yardName: string | null;
+
+  /** The address of the yard's public page (`/yards/<slug>`), from its name; unique. */
+  @Column({ name: "yard_slug", type: "varchar", length: 96, nullable: true })
+  yardSlug: string | null;
+
+  /** What the sawyer tells buyers on the yard's public page. */
+  @Column({ name: "yard_story", type: "text", nullable: true })
+  yardStory: string | null;
 
   @Column({ name: "pickup_town", type: "varchar", length: 80, nullable: true })
   pickupTown: string | null;

@@ -147,6 +147,17 @@ export class CatalogueEntryEntity {
   @Column({ name: "yard_name", type: "varchar", length: 80, nullable: true })
   yardName: string | null;
 
+  /** The address of the yard's public page, for the card's link. */
+  @Column({ name: "yard_slug", type: "varchar", length: 96, nullable: true })
+  yardSlug: string | null;
+
+  /** The yard's visible reviews: how many, and the sum of their 1–5 ratings (kept by the review service; the mean comes from slab-math). */
+  @Column({ name: "yard_review_count", type: "int", unsigned: true, default: 0 })
+  yardReviewCount: number;
+
+  @Column({ name: "yard_rating_total", type: "int", unsigned: true, default: 0 })
+  yardRatingTotal: number;
+
   @Column({ type: "double", nullable: true })
   latitude: number | null;
 

@@ -1,10 +1,10 @@
 import type { reportStatuses } from "@grainyard/contracts";
 import { Column, Entity, Index, PrimaryColumn } from "typeorm";
 
-export const reportTargets = ["listing", "message"] as const;
+export const reportTargets = ["listing", "message", "review"] as const;
 export type ReportStatus = (typeof reportStatuses)[number];
 
-/** Someone signed in told the admin that a listing or a message is wrong. */
+/** Someone signed in told the admin that a listing, a message or a review is wrong. */
 @Entity({ name: "content_report" })
 @Index("idx_content_report_status", ["status", "createdAt"])
 @Index("idx_content_report_target", ["targetKind", "targetId"])
@@ -18,15 +18,15 @@ export class ContentReportEntity {
   @Column({ name: "target_kind", type: "varchar", length: 12 })
   targetKind: (typeof reportTargets)[number];
 
-  /** The listing id, or the message id. */
+  /** The listing id, the message id or the review id. */
   @Column({ name: "target_id", type: "varchar", length: 36 })
   targetId: string;
 
-  /** The listing concerned (the message's thread's listing for a message). */
+  /** The listing concerned (the message's thread's listing for a message, the sold listing for a review). */
   @Column({ name: "listing_id", type: "char", length: 36, nullable: true })
   listingId: string | null;
 
-  /** Whose content it is: the listing's sawyer or the message's author. */
+  /** Whose content it is: the listing's sawyer, the message's author or the review's buyer. */
   @Column({ name: "reported_account_id", type: "char", length: 36 })
   reportedAccountId: string;
 

@@ -74,3 +74,8 @@ entities.push(PayoutAccountEntity, PayoutEntity, PayoutLineEntity, OrderRefundEn
 import { JobLeaseEntity } from "./job-lease.ts";
 export { JobLeaseEntity };
 entities.push(JobLeaseEntity);
+
+// Reviews of completed orders.
+import { OrderReviewEntity } from "./order-review.ts";
+export { OrderReviewEntity };
+entities.push(OrderReviewEntity);

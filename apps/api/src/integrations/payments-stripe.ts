@@ -56,6 +56,12 @@ export function createPayments(config: AppConfig["payments"]): PaymentsPort {
       await call(() => sdk.checkout.sessions.expire(checkoutId));
     },
 
+    async checkoutPayment(checkoutId) {
+      const session = await call(() => sdk.checkout.sessions.retrieve(checkoutId));
+      const intent = session.payment_intent;
+      return { paid: session.payment_status === "paid", paymentId: typeof intent === "string" ? intent : (intent?.id ?? null) };
+    },
+
     async refund(input) {
       const references = Object.fromEntries(Object.entries(input.references ?? {}).map(([key, value]) => [snakeCase(key), value]));
       const metadata: Record<string, string> = { order_id: input.orderId, ...references };

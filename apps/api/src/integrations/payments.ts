@@ -99,6 +99,8 @@ export interface PaymentsPort {
   startCheckout(input: StartCheckout): Promise<HostedCheckout>;
   /** Closes a hosted payment page that is still open. */
   expireCheckout(checkoutId: string): Promise<void>;
+  /** Whether a hosted checkout was paid, and the payment it made (for an event that never arrived). */
+  checkoutPayment(checkoutId: string): Promise<{ paid: boolean; paymentId: string | null }>;
   /** Gives all (or part) of a payment back; the same idempotency key never refunds twice. */
   refund(input: RefundRequest): Promise<RefundMade>;
   /** Sends money to a sawyer's payout account; the same idempotency key never sends twice. */

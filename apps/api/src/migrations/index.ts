@@ -56,6 +56,14 @@ migrations.push(RateLimits1764792000000);
 import { CatalogueSetWeights1764802800000 } from "./1764802800000-catalogue-set-weights.ts";
 migrations.push(CatalogueSetWeights1764802800000);
 
+// Reviews of completed orders, and the yard's rating on each catalogue row.
+import { OrderReviews1764813600000 } from "./1764813600000-order-reviews.ts";
+migrations.push(OrderReviews1764813600000);
+
+// Public yard pages: each yard's page address (slug) and its story; catalogue rows keep the slug for the cards' link.
+import { YardPages1764824400000 } from "./1764824400000-yard-pages.ts";
+migrations.push(YardPages1764824400000);
+
 // A slab's length and thickness as entered (millimetres to six decimals), so 2¼″ stays 57.15 mm.
 import { SlabMeasurementsAsEntered1764986400000 } from "./1764986400000-slab-measurements-as-entered.ts";
 migrations.push(SlabMeasurementsAsEntered1764986400000);

@@ -2,7 +2,7 @@ import { randomUUID } from "node:crypto";
 import sharp from "sharp";
 import { everyEndpoint, mayCall, pathOf, type EndpointKey, type EndpointSpec, type Role } from "@grainyard/contracts";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { OrderEntity } from "../entities/index.ts";
+import { OrderEntity, OrderReviewEntity } from "../entities/index.ts";
 import { unsubscribeToken } from "../services/saved-search-service.ts";
 import { createTestContext, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
@@ -13,12 +13,17 @@ import { createTestContext, type BrowserClient, type TestContext } from "../test
  * does not allow — or, for the actors it allows, from the sample (ownership and state decide those:
  * "sawyer" owns the things in `ids`, "otherSawyer" does not). Samples run in the order written.
  */
-type ActorName = "anonymous" | "buyer" | "sawyer" | "otherSawyer" | "admin";
-/** Sawyer runs last, so a sample that ends something (a delete, a withdrawal) is seen by the others first. */
-const ACTOR_ORDER: ActorName[] = ["anonymous", "buyer", "otherSawyer", "admin", "sawyer"];
+type ActorName = "anonymous" | "buyer" | "otherBuyer" | "sawyer" | "otherSawyer" | "admin";
+/**
+ * Sawyer runs last, so a sample that ends something (a delete, a withdrawal) is seen by the others first.
+ * "otherBuyer" (a buyer who owns none of the things in `ids`) runs only for samples that name it in `allowed`:
+ * the rows where ownership between buyers decides.
+ */
+const ACTOR_ORDER: ActorName[] = ["anonymous", "buyer", "otherBuyer", "otherSawyer", "admin", "sawyer"];
 const ROLE_OF: Record<ActorName, Role | undefined> = {
   anonymous: undefined,
   buyer: "buyer",
+  otherBuyer: "buyer",
   sawyer: "sawyer",
   otherSawyer: "sawyer",
   admin: "admin",
@@ -53,6 +58,8 @@ interface Ids {
   /** Two paid pickup orders of "buyer" for "sawyer"'s draft listing. */
   pickupOrderId: string;
   orderToCancelId: string;
+  /** A completed pickup order of "buyer" from "sawyer" (reviews). */
+  completedOrderId: string;
   windowStart: string;
   windowEnd: string;
 }
@@ -66,6 +73,10 @@ interface Sample {
 }
 
 const none = "00000000-0000-4000-8000-000000000000";
+const reviewBody = { rating: 5, matchedListing: true, handoverWentWell: true, body: "Matrix review." };
+/** The completed order's review (written by "buyer" in its sample). */
+const reviewIdOf = async (ids: Ids) =>
+  (await ctx.dataSource.getRepository(OrderReviewEntity).findOneByOrFail({ orderId: ids.completedOrderId })).id;
 const phonePhoto = () =>
   sharp({ create: { width: 640, height: 480, channels: 3, background: "#8a5a32" } })
     .jpeg()
@@ -334,6 +345,39 @@ const samples: Record<EndpointKey, Sample> = {
     call: (c, ids) => c.post(`/api/v1/orders/${ids.orderToCancelId}/cancellation`, { reason: "Matrix cancels" }),
     allowed: { buyer: 200, sawyer: 409, otherSawyer: 403 },
   },
+  // Reviews of the completed order: "buyer" writes and edits it, "sawyer" answers, the admin hides and shows it.
+  "orderReviews.getOrderReview": {
+    call: (c, ids) => c.get(`/api/v1/orders/${ids.completedOrderId}/review`),
+    allowed: { buyer: 200, otherBuyer: 403, sawyer: 200, otherSawyer: 403, admin: 200 },
+  },
+  "orderReviews.writeReview": {
+    call: (c, ids) => c.post(`/api/v1/orders/${ids.completedOrderId}/review`, reviewBody),
+    allowed: { buyer: 201, otherBuyer: 403 },
+  },
+  "orderReviews.editReview": {
+    call: (c, ids) => c.patch(`/api/v1/orders/${ids.completedOrderId}/review`, { ...reviewBody, rating: 4 }),
+    allowed: { buyer: 200, otherBuyer: 403 },
+  },
+  "orderReviews.answerReview": {
+    call: (c, ids) => c.post(`/api/v1/orders/${ids.completedOrderId}/review/answer`, { body: "Matrix thanks you." }),
+    allowed: { sawyer: 201, otherSawyer: 403 },
+  },
+  "orderReviews.yardReviews": { call: (c, ids) => c.get(`/api/v1/yards/${ids.sawyerId}/reviews`), allowed: { otherBuyer: 200 } },
+  "yardPages.getYardPage": {
+    call: async (c, ids) => {
+      const [yard] = (await ctx.dataSource.query("SELECT yard_slug FROM account WHERE id = ?", [ids.sawyerId])) as { yard_slug: string }[];
+      return c.get(`/api/v1/yard-pages/${yard!.yard_slug}`);
+    },
+    allowed: { otherBuyer: 200 },
+  },
+  "orderReviews.listReviews": { call: (c) => c.get("/api/v1/admin/order-reviews") },
+  "orderReviews.hideReview": {
+    call: async (c, ids) => c.post(`/api/v1/admin/order-reviews/${await reviewIdOf(ids)}/hide`, { reason: "Matrix hides it." }),
+  },
+  "orderReviews.showReview": {
+    call: async (c, ids) => c.post(`/api/v1/admin/order-reviews/${await reviewIdOf(ids)}/show`, { reason: "Matrix shows it again." }),
+  },
+
   // No signature: refused whoever sends it.
   "orders.paymentWebhook": { call: (c) => c.post("/api/v1/payments/webhook", { id: "evt_matrix" }), allowed: 400 },
 
@@ -349,6 +393,9 @@ const samples: Record<EndpointKey, Sample> = {
 };
 
 const specOf = new Map(everyEndpoint().map(({ key, spec }) => [key, spec]));
+/** Whether an actor runs for a sample: everyone but "otherBuyer", who runs only where the sample names them. */
+const runsFor = (sample: Sample, actor: ActorName) =>
+  actor !== "otherBuyer" || (typeof sample.allowed === "object" && sample.allowed.otherBuyer !== undefined);
 
 /** The status `actor` must get from the row `spec` with this sample. */
 function expectedStatus(spec: EndpointSpec, sample: Sample, actor: ActorName): number {
@@ -371,6 +418,7 @@ beforeAll(async () => {
   ctx = await createTestContext({ environment: { SIGN_IN_LIMIT_PER_IP: "1000", RESET_LIMIT_PER_IP: "1000" } });
   clients.anonymous = await ctx.client();
   clients.buyer = await ctx.signedInClient("buyer");
+  clients.otherBuyer = await ctx.signedInClient("buyer");
   const sawyer = await ctx.signedInClient("sawyer");
   clients.sawyer = sawyer;
   ids.sawyerId = sawyer.account.id;
@@ -421,7 +469,8 @@ beforeAll(async () => {
   const buyerId = ((await clients.buyer.get("/api/v1/session")).body.account as { id: string }).id;
   ids.pickupOrderId = randomUUID();
   ids.orderToCancelId = randomUUID();
-  for (const id of [ids.pickupOrderId, ids.orderToCancelId]) {
+  ids.completedOrderId = randomUUID();
+  for (const id of [ids.pickupOrderId, ids.orderToCancelId, ids.completedOrderId]) {
     await ctx.dataSource.getRepository(OrderEntity).insert({
       id,
       buyerId,
@@ -444,6 +493,9 @@ beforeAll(async () => {
       paymentIntentId: null,
       reservedUntil: new Date(),
       paidAt: new Date(),
+      ...(id === ids.completedOrderId
+        ? { status: "completed" as const, handedOverAt: new Date(), completedAt: new Date(), completedBy: "buyer" as const }
+        : {}),
     });
   }
   ids.windowStart = new Date(Date.now() + 2 * 86_400_000).toISOString();
@@ -458,7 +510,7 @@ describe("role and ownership matrix, from the endpoint table", () => {
 
   for (const [key, sample] of Object.entries(samples) as [EndpointKey, Sample][]) {
     const spec = specOf.get(key)!;
-    for (const actor of ACTOR_ORDER) {
+    for (const actor of ACTOR_ORDER.filter((name) => runsFor(sample, name))) {
       const status = expectedStatus(spec, sample, actor);
       it(`${key} (${spec.method} ${spec.path}) as ${actor} → ${status}`, async () => {
         const client = sample.freshClient ? await freshClientFor(actor) : clients[actor];

@@ -1,15 +1,25 @@
 import { randomUUID } from "node:crypto";
 import type { DataSource, EntityManager } from "typeorm";
-import { AccountEntity, ListingEntity, ListingSlabEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
+import {
+  AccountEntity,
+  ListingEntity,
+  ListingPhotoEntity,
+  ListingSlabEntity,
+  MoistureReadingEntity,
+  SlabEntity,
+  YardLogEntity,
+} from "../entities/index.ts";
 import { computeListingFigures, computeSlabFigures } from "../services/figures.ts";
 import { USUAL_FEES } from "@grainyard/slab-math";
-import { slabPicture } from "./slab-picture.ts";
+import { lakemontStock } from "./lakemont-stock.ts";
+import { slabPhoto } from "./slab-photo.ts";
 
 /**
- * Invented Lakemont yard stock: logs from street trees, parks and a hospital expansion, the slabs
- * cut from them, and moisture readings as they dried. Streets and stories are made up.
+ * Invented Lakemont yard stock: logs from street trees, parks and building sites, the slabs cut
+ * from them, moisture readings as they dried, and the listings made of them. Streets and stories
+ * are made up.
  */
-interface DemoSlab {
+export interface DemoSlab {
   sequence: number;
   lengthMm: number;
   thicknessMm: number;
@@ -23,7 +33,46 @@ interface DemoSlab {
   readings: [string, number][];
 }
 
-interface DemoLog {
+/** A review the buyer of a seeded sale writes (and the sawyer may answer), some days after completion. */
+interface DemoReview {
+  rating: number;
+  matched: { yes: boolean; comment?: string };
+  handover: { yes: boolean; comment?: string };
+  body?: string;
+  answer?: string;
+  daysAfter: number;
+  /** The sawyer reports the review to the admins with this reason (left open for the desk). */
+  reportedBySawyer?: string;
+}
+
+/** A sale of a seeded listing, made through the real checkout and order steps. */
+export interface DemoSale {
+  buyer: string;
+  handover: "pickup" | "freight";
+  /** Days before the seed's day that the buyer paid. */
+  daysAgo: number;
+  /** Where the order stands now. */
+  end: "completed" | "handed_over" | "ready_for_pickup" | "shipped" | "paid" | "cancelled";
+  completedBy?: "buyer" | "automatic";
+  cancelReason?: string;
+  review?: DemoReview;
+}
+
+export interface DemoListing {
+  title: string;
+  description: string;
+  setKind: "single" | "sequential" | "bookmatched";
+  slabs: number[];
+  priceMode: "per_board_foot" | "fixed";
+  rateMinor: number;
+  status: "live" | "draft" | "in_review";
+  /** Days since it went live (or was submitted for review). */
+  daysAgo?: number;
+  freight?: boolean;
+  sale?: DemoSale;
+}
+
+export interface DemoLog {
   yardEmail: string;
   speciesSlug: string;
   siteTown: string;
@@ -35,16 +84,10 @@ interface DemoLog {
   lengthMm: number;
   diameterMm: number;
   notes: string;
+  /** The mill that cut it (decides the saw marks on a rough face in its photos). */
+  mill?: "band" | "chainsaw";
   slabs: DemoSlab[];
-  listings: {
-    title: string;
-    description: string;
-    setKind: "single" | "sequential" | "bookmatched";
-    slabs: number[];
-    priceMode: "per_board_foot" | "fixed";
-    rateMinor: number;
-    live: boolean;
-  }[];
+  listings: DemoListing[];
 }
 
 const kilnDried = (readings: [string, number][]): Pick<DemoSlab, "dryingMethod" | "kilnCompletedOn" | "readings"> => ({
@@ -53,7 +96,8 @@ const kilnDried = (readings: [string, number][]): Pick<DemoSlab, "dryingMethod" 
   readings,
 });
 
-export const demoLogs: DemoLog[] = [
+/** The first three demo logs, as they have been since the demo began (the end-to-end suites buy their listings by title). */
+const firstLogs: DemoLog[] = [
   {
     yardEmail: "yard@ridgeback-timber.test",
     speciesSlug: "silver-maple",
@@ -90,7 +134,8 @@ export const demoLogs: DemoLog[] = [
         slabs: [1, 2],
         priceMode: "per_board_foot",
         rateMinor: 1100,
-        live: true,
+        status: "live",
+        daysAgo: 1,
       },
       {
         title: "Silver maple bench slab with checks",
@@ -99,7 +144,7 @@ export const demoLogs: DemoLog[] = [
         slabs: [3],
         priceMode: "fixed",
         rateMinor: 32000,
-        live: false,
+        status: "draft",
       },
     ],
   },
@@ -160,7 +205,8 @@ export const demoLogs: DemoLog[] = [
         slabs: [3],
         priceMode: "per_board_foot",
         rateMinor: 1450,
-        live: true,
+        status: "live",
+        daysAgo: 2,
       },
     ],
   },
@@ -200,25 +246,135 @@ export const demoLogs: DemoLog[] = [
         slabs: [1, 2],
         priceMode: "fixed",
         rateMinor: 260000,
-        live: true,
+        status: "live",
+        daysAgo: 3,
       },
     ],
   },
 ];
 
-type AddPhoto = (manager: EntityManager, listingId: string, position: number, bytes: Buffer, altText: string) => Promise<void>;
+/** Every demo log: the first three, then the rest of the region's stock (dates counted back from `now`). */
+export function demoLogs(now = new Date()): DemoLog[] {
+  return [...firstLogs, ...lakemontStock(now)];
+}
 
-async function addLog(
-  manager: EntityManager,
-  sawyer: AccountEntity,
-  demo: DemoLog,
-  photos?: AddPhoto,
-  onLive?: (manager: EntityManager, listingId: string) => Promise<void>,
-) {
+const DAY = 86_400_000;
+
+/** Stores one painted photo (storage only) and answers its row; the seed inserts the rows in its transaction. */
+export type StorePhoto = (
+  listingId: string,
+  position: number,
+  bytes: Buffer,
+  altText: string,
+) => Promise<Pick<ListingPhotoEntity, "id" | "listingId" | "position" | "altText" | "width" | "height" | "originalFormat">>;
+
+/** A seeded listing with a sale to make once the stock is in (see lakemont-sales.ts). */
+export interface PlannedSale {
+  listingId: string;
+  title: string;
+  yardEmail: string;
+  sale: DemoSale;
+}
+
+interface PlannedListing {
+  id: string;
+  log: DemoLog;
+  logIndex: number;
+  demo: DemoListing;
+}
+
+/** Runs `work` over `items`, `limit` at a time (painting in JavaScript overlaps sharp's encoding on its threads). */
+async function inParallel<T, R>(items: T[], limit: number, work: (item: T) => Promise<R>): Promise<R[]> {
+  const results: R[] = new Array(items.length);
+  let next = 0;
+  const runners = Array.from({ length: Math.min(limit, items.length) }, async () => {
+    while (next < items.length) {
+      const index = next++;
+      results[index] = await work(items[index]!);
+    }
+  });
+  await Promise.all(runners);
+  return results;
+}
+
+function altTextOf(log: DemoLog, listing: DemoListing): string {
+  const numbers = listing.slabs.join(listing.slabs.length === 2 ? " and " : ", ");
+  return listing.slabs.length > 1
+    ? `Slabs ${numbers} of the ${log.siteNeighbourhood} ${log.speciesSlug.replace(/-/g, " ")}, top faces${listing.setKind === "bookmatched" ? ", opened like a book" : ""}`
+    : `Slab ${numbers} of the ${log.siteNeighbourhood} ${log.speciesSlug.replace(/-/g, " ")}, top face`;
+}
+
+/**
+ * Adds the demo yard stock that is missing (a log is there when its yard has a log from the same
+ * site; a second run adds nothing). With `photos`, every listing but drafts gets a painted photo
+ * through the real photo pipeline (painted and stored before the transaction, a few at a time);
+ * live listings enter the catalogue through `onLive`. Answers the sales to make of what it added.
+ */
+export async function seedLakemontYards(
+  dataSource: DataSource,
+  options: { photos?: StorePhoto; onLive?: (manager: EntityManager, listingId: string) => Promise<void>; now?: Date } = {},
+): Promise<{ logs: number; listings: number; photos: number; sales: PlannedSale[] }> {
+  const now = options.now ?? new Date();
+  const logs = demoLogs(now);
+  const sawyers = new Map(
+    (await dataSource.getRepository(AccountEntity).find({ where: { role: "sawyer" }, select: { id: true, email: true } })).map((a) => [
+      a.email,
+      a.id,
+    ]),
+  );
+  const existing = new Set(
+    (await dataSource.getRepository(YardLogEntity).find({ select: { sawyerId: true, siteNeighbourhood: true } })).map(
+      (l) => `${l.sawyerId}|${l.siteNeighbourhood}`,
+    ),
+  );
+  const missing = logs
+    .map((log, logIndex) => ({ log, logIndex }))
+    .filter(({ log }) => sawyers.has(log.yardEmail) && !existing.has(`${sawyers.get(log.yardEmail)}|${log.siteNeighbourhood}`));
+  const planned: PlannedListing[] = missing.flatMap(({ log, logIndex }) =>
+    log.listings.map((demo) => ({ id: randomUUID(), log, logIndex, demo })),
+  );
+
+  // Photos first: painted and through the photo pipeline into storage; their rows go in with the rest.
+  const photoRows = options.photos
+    ? await inParallel(
+        planned.filter((p) => p.demo.status !== "draft"),
+        2,
+        async ({ id, log, logIndex, demo }) =>
+          options.photos!(
+            id,
+            0,
+            await slabPhoto({
+              speciesSlug: log.speciesSlug,
+              setKind: demo.setKind,
+              slabs: demo.slabs.map((n) => log.slabs.find((s) => s.sequence === n)!),
+              seed: logIndex * 31 + demo.slabs[0]!,
+              mill: log.mill,
+            }),
+            altTextOf(log, demo),
+          ),
+      )
+    : [];
+
+  await dataSource.transaction(async (manager) => {
+    for (const { log } of missing) await addLog(manager, sawyers.get(log.yardEmail)!, log, planned, now);
+    if (photoRows.length) await manager.getRepository(ListingPhotoEntity).insert(photoRows);
+    for (const listing of planned) if (listing.demo.status === "live") await options.onLive?.(manager, listing.id);
+  });
+  return {
+    logs: missing.length,
+    listings: planned.length,
+    photos: photoRows.length,
+    sales: planned.flatMap((p) =>
+      p.demo.sale ? [{ listingId: p.id, title: p.demo.title, yardEmail: p.log.yardEmail, sale: p.demo.sale }] : [],
+    ),
+  };
+}
+
+async function addLog(manager: EntityManager, sawyerId: string, demo: DemoLog, planned: PlannedListing[], now: Date) {
   const logId = randomUUID();
   await manager.getRepository(YardLogEntity).insert({
     id: logId,
-    sawyerId: sawyer.id,
+    sawyerId,
     speciesSlug: demo.speciesSlug,
     siteTown: demo.siteTown,
     siteNeighbourhood: demo.siteNeighbourhood,
@@ -232,13 +388,15 @@ async function addLog(
   });
   const slabIds = new Map<number, string>();
   const figuresBySequence = new Map<number, ReturnType<typeof computeSlabFigures>>();
+  const readings: Partial<MoistureReadingEntity>[] = [];
+  const slabRows: Partial<SlabEntity>[] = [];
   for (const slab of demo.slabs) {
     const id = randomUUID();
     const last = slab.readings.at(-1) ?? null;
     const figures = computeSlabFigures({ ...slab, speciesSlug: demo.speciesSlug, lastMoisturePct: last ? last[1] : null });
-    await manager.getRepository(SlabEntity).insert({
+    slabRows.push({
       id,
-      sawyerId: sawyer.id,
+      sawyerId,
       logId,
       sequenceInLog: slab.sequence,
       speciesSlug: demo.speciesSlug,
@@ -259,26 +417,25 @@ async function addLog(
       lastMoisturePct: last ? last[1] : null,
       lastReadOn: last ? last[0] : null,
     });
-    for (const [readOn, moistureContentPct] of slab.readings) {
-      await manager
-        .getRepository(MoistureReadingEntity)
-        .insert({ id: randomUUID(), slabId: id, readOn, moistureContentPct, method: "pin_meter" });
-    }
+    for (const [readOn, moistureContentPct] of slab.readings)
+      readings.push({ id: randomUUID(), slabId: id, readOn, moistureContentPct, method: "pin_meter" });
     slabIds.set(slab.sequence, id);
     figuresBySequence.set(slab.sequence, figures);
   }
-  for (const demoListing of demo.listings) {
-    const listingId = randomUUID();
+  await manager.getRepository(SlabEntity).insert(slabRows);
+  if (readings.length) await manager.getRepository(MoistureReadingEntity).insert(readings);
+  for (const { id: listingId, demo: demoListing } of planned.filter((p) => p.log === demo)) {
     const figures = computeListingFigures({
       priceMode: demoListing.priceMode,
       rateMinor: demoListing.rateMinor,
       slabs: demoListing.slabs.map((n) => figuresBySequence.get(n)!),
       fees: USUAL_FEES,
     });
-    const at = new Date();
+    const at = new Date(now.getTime() - (demoListing.daysAgo ?? 0) * DAY);
+    const submitted = demoListing.status !== "draft";
     await manager.getRepository(ListingEntity).insert({
       id: listingId,
-      sawyerId: sawyer.id,
+      sawyerId,
       title: demoListing.title,
       description: demoListing.description,
       setKind: demoListing.setKind,
@@ -286,51 +443,15 @@ async function addLog(
       rateMinor: demoListing.rateMinor,
       currency: "USD",
       pickup: true,
-      freight: true,
-      status: demoListing.live ? "live" : "draft",
+      freight: demoListing.freight ?? true,
+      status: demoListing.status,
       reviewNote: null,
-      submittedAt: demoListing.live ? at : null,
-      publishedAt: demoListing.live ? at : null,
+      submittedAt: submitted ? new Date(at.getTime() - (demoListing.status === "live" ? DAY : 0)) : null,
+      publishedAt: demoListing.status === "live" ? at : null,
       ...figures,
     });
     await manager
       .getRepository(ListingSlabEntity)
       .insert(demoListing.slabs.map((n, position) => ({ listingId, slabId: slabIds.get(n)!, position })));
-    if (photos) {
-      for (const [position, n] of demoListing.slabs.entries()) {
-        const slab = demo.slabs.find((s) => s.sequence === n)!;
-        await photos(
-          manager,
-          listingId,
-          position,
-          await slabPicture(demo.speciesSlug, slab.lengthMm, slab.widthStationsMm, n),
-          `Slab ${n} of the ${demo.siteNeighbourhood} log, top face`,
-        );
-      }
-    }
-    if (demoListing.live) await onLive?.(manager, listingId);
   }
-}
-
-/**
- * Adds the demo yard stock to each demo sawyer who does not have it yet; a second run adds
- * nothing. With `photos`, listings get drawn photos through the real photo pipeline, and live
- * ones enter the catalogue through `onLive`.
- */
-export async function seedLakemontYards(
-  dataSource: DataSource,
-  options: { photos?: AddPhoto; onLive?: (manager: EntityManager, listingId: string) => Promise<void> } = {},
-): Promise<{ logs: number }> {
-  let logs = 0;
-  await dataSource.transaction(async (manager) => {
-    for (const demo of demoLogs) {
-      const sawyer = await manager.getRepository(AccountEntity).findOneBy({ email: demo.yardEmail });
-      if (!sawyer) continue;
-      if (await manager.getRepository(YardLogEntity).exists({ where: { sawyerId: sawyer.id, siteNeighbourhood: demo.siteNeighbourhood } }))
-        continue;
-      await addLog(manager, sawyer, demo, options.photos, options.onLive);
-      logs += 1;
-    }
-  });
-  return { logs };
 }

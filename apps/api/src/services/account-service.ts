@@ -13,6 +13,7 @@ import type { AppConfig } from "../config.ts";
 import { AccountEntity, EmailTokenEntity, SessionRecordEntity } from "../entities/index.ts";
 import type { EmailTokenPurpose } from "../entities/email-token.ts";
 import { Conflict, Forbidden, Gone, Invalid, NotFound, Unauthorized } from "../errors.ts";
+import { freeYardSlug } from "./yard-slugs.ts";
 import { recordAudit } from "./audit-log.ts";
 import type { Mailer } from "../integrations/mail.ts";
 import { joinAttemptMail, passwordResetMail, signInAttemptsMail, verificationMail } from "../mail-templates.ts";
@@ -68,6 +69,8 @@ export function toAccount(entity: AccountEntity): Account {
     role: entity.role,
     emailVerified: entity.emailVerifiedAt !== null,
     yardName: entity.yardName,
+    yardSlug: entity.yardSlug,
+    yardStory: entity.yardStory,
     pickupTown: entity.pickupTown,
     createdAt: entity.createdAt.toISOString(),
   };
@@ -140,13 +143,15 @@ export function createAccountService(deps: AccountServiceDependencies) {
         try {
           created = await dataSource.transaction(async (manager) => {
             const repository = manager.getRepository(AccountEntity);
+            const id = randomUUID();
             const entity = repository.create({
-              id: randomUUID(),
+              id,
               email: input.email,
               passwordHash,
               role: input.role,
               displayName: input.displayName,
               yardName: input.role === "sawyer" ? input.yardName : null,
+              yardSlug: input.role === "sawyer" ? await freeYardSlug(manager, input.yardName, id) : null,
               pickupTown: input.role === "sawyer" ? input.pickupTown : null,
               ...pickupPosition(input.role === "sawyer" ? input.pickupTown : null),
               emailVerifiedAt: null,
@@ -309,9 +314,15 @@ export function createAccountService(deps: AccountServiceDependencies) {
       const yard = await accounts().findOneBy({ id: sawyerId, role: "sawyer" });
       if (!yard) throw new NotFound("No yard with that id.");
       await dataSource.transaction(async (manager) => {
-        await manager
-          .getRepository(AccountEntity)
-          .update({ id: yard.id }, { ...input, ...(input.pickupTown !== undefined ? pickupPosition(input.pickupTown) : {}) });
+        await manager.getRepository(AccountEntity).update(
+          { id: yard.id },
+          {
+            ...input,
+            ...(input.pickupTown !== undefined ? pickupPosition(input.pickupTown) : {}),
+            // The page's address follows the name (an old link to the page then finds nothing).
+            ...(input.yardName !== undefined ? { yardSlug: await freeYardSlug(manager, input.yardName, yard.id) } : {}),
+          },
+        );
         await deps.events?.emitSerial("yardChanged", { manager, sawyerId: yard.id });
         // An admin changing someone's yard is an admin action: audited in the same transaction.
         if (signedIn.role === "admin") {

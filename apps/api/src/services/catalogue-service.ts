@@ -3,6 +3,8 @@ import { gzipSync } from "node:zlib";
 import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult, Place } from "@grainyard/contracts";
 import { listingEndpoints, pathOf } from "@grainyard/contracts";
 import {
+  averageRating,
+  ratingSummary,
   KILN_DRIED_TARGET_BAND,
   NIOSH_LOAD_CONSTANT_KG,
   findSpeciesBySlug,
@@ -32,6 +34,7 @@ import { cardWeights, withFigureErrors } from "./figures.ts";
 import { findPlace } from "./places.ts";
 import { toLog, toSlab } from "./yard-service.ts";
 import { nearestFirst, type YardDistance } from "./nearest-first.ts";
+import { NO_REVIEWS, yardRatingTotals } from "./yard-rating.ts";
 import {
   cappedCountSql,
   catalogueRowFromSql,
@@ -84,6 +87,11 @@ export function plainCatalogueCard(entry: CatalogueRow): CatalogueCard {
     pickup: entry.pickup,
     town: entry.town,
     yardName: entry.yardName,
+    yardSlug: entry.yardSlug,
+    yardRating:
+      entry.yardReviewCount > 0
+        ? { average: averageRating(entry.yardRatingTotal, entry.yardReviewCount)!, count: entry.yardReviewCount }
+        : null,
     distanceKm: null,
     fit: null,
     photoUrl: entry.photoId ? pathOf(listingEndpoints.listingPhotoImage, { photoId: entry.photoId, size: "small" }) : null,
@@ -287,10 +295,12 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         await repository.delete({ listingId });
         return;
       }
-      const [sawyer, photo] = await Promise.all([
+      const [sawyer, photo, ratings] = await Promise.all([
         manager.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId }),
         manager.getRepository(ListingPhotoEntity).findOne({ where: { listingId }, order: { position: "ASC" } }),
+        yardRatingTotals(manager, [listing.sawyerId]),
       ]);
+      const rating = ratings.get(listing.sawyerId) ?? NO_REVIEWS;
       const moistures = slabs.map((s) => s.lastMoisturePct);
       const allRead = moistures.every((m) => m !== null);
       const edges = new Set(slabs.map((s) => s.liveEdge));
@@ -325,12 +335,24 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         pickup: listing.pickup,
         town: sawyer?.pickupTown ?? null,
         yardName: sawyer?.yardName ?? null,
+        yardSlug: sawyer?.yardSlug ?? null,
+        yardReviewCount: rating.count,
+        yardRatingTotal: rating.ratingTotal,
         latitude: sawyer?.pickupLatitude ?? null,
         longitude: sawyer?.pickupLongitude ?? null,
         photoId: photo?.id ?? null,
         photoAlt: photo?.altText ?? null,
         publishedAt: listing.publishedAt,
       });
+    },
+
+    /** A yard's visible reviews changed: its rating on every one of its catalogue rows follows (inside the review's transaction). */
+    async refreshYardRating(manager: EntityManager, sawyerId: string): Promise<void> {
+      forgetCached();
+      const rating = (await yardRatingTotals(manager, [sawyerId])).get(sawyerId) ?? NO_REVIEWS;
+      await manager
+        .getRepository(CatalogueEntryEntity)
+        .update({ sawyerId }, { yardReviewCount: rating.count, yardRatingTotal: rating.ratingTotal });
     },
 
     /**
@@ -464,9 +486,10 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
             .getRepository(ListingSlabEntity)
             .find({ where: { slabId: In(siblings.map((s) => s.id)) }, relations: { listing: true } })
         : [];
-      const [sawyer, photos] = await Promise.all([
+      const [sawyer, photos, ratings] = await Promise.all([
         dataSource.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId }),
         dataSource.getRepository(ListingPhotoEntity).find({ where: { listingId }, order: { position: "ASC" } }),
+        yardRatingTotals(dataSource, [listing.sawyerId]),
       ]);
       const inListing = new Set(slabs.map((s) => s.id));
       return {
@@ -517,10 +540,13 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
             };
           }),
         yard: {
+          id: listing.sawyerId,
           name: sawyer?.yardName ?? null,
+          slug: sawyer?.yardSlug ?? null,
           town: sawyer?.pickupTown ?? null,
           latitude: sawyer?.pickupLatitude ?? null,
           longitude: sawyer?.pickupLongitude ?? null,
+          rating: ratingSummary(ratings.get(listing.sawyerId) ?? NO_REVIEWS),
         },
       };
     },

@@ -48,6 +48,9 @@ export type CatalogueRow = Pick<
   | "pickup"
   | "town"
   | "yardName"
+  | "yardSlug"
+  | "yardReviewCount"
+  | "yardRatingTotal"
   | "latitude"
   | "longitude"
   | "photoId"
@@ -85,6 +88,9 @@ const ROW_COLUMNS = [
   "pickup",
   "town",
   "yard_name",
+  "yard_slug",
+  "yard_review_count",
+  "yard_rating_total",
   "latitude",
   "longitude",
   "photo_id",
@@ -128,6 +134,9 @@ export function catalogueRowFromSql(raw: Record<string, unknown>): CatalogueRow 
     pickup: Boolean(number(raw.pickup)),
     town: nullableText(raw.town),
     yardName: nullableText(raw.yard_name),
+    yardSlug: nullableText(raw.yard_slug),
+    yardReviewCount: number(raw.yard_review_count),
+    yardRatingTotal: number(raw.yard_rating_total),
     latitude: nullableNumber(raw.latitude),
     longitude: nullableNumber(raw.longitude),
     photoId: nullableText(raw.photo_id),

@@ -275,6 +275,25 @@ export function createCheckoutService(deps: {
     },
 
     /**
+     * Asks the provider whether an order's hosted checkout was paid and, if it was, handles that
+     * as the provider's "checkout completed" event would (once: its event id is the checkout's).
+     * For a payment whose webhook never came; the demo seed pays its orders this way too.
+     */
+    async reconcilePayment(orderId: string): Promise<"handled" | "duplicate" | "ignored"> {
+      const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: orderId });
+      if (!order?.checkoutSessionId) return "ignored";
+      const state = await payments.checkoutPayment(order.checkoutSessionId);
+      if (!state.paid) return "ignored";
+      return this.handleEvent({
+        kind: "checkout_completed",
+        eventId: `reconcile-${order.checkoutSessionId}`,
+        orderId,
+        checkoutId: order.checkoutSessionId,
+        paymentId: state.paymentId,
+      });
+    },
+
+    /**
      * Releases reservations whose time ran out. Safe on several API instances at once: each
      * release is a conditional update, so only one instance wins each order.
      */

@@ -286,3 +286,23 @@ describe("cancelling and its refund", () => {
     }
   });
 });
+
+describe("a payment whose event never came", () => {
+  it("is confirmed by asking the provider: once, and the provider's own event afterwards changes nothing", async () => {
+    const sawyer = await h.person("sawyer");
+    const buyer = await h.person("buyer");
+    const listingId = await h.liveListing(sawyer, 42_000);
+    const { order } = await h.checkout.checkout(buyer, listingId, { handover: "pickup" });
+    // Nothing to confirm before the buyer pays.
+    expect(await h.checkout.reconcilePayment(order.id)).toBe("ignored");
+    const event = h.payments.pay((await h.orderOf(order.id)).checkoutSessionId!);
+    expect(await h.checkout.reconcilePayment(order.id)).toBe("handled");
+    expect(await h.orderOf(order.id)).toMatchObject({ status: "paid", paymentIntentId: event.paymentId });
+    expect(await listingStatus(listingId)).toBe("sold");
+    expect(await h.checkout.reconcilePayment(order.id)).toBe("duplicate");
+    expect(await h.checkout.handleEvent(event)).toBe("ignored");
+    const sales = await h.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId: order.id, kind: "payment" });
+    expect(sales).toBeGreaterThan(0);
+    expect(await h.dataSource.getRepository(LedgerEntryEntity).countBy({ orderId: order.id })).toBe(sales);
+  });
+});

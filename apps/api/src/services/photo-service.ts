@@ -1,6 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { MAX_PHOTOS_PER_LISTING, pathOf, yardEndpoints, type ListingPhoto } from "@grainyard/contracts";
-import type { DataSource, EntityManager } from "typeorm";
+import type { DataSource } from "typeorm";
 import { ListingEntity, ListingPhotoEntity, ListingSlabEntity, LogPhotoEntity, YardLogEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import type { PhotoStorage } from "../integrations/storage.ts";
@@ -164,17 +164,17 @@ async function servedSize(storage: PhotoStorage, keyOf: (size: DisplaySizeName) 
 export type PhotoService = ReturnType<typeof createPhotoService>;
 
 /**
- * Stores a photo for a listing without the request checks (the seed's drawn demo photos): the
- * same pipeline — inspected, resized to WebP without metadata, original kept private.
+ * Stores a photo for a listing without the request checks (the seed's painted demo photos): the
+ * same pipeline — inspected, resized to WebP without metadata, original kept private. Answers the
+ * row for the caller to insert in its own transaction (storage first, the row last, as uploads do).
  */
 export async function storeSeedPhoto(
-  manager: EntityManager,
   storage: PhotoStorage,
   listingId: string,
   position: number,
   bytes: Buffer,
   altText: string,
-): Promise<void> {
+): Promise<Pick<ListingPhotoEntity, "id" | "listingId" | "position" | "altText" | "width" | "height" | "originalFormat">> {
   const inspection = await inspectPhoto(bytes);
   const { sizes } = await renderDisplaySizes(bytes);
   const photoId = randomUUID();
@@ -184,9 +184,7 @@ export async function storeSeedPhoto(
       private: false,
     });
   const large = sizes.find((s) => s.name === "large") ?? sizes[0]!;
-  await manager
-    .getRepository(ListingPhotoEntity)
-    .insert({ id: photoId, listingId, position, altText, width: large.width, height: large.height, originalFormat: inspection.format });
+  return { id: photoId, listingId, position, altText, width: large.width, height: large.height, originalFormat: inspection.format };
 }
 
 /** Listing states that make a log's photos public (its story is shown on the slab page). */

@@ -26,6 +26,10 @@ const DEMO_PLACES: Place[] = [
   },
   { id: "demo:northshore", name: "Northshore", region: "Lakemont region (demo)", country: "US", latitude: 44.742, longitude: -85.377 },
   { id: "demo:cedar-hollow", name: "Cedar Hollow", region: "Lakemont region (demo)", country: "US", latitude: 44.455, longitude: -85.512 },
+  { id: "demo:heron-point", name: "Heron Point", region: "Lakemont region (demo)", country: "US", latitude: 44.702, longitude: -85.525 },
+  { id: "demo:ashgrove", name: "Ashgrove", region: "Lakemont region (demo)", country: "US", latitude: 44.541, longitude: -85.248 },
+  { id: "demo:quarry-ridge", name: "Quarry Ridge", region: "Lakemont region (demo)", country: "US", latitude: 44.812, longitude: -85.206 },
+  { id: "demo:millbrook", name: "Millbrook", region: "Lakemont region (demo)", country: "US", latitude: 44.372, longitude: -85.351 },
 ];
 const DEMO_POPULATION = 250_000;
 

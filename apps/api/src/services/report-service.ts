@@ -2,7 +2,14 @@ import { randomUUID } from "node:crypto";
 import type { Report, ReportInput, ReportReceipt, ReportResolveInput, reportStatuses } from "@grainyard/contracts";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
-import { AccountEntity, ContentReportEntity, ListingEntity, MessageEntity, MessageThreadEntity } from "../entities/index.ts";
+import {
+  AccountEntity,
+  ContentReportEntity,
+  ListingEntity,
+  MessageEntity,
+  MessageThreadEntity,
+  OrderReviewEntity,
+} from "../entities/index.ts";
 import { Conflict, Invalid, NotFound } from "../errors.ts";
 import type { Mailer } from "../integrations/mail.ts";
 import { accountSuspendedMail, listingTakenDownMail } from "../mail-templates-operator.ts";
@@ -10,6 +17,7 @@ import type { AccountModeration } from "./account-moderation.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
 import type { DomainEventBus } from "../events.ts";
+import type { OrderReviewService } from "./order-review-service.ts";
 
 /** Listings an admin may take down after a report (a reserved or sold slab is mid-sale: handled as an order dispute). */
 const TAKE_DOWN_FROM = ["draft", "in_review", "sent_back", "live", "suspended"] as const;
@@ -20,6 +28,8 @@ export function createReportService(deps: {
   config: Pick<AppConfig, "publicUrl">;
   log: { error(object: object, message: string): void };
   moderation: AccountModeration;
+  /** Hiding a reported review (inside the resolution's transaction), and telling its buyer. */
+  reviews: Pick<OrderReviewService, "hideWith" | "mailHidden">;
   now?: () => Date;
   /** Where the service announces what changed (the catalogue and alerts listen). */
   events?: DomainEventBus;
@@ -44,19 +54,37 @@ export function createReportService(deps: {
     const byId = new Map(accounts.map((a) => [a.id, a]));
     const listingIds = rows.filter((r) => r.targetKind === "listing").map((r) => r.targetId);
     const messageIds = rows.filter((r) => r.targetKind === "message").map((r) => r.targetId);
+    const reviewIds = rows.filter((r) => r.targetKind === "review").map((r) => r.targetId);
     const listings = listingIds.length
       ? await dataSource
           .getRepository(ListingEntity)
           .find({ where: { id: In(listingIds) }, select: { id: true, title: true, status: true } })
       : [];
     const messages = messageIds.length ? await dataSource.getRepository(MessageEntity).findBy({ id: In(messageIds) }) : [];
+    const reviews = reviewIds.length ? await dataSource.getRepository(OrderReviewEntity).findBy({ id: In(reviewIds) }) : [];
+    /** A review's words for the admin: the rating, the two answers with their comments, and the text. */
+    const reviewExcerpt = (review: OrderReviewEntity) =>
+      [
+        `${review.rating} of 5`,
+        `matched the listing: ${review.matchedListing ? "yes" : "no"}${review.matchedListingComment ? ` (${review.matchedListingComment})` : ""}`,
+        `hand-over: ${review.handoverWentWell ? "went well" : "did not go well"}${review.handoverComment ? ` (${review.handoverComment})` : ""}`,
+        review.body,
+      ]
+        .filter(Boolean)
+        .join(" · ")
+        .slice(0, 400);
     return rows.map((r) => {
       const reporter = byId.get(r.reporterId);
       const reported = byId.get(r.reportedAccountId);
+      const review = r.targetKind === "review" ? reviews.find((v) => v.id === r.targetId) : undefined;
       const excerpt =
         r.targetKind === "listing"
           ? (listings.find((l) => l.id === r.targetId)?.title ?? "(listing gone)")
-          : (messages.find((m) => String(m.id) === r.targetId)?.body.slice(0, 400) ?? "(message gone)");
+          : r.targetKind === "message"
+            ? (messages.find((m) => String(m.id) === r.targetId)?.body.slice(0, 400) ?? "(message gone)")
+            : review
+              ? reviewExcerpt(review)
+              : "(review gone)";
       return {
         id: r.id,
         targetKind: r.targetKind,
@@ -91,6 +119,14 @@ export function createReportService(deps: {
         if (!listing || !visible) throw new NotFound("No listing with that id.");
         listingId = listing.id;
         reportedAccountId = listing.sawyerId;
+      } else if (input.targetKind === "review") {
+        // Visible reviews are public; a hidden one only to its two parties and the admins.
+        const review = await dataSource.getRepository(OrderReviewEntity).findOneBy({ id: input.targetId });
+        const visible =
+          review && (!review.hiddenAt || signedIn.role === "admin" || [review.buyerId, review.sawyerId].includes(signedIn.accountId));
+        if (!review || !visible) throw new NotFound("No review with that id.");
+        listingId = review.listingId;
+        reportedAccountId = review.buyerId;
       } else {
         if (!/^\d{1,20}$/.test(input.targetId)) throw new NotFound("No message with that id.");
         const message = await dataSource.getRepository(MessageEntity).findOneBy({ id: input.targetId });
@@ -154,8 +190,10 @@ export function createReportService(deps: {
         let status: ContentReportEntity["status"] = "dismissed";
         let takenDown: ListingEntity | null = null;
         let suspended: AccountEntity | null = null;
+        let hiddenReview: OrderReviewEntity | null = null;
         if (input.resolution === "take_down") {
-          if (!report.listingId) throw new Invalid("This report has no listing to take down.", { resolution: "Nothing to take down." });
+          if (!report.listingId || report.targetKind === "review")
+            throw new Invalid("This report has no listing to take down.", { resolution: "Nothing to take down." });
           const listing = await manager
             .getRepository(ListingEntity)
             .findOne({ where: { id: report.listingId }, lock: { mode: "pessimistic_write" } });
@@ -182,6 +220,10 @@ export function createReportService(deps: {
           );
           takenDown = listing;
           status = "listing_taken_down";
+        } else if (input.resolution === "hide_review") {
+          if (report.targetKind !== "review") throw new Invalid("This report is not about a review.", { resolution: "Nothing to hide." });
+          hiddenReview = await deps.reviews.hideWith(manager, admin, report.targetId, input.note, at);
+          status = "review_hidden";
         } else if (input.resolution === "suspend") {
           if (report.reportedAccountId === admin.accountId)
             throw new Invalid("You cannot suspend your own account.", { resolution: "That is you." });
@@ -208,8 +250,9 @@ export function createReportService(deps: {
           },
           at,
         );
-        return { takenDown, suspended };
+        return { takenDown, suspended, hiddenReview };
       });
+      if (outcome.hiddenReview) await deps.reviews.mailHidden(outcome.hiddenReview, input.note);
       if (outcome.takenDown) {
         const listing = outcome.takenDown;
         const sawyer = await dataSource.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId });

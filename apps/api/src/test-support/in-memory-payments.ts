@@ -38,7 +38,15 @@ interface Payment {
   status: "succeeded" | "failed";
 }
 
-type Verb = "startCheckout" | "expireCheckout" | "refund" | "transfer" | "createPayoutAccount" | "onboardingLink" | "payoutAccount";
+type Verb =
+  | "startCheckout"
+  | "expireCheckout"
+  | "checkoutPayment"
+  | "refund"
+  | "transfer"
+  | "createPayoutAccount"
+  | "onboardingLink"
+  | "payoutAccount";
 
 export class InMemoryPayments implements PaymentsPort {
   readonly webhookSignatureHeader = "x-in-memory-signature";
@@ -96,6 +104,14 @@ export class InMemoryPayments implements PaymentsPort {
       if (!checkout) throw new PaymentsRefused(`No such checkout: ${checkoutId}`, "resource_missing");
       if (checkout.status !== "open") throw new PaymentsRefused("Only open checkouts can be expired.", "checkout_not_open");
       checkout.status = "expired";
+    });
+  }
+
+  checkoutPayment(checkoutId: string): Promise<{ paid: boolean; paymentId: string | null }> {
+    return this.answer("checkoutPayment", undefined, () => {
+      const checkout = this.checkouts.get(checkoutId);
+      if (!checkout) throw new PaymentsRefused(`No such checkout: ${checkoutId}`, "resource_missing");
+      return { paid: checkout.status === "complete", paymentId: checkout.paymentId };
     });
   }
 

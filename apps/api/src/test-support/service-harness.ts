@@ -7,6 +7,7 @@ import { createLogger } from "../logger.ts";
 import type { Actor } from "../services/actor.ts";
 import { createCheckoutService } from "../services/checkout-service.ts";
 import { createOrderService } from "../services/order-service.ts";
+import { createOrderReviewService } from "../services/order-review-service.ts";
 import { createPayoutService } from "../services/payout-service.ts";
 import { createRefundService } from "../services/refund-service.ts";
 import { createYardService } from "../services/yard-service.ts";
@@ -68,6 +69,7 @@ export async function createServiceHarness(options: { holdDays?: number; autoCom
   });
   const orders = createOrderService({ dataSource, refunds, mailer, config: { ...config, checkout: checkoutConfig }, log, now: clock.now });
   const yard = createYardService({ dataSource });
+  const reviews = createOrderReviewService({ dataSource, mailer, config, log, now: clock.now });
 
   let people = 0;
   /** Someone with an account (straight in the database: these tests do not sign in). */
@@ -156,6 +158,7 @@ export async function createServiceHarness(options: { holdDays?: number; autoCom
     checkout,
     orders,
     payouts,
+    reviews,
     person,
     liveListing,
     paidOrder,

@@ -6,6 +6,7 @@ import request from "supertest";
 import type { DataSource } from "typeorm";
 import { createApp } from "../app.ts";
 import { loadConfig, type AppConfig } from "../config.ts";
+import { freeYardSlug } from "../services/yard-slugs.ts";
 import { createDataSource } from "../db/data-source.ts";
 import { AccountEntity } from "../entities/index.ts";
 import { createMailer } from "../integrations/mail.ts";
@@ -80,13 +81,16 @@ export async function createTestContext(options: { environment?: Record<string, 
       const password = overrides.password ?? `test-${randomBytes(6).toString("hex")}-pass`;
       const id = randomUUID();
       const email = overrides.email ?? `${role}-${id.slice(0, 8)}@lakemont.test`;
+      const yardName = role === "sawyer" ? (overrides.yardName ?? "Test Yard") : null;
       await dataSource.getRepository(AccountEntity).insert({
         id,
         email,
         passwordHash: await hashPassword(password, config.bcryptCost),
         role,
         displayName: overrides.displayName ?? `Test ${role}`,
-        yardName: role === "sawyer" ? (overrides.yardName ?? "Test Yard") : null,
+        yardName,
+        yardSlug: yardName ? await freeYardSlug(dataSource, yardName, id) : null,
+        yardStory: overrides.yardStory ?? null,
         pickupTown: role === "sawyer" ? (overrides.pickupTown ?? "Lakemont") : null,
         pickupLatitude: overrides.pickupLatitude ?? null,
         pickupLongitude: overrides.pickupLongitude ?? null,

@@ -15,6 +15,7 @@ import {
   type MarketplaceSettings,
   type Report,
   type ReviewDeskItem,
+  type reportResolutions,
   type reportStatuses,
 } from "@grainyard/contracts";
 import type { ApiRequestError } from "../api/errors.ts";
@@ -59,7 +60,7 @@ export function useResolveReport() {
   const client = useClient(adminEndpoints);
   const cache = useQueryCache();
   return useMutation({
-    mutation: (input: { reportId: string; resolution: "dismiss" | "take_down" | "suspend"; note: string }) =>
+    mutation: (input: { reportId: string; resolution: (typeof reportResolutions)[number]; note: string }) =>
       client.resolveReport({ reportId: input.reportId, body: { resolution: input.resolution, note: input.note } }).catch(rethrow),
     // A take-down or suspension changes the dashboard, the people list and the catalogue too.
     onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.all }),

@@ -5,7 +5,7 @@ import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
 import { useClient } from "./api.ts";
 
 export interface ReportInput {
-  targetKind: "listing" | "message";
+  targetKind: "listing" | "message" | "review";
   targetId: string;
   reason: string;
 }

@@ -8,6 +8,8 @@ export const buyerAccount = {
   role: "buyer",
   emailVerified: true,
   yardName: null,
+  yardSlug: null,
+  yardStory: null,
   pickupTown: null,
   createdAt: "2026-02-01T12:00:00.000Z",
 };
@@ -19,6 +21,7 @@ export const sawyerAccount = {
   displayName: "Oskar Lindqvist",
   role: "sawyer",
   yardName: "Ridgeback Urban Timber",
+  yardSlug: "ridgeback-urban-timber",
   pickupTown: "Lakemont",
 };
 
@@ -48,6 +51,8 @@ export const oakCard: CatalogueCard = {
   pickup: true,
   town: "East Lakemont",
   yardName: "Cobble Lane Slabworks",
+  yardSlug: "cobble-lane-slabworks",
+  yardRating: { average: 4.7, count: 6 },
   distanceKm: null,
   fit: null,
   photoUrl: null,

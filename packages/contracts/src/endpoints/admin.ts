@@ -27,7 +27,7 @@ export const reportEndpoints = {
   fileReport: endpoint({
     method: "POST",
     path: `${API_PREFIX}/reports`,
-    summary: "Report a listing or a message (never one's own).",
+    summary: "Report a listing, a message or a review (never one's own).",
     access: "signed_in",
     body: reportInputSchema,
     answer: reportReceiptSchema,
@@ -66,11 +66,11 @@ export const adminEndpoints = {
   resolveReport: endpoint({
     method: "POST",
     path: `${API_PREFIX}/admin/reports/:reportId/resolve`,
-    summary: "Dismiss a report, take the listing down, or suspend its author.",
+    summary: "Dismiss a report, take the listing down, hide the review, or suspend its author.",
     access: adminOnly,
     body: reportResolveSchema,
     answer: reportEnvelopeSchema,
-    errors: ["report_resolved", "listing_not_removable", "admin_not_suspendable", "already_suspended"],
+    errors: ["report_resolved", "listing_not_removable", "admin_not_suspendable", "already_suspended", "review_hidden"],
   }),
   searchUsers: endpoint({
     method: "GET",

@@ -5,9 +5,11 @@ import { buyerEndpoints, messageEndpoints } from "./buyer-tools.ts";
 import { catalogueEndpoints } from "./catalogue.ts";
 import { listingEndpoints, reviewEndpoints } from "./listings.ts";
 import { orderEndpoints } from "./orders.ts";
+import { orderReviewEndpoints } from "./order-reviews.ts";
 import { payoutEndpoints } from "./payouts.ts";
 import { healthEndpoints, testClockEndpoints } from "./system.ts";
 import { yardEndpoints } from "./yard.ts";
+import { yardPageEndpoints } from "./yard-pages.ts";
 
 export { API_PREFIX } from "./prefix.ts";
 export { accountEndpoints } from "./accounts.ts";
@@ -16,9 +18,11 @@ export { buyerEndpoints, messageEndpoints } from "./buyer-tools.ts";
 export { catalogueEndpoints, placeQuerySchema } from "./catalogue.ts";
 export { listingEndpoints, reviewEndpoints } from "./listings.ts";
 export { orderEndpoints } from "./orders.ts";
+export { orderReviewEndpoints } from "./order-reviews.ts";
 export { payoutEndpoints } from "./payouts.ts";
 export { healthEndpoints, testClockEndpoints, testClockSchema } from "./system.ts";
 export { yardEndpoints } from "./yard.ts";
+export { yardPageEndpoints } from "./yard-pages.ts";
 
 /**
  * The whole endpoint table, by domain. The API mounts every route from it and the role matrix
@@ -32,6 +36,8 @@ export const endpointTable = {
   review: reviewEndpoints,
   catalogue: catalogueEndpoints,
   orders: orderEndpoints,
+  orderReviews: orderReviewEndpoints,
+  yardPages: yardPageEndpoints,
   buyer: buyerEndpoints,
   messages: messageEndpoints,
   reports: reportEndpoints,

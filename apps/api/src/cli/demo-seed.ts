@@ -1,0 +1,152 @@
+import type { DataSource, EntityManager } from "typeorm";
+import type { AppConfig } from "../config.ts";
+import { createDomainEvents } from "../events.ts";
+import type { Mailer } from "../integrations/mail.ts";
+import { createPayments } from "../integrations/payments-stripe.ts";
+import { createPhotoStorage } from "../integrations/storage.ts";
+import { createLogger } from "../logger.ts";
+import { seedLakemont } from "../seed/lakemont.ts";
+import { seedLakemontSales } from "../seed/lakemont-sales.ts";
+import { seedLakemontYards } from "../seed/lakemont-yard.ts";
+import { createAccountModeration } from "../services/account-moderation.ts";
+import { createCatalogueService } from "../services/catalogue-service.ts";
+import { createCheckoutService } from "../services/checkout-service.ts";
+import { createOrderReviewService } from "../services/order-review-service.ts";
+import { createOrderService } from "../services/order-service.ts";
+import { createPayoutService } from "../services/payout-service.ts";
+import { storeSeedPhoto } from "../services/photo-service.ts";
+import { createRefundService } from "../services/refund-service.ts";
+import { createReportService } from "../services/report-service.ts";
+import { createSettingsService } from "../services/settings-service.ts";
+
+/** The seed sends no e-mail: its orders and reviews are history, not news. */
+const quietMailer: Mailer = { send: async () => undefined, isUp: async () => true, close: () => undefined };
+
+export interface DemoSeedSummary {
+  accounts: number;
+  logs: number;
+  listings: number;
+  photos: number;
+  orders: number;
+  reviews: number;
+  payouts: number;
+  seconds: number;
+  /** Of which painting and storing the stock's photos and adding the stock, and making the sales. */
+  stockSeconds: number;
+  salesSeconds: number;
+  /** Sales that could not be made (the payments provider down, say), with why. */
+  skipped: string[];
+}
+
+/**
+ * The Lakemont demo, whatever of it is missing: accounts, the yards' stock with painted photos
+ * through the photo pipeline (live listings enter the catalogue), then the sales of what was just
+ * added, through the real checkout, order, review and payout services against the configured
+ * payments provider (the payments fake locally).
+ */
+export async function seedDemo(dataSource: DataSource, config: AppConfig): Promise<DemoSeedSummary> {
+  const started = Date.now();
+  const now = new Date();
+  const { created } = await seedLakemont(dataSource, config.bcryptCost);
+  const storage = createPhotoStorage(config.storage);
+  const catalogue = createCatalogueService({ dataSource, cursorSecret: config.sessionSecret, cache: false });
+  const onListingChanged = (manager: EntityManager, listingId: string) => catalogue.refreshEntry(manager, listingId);
+  // The catalogue follows the sales' listings and the reviews' ratings as in the API (no saved-search alerts: no e-mail).
+  const events = createDomainEvents();
+  events.on("listingChanged", ({ manager, listingId }) => onListingChanged(manager, listingId));
+  events.on("yardRatingChanged", ({ manager, sawyerId }) => catalogue.refreshYardRating(manager, sawyerId));
+  try {
+    const stock = await seedLakemontYards(dataSource, {
+      photos: (listingId, position, bytes, altText) => storeSeedPhoto(storage, listingId, position, bytes, altText),
+      onLive: onListingChanged,
+      now,
+    });
+    const stockDone = Date.now();
+    let sales = { orders: 0, reviews: 0, payouts: 0, skipped: [] as string[] };
+    if (stock.sales.length) {
+      let clock = now;
+      const at = () => clock;
+      const log = createLogger("warn");
+      // Fees, hold days and the reservation time as the marketplace has them now.
+      const settings = createSettingsService({ dataSource, config });
+      await settings.ensureFresh();
+      const payments = createPayments(config.payments);
+      const refunds = createRefundService({ dataSource, payments, log, now: at });
+      const payouts = createPayoutService({
+        dataSource,
+        payments,
+        refunds,
+        mailer: quietMailer,
+        config,
+        holdDays: () => settings.current().holdDays,
+        log,
+        now: at,
+      });
+      const checkout = createCheckoutService({
+        dataSource,
+        payments,
+        refunds,
+        mailer: quietMailer,
+        config: { publicUrl: config.publicUrl, checkout: settings.checkoutConfig() },
+        log,
+        now: at,
+        events,
+        onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
+      });
+      const orders = createOrderService({ dataSource, refunds, mailer: quietMailer, config, log, now: at, events });
+      const reviews = createOrderReviewService({
+        dataSource,
+        mailer: quietMailer,
+        config,
+        log,
+        now: at,
+        events,
+      });
+      const moderation = createAccountModeration({ dataSource, mailer: quietMailer, config, log, now: at, events });
+      const reports = createReportService({ dataSource, mailer: quietMailer, config, log, moderation, reviews, now: at, events });
+      try {
+        sales = await seedLakemontSales(
+          dataSource,
+          {
+            checkout,
+            orders,
+            reviews,
+            reports,
+            payouts,
+            setClock: (date) => (clock = date),
+            autoCompleteDays: config.checkout.autoCompleteDays,
+          },
+          stock.sales,
+          now,
+        );
+      } catch (error) {
+        sales.skipped.push(`the demo's sales stopped: ${(error as Error).message}`);
+      }
+    }
+    return {
+      accounts: created,
+      logs: stock.logs,
+      listings: stock.listings,
+      photos: stock.photos,
+      ...sales,
+      seconds: (Date.now() - started) / 1000,
+      stockSeconds: (stockDone - started) / 1000,
+      salesSeconds: (Date.now() - stockDone) / 1000,
+    };
+  } finally {
+    storage.close();
+  }
+}
+
+/** One line for the console: what the seed added and how long it took. */
+export function describeSeed(summary: DemoSeedSummary): string {
+  const added = [
+    `${summary.accounts} demo account(s)`,
+    `${summary.logs} log(s)`,
+    `${summary.listings} listing(s) with ${summary.photos} painted photo(s)`,
+    `${summary.orders} order(s)`,
+    `${summary.reviews} review(s)`,
+    `${summary.payouts} payout(s)`,
+  ];
+  return `demo data: added ${added.join(", ")} in ${summary.seconds.toFixed(1)} s (stock ${summary.stockSeconds.toFixed(1)} s, sales ${summary.salesSeconds.toFixed(1)} s)${summary.skipped.length ? `; not done: ${summary.skipped.join("; ")}` : ""}`;
+}
