@@ -131,15 +131,20 @@ export function appJson<T = unknown>(
   });
 }
 
-/** The id of a seeded listing, found by its title in the catalogue. */
+/** The id of a seeded listing, found by its title in the catalogue (every page of it: the demo has many slabs). */
 export async function listingIdOf(title: string): Promise<string> {
-  const { body } = await appJson<{
-    items?: { id?: string; listingId?: string; title: string }[];
-    results?: { id?: string; listingId?: string; title: string }[];
-  }>("/api/v1/catalogue?limit=50");
-  const item = (body.items ?? body.results ?? []).find((i) => i.title === title);
-  if (!item) throw new Error(`the seeded listing "${title}" is not in the catalogue`);
-  return (item.listingId ?? item.id)!;
+  let cursor: string | null = null;
+  for (let page = 0; page < 20; page++) {
+    const answer: { body: { results: { listingId: string; title: string }[]; nextCursor: string | null } } = await appJson(
+      `/api/v1/catalogue?limit=60${cursor ? `&cursor=${encodeURIComponent(cursor)}` : ""}`,
+    );
+    const body = answer.body;
+    const item = body.results.find((i) => i.title === title);
+    if (item) return item.listingId;
+    cursor = body.nextCursor;
+    if (!cursor) break;
+  }
+  throw new Error(`the seeded listing "${title}" is not in the catalogue`);
 }
 
 /** Signs in through the form and waits to leave the sign-in page. */
