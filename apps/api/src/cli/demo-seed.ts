@@ -70,7 +70,13 @@ export async function seedDemo(dataSource: DataSource, config: AppConfig): Promi
       // Fees, hold days and the reservation time as the marketplace has them now.
       const settings = createSettingsService({ dataSource, config });
       await settings.ensureFresh();
-      const payments = createPayments(config.payments);
+      // The services run on a clock moved into the past, but the provider's hosted page keeps real time and
+      // refuses a page whose closing time has passed: the seed's pages close an hour from now instead.
+      const provider = createPayments(config.payments);
+      const payments: typeof provider = {
+        ...provider,
+        startCheckout: (input) => provider.startCheckout({ ...input, expiresAt: new Date(Date.now() + 60 * 60_000) }),
+      };
       const refunds = createRefundService({ dataSource, payments, log, now: at });
       const payouts = createPayoutService({
         dataSource,
