@@ -70,7 +70,7 @@ export async function settled(page: Page): Promise<void> {
 
 /** The newest message the mail sink received for an address, waiting a little for delivery. */
 export async function newestMailTo(address: string): Promise<{ subject: string; text: string }> {
-  const deadline = Date.now() + 10_000;
+  const deadline = Date.now() + 30_000;
   while (Date.now() < deadline) {
     const response = await fetch(`${inboxUrl}/api/messages?to=${encodeURIComponent(address)}`);
     const { messages } = (await response.json()) as { messages: { subject: string; text: string }[] };

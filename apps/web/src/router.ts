@@ -32,6 +32,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "Slab for sale", ssr: true },
   },
   {
+    path: "/yards/:slug",
+    name: "yard-page",
+    component: () => import("./views/YardPageView.vue"),
+    meta: { title: "A yard on Grainyard", ssr: true },
+  },
+  {
     path: "/sign-in",
     name: "sign-in",
     component: () => import("./views/SignInView.vue"),

@@ -335,23 +335,27 @@ export async function seedLakemontYards(
   );
 
   // Photos first: painted and through the photo pipeline into storage; their rows go in with the rest.
+  // A set gets a second photo: its first slab on its own, as a buyer would want to see it.
+  const photoJobs = planned
+    .filter((p) => p.demo.status !== "draft")
+    .flatMap((p) => [
+      { ...p, position: 0, slabs: p.demo.slabs },
+      ...(p.demo.slabs.length > 1 ? [{ ...p, position: 1, slabs: p.demo.slabs.slice(0, 1) }] : []),
+    ]);
   const photoRows = options.photos
-    ? await inParallel(
-        planned.filter((p) => p.demo.status !== "draft"),
-        2,
-        async ({ id, log, logIndex, demo }) =>
-          options.photos!(
-            id,
-            0,
-            await slabPhoto({
-              speciesSlug: log.speciesSlug,
-              setKind: demo.setKind,
-              slabs: demo.slabs.map((n) => log.slabs.find((s) => s.sequence === n)!),
-              seed: logIndex * 31 + demo.slabs[0]!,
-              mill: log.mill,
-            }),
-            altTextOf(log, demo),
-          ),
+    ? await inParallel(photoJobs, 2, async ({ id, log, logIndex, demo, position, slabs }) =>
+        options.photos!(
+          id,
+          position,
+          await slabPhoto({
+            speciesSlug: log.speciesSlug,
+            setKind: slabs.length > 1 ? demo.setKind : "single",
+            slabs: slabs.map((n) => log.slabs.find((s) => s.sequence === n)!),
+            seed: logIndex * 31 + slabs[0]! + position * 7,
+            mill: log.mill,
+          }),
+          position === 0 ? altTextOf(log, demo) : altTextOf(log, { ...demo, slabs }),
+        ),
       )
     : [];
 

@@ -212,3 +212,44 @@ describe("the catalogue and the home page, rendered on the server", () => {
     expect(appText(res.text)).toContain("Nothing grows at this address");
   });
 });
+
+describe("a yard's public page, rendered on the server", () => {
+  it("has the yard, its live slabs and an Organization with its offers in the HTML, and nothing private", async () => {
+    const slab = await request(ctx.app).get(`/api/v1/catalogue/${ids.walnut}`);
+    const slug = (slab.body as { yard: { slug: string | null } }).yard.slug;
+    expect(slug).toBeTruthy();
+    // The slab page links to it.
+    expect((await request(ctx.app).get(`/slabs/${ids.walnut}`)).text).toContain(`href="/yards/${slug}"`);
+
+    const res = await request(ctx.app).get(`/yards/${slug}`);
+    expect(res.status).toBe(200);
+    expect(res.text).toContain("<title>Harbour Hill Timber in Lakemont · Grainyard</title>");
+    expect(res.text).toContain(`<link rel="canonical" href="https://grainyard.example/yards/${slug}">`);
+    const text = appText(res.text);
+    expect(text).toContain("Harbour Hill Timber");
+    expect(text).toContain("Black walnut counter slab");
+    expect(text).toContain("Black walnut bench top");
+    expect(text).not.toContain("Black walnut desk slab"); // sold
+    expect(text).not.toContain("White oak shelf board"); // withdrawn
+    expect(res.text).not.toContain("oskar.private@harbourhill.test");
+
+    const [organization, breadcrumbs] = jsonLd(res.text) as [Record<string, unknown>, Record<string, unknown>];
+    expect(organization).toMatchObject({
+      "@context": "https://schema.org",
+      "@type": "Organization",
+      name: "Harbour Hill Timber",
+      address: { "@type": "PostalAddress", addressLocality: "Lakemont" },
+    });
+    const offers = organization.makesOffer as { price: string; url: string }[];
+    expect(offers.map((offer) => offer.price).sort()).toEqual(["390.00", "845.50"]);
+    expect(offers.map((offer) => offer.url)).toContain(`https://grainyard.example/slabs/${ids.walnut}`);
+    expect(breadcrumbs["@type"]).toBe("BreadcrumbList");
+  });
+
+  it("answers 404 with a helpful page for a yard that does not exist", async () => {
+    const res = await request(ctx.app).get("/yards/no-such-yard");
+    expect(res.status).toBe(404);
+    expect(appText(res.text)).toContain("This yard isn't here");
+    expect(res.text).toContain('<meta name="robots" content="noindex">');
+  });
+});

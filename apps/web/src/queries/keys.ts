@@ -14,6 +14,8 @@ export const queryKeys = {
     listing: (listingId: string) => ["catalogue", "listing", listingId] as const,
     /** A few live slabs like a sold one (same species). */
     similar: (speciesSlug: string) => ["catalogue", "similar", speciesSlug] as const,
+    /** A yard's public page (its live slabs are catalogue cards, so it lives with the catalogue). */
+    yard: (slug: string) => ["catalogue", "yard", slug] as const,
     places: (text: string) => ["catalogue", "places", text.trim().toLowerCase()] as const,
   },
   messages: {

@@ -4,7 +4,7 @@
  * /BreadcrumbList, /WebSite). Pure functions of the page's data, so the server and the browser
  * build exactly the same head. Every figure is the API's (or slab-math's through the formatter).
  */
-import type { CatalogueDetail } from "@grainyard/contracts";
+import type { CatalogueDetail, YardPage } from "@grainyard/contracts";
 import { unitFormatter } from "../composables/useUnits.ts";
 import { formatMoney, minorToInput } from "@grainyard/slab-math";
 import { botanicalName, speciesName } from "../utils/yard.ts";
@@ -40,13 +40,20 @@ export interface PageHead {
 
 interface PreviewImage {
   url: string;
-  width: number;
-  height: number;
+  /** Pixel size when known (a card's photo gives only its address). */
+  width: number | null;
+  height: number | null;
   alt: string;
 }
 
 /** Open Graph and card tags shared by every public page. */
-function previewTags(kind: "website" | "product", title: string, description: string, url: string, image: PreviewImage | null): MetaTag[] {
+function previewTags(
+  kind: "website" | "product" | "profile",
+  title: string,
+  description: string,
+  url: string,
+  image: PreviewImage | null,
+): MetaTag[] {
   const tags: MetaTag[] = [
     { property: "og:site_name", content: SITE_NAME },
     { property: "og:type", content: kind },
@@ -62,8 +69,12 @@ function previewTags(kind: "website" | "product", title: string, description: st
     tags.push(
       { property: "og:image", content: image.url },
       { property: "og:image:type", content: "image/webp" },
-      { property: "og:image:width", content: String(image.width) },
-      { property: "og:image:height", content: String(image.height) },
+      ...(image.width && image.height
+        ? [
+            { property: "og:image:width", content: String(image.width) },
+            { property: "og:image:height", content: String(image.height) },
+          ]
+        : []),
       { property: "og:image:alt", content: image.alt },
       { name: "twitter:image", content: image.url },
       { name: "twitter:image:alt", content: image.alt },
@@ -209,6 +220,60 @@ export function slabPageHead(detail: CatalogueDetail, site: SiteInfo): PageHead 
   ];
 
   return { title: listing.title, description, canonical, meta, jsonLd: [product, breadcrumbs(site, trail)] };
+}
+
+/** A yard's public page: who the sawyer is, their rating and what they have, as an Organization with its offers. */
+export function yardPageHead(page: YardPage, site: SiteInfo): PageHead {
+  const { yard, liveSlabs } = page;
+  const path = `/yards/${encodeURIComponent(yard.slug)}`;
+  const canonical = absoluteUrl(site, path);
+  const where = yard.town ? ` in ${yard.town}` : "";
+  const slabs = liveSlabs.length === 1 ? "1 slab" : `${liveSlabs.length} slabs`;
+  const description = clip(`${yard.name}, an urban sawyer${where} on Grainyard: ${slabs} for sale. ${yard.story ?? ""}`.trim(), 200);
+  const cover = liveSlabs.find((card) => card.photoUrl);
+  const image: PreviewImage | null = cover?.photoMediumUrl
+    ? { url: absoluteUrl(site, cover.photoMediumUrl), width: null, height: null, alt: cover.photoAlt ?? `A slab from ${yard.name}` }
+    : null;
+  const organization: Record<string, unknown> = {
+    "@context": "https://schema.org",
+    "@type": "Organization",
+    "@id": `${canonical}#yard`,
+    name: yard.name,
+    url: canonical,
+    ...(yard.story ? { description: clip(yard.story, 5000) } : {}),
+    ...(yard.town ? { address: { "@type": "PostalAddress", addressLocality: yard.town } } : {}),
+    ...(yard.rating.count > 0 && yard.rating.average !== null
+      ? {
+          aggregateRating: {
+            "@type": "AggregateRating",
+            ratingValue: Math.round(yard.rating.average * 10) / 10,
+            bestRating: 5,
+            worstRating: 1,
+            ratingCount: yard.rating.count,
+          },
+        }
+      : {}),
+    makesOffer: liveSlabs.map((card) => ({
+      "@type": "Offer",
+      url: absoluteUrl(site, `/slabs/${encodeURIComponent(card.listingId)}`),
+      price: minorToInput(card.priceMinor),
+      priceCurrency: card.currency,
+      availability: "https://schema.org/InStock",
+      itemOffered: { "@type": "Product", name: card.title },
+    })),
+  };
+  const trail = [
+    { name: "Grainyard", path: "/" },
+    { name: "Slabs", path: "/browse" },
+    { name: yard.name, path },
+  ];
+  return {
+    title: `${yard.name}${where}`,
+    description,
+    canonical,
+    meta: [{ name: "description", content: description }, ...previewTags("profile", yard.name, description, canonical, image)],
+    jsonLd: [organization, breadcrumbs(site, trail)],
+  };
 }
 
 /** The catalogue: one species is a page of its own; other filter mixes are for people, not the index. */
