@@ -14,6 +14,7 @@ import {
   signIn,
   mailsTo,
   mailArrives,
+  settled,
 } from "./browser.ts";
 
 /** A picture of one part of a long page (the buy panel), beside the full-page ones. */
@@ -149,11 +150,18 @@ describe("buying a slab", () => {
     await expect.poll(() => phonePage.locator(`[data-test="order-${orderId}"]`).isVisible(), { timeout: 15_000 }).toBe(true);
     await screenshot(phonePage, "orders-buyer-390");
 
-    // The sawyer marks it handed over (after a confirmation); the buyer confirms receipt.
+    // The sawyer marks it handed over (after a confirmation) before the booked time, so says why; the buyer confirms receipt.
     await sawyerPage.reload();
     await sawyerPage.locator('[data-test="mark-handed-over"]').click();
+    await expect.poll(() => sawyerPage.locator('[data-test="handover-early"]').isVisible(), { timeout: 15_000 }).toBe(true);
+    await sawyerPage.locator('[data-test="confirm"]').click();
+    await expect.poll(() => sawyerPage.locator('[data-test="confirm-dialog"]').innerText()).toMatch(/Say why/);
+    await sawyerPage.locator('[data-test="handover-reason"]').fill("The buyer came by a day early with a trailer.");
+    await settled(sawyerPage);
+    await screenshot(sawyerPage, "order-handover-early-1280", { fullPage: false });
     await sawyerPage.locator('[data-test="confirm"]').click();
     await expect.poll(() => sawyerPage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Handed over");
+    await expect.poll(() => sawyerPage.locator('[data-test="handover-note"]').innerText()).toMatch(/a day early with a trailer/);
     await phonePage.goto(`${appUrl}/orders/${orderId}`);
     await phonePage.locator('[data-test="confirm-receipt"]').click();
     await phonePage.locator('[data-test="confirm"]').click();
