@@ -124,7 +124,9 @@ describe("buying a slab", () => {
     await expect.poll(() => page.locator('[data-test="window-1"]').isVisible(), { timeout: 15_000 }).toBe(true);
     await page.locator('[data-test="window-1"]').check();
     await page.locator('[data-test="choose-window"]').click();
-    await expect.poll(() => page.locator('[data-test="pickup-when"]').innerText(), { timeout: 15_000 }).not.toMatch(/Waiting|proposes/);
+    await expect
+      .poll(() => page.locator('[data-test="pickup-when"]').innerText(), { timeout: 15_000 })
+      .not.toMatch(/Choose one|Waiting|propose/);
     expect(await page.locator('[data-test="pickup-address"]').innerText()).toContain("212 Tannery Road");
     await screenshot(page, "order-booked-1280");
     await mailArrives(RIDGEBACK.email, /^The buyer chose a pickup time/);
@@ -158,7 +160,7 @@ describe("buying a slab", () => {
     await expect.poll(() => sawyerPage.locator('[data-test="confirm-dialog"]').innerText()).toMatch(/Say why/);
     await sawyerPage.locator('[data-test="handover-reason"]').fill("The buyer came by a day early with a trailer.");
     await settled(sawyerPage);
-    await screenshot(sawyerPage, "order-handover-early-1280", { fullPage: false });
+    await screenshot(sawyerPage, "order-handover-early-390", { fullPage: false });
     await sawyerPage.locator('[data-test="confirm"]').click();
     await expect.poll(() => sawyerPage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Handed over");
     await expect.poll(() => sawyerPage.locator('[data-test="handover-note"]').innerText()).toMatch(/a day early with a trailer/);
