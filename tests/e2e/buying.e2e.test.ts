@@ -15,6 +15,7 @@ import {
   signIn,
   mailsTo,
   mailArrives,
+  settled,
 } from "./browser.ts";
 
 /** A picture of one part of a long page (the buy panel), beside the full-page ones. */
@@ -124,7 +125,9 @@ describe("buying a slab", () => {
     await expect.poll(() => page.locator('[data-test="window-1"]').isVisible(), { timeout: 15_000 }).toBe(true);
     await page.locator('[data-test="window-1"]').check();
     await page.locator('[data-test="choose-window"]').click();
-    await expect.poll(() => page.locator('[data-test="pickup-when"]').innerText(), { timeout: 15_000 }).not.toMatch(/Waiting|proposes/);
+    await expect
+      .poll(() => page.locator('[data-test="pickup-when"]').innerText(), { timeout: 15_000 })
+      .not.toMatch(/Choose one|Waiting|propose/);
     expect(await page.locator('[data-test="pickup-address"]').innerText()).toContain("212 Tannery Road");
     await screenshot(page, "order-booked-1280");
     await mailArrives(RIDGEBACK.email, /^The buyer chose a pickup time/);
@@ -150,11 +153,18 @@ describe("buying a slab", () => {
     await expect.poll(() => phonePage.locator(`[data-test="order-${orderId}"]`).isVisible(), { timeout: 15_000 }).toBe(true);
     await screenshot(phonePage, "orders-buyer-390");
 
-    // The sawyer marks it handed over (after a confirmation); the buyer confirms receipt.
+    // The sawyer marks it handed over (after a confirmation) before the booked time, so says why; the buyer confirms receipt.
     await sawyerPage.reload();
     await sawyerPage.locator('[data-test="mark-handed-over"]').click();
+    await expect.poll(() => sawyerPage.locator('[data-test="handover-early"]').isVisible(), { timeout: 15_000 }).toBe(true);
+    await sawyerPage.locator('[data-test="confirm"]').click();
+    await expect.poll(() => sawyerPage.locator('[data-test="confirm-dialog"]').innerText()).toMatch(/Say why/);
+    await sawyerPage.locator('[data-test="handover-reason"]').fill("The buyer came by a day early with a trailer.");
+    await settled(sawyerPage);
+    await screenshot(sawyerPage, "order-handover-early-390", { fullPage: false });
     await sawyerPage.locator('[data-test="confirm"]').click();
     await expect.poll(() => sawyerPage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Handed over");
+    await expect.poll(() => sawyerPage.locator('[data-test="handover-note"]').innerText()).toMatch(/a day early with a trailer/);
     await phonePage.goto(`${appUrl}/orders/${orderId}`);
     await phonePage.locator('[data-test="confirm-receipt"]').click();
     await phonePage.locator('[data-test="confirm"]').click();

@@ -53,6 +53,17 @@ export const shipmentInputSchema = z.object({
 });
 export type ShipmentInput = z.infer<typeof shipmentInputSchema>;
 
+/**
+ * The sawyer marks an order handed over. Before the booked pickup time a reason is needed (the
+ * buyer reads it on the order); at or after it, or for freight, nothing is asked.
+ */
+export const handOverInputSchema = z
+  .object({
+    reason: z.string().trim().max(500, "Keep the reason under 500 characters.").optional(),
+  })
+  .default({});
+export type HandOverInput = z.input<typeof handOverInputSchema>;
+
 export const cancellationInputSchema = z.object({
   reason: z
     .string({ error: "Say why the order is cancelled." })
@@ -124,6 +135,8 @@ export const orderSchema = z.object({
   completedBy: z.enum(["buyer", "automatic"]).nullable(),
   cancelledBy: z.enum(["buyer", "sawyer"]).nullable(),
   cancelReason: z.string().nullable(),
+  /** Why the sawyer marked it handed over before the booked pickup time (null when it was not early). */
+  handOverNote: z.string().nullable(),
   /** When the order completes by itself if the buyer does not confirm (handed over + the configured days). */
   autoCompleteAt: z.string().nullable(),
   /** What the one looking may do now. */

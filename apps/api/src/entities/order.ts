@@ -130,6 +130,10 @@ export class OrderEntity {
   @Column({ name: "cancel_reason", type: "varchar", length: 500, nullable: true })
   cancelReason: string | null;
 
+  /** Why the slab was handed over before the booked pickup time. */
+  @Column({ name: "hand_over_note", type: "varchar", length: 500, nullable: true })
+  handOverNote: string | null;
+
   @Column({ name: "refund_id", type: "varchar", length: 80, nullable: true })
   refundId: string | null;
 

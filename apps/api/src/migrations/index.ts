@@ -67,3 +67,7 @@ migrations.push(YardPages1764824400000);
 // A slab's length and thickness as entered (millimetres to six decimals), so 2¼″ stays 57.15 mm.
 import { SlabMeasurementsAsEntered1764986400000 } from "./1764986400000-slab-measurements-as-entered.ts";
 migrations.push(SlabMeasurementsAsEntered1764986400000);
+
+// Why an order was marked handed over before the booked pickup time.
+import { HandOverNote1764990000000 } from "./1764990000000-hand-over-note.ts";
+migrations.push(HandOverNote1764990000000);

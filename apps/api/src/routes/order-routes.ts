@@ -15,7 +15,7 @@ export function orderHandlers(checkout: CheckoutService, orders: OrderService, p
     proposePickupWindows: async ({ actor, params, body }) => ({ order: await orders.proposePickupWindows(actor, params.orderId, body) }),
     choosePickupWindow: async ({ actor, params, body }) => ({ order: await orders.choosePickupWindow(actor, params.orderId, body) }),
     markShipped: async ({ actor, params, body }) => ({ order: await orders.markShipped(actor, params.orderId, body) }),
-    markHandedOver: async ({ actor, params }) => ({ order: await orders.markHandedOver(actor, params.orderId) }),
+    markHandedOver: async ({ actor, params, body }) => ({ order: await orders.markHandedOver(actor, params.orderId, body) }),
     confirmReceipt: async ({ actor, params }) => ({ order: await orders.confirmReceipt(actor, params.orderId) }),
     cancelOrder: async ({ actor, params, body }) => ({ order: await orders.cancel(actor, params.orderId, body) }),
     /**

@@ -195,9 +195,15 @@ describe("order steps after payment", () => {
     expect(early.body.error.message).toBe("This order is ready for pickup, so it cannot be confirmed as received now.");
 
     expect((await buyer.post(`${path}/handed-over`)).status).toBe(403);
-    const handed = await sawyer.post(`${path}/handed-over`);
+    // Before the booked time: a reason is asked (422 on the field), then taken and shown on the order.
+    const noReason = await sawyer.post(`${path}/handed-over`);
+    expect(noReason.status).toBe(422);
+    expect(noReason.body.error.fields.reason).toMatch(/before the booked time/);
+    expect((await orderOf(orderId)).status).toBe("ready_for_pickup");
+    const handed = await sawyer.post(`${path}/handed-over`, { reason: "Collected a day early; the buyer was passing." });
     expect(handed.status).toBe(200);
     expect(handed.body.order.status).toBe("handed_over");
+    expect((await buyer.get(path)).body.order.handOverNote).toBe("Collected a day early; the buyer was passing.");
     const handedOverAt = (await orderOf(orderId)).handedOverAt!;
     expect(handedOverAt).toBeInstanceOf(Date);
     // Completes by itself 14 days after hand-over unless the buyer confirms first.

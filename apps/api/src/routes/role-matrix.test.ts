@@ -336,7 +336,7 @@ const samples: Record<EndpointKey, Sample> = {
     allowed: { sawyer: 409, otherSawyer: 403 },
   },
   "orders.markHandedOver": {
-    call: (c, ids) => c.post(`/api/v1/orders/${ids.pickupOrderId}/handed-over`),
+    call: (c, ids) => c.post(`/api/v1/orders/${ids.pickupOrderId}/handed-over`, { reason: "Collected before the booked time." }),
     allowed: { sawyer: 200, otherSawyer: 403 },
   },
   "orders.confirmReceipt": { call: (c, ids) => c.post(`/api/v1/orders/${ids.pickupOrderId}/completion`) },

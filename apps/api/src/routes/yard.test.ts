@@ -127,6 +127,10 @@ describe("slabs and their figures", () => {
     });
     expect(listing.status).toBe(201);
     expect(listing.body.listing.figures.priceMinor).toBe(105_547);
+    // The slab page (slabs read through the listing's relation) answers the same numbers.
+    const page = await sawyer.get(`/api/v1/catalogue/${listing.body.listing.id}`);
+    expect(page.status).toBe(200);
+    expect(page.body.slabs[0]).toMatchObject({ thicknessMm: 57.15, lengthMm: 2451.1 });
   });
 
   it("weighs white oak at 12 % MC like the Wood Handbook's density (Table 5-3a: SG 0.68 at 12 %), within 5 %", async () => {

@@ -59,7 +59,12 @@ export interface StoredSlabFigures {
 
 export function computeSlabFigures(input: SlabFigureInput): StoredSlabFigures {
   return withFigureErrors(() => {
-    const geometry = slabGeometry({ lengthMm: input.lengthMm, thicknessMm: input.thicknessMm, widthStationsMm: input.widthStationsMm });
+    // Number(): a slab entity loaded through a relation may carry its DECIMAL measurements as text.
+    const geometry = slabGeometry({
+      lengthMm: Number(input.lengthMm),
+      thicknessMm: Number(input.thicknessMm),
+      widthStationsMm: input.widthStationsMm,
+    });
     const moisture = input.lastMoisturePct ?? DEFAULT_WEIGHT_MOISTURE_PCT;
     const weight = slabWeight({ volumeM3: geometry.volumeM3, speciesSlug: input.speciesSlug, moistureContentPct: moisture });
     return {

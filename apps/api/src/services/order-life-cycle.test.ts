@@ -2,7 +2,7 @@ import express from "express";
 import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import { LedgerEntryEntity, ListingEntity, OrderRefundEntity } from "../entities/index.ts";
-import { Conflict, Forbidden, ServiceUnavailable } from "../errors.ts";
+import { Conflict, Forbidden, Invalid, ServiceUnavailable } from "../errors.ts";
 import { orderEndpoints } from "@grainyard/contracts";
 import { mountEndpoints, rowsOf } from "../http/endpoints.ts";
 import { errorHandler } from "../http/errors.ts";
@@ -52,7 +52,13 @@ describe("a paid order, step by step", () => {
     expect(chosen.chosenPickupWindow).toEqual(windows.windows[0]);
     await expect(h.orders.confirmReceipt(buyer, order.id)).rejects.toBeInstanceOf(Conflict);
     await expect(h.orders.markHandedOver(buyer, order.id)).rejects.toBeInstanceOf(Forbidden);
-    expect((await h.orders.markHandedOver(sawyer, order.id)).status).toBe("handed_over");
+    // The booked time (26 hours away) has not come: a reason is asked, and nothing changes without one.
+    await expect(h.orders.markHandedOver(sawyer, order.id)).rejects.toMatchObject({ fields: { reason: expect.stringMatching(/Say why/) } });
+    await expect(h.orders.markHandedOver(sawyer, order.id, { reason: "  " })).rejects.toBeInstanceOf(Invalid);
+    expect((await h.orderOf(order.id)).status).toBe("ready_for_pickup");
+    const early = await h.orders.markHandedOver(sawyer, order.id, { reason: "The buyer came by on Friday with a trailer." });
+    expect(early).toMatchObject({ status: "handed_over", handOverNote: "The buyer came by on Friday with a trailer." });
+    expect((await h.orders.get(buyer, order.id)).handOverNote).toBe("The buyer came by on Friday with a trailer.");
     expect((await h.orders.get(sawyer, order.id)).actions).toEqual([]);
     await expect(h.orders.cancel(buyer, order.id, { reason: "Too late for this" })).rejects.toMatchObject({ code: "order_state" });
     const done = await h.orders.confirmReceipt(buyer, order.id);
@@ -60,6 +66,24 @@ describe("a paid order, step by step", () => {
 
     const subjects = h.mailer.to(buyer.email).map((m) => m.subject.split(":")[0]);
     expect(subjects).toEqual(["Your order", "Choose a pickup time", "Pickup booked", "Handed over", "Completed"]);
+  });
+
+  it("pickup at or after the booked time: handed over without a reason, and no note is kept", async () => {
+    const sawyer = await h.person("sawyer");
+    const buyer = await h.person("buyer");
+    const order = await h.paidOrder(buyer, await h.liveListing(sawyer, 50_000));
+    const window = { startsAt: inFuture(2), endsAt: inFuture(4) };
+    await h.orders.proposePickupWindows(sawyer, order.id, { windows: [window], pickupAddress: "Gate 2, 40 Millrace Road" });
+    await h.orders.choosePickupWindow(buyer, order.id, { startsAt: window.startsAt });
+    h.clock.advance(2 * 3_600_000);
+    try {
+      expect(await h.orders.markHandedOver(sawyer, order.id, { reason: "ignored when on time" })).toMatchObject({
+        status: "handed_over",
+        handOverNote: null,
+      });
+    } finally {
+      h.clock.advance(-2 * 3_600_000);
+    }
   });
 
   it("freight: shipped, handed over, then completed by itself once the days after hand-over ran out (once, however often the sweep runs)", async () => {

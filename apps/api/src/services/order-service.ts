@@ -6,6 +6,7 @@ import {
   transitionFrom,
   type CancellationInput,
   type ChooseWindowInput,
+  type HandOverInput,
   type Order,
   type OrderStatus,
   type OrderTransitionName,
@@ -119,6 +120,7 @@ export function orderView(order: OrderEntity, actor: Actor, parties: Parties | u
     completedBy: order.completedBy,
     cancelledBy: order.cancelledBy,
     cancelReason: order.cancelReason,
+    handOverNote: order.handOverNote,
     autoCompleteAt:
       order.status === "handed_over" && order.handedOverAt
         ? new Date(order.handedOverAt.getTime() + autoCompleteDays * DAY_MS).toISOString()
@@ -340,9 +342,25 @@ export function createOrderService(deps: {
     },
 
     /** The slab left the sawyer's hands: collected at the yard, or delivered by the carrier. */
-    async markHandedOver(actor: Actor, orderId: string): Promise<Order> {
+    async markHandedOver(actor: Actor, orderId: string, input: HandOverInput = {}): Promise<Order> {
       const order = await orderFor(actor, orderId, "sawyer");
-      const updated = await step(order, "markHandedOver", { handedOverAt: now() }, "be marked as handed over");
+      const reason = input.reason?.trim() ?? "";
+      // Asked only of an order that can be handed over now (otherwise the state answers: 409).
+      const early =
+        transitionFrom("markHandedOver").includes(order.status) &&
+        order.handover === "pickup" &&
+        order.pickupStartsAt !== null &&
+        now() < order.pickupStartsAt;
+      if (early && reason.length < 3)
+        throw new Invalid("The booked pickup time has not come yet: say why it is handed over now.", {
+          reason: "Say why it is handed over before the booked time (the buyer reads this).",
+        });
+      const updated = await step(
+        order,
+        "markHandedOver",
+        { handedOverAt: now(), handOverNote: early ? reason : null },
+        "be marked as handed over",
+      );
       await mailBoth(updated, "handed_over");
       return present(updated, actor);
     },

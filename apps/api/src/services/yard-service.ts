@@ -43,8 +43,10 @@ export function toSlab(entity: SlabEntity, listingId: string | null): Slab {
     logId: entity.logId,
     sequenceInLog: entity.sequenceInLog,
     speciesSlug: entity.speciesSlug,
-    lengthMm: entity.lengthMm,
-    thicknessMm: entity.thicknessMm,
+    // DECIMAL columns: a slab loaded through a relation (listing → slab) arrives as text despite the
+    // column's transformer, so read them as numbers here, where every answer is made.
+    lengthMm: Number(entity.lengthMm),
+    thicknessMm: Number(entity.thicknessMm),
     widthStationsMm: entity.widthStationsMm,
     liveEdge: entity.liveEdge,
     surfacing: entity.surfacing,

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { Order, OrderSlabSnapshot } from "@grainyard/contracts";
-import { snapshotSlabs, worstHandling } from "./orders.ts";
+import { pickupFacts, snapshotSlabs, worstHandling } from "./orders.ts";
 
 const slab = (over: Partial<OrderSlabSnapshot> & { handling?: OrderSlabSnapshot["figures"]["handling"] }): OrderSlabSnapshot => ({
   id: over.id ?? "slab-1",
@@ -59,5 +59,39 @@ describe("snapshotSlabs", () => {
     expect(slabs[0]!.species).toBe("Black walnut");
     expect(slabs[1]!.species).toBe("Slab");
     expect(worstHandling(slabs)).toBe("mechanical_aid");
+  });
+});
+
+describe("pickup facts, worded for the one reading them", () => {
+  const base = {
+    chosenPickupWindow: null,
+    pickupWindows: [] as Order["pickupWindows"],
+    pickupAddress: null,
+    parties: { buyerName: "Ana and Theo Brandt", yardName: null, pickupTown: "Lakemont" },
+  };
+  const windows = [{ startsAt: "2026-12-05T14:00:00.000Z", endsAt: "2026-12-05T16:00:00.000Z" }];
+
+  it("tells the buyer to choose, never that someone waits for 'the buyer'", () => {
+    const facts = pickupFacts({ ...base, viewerIs: "buyer", pickupWindows: windows });
+    expect(facts.when).toBe("Choose one of the sawyer's times above.");
+    expect(Object.values(facts).join(" ")).not.toMatch(/the buyer/i);
+    expect(pickupFacts({ ...base, viewerIs: "buyer" }).when).toMatch(/The sawyer will propose times soon/);
+  });
+
+  it("tells the sawyer what they do and what they wait for, in the second person", () => {
+    const facts = pickupFacts({ ...base, viewerIs: "sawyer" });
+    expect(facts).toEqual({
+      yard: "Your yard",
+      where: "You give the address with the pickup times.",
+      when: "Propose pickup times above.",
+    });
+    expect(pickupFacts({ ...base, viewerIs: "sawyer", pickupWindows: windows }).when).toBe(
+      "Waiting for the buyer to choose one of your times.",
+    );
+  });
+
+  it("speaks of both in the third person to anyone else", () => {
+    expect(pickupFacts({ ...base, viewerIs: "other", pickupWindows: windows }).when).toBe("The buyer has not chosen a time yet.");
+    expect(pickupFacts({ ...base, viewerIs: "other" }).when).toBe("The sawyer has not proposed times yet.");
   });
 });

@@ -17,6 +17,41 @@ export function windowLabel(window: { startsAt: string; endsAt: string }): strin
   return `${dateTime.format(new Date(window.startsAt))} – ${time.format(new Date(window.endsAt))}`;
 }
 
+type Reader = Order["viewerIs"];
+
+/**
+ * The pickup facts in words for the one reading them: the buyer is told what to do or what comes,
+ * the sawyer likewise, and anyone else (an admin) reads about both in the third person.
+ */
+export function pickupFacts(order: Pick<Order, "viewerIs" | "chosenPickupWindow" | "pickupWindows" | "pickupAddress" | "parties">): {
+  yard: string;
+  where: string;
+  when: string;
+} {
+  const reader: Reader = order.viewerIs;
+  const yard = order.parties.yardName ?? (reader === "sawyer" ? "Your yard" : "The sawyer's yard");
+  const where =
+    order.pickupAddress ??
+    (reader === "sawyer" ? "You give the address with the pickup times." : "The sawyer gives the address with the pickup times.");
+  let when: string;
+  if (order.chosenPickupWindow) when = windowLabel(order.chosenPickupWindow);
+  else if (order.pickupWindows.length)
+    when =
+      reader === "buyer"
+        ? "Choose one of the sawyer's times above."
+        : reader === "sawyer"
+          ? "Waiting for the buyer to choose one of your times."
+          : "The buyer has not chosen a time yet.";
+  else
+    when =
+      reader === "sawyer"
+        ? "Propose pickup times above."
+        : reader === "buyer"
+          ? "The sawyer will propose times soon; we'll e-mail you."
+          : "The sawyer has not proposed times yet.";
+  return { yard, where, when };
+}
+
 export function stampLabel(iso: string | null): string {
   return iso ? `${day.format(new Date(iso))}, ${time.format(new Date(iso))}` : "";
 }

@@ -6,6 +6,7 @@ import {
   checkoutQuoteSchema,
   checkoutResultSchema,
   chooseWindowInputSchema,
+  handOverInputSchema,
   orderEnvelopeSchema,
   orderListSchema,
   pickupWindowsInputSchema,
@@ -79,8 +80,9 @@ export const orderEndpoints = {
   markHandedOver: endpoint({
     method: "POST",
     path: `${API_PREFIX}/orders/:orderId/handed-over`,
-    summary: "The sawyer says the slab changed hands.",
+    summary: "The sawyer says the slab changed hands (with a reason when before the booked pickup time).",
     access: sawyerOnly,
+    body: handOverInputSchema,
     answer: orderEnvelopeSchema,
     errors: ["order_state"],
   }),
