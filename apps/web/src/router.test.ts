@@ -24,6 +24,8 @@ const buyer = {
   role: "buyer",
   emailVerified: true,
   yardName: null,
+  yardSlug: null,
+  yardStory: null,
   pickupTown: null,
   createdAt: "2025-02-01T12:00:00.000Z",
 };

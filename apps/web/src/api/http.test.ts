@@ -12,6 +12,8 @@ const account = {
   role: "sawyer",
   emailVerified: false,
   yardName: "Cobble Lane Slabworks",
+  yardSlug: "cobble-lane-slabworks",
+  yardStory: null,
   pickupTown: "Lakemont",
   createdAt: "2025-03-02T10:00:00.000Z",
 };

@@ -12,6 +12,8 @@ const sawyer = {
   role: "sawyer",
   emailVerified: true,
   yardName: "Ridgeback Urban Timber",
+  yardSlug: "ridgeback-urban-timber",
+  yardStory: null,
   pickupTown: "Lakemont",
   createdAt: "2025-01-10T09:00:00.000Z",
 };
