@@ -28,7 +28,8 @@ async function handedOverOrder() {
   const windows = { windows: [{ startsAt: inFuture(30), endsAt: inFuture(32) }], pickupAddress: "Gate 1, 9 Sawpit Lane" };
   await h.orders.proposePickupWindows(sawyer, order.id, windows);
   await h.orders.choosePickupWindow(buyer, order.id, { startsAt: windows.windows[0]!.startsAt });
-  await h.orders.markHandedOver(sawyer, order.id);
+  // Handed over before the booked time (a day ahead): the sawyer says why.
+  await h.orders.markHandedOver(sawyer, order.id, { reason: "The buyer came a day early with a trailer." });
   return { sawyer, buyer, orderId: order.id };
 }
 
