@@ -55,3 +55,7 @@ migrations.push(RateLimits1764792000000);
 // The catalogue's set weights named apart: the whole set's high end beside the heaviest slab's.
 import { CatalogueSetWeights1764802800000 } from "./1764802800000-catalogue-set-weights.ts";
 migrations.push(CatalogueSetWeights1764802800000);
+
+// A version row per shared cache, so every API instance drops its catalogue answers and yard positions together.
+import { CacheVersion1764813600000 } from "./1764813600000-cache-version.ts";
+migrations.push(CacheVersion1764813600000);
