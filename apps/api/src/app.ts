@@ -70,6 +70,11 @@ export function createApp(appDeps: AppDependencies) {
   app.disable("x-powered-by");
   app.set("trust proxy", production ? 1 : false);
 
+  // Which API instance answered (behind the load balancer several do): on every answer, errors included.
+  app.use((_req: Request, res: Response, next: NextFunction) => {
+    res.setHeader("x-grainyard-instance", config.instanceName);
+    next();
+  });
   app.use(accessLog(logger));
 
   // Only our own origin, everywhere. Naive UI writes its styles into <style> tags at run time,
