@@ -68,7 +68,7 @@ export function createApp(appDeps: AppDependencies) {
   const production = config.environment === "production";
   const app = express();
   app.disable("x-powered-by");
-  app.set("trust proxy", production ? 1 : false);
+  app.set("trust proxy", config.trustProxy ?? (production ? 1 : false));
 
   // Which API instance answered (behind the load balancer several do): on every answer, errors included.
   app.use((_req: Request, res: Response, next: NextFunction) => {

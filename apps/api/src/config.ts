@@ -60,6 +60,8 @@ const environmentSchema = z.object({
     .string()
     .regex(/^[\w.:-]{1,64}$/, "GRAINYARD_INSTANCE: letters, digits, '.', ':', '_' or '-', at most 64.")
     .optional(),
+  /** "loopback": the client's address comes from X-Forwarded-For set by a load balancer on loopback (the local stack's HAProxy). */
+  TRUST_PROXY: z.enum(["loopback"]).optional(),
   /** "1" gives the end-to-end API a clock the test can move forward (only with NODE_ENV=test). */
   GRAINYARD_TEST_CLOCK: z.enum(["0", "1"]).default("0"),
 });
@@ -84,6 +86,8 @@ export interface AppConfig {
   catalogueCache: boolean;
   /** This process's name among several API instances, sent on every answer (`x-grainyard-instance`). */
   instanceName: string;
+  /** Which proxies' X-Forwarded-For to believe (Express's "trust proxy"); unset: one hop in production, none elsewhere. */
+  trustProxy?: "loopback";
   /** A movable clock with POST /api/_test/clock: only ever true when NODE_ENV=test. */
   testClock: boolean;
   limits: {
@@ -162,6 +166,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
     logLevel: env.LOG_LEVEL,
     catalogueCache: env.CATALOGUE_CACHE === "on",
     instanceName: env.GRAINYARD_INSTANCE ?? `${hostname()}-${process.pid}`,
+    trustProxy: env.TRUST_PROXY,
     testClock: env.NODE_ENV === "test" && env.GRAINYARD_TEST_CLOCK === "1",
     limits: {
       signInPerPair: env.SIGN_IN_LIMIT_PER_ACCOUNT,
