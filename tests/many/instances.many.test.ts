@@ -143,3 +143,82 @@ describe("three instances behind HAProxy", () => {
     expect(Number(orders[0]!.n)).toBe(1);
   });
 });
+
+/** Whether a process is still there (signal 0 checks without touching it). */
+const alive = (pid: number) => {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
+};
+
+describe("an instance killed and another stopped under load", () => {
+  it("during 20 s of loopback load, SIGKILL on api-1 and SIGTERM on api-2 fail no GET and lose or double no write", async () => {
+    // The runner passes the instances' process ids (it started them; this suite stops two of them).
+    const pids = (process.env.INSTANCE_PIDS ?? "").split(",").map(Number);
+    expect(pids).toHaveLength(3);
+    const slab = await sawyer.post("/api/v1/yard/slabs", {
+      speciesSlug: "white-oak",
+      lengthMm: 2000,
+      thicknessMm: 51,
+      widthStationsMm: [500, 480],
+      liveEdge: "one",
+      surfacing: "rough_sawn",
+      dryingMethod: "air",
+    });
+    expect(slab.status).toBe(201);
+    const slabId = (slab.body.slab as { id: string }).id;
+    const counts = { gets: 0, getFailures: [] as string[], writesAccepted: 0, writesFailed: [] as string[], instances: new Set<string>() };
+    const started = Date.now();
+    const until = started + 20_000;
+    let round = 0;
+    let written = 0;
+    /** Each reading on a day of its own (from 1 January 2023). */
+    const nextDay = () => new Date(Date.UTC(2023, 0, 1) + written++ * 86_400_000).toISOString().slice(0, 10);
+    async function worker(index: number) {
+      const reader = client();
+      while (Date.now() < until) {
+        round += 1;
+        if (index === 0 || round % 4 === 0) {
+          // A write: one moisture reading; each sent once (HAProxy never resends a POST an instance may have seen).
+          const answer = await sawyer
+            .post(`/api/v1/yard/slabs/${slabId}/readings`, { readOn: nextDay(), moistureContentPct: 9, method: "pin_meter" })
+            .catch((error: Error) => ({ status: 0, instance: "", body: { text: error.message } }) as Answer);
+          if (answer.status === 201) counts.writesAccepted += 1;
+          else counts.writesFailed.push(`${answer.status} ${JSON.stringify(answer.body).slice(0, 120)}`);
+        } else {
+          const answer = await reader
+            .get("/api/v1/catalogue?sort=price_low")
+            .catch((error: Error) => ({ status: 0, instance: "", body: { text: error.message } }) as Answer);
+          counts.gets += 1;
+          counts.instances.add(answer.instance);
+          if (answer.status !== 200) counts.getFailures.push(`${answer.status} at ${Date.now() - started} ms`);
+        }
+      }
+    }
+    const load = Promise.all(Array.from({ length: 8 }, (_, index) => worker(index)));
+    await new Promise((r) => setTimeout(r, 5_000));
+    process.kill(pids[0]!, "SIGKILL");
+    await new Promise((r) => setTimeout(r, 5_000));
+    process.kill(pids[1]!, "SIGTERM");
+    await load;
+    expect(alive(pids[0]!)).toBe(false);
+    const [rows] = (await database.query("SELECT COUNT(*) AS n FROM moisture_reading WHERE slab_id = ?", [slabId])) as [
+      { n: number }[],
+      unknown,
+    ];
+    const stored = Number(rows[0]!.n);
+    process.stdout.write(
+      `failure test: ${counts.gets} GETs, ${counts.getFailures.length} failed${counts.getFailures.length ? ` (${counts.getFailures.join("; ")})` : ""}; ` +
+        `${counts.writesAccepted} readings accepted, ${counts.writesFailed.length} refused${counts.writesFailed.length ? ` (${counts.writesFailed.join("; ")})` : ""}, ${stored} stored\n`,
+    );
+    expect(counts.getFailures).toEqual([]);
+    // Every accepted reading is stored once; a refused one (its instance died with it) at most once.
+    expect(stored).toBeGreaterThanOrEqual(counts.writesAccepted);
+    expect(stored).toBeLessThanOrEqual(counts.writesAccepted + counts.writesFailed.length);
+    // The one instance left answered the rest.
+    expect((await client().get("/api/health")).instance).toBe("api-3");
+  }, 60_000);
+});

@@ -191,6 +191,8 @@ async function runManyInstances(stack: RunningStack, signal: AbortSignal): Promi
       {
         APP_URL: environment.PUBLIC_URL!,
         INSTANCE_URLS: instances.map((instance) => instance.url).join(","),
+        // The failure test stops two of them (SIGKILL and SIGTERM) under load.
+        INSTANCE_PIDS: instances.map((instance) => instance.process.child.pid).join(","),
         DATABASE_HOST: environment.DATABASE_HOST!,
         DATABASE_PORT: environment.DATABASE_PORT!,
         DATABASE_USER: environment.DATABASE_USER!,
