@@ -31,6 +31,7 @@ import { createYardService } from "./services/yard-service.ts";
 import { buyerHandlers } from "./routes/buyer-routes.ts";
 import { messageHandlers } from "./routes/message-routes.ts";
 import { createDomainEvents } from "./events.ts";
+import { createSharedInvalidation } from "./jobs/shared-invalidation.ts";
 import { createHealthService } from "./services/health-service.ts";
 import { createBackgroundWork } from "./services/background-work.ts";
 import { createFavouriteService } from "./services/favourite-service.ts";
@@ -71,8 +72,13 @@ export function createApp(appDeps: AppDependencies) {
   const production = config.environment === "production";
   const app = express();
   app.disable("x-powered-by");
-  app.set("trust proxy", production ? 1 : false);
+  app.set("trust proxy", config.trustProxy ?? (production ? 1 : false));
 
+  // Which API instance answered (behind the load balancer several do): on every answer, errors included.
+  app.use((_req: Request, res: Response, next: NextFunction) => {
+    res.setHeader("x-grainyard-instance", config.instanceName);
+    next();
+  });
   app.use(accessLog(logger));
 
   // Only our own origin, everywhere. Naive UI writes its styles into <style> tags at run time,
@@ -226,6 +232,17 @@ export function createApp(appDeps: AppDependencies) {
   events.on("slabFiguresChanged", ({ manager, slabIds }) => listings.refreshListingsOfSlabs(manager, slabIds));
   events.on("listingLive", ({ listingId }) => savedSearches.onListingLive(listingId));
   events.on("yardRatingChanged", ({ manager, sawyerId }) => catalogue.refreshYardRating(manager, sawyerId));
+  // Every instance drops its catalogue answers and yard positions after a listing or yard change made
+  // through any of them (a version row in MariaDB, polled by each; main.ts starts and stops the timer).
+  const catalogueVersion = createSharedInvalidation({
+    dataSource: deps.dataSource,
+    logger,
+    name: "catalogue",
+    onChange: catalogue.forgetCached,
+  });
+  events.on("listingChanged", ({ manager }) => catalogueVersion.changed(manager));
+  events.on("yardChanged", ({ manager }) => catalogueVersion.changed(manager));
+  events.on("yardRatingChanged", ({ manager }) => catalogueVersion.changed(manager));
 
   // Every API route comes from the endpoint table in packages/contracts, with one handler per row.
   const handlers: { [D in keyof typeof endpointTable]?: Handlers<(typeof endpointTable)[D]> } = {
@@ -303,6 +320,6 @@ export function createApp(appDeps: AppDependencies) {
 
   app.use(errorHandler(logger));
   // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule,
-  // and the background work a graceful stop (and a test) waits for.
-  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings, background });
+  // the background work a graceful stop (and a test) waits for, and the shared catalogue version's poll.
+  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings, background, catalogueVersion });
 }

@@ -11,6 +11,12 @@ describe("configuration", () => {
     expect(loadConfig({ ...base, NODE_ENV: "production" }).bcryptCost).toBe(12);
   });
 
+  it("names the instance from GRAINYARD_INSTANCE, refusing names unfit for a header", () => {
+    expect(loadConfig({ ...base, GRAINYARD_INSTANCE: "api-3" }).instanceName).toBe("api-3");
+    expect(loadConfig(base).instanceName).toMatch(new RegExp(`-${process.pid}$`));
+    expect(() => loadConfig({ ...base, GRAINYARD_INSTANCE: "api 3\r\nset-cookie: x" })).toThrow(/GRAINYARD_INSTANCE/);
+  });
+
   it("needs a session secret of at least 32 characters", () => {
     expect(() => loadConfig({ SESSION_SECRET: "short" })).toThrow(/SESSION_SECRET/);
   });

@@ -1,3 +1,4 @@
+import { hostname } from "node:os";
 import { z } from "zod";
 
 /**
@@ -54,6 +55,13 @@ const environmentSchema = z.object({
   RESET_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(3),
   RESET_LIMIT_PER_IP: z.coerce.number().int().min(1).default(20),
   CATALOGUE_CACHE: z.enum(["on", "off"]).default("on"),
+  /** This API process's name in the `x-grainyard-instance` answer header (the machine's name and the process id by default). */
+  GRAINYARD_INSTANCE: z
+    .string()
+    .regex(/^[\w.:-]{1,64}$/, "GRAINYARD_INSTANCE: letters, digits, '.', ':', '_' or '-', at most 64.")
+    .optional(),
+  /** "loopback": the client's address comes from X-Forwarded-For set by a load balancer on loopback (the local stack's HAProxy). */
+  TRUST_PROXY: z.enum(["loopback"]).optional(),
   /** "1" gives the end-to-end API a clock the test can move forward (only with NODE_ENV=test). */
   GRAINYARD_TEST_CLOCK: z.enum(["0", "1"]).default("0"),
 });
@@ -76,6 +84,10 @@ export interface AppConfig {
   logLevel: string;
   /** Short-lived cache of repeated catalogue searches (see catalogue-service.ts). */
   catalogueCache: boolean;
+  /** This process's name among several API instances, sent on every answer (`x-grainyard-instance`). */
+  instanceName: string;
+  /** Which proxies' X-Forwarded-For to believe (Express's "trust proxy"); unset: one hop in production, none elsewhere. */
+  trustProxy?: "loopback";
   /** A movable clock with POST /api/_test/clock: only ever true when NODE_ENV=test. */
   testClock: boolean;
   limits: {
@@ -153,6 +165,8 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
     webDev: env.WEB_DEV_ROOT ? { root: env.WEB_DEV_ROOT, hmrPort: env.WEB_DEV_HMR_PORT } : undefined,
     logLevel: env.LOG_LEVEL,
     catalogueCache: env.CATALOGUE_CACHE === "on",
+    instanceName: env.GRAINYARD_INSTANCE ?? `${hostname()}-${process.pid}`,
+    trustProxy: env.TRUST_PROXY,
     testClock: env.NODE_ENV === "test" && env.GRAINYARD_TEST_CLOCK === "1",
     limits: {
       signInPerPair: env.SIGN_IN_LIMIT_PER_ACCOUNT,

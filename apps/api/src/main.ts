@@ -51,6 +51,9 @@ jobs.start([
   { name: "saved-search-alerts", everyMs: 10 * 60_000, run: () => app.savedSearches.processPendingAlerts().then(() => undefined) },
 ]);
 
+// Catalogue changes made through other instances reach this one's caches within about half a second.
+app.catalogueVersion.start();
+
 let stopping = false;
 async function shutdown(signal: string) {
   if (stopping) return;
@@ -60,6 +63,7 @@ async function shutdown(signal: string) {
   const closed = new Promise<void>((resolve) => server.close(() => resolve()));
   server.closeIdleConnections();
   await jobs.stop();
+  await app.catalogueVersion.stop();
   await Promise.race([closed, new Promise((resolve) => setTimeout(resolve, 10_000).unref())]);
   server.closeAllConnections();
   // E-mails handed to background work (reset links, confirmations) still go out.

@@ -1,9 +1,10 @@
 import { join } from "node:path";
 import { colourEnvironment } from "../tools.mjs";
 import { apiEntry, prepareDatabase, startApi, tsx, waitForApi, type DemoAccount } from "./api-process.ts";
+import { instanceCount, instancePorts, startApiInstances } from "./instances.ts";
 import { CHROMIUM, ensureTestTools } from "./chromium.ts";
 import { Lifecycle } from "./lifecycle.ts";
-import { say } from "./log.ts";
+import { say, warn } from "./log.ts";
 import { waitUntil } from "./ports.ts";
 import { nodeWithTsx, runStep, startProcess, tail } from "./processes.ts";
 import { profileFor, repoRoot } from "./profile.ts";
@@ -34,6 +35,10 @@ async function serve(lifecycle: Lifecycle, mode: "start" | "dev"): Promise<"runn
   const profile = profileFor("local");
   const started = Date.now();
   const extraPorts = mode === "dev" ? [{ port: profile.ports.vite, purpose: "Vite hot-reload socket" }] : [];
+  const wanted = mode === "start" ? instanceCount() : 1;
+  if (wanted > 1)
+    for (const [index, port] of instancePorts(profile.ports.app, wanted).entries())
+      extraPorts.push({ port, purpose: `API instance api-${index + 1}` });
   const stack = await startStack(profile, {
     fresh: false,
     extraPorts,
@@ -53,16 +58,31 @@ async function serve(lifecycle: Lifecycle, mode: "start" | "dev"): Promise<"runn
   writeEnvironmentFile(join(profile.dataDir, "api.env"), environment);
   const demoAccounts = await prepareDatabase(stack, "grainyard", environment, { signal: lifecycle.signal });
 
-  const logFile = join(profile.dataDir, "api.log");
+  let logFile = join(profile.dataDir, "api.log");
+  const count = wanted;
   if (mode === "start") {
     await buildWebIfStale(lifecycle.signal);
-    const api = startApi(environment, logFile);
-    lifecycle.onStop("the API", () => api.stop());
-    await waitForApi(appUrl, api, logFile, lifecycle.signal);
-    void api.exited.then((code) =>
-      lifecycle.fail(`the API stopped unexpectedly (exit ${code}); the end of its log (${logFile}):\n${tail(logFile, 15)}`),
-    );
+    const { instances } = await startApiInstances({
+      environment,
+      count,
+      appPort: profile.ports.app,
+      dataDir: profile.dataDir,
+      logName: "api",
+      signal: lifecycle.signal,
+      track: (name, stop) => lifecycle.onStop(name, stop),
+    });
+    for (const instance of instances) {
+      void instance.process.exited.then((code) => {
+        if (lifecycle.signal.aborted) return; // stopped on purpose
+        const log = `the end of its log (${instance.logFile}):\n${tail(instance.logFile, 15)}`;
+        // One of several: HAProxy sends its requests to the others.
+        if (count > 1) warn(`${instance.name} stopped unexpectedly (exit ${code}); the other instances carry on; ${log}`);
+        else lifecycle.fail(`the API stopped unexpectedly (exit ${code}); ${log}`);
+      });
+    }
+    if (count > 1) logFile = join(profile.dataDir, "api-*.log");
   } else {
+    if (instanceCount() > 1) warn("GRAINYARD_INSTANCES is for `npm start`; `npm run dev` runs one API with reload.");
     // tsx reloads the API when its code changes; Vite (inside it) reloads the pages when theirs does.
     const api = startProcess(tsx, ["watch", "--clear-screen=false", "--exclude", join(repoRoot, "apps/web/**"), apiEntry], {
       cwd: join(repoRoot, "apps/api"),
@@ -77,7 +97,7 @@ async function serve(lifecycle: Lifecycle, mode: "start" | "dev"): Promise<"runn
   banner([
     `Grainyard is running (${((Date.now() - started) / 1000).toFixed(1)} s)`,
     "",
-    `  App:    ${appUrl}`,
+    `  App:    ${appUrl}${count > 1 ? `   (HAProxy over ${count} API instances on ports ${instancePorts(profile.ports.app, count).join(", ")})` : ""}`,
     `  Inbox:  ${stack.inboxUrl}   (every e-mail the app sends)`,
     ...(mode === "start" ? [`  Logs:   ${logFile}`] : [`  Hot reload: Vite inside the API (its socket on port ${profile.ports.vite})`]),
     "",

@@ -8,6 +8,7 @@ import { repoRoot } from "./profile.ts";
 import type { RunningStack } from "./stack.ts";
 import { buildWebIfStale } from "./web-build.ts";
 import { prepareDatabase, startApi, waitForApi } from "./api-process.ts";
+import { startApiInstances } from "./instances.ts";
 
 export interface SuiteResult {
   name: string;
@@ -162,7 +163,54 @@ export async function runTestSuites(stack: RunningStack, signal: AbortSignal): P
     await api?.stop();
   }
 
+  results.push(await runManyInstances(stack, signal));
   return results;
+}
+
+/**
+ * The several-instances suite: three API processes behind HAProxy on the app port (as
+ * `GRAINYARD_INSTANCES=3 npm start` runs them), on their own database with the Lakemont demo data.
+ */
+async function runManyInstances(stack: RunningStack, signal: AbortSignal): Promise<SuiteResult> {
+  const environment = stack.apiEnvironment("grainyard_many", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "warn" });
+  const stops: (() => Promise<void>)[] = [];
+  try {
+    await prepareDatabase(stack, "grainyard_many", environment, { signal });
+    const { instances } = await startApiInstances({
+      environment,
+      count: 3,
+      appPort: stack.profile.ports.app,
+      dataDir: stack.profile.dataDir,
+      logName: "api-many",
+      signal,
+      track: (_name, stop) => void stops.push(stop),
+    });
+    return await runVitest(
+      "many",
+      "@grainyard/tests",
+      {
+        APP_URL: environment.PUBLIC_URL!,
+        INSTANCE_URLS: instances.map((instance) => instance.url).join(","),
+        // The failure test stops two of them (SIGKILL and SIGTERM) under load.
+        INSTANCE_PIDS: instances.map((instance) => instance.process.child.pid).join(","),
+        DATABASE_HOST: environment.DATABASE_HOST!,
+        DATABASE_PORT: environment.DATABASE_PORT!,
+        DATABASE_USER: environment.DATABASE_USER!,
+        DATABASE_PASSWORD: environment.DATABASE_PASSWORD!,
+        DATABASE_NAME: environment.DATABASE_NAME!,
+      },
+      signal,
+      ["--config", "vitest.many.config.ts"],
+    );
+  } catch (error) {
+    if (error instanceof Interrupted) throw error;
+    warn("the several-instances set-up failed:");
+    reportFailure(error);
+    return { name: "many", passed: 0, failed: 1, skipped: 0, exitCode: 1, seconds: 0 };
+  } finally {
+    // HAProxy first, then the instances.
+    for (const stop of stops.reverse()) await stop().catch(() => undefined);
+  }
 }
 
 /** 1 when any suite failed, ran no test, or exited non-zero. */

@@ -43,6 +43,7 @@ describe("migrations", () => {
       "account",
       "audit_entry",
       "buyer_order",
+      "cache_version",
       "catalogue_entry",
       "content_report",
       "email_token",

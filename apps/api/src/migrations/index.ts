@@ -71,3 +71,7 @@ migrations.push(SlabMeasurementsAsEntered1764986400000);
 // Why an order was marked handed over before the booked pickup time.
 import { HandOverNote1764990000000 } from "./1764990000000-hand-over-note.ts";
 migrations.push(HandOverNote1764990000000);
+
+// A version row per shared cache, so every API instance drops its catalogue answers and yard positions together.
+import { CacheVersion1764993600000 } from "./1764993600000-cache-version.ts";
+migrations.push(CacheVersion1764993600000);

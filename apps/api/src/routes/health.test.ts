@@ -1,4 +1,5 @@
 import { connect, createServer, type AddressInfo, type Socket } from "node:net";
+import { hostname } from "node:os";
 import { setTimeout as sleep } from "node:timers/promises";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
@@ -27,6 +28,23 @@ describe("/api/health", () => {
     const res = await request(broken.app).get("/api/health");
     expect(res.status).toBe(503);
     expect(res.body).toEqual({ status: "degraded", components: { database: "up", storage: "down", mail: "down", payments: "down" } });
+  });
+});
+
+describe("instance name", () => {
+  it("names the answering instance on every answer, API, error and page alike", async () => {
+    const named = await createTestContext({ environment: { GRAINYARD_INSTANCE: "api-2" } });
+    try {
+      for (const path of ["/api/health", "/api/v1/no-such-thing", "/robots.txt", "/"]) {
+        const res = await request(named.app).get(path);
+        expect(res.headers["x-grainyard-instance"], path).toBe("api-2");
+      }
+    } finally {
+      await named.close();
+    }
+    // Unnamed, it is the machine and the process.
+    const res = await request(healthy.app).get("/api/health");
+    expect(res.headers["x-grainyard-instance"]).toBe(`${hostname()}-${process.pid}`);
   });
 });
 

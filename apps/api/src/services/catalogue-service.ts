@@ -155,8 +155,8 @@ const COUNT_CAP = 1000;
 
 /**
  * Short-lived answers for repeated searches (a popular filter set is asked again and again):
- * counts for 30 s, pages for 5 s. Any change to the catalogue in this instance clears both;
- * other instances may show a count up to 30 s old.
+ * counts for 30 s, pages for 5 s. Any change to the catalogue clears both in this instance at
+ * once and in every other instance within about half a second (jobs/shared-invalidation.ts).
  */
 const COUNT_TTL_MS = 30_000;
 const PAGE_TTL_MS = 5_000;
@@ -216,7 +216,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
 
   /**
    * Where each yard with live listings collects from (a sawyer's pickup position; every listing
-   * of a yard shares it), read again after 30 s or any change to the catalogue in this instance.
+   * of a yard shares it), read again after 30 s or any change to the catalogue in any instance.
    * Kept with the answer cache off too: it is the search's map of yards, not an answer.
    */
   let positions: { loadedAt: number; yards: Promise<YardPosition[]> } | null = null;
@@ -278,6 +278,8 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
   }
 
   return {
+    /** Drops the kept answers, counts and yard positions (a change here or in another instance). */
+    forgetCached,
     /** Rebuilds (or removes) a listing's catalogue row; call inside the transaction that changed it. */
     async refreshEntry(manager: EntityManager, listingId: string): Promise<void> {
       forgetCached();
