@@ -59,6 +59,7 @@ describe("migrations", () => {
       "message_thread",
       "moisture_reading",
       "order_refund",
+      "outbox_email",
       "payment_event",
       "payout",
       "payout_account",

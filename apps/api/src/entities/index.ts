@@ -74,3 +74,8 @@ entities.push(PayoutAccountEntity, PayoutEntity, PayoutLineEntity, OrderRefundEn
 import { JobLeaseEntity } from "./job-lease.ts";
 export { JobLeaseEntity };
 entities.push(JobLeaseEntity);
+
+// E-mails written with the change that causes them, delivered by the outbox job.
+import { OutboxEmailEntity } from "./outbox-email.ts";
+export { OutboxEmailEntity };
+entities.push(OutboxEmailEntity);

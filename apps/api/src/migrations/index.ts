@@ -55,3 +55,7 @@ migrations.push(RateLimits1764792000000);
 // The catalogue's set weights named apart: the whole set's high end beside the heaviest slab's.
 import { CatalogueSetWeights1764802800000 } from "./1764802800000-catalogue-set-weights.ts";
 migrations.push(CatalogueSetWeights1764802800000);
+
+// The e-mail outbox: every e-mail is written in the transaction of the change that causes it and delivered by a job.
+import { EmailOutbox1764817200000 } from "./1764817200000-email-outbox.ts";
+migrations.push(EmailOutbox1764817200000);
