@@ -83,6 +83,7 @@ describe("operator desk pages", () => {
     expect(adminPages.map((r) => r.path).sort()).toEqual([
       "/admin",
       "/admin/audit",
+      "/admin/outbox",
       "/admin/payouts",
       "/admin/reports",
       "/admin/review",

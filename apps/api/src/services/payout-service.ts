@@ -225,7 +225,10 @@ export function createPayoutService(deps: {
       } catch (error) {
         // A provider that cannot be reached leaves the attempt open: approving again retries it with the same key.
         if (error instanceof PaymentsUnavailable)
-          throw new ServiceUnavailable("The payment provider is not answering; the payout was not sent. Try again in a minute.");
+          throw new ServiceUnavailable(
+            "The payment provider is not answering; the payout was not sent. Try again in a minute.",
+            "payments_unavailable",
+          );
         failure = providerMessage(error);
       }
     }
@@ -413,7 +416,10 @@ export function createPayoutService(deps: {
       } catch (error) {
         if (!(error instanceof PaymentsError)) throw error;
         deps.log.error({ err: error }, "payout account set-up failed");
-        throw new ServiceUnavailable("The payment provider is not answering, so payout set-up cannot start. Try again in a minute.");
+        throw new ServiceUnavailable(
+          "The payment provider is not answering, so payout set-up cannot start. Try again in a minute.",
+          "payments_unavailable",
+        );
       }
     },
 
@@ -427,7 +433,7 @@ export function createPayoutService(deps: {
         remote = await payments.payoutAccount(account.providerAccountId);
       } catch (error) {
         if (!(error instanceof PaymentsError)) throw error;
-        throw new ServiceUnavailable("The payment provider is not answering; try again in a minute.");
+        throw new ServiceUnavailable("The payment provider is not answering; try again in a minute.", "payments_unavailable");
       }
       await this.recordAccount(remote);
       return this.mine(actor);
