@@ -68,16 +68,18 @@ export async function settled(page: Page): Promise<void> {
   });
 }
 
-/** The newest message the mail sink received for an address, waiting a little for delivery. */
-export async function newestMailTo(address: string): Promise<{ subject: string; text: string }> {
+/** The newest message with this subject (exact, or matching) the mail sink received for an address, waiting for delivery. */
+export async function newestMailTo(address: string, subject: RegExp | string): Promise<{ subject: string; text: string }> {
+  // E-mails leave the API's outbox just after the answer: wait for the one this step causes, not just any.
   const deadline = Date.now() + 30_000;
   while (Date.now() < deadline) {
     const response = await fetch(`${inboxUrl}/api/messages?to=${encodeURIComponent(address)}`);
     const { messages } = (await response.json()) as { messages: { subject: string; text: string }[] };
-    if (messages.length) return messages[0]!;
+    const found = messages.find((message) => (typeof subject === "string" ? message.subject === subject : subject.test(message.subject)));
+    if (found) return found;
     await new Promise((r) => setTimeout(r, 200));
   }
-  throw new Error(`no mail reached ${address}`);
+  throw new Error(`no mail matching ${subject} reached ${address}`);
 }
 
 /** Collects console errors and failed requests so a broken page fails the test. */

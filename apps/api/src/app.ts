@@ -34,6 +34,7 @@ import { createDomainEvents } from "./events.ts";
 import { createSharedInvalidation } from "./jobs/shared-invalidation.ts";
 import { createHealthService } from "./services/health-service.ts";
 import { createBackgroundWork } from "./services/background-work.ts";
+import { createMailOutbox } from "./services/mail-outbox.ts";
 import { createFavouriteService } from "./services/favourite-service.ts";
 import { createMessageService } from "./services/message-service.ts";
 import { createSavedSearchService } from "./services/saved-search-service.ts";
@@ -114,13 +115,24 @@ export function createApp(appDeps: AppDependencies) {
   const settings = createSettingsService({ dataSource: deps.dataSource, config, now: deps.now });
   void settings.ensureFresh().catch((error) => logger.error({ err: error }, "could not read marketplace settings"));
   const events = createDomainEvents();
+  // Work that runs after the answer: first delivery attempts of new e-mails, and the steps whose timing must not tell whether an address has an account.
+  const background = createBackgroundWork(logger);
+  // Every e-mail is written into the outbox in the transaction that causes it; delivered after the commit, retried by the outbox job.
+  const outbox = createMailOutbox({
+    dataSource: deps.dataSource,
+    mailer: deps.mailer,
+    background,
+    settings: config.outbox,
+    log: logger,
+    now: deps.now,
+  });
   // Every refund (late payments, cancellations, disputes) goes through one service.
   const refunds = createRefundService({ dataSource: deps.dataSource, payments: deps.payments, log: logger, now: deps.now });
   const checkout = createCheckoutService({
     dataSource: deps.dataSource,
     payments: deps.payments,
     refunds,
-    mailer: deps.mailer,
+    mail: outbox,
     // Reservation minutes and tax come from the settings table, read fresh per request.
     config: {
       publicUrl: config.publicUrl,
@@ -137,7 +149,7 @@ export function createApp(appDeps: AppDependencies) {
     dataSource: deps.dataSource,
     payments: deps.payments,
     refunds,
-    mailer: deps.mailer,
+    mail: outbox,
     config,
     holdDays: () => settings.current().holdDays,
     log: logger,
@@ -146,7 +158,7 @@ export function createApp(appDeps: AppDependencies) {
   const orders = createOrderService({
     dataSource: deps.dataSource,
     refunds,
-    mailer: deps.mailer,
+    mail: outbox,
     config,
     log: logger,
     now: deps.now,
@@ -154,7 +166,7 @@ export function createApp(appDeps: AppDependencies) {
   });
   const listings = createListingService({
     dataSource: deps.dataSource,
-    mailer: deps.mailer,
+    mail: outbox,
     config,
     log: logger,
     now: deps.now,
@@ -163,11 +175,9 @@ export function createApp(appDeps: AppDependencies) {
   });
   // Sign-in and reset limits in MariaDB, shared by every API instance (rate-limiter-flexible).
   const rateLimits = createRateLimits({ limits: config.limits, dataSource: deps.dataSource, log: logger });
-  // E-mails that must not sit on the request's path (their timing would tell whether an address has an account).
-  const background = createBackgroundWork(logger);
   const accounts = createAccountService({
     dataSource: deps.dataSource,
-    mailer: deps.mailer,
+    mail: outbox,
     config,
     log: logger,
     background,
@@ -184,36 +194,33 @@ export function createApp(appDeps: AppDependencies) {
   const logPhotos = createLogPhotoService({ dataSource: deps.dataSource, storage: deps.storage });
   const savedSearches = createSavedSearchService({
     dataSource: deps.dataSource,
-    mailer: deps.mailer,
+    mail: outbox,
     catalogue,
     config,
     log: logger,
     now: deps.now,
   });
   const favourites = createFavouriteService({ dataSource: deps.dataSource, now: deps.now });
-  const messages = createMessageService({ dataSource: deps.dataSource, mailer: deps.mailer, config, log: logger, now: deps.now });
+  const messages = createMessageService({ dataSource: deps.dataSource, mail: outbox, config, now: deps.now });
   const audit = createAuditService({ dataSource: deps.dataSource });
   const moderation = createAccountModeration({
     dataSource: deps.dataSource,
-    mailer: deps.mailer,
+    mail: outbox,
     config,
-    log: logger,
     now: deps.now,
     events,
   });
   const orderReviews = createOrderReviewService({
     dataSource: deps.dataSource,
-    mailer: deps.mailer,
+    mail: outbox,
     config,
-    log: logger,
     now: deps.now,
     events,
   });
   const reports = createReportService({
     dataSource: deps.dataSource,
-    mailer: deps.mailer,
+    mail: outbox,
     config,
-    log: logger,
     moderation,
     reviews: orderReviews,
     now: deps.now,
@@ -258,7 +265,7 @@ export function createApp(appDeps: AppDependencies) {
     buyer: buyerHandlers(savedSearches, favourites),
     messages: messageHandlers(messages),
     reports: reportHandlers(reports),
-    admin: adminHandlers({ audit, reports, moderation, settings, dashboard }),
+    admin: adminHandlers({ audit, reports, moderation, settings, dashboard, outbox }),
     payouts: payoutHandlers(payouts),
     // The end-to-end suite's clock exists only on that stack; elsewhere its rows are not mounted (404).
     testClock: testClock ? testClockHandlers(testClock) : undefined,
@@ -320,6 +327,6 @@ export function createApp(appDeps: AppDependencies) {
 
   app.use(errorHandler(logger));
   // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule,
-  // the background work a graceful stop (and a test) waits for, and the shared catalogue version's poll.
-  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings, background, catalogueVersion });
+  // the e-mail outbox, the background work a graceful stop (and a test) waits for, and the shared catalogue version's poll.
+  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings, outbox, background, catalogueVersion });
 }

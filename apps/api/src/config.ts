@@ -28,6 +28,10 @@ const environmentSchema = z.object({
   SMTP_USER: z.string().optional(),
   SMTP_PASSWORD: z.string().optional(),
   MAIL_FROM: z.string().default("Grainyard <hello@grainyard.test>"),
+  /** Seconds before an undelivered e-mail's first retry; each further retry waits twice as long (at most an hour). */
+  MAIL_RETRY_FIRST_SECONDS: z.coerce.number().int().min(1).max(3600).default(30),
+  /** Delivery attempts before an e-mail is marked failed for the operator desk. */
+  MAIL_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(30).default(8),
   PAYMENTS_HOST: z.string().default("127.0.0.1"),
   PAYMENTS_PORT: z.coerce.number().int().default(443),
   PAYMENTS_PROTOCOL: z.enum(["http", "https"]).default("https"),
@@ -75,6 +79,8 @@ export interface AppConfig {
   database: { host: string; port: number; user: string; password: string; database: string };
   storage: { endpoint?: string; region: string; bucket: string; accessKeyId: string; secretAccessKey: string; forcePathStyle: boolean };
   mail: { host: string; port: number; secure: boolean; user?: string; password?: string; from: string };
+  /** The e-mail outbox's retries (see services/mail-outbox.ts). */
+  outbox: { retryFirstMs: number; maxAttempts: number };
   payments: { host: string; port: number; protocol: "http" | "https"; secretKey: string; webhookSecret: string };
   checkout: { reservationMinutes: number; taxRateBps: number; autoCompleteDays: number };
   bcryptCost: number;
@@ -152,6 +158,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
       password: env.SMTP_PASSWORD,
       from: env.MAIL_FROM,
     },
+    outbox: { retryFirstMs: env.MAIL_RETRY_FIRST_SECONDS * 1000, maxAttempts: env.MAIL_MAX_ATTEMPTS },
     payments: {
       host: env.PAYMENTS_HOST,
       port: env.PAYMENTS_PORT,

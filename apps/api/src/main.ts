@@ -47,6 +47,8 @@ jobs.start([
   { name: "order-completion", everyMs: 5 * 60_000, run: () => app.orders.completeDueOrders().then(() => undefined) },
   // Refunds the provider could not take at cancellation are tried again.
   { name: "refund-retries", everyMs: 5 * 60_000, run: () => app.orders.retryPendingRefunds().then(() => undefined) },
+  // E-mails still waiting in the outbox (the mail server was down, say) go out, with growing waits between tries.
+  { name: "mail-outbox", everyMs: 10_000, run: () => app.outbox.deliverDue().then(() => undefined) },
   // Saved-search alerts held back by the once-a-day rule go out when their day is up.
   { name: "saved-search-alerts", everyMs: 10 * 60_000, run: () => app.savedSearches.processPendingAlerts().then(() => undefined) },
 ]);
@@ -66,7 +68,7 @@ async function shutdown(signal: string) {
   await app.catalogueVersion.stop();
   await Promise.race([closed, new Promise((resolve) => setTimeout(resolve, 10_000).unref())]);
   server.closeAllConnections();
-  // E-mails handed to background work (reset links, confirmations) still go out.
+  // First attempts at e-mails just written (and other work after an answer) finish; what they could not send waits in the outbox.
   await app.background.settled();
   mailer.close();
   storage.close();

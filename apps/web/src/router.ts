@@ -226,6 +226,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "Payouts desk", roles: ["admin"] },
   },
   {
+    path: "/admin/outbox",
+    name: "admin-outbox",
+    component: () => import("./views/AdminOutboxView.vue"),
+    meta: { title: "E-mail outbox", roles: ["admin"] },
+  },
+  {
     path: "/:pathMatch(.*)*",
     name: "not-found",
     component: () => import("./views/NotFoundView.vue"),

@@ -202,3 +202,35 @@ export const dashboardSchema = z.object({
   suspendedUsers: z.number(),
 });
 export type Dashboard = z.infer<typeof dashboardSchema>;
+
+// The e-mail outbox: e-mails waiting to go out, and those that could not be delivered.
+export const outboxEmailStatuses = ["waiting", "sending", "sent", "failed"] as const;
+export const outboxEmailStatusLabels: Record<(typeof outboxEmailStatuses)[number], string> = {
+  waiting: "Waiting to go out",
+  sending: "Going out now",
+  sent: "Delivered to the mail server",
+  failed: "Could not be delivered",
+};
+/** Which e-mails the desk shows: those still to go out (waiting or going out now), failed ones, or the latest sent. */
+export const outboxQuerySchema = z.object({ status: z.enum(["waiting", "failed", "sent"]).optional() });
+export type OutboxQuery = z.infer<typeof outboxQuerySchema>;
+/** One e-mail as the desk sees it: never its body (reset and confirmation links are the recipient's alone). */
+export const outboxEmailSchema = z.object({
+  id: z.string(),
+  kind: z.string(),
+  to: z.string(),
+  subject: z.string(),
+  status: z.enum(outboxEmailStatuses),
+  attempts: z.number(),
+  nextAttemptAt: z.string().nullable(),
+  lastError: z.string().nullable(),
+  sentAt: z.string().nullable(),
+  createdAt: z.string(),
+});
+export type OutboxEmail = z.infer<typeof outboxEmailSchema>;
+export const outboxPageSchema = z.object({
+  emails: z.array(outboxEmailSchema),
+  counts: z.object({ waiting: z.number(), failed: z.number() }),
+});
+export type OutboxPage = z.infer<typeof outboxPageSchema>;
+export const outboxEmailEnvelopeSchema = z.object({ email: outboxEmailSchema });

@@ -84,6 +84,7 @@ export const errorCatalogue = {
   admin_not_suspendable: entry(403, "Admin accounts cannot be suspended from the desk."),
   already_suspended: entry(409, "The account is suspended already."),
   not_suspended: entry(409, "The account is not suspended."),
+  email_already_sent: entry(409, "The e-mail went out already (or is going out now), so there is nothing to resend."),
 
   // Payouts and refunds.
   payout_account_missing: entry(409, "The sawyer has no payout account."),

@@ -9,5 +9,7 @@ export const healthSchema = z.object({
     mail: componentStateSchema,
     payments: componentStateSchema,
   }),
+  /** When degraded: the parts that are down, in plain words ("Down just now: photo storage."). */
+  message: z.string().optional(),
 });
 export type Health = z.infer<typeof healthSchema>;

@@ -1,7 +1,7 @@
 import type { DataSource, EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { createDomainEvents } from "../events.ts";
-import type { Mailer } from "../integrations/mail.ts";
+import type { MailQueue } from "../services/mail-outbox.ts";
 import { createPayments } from "../integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
@@ -19,8 +19,8 @@ import { createRefundService } from "../services/refund-service.ts";
 import { createReportService } from "../services/report-service.ts";
 import { createSettingsService } from "../services/settings-service.ts";
 
-/** The seed sends no e-mail: its orders and reviews are history, not news. */
-const quietMailer: Mailer = { send: async () => undefined, isUp: async () => true, close: () => undefined };
+/** The seed sends no e-mail: its orders and reviews are history, not news (nothing goes into the outbox). */
+const quietMail: MailQueue = { queue: async () => undefined };
 
 export interface DemoSeedSummary {
   accounts: number;
@@ -82,7 +82,7 @@ export async function seedDemo(dataSource: DataSource, config: AppConfig): Promi
         dataSource,
         payments,
         refunds,
-        mailer: quietMailer,
+        mail: quietMail,
         config,
         holdDays: () => settings.current().holdDays,
         log,
@@ -92,24 +92,23 @@ export async function seedDemo(dataSource: DataSource, config: AppConfig): Promi
         dataSource,
         payments,
         refunds,
-        mailer: quietMailer,
+        mail: quietMail,
         config: { publicUrl: config.publicUrl, checkout: settings.checkoutConfig() },
         log,
         now: at,
         events,
         onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
       });
-      const orders = createOrderService({ dataSource, refunds, mailer: quietMailer, config, log, now: at, events });
+      const orders = createOrderService({ dataSource, refunds, mail: quietMail, config, log, now: at, events });
       const reviews = createOrderReviewService({
         dataSource,
-        mailer: quietMailer,
+        mail: quietMail,
         config,
-        log,
         now: at,
         events,
       });
-      const moderation = createAccountModeration({ dataSource, mailer: quietMailer, config, log, now: at, events });
-      const reports = createReportService({ dataSource, mailer: quietMailer, config, log, moderation, reviews, now: at, events });
+      const moderation = createAccountModeration({ dataSource, mail: quietMail, config, now: at, events });
+      const reports = createReportService({ dataSource, mail: quietMail, config, moderation, reviews, now: at, events });
       try {
         sales = await seedLakemontSales(
           dataSource,

@@ -61,6 +61,7 @@ describe("migrations", () => {
       "moisture_reading",
       "order_refund",
       "order_review",
+      "outbox_email",
       "payment_event",
       "payout",
       "payout_account",

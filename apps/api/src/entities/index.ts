@@ -79,3 +79,8 @@ entities.push(JobLeaseEntity);
 import { OrderReviewEntity } from "./order-review.ts";
 export { OrderReviewEntity };
 entities.push(OrderReviewEntity);
+
+// E-mails written with the change that causes them, delivered by the outbox job.
+import { OutboxEmailEntity } from "./outbox-email.ts";
+export { OutboxEmailEntity };
+entities.push(OutboxEmailEntity);

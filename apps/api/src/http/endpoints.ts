@@ -82,14 +82,17 @@ export interface MountOptions {
 }
 
 const literalFirst = (a: EndpointSpec, b: EndpointSpec) => {
+  // A total order (segment by segment: literal before parameter, literals alphabetically), so the sort
+  // is the same whatever rows the table holds; an order that compared unrelated paths was not one.
   const sa = a.path.split("/");
   const sb = b.path.split("/");
   for (let i = 0; i < Math.min(sa.length, sb.length); i++) {
     const pa = sa[i]!.startsWith(":");
     const pb = sb[i]!.startsWith(":");
     if (pa !== pb) return pa ? 1 : -1;
+    if (!pa && sa[i] !== sb[i]) return sa[i]! < sb[i]! ? -1 : 1;
   }
-  return 0;
+  return sa.length - sb.length;
 };
 
 function accessCheck(spec: EndpointSpec): RequestHandler {

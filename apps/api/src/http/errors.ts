@@ -29,6 +29,12 @@ function isDatabaseDown(error: unknown): boolean {
   );
 }
 
+/**
+ * How long a client should wait before trying again when a part is down (the `Retry-After` of every
+ * 503): the database usually comes back in seconds, the providers' outages last longer.
+ */
+const RETRY_AFTER_SECONDS: Record<string, number> = { unavailable: 10, storage_unavailable: 30, payments_unavailable: 30 };
+
 /** Maps every error to `{ error: { code, message, fields? } }`; internals never leave the server (they go to the log). */
 export const errorHandler =
   (logger: Logger): ErrorRequestHandler =>
@@ -38,6 +44,7 @@ export const errorHandler =
       // A part underneath is down: what it said (keys, driver text) is for the log only.
       if (error.status >= 500)
         logger.warn({ err: error.cause ?? error, detail: error.internal, code: error.code, req: where }, "answered 5xx");
+      if (error.status === 503) res.setHeader("retry-after", String(RETRY_AFTER_SECONDS[error.code] ?? 30));
       res
         .status(error.status)
         .json({ error: { ...error.details, code: error.code, message: error.message, ...(error.fields ? { fields: error.fields } : {}) } });
@@ -66,7 +73,10 @@ export const errorHandler =
     }
     if (isDatabaseDown(error)) {
       logger.error({ err: error, req: where }, "database unavailable");
-      res.status(503).json({ error: { code: "unavailable", message: "Grainyard is having a short break. Please try again in a moment." } });
+      res.setHeader("retry-after", String(RETRY_AFTER_SECONDS.unavailable));
+      res
+        .status(503)
+        .json({ error: { code: "unavailable", message: "Grainyard's database is not answering just now. Please try again in a moment." } });
       return;
     }
     logger.error({ err: error, req: where }, "unhandled error");

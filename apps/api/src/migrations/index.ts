@@ -75,3 +75,7 @@ migrations.push(HandOverNote1764990000000);
 // A version row per shared cache, so every API instance drops its catalogue answers and yard positions together.
 import { CacheVersion1764993600000 } from "./1764993600000-cache-version.ts";
 migrations.push(CacheVersion1764993600000);
+
+// The e-mail outbox: every e-mail is written in the transaction of the change that causes it and delivered by a job.
+import { EmailOutbox1764997200000 } from "./1764997200000-email-outbox.ts";
+migrations.push(EmailOutbox1764997200000);

@@ -336,3 +336,23 @@ export async function mediumFromLarge(large: Buffer): Promise<Buffer> {
   const medium = DISPLAY_SIZES.find((size) => size.name === "medium")!;
   return (await encodeWebp(sharp(large, SHARP_INPUT_OPTIONS).resize(fitInside(medium.longSide)), "medium")).bytes;
 }
+
+/**
+ * The original as stored: full size, upright (the orientation applied), its colour profile kept,
+ * and nothing else of the file's metadata — no EXIF (so no GPS position or maker notes), XMP or
+ * IPTC. JPEG, PNG and WebP keep their format (JPEG and WebP re-encoded at quality 95, PNG
+ * losslessly); HEIC is stored as JPEG, which sharp can write. Checks the photo first like
+ * `inspectPhoto`.
+ */
+export async function cleanOriginal(bytes: Buffer): Promise<{ bytes: Buffer; contentType: string }> {
+  const { format } = await inspectPhoto(bytes);
+  try {
+    const upright = (await openUpright(bytes, format)).keepIccProfile();
+    if (format === "png") return { bytes: await upright.png().toBuffer(), contentType: "image/png" };
+    if (format === "webp") return { bytes: await upright.webp({ quality: 95 }).toBuffer(), contentType: "image/webp" };
+    return { bytes: await upright.jpeg({ quality: 95, chromaSubsampling: "4:4:4" }).toBuffer(), contentType: "image/jpeg" };
+  } catch (error) {
+    if (error instanceof PhotoRejected) throw error;
+    throw rejectionFromSharpError(error, format);
+  }
+}

@@ -4,7 +4,7 @@
  * required) and the bucket.
  *
  * Layout of the bucket:
- *   originals/<listingId>/<photoId>              the upload as received — private, never served
+ *   originals/<listingId>/<photoId>              the upload at full size, upright, without EXIF/GPS/XMP/IPTC — private, never served
  *   display/<listingId>/<photoId>/<size>.webp    the served sizes, metadata removed
  */
 import { DeleteObjectsCommand, GetObjectCommand, PutObjectCommand, type S3Client } from "@aws-sdk/client-s3";

@@ -3,6 +3,7 @@ import type { Handlers } from "../http/endpoints.ts";
 import type { AccountModeration } from "../services/account-moderation.ts";
 import type { AuditService } from "../services/audit-log.ts";
 import type { DashboardService } from "../services/dashboard-service.ts";
+import type { MailOutbox } from "../services/mail-outbox.ts";
 import type { ReportService } from "../services/report-service.ts";
 import type { SettingsService } from "../services/settings-service.ts";
 
@@ -20,8 +21,9 @@ export function adminHandlers(services: {
   moderation: AccountModeration;
   settings: SettingsService;
   dashboard: DashboardService;
+  outbox: MailOutbox;
 }): Handlers<typeof adminEndpoints> {
-  const { audit, reports, moderation, settings, dashboard } = services;
+  const { audit, reports, moderation, settings, dashboard, outbox } = services;
   return {
     searchAudit: ({ actor, query }) => audit.search(actor, query),
     exportAuditCsv: async ({ actor, query }) => ({
@@ -38,5 +40,7 @@ export function adminHandlers(services: {
     getSettings: ({ actor }) => settings.view(actor),
     updateSettings: ({ actor, body }) => settings.update(actor, body),
     getDashboard: async ({ actor }) => ({ dashboard: await dashboard.dashboard(actor) }),
+    listOutbox: ({ actor, query }) => outbox.list(actor, query),
+    resendEmail: async ({ actor, params }) => ({ email: await outbox.resend(actor, params.emailId) }),
   };
 }

@@ -27,7 +27,11 @@ describe("/api/health", () => {
   it("reports the parts that are down, with 503", async () => {
     const res = await request(broken.app).get("/api/health");
     expect(res.status).toBe(503);
-    expect(res.body).toEqual({ status: "degraded", components: { database: "up", storage: "down", mail: "down", payments: "down" } });
+    expect(res.body).toEqual({
+      status: "degraded",
+      components: { database: "up", storage: "down", mail: "down", payments: "down" },
+      message: "Down just now: photo storage, outgoing mail (e-mails wait in the outbox), card payments.",
+    });
   });
 });
 
@@ -113,6 +117,8 @@ describe("/api/health with the database down", () => {
         const page = await signedIn.get("/api/v1/session");
         expect(page.status).toBe(503);
         expect(page.body.error.code).toBe("unavailable");
+        expect(page.body.error.message).toMatch(/database/);
+        expect(page.headers["retry-after"]).toBe("10");
         expect(JSON.stringify(page.body)).not.toMatch(/ECONN|127\.0\.0\.1|SELECT|mysql|at .*\.ts/i);
         await sleep(250);
       }

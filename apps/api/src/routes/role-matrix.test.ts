@@ -2,7 +2,7 @@ import { randomUUID } from "node:crypto";
 import sharp from "sharp";
 import { everyEndpoint, mayCall, pathOf, type EndpointKey, type EndpointSpec, type Role } from "@grainyard/contracts";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { OrderEntity, OrderReviewEntity } from "../entities/index.ts";
+import { OrderEntity, OrderReviewEntity, OutboxEmailEntity } from "../entities/index.ts";
 import { unsubscribeToken } from "../services/saved-search-service.ts";
 import { createTestContext, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
@@ -62,6 +62,8 @@ interface Ids {
   completedOrderId: string;
   windowStart: string;
   windowEnd: string;
+  /** An e-mail the outbox gave up on, for the desk's resend. */
+  failedEmailId: string;
 }
 
 interface Sample {
@@ -288,6 +290,8 @@ const samples: Record<EndpointKey, Sample> = {
   "admin.getSettings": { call: (c) => c.get("/api/v1/admin/settings") },
   "admin.updateSettings": { call: (c) => c.patch("/api/v1/admin/settings", { holdDays: 7, reason: "Matrix keeps seven days." }) },
   "admin.getDashboard": { call: (c) => c.get("/api/v1/admin/dashboard") },
+  "admin.listOutbox": { call: (c) => c.get("/api/v1/admin/outbox?status=failed") },
+  "admin.resendEmail": { call: (c, ids) => c.post(`/api/v1/admin/outbox/${ids.failedEmailId}/resend`) },
 
   "payouts.myPayouts": { call: (c) => c.get("/api/v1/yard/payouts") },
   "payouts.startPayoutSetup": { call: (c) => c.post("/api/v1/yard/payouts/account") },
@@ -500,6 +504,18 @@ beforeAll(async () => {
   }
   ids.windowStart = new Date(Date.now() + 2 * 86_400_000).toISOString();
   ids.windowEnd = new Date(Date.now() + 2 * 86_400_000 + 7_200_000).toISOString();
+  const failed = await ctx.dataSource.getRepository(OutboxEmailEntity).insert({
+    kind: "message_notice",
+    recipient: "nobody@lakemont.test",
+    subject: "Matrix notice",
+    textBody: "Matrix",
+    htmlBody: null,
+    status: "failed",
+    attempts: 8,
+    nextAttemptAt: new Date(),
+    lastError: "The mail server could not be reached.",
+  });
+  ids.failedEmailId = String(failed.identifiers[0]!.id);
 }, 60_000);
 afterAll(async () => ctx?.close());
 

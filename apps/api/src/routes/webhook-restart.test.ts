@@ -11,7 +11,7 @@ import { createPayments } from "../integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
 import { expectLedgerBalanced, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
-import { createTestContext, mailTo, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { createTestContext, mailTo, trackDeliveries, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
  * The API restarts between the buyer paying and the provider's webhook. The payments fake keeps
@@ -46,11 +46,14 @@ async function startSecondInstance(port: number) {
   const mailer = createMailer(config.mail);
   const storage = createPhotoStorage(config.storage);
   const app = createApp({ config, dataSource, mailer, storage, payments: createPayments(config.payments), logger: createLogger("silent") });
+  const untrack = trackDeliveries(app);
   const server = createServer(app).listen(port, "127.0.0.1");
   await new Promise((r) => server.once("listening", r));
   const stop = async () => {
     await new Promise((r) => server.close(r));
     server.closeAllConnections();
+    await app.background.settled();
+    untrack();
     mailer.close();
     storage.close();
     await dataSource.destroy();

@@ -3,18 +3,18 @@ import { Brackets, In, IsNull, type DataSource, type EntityManager } from "typeo
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, ListingEntity, OrderEntity, SessionRecordEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, NotFound } from "../errors.ts";
-import type { Mailer } from "../integrations/mail.ts";
 import { accountRestoredMail, accountSuspendedMail } from "../mail-templates-operator.ts";
 import { requireRole, type Actor, type SignedInActor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
 import { toAccount } from "./account-service.ts";
 import type { DomainEventBus } from "../events.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 
 export interface AccountModerationDependencies {
   dataSource: DataSource;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   config: Pick<AppConfig, "publicUrl">;
-  log: { error(object: object, message: string): void };
   now?: () => Date;
   /** The catalogue's refresh, called inside the transaction for every listing whose state changed. */
   /** Where the service announces what changed (the catalogue and alerts listen). */
@@ -31,14 +31,6 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
   const now = deps.now ?? (() => new Date());
   const changed = (manager: EntityManager, listingId: string) =>
     deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
-
-  async function sendSafely(build: () => Parameters<Mailer["send"]>[0], accountId: string) {
-    try {
-      await deps.mailer.send(build());
-    } catch (error) {
-      deps.log.error({ err: error, accountId }, "could not send account e-mail");
-    }
-  }
 
   async function counts(accountIds: string[]): Promise<Map<string, { listings: number; orders: number }>> {
     const result = new Map(accountIds.map((id) => [id, { listings: 0, orders: 0 }]));
@@ -141,14 +133,16 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
     async suspend(actor: Actor, accountId: string, input: SuspendInput): Promise<AdminUser> {
       const admin = requireRole(actor, "admin");
       if (admin.accountId === accountId) throw new Forbidden("You cannot suspend your own account.");
-      const account = await dataSource.transaction((manager) => suspendWith(manager, admin, accountId, input.reason, now()));
-      await sendSafely(() => accountSuspendedMail(account.email, account.displayName, input.reason), accountId);
+      await dataSource.transaction(async (manager) => {
+        const account = await suspendWith(manager, admin, accountId, input.reason, now());
+        await deps.mail.queue(manager, "account_suspended", accountSuspendedMail(account.email, account.displayName, input.reason));
+      });
       return oneUser(accountId);
     },
 
     async restore(actor: Actor, accountId: string, input: RestoreInput): Promise<AdminUser> {
       const admin = requireRole(actor, "admin");
-      const account = await dataSource.transaction(async (manager) => {
+      await dataSource.transaction(async (manager) => {
         const found = await manager.getRepository(AccountEntity).findOne({ where: { id: accountId }, lock: { mode: "pessimistic_write" } });
         if (!found) throw new NotFound("No account with that id.");
         if (!found.suspendedAt) throw new Conflict("That account is not suspended.", "not_suspended");
@@ -175,9 +169,12 @@ export function createAccountModeration(deps: AccountModerationDependencies) {
           },
           at,
         );
-        return found;
+        await deps.mail.queue(
+          manager,
+          "account_restored",
+          accountRestoredMail(found.email, found.displayName, `${deps.config.publicUrl}/sign-in`),
+        );
       });
-      await sendSafely(() => accountRestoredMail(account.email, account.displayName, `${deps.config.publicUrl}/sign-in`), accountId);
       return oneUser(accountId);
     },
 

@@ -15,10 +15,10 @@ import type { EmailTokenPurpose } from "../entities/email-token.ts";
 import { Conflict, Forbidden, Gone, Invalid, NotFound, Unauthorized } from "../errors.ts";
 import { freeYardSlug } from "./yard-slugs.ts";
 import { recordAudit } from "./audit-log.ts";
-import type { Mailer } from "../integrations/mail.ts";
 import { joinAttemptMail, passwordResetMail, signInAttemptsMail, verificationMail } from "../mail-templates.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
 import type { BackgroundWork } from "./background-work.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 import { decoyPasswordCheck, hashPassword, isCommonPassword, passwordMatches } from "./passwords.ts";
 import { findPlace } from "./places.ts";
 import { newToken, tokenHash } from "./tokens.ts";
@@ -43,10 +43,11 @@ export interface OwnerNotices {
 
 export interface AccountServiceDependencies {
   dataSource: DataSource;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   config: Pick<AppConfig, "bcryptCost" | "publicUrl">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
-  /** E-mails whose timing must not depend on whether an address has an account go out after the answer. */
+  /** Work whose timing must not depend on whether an address has an account runs after the answer. */
   background: BackgroundWork;
   notices: OwnerNotices;
   now?: () => Date;
@@ -85,7 +86,7 @@ function isDuplicateKey(error: unknown): boolean {
 const COMMON_PASSWORD_MESSAGE = "That password is on a list of common passwords. Choose one that is harder to guess.";
 
 export function createAccountService(deps: AccountServiceDependencies) {
-  const { dataSource, mailer, config, log, background, notices } = deps;
+  const { dataSource, mail, config, log, background, notices } = deps;
   const now = deps.now ?? (() => new Date());
   const accounts = () => dataSource.getRepository(AccountEntity);
 
@@ -116,14 +117,6 @@ export function createAccountService(deps: AccountServiceDependencies) {
     return found;
   }
 
-  async function sendSafely(kind: string, send: () => Promise<void>) {
-    try {
-      await send();
-    } catch (error) {
-      log.error({ err: error, kind }, "could not send e-mail");
-    }
-  }
-
   return {
     /**
      * Makes a buyer or sawyer account (never an admin) and mails a confirmation link. The request
@@ -139,7 +132,7 @@ export function createAccountService(deps: AccountServiceDependencies) {
       if (isCommonPassword(input.password)) throw new Invalid(COMMON_PASSWORD_MESSAGE, { password: COMMON_PASSWORD_MESSAGE });
       const passwordHash = await hashPassword(input.password, config.bcryptCost);
       background.run("sign_up", async () => {
-        let created: { account: AccountEntity; token: string } | null;
+        let created: AccountEntity | null;
         try {
           created = await dataSource.transaction(async (manager) => {
             const repository = manager.getRepository(AccountEntity);
@@ -157,7 +150,13 @@ export function createAccountService(deps: AccountServiceDependencies) {
               emailVerifiedAt: null,
             });
             await repository.insert(entity);
-            return { account: entity, token: await issueToken(manager, entity.id, "verify_email", VERIFY_HOURS) };
+            const token = await issueToken(manager, entity.id, "verify_email", VERIFY_HOURS);
+            await mail.queue(
+              manager,
+              "verify_email",
+              verificationMail(entity.email, entity.displayName, `${config.publicUrl}/verify-email?token=${token}`),
+            );
+            return entity;
           });
         } catch (error) {
           if (!isDuplicateKey(error)) throw error;
@@ -167,14 +166,14 @@ export function createAccountService(deps: AccountServiceDependencies) {
           if (!(await notices.firstInAWhile("join_attempt", input.email))) return;
           const owner = await accounts().findOneBy({ email: input.email });
           if (owner)
-            await mailer.send(
+            await mail.queue(
+              dataSource.manager,
+              "join_attempt",
               joinAttemptMail(owner.email, owner.displayName, `${config.publicUrl}/sign-in`, `${config.publicUrl}/forgot-password`),
             );
           return;
         }
-        const { account, token } = created;
-        log.info({ accountId: account.id, role: account.role }, "account created");
-        await mailer.send(verificationMail(account.email, account.displayName, `${config.publicUrl}/verify-email?token=${token}`));
+        log.info({ accountId: created.id, role: created.role }, "account created");
       });
     },
 
@@ -195,7 +194,11 @@ export function createAccountService(deps: AccountServiceDependencies) {
           background.run("sign_in_warning", async () => {
             if (!(await notices.firstInAWhile("sign_in_attempts", entity.email))) return;
             log.info({ accountId: entity.id, failures }, "wrong passwords tried on an account; owner warned");
-            await mailer.send(signInAttemptsMail(entity.email, entity.displayName, failures, `${config.publicUrl}/forgot-password`));
+            await mail.queue(
+              dataSource.manager,
+              "sign_in_attempts",
+              signInAttemptsMail(entity.email, entity.displayName, failures, `${config.publicUrl}/forgot-password`),
+            );
           });
         }
         throw new Unauthorized("That e-mail and password do not match an account.", "wrong_credentials");
@@ -256,10 +259,14 @@ export function createAccountService(deps: AccountServiceDependencies) {
       const signedIn = requireSignedIn(actor);
       const account = await accounts().findOneByOrFail({ id: signedIn.accountId });
       if (account.emailVerifiedAt) throw new Conflict("Your e-mail is already confirmed.", "already_verified");
-      const token = await dataSource.transaction((manager) => issueToken(manager, account.id, "verify_email", VERIFY_HOURS));
-      await sendSafely("verify_email", () =>
-        mailer.send(verificationMail(account.email, account.displayName, `${config.publicUrl}/verify-email?token=${token}`)),
-      );
+      await dataSource.transaction(async (manager) => {
+        const token = await issueToken(manager, account.id, "verify_email", VERIFY_HOURS);
+        await mail.queue(
+          manager,
+          "verify_email",
+          verificationMail(account.email, account.displayName, `${config.publicUrl}/verify-email?token=${token}`),
+        );
+      });
     },
 
     /**
@@ -271,8 +278,14 @@ export function createAccountService(deps: AccountServiceDependencies) {
       background.run("reset_password", async () => {
         const account = await accounts().findOne({ where: { email: input.email } });
         if (!account) return;
-        const token = await dataSource.transaction((manager) => issueToken(manager, account.id, "reset_password", RESET_HOURS));
-        await mailer.send(passwordResetMail(account.email, account.displayName, `${config.publicUrl}/reset-password?token=${token}`));
+        await dataSource.transaction(async (manager) => {
+          const token = await issueToken(manager, account.id, "reset_password", RESET_HOURS);
+          await mail.queue(
+            manager,
+            "password_reset",
+            passwordResetMail(account.email, account.displayName, `${config.publicUrl}/reset-password?token=${token}`),
+          );
+        });
       });
     },
 

@@ -3,9 +3,9 @@
  * something (whether an address has an account), or that the caller need not wait for. A task runs
  * after the current request's answer is written; its failure goes to the log, never to the caller.
  *
- * This is in-process: a task still pending when the process dies is lost (for these e-mails the
- * person can ask again). The transactional outbox (a row written in the request's transaction,
- * sent by a worker) replaces it where an e-mail must survive a crash; callers only say `run`.
+ * This is in-process: a task still pending when the process dies is lost. E-mails do not depend on
+ * it: they are rows of the outbox (services/mail-outbox.ts), written in their change's transaction;
+ * a lost first attempt here is made again by the outbox job.
  */
 export interface BackgroundWork {
   run(kind: string, task: () => Promise<void>): void;

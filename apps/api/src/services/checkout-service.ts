@@ -5,7 +5,6 @@ import type { AppConfig } from "../config.ts";
 import { AccountEntity, LedgerEntryEntity, ListingEntity, ListingSlabEntity, OrderEntity, PaymentEventEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound, ServiceUnavailable } from "../errors.ts";
 import { retryOnLockConflict } from "../db/lock-conflicts.ts";
-import type { Mailer } from "../integrations/mail.ts";
 import type { PaymentEvent, PayoutAccountStatus, PaymentsPort } from "../integrations/payments.ts";
 import { orderPaidBuyerMail, orderPaidSawyerMail } from "../mail-templates.ts";
 import { requireRole, type Actor } from "./actor.ts";
@@ -13,6 +12,7 @@ import { toSlab } from "./yard-service.ts";
 import { saleEntries } from "./ledger.ts";
 import { orderView, partiesOf } from "./order-service.ts";
 import type { RefundService } from "./refund-service.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 import {
   orderSlabSnapshotSchema,
   orderTransitions,
@@ -60,7 +60,8 @@ export function createCheckoutService(deps: {
   dataSource: DataSource;
   payments: PaymentsPort;
   refunds: RefundService;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   config: Pick<AppConfig, "publicUrl" | "checkout">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
@@ -94,23 +95,16 @@ export function createCheckoutService(deps: {
     return true;
   }
 
-  async function mailPaid(order: OrderEntity) {
+  /** "Paid" e-mails to both sides, written into the outbox in the payment's own transaction. */
+  async function mailPaid(manager: EntityManager, order: OrderEntity) {
     const [buyer, sawyer] = await Promise.all([
-      dataSource.getRepository(AccountEntity).findOneBy({ id: order.buyerId }),
-      dataSource.getRepository(AccountEntity).findOneBy({ id: order.sawyerId }),
+      manager.getRepository(AccountEntity).findOneBy({ id: order.buyerId }),
+      manager.getRepository(AccountEntity).findOneBy({ id: order.sawyerId }),
     ]);
+    if (!buyer || !sawyer) return;
     const link = `${config.publicUrl}/orders/${order.id}`;
-    for (const mail of [
-      buyer && sawyer ? orderPaidBuyerMail(buyer, sawyer, order, link) : null,
-      sawyer && buyer ? orderPaidSawyerMail(sawyer, buyer, order, link) : null,
-    ]) {
-      if (!mail) continue;
-      try {
-        await deps.mailer.send(mail);
-      } catch (error) {
-        deps.log.error({ err: error, orderId: order.id }, "could not send order e-mail");
-      }
-    }
+    await deps.mail.queue(manager, "order_paid", orderPaidBuyerMail(buyer, sawyer, order, link));
+    await deps.mail.queue(manager, "order_paid", orderPaidSawyerMail(sawyer, buyer, order, link));
   }
 
   return {
@@ -220,7 +214,6 @@ export function createCheckoutService(deps: {
      * judged by the order's current state.
      */
     async handleEvent(event: PaymentEvent): Promise<"handled" | "duplicate" | "ignored"> {
-      let paidOrder: OrderEntity | null = null;
       const outcome = await dataSource.transaction(async (manager) => {
         const inserted = await manager
           .createQueryBuilder()
@@ -255,7 +248,7 @@ export function createCheckoutService(deps: {
             await manager.getRepository(ListingEntity).update({ id: order.listingId }, { status: "sold" });
             await manager.getRepository(LedgerEntryEntity).insert(saleEntries(order, "payment", event.eventId));
             await changed(manager, order.listingId);
-            paidOrder = await manager.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
+            await mailPaid(manager, await manager.getRepository(OrderEntity).findOneByOrFail({ id: order.id }));
             return "handled" as const;
           }
           case "payment_refunded":
@@ -270,7 +263,6 @@ export function createCheckoutService(deps: {
             return order.status === OPEN_PAYMENT ? ("handled" as const) : ("ignored" as const);
         }
       });
-      if (paidOrder) await mailPaid(paidOrder);
       return outcome;
     },
 

@@ -23,9 +23,16 @@ export function createHealthService(deps: {
         .catch(() => false);
       const [db, storage, mail, payments] = await Promise.all([database, deps.storage.isUp(), deps.mailer.isUp(), deps.payments.isUp()]);
       const state = (up: boolean) => (up ? "up" : "down") as "up" | "down";
+      const down = [
+        [db, "the database"],
+        [storage, "photo storage"],
+        [mail, "outgoing mail (e-mails wait in the outbox)"],
+        [payments, "card payments"],
+      ].flatMap(([up, name]) => (up ? [] : [name as string]));
       return {
-        status: db && storage && mail && payments ? "ok" : "degraded",
+        status: down.length === 0 ? "ok" : "degraded",
         components: { database: state(db), storage: state(storage), mail: state(mail), payments: state(payments) },
+        ...(down.length ? { message: `Down just now: ${down.join(", ")}.` } : {}),
       };
     },
   };

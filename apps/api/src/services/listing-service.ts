@@ -17,7 +17,7 @@ import type { AppConfig } from "../config.ts";
 import { AccountEntity, ListingEntity, ListingPhotoEntity, ListingReviewEntity, ListingSlabEntity, SlabEntity } from "../entities/index.ts";
 import type { ReviewDecision } from "../entities/listing-review.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
-import type { Mailer } from "../integrations/mail.ts";
+import type { OutgoingMail } from "../integrations/mail.ts";
 import { listingApprovedMail, listingSentBackMail } from "../mail-templates.ts";
 import { listingRejectedMail } from "../mail-templates-operator.ts";
 import { recordAudit } from "./audit-log.ts";
@@ -27,6 +27,7 @@ import { DEFAULT_WEIGHT_MOISTURE_PCT, computeListingFigures } from "./figures.ts
 import { USUAL_FEES } from "@grainyard/slab-math";
 import { HOLDING_STATUSES, toSlab } from "./yard-service.ts";
 import type { DomainEventBus } from "../events.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 
 /** States in which the sawyer may still change the listing. */
 const EDITABLE: ListingStatus[] = ["draft", "sent_back"];
@@ -48,7 +49,8 @@ export function photoView(photo: ListingPhotoEntity): ListingPhoto {
 
 export interface ListingServiceDependencies {
   dataSource: DataSource;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   config: Pick<AppConfig, "publicUrl">;
   log: { error(object: object, message: string): void };
   now?: () => Date;
@@ -164,16 +166,6 @@ export function createListingService(deps: ListingServiceDependencies) {
     return listing;
   }
 
-  async function mailSawyer(listing: ListingEntity, build: (to: string, name: string, link: string) => Parameters<Mailer["send"]>[0]) {
-    const sawyer = await dataSource.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId });
-    if (!sawyer) return;
-    try {
-      await deps.mailer.send(build(sawyer.email, sawyer.displayName, `${deps.config.publicUrl}/yard/listings/${listing.id}`));
-    } catch (error) {
-      deps.log.error({ err: error, listingId: listing.id }, "could not send listing e-mail");
-    }
-  }
-
   async function pastReview(row: ListingReviewEntity): Promise<PastReview> {
     const reviewer = await dataSource
       .getRepository(AccountEntity)
@@ -192,7 +184,14 @@ export function createListingService(deps: ListingServiceDependencies) {
    * One review decision, in one transaction: the listing's new state, a snapshot of what was
    * reviewed (for the next submission's diff) and the audit entry.
    */
-  async function decide(actor: Actor, listingId: string, decision: ReviewDecision, reason: string | null): Promise<ListingEntity> {
+  /** The decision, its audit entry and the e-mail to the sawyer, in one transaction. */
+  async function decide(
+    actor: Actor,
+    listingId: string,
+    decision: ReviewDecision,
+    reason: string | null,
+    mail: (to: string, name: string, title: string, link: string) => OutgoingMail,
+  ): Promise<ListingEntity> {
     const admin = requireRole(actor, "admin");
     return dataSource.transaction(async (manager) => {
       const found = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, lock: { mode: "pessimistic_write" } });
@@ -239,6 +238,13 @@ export function createListingService(deps: ListingServiceDependencies) {
         at,
       );
       await changed(manager, listingId);
+      const sawyer = await manager.getRepository(AccountEntity).findOneBy({ id: found.sawyerId });
+      if (sawyer)
+        await deps.mail.queue(
+          manager,
+          `listing_${decision}`,
+          mail(sawyer.email, sawyer.displayName, found.title, `${deps.config.publicUrl}/yard/listings/${listingId}`),
+        );
       return manager.getRepository(ListingEntity).findOneByOrFail({ id: listingId });
     });
   }
@@ -382,22 +388,23 @@ export function createListingService(deps: ListingServiceDependencies) {
     },
 
     async approve(actor: Actor, listingId: string): Promise<Listing> {
-      const listing = await decide(actor, listingId, "approved", null);
-      await mailSawyer(listing, (to, name, link) => listingApprovedMail(to, name, listing.title, link));
+      const listing = await decide(actor, listingId, "approved", null, listingApprovedMail);
       await deps.events?.emit("listingLive", { listingId: listing.id });
       return view(dataSource.manager, listing);
     },
 
     async sendBack(actor: Actor, listingId: string, input: SendBackInput): Promise<Listing> {
-      const listing = await decide(actor, listingId, "sent_back", input.reason);
-      await mailSawyer(listing, (to, name, link) => listingSentBackMail(to, name, listing.title, input.reason, link));
+      const listing = await decide(actor, listingId, "sent_back", input.reason, (to, name, title, link) =>
+        listingSentBackMail(to, name, title, input.reason, link),
+      );
       return view(dataSource.manager, listing);
     },
 
     /** Final: the listing will not be sold here; its slabs go back to the yard. */
     async reject(actor: Actor, listingId: string, input: RejectInput): Promise<Listing> {
-      const listing = await decide(actor, listingId, "rejected", input.reason);
-      await mailSawyer(listing, (to, name, link) => listingRejectedMail(to, name, listing.title, input.reason, link));
+      const listing = await decide(actor, listingId, "rejected", input.reason, (to, name, title, link) =>
+        listingRejectedMail(to, name, title, input.reason, link),
+      );
       return view(dataSource.manager, listing);
     },
 

@@ -5,7 +5,7 @@ import { In, IsNull, Not, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, ListingEntity, MessageEntity, MessageThreadEntity } from "../entities/index.ts";
 import { Forbidden, NotFound } from "../errors.ts";
-import type { Mailer } from "../integrations/mail.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 import { messageNoticeMail } from "../mail-templates.ts";
 import { requireRole, requireSignedIn, type Actor, type SignedInActor } from "./actor.ts";
 
@@ -19,9 +19,9 @@ function excerptOf(body: string, length = EXCERPT_LENGTH): string {
 
 export interface MessageServiceDependencies {
   dataSource: DataSource;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   config: Pick<AppConfig, "publicUrl">;
-  log: { error(object: object, message: string): void };
   now?: () => Date;
 }
 
@@ -30,7 +30,7 @@ export interface MessageServiceDependencies {
  * listing's sawyer. Only the two of them read and write it; admins may read, never write.
  */
 export function createMessageService(deps: MessageServiceDependencies) {
-  const { dataSource, config, log } = deps;
+  const { dataSource, config } = deps;
   const now = deps.now ?? (() => new Date());
 
   function sideOf(thread: MessageThreadEntity, accountId: string): "buyer" | "sawyer" | null {
@@ -126,30 +126,28 @@ export function createMessageService(deps: MessageServiceDependencies) {
     return manager.getRepository(MessageEntity).findOneByOrFail({ id: String(inserted.identifiers[0]!.id) });
   }
 
-  /** After the commit: a notice to the other party with a short excerpt and the thread's link. */
-  async function notify(thread: MessageThreadEntity, authorId: string, body: string) {
-    try {
-      const recipientId = thread.buyerId === authorId ? thread.sawyerId : thread.buyerId;
-      const [recipient, author, listing] = await Promise.all([
-        dataSource.getRepository(AccountEntity).findOneBy({ id: recipientId }),
-        dataSource.getRepository(AccountEntity).findOneBy({ id: authorId }),
-        dataSource.getRepository(ListingEntity).findOneBy({ id: thread.listingId }),
-      ]);
-      if (!recipient || !author) return;
-      const fromName = authorId === thread.sawyerId && author.yardName ? `${author.displayName} (${author.yardName})` : author.displayName;
-      await deps.mailer.send(
-        messageNoticeMail(
-          recipient.email,
-          recipient.displayName,
-          fromName,
-          listing?.title ?? "a listing",
-          excerptOf(body),
-          `${config.publicUrl}/messages/${thread.id}`,
-        ),
-      );
-    } catch (error) {
-      log.error({ err: error, threadId: thread.id }, "could not send a message notice");
-    }
+  /** A notice to the other party with a short excerpt and the thread's link, in the message's own transaction. */
+  async function notify(manager: EntityManager, thread: MessageThreadEntity, authorId: string, body: string) {
+    const recipientId = thread.buyerId === authorId ? thread.sawyerId : thread.buyerId;
+    const [recipient, author, listing] = await Promise.all([
+      manager.getRepository(AccountEntity).findOneBy({ id: recipientId }),
+      manager.getRepository(AccountEntity).findOneBy({ id: authorId }),
+      manager.getRepository(ListingEntity).findOneBy({ id: thread.listingId }),
+    ]);
+    if (!recipient || !author) return;
+    const fromName = authorId === thread.sawyerId && author.yardName ? `${author.displayName} (${author.yardName})` : author.displayName;
+    await deps.mail.queue(
+      manager,
+      "message_notice",
+      messageNoticeMail(
+        recipient.email,
+        recipient.displayName,
+        fromName,
+        listing?.title ?? "a listing",
+        excerptOf(body),
+        `${config.publicUrl}/messages/${thread.id}`,
+      ),
+    );
   }
 
   async function posted(thread: MessageThreadEntity, message: MessageEntity, readerId: string): Promise<MessagePosted> {
@@ -187,9 +185,10 @@ export function createMessageService(deps: MessageServiceDependencies) {
             .execute();
           thread = await threads.findOneOrFail({ where: { buyerId: asker.accountId, listingId }, lock: { mode: "pessimistic_write" } });
         }
-        return { thread, message: await addMessage(manager, thread, asker.accountId, body) };
+        const message = await addMessage(manager, thread, asker.accountId, body);
+        await notify(manager, thread, asker.accountId, body);
+        return { thread, message };
       });
-      await notify(thread, asker.accountId, body);
       return posted(thread, message, asker.accountId);
     },
 
@@ -207,9 +206,10 @@ export function createMessageService(deps: MessageServiceDependencies) {
             author.role === "admin" ? "Admins can read conversations but not write in them." : "That conversation is between other people.",
           );
         }
-        return { thread, message: await addMessage(manager, thread, author.accountId, body) };
+        const message = await addMessage(manager, thread, author.accountId, body);
+        await notify(manager, thread, author.accountId, body);
+        return { thread, message };
       });
-      await notify(thread, author.accountId, body);
       return posted(thread, message, author.accountId);
     },
 

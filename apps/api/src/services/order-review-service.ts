@@ -17,7 +17,7 @@ import { In, IsNull, MoreThan, Not, type DataSource, type EntityManager } from "
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, OrderEntity, OrderReviewEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, NotFound } from "../errors.ts";
-import type { Mailer, OutgoingMail } from "../integrations/mail.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 import { reviewAnsweredMail, reviewHiddenMail, reviewWrittenMail } from "../mail-templates-reviews.ts";
 import { requireRole, requireSignedIn, type Actor, type SignedInActor } from "./actor.ts";
 import type { DomainEventBus } from "../events.ts";
@@ -73,9 +73,9 @@ function publicView(review: OrderReviewEntity, title: string, buyerName: string)
 
 export function createOrderReviewService(deps: {
   dataSource: DataSource;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   config: Pick<AppConfig, "publicUrl">;
-  log: { error(object: object, message: string): void };
   now?: () => Date;
   /** Where the service announces that a yard's visible reviews changed (the catalogue follows, in the same transaction). */
   events?: DomainEventBus;
@@ -85,15 +85,6 @@ export function createOrderReviewService(deps: {
   const ratingChanged = (manager: EntityManager, sawyerId: string) =>
     deps.events?.emitSerial("yardRatingChanged", { manager, sawyerId }) ?? Promise.resolve();
   const orderLink = (orderId: string) => `${deps.config.publicUrl}/orders/${orderId}`;
-
-  async function sendSafely(mail: OutgoingMail | null) {
-    if (!mail) return;
-    try {
-      await deps.mailer.send(mail);
-    } catch (error) {
-      deps.log.error({ err: error }, "could not send review e-mail");
-    }
-  }
 
   /** Reviews as their buyer, sawyer or an admin sees them (names and titles read in two queries). */
   async function views(rows: OrderReviewEntity[]): Promise<OrderReview[]> {
@@ -175,21 +166,21 @@ export function createOrderReviewService(deps: {
       at,
     );
     await ratingChanged(manager, review.sawyerId);
+    await queueHiddenMail(manager, review, reason);
     return manager.getRepository(OrderReviewEntity).findOneByOrFail({ id: review.id });
   }
 
-  /** Tells the buyer their review was hidden, and why. */
-  async function mailHidden(review: OrderReviewEntity, reason: string) {
+  /** Tells the buyer their review was hidden, and why (into the outbox, with the hiding). */
+  async function queueHiddenMail(manager: EntityManager, review: OrderReviewEntity, reason: string) {
     const [buyer, order] = await Promise.all([
-      dataSource.getRepository(AccountEntity).findOneBy({ id: review.buyerId }),
-      dataSource.getRepository(OrderEntity).findOneBy({ id: review.orderId }),
+      manager.getRepository(AccountEntity).findOneBy({ id: review.buyerId }),
+      manager.getRepository(OrderEntity).findOneBy({ id: review.orderId }),
     ]);
-    await sendSafely(buyer && order ? reviewHiddenMail(buyer, order.title, reason, orderLink(order.id)) : null);
+    if (buyer && order) await deps.mail.queue(manager, "review_hidden", reviewHiddenMail(buyer, order.title, reason, orderLink(order.id)));
   }
 
   return {
     hideWith,
-    mailHidden,
 
     /** An order's review and what the one looking may do with it (its buyer, its sawyer, an admin). */
     async state(actor: Actor, orderId: string): Promise<OrderReviewState> {
@@ -230,19 +221,22 @@ export function createOrderReviewService(deps: {
             hiddenReason: null,
           });
           await ratingChanged(manager, order.sawyerId);
+          const [buyerAccount, sawyer] = await Promise.all([
+            manager.getRepository(AccountEntity).findOneBy({ id: order.buyerId }),
+            manager.getRepository(AccountEntity).findOneBy({ id: order.sawyerId }),
+          ]);
+          if (sawyer && buyerAccount)
+            await deps.mail.queue(
+              manager,
+              "review_written",
+              reviewWrittenMail(sawyer, fields, buyerAccount.displayName, order.title, orderLink(order.id)),
+            );
         });
       } catch (error) {
         if (isDuplicateKey(error))
           throw new Conflict("You reviewed this order already; you can change your review instead.", "review_exists");
         throw error;
       }
-      const [buyerAccount, sawyer] = await Promise.all([
-        dataSource.getRepository(AccountEntity).findOneBy({ id: order.buyerId }),
-        dataSource.getRepository(AccountEntity).findOneBy({ id: order.sawyerId }),
-      ]);
-      await sendSafely(
-        sawyer && buyerAccount ? reviewWrittenMail(sawyer, fields, buyerAccount.displayName, order.title, orderLink(order.id)) : null,
-      );
       return stateOf(buyer, order);
     },
 
@@ -281,21 +275,26 @@ export function createOrderReviewService(deps: {
       const review = await dataSource.getRepository(OrderReviewEntity).findOneBy({ orderId });
       if (!review) throw new NotFound("This order has no review yet.");
       if (review.hiddenAt) throw new Conflict("An admin hid this review, so it cannot be answered.", "review_hidden");
-      const updated = await dataSource
-        .getRepository(OrderReviewEntity)
-        .update({ id: review.id, answer: IsNull(), hiddenAt: IsNull() }, { answer: input.body, answeredAt: now() });
-      if (updated.affected !== 1) {
-        const current = await dataSource.getRepository(OrderReviewEntity).findOneByOrFail({ id: review.id });
-        if (current.hiddenAt) throw new Conflict("An admin hid this review, so it cannot be answered.", "review_hidden");
-        throw new Conflict("You answered this review already (one answer per review).", "review_answered");
-      }
-      const [buyer, yard] = await Promise.all([
-        dataSource.getRepository(AccountEntity).findOneBy({ id: order.buyerId }),
-        dataSource.getRepository(AccountEntity).findOneBy({ id: order.sawyerId }),
-      ]);
-      await sendSafely(
-        buyer && yard ? reviewAnsweredMail(buyer, yard.yardName ?? yard.displayName, order.title, input.body, orderLink(order.id)) : null,
-      );
+      await dataSource.transaction(async (manager) => {
+        const updated = await manager
+          .getRepository(OrderReviewEntity)
+          .update({ id: review.id, answer: IsNull(), hiddenAt: IsNull() }, { answer: input.body, answeredAt: now() });
+        if (updated.affected !== 1) {
+          const current = await manager.getRepository(OrderReviewEntity).findOneByOrFail({ id: review.id });
+          if (current.hiddenAt) throw new Conflict("An admin hid this review, so it cannot be answered.", "review_hidden");
+          throw new Conflict("You answered this review already (one answer per review).", "review_answered");
+        }
+        const [buyer, yard] = await Promise.all([
+          manager.getRepository(AccountEntity).findOneBy({ id: order.buyerId }),
+          manager.getRepository(AccountEntity).findOneBy({ id: order.sawyerId }),
+        ]);
+        if (buyer && yard)
+          await deps.mail.queue(
+            manager,
+            "review_answered",
+            reviewAnsweredMail(buyer, yard.yardName ?? yard.displayName, order.title, input.body, orderLink(order.id)),
+          );
+      });
       return stateOf(sawyer, order);
     },
 
@@ -338,7 +337,6 @@ export function createOrderReviewService(deps: {
     async hide(actor: Actor, reviewId: string, reason: string): Promise<OrderReview> {
       const admin = requireRole(actor, "admin");
       const hidden = await dataSource.transaction((manager) => hideWith(manager, admin, reviewId, reason, now()));
-      await mailHidden(hidden, reason);
       return (await views([hidden]))[0]!;
     },
 

@@ -18,11 +18,11 @@ import { In, LessThan, Not, type DataSource, type EntityManager } from "typeorm"
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
-import type { Mailer, OutgoingMail } from "../integrations/mail.ts";
 import { orderStepMail, type OrderStep } from "../mail-templates.ts";
 import { requireSignedIn, type Actor } from "./actor.ts";
 import { timeZoneAt } from "./places.ts";
 import type { RefundService } from "./refund-service.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 import type { DomainEventBus } from "../events.ts";
 
 /**
@@ -157,7 +157,8 @@ export async function partiesOf(manager: EntityManager | DataSource, orders: Ord
 export function createOrderService(deps: {
   dataSource: DataSource;
   refunds: RefundService;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   config: Pick<AppConfig, "publicUrl" | "checkout">;
   log: { error(object: object, message: string): void; info(object: object, message: string): void };
   now?: () => Date;
@@ -213,38 +214,35 @@ export function createOrderService(deps: {
     return manager.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
   }
 
-  /** E-mails to the buyer and the sawyer about a step; a mail failure never undoes the step. */
-  async function mailBoth(order: OrderEntity, stepName: OrderStep) {
-    const parties = (await partiesOf(dataSource, [order])).get(order.id)!;
+  /** E-mails to the buyer and the sawyer about a step, written into the outbox with the step itself. */
+  async function mailBoth(manager: EntityManager, order: OrderEntity, stepName: OrderStep) {
+    const parties = (await partiesOf(manager, [order])).get(order.id)!;
     const link = `${config.publicUrl}/orders/${order.id}`;
-    const mails: OutgoingMail[] = [
-      orderStepMail(
-        { email: parties.buyerEmail, displayName: parties.buyerName },
-        "buyer",
-        stepName,
-        order,
-        parties,
-        link,
-        config.checkout.autoCompleteDays,
-      ),
-      orderStepMail(
-        { email: parties.sawyerEmail, displayName: parties.sawyerName },
-        "sawyer",
-        stepName,
-        order,
-        parties,
-        link,
-        config.checkout.autoCompleteDays,
-      ),
-    ];
-    for (const mail of mails) {
-      if (!mail.to) continue;
-      try {
-        await deps.mailer.send(mail);
-      } catch (error) {
-        deps.log.error({ err: error, orderId: order.id, step: stepName }, "could not send order e-mail");
-      }
+    for (const [email, displayName, role] of [
+      [parties.buyerEmail, parties.buyerName, "buyer"],
+      [parties.sawyerEmail, parties.sawyerName, "sawyer"],
+    ] as const) {
+      await deps.mail.queue(
+        manager,
+        `order_${stepName}`,
+        orderStepMail({ email, displayName }, role, stepName, order, parties, link, config.checkout.autoCompleteDays),
+      );
     }
+  }
+
+  /** A step and its e-mails in one transaction. */
+  function stepAndMail(
+    order: OrderEntity,
+    transition: OrderTransitionName,
+    changes: Partial<OrderEntity>,
+    doing: string,
+    stepName: OrderStep,
+  ): Promise<OrderEntity> {
+    return dataSource.transaction(async (manager) => {
+      const updated = await step(order, transition, changes, doing, manager);
+      await mailBoth(manager, updated, stepName);
+      return updated;
+    });
   }
 
   return {
@@ -291,7 +289,7 @@ export function createOrderService(deps: {
           fields[`windows.${index}.startsAt`] = "Two windows start at the same time.";
       });
       if (Object.keys(fields).length) throw new Invalid("Some pickup windows need a change.", fields);
-      const updated = await step(
+      const updated = await stepAndMail(
         order,
         "proposePickupWindows",
         {
@@ -303,8 +301,8 @@ export function createOrderService(deps: {
           pickupChosenAt: null,
         },
         "get pickup windows",
+        "pickup_windows_proposed",
       );
-      await mailBoth(updated, "pickup_windows_proposed");
       return present(updated, actor);
     },
 
@@ -316,13 +314,13 @@ export function createOrderService(deps: {
       const window = (order.pickupWindows ?? []).find((w) => Date.parse(w.startsAt) === wanted);
       if (!window)
         throw new Invalid("Choose one of the windows the sawyer proposed.", { startsAt: "That is not one of the proposed windows." });
-      const updated = await step(
+      const updated = await stepAndMail(
         order,
         "choosePickupWindow",
         { pickupStartsAt: new Date(window.startsAt), pickupEndsAt: new Date(window.endsAt), pickupChosenAt: now() },
         "have a pickup window chosen",
+        "pickup_window_chosen",
       );
-      await mailBoth(updated, "pickup_window_chosen");
       return present(updated, actor);
     },
 
@@ -331,13 +329,13 @@ export function createOrderService(deps: {
       const order = await orderFor(actor, orderId, "sawyer");
       if (order.handover !== "freight")
         throw new Conflict("This order is collected at the yard: propose pickup windows instead.", "order_state");
-      const updated = await step(
+      const updated = await stepAndMail(
         order,
         "markShipped",
         { carrier: input.carrier, trackingReference: input.trackingReference, shippedAt: now() },
         "be marked as shipped",
+        "shipped",
       );
-      await mailBoth(updated, "shipped");
       return present(updated, actor);
     },
 
@@ -355,21 +353,26 @@ export function createOrderService(deps: {
         throw new Invalid("The booked pickup time has not come yet: say why it is handed over now.", {
           reason: "Say why it is handed over before the booked time (the buyer reads this).",
         });
-      const updated = await step(
+      const updated = await stepAndMail(
         order,
         "markHandedOver",
         { handedOverAt: now(), handOverNote: early ? reason : null },
         "be marked as handed over",
+        "handed_over",
       );
-      await mailBoth(updated, "handed_over");
       return present(updated, actor);
     },
 
     /** The buyer has the slab and says so. */
     async confirmReceipt(actor: Actor, orderId: string): Promise<Order> {
       const order = await orderFor(actor, orderId, "buyer");
-      const updated = await step(order, "confirmReceipt", { completedAt: now(), completedBy: "buyer" }, "be confirmed as received");
-      await mailBoth(updated, "completed");
+      const updated = await stepAndMail(
+        order,
+        "confirmReceipt",
+        { completedAt: now(), completedBy: "buyer" },
+        "be confirmed as received",
+        "completed",
+      );
       return present(updated, actor);
     },
 
@@ -391,10 +394,10 @@ export function createOrderService(deps: {
         );
         await manager.getRepository(ListingEntity).update({ id: order.listingId, status: "sold" }, { status: "live" });
         await deps.events?.emitSerial("listingChanged", { manager, listingId: order.listingId });
+        await mailBoth(manager, updated, "cancelled");
         return updated;
       });
       await deps.refunds.refundCancelledOrder(cancelled);
-      await mailBoth(cancelled, "cancelled");
       return present(await orders().findOneByOrFail({ id: orderId }), actor);
     },
 
@@ -408,15 +411,20 @@ export function createOrderService(deps: {
       const due = await orders().find({ where: { status: In(from), handedOverAt: LessThan(cutoff) }, take: 200 });
       let completed = 0;
       for (const order of due) {
-        const updated = await retryOnLockConflict(() =>
-          orders().update(
-            { id: order.id, status: In(from) },
-            { status: orderTransitions.completeAutomatically.to, completedAt: now(), completedBy: "automatic" },
-          ),
+        const done = await retryOnLockConflict(() =>
+          dataSource.transaction(async (manager) => {
+            const updated = await manager
+              .getRepository(OrderEntity)
+              .update(
+                { id: order.id, status: In(from) },
+                { status: orderTransitions.completeAutomatically.to, completedAt: now(), completedBy: "automatic" },
+              );
+            if (updated.affected !== 1) return false;
+            await mailBoth(manager, await manager.getRepository(OrderEntity).findOneByOrFail({ id: order.id }), "completed");
+            return true;
+          }),
         );
-        if (updated?.affected !== 1) continue;
-        completed += 1;
-        await mailBoth(await orders().findOneByOrFail({ id: order.id }), "completed");
+        if (done) completed += 1;
       }
       return completed;
     },

@@ -27,12 +27,12 @@ import {
   PayoutLineEntity,
 } from "../entities/index.ts";
 import { AppError, Conflict, NotFound, ServiceUnavailable } from "../errors.ts";
-import type { Mailer } from "../integrations/mail.ts";
 import { PaymentsError, PaymentsUnavailable, type PaymentsPort, type PayoutAccountStatus } from "../integrations/payments.ts";
 import { disputeRefundMail, payoutSentMail } from "../mail-templates.ts";
 import { requireRole, type Actor, type SignedInActor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
 import type { RefundService } from "./refund-service.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 
 const DAY_MS = 24 * 3600_000;
 
@@ -73,7 +73,8 @@ export function createPayoutService(deps: {
   dataSource: DataSource;
   payments: PaymentsPort;
   refunds: RefundService;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   config: Pick<AppConfig, "publicUrl">;
   /** Hold days after hand-over (an admin setting). */
   holdDays: () => number;
@@ -224,7 +225,10 @@ export function createPayoutService(deps: {
       } catch (error) {
         // A provider that cannot be reached leaves the attempt open: approving again retries it with the same key.
         if (error instanceof PaymentsUnavailable)
-          throw new ServiceUnavailable("The payment provider is not answering; the payout was not sent. Try again in a minute.");
+          throw new ServiceUnavailable(
+            "The payment provider is not answering; the payout was not sent. Try again in a minute.",
+            "payments_unavailable",
+          );
         failure = providerMessage(error);
       }
     }
@@ -257,6 +261,10 @@ export function createPayoutService(deps: {
             },
           ]),
         );
+        const sawyer = await manager.getRepository(AccountEntity).findOneBy({ id: payout.sawyerId });
+        const sent = await manager.getRepository(PayoutEntity).findOneByOrFail({ id: payout.id });
+        if (sawyer)
+          await deps.mail.queue(manager, "payout_sent", payoutSentMail(sawyer, sent, lines.length, `${config.publicUrl}/yard/payouts`));
       } else {
         // Nothing reaches the ledger: the sawyer's balance stays as it was, and the reason is kept to show.
         await manager
@@ -264,19 +272,7 @@ export function createPayoutService(deps: {
           .update({ id: payout.id, status: "sending" }, { status: "failed", failureReason: failure });
       }
     });
-    const done = await dataSource.getRepository(PayoutEntity).findOneByOrFail({ id: payout.id });
-    if (done.status === "sent") await mailSent(done);
-    return done;
-  }
-
-  async function mailSent(payout: PayoutEntity) {
-    try {
-      const sawyer = await dataSource.getRepository(AccountEntity).findOneBy({ id: payout.sawyerId });
-      const lines = await dataSource.getRepository(PayoutLineEntity).countBy({ payoutId: payout.id });
-      if (sawyer) await deps.mailer.send(payoutSentMail(sawyer, payout, lines, `${config.publicUrl}/yard/payouts`));
-    } catch (error) {
-      deps.log.error({ err: error, payoutId: payout.id }, "could not send the payout e-mail");
-    }
+    return dataSource.getRepository(PayoutEntity).findOneByOrFail({ id: payout.id });
   }
 
   /** Creates (or finds) the attempt for an approval, inside one transaction with the sawyer's payout account locked. */
@@ -420,7 +416,10 @@ export function createPayoutService(deps: {
       } catch (error) {
         if (!(error instanceof PaymentsError)) throw error;
         deps.log.error({ err: error }, "payout account set-up failed");
-        throw new ServiceUnavailable("The payment provider is not answering, so payout set-up cannot start. Try again in a minute.");
+        throw new ServiceUnavailable(
+          "The payment provider is not answering, so payout set-up cannot start. Try again in a minute.",
+          "payments_unavailable",
+        );
       }
     },
 
@@ -434,7 +433,7 @@ export function createPayoutService(deps: {
         remote = await payments.payoutAccount(account.providerAccountId);
       } catch (error) {
         if (!(error instanceof PaymentsError)) throw error;
-        throw new ServiceUnavailable("The payment provider is not answering; try again in a minute.");
+        throw new ServiceUnavailable("The payment provider is not answering; try again in a minute.", "payments_unavailable");
       }
       await this.recordAccount(remote);
       return this.mine(actor);
@@ -608,8 +607,8 @@ export function createPayoutService(deps: {
       const result = await deps.refunds.refundDispute(
         order,
         { amountMinor, reason, adminId: admin.accountId },
-        (manager, { refundedBefore, refundId, shares }) =>
-          recordAudit(
+        async (manager, { refundedBefore, refundId, shares }) => {
+          await recordAudit(
             manager,
             admin,
             {
@@ -621,25 +620,16 @@ export function createPayoutService(deps: {
               reason,
             },
             at,
-          ),
-      );
-      try {
-        const people = await dataSource.getRepository(AccountEntity).findBy({ id: In([order.buyerId, order.sawyerId]) });
-        for (const person of people) {
-          await deps.mailer.send(
-            disputeRefundMail(
-              person,
-              person.id === order.buyerId ? "buyer" : "sawyer",
-              order,
-              amountMinor,
-              reason,
-              `${config.publicUrl}/orders/${order.id}`,
-            ),
           );
-        }
-      } catch (error) {
-        deps.log.error({ err: error, orderId }, "could not send the dispute refund e-mails");
-      }
+          // Both sides hear of it, with the reason, in the refund's own transaction.
+          const people = await manager.getRepository(AccountEntity).findBy({ id: In([order.buyerId, order.sawyerId]) });
+          for (const person of people) {
+            const side = person.id === order.buyerId ? "buyer" : "sawyer";
+            const link = `${config.publicUrl}/orders/${order.id}`;
+            await deps.mail.queue(manager, "dispute_refund", disputeRefundMail(person, side, order, amountMinor, reason, link));
+          }
+        },
+      );
       return result;
     },
   };

@@ -8,6 +8,7 @@ import {
   deleteObjects,
   displayKey,
   getObjectBytes,
+  cleanOriginal,
   inspectPhoto,
   mediumFromLarge,
   logPhotoKey,
@@ -25,7 +26,7 @@ const PUBLIC_STATUSES = ["live", "reserved", "sold"];
 const PHOTO_EDITABLE = ["draft", "sent_back"];
 
 /**
- * Listing photos: the original is kept private in storage; the served sizes are WebP made by
+ * Listing photos: the original (upright, metadata removed but its colour profile) is kept private in storage; the served sizes are WebP made by
  * sharp with orientation applied and every piece of metadata (GPS included) removed. Storage is
  * written first and the row last, so a storage outage leaves no row behind, and a failed row
  * removes what was stored.
@@ -67,11 +68,12 @@ export function createPhotoService(deps: { dataSource: DataSource; storage: Phot
 
       const inspection = await inspectPhoto(bytes);
       const { sizes } = await renderDisplaySizes(bytes);
+      const clean = await cleanOriginal(bytes);
       const photoId = randomUUID();
       const stored: string[] = [];
       try {
         const original = originalKey(listing.id, photoId);
-        await putObject(storage.client, storage.bucket, original, bytes, `image/${inspection.format}`, { private: true });
+        await putObject(storage.client, storage.bucket, original, clean.bytes, clean.contentType, { private: true });
         stored.push(original);
         for (const size of sizes) {
           const key = displayKey(listing.id, photoId, size.name);
@@ -178,7 +180,8 @@ export async function storeSeedPhoto(
   const inspection = await inspectPhoto(bytes);
   const { sizes } = await renderDisplaySizes(bytes);
   const photoId = randomUUID();
-  await putObject(storage.client, storage.bucket, originalKey(listingId, photoId), bytes, `image/${inspection.format}`, { private: true });
+  const clean = await cleanOriginal(bytes);
+  await putObject(storage.client, storage.bucket, originalKey(listingId, photoId), clean.bytes, clean.contentType, { private: true });
   for (const size of sizes)
     await putObject(storage.client, storage.bucket, displayKey(listingId, photoId, size.name), size.bytes, size.contentType, {
       private: false,
@@ -235,11 +238,12 @@ export function createLogPhotoService(deps: { dataSource: DataSource; storage: P
       }
       const inspection = await inspectPhoto(bytes);
       const { sizes } = await renderDisplaySizes(bytes);
+      const clean = await cleanOriginal(bytes);
       const photoId = randomUUID();
       const stored: string[] = [];
       try {
         const original = logPhotoKey(log.id, photoId, "original");
-        await putObject(storage.client, storage.bucket, original, bytes, `image/${inspection.format}`, { private: true });
+        await putObject(storage.client, storage.bucket, original, clean.bytes, clean.contentType, { private: true });
         stored.push(original);
         for (const size of sizes) {
           const key = logPhotoKey(log.id, photoId, size.name);

@@ -201,7 +201,10 @@ export function createRefundService(deps: {
         // Nothing was refunded: take the reservation back, so the amount can be refunded later.
         await dataSource.getRepository(OrderRefundEntity).delete({ id: rowId });
         if (error instanceof PaymentsUnavailable)
-          throw new ServiceUnavailable("The payment provider is not answering; nothing was refunded. Try again in a minute.");
+          throw new ServiceUnavailable(
+            "The payment provider is not answering; nothing was refunded. Try again in a minute.",
+            "payments_unavailable",
+          );
         const message = (error instanceof Error ? error.message : String(error)).slice(0, 480);
         throw new Conflict(`The payment provider refused the refund: ${message}`, "refund_refused");
       }

@@ -11,25 +11,25 @@ import {
   OrderReviewEntity,
 } from "../entities/index.ts";
 import { Conflict, Invalid, NotFound } from "../errors.ts";
-import type { Mailer } from "../integrations/mail.ts";
 import { accountSuspendedMail, listingTakenDownMail } from "../mail-templates-operator.ts";
 import type { AccountModeration } from "./account-moderation.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
 import { recordAudit } from "./audit-log.ts";
 import type { DomainEventBus } from "../events.ts";
 import type { OrderReviewService } from "./order-review-service.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 
 /** Listings an admin may take down after a report (a reserved or sold slab is mid-sale: handled as an order dispute). */
 const TAKE_DOWN_FROM = ["draft", "in_review", "sent_back", "live", "suspended"] as const;
 
 export function createReportService(deps: {
   dataSource: DataSource;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   config: Pick<AppConfig, "publicUrl">;
-  log: { error(object: object, message: string): void };
   moderation: AccountModeration;
   /** Hiding a reported review (inside the resolution's transaction), and telling its buyer. */
-  reviews: Pick<OrderReviewService, "hideWith" | "mailHidden">;
+  reviews: Pick<OrderReviewService, "hideWith">;
   now?: () => Date;
   /** Where the service announces what changed (the catalogue and alerts listen). */
   events?: DomainEventBus;
@@ -38,15 +38,6 @@ export function createReportService(deps: {
   const now = deps.now ?? (() => new Date());
   const changed = (manager: EntityManager, listingId: string) =>
     deps.events?.emitSerial("listingChanged", { manager, listingId }) ?? Promise.resolve();
-
-  async function sendSafely(build: () => Parameters<Mailer["send"]>[0] | null) {
-    try {
-      const mail = build();
-      if (mail) await deps.mailer.send(mail);
-    } catch (error) {
-      deps.log.error({ err: error }, "could not send report e-mail");
-    }
-  }
 
   async function views(rows: ContentReportEntity[]): Promise<Report[]> {
     const accountIds = [...new Set(rows.flatMap((r) => [r.reporterId, r.reportedAccountId]))];
@@ -181,16 +172,13 @@ export function createReportService(deps: {
     async resolve(actor: Actor, reportId: string, input: ReportResolveInput): Promise<Report> {
       const admin = requireRole(actor, "admin");
       const at = now();
-      const outcome = await dataSource.transaction(async (manager) => {
+      await dataSource.transaction(async (manager) => {
         const report = await manager
           .getRepository(ContentReportEntity)
           .findOne({ where: { id: reportId }, lock: { mode: "pessimistic_write" } });
         if (!report) throw new NotFound("No report with that id.");
         if (report.status !== "open") throw new Conflict("That report is resolved already.", "report_resolved");
         let status: ContentReportEntity["status"] = "dismissed";
-        let takenDown: ListingEntity | null = null;
-        let suspended: AccountEntity | null = null;
-        let hiddenReview: OrderReviewEntity | null = null;
         if (input.resolution === "take_down") {
           if (!report.listingId || report.targetKind === "review")
             throw new Invalid("This report has no listing to take down.", { resolution: "Nothing to take down." });
@@ -218,16 +206,29 @@ export function createReportService(deps: {
             },
             at,
           );
-          takenDown = listing;
+          const sawyer = await manager.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId });
+          if (sawyer)
+            await deps.mail.queue(
+              manager,
+              "listing_taken_down",
+              listingTakenDownMail(
+                sawyer.email,
+                sawyer.displayName,
+                listing.title,
+                input.note,
+                `${deps.config.publicUrl}/yard/listings/${listing.id}`,
+              ),
+            );
           status = "listing_taken_down";
         } else if (input.resolution === "hide_review") {
           if (report.targetKind !== "review") throw new Invalid("This report is not about a review.", { resolution: "Nothing to hide." });
-          hiddenReview = await deps.reviews.hideWith(manager, admin, report.targetId, input.note, at);
+          await deps.reviews.hideWith(manager, admin, report.targetId, input.note, at);
           status = "review_hidden";
         } else if (input.resolution === "suspend") {
           if (report.reportedAccountId === admin.accountId)
             throw new Invalid("You cannot suspend your own account.", { resolution: "That is you." });
-          suspended = await deps.moderation.suspendWith(manager, admin, report.reportedAccountId, input.note, at);
+          const suspended = await deps.moderation.suspendWith(manager, admin, report.reportedAccountId, input.note, at);
+          await deps.mail.queue(manager, "account_suspended", accountSuspendedMail(suspended.email, suspended.displayName, input.note));
           status = "user_suspended";
         }
         const same = await manager
@@ -250,28 +251,7 @@ export function createReportService(deps: {
           },
           at,
         );
-        return { takenDown, suspended, hiddenReview };
       });
-      if (outcome.hiddenReview) await deps.reviews.mailHidden(outcome.hiddenReview, input.note);
-      if (outcome.takenDown) {
-        const listing = outcome.takenDown;
-        const sawyer = await dataSource.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId });
-        await sendSafely(() =>
-          sawyer
-            ? listingTakenDownMail(
-                sawyer.email,
-                sawyer.displayName,
-                listing.title,
-                input.note,
-                `${deps.config.publicUrl}/yard/listings/${listing.id}`,
-              )
-            : null,
-        );
-      }
-      if (outcome.suspended) {
-        const account = outcome.suspended;
-        await sendSafely(() => accountSuspendedMail(account.email, account.displayName, input.note));
-      }
       return (await views([await dataSource.getRepository(ContentReportEntity).findOneByOrFail({ id: reportId })]))[0]!;
     },
   };

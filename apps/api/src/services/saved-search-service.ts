@@ -5,7 +5,7 @@ import { In, IsNull, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, CatalogueEntryEntity, SavedSearchEntity, SavedSearchMatchEntity } from "../entities/index.ts";
 import { AppError, Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
-import type { Mailer } from "../integrations/mail.ts";
+import type { MailQueue } from "./mail-outbox.ts";
 import { savedSearchAlertMail } from "../mail-templates.ts";
 import { requireRole, type Actor } from "./actor.ts";
 import type { CatalogueService } from "./catalogue-service.ts";
@@ -59,7 +59,8 @@ function savedSearchIdOfToken(secret: string, token: string): string | null {
 
 export interface SavedSearchServiceDependencies {
   dataSource: DataSource;
-  mailer: Mailer;
+  /** E-mails go into the outbox inside the transaction that causes them. */
+  mail: MailQueue;
   catalogue: Pick<CatalogueService, "checkSearch" | "matchesListing">;
   config: Pick<AppConfig, "publicUrl" | "sessionSecret">;
   log: { error(object: object, message: string): void };
@@ -143,9 +144,8 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
 
   /**
    * Mails one saved search's pending matches if its daily alert is due. Inside one transaction
-   * with the saved search locked, so two callers never both send; the mail goes out before the
-   * commit, so a failed send leaves the matches pending for the next run (a failed commit after
-   * a send can repeat one e-mail: at least once, never lost).
+   * with the saved search locked, so two callers never both send; the e-mail is written into the
+   * outbox in that transaction, so it exists exactly when the matches are marked alerted.
    */
   async function sendDueAlert(savedSearchId: string, at: Date): Promise<boolean> {
     return dataSource.transaction(async (manager) => {
@@ -166,7 +166,9 @@ export function createSavedSearchService(deps: SavedSearchServiceDependencies) {
       await manager.getRepository(SavedSearchEntity).update({ id: savedSearchId }, { lastAlertAt: at });
       const owner = await manager.getRepository(AccountEntity).findOneBy({ id: search.accountId });
       if (!owner) return false;
-      await deps.mailer.send(
+      await deps.mail.queue(
+        manager,
+        "saved_search_alert",
         savedSearchAlertMail(
           owner.email,
           owner.displayName,

@@ -10,6 +10,8 @@ import { createOrderService } from "../services/order-service.ts";
 import { createOrderReviewService } from "../services/order-review-service.ts";
 import { createPayoutService } from "../services/payout-service.ts";
 import { createRefundService } from "../services/refund-service.ts";
+import { createBackgroundWork } from "../services/background-work.ts";
+import { createMailOutbox } from "../services/mail-outbox.ts";
 import { createYardService } from "../services/yard-service.ts";
 import { InMemoryPayments } from "./in-memory-payments.ts";
 import { expectLedgerBalanced } from "./payments-harness.ts";
@@ -45,13 +47,16 @@ export async function createServiceHarness(options: { holdDays?: number; autoCom
   const payments = new InMemoryPayments();
   const mailer = new InMemoryMailer();
   const log = createLogger("silent");
+  // E-mails go through the real outbox table; only the mail server at its end is in memory.
+  const background = createBackgroundWork(log);
+  const outbox = createMailOutbox({ dataSource, mailer, background, settings: config.outbox, log, now: clock.now });
   const checkoutConfig = { ...config.checkout, autoCompleteDays: options.autoCompleteDays ?? config.checkout.autoCompleteDays };
   const refunds = createRefundService({ dataSource, payments, log, now: clock.now });
   const payouts = createPayoutService({
     dataSource,
     payments,
     refunds,
-    mailer,
+    mail: outbox,
     config,
     holdDays: () => options.holdDays ?? 7,
     log,
@@ -61,15 +66,22 @@ export async function createServiceHarness(options: { holdDays?: number; autoCom
     dataSource,
     payments,
     refunds,
-    mailer,
+    mail: outbox,
     config: { publicUrl: config.publicUrl, checkout: checkoutConfig },
     log,
     now: clock.now,
     onAccountUpdated: (account, manager) => payouts.recordAccount(account, manager),
   });
-  const orders = createOrderService({ dataSource, refunds, mailer, config: { ...config, checkout: checkoutConfig }, log, now: clock.now });
+  const orders = createOrderService({
+    dataSource,
+    refunds,
+    mail: outbox,
+    config: { ...config, checkout: checkoutConfig },
+    log,
+    now: clock.now,
+  });
   const yard = createYardService({ dataSource });
-  const reviews = createOrderReviewService({ dataSource, mailer, config, log, now: clock.now });
+  const reviews = createOrderReviewService({ dataSource, mail: outbox, config, now: clock.now });
 
   let people = 0;
   /** Someone with an account (straight in the database: these tests do not sign in). */
@@ -153,7 +165,11 @@ export async function createServiceHarness(options: { holdDays?: number; autoCom
     dataSource,
     clock,
     payments,
-    mailer,
+    /** E-mails delivered to an address so far, once the prompt delivery attempts have finished. */
+    async mailsTo(address: string): Promise<OutgoingMail[]> {
+      await background.settled();
+      return mailer.to(address);
+    },
     refunds,
     checkout,
     orders,

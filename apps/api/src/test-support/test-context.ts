@@ -70,6 +70,7 @@ export async function createTestContext(options: { environment?: Record<string, 
   const storage = createPhotoStorage(config.storage);
   const payments = createPayments(config.payments);
   const app = createApp({ config, dataSource, mailer, storage, payments, logger, now: options.clock?.now });
+  const untrack = trackDeliveries(app);
 
   return {
     app,
@@ -116,6 +117,8 @@ export async function createTestContext(options: { environment?: Record<string, 
       return Object.assign(client, { account });
     },
     async close() {
+      await app.background.settled();
+      untrack();
       mailer.close();
       storage.close();
       await drop();
@@ -156,8 +159,21 @@ export async function browserClient(app: Parameters<typeof request.agent>[0], op
 
 export type BrowserClient = Awaited<ReturnType<typeof browserClient>>;
 
-/** Messages the real SMTP sink received for an address, newest first. */
+/** Apps of this test file whose prompt e-mail deliveries `mailTo` waits for. */
+const liveApps = new Set<{ background: { settled(): Promise<void> } }>();
+
+/** Lets `mailTo` wait for this app's first delivery attempts (they run after each answer); returns the undo. */
+export function trackDeliveries(app: { background: { settled(): Promise<void> } }): () => void {
+  liveApps.add(app);
+  return () => liveApps.delete(app);
+}
+
+/**
+ * Messages the real SMTP sink received for an address, newest first, once every tracked app's
+ * delivery attempts so far have finished (an e-mail leaves the outbox after the answer).
+ */
 export async function mailTo(address: string): Promise<{ subject: string; text: string }[]> {
+  await Promise.all([...liveApps].map((app) => app.background.settled()));
   const inbox = stackEnvironment().MAIL_INBOX_URL;
   const response = await fetch(`${inbox}/api/messages?to=${encodeURIComponent(address.toLowerCase())}`);
   return ((await response.json()) as { messages: { subject: string; text: string }[] }).messages;

@@ -8,6 +8,9 @@ import {
   dashboardSchema,
   marketplaceSettingsUpdateSchema,
   marketplaceSettingsViewSchema,
+  outboxEmailEnvelopeSchema,
+  outboxPageSchema,
+  outboxQuerySchema,
   reportEnvelopeSchema,
   reportInputSchema,
   reportListSchema,
@@ -36,7 +39,7 @@ export const reportEndpoints = {
   }),
 } as const;
 
-/** The operator desk: audit log, reports, people, settings, dashboard. */
+/** The operator desk: audit log, reports, people, settings, dashboard, the e-mail outbox. */
 export const adminEndpoints = {
   searchAudit: endpoint({
     method: "GET",
@@ -126,5 +129,21 @@ export const adminEndpoints = {
     summary: "The marketplace's health at a glance.",
     access: adminOnly,
     answer: z.object({ dashboard: dashboardSchema }),
+  }),
+  listOutbox: endpoint({
+    method: "GET",
+    path: `${API_PREFIX}/admin/outbox`,
+    summary: "E-mails still to go out (the default), those that could not be delivered, or the latest sent; with counts.",
+    access: adminOnly,
+    query: outboxQuerySchema,
+    answer: outboxPageSchema,
+  }),
+  resendEmail: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/admin/outbox/:emailId/resend`,
+    summary: "Send a failed or waiting e-mail again now, with a fresh round of attempts (audited).",
+    access: adminOnly,
+    answer: outboxEmailEnvelopeSchema,
+    errors: ["email_already_sent"],
   }),
 } as const;
