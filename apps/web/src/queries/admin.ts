@@ -1,18 +1,22 @@
 /**
- * The admin desk's data: the dashboard, payouts due, reports, the people search, the review desk
- * and the marketplace settings. Each decision is a mutation that marks what it changed as stale,
+ * The admin desk's data: the dashboard, payouts due, reports, the people search, the review desk,
+ * buyers' reviews, the e-mail outbox and the marketplace settings. Each decision is a mutation that marks what it changed as stale,
  * so every list that shows it asks again.
  */
 import { toValue, type MaybeRefOrGetter } from "vue";
 import { useMutation, useQuery, useQueryCache } from "@pinia/colada";
 import {
   adminEndpoints,
+  orderReviewEndpoints,
   payoutEndpoints,
   reviewEndpoints,
   type AdminUser,
   type Answer,
   type Dashboard,
   type MarketplaceSettings,
+  type OrderReview,
+  type OutboxPage,
+  type OutboxQuery,
   type Report,
   type ReviewDeskItem,
   type reportResolutions,
@@ -151,5 +155,63 @@ export function useUpdateSettings() {
   return useMutation({
     mutation: (body: Partial<MarketplaceSettings> & { reason: string }) => client.updateSettings({ body }).catch(rethrow),
     onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.settings }),
+  });
+}
+
+/** Buyers' reviews for the desk: the visible ones ("no") or the hidden ones ("yes"). */
+export function useBuyerReviews(hidden: MaybeRefOrGetter<"yes" | "no">) {
+  const client = useClient(orderReviewEndpoints);
+  return useQuery<OrderReview[], ApiRequestError>({
+    key: () => queryKeys.admin.buyerReviews(toValue(hidden)),
+    query: ({ signal }) =>
+      client
+        .listReviews({ query: { hidden: toValue(hidden) } }, { signal })
+        .then((answer) => answer.reviews)
+        .catch(rethrow),
+  });
+}
+
+/** Hide a review, or show a hidden one again, for a stated reason. Both lists and the yard pages change. */
+export function useHideOrShowReview() {
+  const client = useClient(orderReviewEndpoints);
+  const cache = useQueryCache();
+  return useMutation({
+    mutation: (input: { reviewId: string; action: "hide" | "show"; reason: string }) =>
+      (input.action === "hide"
+        ? client.hideReview({ reviewId: input.reviewId, body: { reason: input.reason } })
+        : client.showReview({ reviewId: input.reviewId, body: { reason: input.reason } })
+      ).catch(rethrow),
+    onSettled: () => {
+      void cache.invalidateQueries({ key: queryKeys.admin.buyerReviewsAll });
+      // A yard's page shows its reviews and rating.
+      void cache.invalidateQueries({ key: ["catalogue", "yard"] });
+    },
+  });
+}
+
+export type OutboxStatus = NonNullable<OutboxQuery["status"]>;
+
+/** The e-mail outbox: waiting, failed or lately sent e-mails, with the counts of the first two. */
+export function useOutbox(status: MaybeRefOrGetter<OutboxStatus>) {
+  const client = useClient(adminEndpoints);
+  return useQuery<OutboxPage, ApiRequestError>({
+    key: () => queryKeys.admin.outbox(toValue(status)),
+    query: ({ signal }) => client.listOutbox({ query: { status: toValue(status) } }, { signal }).catch(rethrow),
+    // The counts stay on the chips while another list is on its way.
+    placeholderData: (previous) => previous,
+  });
+}
+
+/** Send a waiting or failed e-mail again now; every outbox list asks again afterwards. */
+export function useResendEmail() {
+  const client = useClient(adminEndpoints);
+  const cache = useQueryCache();
+  return useMutation({
+    mutation: (emailId: string) =>
+      client
+        .resendEmail({ emailId })
+        .then((answer) => answer.email)
+        .catch(rethrow),
+    onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.outboxAll }),
   });
 }

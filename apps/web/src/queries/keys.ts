@@ -35,6 +35,10 @@ export const queryKeys = {
     reports: (status: string) => ["admin", "reports", status] as const,
     users: (filters: Record<string, string | undefined>) => ["admin", "users", filters] as const,
     reviewDesk: ["admin", "review-desk"] as const,
+    buyerReviewsAll: ["admin", "buyer-reviews"] as const,
+    buyerReviews: (hidden: string) => ["admin", "buyer-reviews", hidden] as const,
+    outboxAll: ["admin", "outbox"] as const,
+    outbox: (status: string) => ["admin", "outbox", status] as const,
   },
   payouts: {
     all: ["payouts"] as const,
