@@ -17,6 +17,19 @@ export const queryKeys = {
     /** A yard's public page (its live slabs are catalogue cards, so it lives with the catalogue). */
     yard: (slug: string) => ["catalogue", "yard", slug] as const,
     places: (text: string) => ["catalogue", "places", text.trim().toLowerCase()] as const,
+    /** The marketplace's fees in force. */
+    fees: ["catalogue", "fees"] as const,
+  },
+  /** The signed-in sawyer's own yard (private: forgotten when the account changes). */
+  yard: {
+    all: ["yard"] as const,
+    profile: ["yard", "profile"] as const,
+    logs: ["yard", "logs"] as const,
+    slabs: ["yard", "slabs"] as const,
+    listings: ["yard", "listings"] as const,
+    log: (logId: string) => ["yard", "log", logId] as const,
+    slab: (slabId: string) => ["yard", "slab", slabId] as const,
+    listing: (listingId: string) => ["yard", "listing", listingId] as const,
   },
   messages: {
     all: ["messages"] as const,
@@ -49,3 +62,11 @@ export const queryKeys = {
     quote: (listingId: string) => ["checkout", "quote", listingId] as const,
   },
 } as const;
+
+/** Domains whose answers are the same for everyone; every other answer belongs to the signed-in person. */
+const PUBLIC_DOMAINS: readonly string[] = ["catalogue", "checkout"];
+
+/** True for a key whose answer is someone's own (their yard, orders, messages, the admin desk). */
+export function isPersonalKey(key: readonly unknown[]): boolean {
+  return !PUBLIC_DOMAINS.includes(String(key[0]));
+}

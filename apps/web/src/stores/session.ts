@@ -1,8 +1,10 @@
 import { defineStore } from "pinia";
+import { useQueryCache } from "@pinia/colada";
 import { computed, ref } from "vue";
 import type { Account, Role, SessionState, SignInInput } from "@grainyard/contracts";
 import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
 import { accountsApi } from "../api/accounts.ts";
+import { isPersonalKey } from "../queries/keys.ts";
 
 /** Where each role lands after signing in. */
 export const roleHome: Record<Role, string> = {
@@ -27,7 +29,13 @@ export const useSessionStore = defineStore("session", () => {
   const isAdmin = computed(() => role.value === "admin");
   const homePath = computed(() => (role.value ? roleHome[role.value] : "/"));
 
+  const queryCache = useQueryCache();
+
   function apply(state: SessionState) {
+    // Someone else now (signed out, or another account): nothing of the last person's stays in memory.
+    if ((account.value?.id ?? null) !== (state.account?.id ?? null)) {
+      for (const entry of queryCache.getEntries()) if (isPersonalKey(entry.key)) queryCache.remove(entry);
+    }
     account.value = state.account;
     csrfToken.value = state.csrfToken;
     status.value = "ready";
