@@ -51,13 +51,18 @@ export function useOwnYard() {
 export function useUpdateYard() {
   const client = useClient(accountEndpoints);
   const changed = useYardChanged();
+  const cache = useQueryCache();
   return useMutation({
     mutation: (input: { sawyerId: string; body: YardProfileUpdateInput }) =>
       client
         .updateYard({ sawyerId: input.sawyerId, body: input.body })
         .then((answer) => answer.account)
         .catch(rethrow),
-    onSettled: changed,
+    onSettled: () => {
+      void changed();
+      // The yard's public page and the cards' yard names follow.
+      void cache.invalidateQueries({ key: queryKeys.catalogue.all }, false);
+    },
   });
 }
 
