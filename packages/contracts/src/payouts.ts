@@ -62,12 +62,25 @@ export const sawyerBalanceSchema = z.object({
 });
 export type SawyerBalance = z.infer<typeof sawyerBalanceSchema>;
 
+/** One sale's money still on hold, and when it becomes available. */
+export const pendingSaleSchema = z.object({
+  orderId: z.string(),
+  listingTitle: z.string(),
+  currency: z.string(),
+  amountMinor: z.number().int(),
+  /** When the hold ends (hand-over plus the hold days); null until the slab is handed over. */
+  availableFrom: z.string().nullable(),
+});
+export type PendingSale = z.infer<typeof pendingSaleSchema>;
+
 export const sawyerPayoutsSchema = z.object({
   account: z.object({ state: z.enum(payoutAccountStates), updatedAt: z.string().nullable() }),
   /** Plain words on why money cannot be sent yet, or null when nothing stands in the way. */
   blockedReason: z.string().nullable(),
   holdDays: z.number().int(),
   balances: z.array(sawyerBalanceSchema),
+  /** The pending balance sale by sale, soonest available first (not yet handed over last). */
+  pending: z.array(pendingSaleSchema),
   payouts: z.array(payoutSchema),
 });
 export type SawyerPayouts = z.infer<typeof sawyerPayoutsSchema>;

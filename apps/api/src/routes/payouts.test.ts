@@ -195,10 +195,23 @@ describe("payouts to sawyers", () => {
     const net = netOf(120_000); // 120 000 − 12 000 − (3 480 + 30) = 104 490
     expect(net).toBe(104_490);
     expect(await balanceOf(sawyer)).toEqual({ currency: "USD", pendingMinor: net, availableMinor: 0, paidMinor: 0 });
+    // Not handed over yet: no date to give.
+    expect((await sawyer.get("/api/v1/yard/payouts")).body.pending).toMatchObject([{ orderId, amountMinor: net, availableFrom: null }]);
     await sawyer.post(`/api/v1/orders/${orderId}/shipment`, { carrier: "Lakeshore Freight Lines", trackingReference: "LFL-77120" });
     await sawyer.post(`/api/v1/orders/${orderId}/handed-over`);
     clock.advance(6 * DAY); // inside the hold
     expect(await balanceOf(sawyer)).toMatchObject({ pendingMinor: net, availableMinor: 0 });
+    // The pending money says when it becomes available: the hand-over plus the 7 hold days.
+    const handedOverAt = (await sawyer.get(`/api/v1/orders/${orderId}`)).body.order.steps.handedOverAt as string;
+    expect((await sawyer.get("/api/v1/yard/payouts")).body.pending).toEqual([
+      {
+        orderId,
+        listingTitle: expect.any(String),
+        currency: "USD",
+        amountMinor: net,
+        availableFrom: new Date(Date.parse(handedOverAt) + 7 * DAY).toISOString(),
+      },
+    ]);
     expect(await dueFor(admin, sawyer.account.id)).toEqual([]);
     clock.advance(1 * DAY + 60_000); // hold over
     expect(await balanceOf(sawyer)).toMatchObject({ pendingMinor: 0, availableMinor: net });
@@ -238,6 +251,7 @@ describe("payouts to sawyers", () => {
 
     const mine = await sawyer.get("/api/v1/yard/payouts");
     expect(mine.body.balances[0]).toEqual({ currency: "USD", pendingMinor: 0, availableMinor: 0, paidMinor: net });
+    expect(mine.body.pending).toEqual([]);
     expect(mine.body.payouts).toMatchObject([{ status: "sent", amountMinor: net, lines: [{ orderId }] }]);
     await until(async () => (await mailTo(sawyer.account.email)).some((m) => /^Grainyard sent you \$1,044\.90/.test(m.subject)));
 

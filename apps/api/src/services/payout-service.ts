@@ -10,6 +10,7 @@ import type {
   PayoutLine,
   PayoutsDue,
   SawyerBalance,
+  PendingSale,
   SawyerPayouts,
   PayoutAccountState,
 } from "@grainyard/contracts";
@@ -367,6 +368,21 @@ export function createPayoutService(deps: {
     }));
   }
 
+  /** The pending balance sale by sale, with the day each one's hold ends (soonest first; not handed over yet last). */
+  async function pendingOf(manager: EntityManager, sawyerId: string, at: Date): Promise<PendingSale[]> {
+    const holdMs = deps.holdDays() * DAY_MS;
+    return (await owedByOrder(manager, sawyerId, at))
+      .filter((row) => !row.released)
+      .map((row) => ({
+        orderId: row.orderId,
+        listingTitle: row.listingTitle,
+        currency: row.currency,
+        amountMinor: row.owedMinor,
+        availableFrom: row.handedOverAt ? new Date(row.handedOverAt.getTime() + holdMs).toISOString() : null,
+      }))
+      .sort((a, b) => (a.availableFrom ?? "~").localeCompare(b.availableFrom ?? "~") || a.orderId.localeCompare(b.orderId));
+  }
+
   return {
     /** The sawyer's payouts page: account state, balances, past payouts. */
     async mine(actor: Actor): Promise<SawyerPayouts> {
@@ -382,6 +398,7 @@ export function createPayoutService(deps: {
         blockedReason: blockedReason(state),
         holdDays: deps.holdDays(),
         balances: await balancesOf(manager, sawyer.accountId, now()),
+        pending: await pendingOf(manager, sawyer.accountId, now()),
         payouts: await present(manager, payouts),
       };
     },

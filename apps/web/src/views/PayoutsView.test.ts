@@ -19,6 +19,7 @@ const page = (state: "none" | "unfinished" | "ready", over: object = {}) => ({
   blockedReason: state === "ready" ? null : "Set up a payout account so Grainyard can send you money.",
   holdDays: 7,
   balances: [],
+  pending: [],
   payouts: [],
   ...over,
 });
@@ -86,6 +87,16 @@ describe("PayoutsView", () => {
             status: 200,
             body: page("ready", {
               balances: [{ currency: "USD", pendingMinor: 5_000, availableMinor: 0, paidMinor: 226_200 }],
+              pending: [
+                {
+                  orderId: "o2",
+                  listingTitle: "Cherry slab 4",
+                  currency: "USD",
+                  amountMinor: 3_000,
+                  availableFrom: "2026-12-12T10:00:00.000Z",
+                },
+                { orderId: "o3", listingTitle: "Ash slab 1", currency: "USD", amountMinor: 2_000, availableFrom: null },
+              ],
               payouts: [payout],
             }),
           },
@@ -96,6 +107,10 @@ describe("PayoutsView", () => {
     expect(wrapper.find('[data-test="balance-paid"]').text()).toBe("$2,262.00");
     expect(wrapper.find('[data-test="payout-status"]').text()).toBe("Paid out");
     expect(wrapper.find('[data-test="payout-lines"]').text()).toContain("Bookmatched black walnut pair");
+    // Each pending sale says when its money becomes available.
+    const pending = wrapper.findAll('[data-test="pending-sales"] li').map((item) => item.text());
+    expect(pending[0]).toMatch(/Cherry slab 4.*Available Dec 12, 2026.*\$30\.00/);
+    expect(pending[1]).toMatch(/Ash slab 1.*once the slab is handed over.*\$20\.00/);
   });
 
   it("shows an error with a retry when the page cannot load", async () => {
