@@ -152,3 +152,24 @@ export const photoAltTextSchema = z.object({ altText: z.string().trim().max(300,
 export const photoOrderSchema = z.object({ photoIds: z.array(z.string()).min(1).max(12) });
 
 export const MAX_PHOTOS_PER_LISTING = 12;
+
+/** 25 MB: a full-resolution phone photo is 2–12 MB; anything bigger is not a photo from a phone. */
+export const MAX_PHOTO_BYTES = 25 * 1024 * 1024;
+export const ACCEPTED_PHOTO_FORMATS_TEXT = "JPEG, PNG, WebP or HEIC";
+/** What a browser may call a photo the API takes (HEIC often comes with no type at all). */
+const PHOTO_TYPES = ["image/jpeg", "image/png", "image/webp", "image/heic", "image/heif", ""];
+const PHOTO_NAME = /\.(jpe?g|png|webp|hei[cf])$/i;
+
+/**
+ * Why a picked file will not be taken, checked in the browser before anything is sent (the API
+ * checks the bytes again); null when it may go up. A file with no type is judged by its name.
+ */
+export function photoFileProblem(file: { name: string; size: number; type: string }): string | null {
+  if (file.size === 0) return `“${file.name}” is empty; choose a photo.`;
+  if (file.size > MAX_PHOTO_BYTES)
+    return `“${file.name}” is ${(file.size / (1024 * 1024)).toFixed(1)} MB; photos can be at most ${MAX_PHOTO_BYTES / (1024 * 1024)} MB.`;
+  const type = file.type.toLowerCase();
+  if (!PHOTO_TYPES.includes(type) || (type === "" && !PHOTO_NAME.test(file.name)))
+    return `“${file.name}” is not a photo we can take; photos must be ${ACCEPTED_PHOTO_FORMATS_TEXT}.`;
+  return null;
+}

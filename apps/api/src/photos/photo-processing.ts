@@ -12,9 +12,9 @@
  */
 import sharp, { type Metadata, type ResizeOptions, type Sharp } from "sharp";
 import { AppError } from "../errors.ts";
+import { ACCEPTED_PHOTO_FORMATS_TEXT, MAX_PHOTO_BYTES } from "@grainyard/contracts";
 
-/** 25 MB: a full-resolution phone photo is 2–12 MB; anything bigger is not a photo from a phone. */
-export const MAX_PHOTO_BYTES = 25 * 1024 * 1024;
+export { MAX_PHOTO_BYTES };
 /** 40 MP: room for 12–24 MP phone cameras and 36 MP cameras; 48 MP "max" modes must be exported smaller. */
 export const MAX_PHOTO_MEGAPIXELS = 40;
 const MAX_PHOTO_PIXELS = MAX_PHOTO_MEGAPIXELS * 1_000_000;
@@ -128,7 +128,7 @@ export function sniffFormat(bytes: Buffer): SniffResult {
   return { kind: "unknown" };
 }
 
-const ACCEPTED_FORMATS_TEXT = "JPEG, PNG, WebP or HEIC";
+const ACCEPTED_FORMATS_TEXT = ACCEPTED_PHOTO_FORMATS_TEXT;
 
 function checkFileSize(bytes: Buffer): void {
   if (bytes.length > MAX_PHOTO_BYTES) {
