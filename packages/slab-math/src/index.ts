@@ -118,6 +118,8 @@ export {
   WIDTH_STEP_RATIO_LIMIT,
   FIGURE_TOLERANCE_FRACTION,
   plausibilityWarnings,
+  listedSlabWarnings,
+  type ListedSlab,
   type PlausibilityCode,
   type PlausibilitySlab,
   type PlausibilityWarning,

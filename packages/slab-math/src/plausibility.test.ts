@@ -3,6 +3,7 @@ import { describe, expect, it } from "vitest";
 import {
   KILN_DRIED_HIGHEST_PLAUSIBLE_PCT,
   LOWEST_PLAUSIBLE_MOISTURE_PCT,
+  listedSlabWarnings,
   plausibilityWarnings,
   type PlausibilitySlab,
 } from "./plausibility.ts";
@@ -90,5 +91,26 @@ describe("plausibilityWarnings", () => {
 
   it("an unknown species is reported rather than thrown", () => {
     expect(codes([slab({ speciesSlug: "dragon-wood", statedWeightKg: 10 })])).toEqual(["unknown_species"]);
+  });
+});
+
+describe("listedSlabWarnings (a saved slab with its stored figures, as the desk and the listing form check it)", () => {
+  it("compares the stored figures with the measurements: the 2 × 12 × 96 in board of 16 bf (the board-foot definition: in³ / 144)", () => {
+    const inch = 25.4;
+    const saved = {
+      speciesSlug: "white-oak",
+      lengthMm: 96 * inch,
+      thicknessMm: 2 * inch,
+      widthStationsMm: [12 * inch, 12 * inch],
+      dryingMethod: "kiln" as const,
+      lastMoisturePct: 8,
+      figures: { boardFeet: 16, weightKg: 0 },
+    };
+    // The weight of 0 is far outside white oak's range; 16 bf matches.
+    expect(listedSlabWarnings([saved]).map((w) => w.code)).toEqual(["weight_outside_species_range"]);
+    expect(listedSlabWarnings([{ ...saved, figures: { boardFeet: 20, weightKg: 0 } }]).map((w) => w.code)).toEqual([
+      "board_feet_mismatch",
+      "weight_outside_species_range",
+    ]);
   });
 });

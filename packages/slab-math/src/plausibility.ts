@@ -158,3 +158,34 @@ export function plausibilityWarnings(
   });
   return warnings;
 }
+
+/** A slab as the API shows it: its measurements and the figures worked out for it when it was saved. */
+export interface ListedSlab {
+  speciesSlug: string;
+  lengthMm: number;
+  thicknessMm: number;
+  widthStationsMm: number[];
+  dryingMethod: PlausibilitySlab["dryingMethod"];
+  lastMoisturePct: number | null;
+  figures: { boardFeet: number; weightKg: number };
+}
+
+/**
+ * The same checks for saved slabs, their stored figures compared with what the measurements give:
+ * the review desk shows these, and the sawyer sees them on the listing form before sending it.
+ */
+export function listedSlabWarnings(slabs: readonly ListedSlab[], options: { moistureAssumedPct?: number } = {}): PlausibilityWarning[] {
+  return plausibilityWarnings(
+    slabs.map((slab) => ({
+      speciesSlug: slab.speciesSlug,
+      lengthMm: slab.lengthMm,
+      thicknessMm: slab.thicknessMm,
+      widthStationsMm: slab.widthStationsMm,
+      dryingMethod: slab.dryingMethod,
+      lastMoisturePct: slab.lastMoisturePct,
+      statedBoardFeet: slab.figures.boardFeet,
+      statedWeightKg: slab.figures.weightKg,
+    })),
+    options,
+  );
+}

@@ -11,7 +11,7 @@ import type {
   SendBackInput,
 } from "@grainyard/contracts";
 import { listingEndpoints, listingInputSchema, pathOf } from "@grainyard/contracts";
-import { NIOSH_LOAD_CONSTANT_KG, plausibilityWarnings, type FeeSettings } from "@grainyard/slab-math";
+import { NIOSH_LOAD_CONSTANT_KG, listedSlabWarnings, type FeeSettings } from "@grainyard/slab-math";
 import { In, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { AccountEntity, ListingEntity, ListingPhotoEntity, ListingReviewEntity, ListingSlabEntity, SlabEntity } from "../entities/index.ts";
@@ -356,19 +356,7 @@ export function createListingService(deps: ListingServiceDependencies) {
             dataSource.getRepository(AccountEntity).findOneByOrFail({ id: entity.sawyerId }),
             dataSource.getRepository(ListingReviewEntity).findOne({ where: { listingId: entity.id }, order: { reviewedAt: "DESC" } }),
           ]);
-          const warnings = plausibilityWarnings(
-            listing.slabs.map((s) => ({
-              speciesSlug: s.speciesSlug,
-              lengthMm: s.lengthMm,
-              thicknessMm: s.thicknessMm,
-              widthStationsMm: s.widthStationsMm,
-              dryingMethod: s.dryingMethod,
-              lastMoisturePct: s.lastMoisturePct,
-              statedBoardFeet: s.figures.boardFeet,
-              statedWeightKg: s.figures.weightKg,
-            })),
-            { moistureAssumedPct: DEFAULT_WEIGHT_MOISTURE_PCT },
-          );
+          const warnings = listedSlabWarnings(listing.slabs, { moistureAssumedPct: DEFAULT_WEIGHT_MOISTURE_PCT });
           return {
             listing,
             sawyer: { id: sawyer.id, displayName: sawyer.displayName, email: sawyer.email, suspended: sawyer.suspendedAt !== null },
