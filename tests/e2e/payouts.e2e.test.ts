@@ -190,7 +190,7 @@ describe("payouts", () => {
     await desk.goto(`${appUrl}/orders/${orderId}`);
     const refund = desk.locator('[data-test="dispute-refund"]');
     await expect.poll(() => refund.locator('[data-test="refund-amount"]').isVisible(), { timeout: 15_000 }).toBe(true);
-    const total = (await desk.locator('[data-test="order-sum"] .order-view__total dd').first().innerText()).trim();
+    const total = (await desk.locator('[data-test="order-total"]').innerText()).trim();
     expect(await refund.locator('[data-test="refund-amount"]').inputValue()).toBe(total.replace(/[$,]/g, ""));
     await refund.locator('[data-test="refund-amount"]').fill("150");
     await refund.locator('[data-test="refund-reason"]').fill("A crack under the crotch figure was not shown in the photos.");

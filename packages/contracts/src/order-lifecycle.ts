@@ -28,7 +28,8 @@ export const orderStatuses = [
 export type OrderStatus = (typeof orderStatuses)[number];
 
 export const orderStatusLabels: Record<OrderStatus, string> = {
-  awaiting_payment: "Payment being confirmed",
+  // The buyer holds the slab while on the payment page; they may leave it without paying.
+  awaiting_payment: "Waiting for payment",
   paid: "Paid",
   ready_for_pickup: "Ready for pickup",
   shipped: "Shipped",
@@ -39,6 +40,13 @@ export const orderStatusLabels: Record<OrderStatus, string> = {
   expired: "Reservation ran out",
   refunded: "Refunded",
 };
+
+/**
+ * An order still awaiting payment whose buyer came back from the payment page having paid: the
+ * provider's word has not arrived yet. Only the order page knows this (the provider sends the
+ * buyer back to it with `?paid=1`); everywhere else the status's own label applies.
+ */
+export const paymentConfirmingLabel = "Payment being confirmed";
 
 /** Who moves an order: its buyer, its sawyer, an admin, or Grainyard itself (provider events, sweeps). */
 export type OrderParty = "buyer" | "sawyer" | "admin" | "system";

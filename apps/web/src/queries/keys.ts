@@ -56,10 +56,28 @@ export const queryKeys = {
   payouts: {
     all: ["payouts"] as const,
     due: ["payouts", "due"] as const,
+    /** The desk's payouts sent and tried, filtered by status ("" for all). */
+    list: (status: string) => ["payouts", "list", status] as const,
   },
   checkout: {
     /** The price with tax for one listing (the same for everyone). */
     quote: (listingId: string) => ["checkout", "quote", listingId] as const,
+  },
+  orders: {
+    all: ["orders"] as const,
+    /** The reader's orders: a buyer's, a sawyer's sales, or every order for an admin (the account is part of the key). */
+    list: (accountId: string) => ["orders", "list", accountId] as const,
+    /** One order as its reader sees it (the order page and its receipt share it). */
+    order: (orderId: string) => ["orders", "order", orderId] as const,
+    /** An admin's view of a paid order's dispute refunds. */
+    disputeRefund: (orderId: string) => ["orders", "dispute-refund", orderId] as const,
+  },
+  reviews: {
+    all: ["reviews"] as const,
+    /** A completed order's review and what the reader may do with it. */
+    order: (orderId: string) => ["reviews", "order", orderId] as const,
+    /** A yard's visible reviews, newest first, in keyset pages. */
+    yard: (sawyerId: string, pageSize: number) => ["reviews", "yard", sawyerId, pageSize] as const,
   },
 } as const;
 

@@ -102,7 +102,10 @@ describe("AdminPayoutsView", () => {
           { status: 200, body: { due: [dueItem(226_200, "k1")], holdDays: 7 } },
           { status: 200, body: { due: [dueItem(180_000, "k2")], holdDays: 7 } },
         ],
-        [`GET ${payoutEndpoints.listPayouts.path}`]: [{ status: 200, body: { payouts: [] } }],
+        [`GET ${payoutEndpoints.listPayouts.path}`]: [
+          { status: 200, body: { payouts: [] } },
+          { status: 200, body: { payouts: [] } },
+        ],
         [`POST ${payoutEndpoints.approvePayout.path}`]: [
           { status: 409, body: { error: { code: "payout_changed", message: "This payout changed since the list was loaded." } } },
         ],

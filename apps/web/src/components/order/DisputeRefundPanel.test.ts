@@ -1,5 +1,7 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { flushPromises, mount } from "@vue/test-utils";
+import { createPinia } from "pinia";
+import { PiniaColada } from "@pinia/colada";
 import { payoutEndpoints, pathOf, type Order } from "@grainyard/contracts";
 import DisputeRefundPanel from "./DisputeRefundPanel.vue";
 import { transport } from "../../api/http.ts";
@@ -30,6 +32,8 @@ function stub(answers: { method: string; status: number; body: unknown }[]) {
   transport.useFetch(fetchMock as unknown as typeof fetch);
   return fetchMock;
 }
+const mountPanel = () =>
+  mount(DisputeRefundPanel, { props: { order }, global: { plugins: [createPinia(), PiniaColada] }, attachTo: document.body });
 const click = async (selector: string) => {
   (document.querySelector(selector) as HTMLElement).click();
   await flushPromises();
@@ -46,7 +50,7 @@ describe("DisputeRefundPanel", () => {
       { method: "POST", status: 200, body: { refundedMinor: 50_000, refundableMinor: 50_000 } },
       { method: "GET", status: 200, body: state(50_000) },
     ]);
-    const wrapper = mount(DisputeRefundPanel, { props: { order }, attachTo: document.body });
+    const wrapper = mountPanel();
     await flushPromises();
     expect((wrapper.find('[data-test="refund-amount"]').element as HTMLInputElement).value).toBe("800.00");
     expect(wrapper.text()).toContain("A check at one end was not shown.");
@@ -71,12 +75,14 @@ describe("DisputeRefundPanel", () => {
     expect(String(post[0])).toBe(pathOf(payoutEndpoints.disputeRefund, { orderId }));
     expect(JSON.parse(String(post[1]!.body))).toEqual({ amountMinor: 30_000, reason: "The slab arrived with a split along one edge." });
     expect(wrapper.find('[data-test="refund-result"]').text()).toMatch(/\$500\.00 of \$1,000\.00.*\$500\.00 is left.*e-mailed/);
-    expect(wrapper.emitted("refunded")).toHaveLength(1);
+    // The refunds were asked again: the sum under the result is the new one.
+    expect(fetchMock.mock.calls.filter(([, init]) => (init?.method ?? "GET") === "GET")).toHaveLength(2);
+    expect(wrapper.find('[data-test="refund-sum"]').text()).toMatch(/refunded \$500\.00.*left \$500\.00/);
   });
 
   it("says so when nothing is left to refund", async () => {
     stub([{ method: "GET", status: 200, body: state(100_000) }]);
-    const wrapper = mount(DisputeRefundPanel, { props: { order }, attachTo: document.body });
+    const wrapper = mountPanel();
     await flushPromises();
     expect(wrapper.find("form").exists()).toBe(false);
     expect(wrapper.find('[data-test="refund-none"]').text()).toContain("Everything paid on this order has been refunded");

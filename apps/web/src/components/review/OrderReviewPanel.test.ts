@@ -6,6 +6,7 @@ import { orderReviewEndpoints, pathOf, type Order, type OrderReview } from "@gra
 import { transport } from "../../api/http.ts";
 import { createGrainyardRouter } from "../../router.ts";
 import { useSessionStore } from "../../stores/session.ts";
+import { appPlugins } from "../../test/app-plugins.ts";
 import { buyerAccount, sawyerAccount } from "../../test/fixtures.ts";
 import OrderReviewPanel from "./OrderReviewPanel.vue";
 
@@ -62,7 +63,7 @@ async function mountPanel(account: unknown, viewerIs: Order["viewerIs"], answers
   await router.isReady();
   const wrapper = mount(OrderReviewPanel, {
     props: { order: order(viewerIs) },
-    global: { plugins: [pinia, router] },
+    global: { plugins: appPlugins(pinia, router) },
     attachTo: document.body,
   });
   await flushPromises();
