@@ -4,6 +4,7 @@ import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { getObjectBytes } from "../photos/index.ts";
+import { DISPLAY_SIZES } from "../photos/photo-processing.ts";
 import { createTestContext, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -94,7 +95,8 @@ describe("no location in any stored file", () => {
     expect(res.status).toBe(201);
     const photoId = res.body.photo.id as string;
     expect(await expectNoLocationUnder(`originals/${listing.id}/`)).toEqual([`originals/${listing.id}/${photoId}`]);
-    expect(await expectNoLocationUnder(`display/${listing.id}/`)).toHaveLength(2);
+    // Every display size (small, medium, large), each checked.
+    expect(await expectNoLocationUnder(`display/${listing.id}/`)).toHaveLength(DISPLAY_SIZES.length);
     const client = storage();
     const original = (await getObjectBytes(client.client, client.bucket, `originals/${listing.id}/${photoId}`))!;
     client.close();
@@ -119,6 +121,6 @@ describe("no location in any stored file", () => {
     expect(res.status).toBe(201);
     const keys = await expectNoLocationUnder(`logs/${log.id}/`);
     expect(keys).toContain(`logs/${log.id}/${res.body.photo.id}/original`);
-    expect(keys).toHaveLength(3);
+    expect(keys).toHaveLength(1 + DISPLAY_SIZES.length);
   });
 });

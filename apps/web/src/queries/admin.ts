@@ -183,8 +183,9 @@ export function useHideOrShowReview() {
       ).catch(rethrow),
     onSettled: () => {
       void cache.invalidateQueries({ key: queryKeys.admin.buyerReviewsAll });
-      // A yard's page shows its reviews and rating.
+      // A yard's page shows its reviews and rating; an order shows its review.
       void cache.invalidateQueries({ key: ["catalogue", "yard"] });
+      void cache.invalidateQueries({ key: ["reviews"] });
     },
   });
 }

@@ -40,9 +40,15 @@ describe("session store", () => {
     expect(cache.getQueryData(queryKeys.catalogue.listing("listing-1"))).toEqual({ title: "Oak" });
     expect(cache.getQueryData(queryKeys.checkout.quote("listing-1"))).toEqual({ totalMinor: 100 });
 
-    cache.setQueryData(queryKeys.admin.dashboard, { open: 1 });
+    // From no one to someone: nothing to forget.
     answerAs(buyerAccount);
     await session.signIn({ email: buyerAccount.email, password: "long enough password" });
-    expect(cache.getQueryData(queryKeys.admin.dashboard)).toBeUndefined();
+    expect(cache.getQueryData(queryKeys.catalogue.listing("listing-1"))).toEqual({ title: "Oak" });
+
+    // Another person signs in on the same tab: the buyer's answers go.
+    cache.setQueryData(queryKeys.messages.threads(buyerAccount.id), [{ id: "thread-1" }]);
+    answerAs(sawyerAccount);
+    await session.signIn({ email: sawyerAccount.email, password: "long enough password" });
+    expect(cache.getQueryData(queryKeys.messages.threads(buyerAccount.id))).toBeUndefined();
   });
 });

@@ -33,7 +33,8 @@ export const useSessionStore = defineStore("session", () => {
 
   function apply(state: SessionState) {
     // Someone else now (signed out, or another account): nothing of the last person's stays in memory.
-    if ((account.value?.id ?? null) !== (state.account?.id ?? null)) {
+    // (From no one to someone there is nothing to forget, and the page's hydrated answers stay.)
+    if (account.value && account.value.id !== state.account?.id) {
       for (const entry of queryCache.getEntries()) if (isPersonalKey(entry.key)) queryCache.remove(entry);
     }
     account.value = state.account;
