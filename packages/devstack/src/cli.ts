@@ -10,6 +10,7 @@ import { waitUntil } from "./ports.ts";
 import { nodeWithTsx, runStep, startProcess, tail } from "./processes.ts";
 import { profileFor, repoRoot } from "./profile.ts";
 import { replicaWanted, startReplica } from "./replica.ts";
+import { stopLeftoverMariadb } from "./mariadb.ts";
 import { startStack, writeEnvironmentFile, type RunningStack } from "./stack.ts";
 import { printSummary, runTestSuites, summaryExitCode } from "./test-run.ts";
 import { buildWebIfStale, webDist } from "./web-build.ts";
@@ -39,7 +40,11 @@ async function serve(lifecycle: Lifecycle, mode: "start" | "dev"): Promise<"runn
   const extraPorts = mode === "dev" ? [{ port: profile.ports.vite, purpose: "Vite hot-reload socket" }] : [];
   const wanted = mode === "start" ? instanceCount() : 1;
   const replicated = mode === "start" && replicaWanted();
-  if (replicated) extraPorts.push({ port: profile.ports.replica, purpose: "MariaDB read replica" });
+  if (replicated) {
+    // A replica left running by a start that was killed holds its port: shut it down first (it is made afresh anyway).
+    await stopLeftoverMariadb(join(profile.dataDir, "mariadb-replica"));
+    extraPorts.push({ port: profile.ports.replica, purpose: "MariaDB read replica" });
+  }
   if (wanted > 1)
     for (const [index, port] of instancePorts(profile.ports.app, wanted).entries())
       extraPorts.push({ port, purpose: `API instance api-${index + 1}` });
