@@ -32,6 +32,7 @@ import { buyerHandlers } from "./routes/buyer-routes.ts";
 import { messageHandlers } from "./routes/message-routes.ts";
 import { createDomainEvents } from "./events.ts";
 import { createSharedInvalidation } from "./jobs/shared-invalidation.ts";
+import { createReplicaReads } from "./db/read-replica.ts";
 import { createHealthService } from "./services/health-service.ts";
 import { createBackgroundWork } from "./services/background-work.ts";
 import { createMailOutbox } from "./services/mail-outbox.ts";
@@ -106,10 +107,14 @@ export function createApp(appDeps: AppDependencies) {
     }),
   );
 
+  // The catalogue search, visitors' slab pages, yard pages and sitemaps read from a MariaDB read replica
+  // when one is configured (DATABASE_REPLICA_HOST); every write and every other read goes to the primary.
+  const reads = createReplicaReads(deps.dataSource, logger);
   const catalogue = createCatalogueService({
     dataSource: deps.dataSource,
     cursorSecret: config.sessionSecret,
     cache: config.catalogueCache,
+    reads,
   });
   // Admin-editable settings (fees, reservation minutes, tax, hold days) from the database, with the env values as defaults.
   const settings = createSettingsService({ dataSource: deps.dataSource, config, now: deps.now });
@@ -243,6 +248,7 @@ export function createApp(appDeps: AppDependencies) {
   // through any of them (a version row in MariaDB, polled by each; main.ts starts and stops the timer).
   const catalogueVersion = createSharedInvalidation({
     dataSource: deps.dataSource,
+    reads,
     logger,
     name: "catalogue",
     onChange: catalogue.forgetCached,
@@ -261,7 +267,7 @@ export function createApp(appDeps: AppDependencies) {
     catalogue: catalogueHandlers(catalogue, settings),
     orders: orderHandlers(checkout, orders, deps.payments),
     orderReviews: orderReviewHandlers(orderReviews),
-    yardPages: yardPageHandlers(createYardPageService({ dataSource: deps.dataSource })),
+    yardPages: yardPageHandlers(createYardPageService({ dataSource: deps.dataSource, reads })),
     buyer: buyerHandlers(savedSearches, favourites),
     messages: messageHandlers(messages),
     reports: reportHandlers(reports),
@@ -323,7 +329,7 @@ export function createApp(appDeps: AppDependencies) {
   app.use("/api", apiNotFound);
 
   // robots.txt, the sitemaps, the built web app's files and its pages (public ones rendered on the server).
-  app.use(webApp({ config, logger, dataSource: deps.dataSource }));
+  app.use(webApp({ config, logger, dataSource: deps.dataSource, reads }));
 
   app.use(errorHandler(logger));
   // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule,

@@ -16,6 +16,9 @@ const environmentSchema = z.object({
   DATABASE_USER: z.string().default("grainyard"),
   DATABASE_PASSWORD: z.string().default(""),
   DATABASE_NAME: z.string().default("grainyard"),
+  /** A MariaDB read replica of the primary (same user, password and database): the catalogue's public pages read from it. */
+  DATABASE_REPLICA_HOST: z.string().optional(),
+  DATABASE_REPLICA_PORT: z.coerce.number().int().optional(),
   S3_ENDPOINT: z.url().optional(),
   S3_REGION: z.string().default("us-east-1"),
   S3_BUCKET: z.string().default("grainyard-photos"),
@@ -76,7 +79,15 @@ export interface AppConfig {
   host: string;
   publicUrl: string;
   sessionSecret: string;
-  database: { host: string; port: number; user: string; password: string; database: string };
+  database: {
+    host: string;
+    port: number;
+    user: string;
+    password: string;
+    database: string;
+    /** A read replica for the catalogue, search, slab, yard and sitemap pages (db/read-replica.ts); null: the primary only. */
+    replica: { host: string; port: number } | null;
+  };
   storage: { endpoint?: string; region: string; bucket: string; accessKeyId: string; secretAccessKey: string; forcePathStyle: boolean };
   mail: { host: string; port: number; secure: boolean; user?: string; password?: string; from: string };
   /** The e-mail outbox's retries (see services/mail-outbox.ts). */
@@ -141,6 +152,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
       user: env.DATABASE_USER,
       password: env.DATABASE_PASSWORD,
       database: env.DATABASE_NAME,
+      replica: env.DATABASE_REPLICA_HOST ? { host: env.DATABASE_REPLICA_HOST, port: env.DATABASE_REPLICA_PORT ?? env.DATABASE_PORT } : null,
     },
     storage: {
       endpoint: env.S3_ENDPOINT,

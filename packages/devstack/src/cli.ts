@@ -2,12 +2,15 @@ import { join } from "node:path";
 import { colourEnvironment } from "../tools.mjs";
 import { apiEntry, prepareDatabase, startApi, tsx, waitForApi, type DemoAccount } from "./api-process.ts";
 import { instanceCount, instancePorts, startApiInstances } from "./instances.ts";
+import { instancesBenchmark } from "./instances-bench.ts";
 import { CHROMIUM, ensureTestTools } from "./chromium.ts";
 import { Lifecycle } from "./lifecycle.ts";
 import { say, warn } from "./log.ts";
 import { waitUntil } from "./ports.ts";
 import { nodeWithTsx, runStep, startProcess, tail } from "./processes.ts";
 import { profileFor, repoRoot } from "./profile.ts";
+import { replicaWanted, startReplica } from "./replica.ts";
+import { stopLeftoverMariadb } from "./mariadb.ts";
 import { startStack, writeEnvironmentFile, type RunningStack } from "./stack.ts";
 import { printSummary, runTestSuites, summaryExitCode } from "./test-run.ts";
 import { buildWebIfStale, webDist } from "./web-build.ts";
@@ -36,12 +39,19 @@ async function serve(lifecycle: Lifecycle, mode: "start" | "dev"): Promise<"runn
   const started = Date.now();
   const extraPorts = mode === "dev" ? [{ port: profile.ports.vite, purpose: "Vite hot-reload socket" }] : [];
   const wanted = mode === "start" ? instanceCount() : 1;
+  const replicated = mode === "start" && replicaWanted();
+  if (replicated) {
+    // A replica left running by a start that was killed holds its port: shut it down first (it is made afresh anyway).
+    await stopLeftoverMariadb(join(profile.dataDir, "mariadb-replica"));
+    extraPorts.push({ port: profile.ports.replica, purpose: "MariaDB read replica" });
+  }
   if (wanted > 1)
     for (const [index, port] of instancePorts(profile.ports.app, wanted).entries())
       extraPorts.push({ port, purpose: `API instance api-${index + 1}` });
   const stack = await startStack(profile, {
     fresh: false,
     extraPorts,
+    replicated,
     signal: lifecycle.signal,
     track: (name, stop) => lifecycle.onStop(name, stop, 90_000),
   });
@@ -60,6 +70,20 @@ async function serve(lifecycle: Lifecycle, mode: "start" | "dev"): Promise<"runn
 
   let logFile = join(profile.dataDir, "api.log");
   const count = wanted;
+  if (replicated) {
+    // The catalogue, slab, yard and sitemap pages read from it; everything else (and every write) from the primary.
+    const replica = await startReplica({
+      primary: stack.mariadb,
+      dir: join(profile.dataDir, "mariadb-replica"),
+      port: profile.ports.replica,
+      appPassword: stack.databasePassword,
+      databases: ["grainyard"],
+      signal: lifecycle.signal,
+      track: (name, stop) => lifecycle.onStop(name, stop, 90_000),
+    });
+    environment.DATABASE_REPLICA_HOST = replica.endpoint.host;
+    environment.DATABASE_REPLICA_PORT = String(replica.endpoint.port);
+  } else if (replicaWanted()) warn("GRAINYARD_REPLICA is for `npm start`; `npm run dev` reads from the primary only.");
   if (mode === "start") {
     await buildWebIfStale(lifecycle.signal);
     const { instances } = await startApiInstances({
@@ -99,6 +123,9 @@ async function serve(lifecycle: Lifecycle, mode: "start" | "dev"): Promise<"runn
     "",
     `  App:    ${appUrl}${count > 1 ? `   (HAProxy over ${count} API instances on ports ${instancePorts(profile.ports.app, count).join(", ")})` : ""}`,
     `  Inbox:  ${stack.inboxUrl}   (every e-mail the app sends)`,
+    ...(replicated
+      ? [`  Replica: MariaDB on 127.0.0.1:${profile.ports.replica} (catalogue, slab, yard and sitemap pages read from it)`]
+      : []),
     ...(mode === "start" ? [`  Logs:   ${logFile}`] : [`  Hot reload: Vite inside the API (its socket on port ${profile.ports.vite})`]),
     "",
     "Demo accounts (Lakemont):",
@@ -152,6 +179,7 @@ async function bench(lifecycle: Lifecycle): Promise<number> {
   say("seeding the national-scale catalogue (once; about 25 s)…");
   await step("seeding the national-scale catalogue", "src/cli/seed-national.ts");
   await step("catalogue search benchmark", "../../tests/bench/catalogue-search.ts");
+  await instancesBenchmark(stack, "grainyard_bench", signal);
   await lighthouseBenchmark(stack, lifecycle);
   return 0;
 }

@@ -43,12 +43,43 @@ async function ensureMariadbInstalled(signal?: AbortSignal): Promise<string> {
 }
 
 /**
+ * A private instance's part in MariaDB's own replication: none (one server, no binary log, as
+ * always), the primary (binary log of whole rows with GTIDs), or a read-only replica of it.
+ */
+export type ReplicationRole = { role: "primary"; serverId: number } | { role: "replica"; serverId: number; databases: string };
+
+/** my.cnf lines for the instance's replication role. */
+function replicationSettings(dir: string, replication: ReplicationRole | undefined): string[] {
+  if (!replication) return ["skip-log-bin"];
+  const common = [`server_id=${replication.serverId}`, "gtid_strict_mode=1"];
+  if (replication.role === "primary")
+    return [
+      ...common,
+      `log_bin=${join(dir, "binlog")}`,
+      "binlog_format=ROW",
+      // The replica is seeded afresh on each start, so a day of binary log is plenty.
+      "binlog_expire_logs_seconds=86400",
+    ];
+  return [
+    ...common,
+    "skip-log-bin",
+    `relay_log=${join(dir, "relay")}`,
+    // Only the replication thread changes data; the app's user (no READ_ONLY ADMIN) is refused any write.
+    "read_only=1",
+    // Replication starts once the runner has seeded it and named the primary (CHANGE MASTER TO).
+    "skip-slave-start",
+    // Only the app's databases (as a LIKE pattern); also covers their CREATE/DROP DATABASE.
+    `replicate_wild_do_table=${replication.databases}.%`,
+  ];
+}
+
+/**
  * The private instance's my.cnf. Everything is local and by address: the server listens on
  * 127.0.0.1 only and never looks names up (skip-name-resolve), the app connects over TCP to
  * 127.0.0.1, and the runner's own client tools (root) talk through the socket file.
  */
-export function mariadbConfig(options: { dir: string; port: number; runAsRoot: boolean }): string {
-  const { dir, port } = options;
+export function mariadbConfig(options: { dir: string; port: number; runAsRoot: boolean; replication?: ReplicationRole }): string {
+  const { dir, port, replication } = options;
   return [
     "# Written by Grainyard's stack runner on each start (packages/devstack/src/mariadb.ts).",
     "[mysqld]",
@@ -62,7 +93,7 @@ export function mariadbConfig(options: { dir: string; port: number; runAsRoot: b
     "character-set-server=utf8mb4",
     "collation-server=utf8mb4_unicode_ci",
     "skip-name-resolve",
-    "skip-log-bin",
+    ...replicationSettings(dir, replication),
     // Room for the national-scale benchmark catalogue (100 000 rows: about 190 MB of rows and
     // indexes) to stay in memory, as a production server's would; MariaDB takes it as needed.
     "innodb_buffer_pool_size=512M",
@@ -157,6 +188,10 @@ export async function stopLeftoverMariadb(dir: string): Promise<void> {
 export interface RunningMariadb {
   endpoint: Omit<DatabaseEndpoint, "database">;
   socket: string;
+  /** The instance's my.cnf (the runner's client tools reach it as root through the socket with it). */
+  configFile: string;
+  /** Runs SQL as root through the socket; resolves with the tool's output (tab-separated rows, a header first). */
+  rootSql(sql: string): Promise<string>;
   createDatabase(name: string): Promise<void>;
   stop(): Promise<void>;
 }
@@ -193,6 +228,10 @@ export async function startMariadb(options: {
   signal?: AbortSignal;
   /** Told how to stop the server as soon as it is spawned, before it answers (a Ctrl-C may come in between). */
   track?: (name: string, stop: () => Promise<void>) => void;
+  /** Binary log and GTIDs for a replica to follow, or the replica itself (see replica.ts). */
+  replication?: ReplicationRole;
+  /** The name the runner gives it in messages ("MariaDB" unless told). */
+  name?: string;
 }): Promise<RunningMariadb> {
   const serverBinary = await ensureMariadbInstalled(options.signal);
   const { dir, port, signal } = options;
@@ -202,7 +241,8 @@ export async function startMariadb(options: {
   const configFile = join(dir, "my.cnf");
   mkdirSync(dir, { recursive: true });
   const runAsRoot = process.getuid?.() === 0;
-  writeFileSync(configFile, mariadbConfig({ dir, port, runAsRoot }));
+  writeFileSync(configFile, mariadbConfig({ dir, port, runAsRoot, replication: options.replication }));
+  const name = options.name ?? "MariaDB";
 
   if (!existsSync(join(dataDir, "mysql"))) {
     // Made in a folder of its own and renamed when complete: an interrupted initialisation
@@ -275,7 +315,7 @@ export async function startMariadb(options: {
   };
   let stopping: Promise<void> | undefined;
   const stopServer = (): Promise<void> => (stopping ??= shutDown());
-  options.track?.(`MariaDB (pid ${pid})`, stopServer);
+  options.track?.(`${name} (pid ${pid})`, stopServer);
 
   try {
     await waitUntil(
@@ -304,8 +344,8 @@ export async function startMariadb(options: {
     throw error;
   }
 
-  const rootSql = async (sql: string) => {
-    await runTool({
+  const rootSql = async (sql: string): Promise<string> => {
+    const { stdout } = await runTool({
       label: "a set-up statement for MariaDB",
       command: "mariadb",
       args: [`--defaults-file=${configFile}`, "--user=root", "--batch", "-e", sql],
@@ -314,6 +354,7 @@ export async function startMariadb(options: {
       advice: () =>
         `MariaDB refused the statement; read its message above, then run the command again (deleting ${dataDir} starts from empty).`,
     });
+    return stdout;
   };
   try {
     // The app connects over TCP to 127.0.0.1 as its own user, with rights on the grainyard* databases only.
@@ -333,6 +374,8 @@ export async function startMariadb(options: {
   return {
     endpoint: { host: "127.0.0.1", port, user: "grainyard", password: options.appPassword },
     socket,
+    configFile,
+    rootSql,
     async createDatabase(name: string) {
       if (!/^grainyard[a-z0-9_]*$/.test(name)) throw new StackError(`refusing to create database "${name}".`);
       await rootSql(`CREATE DATABASE IF NOT EXISTS \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`);

@@ -17,11 +17,25 @@ export interface Profile {
     smtp: number;
     payments: number;
     vite: number;
+    /** The read replica (GRAINYARD_REPLICA=1 npm start; in npm test, the replica suite's). */
+    replica: number;
+    /** npm test only: the replica suite's own primary (a binary log the test stack's MariaDB does not keep). */
+    replicaPrimary: number;
   };
 }
 
 function portsFrom(base: number): Profile["ports"] {
-  return { app: base, inbox: base + 1, payments: base + 2, s3: base + 3, smtp: base + 4, mariadb: base + 5, vite: base + 6 };
+  return {
+    app: base,
+    inbox: base + 1,
+    payments: base + 2,
+    s3: base + 3,
+    smtp: base + 4,
+    mariadb: base + 5,
+    vite: base + 6,
+    replica: base + 7,
+    replicaPrimary: base + 8,
+  };
 }
 
 function baseFromEnv(name: string, fallback: number): number {

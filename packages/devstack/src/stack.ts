@@ -36,6 +36,8 @@ function secretsFor(dataDir: string): Secrets {
 export interface RunningStack {
   profile: Profile;
   mariadb: RunningMariadb;
+  /** The app's database password (the same on every MariaDB the runner starts). */
+  databasePassword: string;
   inboxUrl: string;
   /** Environment for the API (and its CLI commands) pointed at this stack. */
   apiEnvironment(database: string, extra?: Record<string, string>): Record<string, string>;
@@ -53,6 +55,8 @@ export async function startStack(
     fresh: boolean;
     extraPorts?: { port: number; purpose: string }[];
     signal?: AbortSignal;
+    /** The primary keeps a binary log with GTIDs for a read replica (GRAINYARD_REPLICA=1). */
+    replicated?: boolean;
     /** Registers how to stop a child process the moment it exists (see Lifecycle.onStop). */
     track?: (name: string, stop: () => Promise<void>) => void;
   },
@@ -98,6 +102,7 @@ export async function startStack(
       appPassword: secrets.databasePassword,
       signal: options.signal,
       track: options.track,
+      ...(options.replicated ? { replication: { role: "primary", serverId: 1 } as const } : {}),
     });
     stoppers.push(() => mariadb.stop()); // tracked by startMariadb itself, from its spawn
 
@@ -133,6 +138,7 @@ export async function startStack(
     return {
       profile,
       mariadb,
+      databasePassword: secrets.databasePassword,
       inboxUrl: mail.inboxUrl,
       apiEnvironment(database, extra = {}) {
         return {

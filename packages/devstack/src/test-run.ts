@@ -1,3 +1,4 @@
+import { randomBytes } from "node:crypto";
 import { existsSync, mkdirSync, readFileSync, rmSync } from "node:fs";
 import { join } from "node:path";
 import { CHROMIUM } from "./chromium.ts";
@@ -9,6 +10,8 @@ import type { RunningStack } from "./stack.ts";
 import { buildWebIfStale } from "./web-build.ts";
 import { prepareDatabase, startApi, waitForApi } from "./api-process.ts";
 import { startApiInstances } from "./instances.ts";
+import { startMariadb } from "./mariadb.ts";
+import { startReplica } from "./replica.ts";
 
 export interface SuiteResult {
   name: string;
@@ -164,7 +167,71 @@ export async function runTestSuites(stack: RunningStack, signal: AbortSignal): P
   }
 
   results.push(await runManyInstances(stack, signal));
+  results.push(await runReplicaSuite(stack, testEnvironment, signal));
   return results;
+}
+
+/**
+ * The read-replica suite (apps/api, `*.replica.test.ts`): a MariaDB primary with a binary log and
+ * a read replica following it by GTID, both private to this suite (the test stack's own MariaDB
+ * keeps no binary log, so the other suites pay nothing for it), each stopped by its own handle.
+ * The suite may shut the replica down itself (its fallback test), through a control account that
+ * may only watch, start and stop replication and shut the server down.
+ */
+async function runReplicaSuite(stack: RunningStack, testEnvironment: Record<string, string>, signal: AbortSignal): Promise<SuiteResult> {
+  const dir = join(stack.profile.dataDir, "replication");
+  const { ports } = stack.profile;
+  const stops: (() => Promise<void>)[] = [];
+  const track = (_name: string, stop: () => Promise<void>) => void stops.push(stop);
+  try {
+    const primary = await startMariadb({
+      dir: join(dir, "primary"),
+      port: ports.replicaPrimary,
+      appPassword: stack.databasePassword,
+      replication: { role: "primary", serverId: 1 },
+      name: "the replica suite's primary",
+      signal,
+      track,
+    });
+    const replica = await startReplica({
+      primary,
+      dir: join(dir, "replica"),
+      port: ports.replica,
+      appPassword: stack.databasePassword,
+      databases: [],
+      signal,
+      track,
+    });
+    const controlPassword = randomBytes(18).toString("base64url");
+    await replica.rootSql(
+      [
+        `CREATE USER 'grainyard_control'@'127.0.0.1' IDENTIFIED BY '${controlPassword}';`,
+        "GRANT SLAVE MONITOR, REPLICATION SLAVE ADMIN, SHUTDOWN ON *.* TO 'grainyard_control'@'127.0.0.1';",
+      ].join(" "),
+    );
+    return await runVitest(
+      "replica",
+      "@grainyard/api",
+      {
+        ...testEnvironment,
+        DATABASE_PORT: String(primary.endpoint.port),
+        DATABASE_REPLICA_HOST: replica.endpoint.host,
+        DATABASE_REPLICA_PORT: String(replica.endpoint.port),
+        REPLICA_CONTROL_USER: "grainyard_control",
+        REPLICA_CONTROL_PASSWORD: controlPassword,
+      },
+      signal,
+      ["--config", "vitest.replica.config.ts"],
+    );
+  } catch (error) {
+    if (error instanceof Interrupted) throw error;
+    warn("the read-replica set-up failed:");
+    reportFailure(error);
+    return { name: "replica", passed: 0, failed: 1, skipped: 0, exitCode: 1, seconds: 0 };
+  } finally {
+    // The replica first, then its primary.
+    for (const stop of stops.reverse()) await stop().catch(() => undefined);
+  }
 }
 
 /**

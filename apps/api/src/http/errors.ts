@@ -20,6 +20,9 @@ const CONNECTION_ERRORS = new Set([
   "PROTOCOL_CONNECTION_LOST",
   "PROTOCOL_SEQUENCE_TIMEOUT",
   "ER_CON_COUNT_ERROR",
+  // mysql2's pool cluster (a primary and a read replica): the node is out for a second after repeated connection errors.
+  "POOL_NONEONLINE",
+  "POOL_NOEXIST",
 ]);
 function isDatabaseDown(error: unknown): boolean {
   const { code, fatal, driverError } = error as { code?: string; fatal?: boolean; driverError?: { code?: string; fatal?: boolean } };

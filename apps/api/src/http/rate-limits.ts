@@ -64,7 +64,9 @@ export interface RateLimitDependencies {
 }
 
 export function createRateLimits({ limits, dataSource, log }: RateLimitDependencies) {
-  const pool = (dataSource.driver as unknown as { pool?: unknown }).pool;
+  // The primary's pool: the driver's own, or with a read replica (db/data-source.ts) the MASTER node of its pool cluster.
+  const driver = dataSource.driver as unknown as { pool?: unknown; poolCluster?: { of(pattern: string): unknown } };
+  const pool = driver.pool ?? driver.poolCluster?.of("MASTER");
   if (!pool) throw new Error("rate limits: the data source must be initialised first (its connection pool is the limit store)");
   const dbName = dataSource.options.database as string;
   const windowSeconds = Math.round(limits.windowMs / 1000);

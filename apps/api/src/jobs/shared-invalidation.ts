@@ -1,4 +1,5 @@
 import type { DataSource, EntityManager, EntitySubscriberInterface, QueryRunner, TransactionCommitEvent } from "typeorm";
+import type { ReplicaReads } from "../db/read-replica.ts";
 import type { Logger } from "../logger.ts";
 
 /** How often each instance asks whether another one changed what its caches hold. */
@@ -13,9 +14,20 @@ export const INVALIDATION_POLL_MS = 500;
  * connection: no row lock is held for the transaction's length, and a search cannot refill a cache
  * from data about to change. Should an instance die between its commit and its bump, the caches'
  * own lifetimes (5 s for answers, 30 s for counts and positions) still bound what others show.
+ *
+ * With a read replica (`reads`), the caches are filled from the replica, which applies a change a
+ * moment after the primary commits it. Clearing them at the commit alone could let a search in
+ * between re-cache the replica's older rows. So the version row is polled where the caches are
+ * filled from, the replica: the bump is written after the change commits, so it comes later in the
+ * primary's binary log, and the replica (one SQL thread, applying in the primary's commit order)
+ * shows the new version only once it has applied the change itself. Every instance, the one that
+ * made the change included, clears its caches again when it sees it there. Should the replica be
+ * unreachable, the poll and the catalogue both read the primary.
  */
 export function createSharedInvalidation(deps: {
   dataSource: DataSource;
+  /** Where the caches are filled from (the replica when there is one); the version row is read there. */
+  reads?: ReplicaReads;
   logger: Logger;
   /** The version row's name. */
   name: string;
@@ -60,7 +72,8 @@ export function createSharedInvalidation(deps: {
 
   /** Reads the version row once; clears the caches when another instance moved it. */
   async function poll(): Promise<void> {
-    const rows = (await dataSource.query("SELECT version FROM cache_version WHERE name = ?", [name])) as { version: string | number }[];
+    const sql = "SELECT version FROM cache_version WHERE name = ?";
+    const rows = (await (deps.reads ? deps.reads.query(sql, [name]) : dataSource.query(sql, [name]))) as { version: string | number }[];
     const version = String(rows[0]?.version ?? "0");
     if (seen !== null && version !== seen) deps.onChange();
     seen = version;

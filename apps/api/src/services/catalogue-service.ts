@@ -35,6 +35,7 @@ import { findPlace } from "./places.ts";
 import { toLog, toSlab } from "./yard-service.ts";
 import { nearestFirst, type YardDistance } from "./nearest-first.ts";
 import { NO_REVIEWS, yardRatingTotals } from "./yard-rating.ts";
+import { createReplicaReads, type ReplicaReads } from "../db/read-replica.ts";
 import {
   cappedCountSql,
   catalogueRowFromSql,
@@ -174,11 +175,16 @@ export function gzippedAnswer(answer: CatalogueAnswer): Buffer {
   return answer.gzipped;
 }
 
-export function createCatalogueService(deps: { dataSource: DataSource; cursorSecret: string; cache?: boolean }) {
+export function createCatalogueService(deps: { dataSource: DataSource; cursorSecret: string; cache?: boolean; reads?: ReplicaReads }) {
   const { dataSource } = deps;
   const caching = deps.cache ?? true;
-  /** Runs one piece of the search's SQL. */
-  const run = <T = Record<string, unknown>>(fragment: Fragment) => dataSource.query(fragment.sql, fragment.parameters) as Promise<T[]>;
+  /** The search and visitors' slab pages read from the replica when one is configured (db/read-replica.ts). */
+  const reads = deps.reads ?? createReplicaReads(dataSource);
+  /** Runs one piece of the search's SQL (on the replica, when there is one). */
+  const run = <T = Record<string, unknown>>(fragment: Fragment) => reads.query<T>(fragment.sql, fragment.parameters);
+  /** The same on the primary: a check that must see a change just committed. */
+  const runOnPrimary = <T = Record<string, unknown>>(fragment: Fragment) =>
+    dataSource.query(fragment.sql, fragment.parameters) as Promise<T[]>;
   const counts = new LRUCache<string, { total: number; capped: boolean }>({ max: 2000, ttl: COUNT_TTL_MS });
   // Pages are kept as the bytes that go out with their entity tag, so a repeated search costs
   // neither serialising, encoding nor hashing. They are found by the query string exactly as the
@@ -222,13 +228,13 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
   let positions: { loadedAt: number; yards: Promise<YardPosition[]> } | null = null;
   function yardPositions(): Promise<YardPosition[]> {
     if (!positions || Date.now() - positions.loadedAt > COUNT_TTL_MS) {
-      const yards = dataSource
-        .query(
+      const yards = reads
+        .query<{ id: string; pickup_latitude: number; pickup_longitude: number }>(
           // The distinct yards come from idx_catalogue_yard by a loose index scan.
           "SELECT a.id, a.pickup_latitude, a.pickup_longitude FROM (SELECT DISTINCT sawyer_id FROM catalogue_entry) AS yard " +
             "JOIN account a ON a.id = yard.sawyer_id WHERE a.pickup_latitude IS NOT NULL AND a.pickup_longitude IS NOT NULL",
         )
-        .then((rows: { id: string; pickup_latitude: number; pickup_longitude: number }[]) =>
+        .then((rows) =>
           rows.map((row) => ({ sawyerId: row.id, latitude: Number(row.pickup_latitude), longitude: Number(row.pickup_longitude) })),
         );
       positions = { loadedAt: Date.now(), yards };
@@ -399,9 +405,9 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       return { ...checked, filters, count, page, distanceOf, within };
     },
 
-    /** Whether a live listing matches a search's filters (sort and page aside). */
+    /** Whether a live listing matches a search's filters (sort and page aside); on the primary, as the listing has just gone live. */
     async matchesListing(input: CatalogueQueryParsed, listingId: string): Promise<boolean> {
-      return (await run(matchesListingSql((await this.prepareSearch(input)).filters, listingId))).length > 0;
+      return (await runOnPrimary(matchesListingSql((await this.prepareSearch(input)).filters, listingId))).length > 0;
     },
 
     async search(input: CatalogueQueryParsed): Promise<CatalogueResult> {
@@ -465,33 +471,39 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
       return answer;
     },
 
-    /** A slab page: live listings for everyone; a listing's own sawyer and admins see it at any stage. */
+    /**
+     * A slab page: live listings for everyone; a listing's own sawyer and admins see it at any stage.
+     * Visitors read it from the replica (when there is one); signed-in people from the primary, so
+     * a sawyer sees their own change at once.
+     */
     async detail(actor: Actor, listingId: string): Promise<CatalogueDetail> {
-      const listing = await dataSource.getRepository(ListingEntity).findOneBy({ id: listingId });
+      if (actor.kind === "account") return this.detailFrom(dataSource.manager, actor, listingId);
+      return reads.run((manager) => this.detailFrom(manager, actor, listingId));
+    },
+
+    /** A slab page read through `db` (the replica's manager or the primary's). */
+    async detailFrom(db: EntityManager, actor: Actor, listingId: string): Promise<CatalogueDetail> {
+      const listing = await db.getRepository(ListingEntity).findOneBy({ id: listingId });
       const privileged = actor.kind === "account" && (actor.role === "admin" || actor.accountId === listing?.sawyerId);
       if (!listing || (!["live", "reserved", "sold"].includes(listing.status) && !privileged))
         throw new NotFound("That slab is not for sale here.");
-      const links = await dataSource
+      const links = await db
         .getRepository(ListingSlabEntity)
         .find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
       const slabs = links.map((l) => l.slab!).filter(Boolean);
       const readings = slabs.length
-        ? await dataSource
-            .getRepository(MoistureReadingEntity)
-            .find({ where: { slabId: In(slabs.map((s) => s.id)) }, order: { readOn: "ASC" } })
+        ? await db.getRepository(MoistureReadingEntity).find({ where: { slabId: In(slabs.map((s) => s.id)) }, order: { readOn: "ASC" } })
         : [];
       const logId = slabs[0]?.logId ?? null;
-      const log = logId ? await dataSource.getRepository(YardLogEntity).findOneBy({ id: logId }) : null;
-      const siblings = logId ? await dataSource.getRepository(SlabEntity).find({ where: { logId }, order: { sequenceInLog: "ASC" } }) : [];
+      const log = logId ? await db.getRepository(YardLogEntity).findOneBy({ id: logId }) : null;
+      const siblings = logId ? await db.getRepository(SlabEntity).find({ where: { logId }, order: { sequenceInLog: "ASC" } }) : [];
       const siblingLinks = siblings.length
-        ? await dataSource
-            .getRepository(ListingSlabEntity)
-            .find({ where: { slabId: In(siblings.map((s) => s.id)) }, relations: { listing: true } })
+        ? await db.getRepository(ListingSlabEntity).find({ where: { slabId: In(siblings.map((s) => s.id)) }, relations: { listing: true } })
         : [];
       const [sawyer, photos, ratings] = await Promise.all([
-        dataSource.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId }),
-        dataSource.getRepository(ListingPhotoEntity).find({ where: { listingId }, order: { position: "ASC" } }),
-        yardRatingTotals(dataSource, [listing.sawyerId]),
+        db.getRepository(AccountEntity).findOneBy({ id: listing.sawyerId }),
+        db.getRepository(ListingPhotoEntity).find({ where: { listingId }, order: { position: "ASC" } }),
+        yardRatingTotals(db, [listing.sawyerId]),
       ]);
       const inListing = new Set(slabs.map((s) => s.id));
       return {
@@ -526,9 +538,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
         })),
         log: log ? toLog(log, siblings.length) : null,
         logPhotos: log
-          ? (await dataSource.getRepository(LogPhotoEntity).find({ where: { logId: log.id }, order: { position: "ASC" } })).map(
-              logPhotoView,
-            )
+          ? (await db.getRepository(LogPhotoEntity).find({ where: { logId: log.id }, order: { position: "ASC" } })).map(logPhotoView)
           : [],
         otherSlabsFromLog: siblings
           .filter((s) => !inListing.has(s.id))

@@ -1,4 +1,5 @@
 import type { DataSource } from "typeorm";
+import { createReplicaReads, type ReplicaReads } from "../db/read-replica.ts";
 
 /**
  * What search engines are told: robots.txt (the public pages are open, everything personal is
@@ -46,6 +47,8 @@ export type SitemapPlan = { kind: "urlset" } | { kind: "index"; slabFiles: numbe
 
 interface SeoOptions {
   dataSource: DataSource;
+  /** The sitemaps read from the replica when one is configured (db/read-replica.ts). */
+  reads?: ReplicaReads;
   /** The site's public address, without a trailing slash. */
   publicUrl: string;
   /** Addresses per file (the protocol's 50 000; smaller in tests). */
@@ -61,7 +64,9 @@ const xmlEscape = (text: string) =>
 const w3cDate = (date: Date) => date.toISOString().replace(/\.\d{3}Z$/, "Z");
 
 export function createSeoService(options: SeoOptions) {
-  const { dataSource, publicUrl } = options;
+  const { publicUrl } = options;
+  const reads = options.reads ?? createReplicaReads(options.dataSource);
+  const dataSource = { query: (sql: string, parameters?: unknown[]) => reads.query(sql, parameters) };
   const perFile = options.urlsPerFile ?? SITEMAP_URL_LIMIT;
   const batchSize = Math.min(options.batchSize ?? 5_000, perFile);
   const absolute = (path: string) => `${publicUrl}${path}`;

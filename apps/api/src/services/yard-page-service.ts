@@ -1,6 +1,7 @@
 import { orderStatusSets, type DryingProjectionView, type YardPage } from "@grainyard/contracts";
 import { median, ratingSummary } from "@grainyard/slab-math";
-import { In, type DataSource } from "typeorm";
+import { In, type DataSource, type EntityManager } from "typeorm";
+import { createReplicaReads, type ReplicaReads } from "../db/read-replica.ts";
 import { AccountEntity, CatalogueEntryEntity, MoistureReadingEntity, SlabEntity, YardLogEntity } from "../entities/index.ts";
 import { NotFound } from "../errors.ts";
 import { plainCatalogueCard } from "./catalogue-service.ts";
@@ -16,13 +17,14 @@ const FIRST_REPLY_THREADS = 200;
  * yard's name, story and town (never its street or its pickup position), its live listings, its
  * logs still drying, and figures from slab-math (rating, first-reply median, drying projection).
  */
-export function createYardPageService(deps: { dataSource: DataSource }) {
-  const { dataSource } = deps;
+export function createYardPageService(deps: { dataSource: DataSource; reads?: ReplicaReads }) {
+  /** Read from the replica when one is configured (db/read-replica.ts): the page is the same for everyone. */
+  const reads = deps.reads ?? createReplicaReads(deps.dataSource);
 
   /** Slabs handed over to buyers: a set sold as one order counts each of its slabs. */
-  async function slabsSold(sawyerId: string): Promise<number> {
+  async function slabsSold(db: EntityManager, sawyerId: string): Promise<number> {
     const statuses = orderStatusSets.handedOver;
-    const rows = (await dataSource.query(
+    const rows = (await db.query(
       `SELECT COUNT(*) AS n FROM buyer_order o JOIN listing_slab ls ON ls.listing_id = o.listing_id
         WHERE o.sawyer_id = ? AND o.status IN (${statuses.map(() => "?").join(", ")})`,
       [sawyerId, ...statuses],
@@ -31,8 +33,8 @@ export function createYardPageService(deps: { dataSource: DataSource }) {
   }
 
   /** For each of the latest threads: the buyer's first message, and the sawyer's first message after it. */
-  async function firstReply(sawyerId: string): Promise<YardPage["yard"]["firstReply"]> {
-    const rows = (await dataSource.query(
+  async function firstReply(db: EntityManager, sawyerId: string): Promise<YardPage["yard"]["firstReply"]> {
+    const rows = (await db.query(
       `SELECT q.asked_at,
               (SELECT MIN(r.created_at) FROM message r WHERE r.thread_id = q.thread_id AND r.author_id = ? AND r.created_at >= q.asked_at) AS replied_at
          FROM (SELECT m.thread_id, MIN(m.created_at) AS asked_at
@@ -51,13 +53,13 @@ export function createYardPageService(deps: { dataSource: DataSource }) {
   }
 
   /** Logs none of whose slabs is listed (in any state but withdrawn) and some of whose slabs are still above the kiln-dried band. */
-  async function dryingLogs(sawyerId: string): Promise<YardPage["dryingLogs"]> {
-    const logs = await dataSource.getRepository(YardLogEntity).find({ where: { sawyerId }, order: { felledOn: "DESC", id: "ASC" } });
+  async function dryingLogs(db: EntityManager, sawyerId: string): Promise<YardPage["dryingLogs"]> {
+    const logs = await db.getRepository(YardLogEntity).find({ where: { sawyerId }, order: { felledOn: "DESC", id: "ASC" } });
     if (logs.length === 0) return [];
-    const slabs = await dataSource.getRepository(SlabEntity).find({ where: { logId: In(logs.map((l) => l.id)) } });
+    const slabs = await db.getRepository(SlabEntity).find({ where: { logId: In(logs.map((l) => l.id)) } });
     const listed = new Set(
       (
-        (await dataSource.query(
+        (await db.query(
           `SELECT DISTINCT ls.slab_id FROM listing_slab ls JOIN listing l ON l.id = ls.listing_id
             WHERE l.sawyer_id = ? AND l.status <> 'withdrawn'`,
           [sawyerId],
@@ -72,7 +74,7 @@ export function createYardPageService(deps: { dataSource: DataSource }) {
     });
     if (drying.length === 0) return [];
     const dryingSlabs = drying.flatMap((log) => slabsByLog.get(log.id)!.filter((s) => dryingStateOf(s.lastMoisturePct) === "drying"));
-    const readings = await dataSource.getRepository(MoistureReadingEntity).find({
+    const readings = await db.getRepository(MoistureReadingEntity).find({
       where: { slabId: In(dryingSlabs.map((s) => s.id)) },
       order: { readOn: "ASC" },
     });
@@ -101,36 +103,38 @@ export function createYardPageService(deps: { dataSource: DataSource }) {
   }
 
   return {
-    async page(slug: string): Promise<YardPage> {
-      const yard = await dataSource.getRepository(AccountEntity).findOneBy({ yardSlug: slug, role: "sawyer" });
-      // A suspended yard has no page, as its listings are hidden.
-      if (!yard || !yard.yardName || yard.suspendedAt) throw new NotFound("No yard at that address.");
-      const [sold, reply, ratings, entries, logs] = await Promise.all([
-        slabsSold(yard.id),
-        firstReply(yard.id),
-        yardRatingTotals(dataSource, [yard.id]),
-        dataSource
-          .getRepository(CatalogueEntryEntity)
-          .find({ where: { sawyerId: yard.id }, order: { publishedAt: "DESC", listingId: "ASC" } }),
-        dryingLogs(yard.id),
-      ]);
-      return {
-        yard: {
-          id: yard.id,
-          slug: yard.yardSlug!,
-          name: yard.yardName,
-          story: yard.yardStory,
-          town: yard.pickupTown,
-          memberSince: yard.createdAt.toISOString(),
-          slabsSold: sold,
-          firstReply: reply,
-          rating: ratingSummary(ratings.get(yard.id) ?? NO_REVIEWS),
-        },
-        liveSlabs: entries.map(plainCatalogueCard),
-        dryingLogs: logs,
-      };
+    page(slug: string): Promise<YardPage> {
+      return reads.run((db) => pageFrom(db, slug));
     },
   };
+
+  async function pageFrom(db: EntityManager, slug: string): Promise<YardPage> {
+    const yard = await db.getRepository(AccountEntity).findOneBy({ yardSlug: slug, role: "sawyer" });
+    // A suspended yard has no page, as its listings are hidden.
+    if (!yard || !yard.yardName || yard.suspendedAt) throw new NotFound("No yard at that address.");
+    const [sold, reply, ratings, entries, logs] = await Promise.all([
+      slabsSold(db, yard.id),
+      firstReply(db, yard.id),
+      yardRatingTotals(db, [yard.id]),
+      db.getRepository(CatalogueEntryEntity).find({ where: { sawyerId: yard.id }, order: { publishedAt: "DESC", listingId: "ASC" } }),
+      dryingLogs(db, yard.id),
+    ]);
+    return {
+      yard: {
+        id: yard.id,
+        slug: yard.yardSlug!,
+        name: yard.yardName,
+        story: yard.yardStory,
+        town: yard.pickupTown,
+        memberSince: yard.createdAt.toISOString(),
+        slabsSold: sold,
+        firstReply: reply,
+        rating: ratingSummary(ratings.get(yard.id) ?? NO_REVIEWS),
+      },
+      liveSlabs: entries.map(plainCatalogueCard),
+      dryingLogs: logs,
+    };
+  }
 }
 
 export type YardPageService = ReturnType<typeof createYardPageService>;

@@ -3,6 +3,7 @@ import { join } from "node:path";
 import express, { Router, type NextFunction, type Request, type Response } from "express";
 import type { DataSource } from "typeorm";
 import type { AppConfig } from "../config.ts";
+import type { ReplicaReads } from "../db/read-replica.ts";
 import type { Logger } from "../logger.ts";
 import { seoRoutes } from "../routes/seo-routes.ts";
 import { createSeoService } from "../services/seo-service.ts";
@@ -13,6 +14,8 @@ export interface WebAppDependencies {
   config: AppConfig;
   logger: Logger;
   dataSource: DataSource;
+  /** The sitemaps read from the replica when one is configured. */
+  reads?: ReplicaReads;
 }
 
 /** The person's unit choice from its cookie (the web app's `grainyard_units`); no other cookie is read. */
@@ -26,9 +29,9 @@ function unitsCookie(req: Request): string | undefined {
  * as anyone not signed in sees them; private pages get the shell and are drawn in the browser.
  * With `WEB_DEV_ROOT` (npm run dev) the pages come from the source through Vite instead.
  */
-export function webApp({ config, logger, dataSource }: WebAppDependencies): Router {
+export function webApp({ config, logger, dataSource, reads }: WebAppDependencies): Router {
   const router = Router();
-  router.use(seoRoutes(createSeoService({ dataSource, publicUrl: config.publicUrl })));
+  router.use(seoRoutes(createSeoService({ dataSource, reads, publicUrl: config.publicUrl })));
 
   const webDist = config.webDist;
   const built = webDist && existsSync(join(webDist, "client", "index.html"));
