@@ -242,7 +242,7 @@ async function restore(lifecycle: Lifecycle): Promise<number> {
           .sort()
       : [];
     throw new StackError(
-      `give the backup folder to restore: npm run restore -- <folder>${found.length ? `\n  backups in ${root}:\n${found.map((name) => `    ${join(root, name)}`).join("\n")}` : ` (none in ${root} yet; npm run backup makes one)`}`,
+      `[grainyard] ✗ give the backup folder to restore: npm run restore -- <folder>${found.length ? `\n  backups in ${root}:\n${found.map((name) => `    ${join(root, name)}`).join("\n")}` : ` (none in ${root} yet; npm run backup makes one)`}`,
     );
   }
   // npm runs scripts in the repository root; a relative folder is meant from where npm was called.
