@@ -1,5 +1,6 @@
 #!/usr/bin/env node
-// Entry point of `npm start`, `npm run dev`, `npm test`, `npm run services` and `npm run bench` on a
+// Entry point of `npm start`, `npm run dev`, `npm test`, `npm run services`, `npm run bench`,
+// `npm run backup` and `npm run restore` on a
 // machine that may have only Node.js and npm: installs the pinned pnpm and the workspace
 // dependencies when they are missing, then hands over to the TypeScript stack runner (src/cli.ts),
 // loaded through tsx's loader in a plain `node` process.

@@ -1,17 +1,18 @@
-import { join } from "node:path";
+import { existsSync, readdirSync } from "node:fs";
+import { join, resolve } from "node:path";
 import { colourEnvironment } from "../tools.mjs";
 import { apiEntry, prepareDatabase, startApi, tsx, waitForApi, type DemoAccount } from "./api-process.ts";
 import { instanceCount, instancePorts, startApiInstances } from "./instances.ts";
 import { instancesBenchmark } from "./instances-bench.ts";
 import { CHROMIUM, ensureTestTools } from "./chromium.ts";
 import { Lifecycle } from "./lifecycle.ts";
-import { say, warn } from "./log.ts";
-import { waitUntil } from "./ports.ts";
+import { say, StackError, warn } from "./log.ts";
+import { assertPortFree, waitUntil } from "./ports.ts";
 import { nodeWithTsx, runStep, startProcess, tail } from "./processes.ts";
 import { profileFor, repoRoot } from "./profile.ts";
 import { replicaWanted, startReplica } from "./replica.ts";
 import { stopLeftoverMariadb } from "./mariadb.ts";
-import { startStack, writeEnvironmentFile, type RunningStack } from "./stack.ts";
+import { readEnvironmentFile, startStack, writeEnvironmentFile, type RunningStack } from "./stack.ts";
 import { printSummary, runTestSuites, summaryExitCode } from "./test-run.ts";
 import { buildWebIfStale, webDist } from "./web-build.ts";
 
@@ -214,6 +215,89 @@ async function lighthouseBenchmark(stack: RunningStack, lifecycle: Lifecycle): P
   }
 }
 
+const apiCli = (name: string) => join(repoRoot, "apps/api/src/cli", `${name}.ts`);
+const backupsDir = () => resolve(process.env.GRAINYARD_BACKUP_DIR ?? join(repoRoot, ".data/backups"));
+const portInUse = (port: number) =>
+  assertPortFree(port, "").then(
+    () => false,
+    () => true,
+  );
+
+/**
+ * `npm run backup`: against the running local stack when `npm start` is up (the dump is consistent
+ * while the app takes writes), otherwise with the local services started just for it (no API).
+ */
+async function backup(lifecycle: Lifecycle): Promise<number> {
+  const profile = profileFor("local");
+  const cwd = join(repoRoot, "apps/api");
+  const env = { ...process.env, GRAINYARD_BACKUP_DIR: backupsDir() };
+  const envFile = join(profile.dataDir, "api.env");
+  if (existsSync(envFile) && (await portInUse(profile.ports.mariadb))) {
+    say(`backing up the running local stack (MariaDB on 127.0.0.1:${profile.ports.mariadb})…`);
+    await runStep("backup", ...nodeWithTsx(apiCli("backup")), {
+      cwd,
+      env: { ...env, ...readEnvironmentFile(envFile) },
+      signal: lifecycle.signal,
+    });
+    return 0;
+  }
+  if (!existsSync(join(profile.dataDir, "mariadb", "data")))
+    throw new StackError(`nothing to back up: the local stack has no data yet (${profile.dataDir}); start it once with npm start.`);
+  say("Grainyard is not running: starting its local services (not the app) for the backup…");
+  const stack = await startStack(profile, {
+    fresh: false,
+    signal: lifecycle.signal,
+    track: (name, stop) => lifecycle.onStop(name, stop, 90_000),
+  });
+  const environment = stack.apiEnvironment("grainyard", { NODE_ENV: "development", LOG_LEVEL: "warn" });
+  await runStep("backup", ...nodeWithTsx(apiCli("backup")), { cwd, env: { ...env, ...environment }, signal: lifecycle.signal });
+  return 0;
+}
+
+/**
+ * `npm run restore -- <folder>`: checks the backup's checksums first, refuses while Grainyard runs
+ * (the app would write into the database and bucket being replaced, and keep stale caches), then
+ * starts the local services alone, replaces the database and the photo bucket, and stops them.
+ */
+async function restore(lifecycle: Lifecycle): Promise<number> {
+  const given = process.argv[3];
+  const profile = profileFor("local");
+  const root = backupsDir();
+  if (!given) {
+    const found = existsSync(root)
+      ? readdirSync(root)
+          .filter((name) => /^\d{4}-\d{2}-\d{2}T[\d-]+Z$/.test(name))
+          .sort()
+      : [];
+    throw new StackError(
+      `[grainyard] ✗ give the backup folder to restore: npm run restore -- <folder>${found.length ? `\n  backups in ${root}:\n${found.map((name) => `    ${join(root, name)}`).join("\n")}` : ` (none in ${root} yet; npm run backup makes one)`}`,
+    );
+  }
+  // npm runs scripts in the repository root; a relative folder is meant from where npm was called.
+  const folder = resolve(process.env.INIT_CWD ?? process.cwd(), given);
+  const cwd = join(repoRoot, "apps/api");
+  await runStep("checking the backup", ...nodeWithTsx(apiCli("restore"), ["--check", folder]), { cwd, signal: lifecycle.signal });
+  if ((await portInUse(profile.ports.app)) || (await portInUse(profile.ports.mariadb)))
+    throw new StackError(
+      `Grainyard is running (port ${profile.ports.app} or ${profile.ports.mariadb} is in use): stop npm start (Ctrl-C) first. A restore replaces the database and the photo bucket; the app must not write into them meanwhile. Nothing was changed.`,
+    );
+  say("starting the local services (not the app) for the restore…");
+  const stack = await startStack(profile, {
+    fresh: false,
+    signal: lifecycle.signal,
+    track: (name, stop) => lifecycle.onStop(name, stop, 90_000),
+  });
+  const environment = stack.apiEnvironment("grainyard", { NODE_ENV: "development", LOG_LEVEL: "warn" });
+  await stack.mariadb.createDatabase("grainyard");
+  await runStep("restore", ...nodeWithTsx(apiCli("restore"), [folder]), {
+    cwd,
+    env: { ...process.env, ...environment },
+    signal: lifecycle.signal,
+  });
+  say("restored; start Grainyard with npm start");
+  return 0;
+}
+
 // Children (pnpm, vitest, the API, apt…) inherit these: no escape codes in CI logs or files.
 const colours = colourEnvironment(process.env, Boolean(process.stdout.isTTY));
 if (colours.FORCE_COLOR === undefined) delete process.env.FORCE_COLOR;
@@ -225,6 +309,8 @@ const jobs: Record<string, [signalExitCode: number, job: (lifecycle: Lifecycle) 
   test: [130, test],
   services: [0, services],
   bench: [130, bench],
+  backup: [130, backup],
+  restore: [130, restore],
 };
 const mode = process.argv[2] ?? "start";
 const job = jobs[mode];

@@ -7,7 +7,7 @@ import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { startMailSink, type StoredMessage } from "./mail-sink.ts";
 import { assertPortFree } from "./ports.ts";
-import { writeEnvironmentFile } from "./stack.ts";
+import { readEnvironmentFile, writeEnvironmentFile } from "./stack.ts";
 
 const dir = mkdtempSync(join(tmpdir(), "devstack-"));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -106,5 +106,12 @@ describe("environment file", () => {
     writeEnvironmentFile(file, { MAIL_FROM: "Grainyard <hello@grainyard.test>", TRICKY: "it's $HOME `x`" });
     const result = spawnSync("bash", ["-c", `set -a; . '${file}'; printf '%s|%s' "$MAIL_FROM" "$TRICKY"`], { encoding: "utf8" });
     expect(result.stdout).toBe("Grainyard <hello@grainyard.test>|it's $HOME `x`");
+  });
+
+  it("is read back by the runner (npm run backup beside a running stack) exactly as written", () => {
+    const file = join(dir, "api-read.env");
+    const written = { MAIL_FROM: "Grainyard <hello@grainyard.test>", TRICKY: "it's $HOME `x` ''", EMPTY: "" };
+    writeEnvironmentFile(file, written);
+    expect(readEnvironmentFile(file)).toEqual(written);
   });
 });

@@ -188,3 +188,13 @@ export function writeEnvironmentFile(file: string, environment: Record<string, s
     { mode: 0o600 },
   );
 }
+
+/** The variables of a file written by writeEnvironmentFile. */
+export function readEnvironmentFile(file: string): Record<string, string> {
+  const environment: Record<string, string> = {};
+  for (const line of readFileSync(file, "utf8").split("\n")) {
+    const match = /^([A-Z0-9_]+)='(.*)'$/.exec(line.trim());
+    if (match) environment[match[1]!] = match[2]!.replace(/'\\''/g, "'");
+  }
+  return environment;
+}
