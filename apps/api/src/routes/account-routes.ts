@@ -18,7 +18,7 @@ function csrfTokenFor(req: Request): string {
 }
 
 /** The session's state beside the account: a code step awaited, or an admin's second factor still to set up. */
-export function sessionExtras(req: Request, actor: Actor, at: number) {
+function sessionExtras(req: Request, actor: Actor, at: number) {
   const pending = sessionOf(req).pending;
   return {
     secondStep: pending && pending.until > at ? { email: pending.email, until: new Date(pending.until).toISOString() } : null,
