@@ -119,7 +119,7 @@ describe("the second factor", () => {
     await page.locator('[data-test="submit"]').click();
     await page.waitForURL(`${appUrl}/sign-in/code`);
     await page.locator('[data-test="switch-code-kind"]').click();
-    await page.getByLabel("Recovery code").fill(recoveryCodes[0]!);
+    await page.getByLabel("Recovery code", { exact: true }).fill(recoveryCodes[0]!);
     await shots(page, "recovery-step");
     await page.locator('[data-test="submit-code"]').click();
     await page.waitForURL(`${appUrl}/yard`);
