@@ -1,6 +1,7 @@
 import { mkdirSync } from "node:fs";
 import { request as httpRequest } from "node:http";
 import { join } from "node:path";
+import { generate } from "otplib";
 import { chromium, type Browser, type Page, type Response } from "playwright-core";
 import { expect } from "vitest";
 
@@ -149,12 +150,68 @@ export async function listingIdOf(title: string): Promise<string> {
   throw new Error(`the seeded listing "${title}" is not in the catalogue`);
 }
 
-/** Signs in through the form and waits to leave the sign-in page. */
-export async function signIn(page: Page, who: { email: string; password: string }) {
+/** Someone who signs in: with `totpSecret`, an account with a second factor (its code is asked after the password). */
+export interface SignInAs {
+  email: string;
+  password: string;
+  totpSecret?: string;
+}
+
+/**
+ * The Lakemont demo admin. Admins need a second factor: the seed makes the secret once per database and
+ * the test runner passes it on as `npm start` prints it, so these suites compute the codes an authenticator shows.
+ */
+export const DEMO_ADMIN: SignInAs = {
+  email: "desk@grainyard.test",
+  password: "lakemont-desk-2026",
+  get totpSecret() {
+    return required("DEMO_ADMIN_TOTP_SECRET");
+  },
+};
+
+const STEP_MS = 30_000;
+
+/** The code an authenticator app with this secret shows at `at` (RFC 6238 defaults: SHA-1, 6 digits, 30 s). */
+export function codeFor(secret: string, at = Date.now()): Promise<string> {
+  return generate({ secret, epoch: Math.floor(at / 1000) });
+}
+
+/**
+ * The second sign-in step in the browser: types the current code. A code works once per account, so when
+ * an earlier sign-in (another suite, a second browser) used this 30-second step's code already, the page
+ * says so and this types the next step's code (the API takes one step of drift); when that was used too,
+ * it waits for the moment the clock enters the next step — a condition, not a guess.
+ */
+export async function enterSecondFactorCode(page: Page, secret: string): Promise<void> {
+  for (let attempt = 0; attempt < 4; attempt++) {
+    const step = Math.floor(Date.now() / STEP_MS);
+    for (const ahead of [0, 1]) {
+      await page.getByLabel("Code from your app").fill(await codeFor(secret, (step + ahead) * STEP_MS));
+      const answer = page.waitForResponse(
+        (response) => response.url().endsWith("/api/v1/session/second-factor") && response.request().method() === "POST",
+        { timeout: 15_000 },
+      );
+      await page.locator('[data-test="submit-code"]').click();
+      const response = await answer;
+      if (response.ok()) return;
+      const code = ((await response.json()) as { error?: { code?: string } }).error?.code;
+      if (code !== "second_factor_used") throw new Error(`the code step refused the code: ${response.status()} ${code}`);
+    }
+    await expect.poll(() => Math.floor(Date.now() / STEP_MS), { timeout: STEP_MS + 5_000, interval: 250 }).toBeGreaterThan(step);
+  }
+  throw new Error("the code step refused every code it tried");
+}
+
+/** Signs in through the form (and the code step, for an account with a second factor) and waits to leave the sign-in pages. */
+export async function signIn(page: Page, who: SignInAs) {
   await page.goto(`${appUrl}/sign-in`);
   await page.getByLabel("E-mail").fill(who.email);
   await page.getByLabel("Password").fill(who.password);
   await page.locator('[data-test="submit"]').click();
+  if (who.totpSecret) {
+    await page.waitForURL((url) => url.pathname === "/sign-in/code", { timeout: 15_000 });
+    await enterSecondFactorCode(page, who.totpSecret);
+  }
   await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"), { timeout: 15_000 });
 }
 

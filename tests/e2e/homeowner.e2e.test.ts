@@ -1,5 +1,6 @@
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO_ADMIN, signIn as signInThroughForm, type SignInAs } from "./browser.ts";
 import { appUrl, desktop, launchChromium, newestMailTo, openPage, phone, screenshot, settled, watchForPageErrors } from "./browser.ts";
 
 /*
@@ -11,7 +12,7 @@ import { appUrl, desktop, launchChromium, newestMailTo, openPage, phone, screens
 
 const HOMEOWNER = { email: "ana.theo@lakemont-home.test", password: "first-dining-table-26" };
 const SAWYER = { email: "yard@ridgeback-timber.test", password: "ridgeback-bandmill-2026" };
-const ADMIN = { email: "desk@grainyard.test", password: "lakemont-desk-2026" };
+const ADMIN = DEMO_ADMIN;
 /** A buyer who has saved nothing (for the empty states). */
 const SHOP = { email: "shop@fernhill-furniture.test", password: "fernhill-benches-2026" };
 
@@ -43,11 +44,9 @@ async function shot(page: Page, name: string) {
   await screenshot(page, name);
 }
 
-async function signIn(page: Page, who: { email: string; password: string }, landing: string) {
-  await page.goto(`${appUrl}/sign-in`);
-  await page.getByLabel("E-mail").fill(who.email);
-  await page.getByLabel("Password").fill(who.password);
-  await page.locator('[data-test="submit"]').click();
+/** Signs in (the admin through its code step) and waits for the role's landing page. */
+async function signIn(page: Page, who: SignInAs, landing: string) {
+  await signInThroughForm(page, who);
   await page.waitForURL(`${appUrl}${landing}`, { timeout: 15_000 });
 }
 

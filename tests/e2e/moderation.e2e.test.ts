@@ -1,5 +1,6 @@
 import type { APIRequestContext, Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO_ADMIN, signIn as signInThroughForm, type SignInAs } from "./browser.ts";
 import { appUrl, desktop, launchChromium, newestMailTo, openPage, phone, screenshot, settled, watchForPageErrors } from "./browser.ts";
 
 /*
@@ -14,17 +15,15 @@ beforeAll(async () => {
 afterAll(async () => browser?.close());
 
 /** Demo accounts from the Lakemont seed. */
-const ADMIN = { email: "desk@grainyard.test", password: "lakemont-desk-2026" };
+const ADMIN = DEMO_ADMIN;
 const SAWYER = { email: "hello@cobblelane-slabs.test", password: "cobblelane-chainsaw-2026" };
 const FIRST_TITLE = `Honey locust bench top ${Date.now().toString(36)}`;
 const FIXED_TITLE = `${FIRST_TITLE}, crack at the north end`;
 const REASON = "Say which end has the crack and show it in a photo.";
 
-async function signIn(page: Page, who: { email: string; password: string }, landing: string) {
-  await page.goto(`${appUrl}/sign-in`);
-  await page.getByLabel("E-mail").fill(who.email);
-  await page.getByLabel("Password").fill(who.password);
-  await page.locator('[data-test="submit"]').click();
+/** Signs in (the admin through its code step) and waits for the role's landing page. */
+async function signIn(page: Page, who: SignInAs, landing: string) {
+  await signInThroughForm(page, who);
   await page.waitForURL(`${appUrl}${landing}`, { timeout: 15_000 });
 }
 

@@ -1,6 +1,7 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import {
+  DEMO_ADMIN,
   appJson,
   appUrl,
   desktop,
@@ -24,7 +25,7 @@ import {
  */
 const NORTHSHORE = { email: "kiln@northshore-coop.test", password: "northshore-kiln-2026" };
 const CALLOWAY = { email: "studio@calloway-interiors.test", password: "bookmatched-pair-2026" };
-const DESK = { email: "desk@grainyard.test", password: "lakemont-desk-2026" };
+const DESK = DEMO_ADMIN;
 const WALNUT_PAIR = "Bookmatched black walnut pair with crotch figure";
 
 let browser: Browser;

@@ -1,5 +1,6 @@
 import { readFileSync } from "node:fs";
 import { request } from "node:http";
+import { generate } from "otplib";
 
 export interface Answer {
   status: number;
@@ -16,6 +17,8 @@ function required(name: string): string {
 /** HAProxy on the app port, and each instance's own address behind it. */
 export const balancerUrl = () => required("APP_URL");
 export const instanceUrls = () => required("INSTANCE_URLS").split(",");
+/** The seeded demo admin's second-factor secret (the test runner passes it on as `npm start` prints it). */
+export const demoAdminSecret = () => required("DEMO_ADMIN_TOTP_SECRET");
 
 /**
  * A browser-like HTTP client on loopback: keeps its cookies, sends the anti-forgery token on
@@ -77,10 +80,16 @@ export function client(options: { from?: string } = {}) {
       if (answer.status !== 200) throw new Error(`session: ${answer.status}`);
       return this;
     },
-    async signIn(email: string, password: string, baseUrl = balancerUrl()) {
+    /** Signs in; an account with a second factor (give its secret) through the code step with the code its app shows now. */
+    async signIn(email: string, password: string, baseUrl = balancerUrl(), totpSecret?: string) {
       await this.start(baseUrl);
-      const answer = await send(baseUrl, "POST", "/api/v1/session", { email, password });
-      if (answer.status !== 200) throw new Error(`sign-in of ${email}: ${answer.status} ${JSON.stringify(answer.body)}`);
+      let answer = await send(baseUrl, "POST", "/api/v1/session", { email, password });
+      if (answer.status === 200 && answer.body.secondStep && totpSecret) {
+        const code = await generate({ secret: totpSecret, epoch: Math.floor(Date.now() / 1000) });
+        answer = await send(baseUrl, "POST", "/api/v1/session/second-factor", { code });
+      }
+      if (answer.status !== 200 || !answer.body.account)
+        throw new Error(`sign-in of ${email}: ${answer.status} ${JSON.stringify(answer.body)}`);
       return this;
     },
     photo: (path: string, file: string, baseUrl = balancerUrl()) => send(baseUrl, "POST", path, readFileSync(file), "image/png"),

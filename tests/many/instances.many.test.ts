@@ -2,7 +2,7 @@ import { randomUUID } from "node:crypto";
 import { join } from "node:path";
 import mysql from "mysql2/promise";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { balancerUrl, client, instanceUrls, type Answer, type Client } from "./client.ts";
+import { balancerUrl, client, demoAdminSecret, instanceUrls, type Answer, type Client } from "./client.ts";
 
 /**
  * Three API instances behind HAProxy on the test stack's app port, on one database with the
@@ -28,7 +28,7 @@ beforeAll(async () => {
     password: process.env.DATABASE_PASSWORD,
     database: process.env.DATABASE_NAME,
   });
-  admin = await client().signIn(DEMO.admin.email, DEMO.admin.password);
+  admin = await client().signIn(DEMO.admin.email, DEMO.admin.password, undefined, demoAdminSecret());
   sawyer = await client().signIn(DEMO.sawyer.email, DEMO.sawyer.password);
 });
 afterAll(async () => database?.end());

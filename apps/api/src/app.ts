@@ -14,6 +14,8 @@ import type { PaymentsPort } from "./integrations/payments.ts";
 import type { PhotoStorage } from "./integrations/storage.ts";
 import type { Logger } from "./logger.ts";
 import { accountHandlers } from "./routes/account-routes.ts";
+import { secondFactorHandlers } from "./routes/second-factor-routes.ts";
+import { createSecondFactorService } from "./services/second-factor-service.ts";
 import { healthHandlers } from "./routes/health-routes.ts";
 import { listingHandlers, reviewHandlers } from "./routes/listing-routes.ts";
 import { createLogPhotoService, createPhotoService } from "./services/photo-service.ts";
@@ -180,6 +182,8 @@ export function createApp(appDeps: AppDependencies) {
   });
   // Sign-in and reset limits in MariaDB, shared by every API instance (rate-limiter-flexible).
   const rateLimits = createRateLimits({ limits: config.limits, dataSource: deps.dataSource, log: logger });
+  // Codes follow the real clock of the phone that shows them (or a test's injected clock), never the end-to-end stack's movable one.
+  const secondFactor = createSecondFactorService({ dataSource: deps.dataSource, mail: outbox, config, now: appDeps.now });
   const accounts = createAccountService({
     dataSource: deps.dataSource,
     mail: outbox,
@@ -189,6 +193,7 @@ export function createApp(appDeps: AppDependencies) {
     notices: rateLimits.notices,
     now: deps.now,
     events,
+    secondFactor,
   });
   const yard = createYardService({
     dataSource: deps.dataSource,
@@ -260,7 +265,8 @@ export function createApp(appDeps: AppDependencies) {
   // Every API route comes from the endpoint table in packages/contracts, with one handler per row.
   const handlers: { [D in keyof typeof endpointTable]?: Handlers<(typeof endpointTable)[D]> } = {
     health: healthHandlers(createHealthService(deps)),
-    accounts: accountHandlers(accounts),
+    accounts: accountHandlers(accounts, deps.now ?? (() => new Date())),
+    secondFactor: secondFactorHandlers(accounts, secondFactor),
     yard: yardHandlers(yard, inventoryCsv, logPhotos),
     listings: listingHandlers(listings, photos),
     review: reviewHandlers(listings),

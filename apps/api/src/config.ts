@@ -59,6 +59,8 @@ const environmentSchema = z.object({
   SIGN_IN_SLOW_AFTER: z.coerce.number().int().min(1).default(10),
   /** The first slow-down, ms; it doubles with each further failure, up to 8 times this. */
   SIGN_IN_SLOWDOWN_MS: z.coerce.number().int().min(0).max(10_000).default(1000),
+  /** Wrong second-factor codes for one account (15 minutes, any address) before its codes get 429. */
+  SECOND_FACTOR_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(5),
   RESET_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(3),
   RESET_LIMIT_PER_IP: z.coerce.number().int().min(1).default(20),
   CATALOGUE_CACHE: z.enum(["on", "off"]).default("on"),
@@ -115,6 +117,8 @@ export interface AppConfig {
     /** Failed sign-ins per account (any address) after which its tries slow down and the owner is e-mailed. */
     signInSlowAfter: number;
     signInSlowdownMs: number;
+    /** Wrong second-factor codes per account (any address) before its codes get 429. */
+    codePerAccount: number;
     resetPerAccount: number;
     resetPerIp: number;
     windowMs: number;
@@ -192,6 +196,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
       signInPerIp: env.SIGN_IN_LIMIT_PER_IP,
       signInSlowAfter: env.SIGN_IN_SLOW_AFTER,
       signInSlowdownMs: env.SIGN_IN_SLOWDOWN_MS,
+      codePerAccount: env.SECOND_FACTOR_LIMIT_PER_ACCOUNT,
       resetPerAccount: env.RESET_LIMIT_PER_ACCOUNT,
       resetPerIp: env.RESET_LIMIT_PER_IP,
       windowMs: 15 * 60 * 1000,

@@ -1,7 +1,7 @@
 import { createRouter, createWebHistory, type RouteLocationNormalized, type RouteRecordRaw, type RouterHistory } from "vue-router";
 import type { Pinia } from "pinia";
 import type { Role } from "@grainyard/contracts";
-import { useSessionStore } from "./stores/session.ts";
+import { SECURITY_PATH, useSessionStore } from "./stores/session.ts";
 
 declare module "vue-router" {
   interface RouteMeta {
@@ -42,6 +42,13 @@ export const routes: RouteRecordRaw[] = [
     name: "sign-in",
     component: () => import("./views/SignInView.vue"),
     meta: { title: "Sign in", guestOnly: true },
+  },
+  {
+    // The second sign-in step (a code from the app or a recovery code), after a right password.
+    path: "/sign-in/code",
+    name: "sign-in-code",
+    component: () => import("./views/SignInCodeView.vue"),
+    meta: { title: "Enter your code", guestOnly: true },
   },
   {
     path: "/join",
@@ -151,6 +158,12 @@ export const routes: RouteRecordRaw[] = [
     name: "account",
     component: () => import("./views/AccountView.vue"),
     meta: { title: "My account", roles: ["buyer"] },
+  },
+  {
+    path: SECURITY_PATH,
+    name: "account-security",
+    component: () => import("./views/AccountSecurityView.vue"),
+    meta: { title: "Sign-in security", roles: ["sawyer", "admin"] },
   },
   {
     path: "/saved-searches",
@@ -274,8 +287,16 @@ export function createGrainyardRouter(pinia: Pinia, history: RouterHistory = cre
     // If the session could not be read (offline), let the page render: App shows the offline state.
     if (session.status !== "ready") return true;
 
+    // The code step exists only while a password step waits for its code.
+    if (to.name === "sign-in-code" && !session.secondStep && !session.account) {
+      return { path: "/sign-in", query: to.query };
+    }
     if (to.meta.roles && !session.account) {
       return { path: "/sign-in", query: { next: to.fullPath } };
+    }
+    // An admin without a second factor sets one up before anything else.
+    if (session.secondFactorSetUpNeeded && to.meta.roles && to.path !== SECURITY_PATH) {
+      return { path: SECURITY_PATH, query: { next: to.fullPath } };
     }
     if (to.meta.guestOnly && session.account) {
       return safeNextPath(to.query.next) ?? session.homePath;

@@ -120,6 +120,13 @@ export type Account = z.infer<typeof accountSchema>;
 export const sessionSchema = z.object({
   account: accountSchema.nullable(),
   csrfToken: z.string(),
+  /**
+   * Set between the two steps of signing in to an account with a second factor: the password was
+   * right and the code is awaited (no one is signed in yet). Lasts a few minutes.
+   */
+  secondStep: z.object({ email: z.string(), until: z.string() }).nullable().default(null),
+  /** A signed-in admin without a second factor: only the set-up (and signing out) is open until it is on. */
+  secondFactorSetUpNeeded: z.boolean().default(false),
 });
 export type SessionState = z.infer<typeof sessionSchema>;
 

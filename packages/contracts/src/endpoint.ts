@@ -38,7 +38,12 @@ export interface EndpointSpec {
   /** Answers the same for everyone: served before the session is read. */
   sessionFree?: true;
   /** A named rate limit the API puts in front of it. */
-  limit?: "sign_in" | "password_reset";
+  limit?: "sign_in" | "password_reset" | "second_factor";
+  /**
+   * Open to an admin who has not switched on a second factor yet (the set-up itself). Every other
+   * row that needs a signed-in account answers such an admin 403 `second_factor_setup_required`.
+   */
+  beforeSecondFactor?: true;
   /** Not called by a browser (the provider's signature is its proof): no anti-forgery token. */
   csrfFree?: true;
   /** Mounted only on the end-to-end stack (NODE_ENV=test with the test clock). */

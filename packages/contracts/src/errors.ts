@@ -33,6 +33,16 @@ export const errorCatalogue = {
   link_used: entry(410, "The link was used already."),
   link_expired: entry(410, "The link is too old."),
   email_unverified: entry(403, "Confirm the e-mail address first."),
+  wrong_password: entry(422, "The password given to confirm a change is not the account's."),
+
+  // The second factor (codes from an authenticator app, recovery codes).
+  second_factor_setup_required: entry(403, "An admin must switch on a second factor before doing anything else."),
+  second_factor_wrong: entry(422, "The code from the authenticator app (or the recovery code) is not right."),
+  second_factor_used: entry(409, "That code was used already: wait for the next one."),
+  second_step_expired: entry(401, "The sign-in waited too long for its code (or was never started): enter the password again."),
+  second_factor_on: entry(409, "The account has its second factor on already."),
+  second_factor_off: entry(409, "The account has no second factor to remove."),
+  second_factor_not_started: entry(409, "No set-up was started (or it was replaced): start it again."),
 
   // The yard.
   invalid_measurement: entry(422, "The measurements cannot describe a slab."),
@@ -118,6 +128,7 @@ export const everyEndpointErrors = [
   "too_many_requests",
   "internal",
   "unavailable",
+  "second_factor_setup_required",
 ] as const satisfies readonly ErrorCode[];
 
 /** Detail some codes carry beside the message. */

@@ -3,6 +3,7 @@ export * from "./errors.ts";
 export * from "./endpoint.ts";
 export * from "./endpoints/index.ts";
 export * from "./accounts.ts";
+export * from "./second-factor.ts";
 export * from "./health.ts";
 export * from "./yard.ts";
 export * from "./slab-labels.ts";

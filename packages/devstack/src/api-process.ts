@@ -71,4 +71,6 @@ export interface DemoAccount {
   email: string;
   password: string;
   name: string;
+  /** The demo admin's second factor: its secret (made once by the seed, kept in the database) and the address a QR code holds. */
+  secondFactor?: { secret: string; otpauthUrl: string };
 }

@@ -25,6 +25,19 @@ function demoAccountLines(accounts: DemoAccount[]): string[] {
   return accounts.map((a) => `  ${a.role.padEnd(6)} ${a.email.padEnd(32)} ${a.password.padEnd(26)} ${a.name}`);
 }
 
+/** How to get past the second factor of demo accounts that have one (the admin). */
+function secondFactorLines(accounts: DemoAccount[]): string[] {
+  return accounts.flatMap((a) =>
+    a.secondFactor
+      ? [
+          `Second factor of ${a.email} (asked after the password):`,
+          `  add the key ${a.secondFactor.secret} to an authenticator app (time-based, 6 digits),`,
+          `  or print the current code: pnpm --filter @grainyard/api demo:code`,
+        ]
+      : [],
+  );
+}
+
 /** Starts the test profile's services and registers their stop. */
 async function testServices(lifecycle: Lifecycle, fresh: boolean): Promise<RunningStack> {
   const stack = await startStack(profileFor("test"), {
@@ -131,6 +144,8 @@ async function serve(lifecycle: Lifecycle, mode: "start" | "dev"): Promise<"runn
     "",
     "Demo accounts (Lakemont):",
     ...demoAccountLines(demoAccounts),
+    "",
+    ...secondFactorLines(demoAccounts),
     "",
     "Press Ctrl-C to stop.",
   ]);

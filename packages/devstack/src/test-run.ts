@@ -8,7 +8,7 @@ import { startProcess, tail, type ManagedProcess } from "./processes.ts";
 import { repoRoot } from "./profile.ts";
 import type { RunningStack } from "./stack.ts";
 import { buildWebIfStale } from "./web-build.ts";
-import { prepareDatabase, startApi, waitForApi } from "./api-process.ts";
+import { prepareDatabase, startApi, waitForApi, type DemoAccount } from "./api-process.ts";
 import { startApiInstances } from "./instances.ts";
 import { startMariadb } from "./mariadb.ts";
 import { startReplica } from "./replica.ts";
@@ -138,7 +138,7 @@ export async function runTestSuites(stack: RunningStack, signal: AbortSignal): P
   let api: ManagedProcess | undefined;
   const apiLog = join(stack.profile.dataDir, "api-e2e.log");
   try {
-    await prepareDatabase(stack, "grainyard_e2e", e2eEnvironment, { signal });
+    const e2eDemo = await prepareDatabase(stack, "grainyard_e2e", e2eEnvironment, { signal });
     await buildWebIfStale(signal);
     api = startApi(e2eEnvironment, apiLog);
     await waitForApi(e2eEnvironment.PUBLIC_URL!, api, apiLog, signal);
@@ -151,6 +151,8 @@ export async function runTestSuites(stack: RunningStack, signal: AbortSignal): P
           INBOX_URL: stack.inboxUrl,
           CHROMIUM_PATH: CHROMIUM,
           SCREENSHOT_DIR: join(resultsDir, "screenshots"),
+          // The demo admin's second factor, as `npm start` prints it: the suites compute its codes.
+          DEMO_ADMIN_TOTP_SECRET: demoAdminSecret(e2eDemo),
         },
         signal,
         ["--config", "vitest.e2e.config.ts"],
@@ -169,6 +171,13 @@ export async function runTestSuites(stack: RunningStack, signal: AbortSignal): P
   results.push(await runManyInstances(stack, signal));
   results.push(await runReplicaSuite(stack, testEnvironment, signal));
   return results;
+}
+
+/** The seeded demo admin's second-factor secret (the seed makes one per database). */
+function demoAdminSecret(accounts: DemoAccount[]): string {
+  const secret = accounts.find((account) => account.role === "admin")?.secondFactor?.secret;
+  if (!secret) throw new Error("the demo seed gave the admin no second factor");
+  return secret;
 }
 
 /**
@@ -242,7 +251,7 @@ async function runManyInstances(stack: RunningStack, signal: AbortSignal): Promi
   const environment = stack.apiEnvironment("grainyard_many", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "warn" });
   const stops: (() => Promise<void>)[] = [];
   try {
-    await prepareDatabase(stack, "grainyard_many", environment, { signal });
+    const demo = await prepareDatabase(stack, "grainyard_many", environment, { signal });
     const { instances } = await startApiInstances({
       environment,
       count: 3,
@@ -258,6 +267,7 @@ async function runManyInstances(stack: RunningStack, signal: AbortSignal): Promi
       {
         APP_URL: environment.PUBLIC_URL!,
         INSTANCE_URLS: instances.map((instance) => instance.url).join(","),
+        DEMO_ADMIN_TOTP_SECRET: demoAdminSecret(demo),
         // The failure test stops two of them (SIGKILL and SIGTERM) under load.
         INSTANCE_PIDS: instances.map((instance) => instance.process.child.pid).join(","),
         DATABASE_HOST: environment.DATABASE_HOST!,

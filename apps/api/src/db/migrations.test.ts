@@ -67,6 +67,7 @@ describe("migrations", () => {
       "payout_account",
       "payout_line",
       "rate_limit",
+      "recovery_code",
       "saved_search",
       "saved_search_match",
       "schema_migration",

@@ -51,6 +51,22 @@ export class AccountEntity {
   @Column({ name: "suspension_reason", type: "text", nullable: true })
   suspensionReason: string | null;
 
+  /** The second factor's shared secret (Base32) once it is on; null while it is off. */
+  @Column({ name: "totp_secret", type: "varchar", length: 64, nullable: true })
+  totpSecret: string | null;
+
+  /** A set-up's new secret until its first code confirms it (then it moves to `totpSecret`). */
+  @Column({ name: "totp_pending_secret", type: "varchar", length: 64, nullable: true })
+  totpPendingSecret: string | null;
+
+  /** When the second factor was switched on. */
+  @Column({ name: "totp_on_at", type: "datetime", precision: 3, nullable: true })
+  totpOnAt: Date | null;
+
+  /** The last 30-second time step whose code was accepted: a code of that step or an earlier one is never taken again. */
+  @Column({ name: "totp_last_step", type: "int", nullable: true })
+  totpLastStep: number | null;
+
   @CreateDateColumn({ name: "created_at", type: "datetime", precision: 3, default: () => "CURRENT_TIMESTAMP(3)" })
   createdAt: Date;
 

@@ -84,3 +84,8 @@ entities.push(OrderReviewEntity);
 import { OutboxEmailEntity } from "./outbox-email.ts";
 export { OutboxEmailEntity };
 entities.push(OutboxEmailEntity);
+
+// The second factor's single-use recovery codes (hashed).
+import { RecoveryCodeEntity } from "./recovery-code.ts";
+export { RecoveryCodeEntity };
+entities.push(RecoveryCodeEntity);

@@ -3,11 +3,14 @@ import type { ZodType } from "zod";
 import { fieldMessages } from "@grainyard/contracts";
 import { Invalid } from "../errors.ts";
 import type { Actor } from "../services/actor.ts";
+import type { PendingSecondStep } from "../services/account-service.ts";
 
 /** What the session cookie holds: the anti-forgery token and, when signed in, the session key. */
 export interface SessionCookie {
   csrf?: string;
   key?: string;
+  /** Between a right password and the code of an account with a second factor (no session yet). */
+  pending?: PendingSecondStep;
 }
 
 declare global {

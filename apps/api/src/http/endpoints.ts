@@ -13,7 +13,7 @@ import {
 } from "@grainyard/contracts";
 import type { z } from "zod";
 import { AppError, Forbidden, Unauthorized } from "../errors.ts";
-import type { Actor } from "../services/actor.ts";
+import { secondFactorSetUpFirst, type Actor } from "../services/actor.ts";
 import { requireCsrfToken } from "./csrf.ts";
 import { parse } from "./context.ts";
 
@@ -99,6 +99,9 @@ function accessCheck(spec: EndpointSpec): RequestHandler {
   return (req, _res, next) => {
     const actor = req.actor ?? { kind: "anonymous" };
     const role = actor.kind === "account" ? actor.role : undefined;
+    // An admin without a second factor reaches only the open rows and the set-up until it is on.
+    if (actor.kind === "account" && actor.secondFactorSetUpNeeded && spec.access !== "anyone" && !spec.beforeSecondFactor)
+      return next(secondFactorSetUpFirst());
     if (mayCall(spec.access, role)) return next();
     if (!role) return next(new Unauthorized());
     const roles = spec.access === "signed_in" || spec.access === "anyone" ? [] : spec.access;

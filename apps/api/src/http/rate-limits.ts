@@ -6,6 +6,7 @@ import type { DataSource } from "typeorm";
 import type { AppConfig } from "../config.ts";
 import { TooManyRequests } from "../errors.ts";
 import type { OwnerNotices, SignInAttempt } from "../services/account-service.ts";
+import { sessionOf } from "./context.ts";
 
 /**
  * Limits on sign-in and password reset, counted in MariaDB (rate-limiter-flexible's MySQL store,
@@ -22,6 +23,12 @@ import type { OwnerNotices, SignInAttempt } from "../services/account-service.ts
  *   and the account service e-mails the owner (once an hour).
  * Every try is counted before the password is checked (so parallel tries cannot slip past a
  * limit) and handed back when the password was right.
+ *
+ * Codes of the second factor (the sign-in's code step, its set-up and removal) are counted the same
+ * way, per account (SECOND_FACTOR_LIMIT_PER_ACCOUNT wrong codes in 15 minutes, from any address, then
+ * 429 for that account's codes: a six-digit code cannot be guessed in a few tries) and per address
+ * (SIGN_IN_LIMIT_PER_IP). A right code clears the account's count. Someone who has the password can
+ * hold the code step shut for a while this way, never open it.
  */
 
 const RATE_LIMIT_TABLE = "rate_limit";
@@ -46,6 +53,12 @@ function accountKey(email: unknown): string {
 }
 
 const attempts = new WeakMap<Request, SignInAttempt>();
+const codeAttempts = new WeakMap<Request, { succeeded(): Promise<void> }>();
+
+/** The code try the `second_factor` limit step admitted for this request: told when the code was right. */
+export function secondFactorAttemptOf(req: Request): { succeeded(): Promise<void> } | undefined {
+  return codeAttempts.get(req);
+}
 
 /** The sign-in try the `sign_in` limit step admitted for this request (none outside that step, e.g. in unit tests). */
 export function signInAttemptOf(req: Request): SignInAttempt | undefined {
@@ -94,6 +107,8 @@ export function createRateLimits({ limits, dataSource, log }: RateLimitDependenc
   const signInAccount = limiter("signin_account", COUNT_ONLY, windowSeconds);
   const knownAddress = limiter("signin_known", 1, KNOWN_ADDRESS_SECONDS);
   const ownerNotice = limiter("owner_notice", 1, NOTICE_INTERVAL_SECONDS);
+  const codeAccount = limiter("code_account", limits.codePerAccount, windowSeconds);
+  const codeAddress = limiter("code_ip", limits.signInPerIp, windowSeconds);
   const resetAddress = limiter("reset_ip", limits.resetPerIp, windowSeconds);
   const resetAccount = limiter("reset_account", limits.resetPerAccount, RESET_ACCOUNT_WINDOW_SECONDS);
 
@@ -159,6 +174,28 @@ export function createRateLimits({ limits, dataSource, log }: RateLimitDependenc
     }
   };
 
+  const admitCode: RequestHandler = async (req: Request, res: Response, next: NextFunction) => {
+    try {
+      const address = clientAddress(req);
+      // Whose code: the signed-in account's (set-up, removal) or the one whose password was just right (sign-in).
+      const actor = req.actor;
+      const accountId = actor?.kind === "account" ? actor.accountId : sessionOf(req).pending?.accountId;
+      await take(res, codeAddress, address, (wait) => `Too many wrong codes from your network. Try again in ${wait}.`);
+      if (accountId) await take(res, codeAccount, accountId, (wait) => `Too many wrong codes for this account. Try again in ${wait}.`);
+      codeAttempts.set(req, {
+        async succeeded() {
+          await Promise.all([
+            quietly("reward code address", () => codeAddress.reward(address)),
+            accountId ? quietly("clear code account", () => codeAccount.delete(accountId)) : null,
+          ]);
+        },
+      });
+      next();
+    } catch (error) {
+      next(error);
+    }
+  };
+
   const admitReset: RequestHandler = async (req: Request, res: Response, next: NextFunction) => {
     try {
       const message = (wait: string) => `Too many reset requests. Try again in ${wait}.`;
@@ -176,5 +213,5 @@ export function createRateLimits({ limits, dataSource, log }: RateLimitDependenc
     },
   };
 
-  return { steps: { sign_in: [admitSignIn], password_reset: [admitReset] }, notices };
+  return { steps: { sign_in: [admitSignIn], password_reset: [admitReset], second_factor: [admitCode] }, notices };
 }

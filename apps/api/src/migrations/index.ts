@@ -79,3 +79,7 @@ migrations.push(CacheVersion1764993600000);
 // The e-mail outbox: every e-mail is written in the transaction of the change that causes it and delivered by a job.
 import { EmailOutbox1764997200000 } from "./1764997200000-email-outbox.ts";
 migrations.push(EmailOutbox1764997200000);
+
+// The second factor: TOTP secret and last accepted time step on the account, hashed single-use recovery codes.
+import { SecondFactor1765008000000 } from "./1765008000000-second-factor.ts";
+migrations.push(SecondFactor1765008000000);

@@ -1,4 +1,5 @@
 import type { accountEndpoints } from "@grainyard/contracts";
+import type { Actor } from "../services/actor.ts";
 import type { Request } from "express";
 import { sessionOf } from "../http/context.ts";
 import { signInAttemptOf } from "../http/rate-limits.ts";
@@ -16,20 +17,50 @@ function csrfTokenFor(req: Request): string {
   return session.csrf;
 }
 
-/** Sign-in, sign-up, e-mail confirmation, password reset and the yard profile: each calls one service function. */
-export function accountHandlers(accounts: AccountService): Handlers<typeof accountEndpoints> {
+/** The session's state beside the account: a code step awaited, or an admin's second factor still to set up. */
+function sessionExtras(req: Request, actor: Actor, at: number) {
+  const pending = sessionOf(req).pending;
   return {
-    getSession: async ({ actor, req }) => ({ account: await accounts.currentAccount(actor), csrfToken: csrfTokenFor(req) }),
+    secondStep: pending && pending.until > at ? { email: pending.email, until: new Date(pending.until).toISOString() } : null,
+    secondFactorSetUpNeeded: actor.kind === "account" && actor.secondFactorSetUpNeeded === true,
+  };
+}
+
+/** Sign-in, sign-up, e-mail confirmation, password reset and the yard profile: each calls one service function. */
+export function accountHandlers(accounts: AccountService, now: () => Date): Handlers<typeof accountEndpoints> {
+  return {
+    getSession: async ({ actor, req }) => ({
+      account: await accounts.currentAccount(actor),
+      csrfToken: csrfTokenFor(req),
+      ...sessionExtras(req, actor, now().getTime()),
+    }),
     signIn: async ({ body, req }) => {
-      const { account, sessionKey } = await accounts.signIn(body, signInAttemptOf(req));
+      const outcome = await accounts.signIn(body, signInAttemptOf(req));
+      if (outcome.kind === "code_needed") {
+        // No session yet: the signed cookie remembers whose code is awaited, for a few minutes.
+        req.session = { csrf: newToken(), pending: outcome.secondStep };
+        const { email, until } = outcome.secondStep;
+        return {
+          account: null,
+          csrfToken: sessionOf(req).csrf!,
+          secondStep: { email, until: new Date(until).toISOString() },
+          secondFactorSetUpNeeded: false,
+        };
+      }
       // A fresh anti-forgery token with every new session.
-      req.session = { key: sessionKey, csrf: newToken() };
-      return { account, csrfToken: sessionOf(req).csrf! };
+      req.session = { key: outcome.sessionKey, csrf: newToken() };
+      // Signed in at once means no second factor is on: an admin must set one up before anything else.
+      return {
+        account: outcome.account,
+        csrfToken: sessionOf(req).csrf!,
+        secondStep: null,
+        secondFactorSetUpNeeded: outcome.account.role === "admin",
+      };
     },
     signOut: async ({ actor, req }) => {
       await accounts.signOut(actor);
       req.session = { csrf: newToken() };
-      return { account: null, csrfToken: sessionOf(req).csrf! };
+      return { account: null, csrfToken: sessionOf(req).csrf!, secondStep: null, secondFactorSetUpNeeded: false };
     },
     signUp: async ({ actor, body }) => {
       // The same answer whether or not the address has an account already (its owner gets an e-mail).

@@ -136,6 +136,23 @@ const samples: Record<EndpointKey, Sample> = {
     allowed: { sawyer: 200, otherSawyer: 403, admin: 200 },
   },
 
+  // No password step came first: the code step has nothing to finish.
+  "secondFactor.signInSecondStep": { call: (c) => c.post("/api/v1/session/second-factor", { code: "123456" }), allowed: 401 },
+  "secondFactor.getSecondFactor": { call: (c) => c.get("/api/v1/account/second-factor") },
+  // Test admins have theirs on already (test-support); the sawyers start one.
+  "secondFactor.startSecondFactorSetUp": {
+    call: (c) => c.post("/api/v1/account/second-factor/set-up"),
+    allowed: { sawyer: 200, otherSawyer: 200, admin: 409 },
+  },
+  "secondFactor.confirmSecondFactor": {
+    call: (c) => c.post("/api/v1/account/second-factor", { code: "000000" }),
+    allowed: { sawyer: 422, otherSawyer: 422, admin: 409 },
+  },
+  "secondFactor.removeSecondFactor": {
+    call: (c) => c.post("/api/v1/account/second-factor/removal", { password: "not-the-password", code: "000000" }),
+    allowed: { sawyer: 409, otherSawyer: 409, admin: 422 },
+  },
+
   "yard.listLogs": { call: (c) => c.get("/api/v1/yard/logs") },
   "yard.createLog": {
     call: (c) =>

@@ -5,6 +5,8 @@ import { AccountEntity } from "../entities/index.ts";
 import { pickupPosition } from "../services/account-service.ts";
 import { freeYardSlug } from "../services/yard-slugs.ts";
 import { hashPassword } from "../services/passwords.ts";
+import { newTotpSecret } from "../services/second-factor-service.ts";
+import { AuditEntryEntity } from "../entities/index.ts";
 
 /**
  * The Lakemont demo: an invented lake city, its urban sawyers and some buyers.
@@ -215,6 +217,13 @@ export async function seedLakemont(dataSource: DataSource, bcryptCost: number): 
           await repository.update({ id: existing.id }, pickupPosition(existing.pickupTown));
         // And yards seeded before yard pages get their story.
         if (demo.story && existing.yardStory === null) await repository.update({ id: existing.id }, { yardStory: demo.story });
+        // A demo admin seeded before second factors gets one (but not one who removed theirs on purpose).
+        if (
+          existing.role === "admin" &&
+          !existing.totpOnAt &&
+          !(await manager.getRepository(AuditEntryEntity).existsBy({ targetId: existing.id, action: "second_factor.off" }))
+        )
+          await repository.update({ id: existing.id }, { totpSecret: newTotpSecret(), totpOnAt: new Date() });
         continue;
       }
       const id = randomUUID();
@@ -230,6 +239,9 @@ export async function seedLakemont(dataSource: DataSource, bcryptCost: number): 
         pickupTown: demo.pickupTown ?? null,
         ...pickupPosition(demo.pickupTown ?? null),
         emailVerifiedAt: new Date(),
+        // Admins need a second factor: the demo admin's secret is made here once, kept in the database, and
+        // printed by `npm start` (never written into the repository).
+        ...(demo.role === "admin" ? { totpSecret: newTotpSecret(), totpOnAt: new Date() } : {}),
       });
       // The database stamps created_at itself; a demo yard has been a member for a while.
       if (demo.memberSince) await repository.update({ id }, { createdAt: new Date(`${demo.memberSince}T15:00:00Z`) });

@@ -23,6 +23,7 @@ import { decoyPasswordCheck, hashPassword, isCommonPassword, passwordMatches } f
 import { findPlace } from "./places.ts";
 import { newToken, tokenHash } from "./tokens.ts";
 import type { DomainEventBus } from "../events.ts";
+import { SECOND_STEP_MINUTES, type SecondFactorService } from "./second-factor-service.ts";
 
 export const SESSION_DAYS = 14;
 const VERIFY_HOURS = 48;
@@ -34,6 +35,18 @@ export interface SignInAttempt {
   succeeded(): Promise<void>;
   /** A wrong password: it stays counted; `hammered` once the account's failures reach the slow-down point. */
   failed(): Promise<{ failures: number; hammered: boolean }>;
+}
+
+/** A password step's outcome: signed in, or the account's second factor is awaited (no session yet). */
+export type SignInOutcome =
+  { kind: "signed_in"; account: Account; sessionKey: string } | { kind: "code_needed"; secondStep: PendingSecondStep };
+
+/** What the session cookie keeps between the password and the code (signed; a few minutes). */
+export interface PendingSecondStep {
+  accountId: string;
+  email: string;
+  /** Epoch milliseconds. */
+  until: number;
 }
 
 /** Whether to e-mail an owner about something happening to their account: at most once an hour per account and kind. */
@@ -51,7 +64,8 @@ export interface AccountServiceDependencies {
   background: BackgroundWork;
   notices: OwnerNotices;
   now?: () => Date;
-  /** Called inside the transaction after a yard's name or town changed. */
+  /** Codes for accounts with a second factor (the sign-in's second step). */
+  secondFactor: SecondFactorService;
   /** Where the service announces what changed (the catalogue and alerts listen). */
   events?: DomainEventBus;
 }
@@ -115,6 +129,18 @@ export function createAccountService(deps: AccountServiceDependencies) {
     const result = await repository.update({ id: found.id, usedAt: IsNull() }, { usedAt: now() });
     if (result.affected !== 1) throw new Gone(`That ${noun} link has already been used.`, "link_used");
     return found;
+  }
+
+  /** A new session for an account; its key goes into the cookie, only its hash into the table. */
+  async function openSession(manager: EntityManager, accountId: string): Promise<string> {
+    const sessionKey = newToken();
+    await manager.getRepository(SessionRecordEntity).insert({
+      keyHash: tokenHash(sessionKey),
+      accountId,
+      expiresAt: new Date(now().getTime() + SESSION_DAYS * 86400_000),
+      revokedAt: null,
+    });
+    return sessionKey;
   }
 
   return {
@@ -182,7 +208,7 @@ export function createAccountService(deps: AccountServiceDependencies) {
      * the try the sign-in limit admitted: told whether the password was right, and when an account
      * is being hammered its owner is e-mailed (after the answer, so its timing tells nothing).
      */
-    async signIn(input: SignInInput, attempt?: SignInAttempt): Promise<{ account: Account; sessionKey: string }> {
+    async signIn(input: SignInInput, attempt?: SignInAttempt): Promise<SignInOutcome> {
       const entity = await accounts().findOne({ where: { email: input.email } });
       const matches = entity
         ? await passwordMatches(input.password, entity.passwordHash)
@@ -209,14 +235,24 @@ export function createAccountService(deps: AccountServiceDependencies) {
           "This account is suspended, so it cannot sign in. Reply to the e-mail we sent you to talk to us about it.",
           "account_suspended",
         );
-      const sessionKey = newToken();
-      await dataSource.getRepository(SessionRecordEntity).insert({
-        keyHash: tokenHash(sessionKey),
-        accountId: entity.id,
-        expiresAt: new Date(now().getTime() + SESSION_DAYS * 86400_000),
-        revokedAt: null,
-      });
-      return { account: toAccount(entity), sessionKey };
+      // With a second factor on, the right password only opens the code step (kept in the signed cookie for a few minutes).
+      if (entity.totpOnAt)
+        return {
+          kind: "code_needed",
+          secondStep: { accountId: entity.id, email: entity.email, until: now().getTime() + SECOND_STEP_MINUTES * 60_000 },
+        };
+      const sessionKey = await openSession(dataSource.manager, entity.id);
+      return { kind: "signed_in", account: toAccount(entity), sessionKey };
+    },
+
+    /** The code step: a code from the app or a recovery code for the account whose password was right a moment ago. */
+    async signInSecondStep(pending: PendingSecondStep | undefined, code: string): Promise<{ account: Account; sessionKey: string }> {
+      if (!pending || pending.until <= now().getTime())
+        throw new Unauthorized("That sign-in waited too long for its code. Enter your password again.", "second_step_expired");
+      const { opened, account } = await deps.secondFactor.completeSignIn(pending.accountId, code, (manager, found) =>
+        openSession(manager, found.id),
+      );
+      return { account: toAccount(account), sessionKey: opened };
     },
 
     /** Finds the account behind a session key, if the session is live. */
@@ -236,6 +272,8 @@ export function createAccountService(deps: AccountServiceDependencies) {
           role: account.role,
           emailVerified: account.emailVerifiedAt !== null,
           sessionKeyHash: keyHash,
+          // An admin without a second factor may only set one up (and sign out) until it is on.
+          ...(account.role === "admin" && !account.totpOnAt ? { secondFactorSetUpNeeded: true as const } : {}),
         },
         account,
       };

@@ -14,6 +14,7 @@ import { createPayments } from "../integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
 import { hashPassword } from "../services/passwords.ts";
+import { codeAt, newTotpSecret } from "../services/second-factor-service.ts";
 
 /**
  * API integration tests run against the real local test stack that `npm test` starts: a private
@@ -77,9 +78,13 @@ export async function createTestContext(options: { environment?: Record<string, 
     config,
     dataSource,
     logLines,
-    /** Creates an account straight in the database (already verified unless told otherwise). */
-    async createAccount(role: Role, overrides: Partial<AccountEntity> & { password?: string } = {}) {
+    /**
+     * Creates an account straight in the database (already verified unless told otherwise). An admin
+     * has a second factor on (admins need one) unless `secondFactor: false`; its secret is returned.
+     */
+    async createAccount(role: Role, overrides: AccountOverrides = {}) {
       const password = overrides.password ?? `test-${randomBytes(6).toString("hex")}-pass`;
+      const totpSecret = (overrides.secondFactor ?? role === "admin") ? newTotpSecret() : null;
       const id = randomUUID();
       const email = overrides.email ?? `${role}-${id.slice(0, 8)}@lakemont.test`;
       const yardName = role === "sawyer" ? (overrides.yardName ?? "Test Yard") : null;
@@ -96,9 +101,13 @@ export async function createTestContext(options: { environment?: Record<string, 
         pickupLatitude: overrides.pickupLatitude ?? null,
         pickupLongitude: overrides.pickupLongitude ?? null,
         emailVerifiedAt: overrides.emailVerifiedAt === undefined ? new Date() : overrides.emailVerifiedAt,
+        totpSecret,
+        totpOnAt: totpSecret ? new Date() : null,
       });
-      return { id, email, password };
+      return { id, email, password, totpSecret };
     },
+    /** The code an account's authenticator shows now (on the test's clock when it has one). */
+    codeFor: (secret: string) => codeAt(secret, options.clock?.now() ?? new Date()),
     /**
      * A browser-like client: keeps cookies and sends the anti-forgery header on changes. `from`
      * gives it its own loopback address (127.0.0.2, 127.0.0.3…): its connections leave from there,
@@ -109,11 +118,15 @@ export async function createTestContext(options: { environment?: Record<string, 
     },
     /** Waits for the e-mails and other background work the requests so far started. */
     settled: () => app.background.settled(),
-    async signedInClient(role: Role, overrides: Partial<AccountEntity> & { password?: string } = {}) {
+    /** A client signed in to a new account of this role (an admin through its second factor's code step). */
+    async signedInClient(role: Role, overrides: AccountOverrides = {}) {
       const account = await this.createAccount(role, overrides);
       const client = await browserClient(app);
-      const res = await client.post("/api/v1/session", { email: account.email, password: account.password });
-      if (res.status !== 200) throw new Error(`sign-in for the test failed: ${res.status} ${JSON.stringify(res.body)}`);
+      let res = await client.post("/api/v1/session", { email: account.email, password: account.password });
+      if (res.status === 200 && res.body.secondStep && account.totpSecret)
+        res = await client.post("/api/v1/session/second-factor", { code: await this.codeFor(account.totpSecret) });
+      if (res.status !== 200 || !res.body.account)
+        throw new Error(`sign-in for the test failed: ${res.status} ${JSON.stringify(res.body)}`);
       return Object.assign(client, { account });
     },
     async close() {
@@ -127,6 +140,9 @@ export async function createTestContext(options: { environment?: Record<string, 
 }
 
 export type TestContext = Awaited<ReturnType<typeof createTestContext>>;
+
+/** Columns to set on a test account, its password, and whether it has a second factor on (admins do unless false). */
+export type AccountOverrides = Partial<AccountEntity> & { password?: string; secondFactor?: boolean };
 
 export interface ClientOptions {
   /** The loopback address the client's connections leave from (127.0.0.0/8 only). */

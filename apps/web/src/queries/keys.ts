@@ -53,6 +53,10 @@ export const queryKeys = {
     outboxAll: ["admin", "outbox"] as const,
     outbox: (status: string) => ["admin", "outbox", status] as const,
   },
+  secondFactor: {
+    /** Whether the signed-in account's second factor is on (the account is part of the key). */
+    status: (accountId: string) => ["second-factor", accountId] as const,
+  },
   payouts: {
     all: ["payouts"] as const,
     due: ["payouts", "due"] as const,

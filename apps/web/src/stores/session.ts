@@ -5,13 +5,17 @@ import type { Account, Role, SessionState, SignInInput } from "@grainyard/contra
 import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
 import { accountsApi } from "../api/accounts.ts";
 import { isPersonalKey } from "../queries/keys.ts";
+import { secondFactorApi } from "../api/second-factor.ts";
 
 /** Where each role lands after signing in. */
-export const roleHome: Record<Role, string> = {
+const roleHome: Record<Role, string> = {
   sawyer: "/yard",
   buyer: "/account",
   admin: "/admin",
 };
+
+/** The page where sawyers and admins set up or remove their second factor. */
+export const SECURITY_PATH = "/account/security";
 
 type LoadStatus = "idle" | "loading" | "ready" | "error";
 
@@ -20,6 +24,10 @@ export const useSessionStore = defineStore("session", () => {
   const csrfToken = ref<string | null>(null);
   const status = ref<LoadStatus>("idle");
   const loadError = ref<ApiRequestError | null>(null);
+  /** Between a right password and the code of an account with a second factor: whose code is awaited. */
+  const secondStep = ref<SessionState["secondStep"]>(null);
+  /** A signed-in admin without a second factor: only its set-up is open. */
+  const secondFactorSetUpNeeded = ref(false);
   let pending: Promise<void> | null = null;
 
   const isSignedIn = computed(() => account.value !== null);
@@ -27,7 +35,7 @@ export const useSessionStore = defineStore("session", () => {
   const isBuyer = computed(() => role.value === "buyer");
   const isSawyer = computed(() => role.value === "sawyer");
   const isAdmin = computed(() => role.value === "admin");
-  const homePath = computed(() => (role.value ? roleHome[role.value] : "/"));
+  const homePath = computed(() => (secondFactorSetUpNeeded.value ? SECURITY_PATH : role.value ? roleHome[role.value] : "/"));
 
   const queryCache = useQueryCache();
 
@@ -39,6 +47,8 @@ export const useSessionStore = defineStore("session", () => {
     }
     account.value = state.account;
     csrfToken.value = state.csrfToken;
+    secondStep.value = state.secondStep ?? null;
+    secondFactorSetUpNeeded.value = state.secondFactorSetUpNeeded ?? false;
     status.value = "ready";
     loadError.value = null;
   }
@@ -66,8 +76,15 @@ export const useSessionStore = defineStore("session", () => {
     return load();
   }
 
+  /** The password step: signed in, or (with a second factor on) `secondStep` is set and the code is awaited. */
   async function signIn(input: SignInInput): Promise<Account | null> {
     apply(await accountsApi.signIn({ body: input }));
+    return account.value;
+  }
+
+  /** The code step: a code from the authenticator app or a recovery code. */
+  async function signInWithCode(code: string): Promise<Account | null> {
+    apply(await secondFactorApi.signInSecondStep({ body: { code } }));
     return account.value;
   }
 
@@ -91,9 +108,12 @@ export const useSessionStore = defineStore("session", () => {
     isSawyer,
     isAdmin,
     homePath,
+    secondStep,
+    secondFactorSetUpNeeded,
     load,
     ensureLoaded,
     signIn,
+    signInWithCode,
     signOut,
     updateAccount,
   };

@@ -67,6 +67,24 @@ describe("SignInView", () => {
     await vi.waitFor(() => expect(second.router.currentRoute.value.fullPath).toBe("/yard"), { timeout: 10_000 });
   });
 
+  it("sends an account with a second factor on to the code step, keeping ?next=", async () => {
+    const { wrapper, router, session } = await mountView(SignInView, {
+      path: "/sign-in?next=/yard/payouts",
+      answers: {
+        [`POST ${accountEndpoints.getSession.path}`]: [
+          {
+            status: 200,
+            body: { account: null, csrfToken: "t", secondStep: { email: sawyer.email, until: "2026-12-03T12:05:00.000Z" } },
+          },
+        ],
+      },
+    });
+    await fillAndSubmit(wrapper);
+    await vi.waitFor(() => expect(router.currentRoute.value.fullPath).toBe("/sign-in/code?next=/yard/payouts"), { timeout: 10_000 });
+    expect(session.account).toBeNull();
+    expect(session.secondStep?.email).toBe(sawyer.email);
+  });
+
   it("shows the API's message for wrong credentials and for too many tries", async () => {
     const { wrapper } = await mountView(SignInView, {
       path: "/sign-in",

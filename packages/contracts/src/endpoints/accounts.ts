@@ -25,7 +25,7 @@ export const accountEndpoints = {
   signIn: endpoint({
     method: "POST",
     path: `${API_PREFIX}/session`,
-    summary: "Sign in with e-mail and password.",
+    summary: "Sign in with e-mail and password; an account with a second factor answers `secondStep` (no session until its code).",
     access: "anyone",
     body: signInSchema,
     answer: sessionSchema,

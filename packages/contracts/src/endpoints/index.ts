@@ -7,6 +7,7 @@ import { listingEndpoints, reviewEndpoints } from "./listings.ts";
 import { orderEndpoints } from "./orders.ts";
 import { orderReviewEndpoints } from "./order-reviews.ts";
 import { payoutEndpoints } from "./payouts.ts";
+import { secondFactorEndpoints } from "./second-factor.ts";
 import { healthEndpoints, testClockEndpoints } from "./system.ts";
 import { yardEndpoints } from "./yard.ts";
 import { yardPageEndpoints } from "./yard-pages.ts";
@@ -20,6 +21,7 @@ export { listingEndpoints, reviewEndpoints } from "./listings.ts";
 export { orderEndpoints } from "./orders.ts";
 export { orderReviewEndpoints } from "./order-reviews.ts";
 export { payoutEndpoints } from "./payouts.ts";
+export { secondFactorEndpoints } from "./second-factor.ts";
 export { healthEndpoints, testClockEndpoints, testClockSchema } from "./system.ts";
 export { yardEndpoints } from "./yard.ts";
 export { yardPageEndpoints } from "./yard-pages.ts";
@@ -31,6 +33,7 @@ export { yardPageEndpoints } from "./yard-pages.ts";
 export const endpointTable = {
   health: healthEndpoints,
   accounts: accountEndpoints,
+  secondFactor: secondFactorEndpoints,
   yard: yardEndpoints,
   listings: listingEndpoints,
   review: reviewEndpoints,

@@ -46,7 +46,13 @@ describe("top bar", () => {
       },
     });
     await flushPromises();
-    expect(wrapper.findAll(".topbar__list a").map((a) => a.text().trim())).toEqual(["My yard", "Orders", "Messages", "Payouts"]);
+    expect(wrapper.findAll(".topbar__list a").map((a) => a.text().trim())).toEqual([
+      "My yard",
+      "Orders",
+      "Messages",
+      "Payouts",
+      "Security",
+    ]);
     expect(wrapper.find('[data-test="unread-badge"]').exists()).toBe(false);
     wrapper.unmount();
   });
