@@ -29,8 +29,9 @@ export interface Backend {
 /**
  * The load balancer's configuration: HTTP on 127.0.0.1:`port`, round robin over the API instances
  * on their own loopback ports. Each instance is asked for /api/health every second and taken out
- * after two unanswered checks (a stopping instance closes its port at once, so it is out before it
- * exits). A request whose connection to an instance fails is sent to another (always safe: nothing
+ * after three failed checks; a check may take 5 s (the health answer asks the database, storage, mail
+ * and payments, which is slow on a busy machine), while a refused connection fails it at once (a
+ * stopping instance closes its port at once, so it is out before it exits). A request whose connection to an instance fails is sent to another (always safe: nothing
  * reached the instance); one whose instance closed without answering is sent again only when it is
  * a GET or HEAD (a POST may have done its work). Client addresses travel in X-Forwarded-For.
  */
@@ -51,6 +52,7 @@ export function haproxyConfig(options: { port: number; backends: Backend[] }): s
     "  timeout server 60s",
     "  timeout http-request 10s",
     "  timeout http-keep-alive 5s",
+    "  timeout check 5s",
     // Connection attempts per request, and each one after a failure on another instance.
     "  retries 3",
     "  option redispatch 1",
@@ -72,7 +74,7 @@ export function haproxyConfig(options: { port: number; backends: Backend[] }): s
     // 503 is an instance that answers while a shared part (mail, payments) is down: all instances
     // share that part, so taking them out would only turn "degraded" into "down".
     "  http-check expect rstatus ^(200|503)$",
-    "  default-server inter 1s fastinter 250ms fall 2 rise 1",
+    "  default-server inter 1s fastinter 250ms fall 3 rise 1",
     ...options.backends.map((backend) => `  server ${backend.name} 127.0.0.1:${backend.port} check`),
     "",
   ].join("\n");

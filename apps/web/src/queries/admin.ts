@@ -23,7 +23,7 @@ import {
   type reportStatuses,
 } from "@grainyard/contracts";
 import type { ApiRequestError } from "../api/errors.ts";
-import { rethrow, useClient } from "./api.ts";
+import { rethrow, useClient, markStale } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
 export function useDashboard() {
@@ -67,7 +67,7 @@ export function useResolveReport() {
     mutation: (input: { reportId: string; resolution: (typeof reportResolutions)[number]; note: string }) =>
       client.resolveReport({ reportId: input.reportId, body: { resolution: input.resolution, note: input.note } }).catch(rethrow),
     // A take-down or suspension changes the dashboard, the people list and the catalogue too.
-    onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.all }),
+    onSettled: () => markStale(cache, { key: queryKeys.admin.all }),
   });
 }
 
@@ -100,7 +100,7 @@ export function useSuspendOrRestore() {
         ? client.suspendUser({ accountId: input.accountId, body: { reason: input.reason } })
         : client.restoreUser({ accountId: input.accountId, body: { reason: input.reason } })
       ).catch(rethrow),
-    onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.dashboard }),
+    onSettled: () => markStale(cache, { key: queryKeys.admin.dashboard }),
   });
 }
 
@@ -134,9 +134,9 @@ export function useReviewDecision() {
     // An approval puts a slab in the catalogue. The open desk is only marked stale: its decided rows stay
     // on screen with their decision, and the next visit asks again.
     onSettled: () => {
-      void cache.invalidateQueries({ key: queryKeys.admin.reviewDesk }, false);
-      void cache.invalidateQueries({ key: queryKeys.admin.dashboard });
-      void cache.invalidateQueries({ key: queryKeys.catalogue.all });
+      void markStale(cache, { key: queryKeys.admin.reviewDesk }, false);
+      void markStale(cache, { key: queryKeys.admin.dashboard });
+      void markStale(cache, { key: queryKeys.catalogue.all });
     },
   });
 }
@@ -154,7 +154,7 @@ export function useUpdateSettings() {
   const cache = useQueryCache();
   return useMutation({
     mutation: (body: Partial<MarketplaceSettings> & { reason: string }) => client.updateSettings({ body }).catch(rethrow),
-    onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.settings }),
+    onSettled: () => markStale(cache, { key: queryKeys.admin.settings }),
   });
 }
 
@@ -182,10 +182,10 @@ export function useHideOrShowReview() {
         : client.showReview({ reviewId: input.reviewId, body: { reason: input.reason } })
       ).catch(rethrow),
     onSettled: () => {
-      void cache.invalidateQueries({ key: queryKeys.admin.buyerReviewsAll });
+      void markStale(cache, { key: queryKeys.admin.buyerReviewsAll });
       // A yard's page shows its reviews and rating; an order shows its review.
-      void cache.invalidateQueries({ key: ["catalogue", "yard"] });
-      void cache.invalidateQueries({ key: ["reviews"] });
+      void markStale(cache, { key: ["catalogue", "yard"] });
+      void markStale(cache, { key: ["reviews"] });
     },
   });
 }
@@ -213,6 +213,6 @@ export function useResendEmail() {
         .resendEmail({ emailId })
         .then((answer) => answer.email)
         .catch(rethrow),
-    onSettled: () => cache.invalidateQueries({ key: queryKeys.admin.outboxAll }),
+    onSettled: () => markStale(cache, { key: queryKeys.admin.outboxAll }),
   });
 }

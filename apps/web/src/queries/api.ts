@@ -6,6 +6,7 @@
  * components use the queries.
  */
 import { inject, type InjectionKey } from "vue";
+import type { useQueryCache } from "@pinia/colada";
 import type { EndpointSpec } from "@grainyard/contracts";
 import { clientFor, transport, type ClientMethod, type Transport } from "../api/http.ts";
 import { toApiRequestError } from "../api/errors.ts";
@@ -29,4 +30,22 @@ export function useClient<T extends Record<string, EndpointSpec>>(table: T): Cli
 /** For a query's or mutation's `.catch`: every failure reaches the view as an ApiRequestError. */
 export function rethrow(error: unknown): never {
   throw toApiRequestError(error);
+}
+
+type QueryCache = ReturnType<typeof useQueryCache>;
+
+/**
+ * Marks answers stale (the ones on screen ask again at once unless `refetchActive` is false). A
+ * refetch cut short by a newer one, or one that failed, is already in its entry's state for the
+ * views to show, so nothing is thrown here (an unhandled rejection would be a page error).
+ */
+export function markStale(
+  cache: QueryCache,
+  filters: Parameters<QueryCache["invalidateQueries"]>[0],
+  refetchActive?: boolean,
+): Promise<void> {
+  return cache.invalidateQueries(filters, refetchActive).then(
+    () => undefined,
+    () => undefined,
+  );
 }

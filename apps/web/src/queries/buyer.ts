@@ -13,7 +13,7 @@ import {
   type SavedSearchInput,
 } from "@grainyard/contracts";
 import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
-import { rethrow, useClient } from "./api.ts";
+import { rethrow, useClient, markStale } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
 export function useAskAboutListing(listingId: MaybeRefOrGetter<string>) {
@@ -30,7 +30,7 @@ export function useSaveSearch() {
   const client = useClient(buyerEndpoints);
   const cache = useQueryCache();
   return useMutation<SavedSearch, SavedSearchInput, ApiRequestError>({
-    onSettled: () => cache.invalidateQueries({ key: queryKeys.buyer.savedSearches }),
+    onSettled: () => markStale(cache, { key: queryKeys.buyer.savedSearches }),
     mutation: (input) =>
       client
         .saveSearch({ body: input })

@@ -17,7 +17,7 @@ import {
 } from "@grainyard/contracts";
 import type { ApiRequestError } from "../api/errors.ts";
 import { useSessionStore } from "../stores/session.ts";
-import { rethrow, useClient } from "./api.ts";
+import { rethrow, useClient, markStale } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
 /** The reader's orders, newest first: a buyer's, a sawyer's sales, or the latest 100 for an admin. */
@@ -63,7 +63,7 @@ function useOrderWriter() {
   const cache = useQueryCache();
   return (order: Order) => {
     cache.setQueryData(queryKeys.orders.order(order.id), order);
-    void cache.invalidateQueries({ key: [...queryKeys.orders.all, "list"] }).catch(() => undefined);
+    void markStale(cache, { key: [...queryKeys.orders.all, "list"] });
   };
 }
 
@@ -110,10 +110,10 @@ export function useDisputeRefund(orderId: MaybeRefOrGetter<string>) {
     mutation: (body) => client.disputeRefund({ orderId: toValue(orderId), body }).catch(rethrow),
     onSettled: () =>
       Promise.all([
-        cache.invalidateQueries({ key: queryKeys.orders.disputeRefund(toValue(orderId)) }),
-        cache.invalidateQueries({ key: queryKeys.orders.order(toValue(orderId)) }),
-        cache.invalidateQueries({ key: [...queryKeys.orders.all, "list"] }),
-        cache.invalidateQueries({ key: queryKeys.payouts.all }),
-      ]).catch(() => undefined),
+        markStale(cache, { key: queryKeys.orders.disputeRefund(toValue(orderId)) }),
+        markStale(cache, { key: queryKeys.orders.order(toValue(orderId)) }),
+        markStale(cache, { key: [...queryKeys.orders.all, "list"] }),
+        markStale(cache, { key: queryKeys.payouts.all }),
+      ]),
   });
 }

@@ -8,7 +8,7 @@ import { toValue, type MaybeRefOrGetter } from "vue";
 import { useMutation, useQuery, useQueryCache } from "@pinia/colada";
 import { payoutEndpoints, type Payout, type PayoutApproval, type PayoutBatchResult, type PayoutStatus } from "@grainyard/contracts";
 import type { ApiRequestError } from "../api/errors.ts";
-import { rethrow, useClient } from "./api.ts";
+import { rethrow, useClient, markStale } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
 /** Payouts sent and tried, newest first; "" for every status. */
@@ -29,11 +29,7 @@ export function usePayoutList(status: MaybeRefOrGetter<PayoutStatus | "">) {
 function useInvalidatePayouts() {
   const cache = useQueryCache();
   // A list that fails to load again shows its own error.
-  return () =>
-    Promise.all([
-      cache.invalidateQueries({ key: queryKeys.payouts.all }),
-      cache.invalidateQueries({ key: queryKeys.admin.dashboard }),
-    ]).catch(() => undefined);
+  return () => Promise.all([markStale(cache, { key: queryKeys.payouts.all }), markStale(cache, { key: queryKeys.admin.dashboard })]);
 }
 
 /** Sends one sawyer's due payout now. */

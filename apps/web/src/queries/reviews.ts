@@ -8,7 +8,7 @@ import { computed, toValue, type MaybeRefOrGetter } from "vue";
 import { useInfiniteQuery, useMutation, useQuery, useQueryCache } from "@pinia/colada";
 import { orderReviewEndpoints, type OrderReviewState, type ReviewInput, type YardReviews } from "@grainyard/contracts";
 import type { ApiRequestError } from "../api/errors.ts";
-import { rethrow, useClient } from "./api.ts";
+import { rethrow, useClient, markStale } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
 /** A completed order's review (or none yet) and what the reader may do with it. */
@@ -41,12 +41,12 @@ export function useReviewStep(orderId: MaybeRefOrGetter<string>) {
     onSuccess: (state) => {
       cache.setQueryData(queryKeys.reviews.order(toValue(orderId)), state);
       // The yard's pages show the review and its rating.
-      void cache.invalidateQueries({ key: [...queryKeys.reviews.all, "yard"] }).catch(() => undefined);
-      void cache.invalidateQueries({ key: ["catalogue", "yard"] }).catch(() => undefined);
+      void markStale(cache, { key: [...queryKeys.reviews.all, "yard"] });
+      void markStale(cache, { key: ["catalogue", "yard"] });
     },
     onError: (error) => {
       // Someone else moved first (answered, hidden, the days ran out): ask for the review as it is now.
-      if (error.status === 409) void cache.invalidateQueries({ key: queryKeys.reviews.order(toValue(orderId)) }).catch(() => undefined);
+      if (error.status === 409) void markStale(cache, { key: queryKeys.reviews.order(toValue(orderId)) });
     },
   });
 }

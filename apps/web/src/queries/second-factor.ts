@@ -15,7 +15,7 @@ import {
 } from "@grainyard/contracts";
 import type { ApiRequestError } from "../api/errors.ts";
 import { useSessionStore } from "../stores/session.ts";
-import { rethrow, useClient } from "./api.ts";
+import { rethrow, useClient, markStale } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
 export function useSecondFactorStatus() {
@@ -38,7 +38,7 @@ export function useSecondFactorChanged() {
   const cache = useQueryCache();
   const session = useSessionStore();
   return async () => {
-    await Promise.all([cache.invalidateQueries({ key: queryKeys.secondFactor.status(session.account?.id ?? "") }), session.load()]);
+    await Promise.all([markStale(cache, { key: queryKeys.secondFactor.status(session.account?.id ?? "") }), session.load()]);
   };
 }
 

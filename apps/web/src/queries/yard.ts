@@ -23,7 +23,7 @@ import {
   type YardProfileUpdateInput,
 } from "@grainyard/contracts";
 import type { ApiRequestError } from "../api/errors.ts";
-import { rethrow, useClient } from "./api.ts";
+import { rethrow, useClient, markStale } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
 type LogDetail = Answer<typeof yardEndpoints.getLog>;
@@ -32,7 +32,7 @@ type SlabDetail = Answer<typeof yardEndpoints.getSlab>;
 /** After any change in the yard: every yard answer is stale (the ones on screen ask again now). */
 export function useYardChanged() {
   const cache = useQueryCache();
-  return () => cache.invalidateQueries({ key: queryKeys.yard.all });
+  return () => markStale(cache, { key: queryKeys.yard.all });
 }
 
 /** The signed-in sawyer's own account with the yard profile (fresher than the session's copy). */
@@ -61,7 +61,7 @@ export function useUpdateYard() {
     onSettled: () => {
       void changed();
       // The yard's public page and the cards' yard names follow.
-      void cache.invalidateQueries({ key: queryKeys.catalogue.all }, false);
+      void markStale(cache, { key: queryKeys.catalogue.all }, false);
     },
   });
 }
@@ -245,7 +245,7 @@ export function useListingStep() {
     onSettled: () => {
       void changed();
       // A withdrawn listing leaves the catalogue.
-      void cache.invalidateQueries({ key: queryKeys.catalogue.all }, false);
+      void markStale(cache, { key: queryKeys.catalogue.all }, false);
     },
   });
 }
