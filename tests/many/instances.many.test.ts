@@ -71,11 +71,50 @@ async function liveListing(title: string, rateMinor: number, approveAt = balance
   return id;
 }
 
+/** New buyer accounts, copies of the demo buyer (same password), each with an e-mail address of its own. */
+async function copiesOfDemoBuyer(count: number, prefix: string): Promise<string[]> {
+  const [row] = (await database.query("SELECT id FROM account WHERE email = ?", [DEMO.buyer.email])) as [{ id: string }[], unknown];
+  const emails = Array.from({ length: count }, (_, i) => `${prefix}-${i}-${randomUUID().slice(0, 6)}@lakemont.test`);
+  for (const email of emails) {
+    await database.query("CREATE TEMPORARY TABLE buyer_copy AS SELECT * FROM account WHERE id = ?", [row[0]!.id]);
+    await database.query("UPDATE buyer_copy SET id = ?, email = ?", [randomUUID(), email]);
+    await database.query("INSERT INTO account SELECT * FROM buyer_copy");
+    await database.query("DROP TEMPORARY TABLE buyer_copy");
+  }
+  return emails;
+}
+
+async function rows<T>(sql: string, values: unknown[] = []): Promise<T[]> {
+  const [result] = (await database.query(sql, values)) as [T[], unknown];
+  return result;
+}
+
+/** Polls `check` every 100 ms until it holds; fails naming `what` after `ms`. */
+async function until(check: () => Promise<boolean>, what: string, ms = 20_000): Promise<void> {
+  const deadline = Date.now() + ms;
+  while (!(await check())) {
+    if (Date.now() > deadline) throw new Error(`waited ${ms} ms for ${what}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+/** How many times a scheduled job has run, on any instance (its lease row counts the takes). */
+const jobRuns = async (name: string) =>
+  Number((await rows<{ runs: number }>("SELECT runs FROM job_lease WHERE job_name = ?", [name]))[0]?.runs ?? 0);
+
+/** Waits until the job has run `times` more times across the instances (this suite's instances tick every job each second). */
+async function afterJobRuns(name: string, times: number): Promise<void> {
+  const from = await jobRuns(name);
+  await until(async () => (await jobRuns(name)) >= from + times, `the ${name} job to run ${times} more times`);
+}
+
 describe("three instances behind HAProxy", () => {
   it("answers round robin, each instance naming itself", async () => {
-    const answers = await Promise.all(Array.from({ length: 9 }, () => client().get("/api/health")));
-    expect(answers.every((a) => a.status === 200)).toBe(true);
+    const answers = await Promise.all(Array.from({ length: 9 }, () => client().get("/api/health/serving")));
+    expect(answers.map((a) => a.status)).toEqual(Array(9).fill(200));
     expect(Object.keys(tally(answers, (a) => a.instance)).sort()).toEqual(["api-1", "api-2", "api-3"]);
+    // The header and the answer name the same instance.
+    expect(answers.every((a) => a.body.instance === a.instance)).toBe(true);
   });
 
   it("limits 40 wrong passwords for one account from one address exactly as one instance does: 5 refused, then 35 held back", async () => {
@@ -123,14 +162,7 @@ describe("three instances behind HAProxy", () => {
   it("a checkout race of 51 buyers over the three instances makes exactly one order", async () => {
     const listingId = await liveListing(`Race top ${randomUUID().slice(0, 6)}`, 90_000);
     // 51 buyers, copies of the demo buyer (same password) with their own addresses.
-    const [row] = (await database.query("SELECT id FROM account WHERE email = ?", [DEMO.buyer.email])) as [{ id: string }[], unknown];
-    const emails = Array.from({ length: 51 }, (_, i) => `racer-${i}-${randomUUID().slice(0, 6)}@lakemont.test`);
-    for (const email of emails) {
-      await database.query("CREATE TEMPORARY TABLE racer AS SELECT * FROM account WHERE id = ?", [row[0]!.id]);
-      await database.query("UPDATE racer SET id = ?, email = ?", [randomUUID(), email]);
-      await database.query("INSERT INTO account SELECT * FROM racer");
-      await database.query("DROP TEMPORARY TABLE racer");
-    }
+    const emails = await copiesOfDemoBuyer(51, "racer");
     // Each buyer from an address of its own, as 51 people would be.
     const buyers = await Promise.all(emails.map((email, i) => client({ from: `127.0.1.${i + 1}` }).signIn(email, DEMO.buyer.password)));
     const answers = await Promise.all(buyers.map((buyer) => buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" })));
@@ -142,6 +174,106 @@ describe("three instances behind HAProxy", () => {
     ];
     expect(Number(orders[0]!.n)).toBe(1);
   });
+});
+
+describe("scheduled work on three instances", () => {
+  it("three instances ticking the completion sweep each second complete each due order once: one completion and one e-mail to each party", async () => {
+    const [email] = await copiesOfDemoBuyer(1, "sweep");
+    const buyer = await client({ from: "127.0.2.1" }).signIn(email!, DEMO.buyer.password);
+    const orderIds: string[] = [];
+    for (let i = 0; i < 3; i++) {
+      const listingId = await liveListing(`Sweep top ${i} ${randomUUID().slice(0, 6)}`, 40_000);
+      const made = await buyer.post(`/api/v1/listings/${listingId}/checkout`, {
+        handover: "freight",
+        deliveryAddress: "Workshop 4, 12 Quarry Lane, Lakemont",
+      });
+      expect(made.status, JSON.stringify(made.body)).toBe(201);
+      const orderId = (made.body.order as { id: string }).id;
+      // The test card on the payments fake's hosted page; its webhook reaches the API through HAProxy.
+      const page = new URL(made.body.checkoutUrl as string);
+      const paid = await buyer.send(
+        page.origin,
+        "POST",
+        page.pathname,
+        Buffer.from("card=4242424242424242"),
+        "application/x-www-form-urlencoded",
+      );
+      expect(paid.status).toBe(303);
+      await until(async () => (await buyer.get(`/api/v1/orders/${orderId}`)).body.order?.status === "paid", `order ${orderId} to be paid`);
+      const shipped = await sawyer.post(`/api/v1/orders/${orderId}/shipment`, {
+        carrier: "Lakemont Freight Co-op",
+        trackingReference: `LFC-${i}`,
+      });
+      expect(shipped.status, JSON.stringify(shipped.body)).toBe(200);
+      expect((await sawyer.post(`/api/v1/orders/${orderId}/handed-over`, {})).status).toBe(200);
+      orderIds.push(orderId);
+    }
+    // Handed over longer ago than the automatic completion waits: every instance's sweep now finds them due.
+    await database.query("UPDATE buyer_order SET handed_over_at = NOW(3) - INTERVAL 30 DAY WHERE id IN (?)", [orderIds]);
+    const holders = new Set<string>();
+    await until(async () => {
+      for (const { holder } of await rows<{ holder: string }>("SELECT holder FROM job_lease WHERE job_name = 'order-completion'"))
+        holders.add(holder);
+      const done = await rows<{ n: number }>("SELECT COUNT(*) AS n FROM buyer_order WHERE id IN (?) AND status = 'completed'", [orderIds]);
+      return Number(done[0]!.n) === orderIds.length;
+    }, "the sweeps to complete the three orders");
+    // Later sweeps, on whichever instance holds the lease, find nothing more to do.
+    await afterJobRuns("order-completion", 3);
+    process.stdout.write(`order-completion lease held by ${[...holders].join(", ")} while the orders completed\n`);
+    const completed = await rows<{ id: string; completed_by: string }>("SELECT id, completed_by FROM buyer_order WHERE id IN (?)", [
+      orderIds,
+    ]);
+    expect(completed.map((order) => order.completed_by)).toEqual(["automatic", "automatic", "automatic"]);
+    for (const orderId of orderIds) {
+      const mails = await rows<{ recipient: string }>(
+        "SELECT recipient FROM outbox_email WHERE kind = 'order_completed' AND text_body LIKE ? ORDER BY recipient",
+        [`%/orders/${orderId}%`],
+      );
+      expect(mails.map((mail) => mail.recipient).sort()).toEqual([email!, DEMO.sawyer.email].sort());
+    }
+  }, 120_000);
+
+  it("the alerts job sends each saved search's e-mail once, while an approval on another instance sends due alerts too", async () => {
+    const [email] = await copiesOfDemoBuyer(1, "alerts");
+    const buyer = await client({ from: "127.0.2.2" }).signIn(email!, DEMO.buyer.password);
+    const tag = randomUUID().slice(0, 6);
+    const names = Array.from({ length: 5 }, (_, i) => `Long cherry ${tag} ${i}`);
+    const searchIds: string[] = [];
+    for (const name of names) {
+      const saved = await buyer.post("/api/v1/saved-searches", { name, query: "species=black-cherry&lengthMin=2400", alerts: true });
+      expect(saved.status, JSON.stringify(saved.body)).toBe(201);
+      searchIds.push((saved.body.savedSearch as { id: string }).id);
+    }
+    // As if each had sent an alert an hour ago: a new match waits for its day.
+    await database.query("UPDATE saved_search SET last_alert_at = NOW(3) - INTERVAL 1 HOUR WHERE id IN (?)", [searchIds]);
+    const firstTitle = `Alert cherry A ${tag}`;
+    const first = await liveListing(firstTitle, 2000);
+    const pendingOf = async (listingId: string) =>
+      Number(
+        (
+          await rows<{ n: number }>("SELECT COUNT(*) AS n FROM saved_search_match WHERE listing_id = ? AND saved_search_id IN (?)", [
+            listingId,
+            searchIds,
+          ])
+        )[0]!.n,
+      );
+    await until(async () => (await pendingOf(first)) === 5, "the five matches of the first listing");
+    const alertMails = () =>
+      rows<{ text_body: string }>("SELECT text_body FROM outbox_email WHERE kind = 'saved_search_alert' AND recipient = ?", [email]);
+    await afterJobRuns("saved-search-alerts", 2);
+    expect(await alertMails()).toEqual([]);
+    // The day is up for all five: the job (each second, on whichever instance holds its lease) and the
+    // next approval's own sending, through the first instance, race for them.
+    await database.query("UPDATE saved_search SET last_alert_at = NOW(3) - INTERVAL 2 DAY WHERE id IN (?)", [searchIds]);
+    await liveListing(`Alert cherry B ${tag}`, 2000, instanceUrls()[0]);
+    await until(async () => (await alertMails()).length >= 5, "five alert e-mails");
+    await afterJobRuns("saved-search-alerts", 3);
+    const mails = await alertMails();
+    expect(mails).toHaveLength(5);
+    // One per saved search, each naming the first listing.
+    expect(names.map((name) => mails.filter((mail) => mail.text_body.includes(name)).length)).toEqual([1, 1, 1, 1, 1]);
+    expect(mails.every((mail) => mail.text_body.includes(firstTitle))).toBe(true);
+  }, 120_000);
 });
 
 /** Whether a process is still there (signal 0 checks without touching it). */

@@ -39,4 +39,11 @@ describe("configuration", () => {
     expect(loadConfig({ ...base, AUTO_COMPLETE_DAYS: "7" }).checkout.autoCompleteDays).toBe(7);
     expect(() => loadConfig({ ...base, AUTO_COMPLETE_DAYS: "0" })).toThrow(/AUTO_COMPLETE_DAYS/);
   });
+
+  it("lets only tests run every scheduled job on one short period (JOB_EVERY_SECONDS)", () => {
+    expect(loadConfig(base).jobEveryMs).toBeNull();
+    expect(loadConfig({ ...base, NODE_ENV: "test", JOB_EVERY_SECONDS: "1" }).jobEveryMs).toBe(1000);
+    expect(() => loadConfig({ ...base, NODE_ENV: "production", JOB_EVERY_SECONDS: "1" })).toThrow(/JOB_EVERY_SECONDS/);
+    expect(() => loadConfig({ ...base, NODE_ENV: "test", JOB_EVERY_SECONDS: "0" })).toThrow(/JOB_EVERY_SECONDS/);
+  });
 });

@@ -73,6 +73,8 @@ const environmentSchema = z.object({
   TRUST_PROXY: z.enum(["loopback"]).optional(),
   /** "1" gives the end-to-end API a clock the test can move forward (only with NODE_ENV=test). */
   GRAINYARD_TEST_CLOCK: z.enum(["0", "1"]).default("0"),
+  /** Tests only: every scheduled job ticks this often (seconds) instead of its own period, so a test need not wait minutes. */
+  JOB_EVERY_SECONDS: z.coerce.number().int().min(1).max(3600).optional(),
 });
 
 export interface AppConfig {
@@ -109,6 +111,8 @@ export interface AppConfig {
   trustProxy?: "loopback";
   /** A movable clock with POST /api/_test/clock: only ever true when NODE_ENV=test. */
   testClock: boolean;
+  /** Tests only: one period for every scheduled job instead of each job's own (null: their own). */
+  jobEveryMs: number | null;
   limits: {
     /** Failed sign-ins per account and address pair before 429 (that address, that account only). */
     signInPerPair: number;
@@ -140,6 +144,9 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
   }
   if (env.WEB_DEV_ROOT && env.NODE_ENV !== "development") {
     throw new ConfigError("configuration: WEB_DEV_ROOT (Vite inside the API) is allowed only when NODE_ENV=development.");
+  }
+  if (env.JOB_EVERY_SECONDS !== undefined && env.NODE_ENV !== "test") {
+    throw new ConfigError("configuration: JOB_EVERY_SECONDS is allowed only when NODE_ENV=test.");
   }
   if (env.GRAINYARD_TEST_CLOCK === "1" && env.NODE_ENV !== "test") {
     throw new ConfigError("configuration: GRAINYARD_TEST_CLOCK is allowed only when NODE_ENV=test.");
@@ -191,6 +198,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): AppCon
     instanceName: env.GRAINYARD_INSTANCE ?? `${hostname()}-${process.pid}`,
     trustProxy: env.TRUST_PROXY,
     testClock: env.NODE_ENV === "test" && env.GRAINYARD_TEST_CLOCK === "1",
+    jobEveryMs: env.JOB_EVERY_SECONDS === undefined ? null : env.JOB_EVERY_SECONDS * 1000,
     limits: {
       signInPerPair: env.SIGN_IN_LIMIT_PER_ACCOUNT,
       signInPerIp: env.SIGN_IN_LIMIT_PER_IP,

@@ -4,7 +4,7 @@ import { createDataSource } from "./db/data-source.ts";
 import { createMailer } from "./integrations/mail.ts";
 import { createPayments } from "./integrations/payments-stripe.ts";
 import { createPhotoStorage } from "./integrations/storage.ts";
-import { createJobRunner } from "./jobs/job-runner.ts";
+import { createJobRunner, type Job } from "./jobs/job-runner.ts";
 import { createLogger } from "./logger.ts";
 
 let config;
@@ -40,7 +40,7 @@ server.on("error", (error: NodeJS.ErrnoException) => {
 
 // Scheduled work, once per period across however many API instances run (a lease per job in MariaDB).
 const jobs = createJobRunner({ dataSource, logger });
-jobs.start([
+const scheduled: Job[] = [
   // Reservations whose time ran out go back on sale.
   { name: "reservation-sweep", everyMs: 30_000, run: () => app.checkout.sweepExpiredReservations().then(() => undefined) },
   // Orders handed over AUTO_COMPLETE_DAYS ago complete by themselves.
@@ -51,7 +51,8 @@ jobs.start([
   { name: "mail-outbox", everyMs: 10_000, run: () => app.outbox.deliverDue().then(() => undefined) },
   // Saved-search alerts held back by the once-a-day rule go out when their day is up.
   { name: "saved-search-alerts", everyMs: 10 * 60_000, run: () => app.savedSearches.processPendingAlerts().then(() => undefined) },
-]);
+];
+jobs.start(config.jobEveryMs === null ? scheduled : scheduled.map((job) => ({ ...job, everyMs: config.jobEveryMs! })));
 
 // Catalogue changes made through other instances reach this one's caches within about half a second.
 app.catalogueVersion.start();

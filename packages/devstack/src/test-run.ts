@@ -104,9 +104,32 @@ async function runLint(signal: AbortSignal): Promise<SuiteResult> {
   };
 }
 
+/** The suites `npm test` runs, in order. */
+export const SUITES = ["lint", "slab-math", "contracts", "web", "payments-fake", "devstack", "api", "e2e", "many", "replica"] as const;
+
+/**
+ * `GRAINYARD_TEST_SUITES=many,replica npm test` runs only those suites (a developer's shortcut; CI
+ * runs them all). Unknown names are refused, so a typo never reads as a green run of nothing.
+ */
+export function chosenSuites(value: string | undefined): Set<string> {
+  if (!value?.trim()) return new Set(SUITES);
+  const names = value
+    .split(",")
+    .map((name) => name.trim())
+    .filter(Boolean);
+  const unknown = names.filter((name) => !(SUITES as readonly string[]).includes(name));
+  if (unknown.length) throw new Error(`GRAINYARD_TEST_SUITES: no suite named ${unknown.join(", ")} (the suites: ${SUITES.join(", ")})`);
+  return new Set(names);
+}
+
 export async function runTestSuites(stack: RunningStack, signal: AbortSignal): Promise<SuiteResult[]> {
   mkdirSync(resultsDir, { recursive: true });
+  const chosen = chosenSuites(process.env.GRAINYARD_TEST_SUITES);
+  if (chosen.size < SUITES.length) say(`only the suites ${[...chosen].join(", ")} (GRAINYARD_TEST_SUITES)`);
   const results: SuiteResult[] = [];
+  const run = async (name: (typeof SUITES)[number], suite: () => Promise<SuiteResult>) => {
+    if (chosen.has(name)) results.push(await suite());
+  };
   const testEnvironment = stack.apiEnvironment("grainyard_unused", {
     NODE_ENV: "test",
     BCRYPT_COST: "4",
@@ -114,17 +137,17 @@ export async function runTestSuites(stack: RunningStack, signal: AbortSignal): P
     GRAINYARD_TEST_STACK: "1",
   });
 
-  results.push(await runLint(signal));
+  await run("lint", () => runLint(signal));
   // Unit suites (no services).
-  results.push(await runVitest("slab-math", "@grainyard/slab-math", {}, signal));
-  results.push(await runVitest("contracts", "@grainyard/contracts", {}, signal));
-  results.push(await runVitest("web", "@grainyard/web", {}, signal));
-  results.push(await runVitest("payments-fake", "@grainyard/payments-fake", {}, signal));
-  results.push(await runVitest("devstack", "@grainyard/devstack", testEnvironment, signal));
+  await run("slab-math", () => runVitest("slab-math", "@grainyard/slab-math", {}, signal));
+  await run("contracts", () => runVitest("contracts", "@grainyard/contracts", {}, signal));
+  await run("web", () => runVitest("web", "@grainyard/web", {}, signal));
+  await run("payments-fake", () => runVitest("payments-fake", "@grainyard/payments-fake", {}, signal));
+  await run("devstack", () => runVitest("devstack", "@grainyard/devstack", testEnvironment, signal));
   // API integration: supertest against real MariaDB schemas, real SMTP, real S3 API; the server-rendered
   // pages' suite reads the built web app, so it is built first.
-  await buildWebIfStale(signal);
-  results.push(await runVitest("api", "@grainyard/api", testEnvironment, signal));
+  if (chosen.has("api")) await buildWebIfStale(signal);
+  await run("api", () => runVitest("api", "@grainyard/api", testEnvironment, signal));
 
   // End-to-end: the built web app served by the API, driven in Debian's Chromium.
   // GRAINYARD_TEST_CLOCK: the e2e suite may move the API's clock forward (hold periods); only ever with NODE_ENV=test.
@@ -137,39 +160,40 @@ export async function runTestSuites(stack: RunningStack, signal: AbortSignal): P
   });
   let api: ManagedProcess | undefined;
   const apiLog = join(stack.profile.dataDir, "api-e2e.log");
-  try {
-    const e2eDemo = await prepareDatabase(stack, "grainyard_e2e", e2eEnvironment, { signal });
-    await buildWebIfStale(signal);
-    api = startApi(e2eEnvironment, apiLog);
-    await waitForApi(e2eEnvironment.PUBLIC_URL!, api, apiLog, signal);
-    results.push(
-      await runVitest(
-        "e2e",
-        "@grainyard/tests",
-        {
-          APP_URL: e2eEnvironment.PUBLIC_URL!,
-          INBOX_URL: stack.inboxUrl,
-          CHROMIUM_PATH: CHROMIUM,
-          SCREENSHOT_DIR: join(resultsDir, "screenshots"),
-          // The demo admin's second factor, as `npm start` prints it: the suites compute its codes.
-          DEMO_ADMIN_TOTP_SECRET: demoAdminSecret(e2eDemo),
-        },
-        signal,
-        ["--config", "vitest.e2e.config.ts"],
-      ),
-    );
-  } catch (error) {
-    if (error instanceof Interrupted) throw error;
-    warn("end-to-end set-up failed:");
-    reportFailure(error);
-    if (existsSync(apiLog)) warn(`API log tail:\n${tail(apiLog, 15)}`);
-    results.push({ name: "e2e", passed: 0, failed: 1, skipped: 0, exitCode: 1, seconds: 0 });
-  } finally {
-    await api?.stop();
-  }
+  if (chosen.has("e2e"))
+    try {
+      const e2eDemo = await prepareDatabase(stack, "grainyard_e2e", e2eEnvironment, { signal });
+      await buildWebIfStale(signal);
+      api = startApi(e2eEnvironment, apiLog);
+      await waitForApi(e2eEnvironment.PUBLIC_URL!, api, apiLog, signal);
+      results.push(
+        await runVitest(
+          "e2e",
+          "@grainyard/tests",
+          {
+            APP_URL: e2eEnvironment.PUBLIC_URL!,
+            INBOX_URL: stack.inboxUrl,
+            CHROMIUM_PATH: CHROMIUM,
+            SCREENSHOT_DIR: join(resultsDir, "screenshots"),
+            // The demo admin's second factor, as `npm start` prints it: the suites compute its codes.
+            DEMO_ADMIN_TOTP_SECRET: demoAdminSecret(e2eDemo),
+          },
+          signal,
+          ["--config", "vitest.e2e.config.ts"],
+        ),
+      );
+    } catch (error) {
+      if (error instanceof Interrupted) throw error;
+      warn("end-to-end set-up failed:");
+      reportFailure(error);
+      if (existsSync(apiLog)) warn(`API log tail:\n${tail(apiLog, 15)}`);
+      results.push({ name: "e2e", passed: 0, failed: 1, skipped: 0, exitCode: 1, seconds: 0 });
+    } finally {
+      await api?.stop();
+    }
 
-  results.push(await runManyInstances(stack, signal));
-  results.push(await runReplicaSuite(stack, testEnvironment, signal));
+  await run("many", () => runManyInstances(stack, signal));
+  await run("replica", () => runReplicaSuite(stack, testEnvironment, signal));
   return results;
 }
 
@@ -253,7 +277,8 @@ async function runManyInstances(stack: RunningStack, signal: AbortSignal): Promi
   try {
     const demo = await prepareDatabase(stack, "grainyard_many", environment, { signal });
     const { instances } = await startApiInstances({
-      environment,
+      // Every scheduled job ticks each second, so the suite sees several instances' sweeps in seconds.
+      environment: { ...environment, JOB_EVERY_SECONDS: "1" },
       count: 3,
       appPort: stack.profile.ports.app,
       dataDir: stack.profile.dataDir,

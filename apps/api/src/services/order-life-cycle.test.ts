@@ -1,7 +1,7 @@
 import express from "express";
 import request from "supertest";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import { LedgerEntryEntity, ListingEntity, OrderRefundEntity } from "../entities/index.ts";
+import { LedgerEntryEntity, ListingEntity, OrderRefundEntity, OutboxEmailEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, ServiceUnavailable } from "../errors.ts";
 import { orderEndpoints } from "@grainyard/contracts";
 import { mountEndpoints, rowsOf } from "../http/endpoints.ts";
@@ -109,6 +109,36 @@ describe("a paid order, step by step", () => {
       h.clock.advance(-15 * DAY);
     }
     expect(await h.orderOf(order.id)).toMatchObject({ status: "completed", completedBy: "automatic" });
+  });
+
+  it("two sweeps at the same moment (two instances, were the job's lease ever lost) complete each due order once, with one e-mail to each party", async () => {
+    const sawyer = await h.person("sawyer");
+    const buyer = await h.person("buyer");
+    const orderIds: string[] = [];
+    for (let i = 0; i < 4; i++) {
+      const order = await h.paidOrder(buyer, await h.liveListing(sawyer, 30_000), "freight");
+      await h.orders.markShipped(sawyer, order.id, { carrier: "Lakeshore Freight", trackingReference: `LFL-${i}` });
+      await h.orders.markHandedOver(sawyer, order.id);
+      orderIds.push(order.id);
+    }
+    h.clock.advance(15 * DAY);
+    try {
+      const [first, second] = await Promise.all([h.orders.completeDueOrders(), h.orders.completeDueOrders()]);
+      // Other tests' orders may be due too; these four are completed by exactly one of the two sweeps.
+      expect(first + second).toBeGreaterThanOrEqual(4);
+      expect(await h.orders.completeDueOrders()).toBe(0);
+    } finally {
+      h.clock.advance(-15 * DAY);
+    }
+    for (const orderId of orderIds) {
+      expect(await h.orderOf(orderId)).toMatchObject({ status: "completed", completedBy: "automatic" });
+      const mails = await h.dataSource
+        .getRepository(OutboxEmailEntity)
+        .createQueryBuilder("mail")
+        .where("mail.kind = 'order_completed' AND mail.text_body LIKE :link", { link: `%/orders/${orderId}%` })
+        .getMany();
+      expect(mails.map((mail) => mail.recipient).sort()).toEqual([buyer.email, sawyer.email].sort());
+    }
   });
 });
 
