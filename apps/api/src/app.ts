@@ -264,7 +264,7 @@ export function createApp(appDeps: AppDependencies) {
 
   // Every API route comes from the endpoint table in packages/contracts, with one handler per row.
   const handlers: { [D in keyof typeof endpointTable]?: Handlers<(typeof endpointTable)[D]> } = {
-    health: healthHandlers(createHealthService(deps)),
+    health: healthHandlers(createHealthService(deps), deps.config.instanceName),
     accounts: accountHandlers(accounts, deps.now ?? (() => new Date())),
     secondFactor: secondFactorHandlers(accounts, secondFactor),
     yard: yardHandlers(yard, inventoryCsv, logPhotos),

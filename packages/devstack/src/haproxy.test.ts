@@ -35,10 +35,10 @@ describe("the HAProxy configuration", () => {
     ],
   });
 
-  it("balances round robin over each instance, checked on /api/health, on loopback only", () => {
+  it("balances round robin over each instance, checked on /api/health/serving, on loopback only", () => {
     expect(config).toContain("bind 127.0.0.1:5080\n");
     expect(config).toContain("balance roundrobin");
-    expect(config).toContain("http-check send meth GET uri /api/health");
+    expect(config).toContain("http-check send meth GET uri /api/health/serving");
     expect(config).toContain("server api-1 127.0.0.1:5121 check");
     expect(config).toContain("server api-2 127.0.0.1:5122 check");
     expect(config).not.toMatch(/bind (?!127\.0\.0\.1:)/);
@@ -68,7 +68,7 @@ describe("the HAProxy configuration", () => {
 function backend(name: string, port: number, seen: string[]): Promise<Server> {
   return new Promise((resolvePromise) => {
     const server = createServer((req, res) => {
-      if (req.url === "/api/health") return void res.end("ok");
+      if (req.url === "/api/health/serving") return void res.end("ok");
       seen.push(`${name} ${req.method}`);
       if (req.url === "/drop" && name === "dropper") return void req.socket.destroy();
       res.setHeader("x-grainyard-instance", name);

@@ -28,10 +28,10 @@ export interface Backend {
 
 /**
  * The load balancer's configuration: HTTP on 127.0.0.1:`port`, round robin over the API instances
- * on their own loopback ports. Each instance is asked for /api/health every second and taken out
- * after three failed checks; a check may take 5 s (the health answer asks the database, storage, mail
- * and payments, which is slow on a busy machine), while a refused connection fails it at once (a
- * stopping instance closes its port at once, so it is out before it exits). A request whose connection to an instance fails is sent to another (always safe: nothing
+ * on their own loopback ports. Each instance is asked for /api/health/serving (its own answer, no
+ * shared part asked) every second and taken out after three failed checks; a check may take 5 s (a
+ * busy machine), while a refused connection fails it at once (a stopping instance closes its port at
+ * once, so it is out before it exits). A request whose connection to an instance fails is sent to another (always safe: nothing
  * reached the instance); one whose instance closed without answering is sent again only when it is
  * a GET or HEAD (a POST may have done its work). Client addresses travel in X-Forwarded-For.
  */
@@ -70,10 +70,10 @@ export function haproxyConfig(options: { port: number; backends: Backend[] }): s
     // Only requests that change nothing are sent again once an instance may have seen them.
     "  http-request disable-l7-retry unless METH_GET || METH_HEAD",
     "  option httpchk",
-    "  http-check send meth GET uri /api/health",
-    // 503 is an instance that answers while a shared part (mail, payments) is down: all instances
-    // share that part, so taking them out would only turn "degraded" into "down".
-    "  http-check expect rstatus ^(200|503)$",
+    // The instance's own check: it asks nothing shared (database, mail, payments), which every
+    // instance shares, so a shared part down never takes them all out ("degraded" is not "down").
+    "  http-check send meth GET uri /api/health/serving",
+    "  http-check expect status 200",
     "  default-server inter 1s fastinter 250ms fall 3 rise 1",
     ...options.backends.map((backend) => `  server ${backend.name} 127.0.0.1:${backend.port} check`),
     "",

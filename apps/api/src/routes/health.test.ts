@@ -113,6 +113,10 @@ describe("/api/health with the database down", () => {
         seen.set(health.status, (seen.get(health.status) ?? 0) + 1);
         expect(health.status).toBe(503);
         expect(health.body.components.database).toBe("down");
+        // The load balancer's check of the instance itself stays up: every instance shares the database.
+        const serving = await request(ctx.app).get("/api/health/serving");
+        expect(serving.status).toBe(200);
+        expect(serving.body).toEqual({ instance: ctx.config.instanceName, serving: true });
         // A signed-in page needs the acting user from the database: 503 with a plain message, not 500.
         const page = await signedIn.get("/api/v1/session");
         expect(page.status).toBe(503);

@@ -103,6 +103,7 @@ const slabBody = (logId: string, sequenceInLog: number) => ({
 
 const samples: Record<EndpointKey, Sample> = {
   "health.health": { call: (c) => c.get("/api/health") },
+  "health.serving": { call: (c) => c.get("/api/health/serving") },
 
   "accounts.getSession": { call: (c) => c.get("/api/v1/session") },
   "accounts.signIn": {

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { endpoint } from "../endpoint.ts";
-import { healthSchema } from "../health.ts";
+import { healthSchema, servingSchema } from "../health.ts";
 
 /** Whether each part of the stack is up; 503 when any part is down. */
 export const healthEndpoints = {
@@ -10,6 +10,15 @@ export const healthEndpoints = {
     summary: "Each part of the stack as up or down (503 when any is down).",
     access: "anyone",
     answer: healthSchema,
+    sessionFree: true,
+  }),
+  serving: endpoint({
+    method: "GET",
+    path: "/api/health/serving",
+    summary:
+      "The load balancer's check of one instance: 200 while it takes requests. Shared parts (database, storage, mail, payments) are not asked: all instances share them, and taking every instance out would turn a degraded site into a dead one.",
+    access: "anyone",
+    answer: servingSchema,
     sessionFree: true,
   }),
 } as const;
