@@ -176,27 +176,46 @@ async function services(lifecycle: Lifecycle): Promise<"running"> {
   return "running";
 }
 
+const BENCH_PARTS = ["slab-math", "photos", "catalogue", "instances", "lighthouse"] as const;
+
+/** `GRAINYARD_BENCH=instances,lighthouse npm run bench` runs only those parts; unknown names are refused. */
+function chosenBenchParts(value: string | undefined): Set<string> {
+  if (!value?.trim()) return new Set(BENCH_PARTS);
+  const names = value
+    .split(",")
+    .map((name) => name.trim())
+    .filter(Boolean);
+  const unknown = names.filter((name) => !(BENCH_PARTS as readonly string[]).includes(name));
+  if (unknown.length) throw new StackError(`GRAINYARD_BENCH: no part named ${unknown.join(", ")} (the parts: ${BENCH_PARTS.join(", ")})`);
+  return new Set(names);
+}
+
 /**
  * `npm run bench`: slab-math and photo benchmarks, the catalogue search benchmark against a
- * national-scale catalogue (seeded once into its own database on the test profile's MariaDB), then
- * Lighthouse on the demo's public pages.
+ * national-scale catalogue (seeded once into its own database on the test profile's MariaDB), the
+ * same search through HAProxy over 1, 2 and 3 instances, then Lighthouse on the demo's public pages.
  */
 async function bench(lifecycle: Lifecycle): Promise<number> {
+  const parts = chosenBenchParts(process.env.GRAINYARD_BENCH);
+  if (parts.size < BENCH_PARTS.length) say(`only the benchmarks ${[...parts].join(", ")} (GRAINYARD_BENCH)`);
   const stack = await testServices(lifecycle, false);
   const { signal } = lifecycle;
   const environment = stack.apiEnvironment("grainyard_bench", { NODE_ENV: "test", BCRYPT_COST: "4", LOG_LEVEL: "silent" });
   const env = { ...process.env, ...environment };
   const cwd = join(repoRoot, "apps/api");
   const step = (name: string, script: string) => runStep(name, ...nodeWithTsx(script), { cwd, env, signal });
-  await runStep("slab-math benchmark", "pnpm", ["--filter", "@grainyard/slab-math", "bench"], { cwd: repoRoot, signal });
-  await step("photo benchmark", "bench/photo-pipeline.ts");
-  await stack.mariadb.createDatabase("grainyard_bench");
-  await step("migrating the benchmark database", "src/cli/migrate.ts");
-  say("seeding the national-scale catalogue (once; about 25 s)…");
-  await step("seeding the national-scale catalogue", "src/cli/seed-national.ts");
-  await step("catalogue search benchmark", "../../tests/bench/catalogue-search.ts");
-  await instancesBenchmark(stack, "grainyard_bench", signal);
-  await lighthouseBenchmark(stack, lifecycle);
+  if (parts.has("slab-math"))
+    await runStep("slab-math benchmark", "pnpm", ["--filter", "@grainyard/slab-math", "bench"], { cwd: repoRoot, signal });
+  if (parts.has("photos")) await step("photo benchmark", "bench/photo-pipeline.ts");
+  if (parts.has("catalogue") || parts.has("instances")) {
+    await stack.mariadb.createDatabase("grainyard_bench");
+    await step("migrating the benchmark database", "src/cli/migrate.ts");
+    say("seeding the national-scale catalogue (once; about 25 s)…");
+    await step("seeding the national-scale catalogue", "src/cli/seed-national.ts");
+  }
+  if (parts.has("catalogue")) await step("catalogue search benchmark", "../../tests/bench/catalogue-search.ts");
+  if (parts.has("instances")) await instancesBenchmark(stack, "grainyard_bench", signal);
+  if (parts.has("lighthouse")) await lighthouseBenchmark(stack, lifecycle);
   return 0;
 }
 
