@@ -60,8 +60,15 @@ export type FavouriteList = z.infer<typeof favouriteListSchema>;
 
 // ---- Messages ----------------------------------------------------------------------------
 
+/** The most one message may say (the web's reply box counts down to it). */
+export const MESSAGE_MAX_CHARS = 4000;
+
 export const messageInputSchema = z.object({
-  body: z.string({ error: "Write a message." }).trim().min(1, "Write a message.").max(4000, "Keep the message under 4000 characters."),
+  body: z
+    .string({ error: "Write a message." })
+    .trim()
+    .min(1, "Write a message.")
+    .max(MESSAGE_MAX_CHARS, `Keep the message under ${MESSAGE_MAX_CHARS} characters.`),
 });
 export type MessageInput = z.input<typeof messageInputSchema>;
 
