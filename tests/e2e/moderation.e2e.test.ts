@@ -234,7 +234,7 @@ describe("moderation desk", () => {
       await page.goto(`${appUrl}/admin/audit`);
       await visible(page, '[data-test="audit-entry"]');
       if (size === "1280") {
-        await expect.poll(() => page.locator('[data-test="audit-entry"]').first().innerText()).toMatch(/settings\.update/);
+        await expect.poll(() => page.locator('[data-test="audit-entry"]').first().innerText()).toMatch(/changed the marketplace settings/);
         const csv = await page.request.get(`${appUrl}${await page.locator('[data-test="audit-csv"]').getAttribute("href")}`);
         expect(csv.status()).toBe(200);
         expect(await csv.text()).toMatch(/listing\.approve/);
@@ -246,6 +246,15 @@ describe("moderation desk", () => {
       }
       await fitsTheScreen(page, viewport.width);
       await screenshot(page, `admin-audit-${size}`);
+
+      // Every order, searched: the demo's orders, then a search that finds none.
+      await page.goto(`${appUrl}/admin/orders`);
+      await visible(page, '[data-test="desk-orders"]');
+      await fitsTheScreen(page, viewport.width);
+      await screenshot(page, `admin-orders-${size}`);
+      await page.locator("#order-search").fill("no slab is called this");
+      await visible(page, '[data-test="orders-none-match"]');
+      await screenshot(page, `admin-orders-none-${size}`);
       expect(problems).toEqual([]);
       await context.close();
     }

@@ -86,6 +86,7 @@ describe("operator desk pages", () => {
       "/admin",
       "/admin/audit",
       "/admin/buyer-reviews",
+      "/admin/orders",
       "/admin/outbox",
       "/admin/payouts",
       "/admin/reports",

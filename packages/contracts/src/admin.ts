@@ -40,10 +40,24 @@ export type ReviewDeskItem = z.infer<typeof reviewDeskItemSchema>;
 export const reviewDeskSchema = z.object({ items: z.array(reviewDeskItemSchema) });
 
 // Audit log.
+/** What an audit entry was about, named as it is now (the entry itself keeps ids only). */
+export const auditSubjectSchema = z.object({
+  /** Its title or name: a listing's or order's title, an account's yard or name, an e-mail's subject (null when gone or nameless). */
+  name: z.string().nullable(),
+  /** Whose it is: a listing's yard, a report's reported person, a review's or order's buyer, an e-mail's recipient. */
+  owner: z.string().nullable(),
+  /** The currency of amounts in before/after when the entry does not carry one (an order's). */
+  currency: z.string().nullable(),
+});
+export type AuditSubject = z.infer<typeof auditSubjectSchema>;
 export const auditEntrySchema = z.object({
   id: z.string(),
   actorId: z.string().nullable(),
+  /** The acting admin's e-mail at the time ("command line" for the CLI). */
   actorLabel: z.string(),
+  /** The acting admin's display name now (the label when the account is gone or it was the command line). */
+  actorName: z.string(),
+  subject: auditSubjectSchema,
   action: z.string(),
   targetKind: z.string(),
   targetId: z.string(),
@@ -195,7 +209,9 @@ export type MarketplaceFees = z.infer<typeof marketplaceFeesSchema>["fees"];
 export const dashboardSchema = z.object({
   awaitingReview: z.object({ count: z.number(), oldestSubmittedAt: z.string().nullable() }),
   liveBySpecies: z.array(z.object({ speciesSlug: z.string(), count: z.number() })),
+  /** Per week: decisions made and the median time from submission to decision, in hours (to the second). */
   reviewTimes: z.array(z.object({ week: z.string(), reviews: z.number(), medianHours: z.number() })),
+  /** Orders that were paid for, by their state now (checkouts never paid — waiting, declined, run out — are not orders). */
   ordersByState: z.array(z.object({ status: z.string(), count: z.number() })),
   salesByWeek: z.array(z.object({ week: z.string(), currency: z.string(), salesMinor: z.number(), platformRevenueMinor: z.number() })),
   openReports: z.number(),

@@ -148,3 +148,27 @@ export type Order = z.infer<typeof orderSchema>;
 export const checkoutResultSchema = z.object({ order: orderSchema, checkoutUrl: z.string() });
 export const orderEnvelopeSchema = z.object({ order: orderSchema });
 export const orderListSchema = z.object({ orders: z.array(orderSchema) });
+
+/** The most orders one page of the desk's order search holds. */
+export const ORDER_SEARCH_PAGE_MAX = 50;
+/**
+ * The operator desk's order search: words found in the buyer's name or e-mail, the sawyer's name,
+ * e-mail or yard, the slab's title, or the start of the order number; newest first, in keyset pages
+ * ("<created ms>.<order id>" of the last order of the page before).
+ */
+export const orderSearchSchema = z.object({
+  q: z.string().trim().max(100, "Keep the search under 100 characters.").optional(),
+  cursor: z
+    .string()
+    .regex(/^\d{1,15}\.[0-9a-f-]{36}$/, "Not a page of these orders.")
+    .optional(),
+  limit: z.coerce
+    .number({ error: "Give the page size as a number." })
+    .int("Give the page size as a whole number.")
+    .min(1, "A page holds at least one order.")
+    .max(ORDER_SEARCH_PAGE_MAX, `A page holds at most ${ORDER_SEARCH_PAGE_MAX} orders.`)
+    .default(20),
+});
+export type OrderSearchInput = z.input<typeof orderSearchSchema>;
+export const orderSearchPageSchema = z.object({ orders: z.array(orderSchema), nextCursor: z.string().nullable() });
+export type OrderSearchPage = z.infer<typeof orderSearchPageSchema>;

@@ -11,6 +11,7 @@ export function orderHandlers(checkout: CheckoutService, orders: OrderService, p
     getCheckoutQuote: async ({ params }) => ({ quote: await checkout.quote(params.listingId) }),
     checkout: ({ actor, params, body }) => checkout.checkout(actor, params.listingId, body),
     listOrders: async ({ actor }) => ({ orders: await orders.listOwn(actor) }),
+    searchOrders: ({ actor, query }) => orders.searchForDesk(actor, query),
     getOrder: async ({ actor, params }) => ({ order: await orders.get(actor, params.orderId) }),
     proposePickupWindows: async ({ actor, params, body }) => ({ order: await orders.proposePickupWindows(actor, params.orderId, body) }),
     choosePickupWindow: async ({ actor, params, body }) => ({ order: await orders.choosePickupWindow(actor, params.orderId, body) }),

@@ -337,6 +337,7 @@ const samples: Record<EndpointKey, Sample> = {
   "orders.getCheckoutQuote": { call: (c, ids) => c.get(`/api/v1/listings/${ids.liveListingId}/checkout-quote`) },
   "orders.checkout": { call: (c, ids) => c.post(`/api/v1/listings/${ids.listingId}/checkout`, { handover: "pickup" }), allowed: 409 },
   "orders.listOrders": { call: (c) => c.get("/api/v1/orders") },
+  "orders.searchOrders": { call: (c) => c.get("/api/v1/admin/orders?q=matrix&limit=5") },
   "orders.getOrder": {
     call: (c, ids) => c.get(`/api/v1/orders/${ids.pickupOrderId}`),
     allowed: { buyer: 200, sawyer: 200, otherSawyer: 403, admin: 200 },

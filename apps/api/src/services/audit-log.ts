@@ -4,6 +4,7 @@ import { stringify } from "csv-stringify/sync";
 import type { DataSource, EntityManager } from "typeorm";
 import { AccountEntity, AuditEntryEntity } from "../entities/index.ts";
 import { requireRole, type Actor, type SignedInActor } from "./actor.ts";
+import { auditNames } from "./audit-subjects.ts";
 
 /** What one admin action records. Written with the action's own transaction manager. */
 export interface AuditRecord {
@@ -42,11 +43,13 @@ export async function recordAudit(manager: EntityManager, actor: SignedInActor |
   });
 }
 
-function view(entry: AuditEntryEntity): AuditEntry {
+function view(entry: AuditEntryEntity, names?: Awaited<ReturnType<typeof auditNames>>): AuditEntry {
   return {
     id: String(entry.id),
     actorId: entry.actorId,
     actorLabel: entry.actorLabel,
+    actorName: names?.actors.get(entry.id) ?? (entry.actorId ? entry.actorLabel : "The command line"),
+    subject: names?.subjects.get(entry.id) ?? { name: null, owner: null, currency: null },
     action: entry.action,
     targetKind: entry.targetKind,
     targetId: entry.targetId,
@@ -87,7 +90,8 @@ export function createAuditService(deps: { dataSource: DataSource }) {
       if (parsed.cursor) q.andWhere("entry.id < :cursor", { cursor: parsed.cursor });
       const rows = await q.getMany();
       const page = rows.slice(0, limit);
-      return { entries: page.map(view), nextCursor: rows.length > limit ? String(page.at(-1)!.id) : null };
+      const names = await auditNames(dataSource, page);
+      return { entries: page.map((entry) => view(entry, names)), nextCursor: rows.length > limit ? String(page.at(-1)!.id) : null };
     },
 
     /** The same filters as CSV (all pages, newest first), for a spreadsheet or an auditor. */

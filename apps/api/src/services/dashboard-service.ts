@@ -1,6 +1,9 @@
-import type { Dashboard } from "@grainyard/contracts";
+import { orderStatusesIn, type Dashboard } from "@grainyard/contracts";
 import type { DataSource } from "typeorm";
 import { requireRole, type Actor } from "./actor.ts";
+
+/** The statuses of orders that were paid for (a sale happened, even if it was called off later). */
+const SOLD: string[] = [...orderStatusesIn("sold")];
 
 /** Weeks shown on the dashboard's weekly charts. */
 const DASHBOARD_WEEKS = 12;
@@ -20,7 +23,7 @@ export function median(values: number[]): number {
 }
 
 /**
- * The admin's dashboard: what waits, what is live, how fast reviews go, orders by state, and
+ * The admin's dashboard: what waits, what is live, how fast reviews go, paid orders by state, and
  * money per week straight from the ledger (sales = what buyers paid in, platform revenue = the
  * net of the platform_fees account, so refunds count against it).
  */
@@ -46,9 +49,12 @@ export function createDashboardService(deps: {
         dataSource.query("SELECT submitted_at AS submittedAt, reviewed_at AS reviewedAt FROM listing_review WHERE reviewed_at >= ?", [
           since,
         ]) as Promise<{ submittedAt: Date; reviewedAt: Date }[]>,
-        dataSource.query("SELECT status, COUNT(*) AS n FROM buyer_order GROUP BY status ORDER BY n DESC, status") as Promise<
-          { status: string; n: string }[]
-        >,
+        // Only sales are orders: a checkout that was never paid (waiting, declined, run out) is not one.
+        dataSource.query(
+          `SELECT status, COUNT(*) AS n FROM buyer_order WHERE status IN (${SOLD.map(() => "?").join(", ")})
+            GROUP BY status ORDER BY n DESC, status`,
+          SOLD,
+        ) as Promise<{ status: string; n: string }[]>,
         dataSource.query(
           `SELECT DATE_FORMAT(DATE_SUB(DATE(created_at), INTERVAL WEEKDAY(created_at) DAY), '%Y-%m-%d') AS week, currency,
                   SUM(CASE WHEN account = 'provider_clearing' AND kind = 'payment' THEN amount_minor ELSE 0 END) AS sales,
@@ -77,7 +83,8 @@ export function createDashboardService(deps: {
         reviewTimes: weeks.map((week) => ({
           week,
           reviews: hoursByWeek.get(week)?.length ?? 0,
-          medianHours: Math.round(median(hoursByWeek.get(week) ?? []) * 100) / 100,
+          // To the second: a desk that decides within minutes still charts (the web picks minutes, hours or days).
+          medianHours: Math.round(median(hoursByWeek.get(week) ?? []) * 3600) / 3600,
         })),
         ordersByState: orders.map((r) => ({ status: r.status, count: Number(r.n) })),
         salesByWeek: money.map((r) => ({

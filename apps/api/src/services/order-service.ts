@@ -8,6 +8,8 @@ import {
   type ChooseWindowInput,
   type HandOverInput,
   type Order,
+  type OrderSearchInput,
+  type OrderSearchPage,
   type OrderStatus,
   type OrderTransitionName,
   type PickupWindowsInput,
@@ -19,7 +21,8 @@ import type { AppConfig } from "../config.ts";
 import { AccountEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import { orderStepMail, type OrderStep } from "../mail-templates.ts";
-import { requireSignedIn, type Actor } from "./actor.ts";
+import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
+import { searchOrdersForDesk } from "./order-desk-search.ts";
 import { timeZoneAt } from "./places.ts";
 import type { RefundService } from "./refund-service.ts";
 import type { MailQueue } from "./mail-outbox.ts";
@@ -267,6 +270,17 @@ export function createOrderService(deps: {
       const list = await orders().find({ where, order: { createdAt: "DESC" }, take: 100 });
       const parties = await partiesOf(dataSource, list);
       return list.map((o) => orderView(o, actor, parties.get(o.id), config.checkout.autoCompleteDays));
+    },
+
+    /** The operator desk's order search (admins only): words, newest first, keyset pages. */
+    async searchForDesk(actor: Actor, input: OrderSearchInput): Promise<OrderSearchPage> {
+      requireRole(actor, "admin");
+      const found = await searchOrdersForDesk(dataSource, input);
+      const parties = await partiesOf(dataSource, found.orders);
+      return {
+        orders: found.orders.map((o) => orderView(o, actor, parties.get(o.id), config.checkout.autoCompleteDays)),
+        nextCursor: found.nextCursor,
+      };
     },
 
     /** Pickup orders: the sawyer proposes 1–5 windows (again, if none suits) and where to come. */

@@ -1,10 +1,10 @@
 /**
- * The admin desk's data: the dashboard, payouts due, reports, the people search, the review desk,
+ * The admin desk's data: the dashboard, the audit log, payouts due, reports, the people search, the review desk,
  * buyers' reviews, the e-mail outbox and the marketplace settings. Each decision is a mutation that marks what it changed as stale,
  * so every list that shows it asks again.
  */
-import { toValue, type MaybeRefOrGetter } from "vue";
-import { useMutation, useQuery, useQueryCache } from "@pinia/colada";
+import { computed, toValue, type MaybeRefOrGetter } from "vue";
+import { useInfiniteQuery, useMutation, useQuery, useQueryCache } from "@pinia/colada";
 import {
   adminEndpoints,
   orderReviewEndpoints,
@@ -12,6 +12,8 @@ import {
   reviewEndpoints,
   type AdminUser,
   type Answer,
+  type AuditPage,
+  type AuditSearchInput,
   type Dashboard,
   type MarketplaceSettings,
   type OrderReview,
@@ -36,6 +38,38 @@ export function useDashboard() {
         .then((answer) => answer.dashboard)
         .catch(rethrow),
   });
+}
+
+/** The audit log's filters as the desk sends them (empty ones left out). */
+export type AuditFilters = Omit<AuditSearchInput, "cursor" | "limit">;
+const AUDIT_PAGE = 50;
+
+/**
+ * The audit log, newest first, a page of 50 at a time for the filters given (asked again when they
+ * change); `loadMore` appends older entries with the API's cursor. `csvUrl` downloads the same filters.
+ */
+export function useAuditLog(filters: MaybeRefOrGetter<AuditFilters>) {
+  const client = useClient(adminEndpoints);
+  const query = useInfiniteQuery<AuditPage, ApiRequestError, string | null>({
+    key: () => queryKeys.admin.audit({ ...toValue(filters) }),
+    query: ({ pageParam, signal }) =>
+      client.searchAudit({ query: { ...toValue(filters), cursor: pageParam ?? undefined, limit: AUDIT_PAGE } }, { signal }).catch(rethrow),
+    initialPageParam: null,
+    getNextPageParam: (lastPage) => lastPage.nextCursor,
+    // A new entry is written with every admin action: the log asks again on each visit.
+    staleTime: 0,
+  });
+  const pages = computed(() => query.data.value?.pages ?? []);
+  return {
+    entries: computed(() => pages.value.flatMap((page) => page.entries)),
+    loading: computed(() => pages.value.length === 0 && query.error.value === null),
+    busy: query.isLoading,
+    error: query.error,
+    hasMore: computed(() => pages.value.at(-1)?.nextCursor != null),
+    loadMore: () => query.loadNextPage(),
+    retry: () => query.refetch(),
+    csvUrl: computed(() => client.exportAuditCsv({ query: toValue(filters) })),
+  };
 }
 
 export function usePayoutsDue() {

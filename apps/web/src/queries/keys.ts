@@ -45,6 +45,7 @@ export const queryKeys = {
     all: ["admin"] as const,
     dashboard: ["admin", "dashboard"] as const,
     settings: ["admin", "settings"] as const,
+    audit: (filters: Record<string, string | undefined>) => ["admin", "audit", filters] as const,
     reports: (status: string) => ["admin", "reports", status] as const,
     users: (filters: Record<string, string | undefined>) => ["admin", "users", filters] as const,
     reviewDesk: ["admin", "review-desk"] as const,
@@ -71,6 +72,8 @@ export const queryKeys = {
     all: ["orders"] as const,
     /** The reader's orders: a buyer's, a sawyer's sales, or every order for an admin (the account is part of the key). */
     list: (accountId: string) => ["orders", "list", accountId] as const,
+    /** The desk's order search (a list too: marking the lists stale after a step covers it). */
+    desk: (words: string, pageSize: number) => ["orders", "list", "desk", words, pageSize] as const,
     /** One order as its reader sees it (the order page and its receipt share it). */
     order: (orderId: string) => ["orders", "order", orderId] as const,
     /** An admin's view of a paid order's dispute refunds. */

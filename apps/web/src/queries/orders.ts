@@ -3,8 +3,8 @@
  * order after payment, and an admin's dispute refunds. A step answers the order as it is now, which
  * goes straight into the cache; the lists that show the order are marked stale.
  */
-import { toValue, type MaybeRefOrGetter } from "vue";
-import { useMutation, useQuery, useQueryCache } from "@pinia/colada";
+import { computed, toValue, type MaybeRefOrGetter } from "vue";
+import { useInfiniteQuery, useMutation, useQuery, useQueryCache } from "@pinia/colada";
 import {
   orderEndpoints,
   payoutEndpoints,
@@ -12,6 +12,7 @@ import {
   type DisputeRefundResult,
   type DisputeRefundState,
   type Order,
+  type OrderSearchPage,
   type PickupWindowsInput,
   type ShipmentInput,
 } from "@grainyard/contracts";
@@ -32,6 +33,43 @@ export function useOrders() {
         .then((answer) => answer.orders)
         .catch(rethrow),
   });
+}
+
+/**
+ * The desk's order search: every order whose buyer, sawyer, yard, slab title or order number
+ * holds the words (all of them with no words), newest first, `pageSize` at a time; `loadMore`
+ * appends the next page with the API's cursor. The last answer stays on screen while another
+ * search is on its way.
+ */
+export function useDeskOrders(words: MaybeRefOrGetter<string>, pageSize: MaybeRefOrGetter<number>) {
+  const client = useClient(orderEndpoints);
+  const query = useInfiniteQuery<OrderSearchPage, ApiRequestError, string | null>({
+    key: () => queryKeys.orders.desk(toValue(words).trim(), toValue(pageSize)),
+    query: ({ pageParam, signal }) =>
+      client
+        .searchOrders(
+          { query: { q: toValue(words).trim() || undefined, limit: toValue(pageSize), cursor: pageParam ?? undefined } },
+          { signal },
+        )
+        .catch(rethrow),
+    initialPageParam: null,
+    getNextPageParam: (lastPage) => lastPage.nextCursor,
+    placeholderData: (previous) => previous,
+  });
+  const pages = computed(() => query.data.value?.pages ?? []);
+  return {
+    orders: computed(() => pages.value.flatMap((page) => page.orders)),
+    /** Nothing to show yet: the first answer is on its way. */
+    loading: computed(() => pages.value.length === 0 && query.error.value === null),
+    /** An answer is on its way (a new search or the next page). */
+    busy: query.isLoading,
+    /** What is shown belongs to the search before (the new one is on its way). */
+    stale: query.isPlaceholderData,
+    error: query.error,
+    hasMore: computed(() => pages.value.at(-1)?.nextCursor != null),
+    loadMore: () => query.loadNextPage(),
+    retry: () => query.refetch(),
+  };
 }
 
 /** One order as the reader sees it (with what they may do now). */

@@ -11,6 +11,8 @@ import { appPlugins } from "./app-plugins.ts";
 export interface StubbedAnswer {
   status: number;
   body?: unknown;
+  /** The answer waits for this (a test looks at the page while its data is on its way). */
+  until?: Promise<unknown>;
 }
 
 /**
@@ -27,6 +29,7 @@ export async function mountView(
     const queue = answers[key];
     const next = queue?.shift();
     if (!next) return new Response(JSON.stringify({ account: options.session?.account ?? null, csrfToken: "test-token" }), { status: 200 });
+    if (next.until) await next.until;
     return new Response(next.body === undefined ? null : JSON.stringify(next.body), { status: next.status });
   });
   transport.useFetch(fetchMock as unknown as typeof fetch);

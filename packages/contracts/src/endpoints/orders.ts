@@ -9,6 +9,8 @@ import {
   handOverInputSchema,
   orderEnvelopeSchema,
   orderListSchema,
+  orderSearchPageSchema,
+  orderSearchSchema,
   pickupWindowsInputSchema,
   shipmentInputSchema,
 } from "../orders.ts";
@@ -42,6 +44,14 @@ export const orderEndpoints = {
     summary: "The buyer's or sawyer's orders; every order (latest 100) for an admin.",
     access: "signed_in",
     answer: orderListSchema,
+  }),
+  searchOrders: endpoint({
+    method: "GET",
+    path: `${API_PREFIX}/admin/orders`,
+    summary: "The desk's order search (buyer, sawyer, yard, slab title or order number), newest first, in keyset pages.",
+    access: ["admin"],
+    query: orderSearchSchema,
+    answer: orderSearchPageSchema,
   }),
   getOrder: endpoint({
     method: "GET",
