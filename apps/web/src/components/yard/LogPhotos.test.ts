@@ -50,7 +50,7 @@ describe("LogPhotos", () => {
     await pick(wrapper, [new File(["notes"], "notes.txt", { type: "text/plain" })]);
     await flushPromises();
     expect(upload).not.toHaveBeenCalled();
-    expect(wrapper.find('[data-test="upload-failed"]').text()).toContain("“notes.txt” is not a photo we can take");
+    expect(wrapper.find('[data-test="upload-failed"]').text()).toContain("Not uploaded. “notes.txt” is not a photo we can take");
     expect(wrapper.find('[data-test="upload-retry"]').exists()).toBe(false);
     await wrapper.find(".log-photos__dismiss").trigger("click");
     expect(wrapper.find('[data-test="log-photo-upload"]').exists()).toBe(false);
