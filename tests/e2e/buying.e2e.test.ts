@@ -49,9 +49,10 @@ async function payOnHostedPage(page: Page, card: string) {
 }
 
 describe("buying a slab", () => {
-  it("a buyer buys with the test card on the hosted page, waits for the confirmation and reaches a paid order; both e-mails arrive; the sawyer proposes pickup times and the buyer books one", async () => {
+  it("a buyer buys with the test card on the hosted page, waits for the confirmation and reaches a paid order; both e-mails arrive; the sawyer proposes pickup times and the buyer books one, all in yard time", async () => {
     const listingId = await listingIdOf(MAPLE_PAIR);
-    const context: BrowserContext = await browser.newContext({ viewport: desktop, locale: "en-US" });
+    // The buyer's browser keeps Tokyo time and the sawyer's phone Lisbon time; the yard (Lakemont) keeps US Eastern time.
+    const context: BrowserContext = await browser.newContext({ viewport: desktop, locale: "en-US", timezoneId: "Asia/Tokyo" });
     const page = await context.newPage();
     const problems = watchForPageErrors(page);
     await signIn(page, FERNHILL);
@@ -102,6 +103,7 @@ describe("buying a slab", () => {
       isMobile: true,
       hasTouch: true,
       locale: "en-US",
+      timezoneId: "Europe/Lisbon",
     });
     const sawyerPage = await sawyerContext.newPage();
     const sawyerProblems = watchForPageErrors(sawyerPage);
@@ -115,19 +117,29 @@ describe("buying a slab", () => {
     await expect.poll(() => sawyerPage.locator('[data-test="pickup-windows-form"]').isVisible(), { timeout: 15_000 }).toBe(true);
     await expect.poll(() => sawyerPage.locator('[data-test="sawyer-net"]').innerText()).toMatch(/\$/);
     await sawyerPage.locator('[data-test="pickup-address-input"]').fill("Ridgeback yard, gate B, 212 Tannery Road, Lakemont");
+    // The form's times are the yard's (the two it offers are 09:00–11:00 and 14:00–16:00), not the phone's.
+    expect(await sawyerPage.locator('[data-test="windows-zone"]').innerText()).toContain("yard time (America/Detroit)");
+    expect(await sawyerPage.locator('[data-test="window-from-0"]').inputValue()).toBe("09:00");
+    expect(await sawyerPage.locator('[data-test="window-to-0"]').inputValue()).toBe("11:00");
     await screenshot(sawyerPage, "order-sawyer-windows-390");
     await sawyerPage.locator('[data-test="send-windows"]').click();
     await expect.poll(() => sawyerPage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Ready for pickup");
     await mailArrives(FERNHILL.email, /^Choose a pickup time/);
+    const offeredMail = (await mailsTo(FERNHILL.email)).find((m) => m.subject.startsWith("Choose a pickup time"))!;
+    expect(offeredMail.text).toMatch(/1\. \w{3} \d{1,2} \w{3}, 9–11 am, yard time \(America\/Detroit\)/);
+    expect(offeredMail.text).toMatch(/2\. \w{3} \d{1,2} \w{3}, 2–4 pm, yard time \(America\/Detroit\)/);
 
-    // The buyer books the second window.
+    // The buyer, nine time zones away from the yard, sees the same yard-time windows and books the second one.
     await page.goto(`${appUrl}/orders/${orderId}`);
     await expect.poll(() => page.locator('[data-test="window-1"]').isVisible(), { timeout: 15_000 }).toBe(true);
+    expect(await page.locator('label:has([data-test="window-0"])').innerText()).toMatch(/, 9–11 am, yard time \(America\/Detroit\)/);
+    expect(await page.locator('label:has([data-test="window-1"])').innerText()).toMatch(/, 2–4 pm, yard time \(America\/Detroit\)/);
+    await screenshot(page, "order-choose-window-1280");
     await page.locator('[data-test="window-1"]').check();
     await page.locator('[data-test="choose-window"]').click();
     await expect
       .poll(() => page.locator('[data-test="pickup-when"]').innerText(), { timeout: 15_000 })
-      .not.toMatch(/Choose one|Waiting|propose/);
+      .toMatch(/^\w{3} \d{1,2} \w{3}, 2–4 pm, yard time \(America\/Detroit\)$/);
     expect(await page.locator('[data-test="pickup-address"]').innerText()).toContain("212 Tannery Road");
     await screenshot(page, "order-booked-1280");
     await mailArrives(RIDGEBACK.email, /^The buyer chose a pickup time/);

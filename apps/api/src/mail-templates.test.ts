@@ -1,6 +1,33 @@
 import { describe, expect, it } from "vitest";
-import { orderStepMail, payoutSentMail, windowText } from "./mail-templates.ts";
+import { orderStepMail, payoutSentMail } from "./mail-templates.ts";
 import { timeZoneAt } from "./services/places.ts";
+
+const order = {
+  id: "o1",
+  title: "Black cherry top",
+  currency: "USD",
+  priceMinor: 30_000,
+  taxMinor: 0,
+  totalMinor: 30_000,
+  sawyerNetMinor: 27_000,
+  platformFeeMinor: 2_000,
+  processingFeeMinor: 1_000,
+  handover: "pickup" as const,
+  deliveryAddress: null,
+  slabSnapshot: [],
+  pickupWindows: null,
+  pickupAddress: null,
+  pickupStartsAt: null,
+  pickupEndsAt: null,
+  carrier: null,
+  trackingReference: null,
+  handedOverAt: new Date("2026-12-05T15:00:00Z"),
+  completedBy: "automatic" as const,
+  cancelledBy: null,
+  cancelReason: null,
+  status: "handed_over",
+};
+const parties = { buyerName: "Ana and Theo Brandt", yardName: "Cobble Lane Slabworks", pickupTown: "Lakemont", yardTimeZone: "UTC" };
 
 describe("pickup times in e-mails", () => {
   it("finds the yard's time zone from its position (tz-lookup), UTC when unknown", () => {
@@ -10,41 +37,29 @@ describe("pickup times in e-mails", () => {
     expect(timeZoneAt(null, -85.4)).toBe("UTC");
   });
 
-  it("writes a window in the yard's own time, with daylight saving time (IANA tz database)", () => {
+  it("writes a window in the yard's own time with the shared formatter, with daylight saving time (IANA tz database)", () => {
     // US Eastern is UTC−5 in winter and UTC−4 from the second Sunday of March to the first Sunday of November.
-    expect(windowText("2026-12-05T14:00:00.000Z", "2026-12-05T16:00:00.000Z", "America/Detroit")).toBe("Sat, 5 Dec 2026, 09:00–11:00 EST");
-    expect(windowText("2026-07-04T14:00:00.000Z", "2026-07-04T15:30:00.000Z", "America/Detroit")).toBe("Sat, 4 Jul 2026, 10:00–11:30 EDT");
-    expect(windowText("2026-12-05T14:00:00.000Z", "2026-12-05T16:00:00.000Z")).toBe("Sat, 5 Dec 2026, 14:00–16:00 UTC");
+    const at = (startsAt: string, endsAt: string, timeZone: string) =>
+      orderStepMail(
+        { email: "b@x.test", displayName: "B" },
+        "buyer",
+        "pickup_window_chosen",
+        { ...order, pickupStartsAt: new Date(startsAt), pickupEndsAt: new Date(endsAt), pickupAddress: "Gate 2" },
+        { ...parties, yardTimeZone: timeZone },
+        "http://127.0.0.1/orders/o1",
+        7,
+      ).text;
+    expect(at("2026-12-05T14:00:00.000Z", "2026-12-05T16:00:00.000Z", "America/Detroit")).toContain(
+      "Sat 5 Dec, 9–11 am, yard time (America/Detroit)",
+    );
+    expect(at("2026-07-04T14:00:00.000Z", "2026-07-04T15:30:00.000Z", "America/Detroit")).toContain(
+      "Sat 4 Jul, 10–11:30 am, yard time (America/Detroit)",
+    );
+    expect(at("2026-12-05T14:00:00.000Z", "2026-12-05T16:00:00.000Z", "UTC")).toContain("Sat 5 Dec, 2–4 pm, yard time (UTC)");
   });
 });
 
 describe("counts in e-mails", () => {
-  const order = {
-    id: "o1",
-    title: "Black cherry top",
-    currency: "USD",
-    priceMinor: 30_000,
-    taxMinor: 0,
-    totalMinor: 30_000,
-    sawyerNetMinor: 27_000,
-    platformFeeMinor: 2_000,
-    processingFeeMinor: 1_000,
-    handover: "pickup" as const,
-    deliveryAddress: null,
-    slabSnapshot: [],
-    pickupWindows: null,
-    pickupAddress: null,
-    pickupStartsAt: null,
-    pickupEndsAt: null,
-    carrier: null,
-    trackingReference: null,
-    handedOverAt: new Date("2026-12-05T15:00:00Z"),
-    completedBy: "automatic" as const,
-    cancelledBy: null,
-    cancelReason: null,
-    status: "handed_over",
-  };
-  const parties = { buyerName: "Ana and Theo Brandt", yardName: "Cobble Lane Slabworks", pickupTown: "Lakemont", yardTimeZone: "UTC" };
   const buyer = { email: "ana.theo@lakemont-home.test", displayName: "Ana and Theo Brandt" };
 
   it("says 1 day and 14 days, never 1 days", () => {

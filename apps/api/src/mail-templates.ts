@@ -1,5 +1,5 @@
 import escape from "escape-html";
-import { countOf, REVIEW_EDIT_DAYS, type OrderSlabSnapshot } from "@grainyard/contracts";
+import { countOf, formatPickupWindow, REVIEW_EDIT_DAYS, type OrderSlabSnapshot } from "@grainyard/contracts";
 import { formatMoney } from "@grainyard/slab-math";
 import type { OutgoingMail } from "./integrations/mail.ts";
 
@@ -198,23 +198,6 @@ interface OrderStepFacts extends OrderForMail {
   status: string;
 }
 
-/**
- * A pickup window in plain words, in the yard's own time zone (an IANA name; UTC when the yard's
- * town is unknown): "Sat, 5 Dec 2026, 09:00–11:00 EST".
- */
-export function windowText(startsAt: string | Date, endsAt: string | Date, timeZone = "UTC"): string {
-  const start = new Date(startsAt);
-  const end = new Date(endsAt);
-  const day = new Intl.DateTimeFormat("en-GB", { weekday: "short", day: "numeric", month: "short", year: "numeric", timeZone }).format(
-    start,
-  );
-  const time = (d: Date) => new Intl.DateTimeFormat("en-GB", { hour: "2-digit", minute: "2-digit", hour12: false, timeZone }).format(d);
-  const zone =
-    new Intl.DateTimeFormat("en-US", { timeZone, timeZoneName: "short" }).formatToParts(start).find((part) => part.type === "timeZoneName")
-      ?.value ?? timeZone;
-  return `${day}, ${time(start)}–${time(end)} ${zone}`;
-}
-
 const LIFT_CAUTION = "Slabs are heavy: lift with two people or a machine, secure the load, and keep to local load and vehicle limits.";
 
 /** One e-mail per step of an order, to the buyer or the sawyer, in the same plain words as the order page. */
@@ -231,12 +214,14 @@ export function orderStepMail(
   const title = `"${order.title}"`;
   const hello = `Hello ${to.displayName},`;
   const chosen =
-    order.pickupStartsAt && order.pickupEndsAt ? windowText(order.pickupStartsAt, order.pickupEndsAt, parties.yardTimeZone) : "";
+    order.pickupStartsAt && order.pickupEndsAt
+      ? formatPickupWindow({ startsAt: order.pickupStartsAt, endsAt: order.pickupEndsAt }, parties.yardTimeZone)
+      : "";
   let subject: string;
   let lines: string[];
   switch (step) {
     case "pickup_windows_proposed": {
-      const windows = (order.pickupWindows ?? []).map((w, i) => `${i + 1}. ${windowText(w.startsAt, w.endsAt, parties.yardTimeZone)}`);
+      const windows = (order.pickupWindows ?? []).map((w, i) => `${i + 1}. ${formatPickupWindow(w, parties.yardTimeZone)}`);
       subject = role === "buyer" ? `Choose a pickup time: ${order.title}` : `Pickup times sent: ${order.title}`;
       lines =
         role === "buyer"

@@ -12,6 +12,7 @@ export * from "./listings.ts";
 export * from "./catalogue.ts";
 export * from "./order-lifecycle.ts";
 export * from "./orders.ts";
+export * from "./pickup-times.ts";
 export * from "./buyer-tools.ts";
 export * from "./admin.ts";
 export * from "./payouts.ts";

@@ -20,7 +20,10 @@ export type PickupWindow = z.infer<typeof pickupWindowSchema>;
 
 const instant = (what: string) => z.iso.datetime({ offset: true, error: `Give the ${what} as a date and time.` });
 
-/** The sawyer proposes 1–5 windows and says where to come. */
+/**
+ * The sawyer proposes 1–5 windows and says where to come. Windows are instants; the sawyer's form
+ * reads the times typed as yard time (`yardTimeToInstant` with the order's `pickupTimeZone`).
+ */
 export const pickupWindowsInputSchema = z.object({
   windows: z
     .array(
@@ -118,6 +121,8 @@ export const orderSchema = z.object({
   viewerIs: z.enum(["buyer", "sawyer", "other"]),
   parties: z.object({ buyerName: z.string(), yardName: z.string().nullable(), pickupTown: z.string().nullable() }),
   pickupWindows: z.array(pickupWindowSchema),
+  /** The yard's IANA time zone: pickup windows are shown to everyone in it (formatPickupWindow). */
+  pickupTimeZone: z.string(),
   pickupAddress: z.string().nullable(),
   chosenPickupWindow: pickupWindowSchema.nullable(),
   carrier: z.string().nullable(),

@@ -127,3 +127,10 @@ export {
 export { EARTH_MEAN_RADIUS_KM, greatCircleKm, type Position } from "./geodesy.ts";
 export { RATING_SCALE, averageRating, ratingSummary, type RatingSummary, type RatingTotals } from "./ratings.ts";
 export { median } from "./statistics.ts";
+export {
+  USUAL_SLAB_PRICE_USD_PER_BOARD_FOOT,
+  FAR_BELOW_USUAL_FRACTION,
+  priceFarBelowUsual,
+  type PricedSlab,
+  type LowPriceWarning,
+} from "./price-guide.ts";

@@ -85,6 +85,10 @@ export class OrderEntity {
   @Column({ name: "pickup_windows", type: "simple-json", nullable: true })
   pickupWindows: { startsAt: string; endsAt: string }[] | null;
 
+  /** The yard's IANA time zone when the windows were proposed: every reader sees the windows in it. */
+  @Column({ name: "pickup_time_zone", type: "varchar", length: 64, nullable: true })
+  pickupTimeZone: string | null;
+
   /** Where to come for pickup (yard address, gate, directions), given with the windows. */
   @Column({ name: "pickup_address", type: "varchar", length: 300, nullable: true })
   pickupAddress: string | null;

@@ -83,3 +83,7 @@ migrations.push(EmailOutbox1764997200000);
 // The second factor: TOTP secret and last accepted time step on the account, hashed single-use recovery codes.
 import { SecondFactor1765008000000 } from "./1765008000000-second-factor.ts";
 migrations.push(SecondFactor1765008000000);
+
+// The yard's time zone stored with an order's pickup windows (shown to everyone in yard time).
+import { PickupTimeZone1765040000000 } from "./1765040000000-pickup-time-zone.ts";
+migrations.push(PickupTimeZone1765040000000);

@@ -11,6 +11,7 @@ import {
   until,
   type TestPaymentsFake,
 } from "../test-support/payments-harness.ts";
+import { instantToYardTime, yardTimeToInstant } from "@grainyard/contracts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
 
 /*
@@ -186,8 +187,8 @@ describe("order steps after payment", () => {
     const booked = (await mailTo(buyer.account.email)).find((m) => /^Pickup booked/.test(m.subject))!;
     expect(booked.text).toContain("Gate 2, 48 Sawmill Road, Lakemont");
     expect(booked.text).toMatch(/two people or a machine/);
-    // In the yard's own time (Lakemont keeps US Eastern time), not UTC.
-    expect(booked.text).toMatch(/\d{2}:\d{2}–\d{2}:\d{2} E[SD]T/);
+    // In the yard's own time (Lakemont keeps US Eastern time), named, not UTC.
+    expect(booked.text).toMatch(/\d(:\d{2})?–\d{1,2}(:\d{2})? [ap]m, yard time \(America\/Detroit\)/);
 
     // The buyer cannot confirm before hand-over: 409 with a plain message.
     const early = await buyer.post(`${path}/completion`);
@@ -227,6 +228,44 @@ describe("order steps after payment", () => {
     expect((await buyer.post(`${path}/completion`)).status).toBe(409);
     // A completed order can no longer be cancelled.
     expect((await buyer.post(`${path}/cancellation`, { reason: "Changed my mind" })).status).toBe(409);
+  });
+
+  it("a window entered as 09:00–11:00 yard time is stored with the yard's zone and reads 9–11 am yard time in the answer and every e-mail", async () => {
+    const { buyer, orderId } = await paidOrder("pickup");
+    const path = `/api/v1/orders/${orderId}`;
+    // Lakemont (44.618, −85.402) lies in Michigan's lower peninsula: US Eastern time (IANA tz database: America/Detroit).
+    const zone = "America/Detroit";
+    expect((await sawyer.get(path)).body.order.pickupTimeZone).toBe(zone);
+    // What the sawyer's form sends for 09:00–11:00 typed on the yard's day after tomorrow.
+    const day = instantToYardTime(new Date(clock.now().getTime() + 2 * 86_400_000), zone).day;
+    const startsAt = yardTimeToInstant(day, "09:00", zone)!;
+    const endsAt = yardTimeToInstant(day, "11:00", zone)!;
+    // Eastern time is UTC−5 (EST) or UTC−4 (EDT): 09:00 there is 14:00 or 13:00 UTC, whatever this machine's zone.
+    expect([13, 14]).toContain(startsAt.getUTCHours());
+    expect(endsAt.getTime() - startsAt.getTime()).toBe(2 * 3_600_000);
+    const proposed = await sawyer.post(`${path}/pickup-windows`, {
+      windows: [{ startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString() }],
+      pickupAddress: "Gate 2, 48 Sawmill Road, Lakemont",
+    });
+    expect(proposed.status).toBe(200);
+    expect(proposed.body.order.pickupTimeZone).toBe(zone);
+    const stored = await orderOf(orderId);
+    expect(stored.pickupTimeZone).toBe(zone);
+    expect(stored.pickupWindows).toEqual([{ startsAt: startsAt.toISOString(), endsAt: endsAt.toISOString() }]);
+
+    const [year, month, date] = day.split("-").map(Number) as [number, number, number];
+    const weekday = new Intl.DateTimeFormat("en-GB", { weekday: "short", timeZone: "UTC" }).format(Date.UTC(year, month - 1, date));
+    const monthName = new Intl.DateTimeFormat("en-GB", { month: "short", timeZone: "UTC" }).format(Date.UTC(year, month - 1, date));
+    const expected = `${weekday} ${date} ${monthName}, 9–11 am, yard time (America/Detroit)`;
+    await mailed(buyer.account.email, /^Choose a pickup time/);
+    const offered = (await mailTo(buyer.account.email)).find((m) => /^Choose a pickup time/.test(m.subject))!;
+    expect(offered.text).toContain(`1. ${expected}`);
+    const chosen = await buyer.post(`${path}/pickup-choice`, { startsAt: startsAt.toISOString() });
+    expect(chosen.status).toBe(200);
+    const subject = `The buyer chose a pickup time: ${proposed.body.order.title}`;
+    await until(async () => (await mailTo(sawyer.account.email)).some((m) => m.subject === subject));
+    const told = (await mailTo(sawyer.account.email)).find((m) => m.subject === subject)!;
+    expect(told.text).toContain(expected);
   });
 
   it("freight: shipped with carrier and tracking, handed over, then completed by the sweep after AUTO_COMPLETE_DAYS (once, even with two sweeps at once)", async () => {

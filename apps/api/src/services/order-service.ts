@@ -44,7 +44,10 @@ export interface Parties {
   buyerEmail: string;
   yardName: string | null;
   pickupTown: string | null;
-  /** The yard's time zone (from its town's position), for pickup times in e-mails. */
+  /**
+   * The time zone pickup times are read in: the one stored with the windows, else the yard's own
+   * (from its town's position, UTC when unknown).
+   */
   yardTimeZone: string;
   sawyerName: string;
   sawyerEmail: string;
@@ -103,6 +106,7 @@ export function orderView(order: OrderEntity, actor: Actor, parties: Parties | u
     viewerIs,
     parties: { buyerName: parties?.buyerName ?? "The buyer", yardName: parties?.yardName ?? null, pickupTown: parties?.pickupTown ?? null },
     pickupWindows: order.pickupWindows ?? [],
+    pickupTimeZone: parties?.yardTimeZone ?? "UTC",
     pickupAddress: order.pickupAddress,
     chosenPickupWindow:
       order.pickupStartsAt && order.pickupEndsAt
@@ -148,7 +152,7 @@ export async function partiesOf(manager: EntityManager | DataSource, orders: Ord
           buyerEmail: buyer?.email ?? "",
           yardName: sawyer?.yardName ?? null,
           pickupTown: sawyer?.pickupTown ?? null,
-          yardTimeZone: timeZoneAt(sawyer?.pickupLatitude ?? null, sawyer?.pickupLongitude ?? null),
+          yardTimeZone: o.pickupTimeZone ?? timeZoneAt(sawyer?.pickupLatitude ?? null, sawyer?.pickupLongitude ?? null),
           sawyerName: sawyer?.displayName ?? "The sawyer",
           sawyerEmail: sawyer?.email ?? "",
         },
@@ -171,6 +175,12 @@ export function createOrderService(deps: {
   const { dataSource, config } = deps;
   const now = deps.now ?? (() => new Date());
   const orders = () => dataSource.getRepository(OrderEntity);
+
+  /** The yard's own time zone, from the position of its pickup town. */
+  async function yardTimeZoneOf(sawyerId: string): Promise<string> {
+    const sawyer = await dataSource.getRepository(AccountEntity).findOneBy({ id: sawyerId });
+    return timeZoneAt(sawyer?.pickupLatitude ?? null, sawyer?.pickupLongitude ?? null);
+  }
 
   async function present(order: OrderEntity, actor: Actor): Promise<Order> {
     const parties = await partiesOf(dataSource, [order]);
@@ -308,6 +318,8 @@ export function createOrderService(deps: {
         "proposePickupWindows",
         {
           pickupWindows: windows.map((w) => ({ startsAt: w.startsAt.toISOString(), endsAt: w.endsAt.toISOString() })),
+          // The yard's zone as it is now: the windows are read in it even if the yard moves later.
+          pickupTimeZone: await yardTimeZoneOf(order.sawyerId),
           pickupAddress: input.pickupAddress,
           readyForPickupAt: order.readyForPickupAt ?? at,
           pickupStartsAt: null,

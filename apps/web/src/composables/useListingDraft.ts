@@ -281,6 +281,15 @@ export function useListingDraft(options: ListingDraftOptions) {
     photosChanged();
   }
 
+  /** A photo whose upload failed goes up again (now, or with the first save). */
+  function retryPhoto(key: string) {
+    const photo = draft.value?.photos.find((entry) => entry.key === key);
+    if (!photo?.rejected || !photo.blob) return;
+    photo.rejected = null;
+    progress[key] = 0;
+    photosChanged();
+  }
+
   function movePhoto(key: string, step: -1 | 1) {
     const current = draft.value;
     if (!current) return;
@@ -345,6 +354,7 @@ export function useListingDraft(options: ListingDraftOptions) {
     sync,
     addPhotos,
     removePhoto,
+    retryPhoto,
     movePhoto,
     setAltText,
     adopt,

@@ -390,3 +390,28 @@ describe("useListingDraft: refused photos", () => {
     expect(storage.entries.size).toBe(0);
   });
 });
+
+describe("useListingDraft: retrying a failed photo", () => {
+  it("sends a failed photo again when the sawyer asks, and it goes up once the server takes it", async () => {
+    const storage = createMemoryDraftStorage();
+    const fake = fakeApi();
+    fake.refuse.add("flaky");
+    const drafts = effectScope().run(() =>
+      useListingDraft({ toInput: validInput, storage, api: fake.api, isOnline: fake.isOnline, debounceMs: 0, listen: false }),
+    )!;
+    await drafts.start(null, { title: "Walnut slab", slabIds: [SLAB], priceMode: "fixed" });
+    drafts.addPhotos([photoFile("flaky")]);
+    await drafts.save();
+    const photo = () => drafts.draft.value!.photos[0]!;
+    expect(photo().rejected).toBe("That file is not a photo we can read.");
+    expect(photo().serverId).toBeNull();
+
+    // The server would take it now: a retry clears the failure and uploads at once (the listing exists).
+    fake.refuse.delete("flaky");
+    drafts.retryPhoto(photo().key);
+    expect(photo().rejected).toBeNull();
+    expect(drafts.progress[photo().key]).toBe(0);
+    await vi.waitFor(() => expect(photo().serverId).toBe("ph_1"), { timeout: 10_000 });
+    expect(fake.calls).toContain("upload lst_1 flaky alt=");
+  });
+});

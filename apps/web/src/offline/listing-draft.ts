@@ -33,7 +33,7 @@ export interface DraftPhoto {
   /** False when the alt text changed since the server last had it. */
   altTextSynced: boolean;
   smallUrl: string | null;
-  /** The server refused this photo (not an image, too large…): it is not sent again. */
+  /** Why its upload failed (refused, or lost on the way): not sent again until the sawyer asks to retry. */
   rejected: string | null;
 }
 

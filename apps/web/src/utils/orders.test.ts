@@ -66,6 +66,7 @@ describe("pickup facts, worded for the one reading them", () => {
   const base = {
     chosenPickupWindow: null,
     pickupWindows: [] as Order["pickupWindows"],
+    pickupTimeZone: "America/Detroit",
     pickupAddress: null,
     parties: { buyerName: "Ana and Theo Brandt", yardName: null, pickupTown: "Lakemont" },
   };
@@ -88,6 +89,14 @@ describe("pickup facts, worded for the one reading them", () => {
     expect(pickupFacts({ ...base, viewerIs: "sawyer", pickupWindows: windows }).when).toBe(
       "Waiting for the buyer to choose one of your times.",
     );
+  });
+
+  it("gives a booked time in the yard's time zone, named, whatever the reader's clock", () => {
+    // 14:00–16:00 UTC on 5 December is 9–11 am in US Eastern time (UTC−5 in winter, IANA tz database).
+    for (const viewerIs of ["buyer", "sawyer", "other"] as const)
+      expect(pickupFacts({ ...base, viewerIs, pickupWindows: windows, chosenPickupWindow: windows[0]! }).when).toBe(
+        "Sat 5 Dec, 9–11 am, yard time (America/Detroit)",
+      );
   });
 
   it("speaks of both in the third person to anyone else", () => {

@@ -1,4 +1,4 @@
-import { orderStatusLabels, type Order, type OrderSlabSnapshot } from "@grainyard/contracts";
+import { formatPickupWindow, orderStatusLabels, type Order, type OrderSlabSnapshot } from "@grainyard/contracts";
 import { speciesName } from "./yard.ts";
 
 export { orderStatusLabels };
@@ -8,13 +8,12 @@ export function orderNumber(order: Pick<Order, "id">): string {
   return order.id.slice(0, 8).toUpperCase();
 }
 
-const dateTime = new Intl.DateTimeFormat("en", { weekday: "short", day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
 const time = new Intl.DateTimeFormat("en", { hour: "2-digit", minute: "2-digit" });
 const day = new Intl.DateTimeFormat("en", { dateStyle: "medium" });
 
-/** A pickup window in the viewer's own time: "Sat, 6 Dec, 09:00 – 11:00". */
-export function windowLabel(window: { startsAt: string; endsAt: string }): string {
-  return `${dateTime.format(new Date(window.startsAt))} – ${time.format(new Date(window.endsAt))}`;
+/** A pickup window in the yard's time, whatever the reader's clock: "Sat 5 Dec, 9–11 am, yard time (America/Detroit)". */
+export function windowLabel(window: { startsAt: string; endsAt: string }, order: Pick<Order, "pickupTimeZone">): string {
+  return formatPickupWindow(window, order.pickupTimeZone);
 }
 
 type Reader = Order["viewerIs"];
@@ -23,7 +22,9 @@ type Reader = Order["viewerIs"];
  * The pickup facts in words for the one reading them: the buyer is told what to do or what comes,
  * the sawyer likewise, and anyone else (an admin) reads about both in the third person.
  */
-export function pickupFacts(order: Pick<Order, "viewerIs" | "chosenPickupWindow" | "pickupWindows" | "pickupAddress" | "parties">): {
+export function pickupFacts(
+  order: Pick<Order, "viewerIs" | "chosenPickupWindow" | "pickupWindows" | "pickupTimeZone" | "pickupAddress" | "parties">,
+): {
   yard: string;
   where: string;
   when: string;
@@ -34,7 +35,7 @@ export function pickupFacts(order: Pick<Order, "viewerIs" | "chosenPickupWindow"
     order.pickupAddress ??
     (reader === "sawyer" ? "You give the address with the pickup times." : "The sawyer gives the address with the pickup times.");
   let when: string;
-  if (order.chosenPickupWindow) when = windowLabel(order.chosenPickupWindow);
+  if (order.chosenPickupWindow) when = windowLabel(order.chosenPickupWindow, order);
   else if (order.pickupWindows.length)
     when =
       reader === "buyer"

@@ -38,6 +38,7 @@ const baseOrder: Order = {
   viewerIs: "buyer",
   parties: { buyerName: "Ana and Theo Brandt", yardName: "Ridgeback Urban Timber", pickupTown: "Lakemont" },
   pickupWindows: [],
+  pickupTimeZone: "America/Detroit",
   pickupAddress: null,
   chosenPickupWindow: null,
   carrier: null,
