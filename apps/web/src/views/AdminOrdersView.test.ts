@@ -39,6 +39,7 @@ function order(id: string, title: string, buyerName: string, createdAt: string):
     viewerIs: "other",
     parties: { buyerName, yardName: "Ridgeback Urban Timber", pickupTown: "Lakemont" },
     pickupWindows: [],
+    pickupTimeZone: "America/Chicago",
     pickupAddress: null,
     chosenPickupWindow: null,
     carrier: null,
