@@ -300,6 +300,11 @@ const samples: Record<EndpointKey, Sample> = {
     call: (c) => c.post(`/api/v1/admin/reports/${none}/resolve`, { resolution: "dismiss", note: "Matrix resolves." }),
     allowed: 404,
   },
+  "admin.listOrderProblems": { call: (c) => c.get("/api/v1/admin/order-problems") },
+  "admin.resolveOrderProblem": {
+    call: (c) => c.post(`/api/v1/admin/order-problems/${none}/resolve`, { resolution: "release", note: "Matrix releases." }),
+    allowed: 404,
+  },
   "admin.searchUsers": { call: (c) => c.get("/api/v1/admin/users") },
   "admin.getUser": { call: (c, ids) => c.get(`/api/v1/admin/users/${ids.sawyerId}`) },
   "admin.suspendUser": { call: (c, ids) => c.post(`/api/v1/admin/users/${ids.spareBuyerId}/suspend`, { reason: "Matrix suspends." }) },
@@ -361,6 +366,12 @@ const samples: Record<EndpointKey, Sample> = {
     allowed: { sawyer: 200, otherSawyer: 403 },
   },
   "orders.confirmReceipt": { call: (c, ids) => c.post(`/api/v1/orders/${ids.pickupOrderId}/completion`) },
+  // The buyer confirmed receipt just before, so the problem comes too late (409); order-problems.test.ts reports one.
+  "orders.reportProblem": {
+    call: (c, ids) =>
+      c.post(`/api/v1/orders/${ids.pickupOrderId}/problem`, { kind: "not_as_described", comment: "Matrix says it is not as described." }),
+    allowed: { buyer: 409 },
+  },
   // The buyer cancels first (200); the sawyer then finds it cancelled already (409).
   "orders.cancelOrder": {
     call: (c, ids) => c.post(`/api/v1/orders/${ids.orderToCancelId}/cancellation`, { reason: "Matrix cancels" }),

@@ -48,6 +48,7 @@ const baseOrder: Order = {
   cancelReason: null,
   handOverNote: null,
   autoCompleteAt: null,
+  problem: null,
   actions: [],
 };
 const paid = (over: Partial<Order> = {}): Order => ({

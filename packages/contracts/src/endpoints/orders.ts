@@ -10,6 +10,7 @@ import {
   orderEnvelopeSchema,
   orderListSchema,
   pickupWindowsInputSchema,
+  problemReportInputSchema,
   shipmentInputSchema,
 } from "../orders.ts";
 import { API_PREFIX } from "./prefix.ts";
@@ -92,6 +93,16 @@ export const orderEndpoints = {
     summary: "The buyer confirms all is well; the order completes.",
     access: buyerOnly,
     answer: orderEnvelopeSchema,
+    errors: ["order_state"],
+  }),
+  reportProblem: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/orders/:orderId/problem`,
+    summary: "After hand-over the buyer reports a problem instead of confirming receipt (once); the desk settles it.",
+    access: buyerOnly,
+    body: problemReportInputSchema,
+    answer: orderEnvelopeSchema,
+    status: 201,
     errors: ["order_state"],
   }),
   cancelOrder: endpoint({
