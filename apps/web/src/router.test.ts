@@ -88,6 +88,7 @@ describe("operator desk pages", () => {
       "/admin/buyer-reviews",
       "/admin/outbox",
       "/admin/payouts",
+      "/admin/problems",
       "/admin/reports",
       "/admin/review",
       "/admin/settings",

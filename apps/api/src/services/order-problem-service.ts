@@ -182,11 +182,6 @@ export function createOrderProblemService(deps: {
       return cases(rows);
     },
 
-    /** How many cases wait for the desk (the desk's home shows it). */
-    async openCount(): Promise<number> {
-      return problems().countBy({ status: In(["open", "settling"]) });
-    },
-
     async resolve(actor: Actor, problemId: string, input: ProblemResolution): Promise<OrderProblemCase> {
       const admin = requireRole(actor, "admin");
       const problem = await problems().findOneBy({ id: problemId });

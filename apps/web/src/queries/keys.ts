@@ -46,6 +46,8 @@ export const queryKeys = {
     dashboard: ["admin", "dashboard"] as const,
     settings: ["admin", "settings"] as const,
     reports: (status: string) => ["admin", "reports", status] as const,
+    /** Problems buyers reported after hand-over, by status. */
+    problems: (status: string) => ["admin", "problems", status] as const,
     users: (filters: Record<string, string | undefined>) => ["admin", "users", filters] as const,
     reviewDesk: ["admin", "review-desk"] as const,
     buyerReviewsAll: ["admin", "buyer-reviews"] as const,

@@ -13,6 +13,7 @@ import {
   type DisputeRefundState,
   type Order,
   type PickupWindowsInput,
+  type ProblemReportInput,
   type ShipmentInput,
 } from "@grainyard/contracts";
 import type { ApiRequestError } from "../api/errors.ts";
@@ -56,6 +57,7 @@ export type OrderStep =
   | { step: "mark_shipped"; body: ShipmentInput }
   | { step: "mark_handed_over"; reason?: string }
   | { step: "confirm_receipt" }
+  | { step: "report_problem"; body: ProblemReportInput }
   | { step: "cancel"; reason: string };
 
 /** Puts an order's newest state in the cache and marks the lists stale (a failure there shows on the list). */
@@ -85,7 +87,9 @@ export function useOrderStep(orderId: MaybeRefOrGetter<string>) {
                 ? client.markHandedOver({ orderId: id, body: input.reason === undefined ? {} : { reason: input.reason } })
                 : input.step === "confirm_receipt"
                   ? client.confirmReceipt({ orderId: id })
-                  : client.cancelOrder({ orderId: id, body: { reason: input.reason } });
+                  : input.step === "report_problem"
+                    ? client.reportProblem({ orderId: id, body: input.body })
+                    : client.cancelOrder({ orderId: id, body: { reason: input.reason } });
       return call.then((answer) => answer.order).catch(rethrow);
     },
     onSuccess: write,
