@@ -256,6 +256,7 @@ const samples: Record<EndpointKey, Sample> = {
 
   "catalogue.searchCatalogue": { call: (c) => c.get("/api/v1/catalogue?species=northern-red-oak") },
   "catalogue.getCatalogueListing": { call: (c, ids) => c.get(`/api/v1/catalogue/${ids.liveListingId}`) },
+  "catalogue.speciesCounts": { call: (c) => c.get("/api/v1/species-counts") },
   "catalogue.findPlaces": { call: (c) => c.get("/api/v1/places?query=Lake") },
   "catalogue.getMarketplaceFees": { call: (c) => c.get("/api/v1/marketplace/fees") },
 

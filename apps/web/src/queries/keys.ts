@@ -17,6 +17,8 @@ export const queryKeys = {
     /** A yard's public page (its live slabs are catalogue cards, so it lives with the catalogue). */
     yard: (slug: string) => ["catalogue", "yard", slug] as const,
     places: (text: string) => ["catalogue", "places", text.trim().toLowerCase()] as const,
+    /** Live slabs per species (the browse filter). */
+    speciesCounts: ["catalogue", "species-counts"] as const,
     /** The marketplace's fees in force. */
     fees: ["catalogue", "fees"] as const,
   },

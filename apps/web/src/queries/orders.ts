@@ -21,11 +21,15 @@ import { useSessionStore } from "../stores/session.ts";
 import { rethrow, useClient, markStale } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
-/** The reader's orders, newest first: a buyer's, a sawyer's sales, or the latest 100 for an admin. */
-export function useOrders() {
+/**
+ * The reader's orders, newest first: a buyer's, a sawyer's sales, or the latest 100 for an admin.
+ * `enabled` holds it back (a public page asks only in the browser, for a signed-in buyer).
+ */
+export function useOrders(options: { enabled?: () => boolean } = {}) {
   const client = useClient(orderEndpoints);
   const session = useSessionStore();
   return useQuery<Order[], ApiRequestError>({
+    ...(options.enabled ? { enabled: options.enabled } : {}),
     key: () => queryKeys.orders.list(session.account?.id ?? ""),
     query: ({ signal }) =>
       client
