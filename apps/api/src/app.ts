@@ -48,6 +48,7 @@ import { createAccountModeration } from "./services/account-moderation.ts";
 import { createAuditService } from "./services/audit-log.ts";
 import { createDashboardService } from "./services/dashboard-service.ts";
 import { createReportService } from "./services/report-service.ts";
+import { createOrderProblemService } from "./services/order-problem-service.ts";
 import { createOrderReviewService } from "./services/order-review-service.ts";
 import { createYardPageService } from "./services/yard-page-service.ts";
 import { yardPageHandlers } from "./routes/yard-page-routes.ts";
@@ -171,6 +172,8 @@ export function createApp(appDeps: AppDependencies) {
     now: deps.now,
     events,
   });
+  // Problems buyers report after hand-over, settled on the desk through the refund service.
+  const problems = createOrderProblemService({ dataSource: deps.dataSource, refunds, mail: outbox, config, now: deps.now });
   const listings = createListingService({
     dataSource: deps.dataSource,
     mail: outbox,
@@ -277,7 +280,7 @@ export function createApp(appDeps: AppDependencies) {
     buyer: buyerHandlers(savedSearches, favourites),
     messages: messageHandlers(messages),
     reports: reportHandlers(reports),
-    admin: adminHandlers({ audit, reports, moderation, settings, dashboard, outbox }),
+    admin: adminHandlers({ audit, reports, problems, moderation, settings, dashboard, outbox }),
     payouts: payoutHandlers(payouts),
     // The end-to-end suite's clock exists only on that stack; elsewhere its rows are not mounted (404).
     testClock: testClock ? testClockHandlers(testClock) : undefined,

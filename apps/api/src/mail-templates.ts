@@ -192,7 +192,7 @@ interface OrderStepFacts extends OrderForMail {
   carrier: string | null;
   trackingReference: string | null;
   handedOverAt: Date | null;
-  completedBy: "buyer" | "automatic" | null;
+  completedBy: "buyer" | "automatic" | "desk" | null;
   cancelledBy: "buyer" | "sawyer" | null;
   cancelReason: string | null;
   status: string;
@@ -283,7 +283,7 @@ export function orderStepMail(
           ? [
               hello,
               `${yard} marked ${title} as handed over to you.`,
-              `Please confirm on the order page that you have it and it is as described. If we hear nothing, the order completes by itself ${countOf(autoCompleteDays, "day", "days")} after hand-over.`,
+              `Please confirm on the order page that you have it and it is as described, or tell us there is a problem. If we hear nothing, the order completes by itself ${countOf(autoCompleteDays, "day", "days")} after hand-over.`,
             ]
           : [
               hello,

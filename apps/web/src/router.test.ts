@@ -89,6 +89,7 @@ describe("operator desk pages", () => {
       "/admin/orders",
       "/admin/outbox",
       "/admin/payouts",
+      "/admin/problems",
       "/admin/reports",
       "/admin/review",
       "/admin/settings",

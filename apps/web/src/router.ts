@@ -209,6 +209,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "Reports", roles: ["admin"] },
   },
   {
+    path: "/admin/problems",
+    name: "admin-problems",
+    component: () => import("./views/AdminProblemsView.vue"),
+    meta: { title: "Problems after hand-over", roles: ["admin"] },
+  },
+  {
     path: "/admin/buyer-reviews",
     name: "admin-buyer-reviews",
     component: () => import("./views/AdminBuyerReviewsView.vue"),

@@ -207,6 +207,10 @@ export const placeSchema = z.object({
 export type Place = z.infer<typeof placeSchema>;
 export const placeListSchema = z.object({ places: z.array(placeSchema) });
 
+/** How many live slabs each species has in the catalogue (species with none are left out), for the browse filter. */
+export const speciesCountsSchema = z.object({ species: z.array(z.object({ slug: z.string(), liveSlabs: z.number() })) });
+export type SpeciesCounts = z.infer<typeof speciesCountsSchema>["species"];
+
 /** Everything a buyer sees on a slab page. */
 export const catalogueDetailSchema = z.object({
   listing: z.object({

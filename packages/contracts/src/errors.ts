@@ -102,6 +102,7 @@ export const errorCatalogue = {
   payout_changed: entry(409, "What is due changed since the desk was loaded."),
   order_not_refundable: entry(409, "The order cannot be refunded (nothing left, or not paid)."),
   refund_refused: entry(409, "The payment provider refused the refund."),
+  problem_resolved: entry(409, "The reported problem is settled already (or being settled now)."),
 
   // Reviews of completed orders.
   review_exists: entry(409, "The order has its review already (one per order)."),

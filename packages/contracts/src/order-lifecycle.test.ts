@@ -18,26 +18,28 @@ import {
  * The rules of PRODUCT.md's checkout and money sections, written out as a grid: for each
  * transition and each party, one mark per status in this order —
  *   awaiting_payment, paid, ready_for_pickup, shipped, handed_over, completed, cancelled,
- *   payment_failed, expired, refunded
+ *   payment_failed, expired, refunded, problem_reported
  * — "x" where the party may make it from that status, "." where it is refused. Every one of the
- * 13 × 4 × 10 combinations is checked against the module.
+ * 15 × 4 × 11 combinations is checked against the module.
  */
-const none = "..........";
+const none = "...........";
 const grid: Record<OrderTransitionName, Record<OrderParty, string>> = {
-  //                         a p r s h c C f e R
-  confirmPayment: { buyer: none, sawyer: none, admin: none, system: "x......xx." },
-  refundLatePayment: { buyer: none, sawyer: none, admin: none, system: "x......xx." },
-  expireReservation: { buyer: none, sawyer: none, admin: "x.........", system: "x........." },
-  dropUnopenedCheckout: { buyer: none, sawyer: none, admin: none, system: "x........." },
-  proposePickupWindows: { buyer: none, sawyer: ".xx.......", admin: none, system: none },
-  choosePickupWindow: { buyer: "..x.......", sawyer: none, admin: none, system: none },
-  markShipped: { buyer: none, sawyer: ".x........", admin: none, system: none },
-  markHandedOver: { buyer: none, sawyer: "..xx......", admin: none, system: none },
-  confirmReceipt: { buyer: "....x.....", sawyer: none, admin: none, system: none },
-  completeAutomatically: { buyer: none, sawyer: none, admin: none, system: "....x....." },
-  cancel: { buyer: ".xx.......", sawyer: ".xx.......", admin: none, system: none },
-  recordCancellationRefund: { buyer: none, sawyer: none, admin: none, system: "......x..." },
-  refundInFull: { buyer: none, sawyer: none, admin: ".xxxxx....", system: none },
+  //                         a p r s h c C f e R P
+  confirmPayment: { buyer: none, sawyer: none, admin: none, system: "x......xx.." },
+  refundLatePayment: { buyer: none, sawyer: none, admin: none, system: "x......xx.." },
+  expireReservation: { buyer: none, sawyer: none, admin: "x..........", system: "x.........." },
+  dropUnopenedCheckout: { buyer: none, sawyer: none, admin: none, system: "x.........." },
+  proposePickupWindows: { buyer: none, sawyer: ".xx........", admin: none, system: none },
+  choosePickupWindow: { buyer: "..x........", sawyer: none, admin: none, system: none },
+  markShipped: { buyer: none, sawyer: ".x.........", admin: none, system: none },
+  markHandedOver: { buyer: none, sawyer: "..xx.......", admin: none, system: none },
+  confirmReceipt: { buyer: "....x......", sawyer: none, admin: none, system: none },
+  completeAutomatically: { buyer: none, sawyer: none, admin: none, system: "....x......" },
+  cancel: { buyer: ".xx........", sawyer: ".xx........", admin: none, system: none },
+  recordCancellationRefund: { buyer: none, sawyer: none, admin: none, system: "......x...." },
+  refundInFull: { buyer: none, sawyer: none, admin: ".xxxxx....x", system: none },
+  reportProblem: { buyer: "....x......", sawyer: none, admin: none, system: none },
+  settleProblem: { buyer: none, sawyer: none, admin: "..........x", system: none },
 };
 
 describe("the order life-cycle", () => {
@@ -79,6 +81,8 @@ describe("the order life-cycle", () => {
       cancel: "cancelled",
       recordCancellationRefund: "refunded",
       refundInFull: "refunded",
+      reportProblem: "problem_reported",
+      settleProblem: "completed",
     };
     for (const [name, to] of Object.entries(lands) as [OrderTransitionName, OrderStatus][]) expect(orderTransitions[name].to).toBe(to);
   });
@@ -110,9 +114,13 @@ describe("the named sets of statuses", () => {
 
   it("says which orders can be cancelled, refunded for a dispute, are settled, handed over, sold", () => {
     expect(orderStatusSets.cancellable).toEqual(["paid", "ready_for_pickup"]);
-    expect(orderStatusSets.refundable).toEqual(["paid", "ready_for_pickup", "shipped", "handed_over", "completed"]);
+    expect(orderStatusSets.refundable).toEqual(["paid", "ready_for_pickup", "shipped", "handed_over", "completed", "problem_reported"]);
     expect(orderStatusSets.settled).toEqual(["cancelled", "refunded"]);
     expect(orderStatusSets.handedOver).toEqual(["handed_over", "completed"]);
+    // A reported problem holds the sawyer's money and the order's completion until the desk decides.
+    expect(isOrderStatusIn("handedOver", "problem_reported")).toBe(false);
+    expect(isOrderStatusIn("sold", "problem_reported")).toBe(true);
+    expect(transitionFrom("completeAutomatically")).not.toContain("problem_reported");
     // Only a completed order may be reviewed: not one still with the carrier, nor one refunded.
     expect(orderStatusSets.reviewable).toEqual(["completed"]);
     expect(isOrderStatusIn("sold", "awaiting_payment")).toBe(false);
@@ -122,7 +130,7 @@ describe("the named sets of statuses", () => {
     for (const status of orderStatusSets.cancellable) expect(isOrderStatusIn("refundable", status)).toBe(true);
   });
 
-  it("leaves nothing for the buyer or the sawyer to do on an ended order, and something on every other", () => {
+  it("leaves nothing for the buyer or the sawyer to do on an ended order or one with the desk, and something on every other", () => {
     const stepsFor = (status: OrderStatus, party: OrderParty) =>
       (Object.keys(orderTransitions) as OrderTransitionName[]).filter((name) =>
         (["pickup", "freight"] as const).some((handover) => canMakeTransition(name, { status, handover }, party)),
@@ -130,6 +138,10 @@ describe("the named sets of statuses", () => {
     for (const status of orderStatuses) {
       const people = [...stepsFor(status, "buyer"), ...stepsFor(status, "sawyer")];
       if (isOrderStatusIn("ended", status)) expect({ status, people }).toEqual({ status, people: [] });
+      else if (isOrderStatusIn("withTheDesk", status)) {
+        expect({ status, people }).toEqual({ status, people: [] });
+        expect(stepsFor(status, "admin").length, status).toBeGreaterThan(0);
+      }
       // An order awaiting payment waits for the provider, not for a person.
       else if (status !== "awaiting_payment") expect(people.length, status).toBeGreaterThan(0);
     }

@@ -10,7 +10,10 @@
  * for orders stored before that rule; no transition leads there now.) A pickup order becomes ready for
  * pickup when the sawyer proposes windows, a freight order shipped; either is then handed over and
  * completed (by the buyer, or by itself some days later). Before hand-over either side may cancel;
- * the refund then makes it refunded. An admin may refund a paid order for a dispute.
+ * the refund then makes it refunded. An admin may refund a paid order for a dispute. After
+ * hand-over the buyer may report a problem instead of confirming receipt: the order then waits for
+ * the desk (it does not complete by itself), which refunds it (in full: refunded; in part: the rest
+ * is the sawyer's and it completes) or releases the sale to the sawyer (completed).
  */
 
 export const orderStatuses = [
@@ -24,6 +27,7 @@ export const orderStatuses = [
   "payment_failed",
   "expired",
   "refunded",
+  "problem_reported",
 ] as const;
 export type OrderStatus = (typeof orderStatuses)[number];
 
@@ -39,6 +43,7 @@ export const orderStatusLabels: Record<OrderStatus, string> = {
   payment_failed: "Payment did not go through",
   expired: "Reservation ran out",
   refunded: "Refunded",
+  problem_reported: "Problem reported",
 };
 
 /**
@@ -61,15 +66,20 @@ export const orderStatusSets = {
   /** Paid, not yet on its way or handed over: buyer or sawyer may call it off. */
   cancellable: ["paid", "ready_for_pickup"],
   /** Paid and not settled: an admin may refund all or part of it for a dispute. */
-  refundable: ["paid", "ready_for_pickup", "shipped", "handed_over", "completed"],
-  /** The slab left the sawyer's hands: the sale is theirs once the hold is over. */
+  refundable: ["paid", "ready_for_pickup", "shipped", "handed_over", "completed", "problem_reported"],
+  /**
+   * The slab left the sawyer's hands: the sale is theirs once the hold is over. (Not an order whose
+   * buyer reported a problem: its money waits for the desk.)
+   */
   handedOver: ["handed_over", "completed"],
   /** Called off after payment: the money went (or is going) back. */
   calledOff: ["cancelled", "refunded"],
   /** The money is settled one way or the other (what is still owed to the sawyer is paid or taken back at once). */
   settled: ["cancelled", "refunded"],
   /** A sale happened (not just a hold that lapsed): what a sawyer sees in their orders. */
-  sold: ["paid", "ready_for_pickup", "shipped", "handed_over", "completed", "cancelled", "refunded"],
+  sold: ["paid", "ready_for_pickup", "shipped", "handed_over", "completed", "cancelled", "refunded", "problem_reported"],
+  /** The buyer reported a problem after hand-over: the desk decides; it never completes by itself. */
+  withTheDesk: ["problem_reported"],
   /** Completed: its buyer may review it (once; see order-reviews.ts). */
   reviewable: ["completed"],
   /** Nothing is left for the buyer or the sawyer to do. */
@@ -104,6 +114,10 @@ export const orderTransitions = {
   markShipped: { from: ["paid"], to: "shipped", by: ["sawyer"], handover: "freight" },
   markHandedOver: { from: ["ready_for_pickup", "shipped"], to: "handed_over", by: ["sawyer"] },
   confirmReceipt: { from: ["handed_over"], to: "completed", by: ["buyer"] },
+  /** Instead of confirming receipt, the buyer says there is a problem (once): it waits for the desk. */
+  reportProblem: { from: ["handed_over"], to: "problem_reported", by: ["buyer"] },
+  /** The desk decides a reported problem for the sawyer (or refunds part of it): the sale is theirs. */
+  settleProblem: { from: ["problem_reported"], to: "completed", by: ["admin"] },
   /** The days after hand-over ran out without the buyer confirming. */
   completeAutomatically: { from: ["handed_over"], to: "completed", by: ["system"] },
   cancel: { from: sets.cancellable, to: "cancelled", by: ["buyer", "sawyer"] },

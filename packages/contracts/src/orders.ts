@@ -76,6 +76,42 @@ export const cancellationInputSchema = z.object({
 });
 export type CancellationInput = z.infer<typeof cancellationInputSchema>;
 
+/** What the buyer says went wrong after hand-over, instead of confirming receipt. */
+export const orderProblemKinds = ["not_received", "not_as_described"] as const;
+export type OrderProblemKind = (typeof orderProblemKinds)[number];
+export const orderProblemKindLabels: Record<OrderProblemKind, string> = {
+  not_received: "I have not received it",
+  not_as_described: "It is not as described",
+};
+
+export const problemReportInputSchema = z.object({
+  kind: z.enum(orderProblemKinds, { error: "Choose what is wrong." }),
+  comment: z
+    .string({ error: "Tell the desk what happened." })
+    .trim()
+    .min(10, "Tell the desk what happened (a sentence or two).")
+    .max(2000, "Keep it under 2000 characters."),
+});
+export type ProblemReportInput = z.infer<typeof problemReportInputSchema>;
+
+/** How the desk settled a reported problem: money back (all or part), or the sale released to the sawyer. */
+export const orderProblemStatuses = ["open", "refunded", "released"] as const;
+
+/** A problem the buyer reported on an order, as its buyer, its sawyer and the desk read it. */
+export const orderProblemSchema = z.object({
+  id: z.string(),
+  kind: z.enum(orderProblemKinds),
+  comment: z.string(),
+  status: z.enum(orderProblemStatuses),
+  reportedAt: z.string(),
+  /** The desk's words to both sides when it settled it. */
+  resolutionNote: z.string().nullable(),
+  resolvedAt: z.string().nullable(),
+  /** What went back to the buyer when it was settled with a refund. */
+  refundedMinor: z.number().nullable(),
+});
+export type OrderProblem = z.infer<typeof orderProblemSchema>;
+
 /** What buying a listing would cost, from the same code as checkout (tax at the configured rate). */
 export const checkoutQuoteSchema = z.object({
   quote: z.object({
@@ -137,16 +173,27 @@ export const orderSchema = z.object({
     cancelledAt: z.string().nullable(),
     refundedAt: z.string().nullable(),
   }),
-  completedBy: z.enum(["buyer", "automatic"]).nullable(),
+  /** Who completed it: the buyer, the sweep after the days ran out, or the desk settling a reported problem. */
+  completedBy: z.enum(["buyer", "automatic", "desk"]).nullable(),
   cancelledBy: z.enum(["buyer", "sawyer"]).nullable(),
   cancelReason: z.string().nullable(),
   /** Why the sawyer marked it handed over before the booked pickup time (null when it was not early). */
   handOverNote: z.string().nullable(),
   /** When the order completes by itself if the buyer does not confirm (handed over + the configured days). */
   autoCompleteAt: z.string().nullable(),
+  /** The problem its buyer reported after hand-over, if any (for the buyer, the sawyer and admins). */
+  problem: orderProblemSchema.nullable(),
   /** What the one looking may do now. */
   actions: z.array(
-    z.enum(["propose_pickup_windows", "choose_pickup_window", "mark_shipped", "mark_handed_over", "confirm_receipt", "cancel"]),
+    z.enum([
+      "propose_pickup_windows",
+      "choose_pickup_window",
+      "mark_shipped",
+      "mark_handed_over",
+      "confirm_receipt",
+      "report_problem",
+      "cancel",
+    ]),
   ),
 });
 export type Order = z.infer<typeof orderSchema>;
@@ -177,3 +224,36 @@ export const orderSearchSchema = z.object({
 export type OrderSearchInput = z.input<typeof orderSearchSchema>;
 export const orderSearchPageSchema = z.object({ orders: z.array(orderSchema), nextCursor: z.string().nullable() });
 export type OrderSearchPage = z.infer<typeof orderSearchPageSchema>;
+
+/** The desk's list of reported problems: each with its order and both parties. */
+export const orderProblemCaseSchema = orderProblemSchema.extend({
+  orderId: z.string(),
+  title: z.string(),
+  orderStatus: z.enum(orderStatuses),
+  currency: z.string(),
+  totalMinor: z.number(),
+  handover: z.enum(["pickup", "freight"]),
+  handedOverAt: z.string().nullable(),
+  buyer: z.object({ id: z.string(), displayName: z.string(), email: z.string() }),
+  sawyer: z.object({ id: z.string(), displayName: z.string(), yardName: z.string().nullable(), email: z.string() }),
+});
+export type OrderProblemCase = z.infer<typeof orderProblemCaseSchema>;
+export const orderProblemQuerySchema = z.object({ status: z.enum(orderProblemStatuses).optional() });
+export const orderProblemListSchema = z.object({ problems: z.array(orderProblemCaseSchema) });
+
+/**
+ * The desk settles a problem: a refund through the refund service (everything left when no amount
+ * is given; a part leaves the rest to the sawyer), or the sale released to the sawyer. The note
+ * goes to both sides.
+ */
+export const problemResolutionSchema = z.object({
+  resolution: z.enum(["refund", "release"], { error: "Choose a refund or releasing the sale." }),
+  amountMinor: z.number().int("Give the amount in whole cents.").positive("Refund more than nothing.").optional(),
+  note: z
+    .string({ error: "Say why (both sides read it)." })
+    .trim()
+    .min(3, "Say why (both sides read it).")
+    .max(1000, "Keep it under 1000 characters."),
+});
+export type ProblemResolution = z.infer<typeof problemResolutionSchema>;
+export const orderProblemCaseEnvelopeSchema = z.object({ problem: orderProblemCaseSchema });

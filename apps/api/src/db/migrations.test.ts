@@ -59,6 +59,7 @@ describe("migrations", () => {
       "message",
       "message_thread",
       "moisture_reading",
+      "order_problem",
       "order_refund",
       "order_review",
       "outbox_email",

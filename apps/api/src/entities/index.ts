@@ -89,3 +89,8 @@ entities.push(OutboxEmailEntity);
 import { RecoveryCodeEntity } from "./recovery-code.ts";
 export { RecoveryCodeEntity };
 entities.push(RecoveryCodeEntity);
+
+// Problems buyers reported after hand-over, settled on the desk.
+import { OrderProblemEntity } from "./order-problem.ts";
+export { OrderProblemEntity };
+entities.push(OrderProblemEntity);

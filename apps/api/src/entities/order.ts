@@ -121,9 +121,9 @@ export class OrderEntity {
   @Column({ name: "completed_at", type: "datetime", precision: 3, nullable: true })
   completedAt: Date | null;
 
-  /** "buyer" (confirmed receipt) or "automatic" (the days after hand-over ran out). */
+  /** "buyer" (confirmed receipt), "automatic" (the days after hand-over ran out) or "desk" (a reported problem settled for the sawyer). */
   @Column({ name: "completed_by", type: "varchar", length: 10, nullable: true })
-  completedBy: "buyer" | "automatic" | null;
+  completedBy: "buyer" | "automatic" | "desk" | null;
 
   @Column({ name: "cancelled_at", type: "datetime", precision: 3, nullable: true })
   cancelledAt: Date | null;

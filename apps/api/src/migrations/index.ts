@@ -84,6 +84,9 @@ migrations.push(EmailOutbox1764997200000);
 import { SecondFactor1765008000000 } from "./1765008000000-second-factor.ts";
 migrations.push(SecondFactor1765008000000);
 
+// Problems buyers report after hand-over, settled on the desk.
+import { OrderProblems1765018800000 } from "./1765018800000-order-problems.ts";
+migrations.push(OrderProblems1765018800000);
 // The yard's time zone stored with an order's pickup windows (shown to everyone in yard time).
 import { PickupTimeZone1765040000000 } from "./1765040000000-pickup-time-zone.ts";
 migrations.push(PickupTimeZone1765040000000);

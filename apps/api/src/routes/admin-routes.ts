@@ -4,6 +4,7 @@ import type { AccountModeration } from "../services/account-moderation.ts";
 import type { AuditService } from "../services/audit-log.ts";
 import type { DashboardService } from "../services/dashboard-service.ts";
 import type { MailOutbox } from "../services/mail-outbox.ts";
+import type { OrderProblemService } from "../services/order-problem-service.ts";
 import type { ReportService } from "../services/report-service.ts";
 import type { SettingsService } from "../services/settings-service.ts";
 
@@ -18,12 +19,13 @@ export function reportHandlers(reports: ReportService): Handlers<typeof reportEn
 export function adminHandlers(services: {
   audit: AuditService;
   reports: ReportService;
+  problems: OrderProblemService;
   moderation: AccountModeration;
   settings: SettingsService;
   dashboard: DashboardService;
   outbox: MailOutbox;
 }): Handlers<typeof adminEndpoints> {
-  const { audit, reports, moderation, settings, dashboard, outbox } = services;
+  const { audit, reports, problems, moderation, settings, dashboard, outbox } = services;
   return {
     searchAudit: ({ actor, query }) => audit.search(actor, query),
     exportAuditCsv: async ({ actor, query }) => ({
@@ -33,6 +35,8 @@ export function adminHandlers(services: {
     }),
     listReports: async ({ actor, query }) => ({ reports: await reports.list(actor, query.status) }),
     resolveReport: async ({ actor, params, body }) => ({ report: await reports.resolve(actor, params.reportId, body) }),
+    listOrderProblems: async ({ actor, query }) => ({ problems: await problems.list(actor, query.status) }),
+    resolveOrderProblem: async ({ actor, params, body }) => ({ problem: await problems.resolve(actor, params.problemId, body) }),
     searchUsers: async ({ actor, query }) => ({ users: await moderation.searchUsers(actor, query) }),
     getUser: async ({ actor, params }) => ({ user: await moderation.getUser(actor, params.accountId) }),
     suspendUser: async ({ actor, params, body }) => ({ user: await moderation.suspend(actor, params.accountId, body) }),

@@ -34,6 +34,7 @@ export function catalogueHandlers(
       return ANSWERED;
     },
     getCatalogueListing: ({ actor, params }) => catalogue.detail(actor, params.listingId),
+    speciesCounts: async () => ({ species: await catalogue.speciesCounts() }),
     findPlaces: ({ query }) => ({ places: searchPlaces(query.query) }),
     getMarketplaceFees: () => ({ fees: settings.fees() }),
   };

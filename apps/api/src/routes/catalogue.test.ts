@@ -294,6 +294,27 @@ describe("catalogue search", () => {
   });
 });
 
+describe("live slabs per species", () => {
+  const countOf = async (slug: string) => {
+    const res = await request(ctx.app).get("/api/v1/species-counts");
+    expect(res.status).toBe(200);
+    return (res.body.species as { slug: string; liveSlabs: number }[]).find((entry) => entry.slug === slug)?.liveSlabs ?? 0;
+  };
+
+  it("counts every live slab of a species (a set's slabs each), and follows a withdrawal at once", async () => {
+    const sawyer = await sawyerIn("Cedar Hollow");
+    expect(await countOf("london-plane")).toBe(0);
+    await liveListing(sawyer, "plane pair", [slab("london-plane", 2100, 45, [520, 500]), slab("london-plane", 2100, 45, [515, 505])], {
+      setKind: "bookmatched",
+    });
+    const single = await liveListing(sawyer, "plane single", [slab("london-plane", 1900, 45, [480, 470])], {});
+    expect(await countOf("london-plane")).toBe(3);
+    // Withdrawn: the kept counts are dropped with the catalogue's other answers.
+    await sawyer.post(`/api/v1/yard/listings/${single}/withdraw`);
+    expect(await countOf("london-plane")).toBe(2);
+  });
+});
+
 describe("fits my table", () => {
   it("finds what seats eight (2 × 4 diners at 600 mm each: a 2400 × 900 × 38 mm top, common practice) with the spare margin", async () => {
     expect(topLengthForSeats(8)).toBe(2400);

@@ -18,6 +18,7 @@ export function orderHandlers(checkout: CheckoutService, orders: OrderService, p
     markShipped: async ({ actor, params, body }) => ({ order: await orders.markShipped(actor, params.orderId, body) }),
     markHandedOver: async ({ actor, params, body }) => ({ order: await orders.markHandedOver(actor, params.orderId, body) }),
     confirmReceipt: async ({ actor, params }) => ({ order: await orders.confirmReceipt(actor, params.orderId) }),
+    reportProblem: async ({ actor, params, body }) => ({ order: await orders.reportProblem(actor, params.orderId, body) }),
     cancelOrder: async ({ actor, params, body }) => ({ order: await orders.cancel(actor, params.orderId, body) }),
     /**
      * The provider's webhook: the raw body, verified by the payments port into one of our payment

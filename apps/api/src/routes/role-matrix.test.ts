@@ -257,6 +257,7 @@ const samples: Record<EndpointKey, Sample> = {
 
   "catalogue.searchCatalogue": { call: (c) => c.get("/api/v1/catalogue?species=northern-red-oak") },
   "catalogue.getCatalogueListing": { call: (c, ids) => c.get(`/api/v1/catalogue/${ids.liveListingId}`) },
+  "catalogue.speciesCounts": { call: (c) => c.get("/api/v1/species-counts") },
   "catalogue.findPlaces": { call: (c) => c.get("/api/v1/places?query=Lake") },
   "catalogue.getMarketplaceFees": { call: (c) => c.get("/api/v1/marketplace/fees") },
 
@@ -299,6 +300,11 @@ const samples: Record<EndpointKey, Sample> = {
   "admin.listReports": { call: (c) => c.get("/api/v1/admin/reports") },
   "admin.resolveReport": {
     call: (c) => c.post(`/api/v1/admin/reports/${none}/resolve`, { resolution: "dismiss", note: "Matrix resolves." }),
+    allowed: 404,
+  },
+  "admin.listOrderProblems": { call: (c) => c.get("/api/v1/admin/order-problems") },
+  "admin.resolveOrderProblem": {
+    call: (c) => c.post(`/api/v1/admin/order-problems/${none}/resolve`, { resolution: "release", note: "Matrix releases." }),
     allowed: 404,
   },
   "admin.searchUsers": { call: (c) => c.get("/api/v1/admin/users") },
@@ -363,6 +369,12 @@ const samples: Record<EndpointKey, Sample> = {
     allowed: { sawyer: 200, otherSawyer: 403 },
   },
   "orders.confirmReceipt": { call: (c, ids) => c.post(`/api/v1/orders/${ids.pickupOrderId}/completion`) },
+  // The buyer confirmed receipt just before, so the problem comes too late (409); order-problems.test.ts reports one.
+  "orders.reportProblem": {
+    call: (c, ids) =>
+      c.post(`/api/v1/orders/${ids.pickupOrderId}/problem`, { kind: "not_as_described", comment: "Matrix says it is not as described." }),
+    allowed: { buyer: 409 },
+  },
   // The buyer cancels first (200); the sawyer then finds it cancelled already (409).
   "orders.cancelOrder": {
     call: (c, ids) => c.post(`/api/v1/orders/${ids.orderToCancelId}/cancellation`, { reason: "Matrix cancels" }),

@@ -1,6 +1,6 @@
 import { createHash, createHmac, timingSafeEqual } from "node:crypto";
 import { gzipSync } from "node:zlib";
-import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult, Place } from "@grainyard/contracts";
+import type { CatalogueCard, CatalogueDetail, CatalogueQueryParsed, CatalogueResult, Place, SpeciesCounts } from "@grainyard/contracts";
 import { listingEndpoints, pathOf } from "@grainyard/contracts";
 import {
   averageRating,
@@ -190,10 +190,13 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
   // neither serialising, encoding nor hashing. They are found by the query string exactly as the
   // browser sent it (so a repeat skips validation too: the same text always parses the same way).
   const pages = new LRUCache<string, CatalogueAnswer>({ max: 500, ttl: PAGE_TTL_MS });
+  /** Live slabs per species for the browse filter: one grouped query, kept like the counts and cleared with them. */
+  let speciesCounts: { loadedAt: number; value: Promise<SpeciesCounts> } | null = null;
   const forgetCached = () => {
     counts.clear();
     pages.clear();
     positions = null;
+    speciesCounts = null;
   };
 
   const sign = (payload: string) => createHmac("sha256", deps.cursorSecret).update(payload).digest("base64url").slice(0, 22);
@@ -284,6 +287,27 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
   }
 
   return {
+    /**
+     * How many live slabs each species has: one grouped query over the catalogue rows (a listing's
+     * slabs are of its species), kept for 30 s and dropped with the other answers on any catalogue
+     * change in any instance. With the answer cache off it always asks.
+     */
+    speciesCounts(): Promise<SpeciesCounts> {
+      if (caching && speciesCounts && Date.now() - speciesCounts.loadedAt <= COUNT_TTL_MS) return speciesCounts.value;
+      const value = reads
+        .query<{ species_slug: string; live_slabs: string | number }>(
+          "SELECT species_slug, SUM(slab_count) AS live_slabs FROM catalogue_entry GROUP BY species_slug ORDER BY species_slug",
+        )
+        .then((rows) => rows.map((row) => ({ slug: row.species_slug, liveSlabs: Number(row.live_slabs) })));
+      if (caching) {
+        const kept = { loadedAt: Date.now(), value };
+        speciesCounts = kept;
+        value.catch(() => {
+          if (speciesCounts === kept) speciesCounts = null; // a failed read is tried again next time
+        });
+      }
+      return value;
+    },
     /** Drops the kept answers, counts and yard positions (a change here or in another instance). */
     forgetCached,
     /** Rebuilds (or removes) a listing's catalogue row; call inside the transaction that changed it. */

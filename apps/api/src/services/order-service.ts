@@ -13,14 +13,17 @@ import {
   type OrderStatus,
   type OrderTransitionName,
   type PickupWindowsInput,
+  type ProblemReportInput,
   type ShipmentInput,
 } from "@grainyard/contracts";
+import { randomUUID } from "node:crypto";
 import { retryOnLockConflict } from "../db/lock-conflicts.ts";
-import { In, LessThan, Not, type DataSource, type EntityManager } from "typeorm";
+import { In, IsNull, LessThan, Not, type DataSource, type EntityManager } from "typeorm";
 import type { AppConfig } from "../config.ts";
-import { AccountEntity, ListingEntity, OrderEntity } from "../entities/index.ts";
+import { AccountEntity, ListingEntity, OrderEntity, OrderProblemEntity } from "../entities/index.ts";
 import { Conflict, Forbidden, Invalid, NotFound } from "../errors.ts";
 import { orderStepMail, type OrderStep } from "../mail-templates.ts";
+import { problemReceivedMail, problemReportedDeskMail, problemReportedSawyerMail } from "../mail-templates-problems.ts";
 import { requireRole, requireSignedIn, type Actor } from "./actor.ts";
 import { searchOrdersForDesk } from "./order-desk-search.ts";
 import { timeZoneAt } from "./places.ts";
@@ -62,6 +65,7 @@ const actionTransitions: [Order["actions"][number], OrderTransitionName][] = [
   ["mark_handed_over", "markHandedOver"],
   ["choose_pickup_window", "choosePickupWindow"],
   ["confirm_receipt", "confirmReceipt"],
+  ["report_problem", "reportProblem"],
   ["cancel", "cancel"],
 ];
 
@@ -73,8 +77,36 @@ function actionsFor(order: OrderEntity, viewerIs: Order["viewerIs"]): Order["act
     .map(([action]) => action);
 }
 
+/** A reported problem as its buyer, its sawyer and the desk read it. */
+export function problemView(problem: OrderProblemEntity): NonNullable<Order["problem"]> {
+  return {
+    id: problem.id,
+    kind: problem.kind,
+    comment: problem.comment,
+    // A refund being made right now still reads as open until it is through.
+    status: problem.status === "settling" ? "open" : problem.status,
+    reportedAt: problem.createdAt.toISOString(),
+    resolutionNote: problem.resolutionNote,
+    resolvedAt: iso(problem.resolvedAt),
+    refundedMinor: problem.refundedMinor,
+  };
+}
+
+/** The problem reported on each order, if any, in one query. */
+async function problemsOf(manager: EntityManager | DataSource, orders: OrderEntity[]): Promise<Map<string, OrderProblemEntity>> {
+  const ids = orders.map((o) => o.id);
+  const rows = ids.length ? await manager.getRepository(OrderProblemEntity).findBy({ orderId: In(ids) }) : [];
+  return new Map(rows.map((r) => [r.orderId, r]));
+}
+
 /** The order as this actor sees it: fees and the sawyer's net only for the sawyer and admins. */
-export function orderView(order: OrderEntity, actor: Actor, parties: Parties | undefined, autoCompleteDays: number): Order {
+export function orderView(
+  order: OrderEntity,
+  actor: Actor,
+  parties: Parties | undefined,
+  autoCompleteDays: number,
+  problem: OrderProblemEntity | null = null,
+): Order {
   const viewerIs: Order["viewerIs"] =
     actor.kind !== "account"
       ? "other"
@@ -132,6 +164,7 @@ export function orderView(order: OrderEntity, actor: Actor, parties: Parties | u
       order.status === "handed_over" && order.handedOverAt
         ? new Date(order.handedOverAt.getTime() + autoCompleteDays * DAY_MS).toISOString()
         : null,
+    problem: problem ? problemView(problem) : null,
     actions: actionsFor(order, viewerIs),
   };
 }
@@ -183,8 +216,8 @@ export function createOrderService(deps: {
   }
 
   async function present(order: OrderEntity, actor: Actor): Promise<Order> {
-    const parties = await partiesOf(dataSource, [order]);
-    return orderView(order, actor, parties.get(order.id), config.checkout.autoCompleteDays);
+    const [parties, problems] = await Promise.all([partiesOf(dataSource, [order]), problemsOf(dataSource, [order])]);
+    return orderView(order, actor, parties.get(order.id), config.checkout.autoCompleteDays, problems.get(order.id));
   }
 
   /** The order, if this actor is its sawyer or buyer (as the step needs). */
@@ -278,17 +311,17 @@ export function createOrderService(deps: {
             ? { sawyerId: signedIn.accountId, status: In(orderStatusesIn("sold")) }
             : { buyerId: signedIn.accountId };
       const list = await orders().find({ where, order: { createdAt: "DESC" }, take: 100 });
-      const parties = await partiesOf(dataSource, list);
-      return list.map((o) => orderView(o, actor, parties.get(o.id), config.checkout.autoCompleteDays));
+      const [parties, problems] = await Promise.all([partiesOf(dataSource, list), problemsOf(dataSource, list)]);
+      return list.map((o) => orderView(o, actor, parties.get(o.id), config.checkout.autoCompleteDays, problems.get(o.id)));
     },
 
     /** The operator desk's order search (admins only): words, newest first, keyset pages. */
     async searchForDesk(actor: Actor, input: OrderSearchInput): Promise<OrderSearchPage> {
       requireRole(actor, "admin");
       const found = await searchOrdersForDesk(dataSource, input);
-      const parties = await partiesOf(dataSource, found.orders);
+      const [parties, problems] = await Promise.all([partiesOf(dataSource, found.orders), problemsOf(dataSource, found.orders)]);
       return {
-        orders: found.orders.map((o) => orderView(o, actor, parties.get(o.id), config.checkout.autoCompleteDays)),
+        orders: found.orders.map((o) => orderView(o, actor, parties.get(o.id), config.checkout.autoCompleteDays, problems.get(o.id))),
         nextCursor: found.nextCursor,
       };
     },
@@ -399,6 +432,67 @@ export function createOrderService(deps: {
         "be confirmed as received",
         "completed",
       );
+      return present(updated, actor);
+    },
+
+    /**
+     * After hand-over, instead of confirming receipt, the buyer says there is a problem (not
+     * received, or not as described) in their own words. Once per order: the step moves it to
+     * problem_reported (so the completion sweep leaves it alone) and the case is opened for the
+     * desk in the same transaction (one row per order); the sawyer, every admin and the buyer are
+     * e-mailed through the outbox with it.
+     */
+    async reportProblem(actor: Actor, orderId: string, input: ProblemReportInput): Promise<Order> {
+      const order = await orderFor(actor, orderId, "buyer");
+      const updated = await dataSource.transaction(async (manager) => {
+        const moved = await step(order, "reportProblem", {}, "have a problem reported", manager);
+        const problem: OrderProblemEntity = {
+          id: randomUUID(),
+          orderId: order.id,
+          buyerId: order.buyerId,
+          kind: input.kind,
+          comment: input.comment,
+          status: "open",
+          resolvedBy: null,
+          resolutionNote: null,
+          refundedMinor: null,
+          resolvedAt: null,
+          createdAt: now(),
+        };
+        await manager.getRepository(OrderProblemEntity).insert(problem);
+        const parties = (await partiesOf(manager, [moved])).get(moved.id)!;
+        const link = `${config.publicUrl}/orders/${order.id}`;
+        await deps.mail.queue(
+          manager,
+          "order_problem_received",
+          problemReceivedMail({ email: parties.buyerEmail, displayName: parties.buyerName }, moved, problem, link),
+        );
+        await deps.mail.queue(
+          manager,
+          "order_problem_sawyer",
+          problemReportedSawyerMail(
+            { email: parties.sawyerEmail, displayName: parties.sawyerName },
+            parties.buyerName,
+            moved,
+            problem,
+            link,
+          ),
+        );
+        const admins = await manager.getRepository(AccountEntity).find({ where: { role: "admin", suspendedAt: IsNull() } });
+        for (const admin of admins)
+          await deps.mail.queue(
+            manager,
+            "order_problem_desk",
+            problemReportedDeskMail(
+              admin,
+              { buyerName: parties.buyerName, yardName: parties.yardName ?? parties.sawyerName },
+              moved,
+              problem,
+              `${config.publicUrl}/admin/problems`,
+            ),
+          );
+        return moved;
+      });
       return present(updated, actor);
     },
 

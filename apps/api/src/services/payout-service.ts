@@ -598,7 +598,11 @@ export function createPayoutService(deps: {
         totalMinor: order.totalMinor,
         refundedMinor,
         refundableMinor,
-        canRefund: isOrderStatusIn("refundable", order.status) && !!order.paymentIntentId && refundableMinor > 0,
+        canRefund:
+          isOrderStatusIn("refundable", order.status) &&
+          !isOrderStatusIn("withTheDesk", order.status) &&
+          !!order.paymentIntentId &&
+          refundableMinor > 0,
         refunds: refunds.map((r) => ({ amountMinor: r.amountMinor, reason: r.reason, createdAt: r.createdAt.toISOString() })),
       };
     },
@@ -614,6 +618,11 @@ export function createPayoutService(deps: {
       const { amountMinor, reason } = disputeRefundSchema.parse(input);
       const order = await dataSource.getRepository(OrderEntity).findOneBy({ id: orderId });
       if (!order) throw new NotFound("No order with that id.");
+      if (isOrderStatusIn("withTheDesk", order.status))
+        throw new Conflict(
+          "Its buyer reported a problem: settle it from the desk's problems list (refund or release).",
+          "order_not_refundable",
+        );
       if (!isOrderStatusIn("refundable", order.status) || !order.paymentIntentId) {
         throw new Conflict(
           "Only a paid order can be refunded for a dispute (cancelled and refunded orders are settled already).",

@@ -19,7 +19,10 @@ import {
   type OrderReview,
   type OutboxPage,
   type OutboxQuery,
+  type OrderProblemCase,
+  type ProblemResolution,
   type Report,
+  type orderProblemStatuses,
   type ReviewDeskItem,
   type reportResolutions,
   type reportStatuses,
@@ -102,6 +105,40 @@ export function useResolveReport() {
       client.resolveReport({ reportId: input.reportId, body: { resolution: input.resolution, note: input.note } }).catch(rethrow),
     // A take-down or suspension changes the dashboard, the people list and the catalogue too.
     onSettled: () => markStale(cache, { key: queryKeys.admin.all }),
+  });
+}
+
+export type OrderProblemStatus = (typeof orderProblemStatuses)[number];
+
+/** Problems buyers reported after hand-over: open ones oldest first, or settled ones. */
+export function useOrderProblems(status: MaybeRefOrGetter<OrderProblemStatus>) {
+  const client = useClient(adminEndpoints);
+  return useQuery<OrderProblemCase[], ApiRequestError>({
+    key: () => queryKeys.admin.problems(toValue(status)),
+    query: ({ signal }) =>
+      client
+        .listOrderProblems({ query: { status: toValue(status) } }, { signal })
+        .then((answer) => answer.problems)
+        .catch(rethrow),
+    staleTime: 0,
+  });
+}
+
+/** Settles a reported problem: a refund (all or part) or the sale released. The order, its refunds, the desk and the payouts change. */
+export function useResolveOrderProblem(orderId: MaybeRefOrGetter<string>) {
+  const client = useClient(adminEndpoints);
+  const cache = useQueryCache();
+  return useMutation({
+    mutation: (input: { problemId: string; body: ProblemResolution }) =>
+      client.resolveOrderProblem({ problemId: input.problemId, body: input.body }).catch(rethrow),
+    onSettled: () =>
+      Promise.all([
+        markStale(cache, { key: queryKeys.orders.order(toValue(orderId)) }),
+        markStale(cache, { key: queryKeys.orders.disputeRefund(toValue(orderId)) }),
+        markStale(cache, { key: [...queryKeys.orders.all, "list"] }),
+        markStale(cache, { key: queryKeys.admin.all }),
+        markStale(cache, { key: queryKeys.payouts.all }),
+      ]),
   });
 }
 

@@ -1,12 +1,19 @@
 /**
  * The public catalogue's data: searches (paged with the API's cursor), one slab page, slabs like a
- * sold one, the towns for "pickup near" and the marketplace fees. The same queries run in the
+ * sold one, live slabs per species, the towns for "pickup near" and the marketplace fees. The same queries run in the
  * server's render (their answers travel with the page) and in the browser, which then has them
  * already: nothing is asked twice on the first visit.
  */
 import { computed, toValue, type MaybeRefOrGetter } from "vue";
 import { useInfiniteQuery, useQuery } from "@pinia/colada";
-import { catalogueEndpoints, type CatalogueCard, type CatalogueDetail, type CatalogueResult, type Place } from "@grainyard/contracts";
+import {
+  catalogueEndpoints,
+  type CatalogueCard,
+  type CatalogueDetail,
+  type CatalogueResult,
+  type Place,
+  type SpeciesCounts,
+} from "@grainyard/contracts";
 import { toApiRequestError, type ApiRequestError } from "../api/errors.ts";
 import { searchQuery, type CatalogueFilters } from "../utils/catalogue-filters.ts";
 import { useClient } from "./api.ts";
@@ -100,6 +107,28 @@ export function useSimilarSlabs(speciesSlug: MaybeRefOrGetter<string | null>, ex
     (query.data.value?.results ?? []).filter((card) => card.listingId !== toValue(excludeListingId)).slice(0, 4),
   );
   return { cards, loading: query.isLoading };
+}
+
+/** How many live slabs each species has (absent: none), for the browse filter. The answer is public and the same for everyone. */
+export function useSpeciesCounts() {
+  const client = useClient(catalogueEndpoints);
+  const query = useQuery<SpeciesCounts, ApiRequestError>({
+    key: queryKeys.catalogue.speciesCounts,
+    query: ({ signal }) =>
+      client
+        .speciesCounts(undefined, { signal })
+        .then((answer) => answer.species)
+        .catch((error: unknown) => {
+          throw toApiRequestError(error);
+        }),
+    staleTime: SEARCH_FRESH_MS,
+  });
+  return {
+    /** Live slabs by species slug; null until the counts have arrived (or when they could not be read). */
+    counts: computed<Map<string, number> | null>(() =>
+      query.data.value ? new Map(query.data.value.map((entry) => [entry.slug, entry.liveSlabs])) : null,
+    ),
+  };
 }
 
 /** Towns whose name starts with the text (two letters or more), for "pickup near". */

@@ -17,6 +17,8 @@ export const queryKeys = {
     /** A yard's public page (its live slabs are catalogue cards, so it lives with the catalogue). */
     yard: (slug: string) => ["catalogue", "yard", slug] as const,
     places: (text: string) => ["catalogue", "places", text.trim().toLowerCase()] as const,
+    /** Live slabs per species (the browse filter). */
+    speciesCounts: ["catalogue", "species-counts"] as const,
     /** The marketplace's fees in force. */
     fees: ["catalogue", "fees"] as const,
   },
@@ -47,6 +49,8 @@ export const queryKeys = {
     settings: ["admin", "settings"] as const,
     audit: (filters: Record<string, string | undefined>) => ["admin", "audit", filters] as const,
     reports: (status: string) => ["admin", "reports", status] as const,
+    /** Problems buyers reported after hand-over, by status. */
+    problems: (status: string) => ["admin", "problems", status] as const,
     users: (filters: Record<string, string | undefined>) => ["admin", "users", filters] as const,
     reviewDesk: ["admin", "review-desk"] as const,
     buyerReviewsAll: ["admin", "buyer-reviews"] as const,

@@ -14,6 +14,7 @@ import {
   type Order,
   type OrderSearchPage,
   type PickupWindowsInput,
+  type ProblemReportInput,
   type ShipmentInput,
 } from "@grainyard/contracts";
 import type { ApiRequestError } from "../api/errors.ts";
@@ -21,11 +22,15 @@ import { useSessionStore } from "../stores/session.ts";
 import { rethrow, useClient, markStale } from "./api.ts";
 import { queryKeys } from "./keys.ts";
 
-/** The reader's orders, newest first: a buyer's, a sawyer's sales, or the latest 100 for an admin. */
-export function useOrders() {
+/**
+ * The reader's orders, newest first: a buyer's, a sawyer's sales, or the latest 100 for an admin.
+ * `enabled` holds it back (a public page asks only in the browser, for a signed-in buyer).
+ */
+export function useOrders(options: { enabled?: () => boolean } = {}) {
   const client = useClient(orderEndpoints);
   const session = useSessionStore();
   return useQuery<Order[], ApiRequestError>({
+    ...(options.enabled ? { enabled: options.enabled } : {}),
     key: () => queryKeys.orders.list(session.account?.id ?? ""),
     query: ({ signal }) =>
       client
@@ -94,6 +99,7 @@ export type OrderStep =
   | { step: "mark_shipped"; body: ShipmentInput }
   | { step: "mark_handed_over"; reason?: string }
   | { step: "confirm_receipt" }
+  | { step: "report_problem"; body: ProblemReportInput }
   | { step: "cancel"; reason: string };
 
 /** Puts an order's newest state in the cache and marks the lists stale (a failure there shows on the list). */
@@ -123,7 +129,9 @@ export function useOrderStep(orderId: MaybeRefOrGetter<string>) {
                 ? client.markHandedOver({ orderId: id, body: input.reason === undefined ? {} : { reason: input.reason } })
                 : input.step === "confirm_receipt"
                   ? client.confirmReceipt({ orderId: id })
-                  : client.cancelOrder({ orderId: id, body: { reason: input.reason } });
+                  : input.step === "report_problem"
+                    ? client.reportProblem({ orderId: id, body: input.body })
+                    : client.cancelOrder({ orderId: id, body: { reason: input.reason } });
       return call.then((answer) => answer.order).catch(rethrow);
     },
     onSuccess: write,

@@ -40,6 +40,7 @@ function order(id: string, title: string, buyerName: string, createdAt: string):
     parties: { buyerName, yardName: "Ridgeback Urban Timber", pickupTown: "Lakemont" },
     pickupWindows: [],
     pickupTimeZone: "America/Chicago",
+    problem: null,
     pickupAddress: null,
     chosenPickupWindow: null,
     carrier: null,

@@ -57,6 +57,32 @@ describe("BrowseView: the catalogue", () => {
     expect((wrapper.find('[data-test="sort"]').element as HTMLSelectElement).value).toBe("price_low");
   });
 
+  it("shows how many live slabs each species has in the filter, species with slabs first", async () => {
+    const { wrapper } = await mountView(BrowseView, {
+      path: "/browse",
+      answers: {
+        [SEARCH]: [page([oak])],
+        [`GET ${catalogueEndpoints.speciesCounts.path}`]: [
+          {
+            status: 200,
+            body: {
+              species: [
+                { slug: "black-walnut", liveSlabs: 3 },
+                { slug: "white-oak", liveSlabs: 1 },
+              ],
+            },
+          },
+        ],
+      },
+    });
+    expect(wrapper.find('[data-test="species-count-black-walnut"]').text()).toBe("3 live slabs");
+    expect(wrapper.find('[data-test="species-count-white-oak"]').text()).toBe("1 live slab");
+    // The short list leads with what can be bought now.
+    const shown = wrapper.findAll(".species-filter__common").map((name) => name.text());
+    expect(shown.slice(0, 2)).toEqual(["Black walnut", "White oak"]);
+    expect(wrapper.findAll('[data-test^="species-count-"]')[2]?.text()).toBe("none live");
+  });
+
   it("shows 1000+ when the count stopped at its cap", async () => {
     const { wrapper } = await mountView(BrowseView, {
       path: "/browse",

@@ -49,6 +49,7 @@ const baseOrder: Order = {
   cancelReason: null,
   handOverNote: null,
   autoCompleteAt: null,
+  problem: null,
   actions: [],
 };
 const paid = (over: Partial<Order> = {}): Order => ({
@@ -137,9 +138,68 @@ describe("OrderView", () => {
     const post = fetchMock.mock.calls.find(([, init]) => init?.method === "POST")!;
     expect(JSON.parse(String(post[1]!.body))).toEqual({});
     expect(text('[data-test="order-status"]')).toBe("Handed over");
-    expect(document.querySelector('[data-test="order-actions"]')).toBeNull();
+    // Nothing left for the sawyer to do: the page says what the buyer does next, in words for the sawyer.
+    expect(document.querySelector('[data-test="mark-handed-over"]')).toBeNull();
+    expect(text('[data-test="waiting-note"]')).toBe("The buyer is asked to confirm they have it; otherwise it completes by itself.");
     expect(fetchMock.mock.calls.filter(([url]) => String(url).startsWith(orderPath) && !String(url).includes("/handed-over"))).toHaveLength(
       1,
     );
+  });
+
+  it("lets the buyer report a problem instead of confirming receipt: a choice and their words, then the order waits for the desk", async () => {
+    const handedOver = paid({
+      status: "handed_over",
+      handover: "freight",
+      deliveryAddress: "7 Heron Walk, Lakemont",
+      steps: { ...noSteps, paidAt: "2026-12-03T15:05:00.000Z", handedOverAt: "2026-12-04T10:00:00.000Z" },
+      autoCompleteAt: "2026-12-18T10:00:00.000Z",
+      actions: ["confirm_receipt", "report_problem"],
+    });
+    const comment = "A split runs the whole length that the photos did not show.";
+    const reported: Order = {
+      ...handedOver,
+      status: "problem_reported",
+      autoCompleteAt: null,
+      actions: [],
+      problem: {
+        id: "prb-1",
+        kind: "not_as_described",
+        comment,
+        status: "open",
+        reportedAt: "2026-12-04T12:00:00.000Z",
+        resolutionNote: null,
+        resolvedAt: null,
+        refundedMinor: null,
+      },
+    };
+    const { fetchMock } = await mountView(OrderView, {
+      path: `/orders/${orderId}`,
+      session: { account: buyerAccount },
+      answers: {
+        [`GET ${orderPath}`]: [{ status: 200, body: { order: handedOver } }],
+        [`POST ${pathOf(orderEndpoints.reportProblem, { orderId })}`]: [{ status: 201, body: { order: reported } }],
+      },
+    });
+    (document.querySelector('[data-test="report-problem"]') as HTMLElement).click();
+    await flushPromises();
+    // Nothing chosen or said yet: the form says what is missing and sends nothing.
+    (document.querySelector('[data-test="confirm"]') as HTMLElement).click();
+    await flushPromises();
+    expect(document.querySelector('[data-test="report-problem-form"]')?.textContent).toContain("Choose what is wrong.");
+    expect(fetchMock.mock.calls.filter(([, init]) => init?.method === "POST")).toHaveLength(0);
+
+    (document.querySelector('[data-test="problem-not_as_described"]') as HTMLInputElement).click();
+    const box = document.querySelector('[data-test="problem-comment"]') as HTMLTextAreaElement;
+    box.value = comment;
+    box.dispatchEvent(new Event("input"));
+    await flushPromises();
+    (document.querySelector('[data-test="confirm"]') as HTMLElement).click();
+    await flushPromises();
+    const post = fetchMock.mock.calls.find(([, init]) => init?.method === "POST")!;
+    expect(JSON.parse(String(post[1]!.body))).toEqual({ kind: "not_as_described", comment });
+    expect(text('[data-test="order-status"]')).toBe("Problem reported");
+    expect(text('[data-test="problem-comment-shown"]')).toBe(comment);
+    expect(text('[data-test="problem-outcome"]')).toBe("Our desk is looking at it and will write to you and the sawyer.");
+    expect(document.querySelector('[data-test="confirm-receipt"]')).toBeNull();
   });
 });

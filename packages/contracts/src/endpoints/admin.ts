@@ -20,6 +20,7 @@ import {
   restoreSchema,
   suspendSchema,
 } from "../admin.ts";
+import { orderProblemCaseEnvelopeSchema, orderProblemListSchema, orderProblemQuerySchema, problemResolutionSchema } from "../orders.ts";
 import { endpoint } from "../endpoint.ts";
 import { API_PREFIX } from "./prefix.ts";
 
@@ -74,6 +75,23 @@ export const adminEndpoints = {
     body: reportResolveSchema,
     answer: reportEnvelopeSchema,
     errors: ["report_resolved", "listing_not_removable", "admin_not_suspendable", "already_suspended", "review_hidden"],
+  }),
+  listOrderProblems: endpoint({
+    method: "GET",
+    path: `${API_PREFIX}/admin/order-problems`,
+    summary: "Problems buyers reported after hand-over, open ones oldest first, optionally by status.",
+    access: adminOnly,
+    query: orderProblemQuerySchema,
+    answer: orderProblemListSchema,
+  }),
+  resolveOrderProblem: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/admin/order-problems/:problemId/resolve`,
+    summary: "Settle a reported problem: refund all or part through the refund service, or release the sale to the sawyer.",
+    access: adminOnly,
+    body: problemResolutionSchema,
+    answer: orderProblemCaseEnvelopeSchema,
+    errors: ["problem_resolved", "order_state", "order_not_refundable", "refund_refused", "payments_unavailable"],
   }),
   searchUsers: endpoint({
     method: "GET",

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { marketplaceFeesSchema } from "../admin.ts";
-import { catalogueDetailSchema, catalogueQuerySchema, catalogueResultSchema, placeListSchema } from "../catalogue.ts";
+import { catalogueDetailSchema, catalogueQuerySchema, catalogueResultSchema, placeListSchema, speciesCountsSchema } from "../catalogue.ts";
 import { endpoint } from "../endpoint.ts";
 import { API_PREFIX } from "./prefix.ts";
 
@@ -24,6 +24,14 @@ export const catalogueEndpoints = {
     summary: "Everything a buyer needs about one listing (live, sold, or the viewer's own).",
     access: "anyone",
     answer: catalogueDetailSchema,
+  }),
+  speciesCounts: endpoint({
+    method: "GET",
+    path: `${API_PREFIX}/species-counts`,
+    summary: "How many live slabs each species has (one grouped query, kept with the catalogue's answers).",
+    access: "anyone",
+    answer: speciesCountsSchema,
+    sessionFree: true,
   }),
   findPlaces: endpoint({
     method: "GET",

@@ -12,6 +12,7 @@ import {
   orderSearchPageSchema,
   orderSearchSchema,
   pickupWindowsInputSchema,
+  problemReportInputSchema,
   shipmentInputSchema,
 } from "../orders.ts";
 import { API_PREFIX } from "./prefix.ts";
@@ -102,6 +103,16 @@ export const orderEndpoints = {
     summary: "The buyer confirms all is well; the order completes.",
     access: buyerOnly,
     answer: orderEnvelopeSchema,
+    errors: ["order_state"],
+  }),
+  reportProblem: endpoint({
+    method: "POST",
+    path: `${API_PREFIX}/orders/:orderId/problem`,
+    summary: "After hand-over the buyer reports a problem instead of confirming receipt (once); the desk settles it.",
+    access: buyerOnly,
+    body: problemReportInputSchema,
+    answer: orderEnvelopeSchema,
+    status: 201,
     errors: ["order_state"],
   }),
   cancelOrder: endpoint({
