@@ -89,3 +89,8 @@ entities.push(OutboxEmailEntity);
 import { RecoveryCodeEntity } from "./recovery-code.ts";
 export { RecoveryCodeEntity };
 entities.push(RecoveryCodeEntity);
+
+// Offers on listings and their back and forth.
+import { OfferEntity } from "./offer.ts";
+export { OfferEntity };
+entities.push(OfferEntity);

@@ -83,3 +83,7 @@ migrations.push(EmailOutbox1764997200000);
 // The second factor: TOTP secret and last accepted time step on the account, hashed single-use recovery codes.
 import { SecondFactor1765008000000 } from "./1765008000000-second-factor.ts";
 migrations.push(SecondFactor1765008000000);
+
+// Offers on listings, and each listing's offer settings (welcome or not, and a floor never shown to buyers).
+import { Offers1765018800000 } from "./1765018800000-offers.ts";
+migrations.push(Offers1765018800000);
