@@ -53,6 +53,8 @@ import { createOrderReviewService } from "./services/order-review-service.ts";
 import { createYardPageService } from "./services/yard-page-service.ts";
 import { yardPageHandlers } from "./routes/yard-page-routes.ts";
 import { orderReviewHandlers } from "./routes/order-review-routes.ts";
+import { offerHandlers } from "./routes/offer-routes.ts";
+import { createOfferService } from "./services/offer-service.ts";
 import { createSettingsService } from "./services/settings-service.ts";
 import { movableClock, testClockHandlers } from "./routes/test-clock-routes.ts";
 import { mountEndpoints, rowsOf, type Handlers, type MountOptions } from "./http/endpoints.ts";
@@ -230,6 +232,15 @@ export function createApp(appDeps: AppDependencies) {
     now: deps.now,
     events,
   });
+  const offers = createOfferService({
+    dataSource: deps.dataSource,
+    checkout,
+    mail: outbox,
+    config,
+    fees: () => settings.fees(),
+    log: logger,
+    now: deps.now,
+  });
   const reports = createReportService({
     dataSource: deps.dataSource,
     mail: outbox,
@@ -251,6 +262,8 @@ export function createApp(appDeps: AppDependencies) {
   events.on("yardChanged", ({ manager, sawyerId }) => listings.refreshAllOfSawyer(manager, sawyerId));
   events.on("slabFiguresChanged", ({ manager, slabIds }) => listings.refreshListingsOfSlabs(manager, slabIds));
   events.on("listingLive", ({ listingId }) => savedSearches.onListingLive(listingId));
+  // A slab sold through "Buy" closes the offers still waiting on it (in the payment's transaction).
+  events.on("listingChanged", ({ manager, listingId }) => offers.onListingChanged(manager, listingId));
   events.on("yardRatingChanged", ({ manager, sawyerId }) => catalogue.refreshYardRating(manager, sawyerId));
   // Every instance drops its catalogue answers and yard positions after a listing or yard change made
   // through any of them (a version row in MariaDB, polled by each; main.ts starts and stops the timer).
@@ -276,6 +289,7 @@ export function createApp(appDeps: AppDependencies) {
     catalogue: catalogueHandlers(catalogue, settings),
     orders: orderHandlers(checkout, orders, deps.payments),
     orderReviews: orderReviewHandlers(orderReviews),
+    offers: offerHandlers(offers),
     yardPages: yardPageHandlers(createYardPageService({ dataSource: deps.dataSource, reads })),
     buyer: buyerHandlers(savedSearches, favourites),
     messages: messageHandlers(messages),
@@ -343,5 +357,14 @@ export function createApp(appDeps: AppDependencies) {
   app.use(errorHandler(logger));
   // For periodic timers (main.ts) and tests: reservation sweep, saved-search alerts held back by the once-a-day rule,
   // the e-mail outbox, the background work a graceful stop (and a test) waits for, and the shared catalogue version's poll.
-  return Object.assign(app, { checkout, orders, savedSearches, marketplaceSettings: settings, outbox, background, catalogueVersion });
+  return Object.assign(app, {
+    checkout,
+    orders,
+    offers,
+    savedSearches,
+    marketplaceSettings: settings,
+    outbox,
+    background,
+    catalogueVersion,
+  });
 }

@@ -43,6 +43,8 @@ const jobs = createJobRunner({ dataSource, logger });
 const scheduled: Job[] = [
   // Reservations whose time ran out go back on sale.
   { name: "reservation-sweep", everyMs: 30_000, run: () => app.checkout.sweepExpiredReservations().then(() => undefined) },
+  // Offers and counters left unanswered for 48 hours expire, and both sides are told.
+  { name: "offer-expiry", everyMs: 60_000, run: () => app.offers.expireDue().then(() => undefined) },
   // Orders handed over AUTO_COMPLETE_DAYS ago complete by themselves.
   { name: "order-completion", everyMs: 5 * 60_000, run: () => app.orders.completeDueOrders().then(() => undefined) },
   // Refunds the provider could not take at cancellation are tried again.

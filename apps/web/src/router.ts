@@ -136,6 +136,18 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: "Payouts", roles: ["sawyer"] },
   },
   {
+    path: "/offers",
+    name: "offers",
+    component: () => import("./views/OffersView.vue"),
+    meta: { title: "My offers", roles: ["buyer"] },
+  },
+  {
+    path: "/yard/offers",
+    name: "yard-offers",
+    component: () => import("./views/OffersView.vue"),
+    meta: { title: "Offers on your slabs", roles: ["sawyer"] },
+  },
+  {
     path: "/orders",
     name: "orders",
     component: () => import("./views/OrdersView.vue"),

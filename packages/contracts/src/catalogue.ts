@@ -224,6 +224,8 @@ export const catalogueDetailSchema = z.object({
     pickup: z.boolean(),
     freight: z.boolean(),
     status: z.string(),
+    /** Whether the sawyer takes offers on it (their floor is never shown). */
+    offersWelcome: z.boolean(),
     /** What a buyer needs; the fee split is the sawyer's business. */
     figures: listingFiguresSchema.pick({
       boardFeet: true,

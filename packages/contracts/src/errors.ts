@@ -110,6 +110,11 @@ export const errorCatalogue = {
   review_answered: entry(409, "The sawyer has answered this review already (once per review)."),
   review_hidden: entry(409, "The review is hidden by an admin."),
   review_not_hidden: entry(409, "The review is not hidden."),
+
+  // Offers on listings.
+  offers_closed: entry(409, "The sawyer does not take offers on this listing (or it is not for sale)."),
+  offer_exists: entry(409, "The buyer has an offer on this listing still waiting for an answer."),
+  offer_state: entry(409, "The offer is not at a step where this can happen (answered, expired, or no rounds left)."),
 } as const;
 
 export type ErrorCode = keyof typeof errorCatalogue;

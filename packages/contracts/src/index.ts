@@ -18,3 +18,4 @@ export * from "./admin.ts";
 export * from "./payouts.ts";
 export * from "./order-reviews.ts";
 export * from "./yard-pages.ts";
+export * from "./offers.ts";

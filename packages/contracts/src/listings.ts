@@ -129,6 +129,9 @@ export const listingSchema = z.object({
   pickup: z.boolean(),
   freight: z.boolean(),
   status: z.enum(listingStatuses),
+  /** Whether buyers may make offers, and the floor below which they are declined at once (the sawyer's eyes only). */
+  offersWelcome: z.boolean(),
+  offerFloorMinor: z.number().nullable(),
   reviewNote: z.string().nullable(),
   figures: listingFiguresSchema,
   slabs: z.array(slabSchema),

@@ -21,7 +21,7 @@ const count = async (sql: string, parameters: unknown[] = []) =>
 /** Every table the seed writes, with its row count. */
 async function tableCounts() {
   const tables = ["account", "yard_log", "slab", "moisture_reading", "listing", "listing_photo", "catalogue_entry", "buyer_order"];
-  const more = ["order_review", "ledger_entry", "payout", "payout_account", "content_report"];
+  const more = ["order_review", "ledger_entry", "payout", "payout_account", "content_report", "listing_offer"];
   return Object.fromEntries(await Promise.all([...tables, ...more].map(async (t) => [t, await count(`SELECT COUNT(*) AS n FROM ${t}`)])));
 }
 
@@ -95,6 +95,20 @@ describe("the living demo seed", () => {
       (await db.dataSource.query("SELECT DATEDIFF(MAX(created_at), MIN(created_at)) AS days FROM buyer_order")) as { days: number }[]
     )[0]!;
     expect(Number(spread.days)).toBeGreaterThan(30);
+  });
+
+  it("has offers waiting in two yards: one with the sawyer, one countered, on listings that welcome offers", async () => {
+    expect(first.offers).toBe(4);
+    expect(await count("SELECT COUNT(*) AS n FROM listing_offer WHERE status = 'open'")).toBe(2);
+    expect(await count("SELECT COUNT(*) AS n FROM listing_offer WHERE status = 'countered'")).toBe(2);
+    expect(await count("SELECT COUNT(*) AS n FROM listing WHERE offers_welcome = 1 AND status = 'live'")).toBeGreaterThanOrEqual(7);
+    // Every floor is below its price, and every offer above its listing's floor.
+    expect(await count("SELECT COUNT(*) AS n FROM listing WHERE offer_floor_minor >= price_minor")).toBe(0);
+    expect(
+      await count(
+        "SELECT COUNT(*) AS n FROM listing_offer o JOIN listing l ON l.id = o.listing_id WHERE o.amount_minor < l.offer_floor_minor",
+      ),
+    ).toBe(0);
   });
 
   it("gives each demo yard a public page with its sales and rating", async () => {

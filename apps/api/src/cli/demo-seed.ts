@@ -6,11 +6,13 @@ import { createPayments } from "../integrations/payments-stripe.ts";
 import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
 import { seedLakemont } from "../seed/lakemont.ts";
+import { seedLakemontOffers } from "../seed/lakemont-offers.ts";
 import { seedLakemontSales } from "../seed/lakemont-sales.ts";
 import { seedLakemontYards } from "../seed/lakemont-yard.ts";
 import { createAccountModeration } from "../services/account-moderation.ts";
 import { createCatalogueService } from "../services/catalogue-service.ts";
 import { createCheckoutService } from "../services/checkout-service.ts";
+import { createOfferService } from "../services/offer-service.ts";
 import { createOrderReviewService } from "../services/order-review-service.ts";
 import { createOrderService } from "../services/order-service.ts";
 import { createPayoutService } from "../services/payout-service.ts";
@@ -30,6 +32,8 @@ export interface DemoSeedSummary {
   orders: number;
   reviews: number;
   payouts: number;
+  /** Offers waiting in the yards (made through the offer service). */
+  offers: number;
   seconds: number;
   /** Of which painting and storing the stock's photos and adding the stock, and making the sales. */
   stockSeconds: number;
@@ -62,7 +66,7 @@ export async function seedDemo(dataSource: DataSource, config: AppConfig): Promi
       now,
     });
     const stockDone = Date.now();
-    let sales = { orders: 0, reviews: 0, payouts: 0, skipped: [] as string[] };
+    const sales = { orders: 0, reviews: 0, payouts: 0, offers: 0, skipped: [] as string[] };
     if (stock.sales.length) {
       let clock = now;
       const at = () => clock;
@@ -110,22 +114,32 @@ export async function seedDemo(dataSource: DataSource, config: AppConfig): Promi
       const moderation = createAccountModeration({ dataSource, mail: quietMail, config, now: at, events });
       const reports = createReportService({ dataSource, mail: quietMail, config, moderation, reviews, now: at, events });
       try {
-        sales = await seedLakemontSales(
-          dataSource,
-          {
-            checkout,
-            orders,
-            reviews,
-            reports,
-            payouts,
-            setClock: (date) => (clock = date),
-            autoCompleteDays: config.checkout.autoCompleteDays,
-          },
-          stock.sales,
-          now,
+        Object.assign(
+          sales,
+          await seedLakemontSales(
+            dataSource,
+            {
+              checkout,
+              orders,
+              reviews,
+              reports,
+              payouts,
+              setClock: (date) => (clock = date),
+              autoCompleteDays: config.checkout.autoCompleteDays,
+            },
+            stock.sales,
+            now,
+          ),
         );
       } catch (error) {
         sales.skipped.push(`the demo's sales stopped: ${(error as Error).message}`);
+      }
+      // Offers waiting now (on today's clock, so they have their 48 hours ahead of them).
+      const offers = createOfferService({ dataSource, checkout, mail: quietMail, config, fees: () => settings.fees(), log });
+      try {
+        sales.offers = await seedLakemontOffers(dataSource, offers, stock.listingIds);
+      } catch (error) {
+        sales.skipped.push(`the demo's offers stopped: ${(error as Error).message}`);
       }
     }
     return {
@@ -152,6 +166,7 @@ export function describeSeed(summary: DemoSeedSummary): string {
     `${summary.orders} order(s)`,
     `${summary.reviews} review(s)`,
     `${summary.payouts} payout(s)`,
+    `${summary.offers} offer(s)`,
   ];
   return `demo data: added ${added.join(", ")} in ${summary.seconds.toFixed(1)} s (stock ${summary.stockSeconds.toFixed(1)} s, sales ${summary.salesSeconds.toFixed(1)} s)${summary.skipped.length ? `; not done: ${summary.skipped.join("; ")}` : ""}`;
 }

@@ -51,6 +51,7 @@ describe("migrations", () => {
       "job_lease",
       "ledger_entry",
       "listing",
+      "listing_offer",
       "listing_photo",
       "listing_review",
       "listing_slab",

@@ -94,3 +94,8 @@ entities.push(RecoveryCodeEntity);
 import { OrderProblemEntity } from "./order-problem.ts";
 export { OrderProblemEntity };
 entities.push(OrderProblemEntity);
+
+// Offers on listings and their back and forth.
+import { OfferEntity } from "./offer.ts";
+export { OfferEntity };
+entities.push(OfferEntity);

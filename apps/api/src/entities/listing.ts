@@ -47,6 +47,18 @@ export class ListingEntity {
   @Column({ type: "varchar", length: 12 })
   status: ListingStatus;
 
+  /** Whether buyers may make offers; below the floor (never shown to them) an offer is declined at once. */
+  @Column({ name: "offers_welcome", type: "boolean", default: false })
+  offersWelcome: boolean;
+
+  @Column({
+    name: "offer_floor_minor",
+    type: "bigint",
+    nullable: true,
+    transformer: { to: (v: number | null) => v, from: (v: string | number | null) => (v === null ? null : Number(v)) },
+  })
+  offerFloorMinor: number | null;
+
   @Column({ name: "review_note", type: "text", nullable: true })
   reviewNote: string | null;
 

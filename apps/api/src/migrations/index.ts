@@ -87,6 +87,9 @@ migrations.push(SecondFactor1765008000000);
 // Problems buyers report after hand-over, settled on the desk.
 import { OrderProblems1765018800000 } from "./1765018800000-order-problems.ts";
 migrations.push(OrderProblems1765018800000);
+// Offers on listings, and each listing's offer settings (welcome or not, and a floor never shown to buyers).
+import { Offers1765029600000 } from "./1765029600000-offers.ts";
+migrations.push(Offers1765029600000);
 // The yard's time zone stored with an order's pickup windows (shown to everyone in yard time).
 import { PickupTimeZone1765040000000 } from "./1765040000000-pickup-time-zone.ts";
 migrations.push(PickupTimeZone1765040000000);

@@ -64,6 +64,14 @@ interface Ids {
   windowEnd: string;
   /** An e-mail the outbox gave up on, for the desk's resend. */
   failedEmailId: string;
+  /** A second live listing of "sawyer"; both welcome offers. */
+  offerListingId: string;
+  /** "buyer"'s offer on the live listing (countered, offered again, withdrawn by the samples). */
+  offerId: string;
+  /** "otherBuyer"'s offer on the live listing (declined by "sawyer"). */
+  declineOfferId: string;
+  /** "buyer"'s offer on the second live listing (accepted by "sawyer"). */
+  acceptOfferId: string;
 }
 
 interface Sample {
@@ -413,6 +421,51 @@ const samples: Record<EndpointKey, Sample> = {
     call: async (c, ids) => c.post(`/api/v1/admin/order-reviews/${await reviewIdOf(ids)}/show`, { reason: "Matrix shows it again." }),
   },
 
+  // Offers: "sawyer"'s two live listings welcome them; "buyer" and "otherBuyer" made one each in beforeAll.
+  "offers.getOfferSettings": {
+    call: (c, ids) => c.get(`/api/v1/yard/listings/${ids.liveListingId}/offer-settings`),
+    allowed: { sawyer: 200, otherSawyer: 403 },
+  },
+  "offers.setOfferSettings": {
+    call: (c, ids) => c.put(`/api/v1/yard/listings/${ids.liveListingId}/offer-settings`, { offersWelcome: true, floorMinor: 1_000 }),
+    allowed: { sawyer: 200, otherSawyer: 403 },
+  },
+  // "buyer" has an offer waiting on the second listing already; "otherBuyer" makes theirs.
+  "offers.makeOffer": {
+    call: (c, ids) => c.post(`/api/v1/listings/${ids.offerListingId}/offers`, { amountMinor: 15_000, handover: "pickup" }),
+    allowed: { buyer: 409, otherBuyer: 201 },
+  },
+  "offers.listOffers": { call: (c) => c.get("/api/v1/offers"), allowed: { buyer: 200, otherBuyer: 200, sawyer: 200, otherSawyer: 200 } },
+  "offers.getOffer": {
+    call: (c, ids) => c.get(`/api/v1/offers/${ids.offerId}`),
+    allowed: { buyer: 200, otherBuyer: 403, sawyer: 200, otherSawyer: 403 },
+  },
+  "offers.counterOffer": {
+    call: (c, ids) => c.post(`/api/v1/offers/${ids.offerId}/counter`, { amountMinor: 18_000, message: "Meet me nearer." }),
+    allowed: { sawyer: 200, otherSawyer: 403 },
+  },
+  "offers.offerAgain": {
+    call: (c, ids) => c.post(`/api/v1/offers/${ids.offerId}/offer-again`, { amountMinor: 16_000 }),
+    allowed: { buyer: 200, otherBuyer: 403 },
+  },
+  // Offered again, the offer waits on the sawyer: there is no counter to accept.
+  "offers.acceptCounter": {
+    call: (c, ids) => c.post(`/api/v1/offers/${ids.offerId}/accept-counter`),
+    allowed: { buyer: 409, otherBuyer: 403 },
+  },
+  "offers.declineOffer": {
+    call: (c, ids) => c.post(`/api/v1/offers/${ids.declineOfferId}/decline`, { message: "Not this time." }),
+    allowed: { sawyer: 200, otherSawyer: 403 },
+  },
+  "offers.acceptOffer": {
+    call: (c, ids) => c.post(`/api/v1/offers/${ids.acceptOfferId}/accept`),
+    allowed: { sawyer: 200, otherSawyer: 403 },
+  },
+  "offers.withdrawOffer": {
+    call: (c, ids) => c.post(`/api/v1/offers/${ids.offerId}/withdraw`),
+    allowed: { buyer: 200, otherBuyer: 403 },
+  },
+
   // No signature: refused whoever sends it.
   "orders.paymentWebhook": { call: (c) => c.post("/api/v1/payments/webhook", { id: "evt_matrix" }), allowed: 400 },
 
@@ -547,6 +600,26 @@ beforeAll(async () => {
     lastError: "The mail server could not be reached.",
   });
   ids.failedEmailId = String(failed.identifiers[0]!.id);
+
+  // Offers: a second live listing; both welcome offers; "buyer" offers on each, "otherBuyer" on the first.
+  const offerSlab = (await sawyer.post("/api/v1/yard/slabs", slabBody(ids.logId, 5))).body.slab.id;
+  ids.offerListingId = (
+    await sawyer.post("/api/v1/yard/listings", { title: "Matrix offer oak", slabIds: [offerSlab], priceMode: "fixed", rateMinor: 20_000 })
+  ).body.listing.id;
+  await sendPhoto(sawyer, `/api/v1/yard/listings/${ids.offerListingId}/photos`);
+  await sawyer.post(`/api/v1/yard/listings/${ids.offerListingId}/submit`);
+  if ((await clients.admin.post(`/api/v1/admin/listings/${ids.offerListingId}/approve`)).status !== 200)
+    throw new Error("matrix: the offer listing was not approved");
+  for (const listingId of [ids.liveListingId, ids.offerListingId])
+    await sawyer.put(`/api/v1/yard/listings/${listingId}/offer-settings`, { offersWelcome: true });
+  const offer = async (client: BrowserClient, listingId: string) => {
+    const made = await client.post(`/api/v1/listings/${listingId}/offers`, { amountMinor: 14_000, handover: "pickup" });
+    if (made.status !== 201) throw new Error(`matrix: offer not made: ${JSON.stringify(made.body)}`);
+    return made.body.offer.id as string;
+  };
+  ids.offerId = await offer(clients.buyer, ids.liveListingId);
+  ids.declineOfferId = await offer(clients.otherBuyer, ids.liveListingId);
+  ids.acceptOfferId = await offer(clients.buyer, ids.offerListingId);
 }, 60_000);
 afterAll(async () => ctx?.close());
 

@@ -313,7 +313,7 @@ function altTextOf(log: DemoLog, listing: DemoListing): string {
 export async function seedLakemontYards(
   dataSource: DataSource,
   options: { photos?: StorePhoto; onLive?: (manager: EntityManager, listingId: string) => Promise<void>; now?: Date } = {},
-): Promise<{ logs: number; listings: number; photos: number; sales: PlannedSale[] }> {
+): Promise<{ logs: number; listings: number; photos: number; sales: PlannedSale[]; listingIds: string[] }> {
   const now = options.now ?? new Date();
   const logs = demoLogs(now);
   const sawyers = new Map(
@@ -368,6 +368,7 @@ export async function seedLakemontYards(
     logs: missing.length,
     listings: planned.length,
     photos: photoRows.length,
+    listingIds: planned.map((p) => p.id),
     sales: planned.flatMap((p) =>
       p.demo.sale ? [{ listingId: p.id, title: p.demo.title, yardEmail: p.log.yardEmail, sale: p.demo.sale }] : [],
     ),

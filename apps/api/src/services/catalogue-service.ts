@@ -542,6 +542,7 @@ export function createCatalogueService(deps: { dataSource: DataSource; cursorSec
           pickup: listing.pickup,
           freight: listing.freight,
           status: listing.status,
+          offersWelcome: listing.offersWelcome,
           figures: {
             boardFeet: listing.boardFeet,
             volumeM3: listing.volumeM3,

@@ -107,6 +107,107 @@ export function createCheckoutService(deps: {
     await deps.mail.queue(manager, "order_paid", orderPaidSawyerMail(sawyer, buyer, order, link));
   }
 
+  /**
+   * Reserves the listing for this buyer (one winner: a conditional update on its status) and makes
+   * the order awaiting payment, with the slabs' figures and the price snapshotted, inside the
+   * caller's transaction. An accepted offer passes its agreed price and the fee split of that price.
+   */
+  async function placeOrder(
+    manager: EntityManager,
+    buyerId: string,
+    listingId: string,
+    input: CheckoutInput,
+    agreed?: Pick<OrderEntity, "priceMinor" | "platformFeeMinor" | "processingFeeMinor" | "sawyerNetMinor">,
+  ): Promise<OrderEntity> {
+    if (input.handover === "freight" && !input.deliveryAddress?.trim())
+      throw new Invalid("Give the delivery address for freight.", { deliveryAddress: "Where should the freight go?" });
+    const listing = await manager.getRepository(ListingEntity).findOneBy({ id: listingId });
+    if (!listing) throw new NotFound("That slab is not for sale here.");
+    if (listing.sawyerId === buyerId) throw new Forbidden("You cannot buy your own listing.");
+    if (input.handover === "pickup" && !listing.pickup)
+      throw new Invalid("This listing is not offered for pickup.", { handover: "Choose freight." });
+    if (input.handover === "freight" && !listing.freight)
+      throw new Invalid("This listing is not offered for freight.", { handover: "Choose pickup." });
+    const reserved = await manager.getRepository(ListingEntity).update({ id: listingId, status: "live" }, { status: "reserved" });
+    if (reserved.affected !== 1) {
+      // Read again, past this transaction's snapshot: another buyer may have won the race a moment ago.
+      const current = await manager.getRepository(ListingEntity).findOne({ where: { id: listingId }, lock: { mode: "pessimistic_read" } });
+      throw new Conflict(
+        current?.status === "reserved"
+          ? "Someone else has just reserved this slab. It comes back if they do not pay in time."
+          : "This slab is no longer for sale.",
+        "listing_not_available",
+      );
+    }
+    const links = await manager
+      .getRepository(ListingSlabEntity)
+      .find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
+    const price = agreed ?? listing;
+    const { taxMinor } = quoteFor({ priceMinor: price.priceMinor, currency: listing.currency }, config.checkout);
+    const entity = manager.getRepository(OrderEntity).create({
+      id: randomUUID(),
+      buyerId,
+      sawyerId: listing.sawyerId,
+      listingId,
+      status: OPEN_PAYMENT,
+      title: listing.title,
+      slabSnapshot: orderSlabSnapshotSchema.array().parse(links.map((l) => toSlab(l.slab!, listingId))),
+      currency: listing.currency,
+      priceMinor: price.priceMinor,
+      platformFeeMinor: price.platformFeeMinor,
+      processingFeeMinor: price.processingFeeMinor,
+      sawyerNetMinor: price.sawyerNetMinor,
+      taxMinor,
+      totalMinor: price.priceMinor + taxMinor,
+      handover: input.handover,
+      deliveryAddress: input.handover === "freight" ? input.deliveryAddress!.trim() : null,
+      checkoutSessionId: null,
+      checkoutUrl: null,
+      paymentIntentId: null,
+      reservedUntil: new Date(now().getTime() + config.checkout.reservationMinutes * 60_000),
+      paidAt: null,
+    });
+    await manager.getRepository(OrderEntity).insert(entity);
+    await changed(manager, listingId);
+    return entity;
+  }
+
+  /**
+   * Opens the provider's hosted checkout for an order just placed and remembers it on the order.
+   * If the provider cannot be reached, the reservation is released (nothing stays half-made) and
+   * the caller gets 503 payments_unavailable.
+   */
+  async function openPaymentPage(order: OrderEntity): Promise<string> {
+    let checkout: { checkoutId: string; url: string };
+    try {
+      checkout = await payments.startCheckout({
+        orderId: order.id,
+        listingId: order.listingId,
+        currency: order.currency,
+        lines: [
+          { name: order.title, amountMinor: order.priceMinor },
+          ...(order.taxMinor > 0 ? [{ name: "Tax", amountMinor: order.taxMinor }] : []),
+        ],
+        successUrl: `${config.publicUrl}/orders/${order.id}?paid=1`,
+        cancelUrl: `${config.publicUrl}/orders/${order.id}?cancelled=1`,
+        // The page stays open a minute past the hold, so a buyer mid-payment is not cut off.
+        expiresAt: new Date(order.reservedUntil.getTime() + 60_000),
+        idempotencyKey: `checkout-${order.id}`,
+      });
+    } catch (error) {
+      deps.log.error({ err: error, orderId: order.id }, "could not open checkout");
+      await dataSource.transaction((manager) => release(manager, order, "dropUnopenedCheckout"));
+      throw new ServiceUnavailable(
+        "Card payments are not available right now, so nothing was reserved. Please try again in a few minutes.",
+        "payments_unavailable",
+      );
+    }
+    await dataSource
+      .getRepository(OrderEntity)
+      .update({ id: order.id }, { checkoutSessionId: checkout.checkoutId, checkoutUrl: checkout.url });
+    return checkout.url;
+  }
+
   return {
     /** What buying this listing costs now: the same figures checkout will snapshot. */
     async quote(listingId: string): Promise<CheckoutQuote> {
@@ -122,91 +223,15 @@ export function createCheckoutService(deps: {
      */
     async checkout(actor: Actor, listingId: string, input: CheckoutInput): Promise<{ order: Order; checkoutUrl: string }> {
       const buyer = requireRole(actor, "buyer");
-      if (input.handover === "freight" && !input.deliveryAddress?.trim())
-        throw new Invalid("Give the delivery address for freight.", { deliveryAddress: "Where should the freight go?" });
-      const order = await dataSource.transaction(async (manager) => {
-        const listing = await manager.getRepository(ListingEntity).findOneBy({ id: listingId });
-        if (!listing) throw new NotFound("That slab is not for sale here.");
-        if (listing.sawyerId === buyer.accountId) throw new Forbidden("You cannot buy your own listing.");
-        if (input.handover === "pickup" && !listing.pickup)
-          throw new Invalid("This listing is not offered for pickup.", { handover: "Choose freight." });
-        if (input.handover === "freight" && !listing.freight)
-          throw new Invalid("This listing is not offered for freight.", { handover: "Choose pickup." });
-        const reserved = await manager.getRepository(ListingEntity).update({ id: listingId, status: "live" }, { status: "reserved" });
-        if (reserved.affected !== 1) {
-          // Read again, past this transaction's snapshot: another buyer may have won the race a moment ago.
-          const current = await manager
-            .getRepository(ListingEntity)
-            .findOne({ where: { id: listingId }, lock: { mode: "pessimistic_read" } });
-          throw new Conflict(
-            current?.status === "reserved"
-              ? "Someone else has just reserved this slab. It comes back if they do not pay in time."
-              : "This slab is no longer for sale.",
-            "listing_not_available",
-          );
-        }
-        const links = await manager
-          .getRepository(ListingSlabEntity)
-          .find({ where: { listingId }, relations: { slab: true }, order: { position: "ASC" } });
-        const { taxMinor } = quoteFor(listing, config.checkout);
-        const entity = manager.getRepository(OrderEntity).create({
-          id: randomUUID(),
-          buyerId: buyer.accountId,
-          sawyerId: listing.sawyerId,
-          listingId,
-          status: OPEN_PAYMENT,
-          title: listing.title,
-          slabSnapshot: orderSlabSnapshotSchema.array().parse(links.map((l) => toSlab(l.slab!, listingId))),
-          currency: listing.currency,
-          priceMinor: listing.priceMinor,
-          platformFeeMinor: listing.platformFeeMinor,
-          processingFeeMinor: listing.processingFeeMinor,
-          sawyerNetMinor: listing.sawyerNetMinor,
-          taxMinor,
-          totalMinor: listing.priceMinor + taxMinor,
-          handover: input.handover,
-          deliveryAddress: input.handover === "freight" ? input.deliveryAddress!.trim() : null,
-          checkoutSessionId: null,
-          checkoutUrl: null,
-          paymentIntentId: null,
-          reservedUntil: new Date(now().getTime() + config.checkout.reservationMinutes * 60_000),
-          paidAt: null,
-        });
-        await manager.getRepository(OrderEntity).insert(entity);
-        await changed(manager, listingId);
-        return entity;
-      });
-
-      let checkout: { checkoutId: string; url: string };
-      try {
-        checkout = await payments.startCheckout({
-          orderId: order.id,
-          listingId,
-          currency: order.currency,
-          lines: [
-            { name: order.title, amountMinor: order.priceMinor },
-            ...(order.taxMinor > 0 ? [{ name: "Tax", amountMinor: order.taxMinor }] : []),
-          ],
-          successUrl: `${config.publicUrl}/orders/${order.id}?paid=1`,
-          cancelUrl: `${config.publicUrl}/orders/${order.id}?cancelled=1`,
-          // The page stays open a minute past the hold, so a buyer mid-payment is not cut off.
-          expiresAt: new Date(order.reservedUntil.getTime() + 60_000),
-          idempotencyKey: `checkout-${order.id}`,
-        });
-      } catch (error) {
-        deps.log.error({ err: error, orderId: order.id }, "could not open checkout");
-        await dataSource.transaction((manager) => release(manager, order, "dropUnopenedCheckout"));
-        throw new ServiceUnavailable(
-          "Card payments are not available right now, so nothing was reserved. Please try again in a few minutes.",
-          "payments_unavailable",
-        );
-      }
-      await dataSource
-        .getRepository(OrderEntity)
-        .update({ id: order.id }, { checkoutSessionId: checkout.checkoutId, checkoutUrl: checkout.url });
+      const order = await dataSource.transaction((manager) => placeOrder(manager, buyer.accountId, listingId, input));
+      const checkoutUrl = await openPaymentPage(order);
       const saved = await dataSource.getRepository(OrderEntity).findOneByOrFail({ id: order.id });
-      return { order: await view(saved, actor), checkoutUrl: checkout.url };
+      return { order: await view(saved, actor), checkoutUrl };
     },
+
+    placeOrder,
+    openPaymentPage,
+    view,
 
     /**
      * A payment event, already verified by the payments port. Handled once per event id (stored

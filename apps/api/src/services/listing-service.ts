@@ -94,6 +94,8 @@ export function createListingService(deps: ListingServiceDependencies) {
       pickup: listing.pickup,
       freight: listing.freight,
       status: listing.status,
+      offersWelcome: listing.offersWelcome,
+      offerFloorMinor: listing.offerFloorMinor,
       reviewNote: listing.reviewNote,
       figures: {
         boardFeet: listing.boardFeet,

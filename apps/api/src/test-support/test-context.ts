@@ -169,6 +169,7 @@ export async function browserClient(app: Parameters<typeof request.agent>[0], op
     get: (path: string) => agent.get(path),
     post: async (path: string, body?: object) => remember(await agent.post(path).set(CSRF_HEADER, csrfToken).send(body)),
     patch: async (path: string, body?: object) => remember(await agent.patch(path).set(CSRF_HEADER, csrfToken).send(body)),
+    put: async (path: string, body?: object) => remember(await agent.put(path).set(CSRF_HEADER, csrfToken).send(body)),
     delete: async (path: string) => remember(await agent.delete(path).set(CSRF_HEADER, csrfToken)),
   };
 }

@@ -23,6 +23,8 @@ function listing(id: string, over: Partial<Listing> = {}): Listing {
     pickup: true,
     freight: false,
     status: "draft",
+    offersWelcome: false,
+    offerFloorMinor: null,
     reviewNote: null,
     figures: {
       boardFeet: 1,

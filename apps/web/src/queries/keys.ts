@@ -68,6 +68,13 @@ export const queryKeys = {
     /** The desk's payouts sent and tried, filtered by status ("" for all). */
     list: (status: string) => ["payouts", "list", status] as const,
   },
+  offers: {
+    all: ["offers"] as const,
+    /** The reader's offers (a buyer's own, or those on a sawyer's listings; the account is part of the key). */
+    list: (accountId: string, listingId: string | null) => ["offers", "list", accountId, listingId ?? "all"] as const,
+    /** A sawyer's offer settings of one listing. */
+    settings: (listingId: string) => ["offers", "settings", listingId] as const,
+  },
   checkout: {
     /** The price with tax for one listing (the same for everyone). */
     quote: (listingId: string) => ["checkout", "quote", listingId] as const,

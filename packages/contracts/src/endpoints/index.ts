@@ -6,6 +6,7 @@ import { catalogueEndpoints } from "./catalogue.ts";
 import { listingEndpoints, reviewEndpoints } from "./listings.ts";
 import { orderEndpoints } from "./orders.ts";
 import { orderReviewEndpoints } from "./order-reviews.ts";
+import { offerEndpoints } from "./offers.ts";
 import { payoutEndpoints } from "./payouts.ts";
 import { secondFactorEndpoints } from "./second-factor.ts";
 import { healthEndpoints, testClockEndpoints } from "./system.ts";
@@ -20,6 +21,7 @@ export { catalogueEndpoints, placeQuerySchema } from "./catalogue.ts";
 export { listingEndpoints, reviewEndpoints } from "./listings.ts";
 export { orderEndpoints } from "./orders.ts";
 export { orderReviewEndpoints } from "./order-reviews.ts";
+export { offerEndpoints } from "./offers.ts";
 export { payoutEndpoints } from "./payouts.ts";
 export { secondFactorEndpoints } from "./second-factor.ts";
 export { healthEndpoints, testClockEndpoints, testClockSchema } from "./system.ts";
@@ -40,6 +42,7 @@ export const endpointTable = {
   catalogue: catalogueEndpoints,
   orders: orderEndpoints,
   orderReviews: orderReviewEndpoints,
+  offers: offerEndpoints,
   yardPages: yardPageEndpoints,
   buyer: buyerEndpoints,
   messages: messageEndpoints,

@@ -48,6 +48,7 @@ describe("top bar", () => {
     await flushPromises();
     expect(wrapper.findAll(".topbar__list a").map((a) => a.text().trim())).toEqual([
       "My yard",
+      "Offers",
       "Orders",
       "Messages",
       "Payouts",
