@@ -218,7 +218,9 @@ export function createMailOutbox(deps: {
     async resend(actor: Actor, emailId: string): Promise<OutboxEmail> {
       const admin = requireRole(actor, "admin");
       if (!/^\d{1,20}$/.test(emailId)) throw new NotFound("No e-mail with that id.");
-      await dataSource.transaction(async (manager) => {
+      // The answer is the row as this resend left it (waiting, no attempts yet): read inside the
+      // transaction, since delivery may claim it the moment the transaction commits.
+      const queued = await dataSource.transaction(async (manager) => {
         const email = await manager
           .getRepository(OutboxEmailEntity)
           .findOne({ where: { id: emailId }, lock: { mode: "pessimistic_write" } });
@@ -249,8 +251,9 @@ export function createMailOutbox(deps: {
         );
         const runner = manager.queryRunner!;
         pendingByTransaction.set(runner, [...(pendingByTransaction.get(runner) ?? []), emailId]);
+        return manager.getRepository(OutboxEmailEntity).findOneByOrFail({ id: emailId });
       });
-      return view(await rows().findOneByOrFail({ id: emailId }));
+      return view(queued);
     },
   };
 }
