@@ -18,6 +18,7 @@ import { createTestContext, type BrowserClient, type TestContext } from "../test
 import { createBackup, listKeys } from "./backup.ts";
 import { BackupRefused, CHECKSUMS_FILE, DATABASE_FILE, MANIFEST_FILE, OBJECTS_DIR, sha256Bytes, verifyBackup } from "./backup-folder.ts";
 import { restoreBackup } from "./restore.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
 
 /*
  * The backup round trip on the real stack: orders made through the real checkout (official SDK
@@ -38,12 +39,7 @@ async function paidOrder(listingId: string) {
   const buyer = await ctx.signedInClient("buyer");
   const res = await buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" });
   expect(res.status).toBe(201);
-  const paid = await fetch(res.body.checkoutUrl, {
-    method: "POST",
-    headers: { "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }),
-    redirect: "manual",
-  });
+  const paid = await payOnHostedPage(res.body.checkoutUrl);
   expect(paid.status).toBe(303);
   const orderId = res.body.order.id as string;
   await until(async () => (await ctx.dataSource.query("SELECT status FROM buyer_order WHERE id = ?", [orderId]))[0]?.status === "paid");

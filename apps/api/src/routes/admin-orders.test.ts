@@ -4,6 +4,7 @@ import { OrderEntity, PaymentEventEntity } from "../entities/index.ts";
 import { liveListing } from "../test-support/live-listing.ts";
 import { listenForWebhooks, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
 import { createTestContext, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
 
 /*
  * The operator desk's orders against real MariaDB and a payments fake of this suite's own (its
@@ -29,14 +30,6 @@ interface OrderRow {
 }
 const orders: Record<string, string> = {};
 
-async function pay(checkoutUrl: string, card: string) {
-  return fetch(checkoutUrl, {
-    method: "POST",
-    headers: { "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ card, expiry: "12/34", cvc: "123" }),
-    redirect: "manual",
-  });
-}
 const statusOf = async (id: string) => (await ctx.dataSource.getRepository(OrderEntity).findOneByOrFail({ id })).status;
 
 /** A live listing of `sawyer` bought by `buyer`; answers the order id and the payment page. */
@@ -72,13 +65,13 @@ beforeAll(async () => {
     ["elmPaid", cobble, ada, "American elm counter"],
   ] as const) {
     const { orderId, checkoutUrl } = await buy(sawyer, buyer, title);
-    expect((await pay(checkoutUrl, "4242 4242 4242 4242")).status).toBe(303);
+    expect((await payOnHostedPage(checkoutUrl, "4242 4242 4242 4242")).status).toBe(303);
     await until(async () => (await statusOf(orderId)) === "paid");
     orders[key] = orderId;
   }
   // Declined and still waiting: Ada's card was refused on the payment page.
   const declined = await buy(cobble, ada, "Honey locust offcut");
-  expect((await pay(declined.checkoutUrl, "4000 0000 0000 0002")).status).toBe(402);
+  expect((await payOnHostedPage(declined.checkoutUrl, "4000 0000 0000 0002")).status).toBe(402);
   await payments.fake.webhooks.settled();
   await until(async () =>
     (await ctx.dataSource.getRepository(PaymentEventEntity).findBy({ type: "payment_failed" })).some(
@@ -88,7 +81,7 @@ beforeAll(async () => {
   orders.declined = declined.orderId;
   // Declined, then the hold ran out: expired.
   const lapsed = await buy(ridgeback, wren, "Red oak mantel");
-  expect((await pay(lapsed.checkoutUrl, "4000 0000 0000 0002")).status).toBe(402);
+  expect((await payOnHostedPage(lapsed.checkoutUrl, "4000 0000 0000 0002")).status).toBe(402);
   await payments.fake.webhooks.settled();
   clock.advance(16 * 60_000);
   try {

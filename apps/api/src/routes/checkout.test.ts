@@ -13,6 +13,7 @@ import {
   type TestPaymentsFake,
 } from "../test-support/payments-harness.ts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
 
 /*
  * Checkout against a payments fake of this test's own (so its webhooks reach this test's app),
@@ -59,15 +60,6 @@ async function liveListing(priceMinor = 120_000) {
   await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
   await admin.post(`/api/v1/admin/listings/${listing.id}/approve`);
   return listing.id as string;
-}
-
-async function pay(checkoutUrl: string, card: string) {
-  return fetch(checkoutUrl, {
-    method: "POST",
-    headers: { "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ card, expiry: "12/34", cvc: "123" }),
-    redirect: "manual",
-  });
 }
 
 const listingStatus = async (id: string) => (await ctx.dataSource.getRepository(ListingEntity).findOneByOrFail({ id })).status;
@@ -117,7 +109,7 @@ describe("buying a slab", () => {
 
     // The success redirect alone proves nothing: until the webhook arrives the order waits.
     fake.webhooks.options.url = undefined;
-    const paid = await pay(res.body.checkoutUrl, "4242 4242 4242 4242");
+    const paid = await payOnHostedPage(res.body.checkoutUrl, "4242 4242 4242 4242");
     expect(paid.headers.get("location")).toContain(`/orders/${res.body.order.id}?paid=1`);
     expect((await buyer.get(`/api/v1/orders/${res.body.order.id}`)).body.order.status).toBe("awaiting_payment");
     fake.webhooks.options.url = `http://127.0.0.1:${(apiServer.address() as AddressInfo).port}/api/v1/payments/webhook`;
@@ -162,7 +154,7 @@ describe("buying a slab", () => {
     fake.webhooks.options.shuffle = true;
     const answeredBefore = fake.webhooks.deliveredCopies();
     try {
-      await pay(body.checkoutUrl, "4242424242424242");
+      await payOnHostedPage(body.checkoutUrl, "4242424242424242");
       await until(async () => (await orderOf(body.order.id)).status === "paid");
       await fake.webhooks.settled();
       // Every copy was delivered and answered, so the ledger below saw all three.
@@ -182,7 +174,7 @@ describe("buying a slab", () => {
     const first = (await late.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" })).body;
     // The first buyer pays, but the provider's webhook does not reach us yet.
     fake.webhooks.options.url = undefined;
-    expect((await pay(first.checkoutUrl, "4242 4242 4242 4242")).status).toBe(303);
+    expect((await payOnHostedPage(first.checkoutUrl, "4242 4242 4242 4242")).status).toBe(303);
     // Their hold runs out meanwhile, and a second buyer buys the slab.
     clock.advance(16 * 60_000);
     try {
@@ -195,7 +187,7 @@ describe("buying a slab", () => {
     fake.webhooks.options.url = webhookUrl;
     const winner = await ctx.signedInClient("buyer");
     const second = (await winner.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" })).body;
-    await pay(second.checkoutUrl, "4242 4242 4242 4242");
+    await payOnHostedPage(second.checkoutUrl, "4242 4242 4242 4242");
     await until(async () => (await orderOf(second.order.id)).status === "paid");
 
     // Now the first payment's event arrives (the provider retries it): refunded, never sold twice.
@@ -259,7 +251,7 @@ describe("buying a slab", () => {
     const listingId = await liveListing(70_000);
     const buyer = await ctx.signedInClient("buyer");
     const { body } = await buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" });
-    const declined = await pay(body.checkoutUrl, "4000 0000 0000 0002");
+    const declined = await payOnHostedPage(body.checkoutUrl, "4000 0000 0000 0002");
     expect(declined.status).toBe(402);
     expect(await declined.text()).toMatch(/declined[\s\S]*Try another card/);
     // The provider's payment_failed event reached the API and was handled (recorded once) …
@@ -276,7 +268,7 @@ describe("buying a slab", () => {
     const another = await ctx.signedInClient("buyer");
     expect((await another.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" })).status).toBe(409);
 
-    const paid = await pay(body.checkoutUrl, "4242 4242 4242 4242");
+    const paid = await payOnHostedPage(body.checkoutUrl, "4242 4242 4242 4242");
     expect(paid.status).toBe(303);
     await until(async () => (await orderOf(body.order.id)).status === "paid");
     expect(await listingStatus(listingId)).toBe("sold");
@@ -288,7 +280,7 @@ describe("buying a slab", () => {
     const listingId = await liveListing(33_000);
     const buyer = await ctx.signedInClient("buyer");
     const { body } = await buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" });
-    await pay(body.checkoutUrl, "4000 0000 0000 0002");
+    await payOnHostedPage(body.checkoutUrl, "4000 0000 0000 0002");
     clock.advance(16 * 60_000);
     try {
       const app = ctx.app as unknown as { checkout: { sweepExpiredReservations(): Promise<number> } };
@@ -305,7 +297,7 @@ describe("buying a slab", () => {
     const back = /href="([^"]+)"[^>]*data-test="back-to-shop"/.exec(html)?.[1];
     expect(back).toMatch(new RegExp(`/orders/${body.order.id}\\?cancelled=1$`));
     // A card tried on the expired page changes nothing.
-    expect((await pay(body.checkoutUrl, "4242 4242 4242 4242")).status).toBe(410);
+    expect((await payOnHostedPage(body.checkoutUrl, "4242 4242 4242 4242")).status).toBe(410);
     expect((await orderOf(body.order.id)).status).toBe("expired");
   });
 

@@ -13,6 +13,7 @@ import {
   type TestPaymentsFake,
 } from "../test-support/payments-harness.ts";
 import { createTestContext, stackEnvironment, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
 
 /*
  * MariaDB killed under a bounded load, on the real stack: a MariaDB of this file's own (started with
@@ -71,15 +72,6 @@ const alive = (pid: number) => {
 
 async function checkout(buyer: BrowserClient, listingId: string) {
   return buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" });
-}
-
-function payOnHostedPage(checkoutUrl: string) {
-  return fetch(checkoutUrl, {
-    method: "POST",
-    headers: { "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }),
-    redirect: "manual",
-  });
 }
 
 const orderStatus = async (orderId: string) =>

@@ -12,6 +12,7 @@ import { createBackgroundWork } from "../services/background-work.ts";
 import { createMailOutbox } from "../services/mail-outbox.ts";
 import { listenForWebhooks, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
 import { createTestContext, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
 
 /*
  * The e-mail outbox on the real stack: MariaDB, real SMTP (this file's own small SMTP server, so it
@@ -151,12 +152,7 @@ describe("the e-mail outbox", () => {
     const buyer = await ctx.signedInClient("buyer");
     const started = await buyer.post(`/api/v1/listings/${listingId}/checkout`, { handover: "pickup" });
     expect(started.status).toBe(201);
-    const paid = await fetch(started.body.checkoutUrl, {
-      method: "POST",
-      headers: { "content-type": "application/x-www-form-urlencoded" },
-      body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }),
-      redirect: "manual",
-    });
+    const paid = await payOnHostedPage(started.body.checkoutUrl);
     expect(paid.status).toBe(303);
     const orderId = started.body.order.id as string;
     await until(async () => (await ctx.dataSource.getRepository(OrderEntity).findOneByOrFail({ id: orderId })).status === "paid");

@@ -12,6 +12,7 @@ import {
   type TestPaymentsFake,
 } from "../test-support/payments-harness.ts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
 
 /*
  * Offers on the real stack: MariaDB, the SMTP sink, and a payments fake of this test's own (so
@@ -39,15 +40,6 @@ async function listingWithOffers(priceMinor: number, floorMinor: number | null =
 
 const offerOn = (buyer: BrowserClient, listingId: string, amountMinor: number, extra: object = {}) =>
   buyer.post(`/api/v1/listings/${listingId}/offers`, { amountMinor, message: "Would you take this?", handover: "pickup", ...extra });
-
-async function pay(checkoutUrl: string) {
-  return fetch(checkoutUrl, {
-    method: "POST",
-    headers: { "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }),
-    redirect: "manual",
-  });
-}
 
 const listingStatus = async (id: string) => (await ctx.dataSource.getRepository(ListingEntity).findOneByOrFail({ id })).status;
 const orderOf = async (id: string) => ctx.dataSource.getRepository(OrderEntity).findOneByOrFail({ id });
@@ -268,7 +260,7 @@ describe("accepting", () => {
     const orderId = accepted.body.order.id as string;
     const order = (await buyer.get(`/api/v1/orders/${orderId}`)).body.order;
     expect(order.paymentPageUrl).toBeTruthy();
-    expect((await pay(order.paymentPageUrl)).status).toBe(303);
+    expect((await payOnHostedPage(order.paymentPageUrl)).status).toBe(303);
     await until(async () => (await orderOf(orderId)).status === "paid");
     expect(await listingStatus(listingId)).toBe("sold");
     const entries = await ctx.dataSource.getRepository(LedgerEntryEntity).findBy({ orderId });
@@ -296,7 +288,7 @@ describe("accepting", () => {
     expect(took.status).toBe(200);
     expect(took.body.checkoutUrl).toMatch(/\/pay\//);
     expect(took.body.order).toMatchObject({ priceMinor: 72_500, taxMinor: 5_800, totalMinor: 78_300, handover: "freight" });
-    expect((await pay(took.body.checkoutUrl)).status).toBe(303);
+    expect((await payOnHostedPage(took.body.checkoutUrl)).status).toBe(303);
     await until(async () => (await orderOf(took.body.order.id)).status === "paid");
     const order = await orderOf(took.body.order.id);
     expect(order.priceMinor + order.taxMinor).toBe(78_300);
@@ -314,7 +306,7 @@ describe("accepting", () => {
     expect(refused.status).toBe(409);
     expect(refused.body.error.code).toBe("listing_not_available");
     expect((await offerRow(offerId)).status).toBe("open");
-    await pay(bought.body.checkoutUrl);
+    await payOnHostedPage(bought.body.checkoutUrl);
     await until(async () => (await offerRow(offerId)).status === "declined");
     expect((await offerRow(offerId)).declineReason).toBe("slab_sold");
   });

@@ -1,5 +1,4 @@
 import type { Server } from "node:http";
-import sharp from "sharp";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
 import type { PaymentsFakeApp } from "@grainyard/payments-fake";
 import { AuditEntryEntity, LedgerEntryEntity, OrderEntity, OrderProblemEntity, OrderRefundEntity } from "../entities/index.ts";
@@ -11,6 +10,8 @@ import {
   type TestPaymentsFake,
 } from "../test-support/payments-harness.ts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
+import { liveListing } from "../test-support/live-listing.ts";
 
 /*
  * A problem the buyer reports after hand-over instead of confirming receipt: who may report it and
@@ -29,58 +30,25 @@ const clock = testClock();
 type Signed = BrowserClient & { account: { id: string; email: string } };
 let sawyer: Signed;
 let admin: Signed;
-let photo: Buffer;
 const app = () => ctx.app as unknown as { orders: { completeDueOrders(): Promise<number> } };
-
-async function liveListing(priceMinor: number) {
-  const slab = (
-    await sawyer.post("/api/v1/yard/slabs", {
-      speciesSlug: "black-walnut",
-      lengthMm: 2400,
-      thicknessMm: 50,
-      widthStationsMm: [700, 680],
-      liveEdge: "both",
-      surfacing: "flattened",
-      dryingMethod: "kiln",
-    })
-  ).body.slab;
-  const listing = (
-    await sawyer.post("/api/v1/yard/listings", {
-      title: `Walnut top ${Math.random().toString(36).slice(2, 6)}`,
-      slabIds: [slab.id],
-      priceMode: "fixed",
-      rateMinor: priceMinor,
-      freight: true,
-    })
-  ).body.listing;
-  await sawyer.agent
-    .post(`/api/v1/yard/listings/${listing.id}/photos`)
-    .set("x-csrf-token", sawyer.csrfToken)
-    .set("content-type", "image/jpeg")
-    .send(photo);
-  await sawyer.post(`/api/v1/yard/listings/${listing.id}/submit`);
-  await admin.post(`/api/v1/admin/listings/${listing.id}/approve`);
-  return listing.id as string;
-}
 
 const orderOf = async (id: string) => ctx.dataSource.getRepository(OrderEntity).findOneByOrFail({ id });
 const mailed = (address: string, subject: RegExp) => until(async () => (await mailTo(address)).some((m) => subject.test(m.subject)));
 
 /** Bought with the test card by a new buyer (freight), paid; shipped and handed over unless told otherwise. */
 async function order(priceMinor = 100_000, handOver = true) {
-  const listingId = await liveListing(priceMinor);
+  const listingId = await liveListing(sawyer, admin, {
+    title: `Walnut top ${Math.random().toString(36).slice(2, 6)}`,
+    speciesSlug: "black-walnut",
+    rateMinor: priceMinor,
+  });
   const buyer = (await ctx.signedInClient("buyer")) as Signed;
   const res = await buyer.post(`/api/v1/listings/${listingId}/checkout`, {
     handover: "freight",
     deliveryAddress: "7 Heron Walk, Lakemont",
   });
   expect(res.status).toBe(201);
-  const paid = await fetch(res.body.checkoutUrl, {
-    method: "POST",
-    headers: { "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }),
-    redirect: "manual",
-  });
+  const paid = await payOnHostedPage(res.body.checkoutUrl);
   expect(paid.status).toBe(303);
   const orderId = res.body.order.id as string;
   await until(async () => (await orderOf(orderId)).status === "paid");
@@ -119,9 +87,6 @@ beforeAll(async () => {
   fake.webhooks.options.url = webhookUrl;
   sawyer = (await ctx.signedInClient("sawyer", { yardName: "Quarry Bend Slabs", pickupTown: "Lakemont" })) as Signed;
   admin = (await ctx.signedInClient("admin")) as Signed;
-  photo = await sharp({ create: { width: 640, height: 480, channels: 3, background: "#5a3a22" } })
-    .jpeg()
-    .toBuffer();
 }, 60_000);
 afterEach(async () => expectLedgerBalanced(ctx.dataSource));
 afterAll(async () => {

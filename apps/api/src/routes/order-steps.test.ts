@@ -13,6 +13,7 @@ import {
 } from "../test-support/payments-harness.ts";
 import { instantToYardTime, yardTimeToInstant } from "@grainyard/contracts";
 import { createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
 
 /*
  * The steps after payment — pickup windows or freight, hand-over, completion (by the buyer or by
@@ -78,12 +79,7 @@ async function paidOrder(handover: "pickup" | "freight", priceMinor = 90_000) {
     handover === "freight" ? { handover, deliveryAddress: "7 Heron Walk, Lakemont" } : { handover },
   );
   expect(res.status).toBe(201);
-  const paid = await fetch(res.body.checkoutUrl, {
-    method: "POST",
-    headers: { "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }),
-    redirect: "manual",
-  });
+  const paid = await payOnHostedPage(res.body.checkoutUrl);
   expect(paid.status).toBe(303);
   await until(async () => (await orderOf(res.body.order.id)).status === "paid");
   return { buyer, listingId, orderId: res.body.order.id as string };

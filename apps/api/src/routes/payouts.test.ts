@@ -14,6 +14,7 @@ import {
   type TestPaymentsFake,
 } from "../test-support/payments-harness.ts";
 import { browserClient, createTestContext, mailTo, testClock, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
 
 /*
  * Paying sawyers, against a payments fake of this test's own (through the official SDK), real
@@ -99,12 +100,7 @@ async function handedOverSale(sawyer: Client, admin: Client, buyer: Client, pric
     deliveryAddress: "12 Alder Row, Lakemont",
   });
   expect(res.status).toBe(201);
-  const paid = await fetch(res.body.checkoutUrl, {
-    method: "POST",
-    headers: { "content-type": "application/x-www-form-urlencoded" },
-    body: new URLSearchParams({ card: "4242 4242 4242 4242", expiry: "12/34", cvc: "123" }),
-    redirect: "manual",
-  });
+  const paid = await payOnHostedPage(res.body.checkoutUrl);
   expect(paid.status).toBe(303);
   const orderId = res.body.order.id as string;
   await until(async () => (await orderOf(orderId)).status === "paid");

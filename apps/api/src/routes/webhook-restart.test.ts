@@ -12,6 +12,7 @@ import { createPhotoStorage } from "../integrations/storage.ts";
 import { createLogger } from "../logger.ts";
 import { expectLedgerBalanced, startPaymentsFake, until, type TestPaymentsFake } from "../test-support/payments-harness.ts";
 import { createTestContext, mailTo, trackDeliveries, type BrowserClient, type TestContext } from "../test-support/test-context.ts";
+import { payOnHostedPage } from "../test-support/hosted-payment.ts";
 
 /*
  * The API restarts between the buyer paying and the provider's webhook. The payments fake keeps
@@ -110,12 +111,7 @@ describe("the API restarting between payment and webhook", () => {
     const orderId = body.order.id as string;
 
     // The first instance (ctx.app) is not listening anywhere: it has "gone down" after checkout.
-    const paid = await fetch(body.checkoutUrl, {
-      method: "POST",
-      headers: { "content-type": "application/x-www-form-urlencoded" },
-      body: new URLSearchParams({ card: "4242424242424242", expiry: "12/34", cvc: "123" }),
-      redirect: "manual",
-    });
+    const paid = await payOnHostedPage(body.checkoutUrl);
     expect(paid.status).toBe(303);
     const completedEvent = () =>
       fake.store.state.events
@@ -187,12 +183,7 @@ describe("the API restarting between payment and webhook", () => {
     const firstUrl = `http://127.0.0.1:${(first.address() as AddressInfo).port}/api/v1/payments/webhook`;
     fake.webhooks.options.copies = 4;
     try {
-      await fetch(body.checkoutUrl, {
-        method: "POST",
-        headers: { "content-type": "application/x-www-form-urlencoded" },
-        body: new URLSearchParams({ card: "4242424242424242", expiry: "12/34", cvc: "123" }),
-        redirect: "manual",
-      });
+      await payOnHostedPage(body.checkoutUrl);
       fake.webhooks.options.url = firstUrl;
       fake.webhooks.resendAll();
       fake.webhooks.options.url = second;
