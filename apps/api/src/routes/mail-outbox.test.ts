@@ -242,7 +242,10 @@ describe("the e-mail outbox", () => {
       // Both deliver at once, without a lease between them: the per-e-mail claim alone must keep each to one send.
       const [one, two] = await Promise.all([ctx.app.outbox.deliverDue(), otherInstance.deliverDue()]);
       expect(one.sent + two.sent).toBe(20);
-      expect(one.taken + two.taken).toBe(20);
+      expect(one.retry + two.retry + one.failed + two.failed).toBe(0);
+      // An instance that lists the due e-mails after the other has sent some finds fewer, so the
+      // "taken" answers are at most one per e-mail (never a second send), not always twenty.
+      expect(one.taken + two.taken).toBeLessThanOrEqual(20);
       for (const address of addresses) expect(smtp.to(address), address).toHaveLength(1);
     } finally {
       secondMailer.close();
