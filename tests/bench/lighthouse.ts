@@ -1,6 +1,6 @@
 /*
  * Lighthouse on the public pages of a demo stack (see `npm run bench`): the home page, the
- * catalogue, a slab page (and a yard page once the app has one), with Lighthouse's default mobile
+ * catalogue, a slab page and a yard page, with Lighthouse's default mobile
  * preset (simulated slow 4G and a slower CPU) in Debian's Chromium. Prints each category's score
  * and the largest contentful paint, cumulative layout shift and total blocking time (the median
  * of LIGHTHOUSE_RUNS runs), the JavaScript a first visit to /browse loads and the size of a
@@ -36,7 +36,7 @@ function get(
 }
 
 const catalogue = JSON.parse((await get("/api/v1/catalogue?limit=50")).body.toString("utf8")) as {
-  results: { listingId: string; title: string; photoUrl: string | null }[];
+  results: { listingId: string; title: string; photoUrl: string | null; yardSlug: string | null }[];
 };
 const slab = catalogue.results.find((card) => card.photoUrl) ?? catalogue.results[0];
 if (!slab) throw new Error("The demo catalogue is empty.");
@@ -45,12 +45,10 @@ const pages: [string, string][] = [
   ["browse", "/browse"],
   ["slab page", `/slabs/${slab.listingId}`],
 ];
-// The public yard page (issue 12 asks for it once it exists): measured when the app has one.
-const yards = await get("/yards");
-if (yards.status === 200 && /\/yards\/[\w-]+/.test(yards.body.toString("utf8"))) {
-  const first = /href="(\/yards\/[\w-]+)"/.exec(yards.body.toString("utf8"))?.[1];
-  if (first) pages.push(["yard page", first]);
-}
+// The public yard page of the slab's sawyer (every live slab's card names its yard's address).
+const yardSlug = slab.yardSlug ?? catalogue.results.find((card) => card.yardSlug)?.yardSlug;
+if (!yardSlug) throw new Error("No live slab names its yard's public page.");
+pages.push(["yard page", `/yards/${yardSlug}`]);
 
 const median = (values: number[]) => {
   const sorted = [...values].sort((a, b) => a - b);

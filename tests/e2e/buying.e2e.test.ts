@@ -11,12 +11,13 @@ import {
   phone,
   screenshot,
   watchForPageErrors,
-  listingIdOf,
   signIn,
+  DEMO_ADMIN,
   mailsTo,
   mailArrives,
   settled,
 } from "./browser.ts";
+import { apiSignIn, liveListing, newBuyer, newSawyer, slabPhoto, type ApiSession } from "./fixtures.ts";
 
 /** A picture of one part of a long page (the buy panel), beside the full-page ones. */
 async function partShot(page: Page, selector: string, name: string) {
@@ -26,19 +27,19 @@ async function partShot(page: Page, selector: string, name: string) {
 }
 
 let browser: Browser;
+let desk: ApiSession;
+let photo: Buffer;
 beforeAll(async () => {
   browser = await launchChromium();
+  desk = await apiSignIn(DEMO_ADMIN);
+  photo = await slabPhoto(browser);
 });
 afterAll(async () => browser?.close());
 
-/** Demo people from the Lakemont seed. */
-const FERNHILL = { email: "shop@fernhill-furniture.test", password: "fernhill-benches-2026" };
-const BRANDTS = { email: "ana.theo@lakemont-home.test", password: "first-dining-table-26" };
-const CALLOWAY = { email: "studio@calloway-interiors.test", password: "bookmatched-pair-2026" };
-const RIDGEBACK = { email: "yard@ridgeback-timber.test", password: "ridgeback-bandmill-2026" };
-/** Two different seeded live listings, so the two tests do not depend on each other. */
-const MAPLE_PAIR = "Spalted silver maple, sequential pair"; // Ridgeback Urban Timber
-const RED_OAK = "Wide red oak dining slab, seats eight";
+/** Each test makes its own sawyer, buyers and slab (fixtures.ts): it stands alone and can run again on the same stack. */
+const run = Date.now().toString(36);
+const MAPLE_PAIR = `Spalted silver maple, sequential pair ${run}`;
+const RED_OAK = `Wide red oak dining slab, seats eight ${run}`;
 
 async function payOnHostedPage(page: Page, card: string) {
   await page.waitForURL(/\/pay\/cs_/, { timeout: 15_000 });
@@ -50,12 +51,19 @@ async function payOnHostedPage(page: Page, card: string) {
 
 describe("buying a slab", () => {
   it("a buyer buys with the test card on the hosted page, waits for the confirmation and reaches a paid order; both e-mails arrive; the sawyer proposes pickup times and the buyer books one, all in yard time", async () => {
-    const listingId = await listingIdOf(MAPLE_PAIR);
+    const [sawyer, buyer] = await Promise.all([newSawyer("bandmill"), newBuyer("benchmaker")]);
+    const listingId = await liveListing(sawyer, desk, photo, {
+      title: MAPLE_PAIR,
+      speciesSlug: "silver-maple",
+      slabs: 2,
+      priceMode: "per_board_foot",
+      rateMinor: 1100,
+    });
     // The buyer's browser keeps Tokyo time and the sawyer's phone Lisbon time; the yard (Lakemont) keeps US Eastern time.
     const context: BrowserContext = await browser.newContext({ viewport: desktop, locale: "en-US", timezoneId: "Asia/Tokyo" });
     const page = await context.newPage();
     const problems = watchForPageErrors(page);
-    await signIn(page, FERNHILL);
+    await signIn(page, buyer);
 
     await openPage(page, `/slabs/${listingId}`);
     const panel = page.locator('[data-test="buy-panel"]');
@@ -79,11 +87,11 @@ describe("buying a slab", () => {
     await expect.poll(() => page.locator('[data-test="order-sum"]').innerText()).toContain(payNow);
     await screenshot(page, "order-paid-1280");
 
-    await mailArrives(FERNHILL.email, new RegExp(`^Your order: ${MAPLE_PAIR}`));
-    await mailArrives(RIDGEBACK.email, new RegExp(`^Sold: ${MAPLE_PAIR}`));
-    const receiptMail = (await mailsTo(FERNHILL.email)).find((m) => m.subject.startsWith("Your order"))!;
+    await mailArrives(buyer.email, new RegExp(`^Your order: ${MAPLE_PAIR}`));
+    await mailArrives(sawyer.email, new RegExp(`^Sold: ${MAPLE_PAIR}`));
+    const receiptMail = (await mailsTo(buyer.email)).find((m) => m.subject.startsWith("Your order"))!;
     expect(receiptMail.text).toContain(payNow);
-    const saleMail = (await mailsTo(RIDGEBACK.email)).find((m) => m.subject.startsWith(`Sold: ${MAPLE_PAIR}`))!;
+    const saleMail = (await mailsTo(sawyer.email)).find((m) => m.subject.startsWith(`Sold: ${MAPLE_PAIR}`))!;
     expect(saleMail.text).toMatch(/your net \$[\d,.]+/);
 
     await page.locator('[data-test="receipt-link"]').click();
@@ -107,7 +115,7 @@ describe("buying a slab", () => {
     });
     const sawyerPage = await sawyerContext.newPage();
     const sawyerProblems = watchForPageErrors(sawyerPage);
-    await signIn(sawyerPage, RIDGEBACK);
+    await signIn(sawyerPage, sawyer);
     await sawyerPage.goto(`${appUrl}/orders`);
     await expect
       .poll(() => sawyerPage.locator(`[data-test="order-${orderId}"]`).innerText(), { timeout: 15_000 })
@@ -124,8 +132,8 @@ describe("buying a slab", () => {
     await screenshot(sawyerPage, "order-sawyer-windows-390");
     await sawyerPage.locator('[data-test="send-windows"]').click();
     await expect.poll(() => sawyerPage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Ready for pickup");
-    await mailArrives(FERNHILL.email, /^Choose a pickup time/);
-    const offeredMail = (await mailsTo(FERNHILL.email)).find((m) => m.subject.startsWith("Choose a pickup time"))!;
+    await mailArrives(buyer.email, /^Choose a pickup time/);
+    const offeredMail = (await mailsTo(buyer.email)).find((m) => m.subject.startsWith("Choose a pickup time"))!;
     expect(offeredMail.text).toMatch(/1\. \w{3} \d{1,2} \w{3}, 9–11 am, yard time \(America\/Detroit\)/);
     expect(offeredMail.text).toMatch(/2\. \w{3} \d{1,2} \w{3}, 2–4 pm, yard time \(America\/Detroit\)/);
 
@@ -142,7 +150,7 @@ describe("buying a slab", () => {
       .toMatch(/^\w{3} \d{1,2} \w{3}, 2–4 pm, yard time \(America\/Detroit\)$/);
     expect(await page.locator('[data-test="pickup-address"]').innerText()).toContain("212 Tannery Road");
     await screenshot(page, "order-booked-1280");
-    await mailArrives(RIDGEBACK.email, /^The buyer chose a pickup time/);
+    await mailArrives(sawyer.email, /^The buyer chose a pickup time/);
 
     // The same order and receipt on a phone.
     const phoneContext = await browser.newContext({
@@ -154,7 +162,7 @@ describe("buying a slab", () => {
     });
     const phonePage = await phoneContext.newPage();
     const phoneProblems = watchForPageErrors(phonePage);
-    await signIn(phonePage, FERNHILL);
+    await signIn(phonePage, buyer);
     await phonePage.goto(`${appUrl}/orders/${orderId}`);
     await expect.poll(() => phonePage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Ready for pickup");
     await screenshot(phonePage, "order-390");
@@ -182,25 +190,32 @@ describe("buying a slab", () => {
     await phonePage.locator('[data-test="confirm"]').click();
     await expect.poll(() => phonePage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Completed");
     await screenshot(phonePage, "order-completed-390");
-    await mailArrives(RIDGEBACK.email, new RegExp(`^Completed: ${MAPLE_PAIR}`));
+    await mailArrives(sawyer.email, new RegExp(`^Completed: ${MAPLE_PAIR}`));
 
     expect([...problems, ...sawyerProblems, ...phoneProblems]).toEqual([]);
     await Promise.all([context.close(), sawyerContext.close(), phoneContext.close()]);
   });
 
   it("while one buyer pays, another hears the slab was just reserved; a declined card is not the end: the buyer leaves, comes back to the same page, pays with another card, then cancels with a reason and the slab is on sale again", async () => {
-    const listingId = await listingIdOf(RED_OAK);
+    const [sawyer, waitingBuyer, buyer] = await Promise.all([newSawyer("chainsaw"), newBuyer("designer"), newBuyer("homeowner")]);
+    const listingId = await liveListing(sawyer, desk, photo, {
+      title: RED_OAK,
+      speciesSlug: "northern-red-oak",
+      lengthMm: 2740,
+      widthStationsMm: [1010, 980, 960],
+      rateMinor: 240000,
+    });
     const waiting = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true, locale: "en-US" });
     const other = await waiting.newPage();
     const otherProblems = watchForPageErrors(other);
-    await signIn(other, CALLOWAY);
+    await signIn(other, waitingBuyer);
     await openPage(other, `/slabs/${listingId}`);
     await expect.poll(() => other.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
 
     const context = await browser.newContext({ viewport: desktop, locale: "en-US" });
     const page = await context.newPage();
     const problems = watchForPageErrors(page);
-    await signIn(page, BRANDTS);
+    await signIn(page, buyer);
     await openPage(page, `/slabs/${listingId}`);
     await expect.poll(() => page.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
     await page.locator('[data-test="handover-freight"]').check({ force: true });
@@ -244,7 +259,7 @@ describe("buying a slab", () => {
     });
     const phonePage = await phoneContext.newPage();
     const phoneProblems = watchForPageErrors(phonePage);
-    await signIn(phonePage, BRANDTS);
+    await signIn(phonePage, buyer);
     await phonePage.goto(`${appUrl}${orderPath}`);
     await expect.poll(() => phonePage.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Paid");
     await phonePage.locator('[data-test="cancel-order"]').click();
@@ -260,7 +275,7 @@ describe("buying a slab", () => {
       .poll(() => phonePage.locator('[data-test="order-cancelled"]').innerText(), { timeout: 15_000 })
       .toMatch(/refunded to the card/);
     await screenshot(phonePage, "order-refunded-390");
-    await mailArrives(BRANDTS.email, /^Cancelled and refunded/);
+    await mailArrives(buyer.email, /^Cancelled and refunded/);
     const status = (await appJson<{ listing: { status: string } }>(`/api/v1/catalogue/${listingId}`)).body;
     expect(status.listing.status).toBe("live");
 

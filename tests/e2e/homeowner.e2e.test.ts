@@ -2,12 +2,14 @@ import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO_ADMIN, signIn as signInThroughForm, type SignInAs } from "./browser.ts";
 import { appUrl, desktop, launchChromium, newestMailTo, openPage, phone, screenshot, settled, watchForPageErrors } from "./browser.ts";
+import { apiSignIn, liveListing, newBuyer, newSawyer, paintedSlabPhoto, slabPhoto as photoOfSlab } from "./fixtures.ts";
 
 /*
  * A couple building their first dining table look for a slab that seats eight, save the search
  * with e-mail alerts, and hear about a new slab the day a sawyer lists it and the desk approves
- * it; the alert's unsubscribe link works without signing in. Then they ask the sawyer about it,
- * and the sawyer answers from a phone. Everyone is from the Lakemont demo seed.
+ * it; the alert's unsubscribe link works without signing in (everyone from the Lakemont demo seed).
+ * Apart from that, a buyer asks a sawyer about a slab and the sawyer answers from a phone: that test
+ * makes its own sawyer, buyer and slab (fixtures.ts), so it stands alone.
  */
 
 const HOMEOWNER = { email: "ana.theo@lakemont-home.test", password: "first-dining-table-26" };
@@ -17,7 +19,8 @@ const ADMIN = DEMO_ADMIN;
 const SHOP = { email: "shop@fernhill-furniture.test", password: "fernhill-benches-2026" };
 
 const SEARCH_NAME = "Our dining table for eight";
-const NEW_LISTING_TITLE = "White oak dining slab from the Harbour Road storm, seats eight";
+/** Unique per run: the alert's subject names it, and the mail sink keeps earlier runs' e-mails. */
+const NEW_LISTING_TITLE = `White oak dining slab from the Harbour Road storm, seats eight ${Date.now().toString(36)}`;
 
 let browser: Browser;
 let newListingId = "";
@@ -67,27 +70,6 @@ async function apiCall(
   const text = await response.text();
   if (response.status() >= 300) throw new Error(`${method} ${path} answered ${response.status()}: ${text}`);
   return text ? JSON.parse(text) : undefined;
-}
-
-/** A phone photo of the new slab, painted by the browser itself, as JPEG bytes. */
-async function slabPhoto(page: Page): Promise<Buffer> {
-  const dataUrl = await page.evaluate(() => {
-    const canvas = document.createElement("canvas");
-    canvas.width = 1200;
-    canvas.height = 700;
-    const context = canvas.getContext("2d")!;
-    context.fillStyle = "#8d8a83";
-    context.fillRect(0, 0, 1200, 700);
-    context.fillStyle = "hsl(34, 48%, 58%)";
-    context.beginPath();
-    context.moveTo(40, 170);
-    context.bezierCurveTo(400, 120, 800, 200, 1160, 150);
-    context.lineTo(1160, 540);
-    context.bezierCurveTo(800, 590, 400, 520, 40, 560);
-    context.fill();
-    return canvas.toDataURL("image/jpeg", 0.85);
-  });
-  return Buffer.from(dataUrl.split(",")[1]!, "base64");
 }
 
 describe("a homeowner's dining table", () => {
@@ -191,7 +173,7 @@ describe("a homeowner's dining table", () => {
       undefined,
       {
         contentType: "image/jpeg",
-        data: await slabPhoto(sawyerPage),
+        data: await paintedSlabPhoto(sawyerPage, 34),
       },
     );
     await apiCall(sawyerPage, "POST", `/api/v1/yard/listings/${newListingId}/submit`, {});
@@ -305,24 +287,30 @@ describe("a homeowner's dining table", () => {
 
 describe("asking the sawyer", () => {
   it("a buyer asks about the new slab, the sawyer answers from a phone, and both get an e-mail notice", async () => {
-    expect(newListingId, "the first test lists the slab").not.toBe("");
+    const [yard, homeowner, desk] = await Promise.all([newSawyer("ridge"), newBuyer("homeowner"), apiSignIn(ADMIN)]);
+    const title = `White oak dining slab, seats eight ${Date.now().toString(36)}`;
+    const listingId = await liveListing(yard, desk, await photoOfSlab(browser, 35), {
+      title,
+      speciesSlug: "white-oak",
+      lengthMm: 2740,
+      widthStationsMm: [990, 960, 940],
+      rateMinor: 210000,
+    });
     const buyerContext = await desktopContext();
     const buyer = await buyerContext.newPage();
     const buyerProblems = watchForPageErrors(buyer);
-    await signIn(buyer, HOMEOWNER, "/account");
-    await openPage(buyer, `/slabs/${newListingId}`);
+    await signIn(buyer, homeowner, "/account");
+    await openPage(buyer, `/slabs/${listingId}`);
     await visible(buyer, '[data-test="ask-sawyer"]');
     await buyer
       .locator('[data-test="ask-body"]')
       .fill("Hello! Is it flat enough to use as a dining top as it is, and could we pick it up on a Saturday?");
     await buyer.locator('[data-test="ask-send"]').click();
-    await expect
-      .poll(() => buyer.locator('[data-test="ask-sent"]').innerText(), { timeout: 10_000 })
-      .toContain("Sent to Ridgeback Urban Timber");
+    await expect.poll(() => buyer.locator('[data-test="ask-sent"]').innerText(), { timeout: 10_000 }).toContain(`Sent to ${yard.yardName}`);
     await shot(buyer, "slab-page-asked-1280");
 
     // The sawyer's notice links the conversation.
-    const notice = await newestMailTo(SAWYER.email, `New message about "${NEW_LISTING_TITLE}" from Ana and Theo Brandt`);
+    const notice = await newestMailTo(yard.email, `New message about "${title}" from ${homeowner.displayName}`);
     expect(notice.text).toContain("Is it flat enough");
     const threadLink = notice.text.match(/https?:\/\/\S+\/messages\/[0-9a-f-]{36}/)?.[0];
     expect(threadLink, notice.text).toBeDefined();
@@ -331,19 +319,19 @@ describe("asking the sawyer", () => {
     const sawyerContext = await phoneContext("en-GB");
     const sawyer = await sawyerContext.newPage();
     const sawyerProblems = watchForPageErrors(sawyer);
-    await signIn(sawyer, SAWYER, "/yard");
+    await signIn(sawyer, yard, "/yard");
     await expect.poll(() => sawyer.locator('[data-test="menu-unread"]').innerText(), { timeout: 10_000 }).toMatch(/^1/);
     await sawyer.locator('[data-test="menu-toggle"]').click();
     await shot(sawyer, "menu-sawyer-390");
     await sawyer.locator('[data-test="nav-messages"]').click();
     await sawyer.waitForURL(`${appUrl}/messages`);
-    const thread = sawyer.locator('[data-test="thread"]', { hasText: NEW_LISTING_TITLE });
+    const thread = sawyer.locator('[data-test="thread"]', { hasText: title });
     await expect.poll(() => thread.isVisible(), { timeout: 10_000 }).toBe(true);
     expect(await thread.locator('[data-test="thread-unread"]').innerText()).toMatch(/^1/);
     await shot(sawyer, "messages-sawyer-390");
     await sawyer.goto(threadLink!);
     await visible(sawyer, '[data-test="message"]');
-    expect(await sawyer.locator('[data-test="thread-with"]').innerText()).toBe("Ana and Theo Brandt");
+    expect(await sawyer.locator('[data-test="thread-with"]').innerText()).toBe(homeowner.displayName);
     // Opened: nothing unread any more.
     await expect.poll(() => sawyer.locator('[data-test="menu-unread"]').count(), { timeout: 10_000 }).toBe(0);
     await sawyer
@@ -361,15 +349,12 @@ describe("asking the sawyer", () => {
     await shot(sawyer, "thread-sawyer-390");
 
     // The buyer's notice, and the answer arrives on the buyer's open thread by polling.
-    const reply = await newestMailTo(
-      HOMEOWNER.email,
-      `New message about "${NEW_LISTING_TITLE}" from Oskar Lindqvist (Ridgeback Urban Timber)`,
-    );
+    const reply = await newestMailTo(homeowner.email, `New message about "${title}" from ${yard.displayName} (${yard.yardName})`);
     expect(reply.text).toContain("Saturday from 9 works");
     await buyer.goto(`${appUrl}/messages`);
     await expect.poll(() => buyer.locator('[data-test="unread-badge"]').innerText(), { timeout: 40_000 }).toMatch(/^1/);
     await shot(buyer, "messages-buyer-1280");
-    await buyer.locator('[data-test="thread"]', { hasText: NEW_LISTING_TITLE }).click();
+    await buyer.locator('[data-test="thread"]', { hasText: title }).click();
     await expect.poll(() => buyer.locator('[data-test="message"]').count(), { timeout: 10_000 }).toBe(2);
     await shot(buyer, "thread-buyer-1280");
     // Polling: a second answer shows up without a reload.
@@ -379,25 +364,25 @@ describe("asking the sawyer", () => {
 
     // The sawyer's own listing has no "Ask the sawyer" once the page knows who is signed in (the
     // server renders every page as for anyone; the signed-in parts follow in the browser).
-    await openPage(sawyer, `/slabs/${newListingId}`);
+    await openPage(sawyer, `/slabs/${listingId}`);
     await visible(sawyer, '[data-test="slab-weight"]');
     await expect.poll(() => sawyer.locator('[data-test="ask-sawyer"]').count(), { timeout: 10_000 }).toBe(0);
 
     // The inbox and thread at desktop size for the sawyer, and at phone size for the buyer.
     const sawyerDesk = await desktopContext("en-GB");
     const sawyerAtDesk = await sawyerDesk.newPage();
-    await signIn(sawyerAtDesk, SAWYER, "/yard");
+    await signIn(sawyerAtDesk, yard, "/yard");
     await sawyerAtDesk.goto(`${appUrl}/messages`);
     await visible(sawyerAtDesk, '[data-test="thread"]');
     await shot(sawyerAtDesk, "messages-sawyer-1280");
-    await sawyerAtDesk.locator('[data-test="thread"]', { hasText: NEW_LISTING_TITLE }).click();
+    await sawyerAtDesk.locator('[data-test="thread"]', { hasText: title }).click();
     await expect.poll(() => sawyerAtDesk.locator('[data-test="message"]').count(), { timeout: 10_000 }).toBe(3);
     await shot(sawyerAtDesk, "thread-sawyer-1280");
     await sawyerDesk.close();
 
     const buyerPhone = await phoneContext();
     const buyerOnPhone = await buyerPhone.newPage();
-    await signIn(buyerOnPhone, HOMEOWNER, "/account");
+    await signIn(buyerOnPhone, homeowner, "/account");
     await buyerOnPhone.goto(buyer.url());
     await expect.poll(() => buyerOnPhone.locator('[data-test="message"]').count(), { timeout: 10_000 }).toBe(3);
     await shot(buyerOnPhone, "thread-buyer-390");

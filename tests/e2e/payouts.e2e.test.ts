@@ -10,23 +10,21 @@ import {
   screenshot,
   settled,
   watchForPageErrors,
-  listingIdOf,
   signIn,
   mailArrives,
   openPage,
 } from "./browser.ts";
+import { apiSignIn, liveListing, newBuyer, newSawyer, slabPhoto } from "./fixtures.ts";
 
 /*
- * Paying a sawyer, end to end in Chromium: Northshore Kiln Co-op sets up payouts on the payments
- * fake's hosted page, a buyer pays for its bookmatched walnut pair with the test card, the sawyer
- * ships and hands it over, the API's test clock moves past the hold, the admin approves the payout
- * on the desk and the sawyer sees it paid. Then the admin gives a partial dispute refund on the
- * order. No other e2e test buys this listing.
+ * Paying a sawyer, end to end in Chromium: a new sawyer (fixtures.ts) sets up payouts on the
+ * payments fake's hosted page, a new buyer pays for its bookmatched walnut pair with the test card,
+ * the sawyer ships and hands it over, the API's test clock moves past the hold, the admin approves
+ * the payout on the desk and the sawyer sees it paid. Then the admin gives a partial dispute refund
+ * on the order. The test makes everything it uses, so it can run again on the same stack.
  */
-const NORTHSHORE = { email: "kiln@northshore-coop.test", password: "northshore-kiln-2026" };
-const CALLOWAY = { email: "studio@calloway-interiors.test", password: "bookmatched-pair-2026" };
 const DESK = DEMO_ADMIN;
-const WALNUT_PAIR = "Bookmatched black walnut pair with crotch figure";
+const WALNUT_PAIR = `Bookmatched black walnut pair with crotch figure ${Date.now().toString(36)}`;
 
 let browser: Browser;
 beforeAll(async () => {
@@ -60,11 +58,22 @@ const overflowX = (page: Page) => page.evaluate(() => document.documentElement.s
 
 describe("payouts", () => {
   it("a sawyer sets up payouts, sells, hands over; after the hold the admin approves and the sawyer sees it paid; the admin refunds part of the order", async () => {
+    const [kiln, designer, deskApi] = await Promise.all([newSawyer("kiln"), newBuyer("designer"), apiSignIn(DESK)]);
+    const listingId = await liveListing(kiln, deskApi, await slabPhoto(browser, 20), {
+      title: WALNUT_PAIR,
+      speciesSlug: "black-walnut",
+      slabs: 2,
+      setKind: "bookmatched",
+      widthStationsMm: [480, 460, 450],
+      rateMinor: 360000,
+    });
+    const yardName = kiln.yardName;
+
     // The sawyer, on a phone: no payout account yet.
     const sawyerContext = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, hasTouch: true, locale: "en-US" });
     const sawyer = await sawyerContext.newPage();
     const sawyerProblems = watchForPageErrors(sawyer);
-    await signIn(sawyer, NORTHSHORE);
+    await signIn(sawyer, kiln);
     await sawyer.goto(`${appUrl}/yard`);
     await sawyer.locator('[data-test="payouts-link"]').click();
     await sawyer.waitForURL(`${appUrl}/yard/payouts`);
@@ -86,11 +95,10 @@ describe("payouts", () => {
     await bothSizes(sawyer, "payouts-ready");
 
     // A buyer pays for the walnut pair with the test card (freight).
-    const listingId = await listingIdOf(WALNUT_PAIR);
     const buyerContext = await browser.newContext({ viewport: desktop, locale: "en-US" });
     const buyer = await buyerContext.newPage();
     const buyerProblems = watchForPageErrors(buyer);
-    await signIn(buyer, CALLOWAY);
+    await signIn(buyer, designer);
     await openPage(buyer, `/slabs/${listingId}`);
     await expect.poll(() => buyer.locator('[data-test="buy"]').isVisible(), { timeout: 15_000 }).toBe(true);
     await buyer.locator('[data-test="handover-freight"]').check({ force: true });
@@ -119,7 +127,7 @@ describe("payouts", () => {
     await sawyer.locator('[data-test="confirm"]').click();
     await expect.poll(() => sawyer.locator('[data-test="order-status"]').innerText(), { timeout: 15_000 }).toBe("Handed over");
 
-    // Inside the hold it is pending, and nothing of Northshore's is due on the desk.
+    // Inside the hold it is pending, and nothing of this yard's is due on the desk.
     await sawyer.goto(`${appUrl}/yard/payouts`);
     await expect.poll(() => sawyer.locator('[data-test="balance-pending"]').innerText(), { timeout: 15_000 }).toBe(net);
     expect(await sawyer.locator('[data-test="balance-available"]').innerText()).toBe("$0.00");
@@ -134,14 +142,14 @@ describe("payouts", () => {
     await desk.waitForURL(`${appUrl}/admin/payouts`);
     await expect.poll(() => desk.locator('[data-test="payouts-desk"]').innerText(), { timeout: 15_000 }).toMatch(/Sent and tried/);
     await expect.poll(() => desk.locator(".n-skeleton").count(), { timeout: 15_000 }).toBe(0);
-    expect(await desk.locator('[data-test="payouts-desk"]').innerText()).not.toContain("Northshore Kiln Co-op");
+    expect(await desk.locator('[data-test="payouts-desk"]').innerText()).not.toContain(yardName);
 
     // Past the 7-day hold: the API's test clock moves forward (NODE_ENV=test and GRAINYARD_TEST_CLOCK=1 only).
     const moved = await appJson("/api/_test/clock", { method: "POST", body: { advanceDays: 8 } });
     expect(moved.status).toBe(200);
 
     await desk.reload();
-    const row = desk.locator('[data-test="due-list"] > li', { hasText: "Northshore Kiln Co-op" });
+    const row = desk.locator('[data-test="due-list"] > li', { hasText: yardName });
     await expect.poll(() => row.count(), { timeout: 15_000 }).toBe(1);
     expect(await row.locator('[data-test="due-amount"]').innerText()).toBe(net);
     await row.locator("summary").click();
@@ -152,27 +160,23 @@ describe("payouts", () => {
     await row.locator('[data-test="approve-one"]').click();
     await expect
       .poll(() => desk.locator('[data-test="confirm-recipient"]').innerText())
-      .toMatch(new RegExp(`${net.replace(/[$.]/g, "\\$&")} goes to the payout account of Northshore Kiln Co-op`));
+      .toMatch(new RegExp(`${net.replace(/[$.]/g, "\\$&")} goes to the payout account of ${yardName}`));
     await bothSizes(desk, "admin-payouts-confirm", desktop, true);
     await desk.locator('[data-test="confirm"]').click();
     await expect
       .poll(() => desk.locator('[data-test="desk-notice"]').innerText(), { timeout: 15_000 })
-      .toContain(`Sent ${net} to Northshore Kiln Co-op`);
+      .toContain(`Sent ${net} to ${yardName}`);
     await expect
       .poll(() =>
-        desk
-          .locator('[data-test="recent-list"] > li', { hasText: "Northshore Kiln Co-op" })
-          .locator('[data-test="recent-status"]')
-          .first()
-          .innerText(),
+        desk.locator('[data-test="recent-list"] > li', { hasText: yardName }).locator('[data-test="recent-status"]').first().innerText(),
       )
       .toBe("Paid out");
-    await expect.poll(() => desk.locator('[data-test="due-list"] > li', { hasText: "Northshore Kiln Co-op" }).count()).toBe(0);
+    await expect.poll(() => desk.locator('[data-test="due-list"] > li', { hasText: yardName }).count()).toBe(0);
     await desk.locator("label.chip", { has: desk.locator('[data-test="filter-sent"]') }).click();
     await expect.poll(() => desk.locator('[data-test="filter-sent"]').isChecked()).toBe(true);
-    await expect.poll(() => desk.locator('[data-test="recent-list"]').innerText(), { timeout: 15_000 }).toContain("Northshore Kiln Co-op");
+    await expect.poll(() => desk.locator('[data-test="recent-list"]').innerText(), { timeout: 15_000 }).toContain(yardName);
     await bothSizes(desk, "admin-payouts-sent", desktop);
-    await mailArrives(NORTHSHORE.email, new RegExp(`^Grainyard sent you ${net.replace(/[$.]/g, "\\$&")}`));
+    await mailArrives(kiln.email, new RegExp(`^Grainyard sent you ${net.replace(/[$.]/g, "\\$&")}`));
 
     // The sawyer, on the phone, sees it paid with the order it covers.
     await sawyer.setViewportSize(phone);
@@ -205,8 +209,8 @@ describe("payouts", () => {
       .poll(() => refund.locator('[data-test="refund-result"]').innerText(), { timeout: 15_000 })
       .toMatch(/\$150\.00 of .* is left/);
     await bothSizes(desk, "order-dispute-refund-done", desktop);
-    await mailArrives(CALLOWAY.email, /^Partial refund on/);
-    await mailArrives(NORTHSHORE.email, /^Partial refund on/);
+    await mailArrives(designer.email, /^Partial refund on/);
+    await mailArrives(kiln.email, /^Partial refund on/);
 
     expect([...sawyerProblems, ...buyerProblems, ...deskProblems]).toEqual([]);
     await Promise.all([sawyerContext.close(), buyerContext.close(), deskContext.close()]);

@@ -1,6 +1,7 @@
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { appUrl, desktop, launchChromium, phone, screenshot, watchForPageErrors } from "./browser.ts";
+import { paintedSlabPhoto } from "./fixtures.ts";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -17,27 +18,6 @@ async function signIn(page: Page) {
   await page.getByLabel("Password").fill(SAWYER.password);
   await page.locator('[data-test="submit"]').click();
   await page.waitForURL(`${appUrl}/yard`, { timeout: 15_000 });
-}
-
-/** A phone photo made by the browser itself: a canvas painted like a slab, as JPEG bytes. */
-async function cameraPhoto(page: Page, hue: number): Promise<Buffer> {
-  const dataUrl = await page.evaluate((h) => {
-    const canvas = document.createElement("canvas");
-    canvas.width = 1200;
-    canvas.height = 800;
-    const context = canvas.getContext("2d")!;
-    context.fillStyle = "#8d8a83";
-    context.fillRect(0, 0, 1200, 800);
-    context.fillStyle = `hsl(${h}, 45%, 45%)`;
-    context.beginPath();
-    context.moveTo(60, 260);
-    context.bezierCurveTo(400, 200, 800, 300, 1140, 240);
-    context.lineTo(1140, 560);
-    context.bezierCurveTo(800, 600, 400, 520, 60, 580);
-    context.fill();
-    return canvas.toDataURL("image/jpeg", 0.85);
-  }, hue);
-  return Buffer.from(dataUrl.split(",")[1]!, "base64");
 }
 
 const visible = (page: Page, selector: string) =>
@@ -166,9 +146,9 @@ describe("a sawyer's yard from a phone", () => {
     // The yard's signal drops: photos and the save wait on the phone.
     await context.setOffline(true);
     await page.locator('[data-test="photo-input"]').setInputFiles([
-      { name: "top-face.jpg", mimeType: "image/jpeg", buffer: await cameraPhoto(page, 25) },
-      { name: "end-grain.jpg", mimeType: "image/jpeg", buffer: await cameraPhoto(page, 30) },
-      { name: "live-edge.jpg", mimeType: "image/jpeg", buffer: await cameraPhoto(page, 20) },
+      { name: "top-face.jpg", mimeType: "image/jpeg", buffer: await paintedSlabPhoto(page, 25) },
+      { name: "end-grain.jpg", mimeType: "image/jpeg", buffer: await paintedSlabPhoto(page, 30) },
+      { name: "live-edge.jpg", mimeType: "image/jpeg", buffer: await paintedSlabPhoto(page, 20) },
     ]);
     await page.locator('[data-test="save"]').click();
     await expect
