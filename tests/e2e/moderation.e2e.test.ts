@@ -1,6 +1,7 @@
 import type { APIRequestContext, Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO_ADMIN, signIn as signInThroughForm, type SignInAs } from "./browser.ts";
+import { apiSignIn, liveListing, newSawyer, slabPhoto } from "./fixtures.ts";
 import { appUrl, desktop, launchChromium, newestMailTo, openPage, phone, screenshot, settled, watchForPageErrors } from "./browser.ts";
 
 /*
@@ -159,7 +160,14 @@ describe("moderation desk", () => {
   });
 
   it("every admin screen renders at phone and desktop width, with a report and a settings change on the way", async () => {
-    // A buyer reports the approved listing so the reports queue has something in it.
+    // A buyer reports a live listing (made for this test) so the reports queue has something in it.
+    const listingId = await liveListing(await newSawyer("chainsaw"), await apiSignIn(ADMIN), await slabPhoto(browser, 40), {
+      title: `Honey locust bench top with a wide crack ${Date.now().toString(36)}`,
+      speciesSlug: "honey-locust",
+      lengthMm: 1830,
+      widthStationsMm: [420, 400, 390],
+      rateMinor: 52000,
+    });
     const buyerContext = await browser.newContext({ viewport: phone, deviceScaleFactor: 2, isMobile: true, hasTouch: true });
     const buyerPage = await buyerContext.newPage();
     await signIn(buyerPage, { email: "shop@fernhill-furniture.test", password: "fernhill-benches-2026" }, "/account");
