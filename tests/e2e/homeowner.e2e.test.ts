@@ -2,6 +2,7 @@ import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO_ADMIN, signIn as signInThroughForm, type SignInAs } from "./browser.ts";
 import { appUrl, desktop, launchChromium, newestMailTo, openPage, phone, screenshot, settled, watchForPageErrors } from "./browser.ts";
+import { buyerEndpoints } from "@grainyard/contracts";
 import { apiSignIn, liveListing, newBuyer, newSawyer, paintedSlabPhoto, slabPhoto as photoOfSlab } from "./fixtures.ts";
 
 /*
@@ -23,7 +24,6 @@ const SEARCH_NAME = "Our dining table for eight";
 const NEW_LISTING_TITLE = `White oak dining slab from the Harbour Road storm, seats eight ${Date.now().toString(36)}`;
 
 let browser: Browser;
-let newListingId = "";
 beforeAll(async () => {
   browser = await launchChromium();
 });
@@ -165,7 +165,7 @@ describe("a homeowner's dining table", () => {
       priceMode: "fixed",
       rateMinor: 145_000,
     });
-    newListingId = made.listing.id;
+    const newListingId: string = made.listing.id;
     await apiCall(
       sawyerPage,
       "POST",
@@ -218,6 +218,17 @@ describe("a homeowner's dining table", () => {
   });
 
   it("shows the buyer tools at phone width: save on the catalogue, saved searches, favourites, the slab page", async () => {
+    // Its own buyer with one saved search and one favourite, and its own slab (fixtures.ts).
+    const [yard, buyer, desk] = await Promise.all([newSawyer("tools"), newBuyer("maker"), apiSignIn(ADMIN)]);
+    const listingId = await liveListing(yard, desk, await photoOfSlab(browser, 30), {
+      title: `Red oak dining slab for eight ${Date.now().toString(36)}`,
+      speciesSlug: "northern-red-oak",
+      lengthMm: 2740,
+      widthStationsMm: [1000, 980, 970],
+      rateMinor: 190000,
+    });
+    await buyer.api.call(buyerEndpoints.saveSearch, { body: { name: SEARCH_NAME, query: "seats=8", alerts: true } });
+    await buyer.api.call(buyerEndpoints.addFavourite, { params: { listingId } });
     const context = await phoneContext("en-GB");
     const page = await context.newPage();
     const problems = watchForPageErrors(page);
@@ -227,11 +238,11 @@ describe("a homeowner's dining table", () => {
     await page.locator('[data-test="save-search-open"]').click();
     await visible(page, '[data-test="save-search-sign-in"]');
     await shot(page, "browse-save-sign-in-390");
-    await openPage(page, `/slabs/${newListingId}`);
+    await openPage(page, `/slabs/${listingId}`);
     await visible(page, '[data-test="ask-sign-in"]');
     await shot(page, "slab-page-anonymous-390");
 
-    await signIn(page, HOMEOWNER, "/account");
+    await signIn(page, buyer, "/account");
     await shot(page, "account-buyer-390");
     await page.locator('[data-test="menu-toggle"]').click();
     await visible(page, 'a[href="/saved-searches"]');
@@ -259,7 +270,7 @@ describe("a homeowner's dining table", () => {
     await visible(page, '[data-test="favourites"] [data-test="catalogue-card"]');
     await shot(page, "favourites-390");
 
-    await openPage(page, `/slabs/${newListingId}`);
+    await openPage(page, `/slabs/${listingId}`);
     await visible(page, '[data-test="ask-sawyer"]');
     await shot(page, "slab-page-buyer-390");
     expect(problems).toEqual([]);
